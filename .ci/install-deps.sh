@@ -1,0 +1,29 @@
+#!/usr/bin/env bash
+# Install the Debian packages lobecast needs to build and test.
+# Idempotent: does nothing when everything is already present.
+set -euo pipefail
+
+packages=(
+  build-essential cmake pkg-config
+  libeigen3-dev libfftw3-dev libhdf5-dev libgtest-dev libgmock-dev
+  libtomlplusplus-dev libcli11-dev libcairo2-dev
+  python3-numpy python3-scipy python3-h5py hdf5-tools
+)
+
+missing=()
+for p in "${packages[@]}"; do
+  if ! dpkg-query -W -f='${Status}' "$p" 2>/dev/null | grep -q "install ok installed"; then
+    missing+=("$p")
+  fi
+done
+
+if [ ${#missing[@]} -eq 0 ]; then
+  exit 0
+fi
+
+echo "lobecast: installing missing packages: ${missing[*]}" >&2
+SUDO=""
+if [ "$(id -u)" -ne 0 ]; then SUDO="sudo"; fi
+export DEBIAN_FRONTEND=noninteractive
+$SUDO apt-get update -qq
+$SUDO apt-get install -y -qq --no-install-recommends "${missing[@]}"

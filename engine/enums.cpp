@@ -1,0 +1,85 @@
+// Enum names, current vectors and array validation (types.h).
+#include <algorithm>
+#include <cctype>
+#include <cmath>
+#include <sstream>
+
+#include "engine/error.h"
+#include "engine/ground.h"
+#include "engine/types.h"
+
+namespace lobecast {
+namespace {
+
+bool EqualsIgnoreCase(std::string_view a, std::string_view b) {
+  return a.size() == b.size() &&
+         std::equal(a.begin(), a.end(), b.begin(), [](char x, char y) {
+           return std::tolower(static_cast<unsigned char>(x)) ==
+                  std::tolower(static_cast<unsigned char>(y));
+         });
+}
+
+bool AllFinite(const Vec3& v) { return v.allFinite(); }
+
+}  // namespace
+
+std::string_view ToString(Distribution d) {
+  return d == Distribution::kTriangular ? "triangular" : "uniform";
+}
+
+std::string_view ToString(Ground g) { return g == Ground::kPec ? "pec" : "none"; }
+
+std::optional<Distribution> DistributionFromString(std::string_view s) {
+  if (EqualsIgnoreCase(s, "uniform")) return Distribution::kUniform;
+  if (EqualsIgnoreCase(s, "triangular")) return Distribution::kTriangular;
+  return std::nullopt;
+}
+
+std::optional<Ground> GroundFromString(std::string_view s) {
+  if (EqualsIgnoreCase(s, "none")) return Ground::kNone;
+  if (EqualsIgnoreCase(s, "pec")) return Ground::kPec;
+  return std::nullopt;
+}
+
+Eigen::VectorXcd CurrentsOf(const Array& array) {
+  Eigen::VectorXcd i(static_cast<Eigen::Index>(array.size()));
+  for (std::size_t n = 0; n < array.size(); ++n) i[static_cast<Eigen::Index>(n)] = array.dipoles[n].current_a;
+  return i;
+}
+
+void Validate(const Array& array) {
+  auto fail = [](std::size_t n, const std::string& what) {
+    std::ostringstream s;
+    s << "dipole " << n << ": " << what;
+    throw InvalidArgument(s.str());
+  };
+  if (!std::isfinite(array.frequency_hz) || array.frequency_hz <= 0) {
+    std::ostringstream s;
+    s << "frequency_hz: found " << array.frequency_hz << ", expected a finite number > 0";
+    throw InvalidArgument(s.str());
+  }
+  if (array.dipoles.empty()) throw InvalidArgument("array: found no dipoles, expected at least one");
+  for (std::size_t n = 0; n < array.size(); ++n) {
+    const Dipole& d = array.dipoles[n];
+    if (!AllFinite(d.position_m)) fail(n, "position is not finite");
+    if (!AllFinite(d.orientation) || std::abs(d.orientation.norm() - 1.0) > 1e-9) {
+      std::ostringstream s;
+      s << "orientation has length " << d.orientation.norm() << ", expected a unit vector";
+      fail(n, s.str());
+    }
+    if (!std::isfinite(d.length_m) || d.length_m <= 0) {
+      std::ostringstream s;
+      s << "length_m: found " << d.length_m << ", expected a finite number > 0";
+      fail(n, s.str());
+    }
+    if (!std::isfinite(d.current_a.real()) || !std::isfinite(d.current_a.imag()))
+      fail(n, "current is not finite");
+    if (array.ground == Ground::kPec && !(d.position_m.z() > 0)) {
+      std::ostringstream s;
+      s << "z = " << d.position_m.z() << " m with a PEC ground plane at z = 0, expected z > 0";
+      fail(n, s.str());
+    }
+  }
+}
+
+}  // namespace lobecast

@@ -1,0 +1,101 @@
+// The whole pattern job on a grid (pattern.h).
+#include "engine/pattern.h"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <sstream>
+
+#include <omp.h>
+
+#include "engine/error.h"
+#include "engine/polarization.h"
+#include "engine/radiated_power.h"
+
+namespace lobecast {
+namespace {
+
+using Clock = std::chrono::steady_clock;
+double SecondsSince(Clock::time_point t0) {
+  return std::chrono::duration<double>(Clock::now() - t0).count();
+}
+
+}  // namespace
+
+PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
+                             const PatternOptions& options) {
+  Validate(array);
+  if (grid.size() == 0) throw InvalidArgument("grid: found no directions, expected at least one");
+  PatternResult r;
+  r.grid = grid;
+  ComputeSummary& s = r.summary;
+  s.threads_used = options.num_threads > 0 ? options.num_threads : omp_get_max_threads();
+  s.num_dipoles = array.size();
+
+  auto t0 = Clock::now();
+  const Eigen::VectorXcd currents = CurrentsOf(array);
+  r.resistance_ohm = ResistanceMatrix(array);
+  r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
+  r.active_resistance_ohm = ActiveResistance(r.resistance_ohm, currents);
+  s.radiated_power_w = r.radiated_power_w;
+  s.seconds_power = SecondsSince(t0);
+  if (!(r.radiated_power_w > 0)) {
+    std::ostringstream m;
+    m << "currents: the array radiates " << r.radiated_power_w
+      << " W, so directivity is undefined; expected at least one non-zero current";
+    throw InvalidArgument(m.str());
+  }
+
+  t0 = Clock::now();
+  const FieldPlan plan(array, Directions::FromGrid(grid), FieldOptions{s.threads_used});
+  s.num_sources = plan.num_sources();
+  s.num_directions = plan.num_directions();
+  s.seconds_plan = SecondsSince(t0);
+
+  t0 = Clock::now();
+  const std::size_t n = plan.num_directions();
+  r.field.e_theta.resize(static_cast<Eigen::Index>(n));
+  r.field.e_phi.resize(static_cast<Eigen::Index>(n));
+  // Chunks only so progress can be reported; each is an independent plan execution.
+  const std::size_t chunk = std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan.num_sources()));
+  FarField part;
+  for (std::size_t first = 0; first < n; first += chunk) {
+    const std::size_t count = std::min(chunk, n - first);
+    plan.ExecuteRange(currents, first, count, part);
+    r.field.e_theta.segment(static_cast<Eigen::Index>(first), static_cast<Eigen::Index>(count)) = part.e_theta;
+    r.field.e_phi.segment(static_cast<Eigen::Index>(first), static_cast<Eigen::Index>(count)) = part.e_phi;
+    if (options.progress) options.progress(static_cast<double>(first + count) / static_cast<double>(n));
+  }
+  s.pairs = static_cast<double>(n) * static_cast<double>(plan.num_sources());
+  s.seconds_field = SecondsSince(t0);
+
+  t0 = Clock::now();
+  const auto nn = static_cast<Eigen::Index>(n);
+  r.intensity_w_sr.resize(nn);
+  r.directivity.resize(nn);
+  r.axial_ratio_db.resize(nn);
+  r.tilt_deg.resize(nn);
+  r.sense.resize(n);
+  const double to_d = 4.0 * kPi / r.radiated_power_w;
+#pragma omp parallel for num_threads(s.threads_used) schedule(static)
+  for (Eigen::Index i = 0; i < nn; ++i) {
+    const Complex et = r.field.e_theta[i], ep = r.field.e_phi[i];
+    // U = |rE|^2 / (2 eta0) for peak phasors (CONVENTIONS §1).
+    const double u = (std::norm(et) + std::norm(ep)) / (2.0 * kEta0_ohm);
+    r.intensity_w_sr[i] = u;
+    r.directivity[i] = to_d * u;
+    const Polarization p = PolarizationOf(et, ep);
+    r.axial_ratio_db[i] = p.axial_ratio_db;
+    r.tilt_deg[i] = p.tilt_deg;
+    r.sense[static_cast<std::size_t>(i)] = p.sense;
+  }
+  Eigen::Index peak = 0;
+  s.peak_directivity = r.directivity.maxCoeff(&peak);
+  const std::size_t np = grid.phi_deg.size();
+  s.peak_theta_deg = grid.theta_deg[static_cast<std::size_t>(peak) / np];
+  s.peak_phi_deg = grid.phi_deg[static_cast<std::size_t>(peak) % np];
+  s.seconds_polarization = SecondsSince(t0);
+  return r;
+}
+
+}  // namespace lobecast

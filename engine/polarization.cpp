@@ -1,0 +1,84 @@
+// Polarization ellipse, Stokes parameters and co/cross decomposition (polarization.h).
+#include "engine/polarization.h"
+
+#include <cctype>
+#include <cmath>
+#include <limits>
+#include <string>
+
+namespace lobecast {
+
+Polarization PolarizationOf(Complex et, Complex ep) {
+  constexpr double kInvSqrt2 = 0.70710678118654752440;
+  const Complex j(0.0, 1.0);
+  Polarization p;
+  p.e_right = (et + j * ep) * kInvSqrt2;
+  p.e_left = (et - j * ep) * kInvSqrt2;
+  const double at = std::norm(et), ap = std::norm(ep);
+  const Complex cross = et * std::conj(ep);
+  p.s0 = at + ap;
+  p.s1 = at - ap;
+  p.s2 = 2.0 * cross.real();
+  p.s3 = -2.0 * cross.imag();
+
+  const double r = std::abs(p.e_right), l = std::abs(p.e_left);
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  if (r + l == 0.0) {
+    p.axial_ratio_db = nan;
+    p.tilt_deg = nan;
+    p.sense = 0;
+    return p;
+  }
+  // IEEE Std 145-2013: AR = (|E_R| + |E_L|) / | |E_R| - |E_L| |.
+  const double diff = std::abs(r - l);
+  if (diff <= kLinearTolerance * (r + l)) {
+    p.axial_ratio_db = std::numeric_limits<double>::infinity();
+    p.sense = 0;
+  } else {
+    p.axial_ratio_db = 20.0 * std::log10((r + l) / diff);
+    p.sense = r > l ? 1 : -1;
+  }
+  // tau = 1/2 atan2(S2, S1), folded into (-90, 90]. Undefined for circular
+  // polarization; atan2(0, 0) = 0 gives 0 there.
+  double tau = 0.5 * std::atan2(p.s2, p.s1) / kDegree;
+  if (tau <= -90.0) tau += 180.0;
+  p.tilt_deg = tau;
+  return p;
+}
+
+std::string_view ToString(PolarizationReference r) {
+  switch (r) {
+    case PolarizationReference::kLinearX: return "x";
+    case PolarizationReference::kLinearY: return "y";
+    case PolarizationReference::kRightCircular: return "rhcp";
+    case PolarizationReference::kLeftCircular: return "lhcp";
+  }
+  return "x";
+}
+
+std::optional<PolarizationReference> PolarizationReferenceFromString(std::string_view s) {
+  std::string lower(s);
+  for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  if (lower == "x") return PolarizationReference::kLinearX;
+  if (lower == "y") return PolarizationReference::kLinearY;
+  if (lower == "rhcp") return PolarizationReference::kRightCircular;
+  if (lower == "lhcp") return PolarizationReference::kLeftCircular;
+  return std::nullopt;
+}
+
+CoCross CoCrossOf(Complex et, Complex ep, double phi_rad, PolarizationReference ref) {
+  const double c = std::cos(phi_rad), s = std::sin(phi_rad);
+  switch (ref) {
+    case PolarizationReference::kLinearX: return {et * c - ep * s, et * s + ep * c};
+    case PolarizationReference::kLinearY: return {et * s + ep * c, et * c - ep * s};
+    case PolarizationReference::kRightCircular:
+    case PolarizationReference::kLeftCircular: {
+      const Polarization p = PolarizationOf(et, ep);
+      return ref == PolarizationReference::kRightCircular ? CoCross{p.e_right, p.e_left}
+                                                           : CoCross{p.e_left, p.e_right};
+    }
+  }
+  return {et, ep};
+}
+
+}  // namespace lobecast

@@ -1,0 +1,50 @@
+// Polarization of a far-field phasor (E_theta, E_phi), exp(+j w t) convention.
+// Sense and axial ratio as IEEE Std 145-2013: right-hand when the field rotates
+// counter-clockwise about r_hat with the thumb along r_hat. With exp(+j w t) the
+// RHCP unit vector is (theta_hat - j phi_hat)/sqrt2, so
+//   E_R = (E_theta + j E_phi)/sqrt2,  E_L = (E_theta - j E_phi)/sqrt2.
+// Co/cross-polarization: Ludwig's third definition (A. C. Ludwig, "The definition
+// of cross polarization", IEEE Trans. Antennas Propag. AP-21, 1973) for a linear
+// x or y reference; for a circular reference co is the chosen hand.
+#pragma once
+
+#include <cstdint>
+#include <optional>
+#include <string_view>
+
+#include "engine/types.h"
+
+namespace lobecast {
+
+struct Polarization {
+  Complex e_right = 0.0;     // V, RHCP component
+  Complex e_left = 0.0;      // V, LHCP component
+  double s0 = 0.0;           // Stokes parameters, V^2: |Et|^2 + |Ep|^2
+  double s1 = 0.0;           // |Et|^2 - |Ep|^2
+  double s2 = 0.0;           // 2 Re(Et Ep*)
+  double s3 = 0.0;           // -2 Im(Et Ep*) = |E_R|^2 - |E_L|^2 (positive for right-hand)
+  double axial_ratio_db = 0; // 0 dB circular, +inf linear, NaN where the field is zero
+  double tilt_deg = 0;       // major axis from theta_hat toward phi_hat, (-90, 90]; NaN at a zero
+  std::int8_t sense = 0;     // +1 right, -1 left, 0 linear (or zero field)
+};
+
+// |E_R| and |E_L| closer than kLinearTolerance * (|E_R| + |E_L|) count as linear
+// (AR = +inf, sense 0): below that the difference is rounding noise.
+inline constexpr double kLinearTolerance = 1e-12;
+
+Polarization PolarizationOf(Complex e_theta, Complex e_phi);
+
+enum class PolarizationReference { kLinearX, kLinearY, kRightCircular, kLeftCircular };
+std::string_view ToString(PolarizationReference r);
+// Accepts "x", "y", "rhcp", "lhcp" (case-insensitive).
+std::optional<PolarizationReference> PolarizationReferenceFromString(std::string_view s);
+
+struct CoCross {
+  Complex co;     // V
+  Complex cross;  // V
+};
+// Ludwig-3 x reference: co = Et cos(phi) - Ep sin(phi), cross = Et sin(phi) + Ep cos(phi);
+// y reference: co = Et sin(phi) + Ep cos(phi), cross = Et cos(phi) - Ep sin(phi).
+CoCross CoCrossOf(Complex e_theta, Complex e_phi, double phi_rad, PolarizationReference ref);
+
+}  // namespace lobecast

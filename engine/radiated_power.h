@@ -1,0 +1,42 @@
+// Radiated power in closed form through the mutual radiation resistance matrix
+// (CONVENTIONS §1). No quadrature: P = 1/2 I^H R I with
+//
+//   R_mn = (k^2 eta0 Le_m Le_n / 4 pi) [ (u_m.u_n)(j0(x) - j1(x)/x) + (u_m.d)(u_n.d) j2(x) ]
+//
+// x = k|r_m - r_n|, d the unit separation, limit (2/3)(u_m.u_n) at x = 0. It follows
+// from integrating U over the sphere with
+// int (I - r r) exp(j x r.d) dOmega = 4 pi [I (j0 - j1/x) + d d j2].
+// With a PEC ground R = R_direct + R_to_images (half the power of dipoles plus
+// images in free space).
+#pragma once
+
+#include <Eigen/Core>
+
+#include "engine/types.h"
+
+namespace lobecast {
+
+// f(x) = j0(x) - j1(x)/x and j2(x), the two radial functions of R_mn. For x < 2
+// both come from their Maclaurin series (the closed forms cancel catastrophically
+// there), so they stay accurate to ~1e-15 relative down to x = 0.
+struct RadiationKernel {
+  double f;
+  double j2;
+};
+RadiationKernel RadiationKernelAt(double x);
+
+// R_mn (ohm) between two elemental dipoles at wavenumber k, free space.
+double MutualResistance(const Dipole& m, const Dipole& n, double k_rad_m);
+
+// The N x N mutual radiation resistance matrix (ohm), real symmetric positive
+// semidefinite, including the ground plane. O(N^2) time and memory.
+Eigen::MatrixXd ResistanceMatrix(const Array& array);
+
+// P = 1/2 Re(I^H R I), W.
+double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a);
+
+// Active (driving-point) resistance Re(sum_n R_mn I_n / I_m), ohm; NaN where I_m = 0.
+Eigen::VectorXd ActiveResistance(const Eigen::MatrixXd& resistance_ohm,
+                                 const Eigen::VectorXcd& currents_a);
+
+}  // namespace lobecast
