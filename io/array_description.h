@@ -1,0 +1,49 @@
+// An array description as read from a file: the engine's Array and grid, plus
+// everything io/ and cli/ need to talk about it (names, source text, where each
+// dipole was written, warnings). Describe first, compute later: the engine never
+// sees files, and error messages can still point at a line.
+#pragma once
+
+#include <string>
+#include <vector>
+
+#include "engine/grid.h"
+#include "engine/types.h"
+#include "io/input_error.h"
+
+namespace lobecast {
+
+struct ArrayDescription {
+  // Free text carried to the output; empty when the file has no `name` /
+  // `description` key.
+  std::string name;
+  std::string description;
+
+  // The TOML file as given (path for messages) and its verbatim text, embedded in
+  // the HDF5 result so a result file documents its own input.
+  std::string source_path;
+  std::string source_text;
+  // The CSV file named by `dipoles_csv` (resolved path) and its verbatim text;
+  // both empty when the description has no CSV.
+  std::string csv_path;
+  std::string csv_text;
+
+  // Unit the file used for positions and lengths ("m", "cm", "mm", "wavelength").
+  // Informational: every value in `array` is already in metres.
+  std::string length_unit = "m";
+
+  Array array;  // frequency, ground and dipoles, SI; orientations are unit vectors
+
+  AngleRange theta;  // degrees, as written (or the defaults)
+  AngleRange phi;
+  AngularGrid grid;  // theta.Values() x phi.Values()
+
+  // Where dipole i was defined: its [[dipole]] table header or its CSV row.
+  std::vector<SourceLocation> dipole_locations;
+
+  // Accepted but worth saying, one line each, "FILE:LINE:COL: warning: ..."
+  // (e.g. a dipole longer than lambda/10, a grid stop not on the step lattice).
+  std::vector<std::string> warnings;
+};
+
+}  // namespace lobecast

@@ -1,0 +1,49 @@
+// Dipoles from a CSV table, for arrays too large to write as [[dipole]] tables.
+//
+// Format (one dipole per row):
+//   # comment lines and blank lines are skipped anywhere
+//   x, y, z, ux, uy, uz, length, magnitude, phase, distribution
+//   0.0, 0.0, 0.17, 0, 0, 1, 0.01, 1.0, 0.0, uniform
+// - The first non-blank, non-comment line is the header. Columns are found by
+//   header name (case-insensitive, any order); x, y, z, ux, uy, uz, length,
+//   magnitude and phase are required, distribution is optional (an empty cell or a
+//   missing column means uniform). Unknown or repeated header names are errors,
+//   like unknown TOML keys.
+// - Cells are separated by commas and trimmed of blanks; there is no quoting (no
+//   cell ever needs a comma). Every row has exactly as many cells as the header.
+// - x, y, z and length are in the description's length_unit; (ux, uy, uz) is any
+//   non-zero vector, normalized on read; magnitude is A peak (>= 0), phase degrees.
+//
+// Errors are InputError located at the CSV file, line and column of the cell,
+// keyed 'dipole[N].<column>' with N the dipole's 0-based index in the whole array.
+#pragma once
+
+#include <cstddef>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "engine/types.h"
+#include "io/input_error.h"
+
+namespace lobecast {
+
+// Header names the reader knows, in the order error messages list them.
+inline constexpr std::string_view kCsvColumnList =
+    "x, y, z, ux, uy, uz, length, magnitude, phase, distribution";
+
+struct CsvDipole {
+  Dipole dipole;               // position and length in metres, orientation normalized
+  SourceLocation row;          // the row (column 1)
+  SourceLocation z_cell;       // the z cell, for ground-plane checks
+  SourceLocation length_cell;  // the length cell, for wavelength checks
+};
+
+// metres_per_unit converts x, y, z and length to metres; first_index is the array
+// index of the first row's dipole (the number of dipoles defined before the CSV).
+// Checks what a row alone can tell (numbers, finite, length > 0, magnitude >= 0,
+// orientation non-zero, distribution known); the caller checks the rest.
+std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string& path_for_messages,
+                                       double metres_per_unit, std::size_t first_index);
+
+}  // namespace lobecast
