@@ -34,20 +34,22 @@ std::string JoinList(std::initializer_list<std::string_view> names) {
   return out;
 }
 
-// Levenshtein distance, for "did you mean" hints on unknown keys.
+// Edit distance counting a swap of neighbours as one edit (optimal string
+// alignment), for "did you mean" hints on unknown keys: "stpe" is one edit from "step".
 std::size_t EditDistance(std::string_view a, std::string_view b) {
-  std::vector<std::size_t> row(b.size() + 1);
-  for (std::size_t j = 0; j <= b.size(); ++j) row[j] = j;
+  std::vector<std::vector<std::size_t>> d(a.size() + 1, std::vector<std::size_t>(b.size() + 1));
+  for (std::size_t i = 0; i <= a.size(); ++i) d[i][0] = i;
+  for (std::size_t j = 0; j <= b.size(); ++j) d[0][j] = j;
   for (std::size_t i = 1; i <= a.size(); ++i) {
-    std::size_t diag = row[0];
-    row[0] = i;
     for (std::size_t j = 1; j <= b.size(); ++j) {
-      const std::size_t up = row[j];
-      row[j] = std::min({row[j] + 1, row[j - 1] + 1, diag + (a[i - 1] == b[j - 1] ? 0 : 1)});
-      diag = up;
+      d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1,
+                          d[i - 1][j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1)});
+      if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) {
+        d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
+      }
     }
   }
-  return row[b.size()];
+  return d[a.size()][b.size()];
 }
 
 // What a node holds, for "found X".
@@ -417,20 +419,20 @@ class Reader {
     for (std::size_t i = 0; i < out.array.dipoles.size(); ++i) {
       const Dipole& d = out.array.dipoles[i];
       const DipoleSite& s = sites_[i];
-      const std::string found = FormatNumber(d.length_m) + " m (" +
-                                FormatNumber(d.length_m / lambda) + " wavelength)";
+      const std::string found = FormatApprox(d.length_m) + " m (" +
+                                FormatApprox(d.length_m / lambda, 4) + " wavelength)";
       if (d.length_m > 0.5 * lambda) {
         throw InputError(s.length, s.length_key, found,
-                         "a length <= lambda/2 = " + FormatNumber(0.5 * lambda) +
+                         "a length <= lambda/2 = " + FormatApprox(0.5 * lambda) +
                              " m; an elemental dipole model is meaningless beyond that");
       }
       if (d.length_m > 0.1 * lambda) {
         out.warnings.push_back(s.length.ToString() + ": warning: key '" + s.length_key + "': " +
-                               found + " is longer than lambda/10 = " + FormatNumber(0.1 * lambda) +
+                               found + " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) +
                                " m; the short-dipole model holds for lengths well below lambda/10");
       }
       if (out.array.ground == Ground::kPec && !(d.position_m.z() > 0.0)) {
-        throw InputError(s.position, s.position_key, "z = " + FormatNumber(d.position_m.z()) + " m",
+        throw InputError(s.position, s.position_key, "z = " + FormatApprox(d.position_m.z()) + " m",
                          "z > 0: with ground = \"pec\" every dipole must be above the plane z = 0");
       }
     }

@@ -43,6 +43,13 @@ std::string FormatNumber(double value) {
   return std::string(buf.data(), result.ptr);
 }
 
+std::string FormatApprox(double value, int digits) {
+  std::array<char, 64> buf{};
+  const auto result = std::to_chars(buf.data(), buf.data() + buf.size(), value,
+                                    std::chars_format::general, digits);
+  return std::string(buf.data(), result.ptr);
+}
+
 std::optional<double> ParseNumber(std::string_view text) {
   text = Trim(text);
   if (text.empty()) return std::nullopt;

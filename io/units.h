@@ -16,6 +16,10 @@ namespace lobecast {
 // "nan", "-inf").
 std::string FormatNumber(double value);
 
+// `value` to `digits` significant digits ("0.0491463"), for derived values in
+// messages where the full round-trip text would only be noise.
+std::string FormatApprox(double value, int digits = 6);
+
 // The whole of `text` (surrounding blanks ignored, a leading '+' allowed) as a
 // decimal floating-point number; std::nullopt if anything else is left over.
 // "nan" and "inf" parse; callers check finiteness so they can say so.
