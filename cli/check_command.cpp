@@ -1,0 +1,28 @@
+// `lobecast check ARRAY.toml`: validate and describe an array without computing.
+#include <cstdio>
+#include <memory>
+#include <string>
+
+#include "cli/commands.h"
+#include "cli/summary_text.h"
+#include "io/array_reader.h"
+
+namespace lobecast::cli {
+
+void AddCheckCommand(CLI::App& app) {
+  auto input = std::make_shared<std::string>();
+  CLI::App* cmd = app.add_subcommand(
+      "check",
+      "Read and validate an array description and describe it (frequency in Hz, "
+      "wavelength in m, positions in m, currents in A peak and degrees) without computing. "
+      "Exit code 0 when valid, 2 when rejected.");
+  cmd->add_option("ARRAY", *input, "Array description (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->callback([input] {
+    const ArrayDescription desc = ReadArrayDescription(*input);
+    for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+    std::fputs(DescribeArray(desc).c_str(), stdout);
+    std::printf("ok           %s is a valid array description\n", input->c_str());
+  });
+}
+
+}  // namespace lobecast::cli

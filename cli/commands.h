@@ -1,0 +1,13 @@
+// Each lobecast subcommand registers itself on the top-level CLI11 app. A
+// command's callback throws on failure; main() alone maps errors to exit codes
+// (CONVENTIONS §4: 2 bad input, 1 failure while running, 0 success).
+#pragma once
+
+#include <CLI/CLI.hpp>
+
+namespace lobecast::cli {
+
+void AddComputeCommand(CLI::App& app);
+void AddCheckCommand(CLI::App& app);
+
+}  // namespace lobecast::cli

@@ -1,0 +1,145 @@
+#include "cli/summary_text.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <sstream>
+#include <string>
+
+#include "engine/polarization.h"
+
+namespace lobecast::cli {
+namespace {
+
+std::string Printf(const char* fmt, auto... args) {
+  char buf[256];
+  std::snprintf(buf, sizeof buf, fmt, args...);
+  return buf;
+}
+
+std::string FormatRange(const AngleRange& r, std::size_t count) {
+  if (count == 1) return Printf("%g deg", r.start_deg);
+  return Printf("%g..%g deg step %g (%zu)", r.start_deg, r.stop_deg, r.step_deg, count);
+}
+
+std::string FormatCurrent(Complex i) {
+  return Printf("%10.4g A  %8.2f deg", std::abs(i), std::arg(i) / kDegree);
+}
+
+std::string SenseName(std::int8_t sense) {
+  return sense > 0 ? "right-hand" : sense < 0 ? "left-hand" : "linear";
+}
+
+constexpr std::size_t kFullTableUpTo = 16;
+
+}  // namespace
+
+std::string FormatFrequency(double hz) {
+  const double a = std::abs(hz);
+  if (a >= 1e12) return Printf("%.9g THz", hz / 1e12);
+  if (a >= 1e9) return Printf("%.9g GHz", hz / 1e9);
+  if (a >= 1e6) return Printf("%.9g MHz", hz / 1e6);
+  if (a >= 1e3) return Printf("%.9g kHz", hz / 1e3);
+  return Printf("%.9g Hz", hz);
+}
+
+std::string FormatDb(double linear) {
+  if (linear <= 0) return "-inf";
+  return Printf("%.2f", 10.0 * std::log10(linear));
+}
+
+std::string DescribeArray(const ArrayDescription& desc) {
+  const Array& a = desc.array;
+  std::ostringstream s;
+  s << "array        " << (desc.name.empty() ? "(unnamed)" : "\"" + desc.name + "\"") << "  ["
+    << desc.source_path << "]\n";
+  if (!desc.description.empty()) s << "description  " << desc.description << "\n";
+  s << "frequency    " << FormatFrequency(a.frequency_hz)
+    << Printf("   wavelength %.6g m   k = %.6g rad/m\n", a.wavelength_m(), a.wavenumber_rad_m());
+  s << "ground       "
+    << (a.ground == Ground::kPec ? "PEC plane z = 0 (image theory)" : "none (free space)") << "\n";
+  s << "grid         theta " << FormatRange(desc.theta, desc.grid.theta_deg.size()) << ", phi "
+    << FormatRange(desc.phi, desc.grid.phi_deg.size()) << " = " << desc.grid.size()
+    << " directions\n";
+  s << "dipoles      " << a.size() << (desc.csv_path.empty() ? "" : " (rows from " + desc.csv_path + ")")
+    << "\n";
+  const std::size_t shown = std::min(a.size(), kFullTableUpTo);
+  s << "     #     x (m)      y (m)      z (m)    ux     uy     uz   length (m)  dist.       "
+       "|I|        phase\n";
+  for (std::size_t n = 0; n < shown; ++n) {
+    const Dipole& d = a.dipoles[n];
+    s << Printf("  %4zu %10.4g %10.4g %10.4g %6.3f %6.3f %6.3f %11.4g  %-10s", n,
+                d.position_m.x(), d.position_m.y(), d.position_m.z(), d.orientation.x(),
+                d.orientation.y(), d.orientation.z(), d.length_m,
+                std::string(ToString(d.distribution)).c_str())
+      << FormatCurrent(d.current_a) << "\n";
+  }
+  if (shown < a.size()) s << "  ... " << a.size() - shown << " more\n";
+  double longest = 0;
+  for (const Dipole& d : a.dipoles) longest = std::max(longest, d.length_m);
+  s << Printf("longest      %.4g m = %.4g wavelengths\n", longest, longest / a.wavelength_m());
+  return s.str();
+}
+
+std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
+                           const std::string& output_path, double wall_seconds) {
+  const Array& a = desc.array;
+  const ComputeSummary& sm = r.summary;
+  std::ostringstream s;
+  s << "array        " << (desc.name.empty() ? "(unnamed)" : "\"" + desc.name + "\"") << ", "
+    << a.size() << " dipole" << (a.size() == 1 ? "" : "s") << ", ground "
+    << ToString(a.ground) << "\n";
+  s << "frequency    " << FormatFrequency(a.frequency_hz)
+    << Printf("   wavelength %.6g m\n", a.wavelength_m());
+  s << "grid         " << r.grid.theta_deg.size() << " theta x " << r.grid.phi_deg.size()
+    << " phi = " << sm.num_directions << " directions\n";
+
+  // Peak on the grid, and the polarization there.
+  Eigen::Index peak = 0;
+  r.directivity.maxCoeff(&peak);
+  const auto ip = static_cast<std::size_t>(peak);
+  s << "peak         D = " << FormatDb(sm.peak_directivity) << " dBi ("
+    << Printf("%.6g", sm.peak_directivity) << Printf(") at theta %g deg, phi %g deg (grid maximum)\n",
+                                                      sm.peak_theta_deg, sm.peak_phi_deg);
+  const double ar = r.axial_ratio_db[peak];
+  s << "polarization at the peak: axial ratio "
+    << (std::isinf(ar) ? std::string("inf") : Printf("%.2f", ar)) << " dB, "
+    << SenseName(r.sense[ip]) << Printf(", tilt %.2f deg\n", r.tilt_deg[peak]);
+  s << Printf("power        %.6g W radiated for the given currents (closed form)\n",
+              r.radiated_power_w);
+
+  const Eigen::VectorXd& ra = r.active_resistance_ohm;
+  if (a.size() <= kFullTableUpTo) {
+    s << "active (driving-point) resistance per element:\n"
+      << "     #          |I|        phase   R_active (ohm)   R_self (ohm)\n";
+    for (std::size_t n = 0; n < a.size(); ++n) {
+      const auto e = static_cast<Eigen::Index>(n);
+      s << Printf("  %4zu ", n) << FormatCurrent(a.dipoles[n].current_a)
+        << Printf("   %14.6g   %12.6g\n", ra[e], r.resistance_ohm(e, e));
+    }
+  } else {
+    Eigen::Index lo = -1, hi = -1;
+    for (Eigen::Index e = 0; e < ra.size(); ++e) {
+      if (std::isnan(ra[e])) continue;
+      if (lo < 0 || ra[e] < ra[lo]) lo = e;
+      if (hi < 0 || ra[e] > ra[hi]) hi = e;
+    }
+    if (lo >= 0) {
+      s << Printf("active resistance: min %.6g ohm (element %ld), max %.6g ohm (element %ld)\n",
+                  ra[lo], static_cast<long>(lo), ra[hi], static_cast<long>(hi));
+    }
+  }
+  s << Printf("time         %.3f s wall (field %.3f s, power %.3f s), %d thread%s, %.3g pairs\n",
+              wall_seconds, sm.seconds_field, sm.seconds_power, sm.threads_used,
+              sm.threads_used == 1 ? "" : "s", sm.pairs);
+  if (!output_path.empty()) s << "wrote        " << output_path << "\n";
+  return s.str();
+}
+
+std::string SafetyNote() {
+  return "note: these are far-field figures for the currents given, not an RF-exposure or "
+         "compliance assessment.\n      Exposure limits near transmitting antennas are set by "
+         "local regulation; follow them and licensed practice.\n";
+}
+
+}  // namespace lobecast::cli
