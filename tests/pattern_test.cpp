@@ -1,0 +1,156 @@
+// The whole pattern job (engine/pattern.h): its pieces agree with the engine parts
+// they come from, directivity integrates to 4 pi, and the summary says what was done.
+#include "engine/pattern.h"
+
+#include <cmath>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "engine/constants.h"
+#include "engine/error.h"
+#include "engine/far_field.h"
+#include "engine/polarization.h"
+#include "engine/radiated_power.h"
+#include "engine/types.h"
+#include "tests/test_util.h"
+
+namespace lobecast {
+namespace {
+
+using testing::TestRng;
+
+// int D dOmega on a theta-phi grid covering the sphere (phi [0, 360) periodic, theta
+// [0, 180]) by the trapezoid rule in both angles, weight sin(theta).
+double IntegrateOverSphere(const AngularGrid& g, const Eigen::VectorXd& v) {
+  const std::size_t nt = g.theta_deg.size(), np = g.phi_deg.size();
+  const double dt = (g.theta_deg[1] - g.theta_deg[0]) * kDegree;
+  const double dp = 2 * kPi / np;
+  double sum = 0;
+  for (std::size_t i = 0; i < nt; ++i) {
+    const double w = (i == 0 || i + 1 == nt ? 0.5 : 1.0) * dt * std::sin(g.theta_deg[i] * kDegree);
+    for (std::size_t j = 0; j < np; ++j) sum += w * dp * v[i * np + j];
+  }
+  return sum;
+}
+
+TEST(Pattern, DirectivityIntegratesToFourPi) {
+  // int D dOmega = 4 pi by definition of D (CONVENTIONS §1). The trapezoid in theta has an
+  // O(h^2) endpoint error, ~1e-4 relative at 1 deg for these small arrays; 1e-3 allows it.
+  TestRng rng(80);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array a = testing::RandomArray(rng, 6, g, 1.0);
+    const AngularGrid grid = AngularGrid::FromRanges({0, 180, 1}, {0, 359, 1});
+    const PatternResult p = ComputePattern(a, grid);
+    EXPECT_NEAR(IntegrateOverSphere(grid, p.directivity), 4 * kPi, 1e-3 * 4 * kPi);
+  }
+}
+
+TEST(Pattern, PartsAgreeWithTheEngine) {
+  TestRng rng(81);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array a = testing::RandomArray(rng, 9, g);
+    const AngularGrid grid = AngularGrid::FromRanges({0, 180, 4}, {0, 356, 4});
+    const PatternResult p = ComputePattern(a, grid);
+    const std::size_t n = grid.size();
+    ASSERT_EQ(p.field.size(), n);
+    ASSERT_EQ(static_cast<std::size_t>(p.intensity_w_sr.size()), n);
+    ASSERT_EQ(static_cast<std::size_t>(p.directivity.size()), n);
+    ASSERT_EQ(static_cast<std::size_t>(p.axial_ratio_db.size()), n);
+    ASSERT_EQ(static_cast<std::size_t>(p.tilt_deg.size()), n);
+    ASSERT_EQ(p.sense.size(), n);
+    EXPECT_EQ(p.grid.theta_deg, grid.theta_deg);
+    EXPECT_EQ(p.grid.phi_deg, grid.phi_deg);
+
+    const FarField f = FieldPlan(a, Directions::FromGrid(grid)).Execute(CurrentsOf(a));
+    const double scale = testing::Magnitude(f).maxCoeff();
+    EXPECT_LE(testing::MaxFieldDifference(p.field, f), 1e-13 * scale);
+
+    const Eigen::MatrixXd r = ResistanceMatrix(a);
+    const double power = RadiatedPower(r, CurrentsOf(a));
+    EXPECT_LE((p.resistance_ohm - r).cwiseAbs().maxCoeff(), 1e-14 * r.cwiseAbs().maxCoeff());
+    EXPECT_NEAR(p.radiated_power_w, power, 1e-13 * power);
+    EXPECT_NEAR(p.summary.radiated_power_w, power, 1e-13 * power);
+
+    double peak = 0;
+    std::size_t peak_i = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+      const double u = (std::norm(f.e_theta[i]) + std::norm(f.e_phi[i])) / (2 * kEta0_ohm);
+      const double umax = scale * scale / (2 * kEta0_ohm);
+      EXPECT_NEAR(p.intensity_w_sr[i], u, 1e-12 * umax);
+      EXPECT_NEAR(p.directivity[i], 4 * kPi * u / power, 1e-12 * 4 * kPi * umax / power);
+      if (p.directivity[i] > peak) peak = p.directivity[i], peak_i = i;
+      const Polarization pol = PolarizationOf(p.field.e_theta[i], p.field.e_phi[i]);
+      EXPECT_EQ(p.sense[i], pol.sense) << "direction " << i;
+      if (std::isfinite(pol.axial_ratio_db)) {
+        EXPECT_NEAR(p.axial_ratio_db[i], pol.axial_ratio_db, 1e-9) << "direction " << i;
+      }
+      if (std::isfinite(pol.tilt_deg)) {
+        EXPECT_NEAR(p.tilt_deg[i], pol.tilt_deg, 1e-9) << "direction " << i;
+      }
+    }
+    EXPECT_DOUBLE_EQ(p.summary.peak_directivity, peak);
+    EXPECT_EQ(p.summary.peak_theta_deg, grid.theta_deg[peak_i / grid.phi_deg.size()]);
+    EXPECT_EQ(p.summary.peak_phi_deg, grid.phi_deg[peak_i % grid.phi_deg.size()]);
+    EXPECT_EQ(p.summary.num_dipoles, a.size());
+    EXPECT_EQ(p.summary.num_sources, g == Ground::kPec ? 2 * a.size() : a.size());
+    EXPECT_EQ(p.summary.num_directions, n);
+    EXPECT_GE(p.summary.threads_used, 1);
+  }
+}
+
+TEST(Pattern, ActiveResistancesSumToThePower) {
+  // sum_m 1/2 |I_m|^2 Ract_m = P (CONVENTIONS §1, active resistance definition).
+  TestRng rng(82);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array a = testing::RandomArray(rng, 14, g);
+    const PatternResult p = ComputePattern(a, AngularGrid::FromRanges({0, 180, 10}, {0, 350, 10}));
+    ASSERT_EQ(p.active_resistance_ohm.size(), 14);
+    double sum = 0;
+    for (int m = 0; m < 14; ++m) sum += 0.5 * std::norm(a.dipoles[m].current_a) * p.active_resistance_ohm[m];
+    EXPECT_NEAR(sum, p.radiated_power_w, 1e-12 * p.radiated_power_w);
+  }
+}
+
+TEST(Pattern, ThreadCountDoesNotChangeTheResult) {
+  TestRng rng(83);
+  const Array a = testing::RandomArray(rng, 20, Ground::kNone);
+  const AngularGrid grid = AngularGrid::FromRanges({0, 180, 3}, {0, 357, 3});
+  PatternOptions one, two;
+  one.num_threads = 1;
+  two.num_threads = 2;
+  const PatternResult p1 = ComputePattern(a, grid, one);
+  const PatternResult p2 = ComputePattern(a, grid, two);
+  EXPECT_LE(testing::MaxFieldDifference(p1.field, p2.field),
+            1e-13 * testing::Magnitude(p1.field).maxCoeff());
+  EXPECT_LE((p1.directivity - p2.directivity).cwiseAbs().maxCoeff(),
+            1e-13 * p1.directivity.maxCoeff());
+  EXPECT_EQ(p1.summary.threads_used, 1);
+}
+
+TEST(Pattern, ProgressIsMonotoneWithinZeroToOne) {
+  TestRng rng(84);
+  const Array a = testing::RandomArray(rng, 5, Ground::kNone);
+  std::vector<double> seen;
+  PatternOptions o;
+  o.progress = [&](double x) { seen.push_back(x); };
+  ComputePattern(a, AngularGrid::FromRanges({0, 180, 0.5}, {0, 359.5, 0.5}), o);
+  for (std::size_t i = 0; i < seen.size(); ++i) {
+    EXPECT_GE(seen[i], 0.0);
+    EXPECT_LE(seen[i], 1.0);
+    if (i > 0) {
+      EXPECT_GE(seen[i], seen[i - 1]);
+    }
+  }
+}
+
+TEST(Pattern, RejectsArraysThatRadiateNothing) {
+  TestRng rng(85);
+  Array a = testing::RandomArray(rng, 3, Ground::kNone);
+  for (Dipole& d : a.dipoles) d.current_a = 0;
+  EXPECT_THROW(ComputePattern(a, AngularGrid::FromRanges({0, 180, 10}, {0, 350, 10})),
+               InvalidArgument);
+}
+
+}  // namespace
+}  // namespace lobecast
