@@ -42,8 +42,8 @@ std::size_t EditDistance(std::string_view a, std::string_view b) {
   for (std::size_t j = 0; j <= b.size(); ++j) d[0][j] = j;
   for (std::size_t i = 1; i <= a.size(); ++i) {
     for (std::size_t j = 1; j <= b.size(); ++j) {
-      d[i][j] = std::min({d[i - 1][j] + 1, d[i][j - 1] + 1,
-                          d[i - 1][j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1)});
+      d[i][j] = std::min(
+          {d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1)});
       if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) {
         d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
       }
@@ -55,19 +55,28 @@ std::size_t EditDistance(std::string_view a, std::string_view b) {
 // What a node holds, for "found X".
 std::string Describe(const toml::node& n) {
   switch (n.type()) {
-    case toml::node_type::string: return "string " + Quoted(n.as_string()->get());
-    case toml::node_type::integer: return "integer " + std::to_string(n.as_integer()->get());
-    case toml::node_type::floating_point: return "float " + FormatNumber(n.as_floating_point()->get());
-    case toml::node_type::boolean: return n.as_boolean()->get() ? "boolean true" : "boolean false";
+    case toml::node_type::string:
+      return "string " + Quoted(n.as_string()->get());
+    case toml::node_type::integer:
+      return "integer " + std::to_string(n.as_integer()->get());
+    case toml::node_type::floating_point:
+      return "float " + FormatNumber(n.as_floating_point()->get());
+    case toml::node_type::boolean:
+      return n.as_boolean()->get() ? "boolean true" : "boolean false";
     case toml::node_type::array: {
       const std::size_t size = n.as_array()->size();
       return "an array of " + std::to_string(size) + (size == 1 ? " element" : " elements");
     }
-    case toml::node_type::table: return "a table";
-    case toml::node_type::date: return "a date";
-    case toml::node_type::time: return "a time";
-    case toml::node_type::date_time: return "a date-time";
-    default: return "nothing";
+    case toml::node_type::table:
+      return "a table";
+    case toml::node_type::date:
+      return "a date";
+    case toml::node_type::time:
+      return "a time";
+    case toml::node_type::date_time:
+      return "a date-time";
+    default:
+      return "nothing";
   }
 }
 
@@ -96,8 +105,9 @@ class Reader {
       throw InputError(At(e.source()), "TOML syntax error: " + std::string(e.description()));
     }
 
-    CheckKeys(root, "", {"name", "description", "frequency", "ground", "length_unit",
-                         "dipoles_csv", "grid", "dipole"});
+    CheckKeys(root, "",
+              {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
+               "dipole"});
     if (const toml::node* n = root.get("name")) out.name = String(*n, "name");
     if (const toml::node* n = root.get("description")) out.description = String(*n, "description");
 
@@ -108,7 +118,9 @@ class Reader {
     if (const toml::node* n = root.get("length_unit")) {
       const std::string s = String(*n, "length_unit");
       const auto u = LengthUnitFromString(s);
-      if (!u) throw InputError(At(*n), "length_unit", Quoted(s), "one of " + std::string(kLengthUnitList));
+      if (!u)
+        throw InputError(At(*n), "length_unit", Quoted(s),
+                         "one of " + std::string(kLengthUnitList));
       unit = *u;
     }
     out.length_unit = std::string(ToString(unit));
@@ -179,7 +191,8 @@ class Reader {
   }
 
   // An integer or float; `what` completes "expected ..." for a wrong type.
-  double Number(const toml::node& n, const std::string& key, std::string_view what = "a number") const {
+  double Number(const toml::node& n, const std::string& key,
+                std::string_view what = "a number") const {
     if (n.is_integer()) return static_cast<double>(n.as_integer()->get());
     if (n.is_floating_point()) {
       const double v = n.as_floating_point()->get();
@@ -189,8 +202,11 @@ class Reader {
     throw InputError(At(n), key, Describe(n), std::string(what));
   }
 
-  double Positive(const toml::node& n, const std::string& key, std::string_view what) const {
-    const double v = Number(n, key, what);
+  // A number > 0: `type` completes "expected ..." for a wrong type, `what` names the
+  // quantity in "expected <what> > 0".
+  double Positive(const toml::node& n, const std::string& key, std::string_view type,
+                  std::string_view what) const {
+    const double v = Number(n, key, type);
     if (!(v > 0.0)) throw InputError(At(n), key, FormatNumber(v), std::string(what) + " > 0");
     return v;
   }
@@ -209,9 +225,9 @@ class Reader {
   void ReadFrequency(const toml::table& root, Array& array) const {
     const toml::node* n = root.get("frequency");
     if (!n) {
-      throw InputError(SourceLocation{path_, 1, 1}, "frequency", "no frequency key",
-                       "frequency = <Hz> or \"<number> <unit>\" (unit " +
-                           std::string(kFrequencyUnitList) + ")");
+      throw InputError(
+          SourceLocation{path_, 1, 1}, "frequency", "no frequency key",
+          "frequency = <Hz> or \"<number> <unit>\" (unit " + std::string(kFrequencyUnitList) + ")");
     }
     double f = 0.0;
     if (n->is_string()) {
@@ -223,12 +239,14 @@ class Reader {
                              " (e.g. \"433.92 MHz\")");
       }
       f = *hz;
-      if (!std::isfinite(f)) throw InputError(At(*n), "frequency", Describe(*n), "a finite frequency");
+      if (!std::isfinite(f))
+        throw InputError(At(*n), "frequency", Describe(*n), "a finite frequency");
     } else {
       f = Number(*n, "frequency", "a frequency in Hz or a string such as \"433.92 MHz\"");
     }
     if (!(f > 0.0)) {
-      throw InputError(At(*n), "frequency", FormatNumber(f) + " Hz", "a frequency > 0");
+      throw InputError(At(*n), "frequency", n->is_string() ? Describe(*n) : FormatNumber(f) + " Hz",
+                       "a frequency > 0");
     }
     array.frequency_hz = f;
   }
@@ -247,7 +265,8 @@ class Reader {
     const std::string bounds = "[0, " + FormatNumber(max_deg) + "] degrees";
     auto in_bounds = [&](const toml::node& v, const std::string& k) {
       const double x = Number(v, k, "an angle in degrees");
-      if (x < 0.0 || x > max_deg) throw InputError(At(v), k, FormatNumber(x), "an angle in " + bounds);
+      if (x < 0.0 || x > max_deg)
+        throw InputError(At(v), k, FormatNumber(x), "an angle in " + bounds);
       return x;
     };
     AngleRange r;
@@ -265,8 +284,9 @@ class Reader {
     const toml::node* stop = t->get("stop");
     for (auto [node, name] : {std::pair{start, "start"}, std::pair{stop, "stop"}}) {
       if (!node) {
-        throw InputError(At(*t), Join(key, name), std::string("no ") + name + " key",
-                         "{ start = <deg>, stop = <deg>, step = <deg> } (step optional, default 1)");
+        throw InputError(
+            At(*t), Join(key, name), std::string("no ") + name + " key",
+            "{ start = <deg>, stop = <deg>, step = <deg> } (step optional, default 1)");
       }
     }
     r.start_deg = in_bounds(*start, Join(key, "start"));
@@ -276,7 +296,7 @@ class Reader {
                        "stop >= start (" + FormatNumber(r.start_deg) + ")");
     }
     if (const toml::node* step = t->get("step")) {
-      r.step_deg = Positive(*step, Join(key, "step"), "a step in degrees");
+      r.step_deg = Positive(*step, Join(key, "step"), "a number (degrees)", "a step");
       if ((r.stop_deg - r.start_deg) / r.step_deg > kMaxDirections) {
         throw InputError(At(*step), Join(key, "step"), FormatNumber(r.step_deg),
                          "a step giving at most " + FormatNumber(kMaxDirections) + " angles");
@@ -300,15 +320,16 @@ class Reader {
       const toml::table* t = g->as_table();
       if (!t) throw InputError(At(*g), "grid", Describe(*g), "a [grid] table");
       CheckKeys(*t, "grid", {"theta", "phi"});
-      if (const toml::node* n = t->get("theta")) out.theta = Range(*n, "grid.theta", 180.0, out.warnings);
+      if (const toml::node* n = t->get("theta"))
+        out.theta = Range(*n, "grid.theta", 180.0, out.warnings);
       if (const toml::node* n = t->get("phi")) out.phi = Range(*n, "grid.phi", 360.0, out.warnings);
       auto count = [](const AngleRange& r) {
         return std::floor((r.stop_deg - r.start_deg) / r.step_deg + 1e-9) + 1.0;
       };
       if (count(out.theta) * count(out.phi) > kMaxDirections) {
-        throw InputError(At(*g), "grid",
-                         FormatNumber(count(out.theta) * count(out.phi)) + " directions",
-                         "at most " + FormatNumber(kMaxDirections) + " directions (use a coarser step)");
+        throw InputError(
+            At(*g), "grid", FormatNumber(count(out.theta) * count(out.phi)) + " directions",
+            "at most " + FormatNumber(kMaxDirections) + " directions (use a coarser step)");
       }
     }
     out.grid = AngularGrid::FromRanges(out.theta, out.phi);
@@ -342,14 +363,16 @@ class Reader {
 
       const toml::node& ori = require("orientation", "[ux, uy, uz]");
       const Vec3 u = Vector3(ori, Join(key, "orientation"), "[ux, uy, uz]");
-      if (!(u.norm() > 0.0)) {
+      if (!(u.stableNorm() > 0.0)) {
         throw InputError(At(ori), Join(key, "orientation"), "the zero vector [0, 0, 0]",
                          "a non-zero vector along the current");
       }
-      d.orientation = u / u.norm();
+      d.orientation = u / u.stableNorm();  // stableNorm: no overflow for huge components
 
       const toml::node& len = require("length", "<length in " + out.length_unit + ">");
-      d.length_m = Positive(len, Join(key, "length"), "a length") * scale_;
+      d.length_m = Positive(len, Join(key, "length"),
+                            "a number (the length in " + out.length_unit + ")", "a length") *
+                   scale_;
       site.length = At(len);
       site.length_key = Join(key, "length");
 
@@ -357,7 +380,8 @@ class Reader {
         const std::string s = String(*v, Join(key, "distribution"));
         const auto dist = DistributionFromString(s);
         if (!dist) {
-          throw InputError(At(*v), Join(key, "distribution"), Quoted(s), "\"uniform\" or \"triangular\"");
+          throw InputError(At(*v), Join(key, "distribution"), Quoted(s),
+                           "\"uniform\" or \"triangular\"");
         }
         d.distribution = *dist;
       }
@@ -385,7 +409,8 @@ class Reader {
                        "a magnitude >= 0 (A peak; reverse the sign with phase = 180)");
     }
     double phase_deg = 0.0;
-    if (const toml::node* p = t->get("phase")) phase_deg = Number(*p, Join(key, "phase"), "a phase in degrees");
+    if (const toml::node* p = t->get("phase"))
+      phase_deg = Number(*p, Join(key, "phase"), "a phase in degrees");
     return std::polar(magnitude, phase_deg * kDegree);
   }
 
@@ -409,6 +434,10 @@ class Reader {
       sites_.push_back(DipoleSite{rows[i].row, rows[i].z_cell, key + ".z", rows[i].length_cell,
                                   key + ".length"});
     }
+    if (rows.empty()) {
+      out.warnings.push_back(SourceLocation{path, 1, 1}.ToString() +
+                             ": warning: key 'dipoles_csv': the file has no dipole rows");
+    }
     out.csv_path = path;
     out.csv_text = std::move(*text);
   }
@@ -419,8 +448,8 @@ class Reader {
     for (std::size_t i = 0; i < out.array.dipoles.size(); ++i) {
       const Dipole& d = out.array.dipoles[i];
       const DipoleSite& s = sites_[i];
-      const std::string found = FormatApprox(d.length_m) + " m (" +
-                                FormatApprox(d.length_m / lambda, 4) + " wavelength)";
+      const std::string found =
+          FormatApprox(d.length_m) + " m (" + FormatApprox(d.length_m / lambda, 4) + " wavelength)";
       if (d.length_m > 0.5 * lambda) {
         throw InputError(s.length, s.length_key, found,
                          "a length <= lambda/2 = " + FormatApprox(0.5 * lambda) +
@@ -455,7 +484,8 @@ ArrayDescription ParseArrayDescription(std::string_view text, const std::string&
 ArrayDescription ReadArrayDescription(const std::string& path) {
   std::string why;
   const auto text = ReadTextFile(path, &why);
-  if (!text) throw InputError(SourceLocation{path, 0, 0}, "cannot read the array description: " + why);
+  if (!text)
+    throw InputError(SourceLocation{path, 0, 0}, "cannot read the array description: " + why);
   const std::string base = std::filesystem::path(path).parent_path().string();
   return ParseArrayDescription(*text, path, base);
 }

@@ -31,7 +31,8 @@ std::vector<Cell> SplitRow(std::string_view line) {
     std::size_t lead = raw.find_first_not_of(" \t");
     if (lead == std::string_view::npos) lead = raw.size();
     std::size_t last = raw.find_last_not_of(" \t");
-    std::string_view text = lead < raw.size() ? raw.substr(lead, last - lead + 1) : std::string_view{};
+    std::string_view text =
+        lead < raw.size() ? raw.substr(lead, last - lead + 1) : std::string_view{};
     cells.push_back({text, static_cast<int>(start + lead) + 1});
     if (comma == std::string_view::npos) break;
     start = comma + 1;
@@ -81,7 +82,9 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
           if (name == kColumnNames[c]) col = c;
         }
         if (col < 0) {
-          throw InputError(at, std::string(cells[i].text),
+          throw InputError(at,
+                           cells[i].text.empty() ? "column " + std::to_string(i + 1)
+                                                 : std::string(cells[i].text),
                            cells[i].text.empty() ? "an empty header cell" : "unknown column",
                            "one of " + std::string(kCsvColumnList));
         }
@@ -110,7 +113,9 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
                        std::to_string(cells.size()) + " cells",
                        std::to_string(header_cells) + " cells, one per header column");
     }
-    auto cell = [&](Column c) -> const Cell& { return cells[static_cast<std::size_t>(index_of[c])]; };
+    auto cell = [&](Column c) -> const Cell& {
+      return cells[static_cast<std::size_t>(index_of[c])];
+    };
     auto where = [&](Column c) { return SourceLocation{path, line_no, cell(c).column}; };
     auto key = [&](Column c) { return prefix + "." + std::string(kColumnNames[c]); };
     auto number = [&](Column c) {
@@ -130,11 +135,11 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
     d.length_cell = where(kLength);
     d.dipole.position_m = Vec3(number(kX), number(kY), number(kZ)) * metres_per_unit;
     const Vec3 u(number(kUx), number(kUy), number(kUz));
-    if (!(u.norm() > 0.0)) {
+    if (!(u.stableNorm() > 0.0)) {
       throw InputError(where(kUx), prefix + ".ux/uy/uz", "the zero vector (0, 0, 0)",
                        "a non-zero orientation vector");
     }
-    d.dipole.orientation = u / u.norm();
+    d.dipole.orientation = u / u.stableNorm();
     const double length = number(kLength);
     if (!(length > 0.0)) {
       throw InputError(where(kLength), key(kLength), FormatNumber(length), "a length > 0");
@@ -150,8 +155,8 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
     if (index_of[kDistribution] >= 0 && !cell(kDistribution).text.empty()) {
       const auto dist = DistributionFromString(cell(kDistribution).text);
       if (!dist) {
-        throw InputError(where(kDistribution), key(kDistribution),
-                         Quoted(cell(kDistribution).text), "uniform or triangular");
+        throw InputError(where(kDistribution), key(kDistribution), Quoted(cell(kDistribution).text),
+                         "uniform or triangular");
       }
       d.dipole.distribution = *dist;
     }

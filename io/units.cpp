@@ -45,8 +45,8 @@ std::string FormatNumber(double value) {
 
 std::string FormatApprox(double value, int digits) {
   std::array<char, 64> buf{};
-  const auto result = std::to_chars(buf.data(), buf.data() + buf.size(), value,
-                                    std::chars_format::general, digits);
+  const auto result =
+      std::to_chars(buf.data(), buf.data() + buf.size(), value, std::chars_format::general, digits);
   return std::string(buf.data(), result.ptr);
 }
 
@@ -68,8 +68,8 @@ std::optional<Quantity> SplitQuantity(std::string_view text) {
 }
 
 std::optional<double> HertzPerUnit(std::string_view unit) {
-  static constexpr std::array<std::pair<std::string_view, double>, 5> kUnits = {{
-      {"Hz", 1.0}, {"kHz", 1e3}, {"MHz", 1e6}, {"GHz", 1e9}, {"THz", 1e12}}};
+  static constexpr std::array<std::pair<std::string_view, double>, 5> kUnits = {
+      {{"Hz", 1.0}, {"kHz", 1e3}, {"MHz", 1e6}, {"GHz", 1e9}, {"THz", 1e12}}};
   for (const auto& [name, scale] : kUnits) {
     if (unit == name) return scale;
   }
@@ -86,10 +86,14 @@ std::optional<double> FrequencyFromString(std::string_view text) {
 
 std::string_view ToString(LengthUnit unit) {
   switch (unit) {
-    case LengthUnit::kMetre: return "m";
-    case LengthUnit::kCentimetre: return "cm";
-    case LengthUnit::kMillimetre: return "mm";
-    case LengthUnit::kWavelength: return "wavelength";
+    case LengthUnit::kMetre:
+      return "m";
+    case LengthUnit::kCentimetre:
+      return "cm";
+    case LengthUnit::kMillimetre:
+      return "mm";
+    case LengthUnit::kWavelength:
+      return "wavelength";
   }
   return "?";
 }
@@ -104,10 +108,14 @@ std::optional<LengthUnit> LengthUnitFromString(std::string_view text) {
 
 double MetresPer(LengthUnit unit, double wavelength_m) {
   switch (unit) {
-    case LengthUnit::kMetre: return 1.0;
-    case LengthUnit::kCentimetre: return 1e-2;
-    case LengthUnit::kMillimetre: return 1e-3;
-    case LengthUnit::kWavelength: return wavelength_m;
+    case LengthUnit::kMetre:
+      return 1.0;
+    case LengthUnit::kCentimetre:
+      return 1e-2;
+    case LengthUnit::kMillimetre:
+      return 1e-3;
+    case LengthUnit::kWavelength:
+      return wavelength_m;
   }
   return 1.0;
 }

@@ -58,7 +58,7 @@ TEST(Units, Frequencies) {
   EXPECT_FALSE(FrequencyFromString("433.92 mHz"));  // millihertz is not megahertz
   EXPECT_FALSE(FrequencyFromString("433.92 mhz"));
   EXPECT_FALSE(FrequencyFromString("433.92 Mhz"));
-  EXPECT_FALSE(FrequencyFromString("433.92"));      // a string needs its unit
+  EXPECT_FALSE(FrequencyFromString("433.92"));  // a string needs its unit
   EXPECT_FALSE(FrequencyFromString("MHz"));
   EXPECT_FALSE(FrequencyFromString(""));
   EXPECT_FALSE(FrequencyFromString("1 2 MHz"));
@@ -232,7 +232,8 @@ TEST(ArrayReader, CsvAloneIsEnough) {
 TEST(ArrayReader, WarnsWhenStopIsNotOnTheStep) {
   const ArrayDescription d = ParseArrayDescription(
       "frequency = 1e9\n[grid]\ntheta = { start = 0, stop = 90, step = 7 }\n[[dipole]]\n"
-      "position = [0, 0, 0]\norientation = [0, 0, 1]\nlength = 0.001\ncurrent = { magnitude = 1 }\n",
+      "position = [0, 0, 0]\norientation = [0, 0, 1]\nlength = 0.001\ncurrent = { magnitude = 1 "
+      "}\n",
       "t.toml", "");
   ASSERT_EQ(d.warnings.size(), 1u);
   EXPECT_THAT(d.warnings[0], HasSubstr("t.toml:3:"));
@@ -261,6 +262,60 @@ TEST(ArrayReader, MessageFormat) {
   EXPECT_EQ(ErrorOf("frequency = \"433.92 mHz\"\n", "arr.toml"),
             "arr.toml:1:13: key 'frequency': found string \"433.92 mHz\", expected a number "
             "followed by a unit, one of Hz, kHz, MHz, GHz, THz (e.g. \"433.92 MHz\")");
+}
+
+TEST(ArrayReader, InlineDipoleArrayAndHugeOrientation) {
+  const ArrayDescription d = ParseArrayDescription(
+      "frequency = \"1 GHz\"\ndipole = [ { position = [0, 0, 0], orientation = [1e300, 1e300, 0],"
+      " length = 0.001, current = { magnitude = 1, phase = 180 } } ]\n",
+      "t.toml", "");
+  ASSERT_EQ(d.array.size(), 1u);
+  ExpectNear(std::sqrt(0.5), d.array.dipoles[0].orientation.x());  // no overflow in the norm
+  ExpectNear(std::sqrt(0.5), d.array.dipoles[0].orientation.y());
+  ExpectNear(-1.0, d.array.dipoles[0].current_a.real());
+}
+
+TEST(ArrayReader, CsvEdgeCases) {
+  // Header only: no rows is not an error when [[dipole]] tables exist, but is worth a warning.
+  const fs::path dir = fs::temp_directory_path() / "lobecast_array_reader_test";
+  fs::create_directories(dir);
+  std::ofstream(dir / "empty.csv") << "# nothing yet\nx,y,z,ux,uy,uz,length,magnitude,phase\n";
+  const ArrayDescription d = ParseArrayDescription(
+      "frequency = 1e9\ndipoles_csv = \"empty.csv\"\n[[dipole]]\nposition = [0, 0, 0]\n"
+      "orientation = [0, 0, 1]\nlength = 0.001\ncurrent = { magnitude = 1 }\n",
+      "t.toml", dir.string());
+  EXPECT_EQ(d.array.size(), 1u);
+  ASSERT_EQ(d.warnings.size(), 1u);
+  EXPECT_THAT(d.warnings[0], HasSubstr("no dipole rows"));
+  fs::remove_all(dir);
+
+  auto csv_error = [](std::string_view text) {
+    try {
+      ParseCsvDipoles(text, "e.csv", 1.0, 0);
+    } catch (const InputError& e) {
+      return std::string(e.what());
+    }
+    return std::string("(no error)");
+  };
+  EXPECT_THAT(csv_error("# only comments\n\n"), HasSubstr("e.csv:1:1: key 'header'"));
+  EXPECT_THAT(csv_error("x,y,z,ux,uy,uz,length,magnitude,phase,x\n"),
+              HasSubstr("e.csv:1:39: key 'x': found a second 'x' column"));
+  EXPECT_THAT(csv_error("x,y,z,ux,uy,uz,length,magnitude,phase\n0,0,0,0,0,1,0.01,-1,0\n"),
+              HasSubstr("e.csv:2:18: key 'dipole[0].magnitude'"));
+  EXPECT_THAT(
+      csv_error("x,y,z,ux,uy,uz,length,magnitude,phase\r\n0,0,0,0,0,1,0.01,1,inf\r\n"),
+      HasSubstr("e.csv:2:20: key 'dipole[0].phase': found 'inf', expected a finite number"));
+  EXPECT_THAT(csv_error("x,y,z,ux,uy,uz,length,magnitude,phase\n0,0,,0,0,1,0.01,1,0\n"),
+              HasSubstr("e.csv:2:5: key 'dipole[0].z': found an empty cell"));
+}
+
+TEST(ArrayReader, DirectoryIsNotADescription) {
+  try {
+    ReadArrayDescription(kData + "/good");
+    FAIL() << "no error";
+  } catch (const InputError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("a directory"));
+  }
 }
 
 // ---------------------------------------------------------------- bad corpus
