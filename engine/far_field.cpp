@@ -1,20 +1,296 @@
-// Direct superposition of elemental-dipole far fields (far_field.h).
+// Far field of elemental dipoles (far_field.h): plan, method choice, the
+// vectorized direct sum, and the glue to the NUFFT fast path (nufft.h).
 #include "engine/far_field.h"
 
+#include <algorithm>
+#include <array>
+#include <cctype>
 #include <cmath>
+#include <mutex>
 #include <sstream>
 
+#include <Eigen/Geometry>
 #include <omp.h>
 
 #include "engine/error.h"
 #include "engine/ground.h"
+#include "engine/nufft.h"
+#include "engine/sincos.h"
+
+// The hot kernels are compiled for AVX-512, AVX2+FMA and the baseline, and the
+// loader picks one for the running CPU (GCC/Clang function multiversioning), so a
+// portable build is still fast. A -march=native build makes "default" native too.
+#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
+#define LOBECAST_KERNEL_CLONES \
+  __attribute__((target_clones("arch=x86-64-v4", "arch=x86-64-v3", "default")))
+#else
+#define LOBECAST_KERNEL_CLONES
+#endif
 
 namespace lobecast {
 
+std::string_view ToString(FieldMethod m) {
+  switch (m) {
+    case FieldMethod::kDirect: return "direct";
+    case FieldMethod::kFast: return "fast";
+    case FieldMethod::kAuto: return "auto";
+  }
+  return "unknown";
+}
+
+std::optional<FieldMethod> FieldMethodFromString(std::string_view s) {
+  std::string lower(s);
+  for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  for (FieldMethod m : {FieldMethod::kDirect, FieldMethod::kFast, FieldMethod::kAuto}) {
+    if (lower == ToString(m)) return m;
+  }
+  return std::nullopt;
+}
+
+bool FieldOptions::IsValid(std::string* why) const {
+  std::ostringstream m;
+  if (num_threads < 0) {
+    m << "num_threads: found " << num_threads << ", expected 0 (OpenMP default) or more";
+  } else if (!(tolerance_relative >= 1e-14 && tolerance_relative <= 1e-2)) {
+    m << "tolerance_relative: found " << tolerance_relative << ", expected 1e-14 to 1e-2";
+  } else {
+    return true;
+  }
+  if (why) *why = m.str();
+  return false;
+}
+
+namespace {
+
+// Directions per tile (register blocking: each source's data is loaded once for
+// the whole tile), directions per cache chunk, and sources per cache block
+// (five or seven arrays of doubles: 1024 sources stay in a 48 KiB L1).
+constexpr int kTileCollinear = 4;
+constexpr int kTileGeneral = 2;
+constexpr std::size_t kChunkDirections = 64;
+constexpr std::size_t kBlockSources = 1024;
+
+// Source data for one execution, structure of arrays.
+struct SourceArrays {
+  const double* x;
+  const double* y;
+  const double* z;
+  const double* wr;  // weight, real part: I * signed moment (collinear) or I (general)
+  const double* wi;
+  const double* mx;  // general only: moment Le u
+  const double* my;
+  const double* mz;
+};
+
+// acc[2t], acc[2t+1] += sum_s w_s exp(j k_t . r_s) for 4 directions k_t = k[3t..3t+2].
+LOBECAST_KERNEL_CLONES
+void SumCollinearTile(const SourceArrays& src, std::size_t begin, std::size_t end,
+                      const double* k, double* acc) {
+  const double k0x = k[0], k0y = k[1], k0z = k[2], k1x = k[3], k1y = k[4], k1z = k[5];
+  const double k2x = k[6], k2y = k[7], k2z = k[8], k3x = k[9], k3y = k[10], k3z = k[11];
+  const double* x = src.x;
+  const double* y = src.y;
+  const double* z = src.z;
+  const double* wr = src.wr;
+  const double* wi = src.wi;
+  double r0 = 0, i0 = 0, r1 = 0, i1 = 0, r2 = 0, i2 = 0, r3 = 0, i3 = 0;
+#pragma omp simd reduction(+ : r0, i0, r1, i1, r2, i2, r3, i3)
+  for (std::size_t s = begin; s < end; ++s) {
+    const double xs = x[s], ys = y[s], zs = z[s], a = wr[s], b = wi[s];
+    double sn, cs;
+    SinCos(k0x * xs + k0y * ys + k0z * zs, sn, cs);
+    r0 += a * cs - b * sn;
+    i0 += a * sn + b * cs;
+    SinCos(k1x * xs + k1y * ys + k1z * zs, sn, cs);
+    r1 += a * cs - b * sn;
+    i1 += a * sn + b * cs;
+    SinCos(k2x * xs + k2y * ys + k2z * zs, sn, cs);
+    r2 += a * cs - b * sn;
+    i2 += a * sn + b * cs;
+    SinCos(k3x * xs + k3y * ys + k3z * zs, sn, cs);
+    r3 += a * cs - b * sn;
+    i3 += a * sn + b * cs;
+  }
+  acc[0] += r0, acc[1] += i0, acc[2] += r1, acc[3] += i1;
+  acc[4] += r2, acc[5] += i2, acc[6] += r3, acc[7] += i3;
+}
+
+// acc[6t + 2a], acc[6t + 2a + 1] += sum_s m_s[a] I_s exp(j k_t . r_s), a = x, y, z,
+// for 2 directions.
+LOBECAST_KERNEL_CLONES
+void SumGeneralTile(const SourceArrays& src, std::size_t begin, std::size_t end,
+                    const double* k, double* acc) {
+  const double k0x = k[0], k0y = k[1], k0z = k[2], k1x = k[3], k1y = k[4], k1z = k[5];
+  const double* x = src.x;
+  const double* y = src.y;
+  const double* z = src.z;
+  const double* wr = src.wr;
+  const double* wi = src.wi;
+  const double* mx = src.mx;
+  const double* my = src.my;
+  const double* mz = src.mz;
+  double xr0 = 0, xi0 = 0, yr0 = 0, yi0 = 0, zr0 = 0, zi0 = 0;
+  double xr1 = 0, xi1 = 0, yr1 = 0, yi1 = 0, zr1 = 0, zi1 = 0;
+#pragma omp simd reduction(+ : xr0, xi0, yr0, yi0, zr0, zi0, xr1, xi1, yr1, yi1, zr1, zi1)
+  for (std::size_t s = begin; s < end; ++s) {
+    const double xs = x[s], ys = y[s], zs = z[s], a = wr[s], b = wi[s];
+    const double ux = mx[s], uy = my[s], uz = mz[s];
+    double sn, cs;
+    SinCos(k0x * xs + k0y * ys + k0z * zs, sn, cs);
+    double pr = a * cs - b * sn, pi = a * sn + b * cs;
+    xr0 += ux * pr, xi0 += ux * pi, yr0 += uy * pr, yi0 += uy * pi, zr0 += uz * pr, zi0 += uz * pi;
+    SinCos(k1x * xs + k1y * ys + k1z * zs, sn, cs);
+    pr = a * cs - b * sn, pi = a * sn + b * cs;
+    xr1 += ux * pr, xi1 += ux * pi, yr1 += uy * pr, yi1 += uy * pi, zr1 += uz * pr, zi1 += uz * pi;
+  }
+  acc[0] += xr0, acc[1] += xi0, acc[2] += yr0, acc[3] += yi0, acc[4] += zr0, acc[5] += zi0;
+  acc[6] += xr1, acc[7] += xi1, acc[8] += yr1, acc[9] += yi1, acc[10] += zr1, acc[11] += zi1;
+}
+
+// Fast path error model: each component of the NUFFT output is within
+// kErrorModel * eps * sum_j |c_j| of the exact sum (Barnett et al. 2019 observe
+// errors near eps * sum |c|; the factor is a margin for the two kernel stages,
+// checked in tests/field_methods_test.cpp).
+constexpr double kErrorModel = 3.0;
+// The first fast pass runs at this tolerance (cheap, w = 5) to locate the peak.
+constexpr double kScoutTolerance = 1e-4;
+
+// Cost model for kAuto, seconds per unit on one core of the development machine
+// (AMD EPYC, AVX-512), from tests/bench/field_bench.cpp. Only their ratios matter.
+constexpr double kSecondsPerPairCollinear = 1.0 / 7.0e8;
+constexpr double kSecondsPerPairGeneral = 1.0 / 3.5e8;
+constexpr double kSecondsPerKernelPoint = 2.0e-9;   // spread or interpolate, per component
+constexpr double kSecondsPerFftPointLog = 1.0e-9;   // per grid point and log2(size), per component
+constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
+
+// True when every column of m is parallel or antiparallel to one unit vector.
+bool AllParallel(const Eigen::Matrix3Xd& m, Vec3* axis) {
+  if (m.cols() == 0) return false;
+  *axis = m.col(0).normalized();
+  for (Eigen::Index s = 1; s < m.cols(); ++s) {
+    if (m.col(s).cross(*axis).norm() > 1e-15 * m.col(s).norm()) return false;
+  }
+  return true;
+}
+
+}  // namespace
+
+struct FieldPlan::FastCache {
+  std::mutex mutex;
+  bool valid = false;
+  Eigen::VectorXcd currents;  // the key: the field below belongs to these currents
+  FarField field;             // every plan direction
+  double error_bound = 0;     // relative to the peak; 0 after a direct fallback
+};
+
+double FieldPlan::error_bound_relative() const {
+  if (!fast_) return 0.0;
+  const std::lock_guard<std::mutex> lock(fast_->mutex);
+  return fast_->error_bound;
+}
+
+double FieldPlan::EstimatedDirectSeconds() const {
+  std::size_t live = 0;
+  for (unsigned char z : zeroed_) live += z ? 0 : 1;
+  const double per = collinear_ ? kSecondsPerPairCollinear : kSecondsPerPairGeneral;
+  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  return static_cast<double>(live) * static_cast<double>(num_sources()) * per / threads;
+}
+
+double FieldPlan::EstimatedFastSeconds() const {
+  const double comps = collinear_ ? 1.0 : 3.0;
+  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  double total = 0;
+  // A scout pass, then a pass about two digits tighter than asked (the peak is
+  // usually below sum |c|).
+  for (double eps : {kScoutTolerance, std::max(1e-14, 1e-2 * tolerance_relative_)}) {
+    const NufftGeometry g = Nufft3::GeometryFor(source_pos_, k_r_hat_, eps);
+    if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
+    const double spread = static_cast<double>(num_sources()) * g.kernel_points() * comps;
+    const double interp = static_cast<double>(num_directions()) * g.kernel_points() * comps / threads;
+    const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
+    total += (spread + interp) * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog;
+  }
+  return total;
+}
+
+void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first,
+                            std::size_t count, FarField& out) const {
+  const std::lock_guard<std::mutex> lock(fast_->mutex);
+  FastCache& cache = *fast_;
+  if (!cache.valid || cache.currents.size() != currents_a.size() || cache.currents != currents_a) {
+    cache.valid = false;
+    const Eigen::Index ns = source_pos_.cols(), nd = k_r_hat_.cols();
+    const int comps = collinear_ ? 1 : 3;
+    Eigen::MatrixXcd strengths(ns, comps);
+    double l1 = 0;  // sum_s |I_s| |Le_s u_s|, bounds every component's sum
+    for (Eigen::Index s = 0; s < ns; ++s) {
+      const Complex c = currents_a[source_dipole_[static_cast<std::size_t>(s)]];
+      if (collinear_) {
+        strengths(s, 0) = c * signed_moment_m_[static_cast<std::size_t>(s)];
+      } else {
+        for (int a = 0; a < 3; ++a) strengths(s, a) = c * source_moment_(a, s);
+      }
+      l1 += std::abs(c) * source_moment_.col(s).norm();
+    }
+    const Complex minus_j_pref(0.0, -prefactor_);
+    cache.field.e_theta.resize(nd);
+    cache.field.e_phi.resize(nd);
+    // One NUFFT pass at tolerance eps; returns the peak |rE| over live directions.
+    auto pass = [&](double eps) {
+      const Nufft3 nufft(source_pos_, k_r_hat_, NufftOptions{eps, num_threads_});
+      const Eigen::MatrixXcd m = nufft.Execute(strengths);
+      double peak = 0;
+      for (Eigen::Index i = 0; i < nd; ++i) {
+        if (zeroed_[static_cast<std::size_t>(i)]) {
+          cache.field.e_theta[i] = 0.0, cache.field.e_phi[i] = 0.0;
+          continue;
+        }
+        Complex mt = 0.0, mp = 0.0;
+        for (int a = 0; a < 3; ++a) {
+          const Complex ma = collinear_ ? m(i, 0) * common_axis_[a] : m(i, a);
+          mt += theta_hat_(a, i) * ma;
+          mp += phi_hat_(a, i) * ma;
+        }
+        cache.field.e_theta[i] = minus_j_pref * mt;
+        cache.field.e_phi[i] = minus_j_pref * mp;
+        peak = std::max(peak, std::sqrt(std::norm(cache.field.e_theta[i]) + std::norm(cache.field.e_phi[i])));
+      }
+      return peak;
+    };
+    // Error in |rE| at tolerance eps, by the error model (same for every direction).
+    const auto bound = [&](double eps) { return prefactor_ * std::sqrt(comps) * kErrorModel * eps * l1; };
+    double eps = std::max(tolerance_relative_, kScoutTolerance);
+    double peak = pass(eps);
+    if (bound(eps) > tolerance_relative_ * peak) {
+      const double peak_low = peak - bound(eps);
+      eps = peak_low > 0 ? tolerance_relative_ * peak_low / bound(1.0) : 0.0;
+      if (eps >= 1e-14) peak = pass(eps);
+    }
+    if (eps >= 1e-14 && peak > 0 && bound(eps) <= tolerance_relative_ * peak) {
+      cache.error_bound = bound(eps) / peak;
+    } else {
+      // The peak is too far below sum |c| (near-total cancellation) for the NUFFT
+      // to reach the tolerance in double precision: sum directly.
+      ExecuteDirect(currents_a, 0, num_directions(), cache.field);
+      cache.error_bound = 0.0;
+    }
+    cache.currents = currents_a;
+    cache.valid = true;
+  }
+  out.e_theta = cache.field.e_theta.segment(static_cast<Eigen::Index>(first), static_cast<Eigen::Index>(count));
+  out.e_phi = cache.field.e_phi.segment(static_cast<Eigen::Index>(first), static_cast<Eigen::Index>(count));
+}
+
 FieldPlan::FieldPlan(const Array& array, const Directions& directions,
                      const FieldOptions& options)
-    : num_dipoles_(array.size()), ground_(array.ground), num_threads_(options.num_threads) {
+    : num_dipoles_(array.size()),
+      ground_(array.ground),
+      tolerance_relative_(options.tolerance_relative),
+      num_threads_(options.num_threads) {
   Validate(array);
+  std::string why;
+  if (!options.IsValid(&why)) throw InvalidArgument("field options: " + why);
   // w mu0 / (4 pi) = eta0 k / (4 pi), V per (A m) of moment.
   prefactor_ = array.angular_frequency_rad_s() * kMu0_H_m / (4.0 * kPi);
 
@@ -28,6 +304,13 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions,
     source_pos_.col(s) = d.position_m;
     source_moment_.col(s) = d.effective_length_m() * d.orientation;
     source_dipole_[static_cast<std::size_t>(s)] = static_cast<int>(s % static_cast<Eigen::Index>(num_dipoles_));
+  }
+  collinear_ = AllParallel(source_moment_, &common_axis_);
+  if (collinear_) {
+    signed_moment_m_.resize(sources.size());
+    for (Eigen::Index s = 0; s < ns; ++s) {
+      signed_moment_m_[static_cast<std::size_t>(s)] = source_moment_.col(s).dot(common_axis_);
+    }
   }
 
   const double k = array.wavenumber_rad_m();
@@ -43,6 +326,16 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions,
     phi_hat_.col(i) = directions.phi_hat(u);
     zeroed_[u] = BelowGround(ground_, directions.theta_rad(u)) ? 1 : 0;
   }
+
+  switch (options.method) {
+    case FieldMethod::kDirect: method_used_ = FieldMethod::kDirect; break;
+    case FieldMethod::kFast: method_used_ = FieldMethod::kFast; break;
+    case FieldMethod::kAuto:
+      method_used_ = EstimatedFastSeconds() < 0.5 * EstimatedDirectSeconds() ? FieldMethod::kFast
+                                                                             : FieldMethod::kDirect;
+      break;
+  }
+  if (method_used_ == FieldMethod::kFast) fast_ = std::make_shared<FastCache>();
 }
 
 FarField FieldPlan::Execute(const Eigen::VectorXcd& currents_a) const {
@@ -67,49 +360,94 @@ void FieldPlan::ExecuteRange(const Eigen::VectorXcd& currents_a, std::size_t fir
   }
   out.e_theta.resize(static_cast<Eigen::Index>(count));
   out.e_phi.resize(static_cast<Eigen::Index>(count));
-
-  // Current-weighted moments, split into real and imaginary planes so the inner
-  // loop is plain double arithmetic the compiler can vectorize.
-  const Eigen::Index ns = source_pos_.cols();
-  Eigen::Matrix3Xd wr(3, ns), wi(3, ns);
-  for (Eigen::Index s = 0; s < ns; ++s) {
-    const Complex c = currents_a[source_dipole_[static_cast<std::size_t>(s)]];
-    wr.col(s) = c.real() * source_moment_.col(s);
-    wi.col(s) = c.imag() * source_moment_.col(s);
+  if (method_used_ == FieldMethod::kFast) {
+    ExecuteFast(currents_a, first, count, out);
+  } else {
+    ExecuteDirect(currents_a, first, count, out);
   }
-  const double* pos = source_pos_.data();
-  const double* wrp = wr.data();
-  const double* wip = wi.data();
-  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
-  const auto n = static_cast<std::ptrdiff_t>(count);
+}
 
-#pragma omp parallel for num_threads(threads) schedule(static)
-  for (std::ptrdiff_t j = 0; j < n; ++j) {
-    const auto i = static_cast<Eigen::Index>(first) + j;
-    if (zeroed_[static_cast<std::size_t>(i)]) {
-      out.e_theta[j] = 0.0;
-      out.e_phi[j] = 0.0;
-      continue;
+void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first,
+                              std::size_t count, FarField& out) const {
+  const std::size_t ns = num_sources();
+  std::vector<double> wr(ns), wi(ns), mx, my, mz;
+  if (!collinear_) mx.resize(ns), my.resize(ns), mz.resize(ns);
+  const std::vector<double> x(source_pos_.row(0).begin(), source_pos_.row(0).end());
+  const std::vector<double> y(source_pos_.row(1).begin(), source_pos_.row(1).end());
+  const std::vector<double> z(source_pos_.row(2).begin(), source_pos_.row(2).end());
+  for (std::size_t s = 0; s < ns; ++s) {
+    const Complex c = currents_a[source_dipole_[s]];
+    const double m = collinear_ ? signed_moment_m_[s] : 1.0;
+    wr[s] = c.real() * m;
+    wi[s] = c.imag() * m;
+    if (!collinear_) {
+      const auto e = static_cast<Eigen::Index>(s);
+      mx[s] = source_moment_(0, e), my[s] = source_moment_(1, e), mz[s] = source_moment_(2, e);
     }
-    const double kx = k_r_hat_(0, i), ky = k_r_hat_(1, i), kz = k_r_hat_(2, i);
-    // M = sum_s I_s Le_s u_s exp(+j k r_hat . r_s), real and imaginary parts.
-    double mr[3] = {0, 0, 0}, mi[3] = {0, 0, 0};
-    for (Eigen::Index s = 0; s < ns; ++s) {
-      const double phase = kx * pos[3 * s] + ky * pos[3 * s + 1] + kz * pos[3 * s + 2];
-      const double c = std::cos(phase), sn = std::sin(phase);
-      for (int a = 0; a < 3; ++a) {
-        mr[a] += wrp[3 * s + a] * c - wip[3 * s + a] * sn;
-        mi[a] += wrp[3 * s + a] * sn + wip[3 * s + a] * c;
+  }
+  const SourceArrays src{x.data(), y.data(), z.data(), wr.data(), wi.data(),
+                         mx.data(), my.data(), mz.data()};
+
+  // Directions the ground does not force to zero; the others are set here.
+  std::vector<std::size_t> live;
+  live.reserve(count);
+  for (std::size_t j = 0; j < count; ++j) {
+    if (zeroed_[first + j]) {
+      out.e_theta[static_cast<Eigen::Index>(j)] = 0.0;
+      out.e_phi[static_cast<Eigen::Index>(j)] = 0.0;
+    } else {
+      live.push_back(j);
+    }
+  }
+  const int tile = collinear_ ? kTileCollinear : kTileGeneral;
+  const int acc_per_dir = collinear_ ? 2 : 6;
+  const auto num_chunks = static_cast<std::ptrdiff_t>((live.size() + kChunkDirections - 1) / kChunkDirections);
+  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  const Complex minus_j_pref(0.0, -prefactor_);
+
+#pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
+  for (std::ptrdiff_t c = 0; c < num_chunks; ++c) {
+    const std::size_t d0 = static_cast<std::size_t>(c) * kChunkDirections;
+    const std::size_t nd = std::min(kChunkDirections, live.size() - d0);
+    const std::size_t ntiles = (nd + static_cast<std::size_t>(tile) - 1) / static_cast<std::size_t>(tile);
+    // k vectors of the chunk, padded to whole tiles by repeating the last one.
+    std::array<double, 3 * (kChunkDirections + kTileCollinear)> k{};
+    std::array<double, 6 * (kChunkDirections + kTileCollinear)> acc{};
+    for (std::size_t t = 0; t < ntiles * static_cast<std::size_t>(tile); ++t) {
+      const auto i = static_cast<Eigen::Index>(first + live[d0 + std::min(t, nd - 1)]);
+      for (int a = 0; a < 3; ++a) k[3 * t + static_cast<std::size_t>(a)] = k_r_hat_(a, i);
+    }
+    // Blocks of sources in a fixed order, so the sum does not depend on threads.
+    for (std::size_t b = 0; b < ns; b += kBlockSources) {
+      const std::size_t e = std::min(ns, b + kBlockSources);
+      for (std::size_t t = 0; t < ntiles; ++t) {
+        const std::size_t o = t * static_cast<std::size_t>(tile);
+        if (collinear_) {
+          SumCollinearTile(src, b, e, &k[3 * o], &acc[2 * o]);
+        } else {
+          SumGeneralTile(src, b, e, &k[3 * o], &acc[6 * o]);
+        }
       }
     }
-    // r_hat x (r_hat x M) = -M_perp, so rE_theta = -j (w mu0 / 4 pi) theta_hat . M.
-    const Complex m_theta(theta_hat_(0, i) * mr[0] + theta_hat_(1, i) * mr[1] + theta_hat_(2, i) * mr[2],
-                          theta_hat_(0, i) * mi[0] + theta_hat_(1, i) * mi[1] + theta_hat_(2, i) * mi[2]);
-    const Complex m_phi(phi_hat_(0, i) * mr[0] + phi_hat_(1, i) * mr[1] + phi_hat_(2, i) * mr[2],
-                        phi_hat_(0, i) * mi[0] + phi_hat_(1, i) * mi[1] + phi_hat_(2, i) * mi[2]);
-    const Complex minus_j_pref(0.0, -prefactor_);
-    out.e_theta[j] = minus_j_pref * m_theta;
-    out.e_phi[j] = minus_j_pref * m_phi;
+    for (std::size_t t = 0; t < nd; ++t) {
+      const auto j = static_cast<Eigen::Index>(live[d0 + t]);
+      const Eigen::Index i = static_cast<Eigen::Index>(first) + j;
+      const double* a = &acc[static_cast<std::size_t>(acc_per_dir) * t];
+      // M = sum_s I_s Le_s u_s exp(+j k r_hat . r_s).
+      Eigen::Vector3d mr, mi;
+      if (collinear_) {
+        mr = a[0] * common_axis_;
+        mi = a[1] * common_axis_;
+      } else {
+        mr << a[0], a[2], a[4];
+        mi << a[1], a[3], a[5];
+      }
+      // r_hat x (r_hat x M) = -M_perp, so rE_theta = -j (w mu0 / 4 pi) theta_hat . M.
+      const Complex m_theta(theta_hat_.col(i).dot(mr), theta_hat_.col(i).dot(mi));
+      const Complex m_phi(phi_hat_.col(i).dot(mr), phi_hat_.col(i).dot(mi));
+      out.e_theta[j] = minus_j_pref * m_theta;
+      out.e_phi[j] = minus_j_pref * m_phi;
+    }
   }
 }
 

@@ -1,0 +1,324 @@
+// Type-3 NUFFT with the exponential-of-semicircle kernel (nufft.h).
+#include "engine/nufft.h"
+
+#include <algorithm>
+#include <cmath>
+#include <complex>
+#include <mutex>
+#include <sstream>
+
+#include <fftw3.h>
+#include <omp.h>
+
+#include "engine/constants.h"
+#include "engine/error.h"
+#include "engine/sincos.h"
+
+namespace lobecast {
+namespace {
+
+using Complex = std::complex<double>;
+
+constexpr double kUpsampling = 2.0;  // sigma, for both the spread and the FFT grid
+constexpr int kMaxWidth = 16;
+
+// FFTW's planner is not thread-safe; execution is.
+std::mutex& FftwPlannerMutex() {
+  static std::mutex m;
+  return m;
+}
+
+int WidthFor(double tolerance) {
+  // Barnett et al. 2019, sec. 4.1: w = ceil(log10(1/eps)) + 1 at sigma = 2.
+  const int w = static_cast<int>(std::ceil(std::log10(1.0 / tolerance))) + 1;
+  return std::clamp(w, 2, kMaxWidth);
+}
+
+// Smallest even n >= m whose only prime factors are 2, 3 and 5 (fast for FFTW).
+int NextSmooth(int m) {
+  for (int n = std::max(2, m + (m & 1));; n += 2) {
+    int r = n;
+    for (int p : {2, 3, 5}) {
+      while (r % p == 0) r /= p;
+    }
+    if (r == 1) return n;
+  }
+}
+
+// The ES kernel phi(z) = exp(beta (sqrt(1 - z^2) - 1)), zero outside |z| <= 1.
+inline double Kernel(double beta, double z) {
+  const double q = 1.0 - z * z;
+  return q > 0 ? std::exp(beta * (std::sqrt(q) - 1.0)) : 0.0;
+}
+
+// phi_hat(xi) = int_{-1}^{1} phi(z) cos(xi z) dz by Gauss-Legendre quadrature on
+// the half interval (phi is even), as Barnett et al. 2019 do (sec. 3.1.1).
+class KernelTransform {
+ public:
+  KernelTransform(double beta, int width) {
+    // Nodes and weights of the n-point rule on [-1, 1] by Newton's method on the
+    // Legendre polynomial (Abramowitz and Stegun 25.4.29); keep z > 0 and map to
+    // [0, 1] weights for the even integrand.
+    const int n = 2 * (3 * width + 12);
+    for (int i = 0; i < n / 2; ++i) {
+      double z = std::cos(kPi * (i + 0.75) / (n + 0.5));
+      double dp = 0;
+      for (int it = 0; it < 100; ++it) {
+        double p0 = 1, p1 = z;
+        for (int k = 2; k <= n; ++k) {
+          const double p2 = ((2 * k - 1) * z * p1 - (k - 1) * p0) / k;
+          p0 = p1, p1 = p2;
+        }
+        dp = n * (z * p1 - p0) / (z * z - 1);
+        const double dz = p1 / dp;
+        z -= dz;
+        if (std::abs(dz) < 1e-16) break;
+      }
+      const double w = 2.0 / ((1 - z * z) * dp * dp);
+      nodes_.push_back(z);
+      weights_.push_back(2.0 * w * Kernel(beta, z));  // both halves
+    }
+  }
+  double operator()(double xi) const {
+    double sum = 0;
+    const std::size_t n = nodes_.size();
+#pragma omp simd reduction(+ : sum)
+    for (std::size_t i = 0; i < n; ++i) {
+      double s, c;
+      SinCos(xi * nodes_[i], s, c);
+      sum += weights_[i] * c;
+    }
+    return sum;
+  }
+
+ private:
+  std::vector<double> nodes_, weights_;
+};
+
+struct Range {
+  double centre, half_width;
+};
+Range RangeOf(const Eigen::Matrix3Xd& m, int d) {
+  if (m.cols() == 0) return {0.0, 0.0};
+  const double lo = m.row(d).minCoeff(), hi = m.row(d).maxCoeff();
+  return {0.5 * (lo + hi), 0.5 * (hi - lo)};
+}
+
+}  // namespace
+
+double NufftGeometry::kernel_points() const {
+  double p = 1;
+  for (int d = 0; d < active_dims; ++d) p *= kernel_width;
+  return p;
+}
+
+NufftGeometry Nufft3::GeometryFor(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
+                                  double tolerance) {
+  if (!(tolerance >= 1e-14 && tolerance <= 1e-1)) {
+    std::ostringstream m;
+    m << "nufft tolerance: found " << tolerance << ", expected 1e-14 to 1e-1";
+    throw InvalidArgument(m.str());
+  }
+  NufftGeometry g;
+  g.kernel_width = WidthFor(tolerance);
+  for (int d = 0; d < 3; ++d) {
+    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
+    // Dropping exp(i s' x') costs at most |s' x'| <= X S relative to sum |c_j|.
+    if (x.half_width * s.half_width <= 1e-3 * tolerance) continue;
+    ++g.active_dims;
+    const double h = kPi / (kUpsampling * s.half_width);
+    const int n = 2 * static_cast<int>(std::ceil(x.half_width / h + 0.5 * g.kernel_width + 1.0));
+    g.spread_size[static_cast<std::size_t>(d)] = n;
+    g.fft_size[static_cast<std::size_t>(d)] = NextSmooth(static_cast<int>(std::ceil(kUpsampling * n)));
+  }
+  return g;
+}
+
+Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
+               const NufftOptions& options)
+    : geometry_(GeometryFor(points, targets, options.tolerance)),
+      num_threads_(options.num_threads) {
+  const int w = geometry_.kernel_width;
+  // Barnett et al. 2019, sec. 4.1: beta = 2.30 w at sigma = 2.
+  beta_ = 2.30 * w;
+  const KernelTransform phi_hat(beta_, w);
+
+  Eigen::Vector3d cx = Eigen::Vector3d::Zero(), cs = Eigen::Vector3d::Zero();
+  for (int d = 0; d < 3; ++d) {
+    Dim& dim = dims_[static_cast<std::size_t>(d)];
+    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
+    dim.centre_x = cx[d] = x.centre;
+    dim.centre_s = cs[d] = s.centre;
+    dim.n = geometry_.spread_size[static_cast<std::size_t>(d)];
+    dim.n2 = geometry_.fft_size[static_cast<std::size_t>(d)];
+    dim.active = dim.n > 1;
+    if (dim.active) dim.h = kPi / (kUpsampling * s.half_width);
+  }
+  points_ = points.colwise() - cx;
+  targets_ = targets.colwise() - cs;
+
+  // exp(i s . x) = exp(i s . C) exp(i D . x') exp(i s' . x').
+  point_phase_.resize(points_.cols());
+  for (Eigen::Index j = 0; j < points_.cols(); ++j) {
+    const double p = cs.dot(points_.col(j));
+    point_phase_[j] = Complex(std::cos(p), std::sin(p));
+  }
+  // The grid's deconvolution h2 / psi2_hat(l), psi2_hat(xi) = alpha2 phi_hat(alpha2 xi),
+  // alpha2 = w h2 / 2, h2 = 2 pi / n2.
+  for (int d = 0; d < 3; ++d) {
+    const Dim& dim = dims_[static_cast<std::size_t>(d)];
+    std::vector<double>& dc = deconvolution_[static_cast<std::size_t>(d)];
+    dc.assign(static_cast<std::size_t>(dim.n), 1.0);
+    if (!dim.active) continue;
+    const double h2 = 2.0 * kPi / dim.n2, alpha2 = 0.5 * w * h2;
+    for (int i = 0; i < dim.n; ++i) {
+      const double l = i - dim.n / 2;
+      dc[static_cast<std::size_t>(i)] = h2 / (alpha2 * phi_hat(alpha2 * l));
+    }
+  }
+  // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi).
+  target_factor_.resize(targets_.cols());
+  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
+#pragma omp parallel for num_threads(threads) schedule(static)
+  for (std::ptrdiff_t k = 0; k < m; ++k) {
+    double scale = 1.0;
+    for (int d = 0; d < 3; ++d) {
+      const Dim& dim = dims_[static_cast<std::size_t>(d)];
+      if (!dim.active) continue;
+      const double alpha = 0.5 * w * dim.h;
+      scale *= dim.h / (alpha * phi_hat(alpha * targets_(d, k)));
+    }
+    const double p = targets.col(k).dot(cx);
+    target_factor_[k] = scale * Complex(std::cos(p), std::sin(p));
+  }
+}
+
+Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
+  if (strengths.rows() != points_.cols()) {
+    std::ostringstream m;
+    m << "nufft strengths: found " << strengths.rows() << " rows, expected one per point ("
+      << points_.cols() << ")";
+    throw InvalidArgument(m.str());
+  }
+  if (strengths.cols() < 1 || strengths.cols() > 3) {
+    std::ostringstream m;
+    m << "nufft strengths: found " << strengths.cols() << " columns, expected 1 to 3";
+    throw InvalidArgument(m.str());
+  }
+  const int w = geometry_.kernel_width;
+  const auto nc = static_cast<int>(strengths.cols());
+  const std::array<int, 3> n2{dims_[0].n2, dims_[1].n2, dims_[2].n2};
+  const std::size_t plane = static_cast<std::size_t>(n2[1]) * static_cast<std::size_t>(n2[2]);
+  const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
+
+  auto* grid = static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
+  if (!grid) throw std::bad_alloc();
+  std::fill(grid, grid + cells * static_cast<std::size_t>(nc), Complex(0.0));
+
+  // Kernel weights and wrapped grid indices of one coordinate along dimension d;
+  // t is the coordinate in grid units of a grid of size n.
+  auto weights = [&](int d, double t, int n, double* wt, int* idx) {
+    if (!dims_[static_cast<std::size_t>(d)].active) {
+      wt[0] = 1.0, idx[0] = 0;
+      return 1;
+    }
+    const int l0 = static_cast<int>(std::ceil(t - 0.5 * w));
+    for (int i = 0; i < w; ++i) {
+      const int l = l0 + i;
+      wt[i] = Kernel(beta_, (l - t) * 2.0 / w);
+      idx[i] = ((l % n) + n) % n;
+    }
+    return w;
+  };
+
+  // 1. Spread c_j exp(i D . x'_j) onto the grid (cells l mod n2, |l| < n/2).
+  //    Sequential in point order, so the sums do not depend on the thread count.
+  {
+    double wt[3][kMaxWidth];
+    int idx[3][kMaxWidth];
+    std::vector<Complex> c(static_cast<std::size_t>(nc));
+    for (Eigen::Index j = 0; j < points_.cols(); ++j) {
+      int len[3];
+      for (int d = 0; d < 3; ++d) {
+        len[d] = weights(d, points_(d, j) / dims_[static_cast<std::size_t>(d)].h, n2[static_cast<std::size_t>(d)], wt[d], idx[d]);
+      }
+      for (int a = 0; a < nc; ++a) c[static_cast<std::size_t>(a)] = strengths(j, a) * point_phase_[j];
+      for (int i0 = 0; i0 < len[0]; ++i0) {
+        for (int i1 = 0; i1 < len[1]; ++i1) {
+          const std::size_t base = static_cast<std::size_t>(idx[0][i0]) * plane +
+                                   static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
+          const double w01 = wt[0][i0] * wt[1][i1];
+          for (int i2 = 0; i2 < len[2]; ++i2) {
+            const double v = w01 * wt[2][i2];
+            const std::size_t cell = base + static_cast<std::size_t>(idx[2][i2]);
+            for (int a = 0; a < nc; ++a) grid[static_cast<std::size_t>(a) * cells + cell] += v * c[static_cast<std::size_t>(a)];
+          }
+        }
+      }
+    }
+  }
+  // 2. Deconvolve for the type-2 step (only the spread cells are non-zero).
+  for (int i0 = 0; i0 < dims_[0].n; ++i0) {
+    const int l0 = i0 - dims_[0].n / 2;
+    const std::size_t r0 = static_cast<std::size_t>((l0 + n2[0]) % n2[0]);
+    for (int i1 = 0; i1 < dims_[1].n; ++i1) {
+      const int l1 = i1 - dims_[1].n / 2;
+      const std::size_t r1 = static_cast<std::size_t>((l1 + n2[1]) % n2[1]);
+      const double d01 = deconvolution_[0][static_cast<std::size_t>(i0)] * deconvolution_[1][static_cast<std::size_t>(i1)];
+      for (int i2 = 0; i2 < dims_[2].n; ++i2) {
+        const int l2 = i2 - dims_[2].n / 2;
+        const std::size_t cell = r0 * plane + r1 * static_cast<std::size_t>(n2[2]) +
+                                 static_cast<std::size_t>((l2 + n2[2]) % n2[2]);
+        const double f = d01 * deconvolution_[2][static_cast<std::size_t>(i2)];
+        for (int a = 0; a < nc; ++a) grid[static_cast<std::size_t>(a) * cells + cell] *= f;
+      }
+    }
+  }
+  // 3. g_m = sum_l b_l exp(+i 2 pi l m / n2): FFTW's backward transform.
+  {
+    fftw_plan plan;
+    {
+      const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+      plan = fftw_plan_many_dft(3, n2.data(), nc, reinterpret_cast<fftw_complex*>(grid), nullptr, 1,
+                                static_cast<int>(cells), reinterpret_cast<fftw_complex*>(grid),
+                                nullptr, 1, static_cast<int>(cells), FFTW_BACKWARD, FFTW_ESTIMATE);
+    }
+    fftw_execute(plan);
+    const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+    fftw_destroy_plan(plan);
+  }
+  // 4. Interpolate at u = s' h (grid units u n2 / 2 pi) and apply the target factor.
+  Eigen::MatrixXcd out(targets_.cols(), nc);
+  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
+#pragma omp parallel for num_threads(threads) schedule(static)
+  for (std::ptrdiff_t k = 0; k < m; ++k) {
+    double wt[3][kMaxWidth];
+    int idx[3][kMaxWidth];
+    int len[3];
+    for (int d = 0; d < 3; ++d) {
+      const Dim& dim = dims_[static_cast<std::size_t>(d)];
+      const double t = targets_(d, k) * dim.h * dim.n2 / (2.0 * kPi);
+      len[d] = weights(d, t, dim.n2, wt[d], idx[d]);
+    }
+    Complex acc[3] = {0.0, 0.0, 0.0};
+    for (int i0 = 0; i0 < len[0]; ++i0) {
+      for (int i1 = 0; i1 < len[1]; ++i1) {
+        const std::size_t base = static_cast<std::size_t>(idx[0][i0]) * plane +
+                                 static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
+        const double w01 = wt[0][i0] * wt[1][i1];
+        for (int i2 = 0; i2 < len[2]; ++i2) {
+          const double v = w01 * wt[2][i2];
+          const std::size_t cell = base + static_cast<std::size_t>(idx[2][i2]);
+          for (int a = 0; a < nc; ++a) acc[a] += v * grid[static_cast<std::size_t>(a) * cells + cell];
+        }
+      }
+    }
+    for (int a = 0; a < nc; ++a) out(k, a) = acc[a] * target_factor_[k];
+  }
+  fftw_free(grid);
+  return out;
+}
+
+}  // namespace lobecast
