@@ -1,0 +1,253 @@
+// The far-field methods against each other and against an independent reference:
+// the direct path (vectorized, engine/sincos.h) against a plain long double
+// std::complex loop of the formula in CONVENTIONS §1, and the fast path (type-3
+// NUFFT, engine/nufft.h) against the direct path, which must agree to the
+// requested tolerance relative to the pattern peak. Also the method choice, the
+// options check, chunked execution and thread independence.
+#include "engine/far_field.h"
+
+#include <cmath>
+#include <complex>
+#include <string>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "engine/error.h"
+#include "engine/grid.h"
+#include "tests/test_util.h"
+
+namespace lobecast {
+namespace {
+
+using testing::MakeDipole;
+using testing::RandomArray;
+using testing::TestRng;
+using LComplex = std::complex<long double>;
+
+Directions Grid(double step_deg) {
+  return Directions::FromGrid(AngularGrid::FromRanges({0, 180, step_deg}, {0, 360, step_deg}));
+}
+
+FieldOptions Options(FieldMethod m, double tol = 1e-9, int threads = 0) {
+  FieldOptions o;
+  o.method = m;
+  o.tolerance_relative = tol;
+  o.num_threads = threads;
+  return o;
+}
+
+double Peak(const FarField& f) {
+  double p = 0;
+  for (Eigen::Index i = 0; i < f.e_theta.size(); ++i) {
+    p = std::max(p, std::sqrt(std::norm(f.e_theta[i]) + std::norm(f.e_phi[i])));
+  }
+  return p;
+}
+
+// max |rE_a - rE_b| / max |rE_b|
+double RelativeDifference(const FarField& a, const FarField& b) {
+  double d = 0;
+  for (Eigen::Index i = 0; i < a.e_theta.size(); ++i) {
+    d = std::max(d, std::sqrt(std::norm(a.e_theta[i] - b.e_theta[i]) + std::norm(a.e_phi[i] - b.e_phi[i])));
+  }
+  return d / Peak(b);
+}
+
+// rE = -j (w mu0 / 4 pi) sum_n I_n Le_n M_perp exp(+j k r_hat . r_n) (CONVENTIONS §1),
+// with sources and images from ground.h, in long double with std::exp.
+FarField Reference(const Array& a, const Directions& dirs) {
+  const std::vector<Dipole> src = RadiatingSources(a);
+  const long double k = a.wavenumber_rad_m();
+  const long double pref = a.angular_frequency_rad_s() * kMu0_H_m / (4 * kPi);
+  FarField f;
+  f.e_theta.resize(static_cast<Eigen::Index>(dirs.size()));
+  f.e_phi.resize(static_cast<Eigen::Index>(dirs.size()));
+  for (std::size_t i = 0; i < dirs.size(); ++i) {
+    LComplex m[3] = {0, 0, 0};
+    const Vec3 r = dirs.r_hat(i);
+    for (std::size_t s = 0; s < src.size(); ++s) {
+      const Dipole& d = src[s];
+      const Complex cur = a.dipoles[s % a.size()].current_a;
+      const long double ph = k * (static_cast<long double>(r.x()) * d.position_m.x() +
+                                  static_cast<long double>(r.y()) * d.position_m.y() +
+                                  static_cast<long double>(r.z()) * d.position_m.z());
+      const LComplex w = LComplex(cur.real(), cur.imag()) * static_cast<long double>(d.effective_length_m()) *
+                         std::exp(LComplex(0, ph));
+      for (int c = 0; c < 3; ++c) m[c] += w * static_cast<long double>(d.orientation[c]);
+    }
+    const Vec3 t = dirs.theta_hat(i), p = dirs.phi_hat(i);
+    const LComplex mt = m[0] * (long double)t.x() + m[1] * (long double)t.y() + m[2] * (long double)t.z();
+    const LComplex mp = m[0] * (long double)p.x() + m[1] * (long double)p.y() + m[2] * (long double)p.z();
+    const bool zero = BelowGround(a.ground, dirs.theta_rad(i));
+    const LComplex mj(0, -pref);
+    f.e_theta[static_cast<Eigen::Index>(i)] = zero ? Complex(0) : Complex(static_cast<std::complex<double>>(mj * mt));
+    f.e_phi[static_cast<Eigen::Index>(i)] = zero ? Complex(0) : Complex(static_cast<std::complex<double>>(mj * mp));
+  }
+  return f;
+}
+
+// A z-directed planar lattice, half-wavelength pitch, random currents (one moment
+// axis: the collinear kernels).
+Array Lattice(TestRng& rng, int side, Ground ground = Ground::kNone) {
+  Array a;
+  a.frequency_hz = testing::kTestFrequency_hz;
+  a.ground = ground;
+  const double lambda = a.wavelength_m();
+  for (int i = 0; i < side * side; ++i) {
+    const Vec3 p(0.5 * lambda * (i % side), 0.5 * lambda * (i / side), ground == Ground::kPec ? 0.25 * lambda : 0.0);
+    a.dipoles.push_back(MakeDipole(p, Vec3::UnitZ(), 0.02 * lambda, rng.Phasor(0.1, 2.0)));
+  }
+  return a;
+}
+
+TEST(DirectPath, MatchesLongDoubleReference) {
+  TestRng rng(21);
+  const Directions dirs = Grid(7.5);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    for (int n : {1, 5, 37, 300}) {  // below, at and past a kernel tile and block
+      const Array a = RandomArray(rng, n, g, 6.0);
+      const FarField f = FieldPlan(a, dirs, Options(FieldMethod::kDirect)).Execute(CurrentsOf(a));
+      EXPECT_LT(RelativeDifference(f, Reference(a, dirs)), 1e-13) << n << " dipoles, " << ToString(g);
+    }
+    const Array lattice = Lattice(rng, 9, g);
+    const FarField f = FieldPlan(lattice, dirs, Options(FieldMethod::kDirect)).Execute(CurrentsOf(lattice));
+    EXPECT_LT(RelativeDifference(f, Reference(lattice, dirs)), 1e-13) << "lattice, " << ToString(g);
+  }
+}
+
+TEST(DirectPath, LargePhasesStayAccurate) {
+  // 300 wavelengths across: phases to ~1e3 rad.
+  TestRng rng(22);
+  const Array a = RandomArray(rng, 200, Ground::kNone, 300.0);
+  const Directions dirs = Grid(10);
+  const FarField f = FieldPlan(a, dirs, Options(FieldMethod::kDirect)).Execute(CurrentsOf(a));
+  EXPECT_LT(RelativeDifference(f, Reference(a, dirs)), 1e-12);
+}
+
+TEST(DirectPath, ThreadCountDoesNotChangeTheResult) {
+  TestRng rng(23);
+  const Array a = RandomArray(rng, 2500, Ground::kPec, 10.0);
+  const Directions dirs = Grid(3);
+  const FarField f1 = FieldPlan(a, dirs, Options(FieldMethod::kDirect, 1e-9, 1)).Execute(CurrentsOf(a));
+  const FarField f2 = FieldPlan(a, dirs, Options(FieldMethod::kDirect, 1e-9, 2)).Execute(CurrentsOf(a));
+  EXPECT_LE(RelativeDifference(f1, f2), 1e-13);
+}
+
+struct FastCase {
+  std::string name;
+  Array array;
+};
+
+class FastPath : public ::testing::TestWithParam<double> {};
+
+TEST_P(FastPath, AgreesWithDirectWithinTolerance) {
+  const double tol = GetParam();
+  TestRng rng(24);
+  std::vector<FastCase> cases;
+  cases.push_back({"random 3-D, free space", RandomArray(rng, 400, Ground::kNone, 8.0)});
+  cases.push_back({"random 3-D, PEC ground", RandomArray(rng, 300, Ground::kPec, 6.0)});
+  cases.push_back({"z lattice 24x24", Lattice(rng, 24)});
+  cases.push_back({"z lattice 16x16 over PEC", Lattice(rng, 16, Ground::kPec)});
+  Array line = Lattice(rng, 1);
+  for (int i = 1; i < 200; ++i) {
+    Dipole d = line.dipoles[0];
+    d.position_m.x() = 0.7 * line.wavelength_m() * i;
+    d.orientation = Vec3(1, 1, 0).normalized();
+    d.current_a = rng.Phasor(0.1, 2.0);
+    line.dipoles.push_back(d);
+  }
+  line.dipoles[0].orientation = Vec3(1, 1, 0).normalized();
+  cases.push_back({"linear, tilted", line});
+  const Directions dirs = Grid(2);
+  for (const FastCase& c : cases) {
+    const Eigen::VectorXcd cur = CurrentsOf(c.array);
+    const FieldPlan fast(c.array, dirs, Options(FieldMethod::kFast, tol));
+    ASSERT_EQ(fast.method_used(), FieldMethod::kFast);
+    const FarField ff = fast.Execute(cur);
+    const FarField fd = FieldPlan(c.array, dirs, Options(FieldMethod::kDirect)).Execute(cur);
+    const double err = RelativeDifference(ff, fd);
+    EXPECT_LT(err, tol) << c.name;
+    // The reported bound is met and is not below what was achieved.
+    EXPECT_LE(fast.error_bound_relative(), tol) << c.name;
+    EXPECT_GE(fast.error_bound_relative(), err) << c.name;
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Tolerances, FastPath, ::testing::Values(1e-4, 1e-7, 1e-9, 1e-12));
+
+TEST(FastPath, ChunkedExecutionMatchesWhole) {
+  TestRng rng(25);
+  const Array a = RandomArray(rng, 100, Ground::kNone, 4.0);
+  const Directions dirs = Grid(5);
+  for (FieldMethod m : {FieldMethod::kDirect, FieldMethod::kFast}) {
+    const FieldPlan plan(a, dirs, Options(m));
+    const Eigen::VectorXcd cur = CurrentsOf(a);
+    const FarField whole = plan.Execute(cur);
+    FarField part;
+    for (std::size_t first = 0; first < plan.num_directions(); first += 77) {
+      const std::size_t count = std::min<std::size_t>(77, plan.num_directions() - first);
+      plan.ExecuteRange(cur, first, count, part);
+      for (std::size_t j = 0; j < count; ++j) {
+        const auto i = static_cast<Eigen::Index>(first + j), e = static_cast<Eigen::Index>(j);
+        ASSERT_EQ(part.e_theta[e], whole.e_theta[i]) << ToString(m) << " direction " << i;
+        ASSERT_EQ(part.e_phi[e], whole.e_phi[i]) << ToString(m) << " direction " << i;
+      }
+    }
+    // A new current vector is not served from the cache.
+    const FarField doubled = plan.Execute(2.0 * cur);
+    EXPECT_LT(RelativeDifference(doubled, FieldPlan(a, dirs, Options(FieldMethod::kDirect)).Execute(2.0 * cur)), 1e-9);
+  }
+}
+
+TEST(FastPath, TotalCancellationFallsBackToTheExactSum) {
+  // Two coincident dipoles with opposite currents radiate nothing: no tolerance
+  // relative to a zero peak can be met by the NUFFT, so the plan sums directly.
+  Array a = testing::OneDipoleArray(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(1, 0)));
+  a.dipoles.push_back(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(-1, 0)));
+  const FieldPlan plan(a, Grid(10), Options(FieldMethod::kFast));
+  const FarField f = plan.Execute(CurrentsOf(a));
+  EXPECT_EQ(Peak(f), 0.0);
+  EXPECT_EQ(plan.error_bound_relative(), 0.0);
+}
+
+TEST(MethodChoice, AutoIsDirectForSmallAndFastForLargeJobs) {
+  TestRng rng(26);
+  const Array small = RandomArray(rng, 16, Ground::kNone, 2.0);
+  EXPECT_EQ(FieldPlan(small, Grid(1), FieldOptions{}).method_used(), FieldMethod::kDirect);
+  // 128 x 128 lattice on a 0.25 deg grid: 1.7e10 pairs directly.
+  const Array big = Lattice(rng, 128);
+  const Directions fine = Directions::FromGrid(AngularGrid::FromRanges({0, 180, 0.25}, {0, 360, 0.25}));
+  EXPECT_EQ(FieldPlan(big, fine, FieldOptions{}).method_used(), FieldMethod::kFast);
+  EXPECT_EQ(FieldPlan(big, Grid(30), FieldOptions{}).method_used(), FieldMethod::kDirect);
+}
+
+TEST(MethodChoice, NamesRoundTripCaseInsensitively) {
+  for (FieldMethod m : {FieldMethod::kDirect, FieldMethod::kFast, FieldMethod::kAuto}) {
+    EXPECT_EQ(FieldMethodFromString(ToString(m)), m);
+  }
+  EXPECT_EQ(FieldMethodFromString("FaSt"), FieldMethod::kFast);
+  EXPECT_EQ(FieldMethodFromString("nufft"), std::nullopt);
+}
+
+TEST(FieldOptionsCheck, NamesTheFieldAndValue) {
+  std::string why;
+  EXPECT_TRUE(FieldOptions{}.IsValid(&why));
+  FieldOptions o;
+  o.tolerance_relative = 0.5;
+  EXPECT_FALSE(o.IsValid(&why));
+  EXPECT_NE(why.find("tolerance_relative"), std::string::npos) << why;
+  EXPECT_NE(why.find("0.5"), std::string::npos) << why;
+  o = FieldOptions{};
+  o.num_threads = -1;
+  EXPECT_FALSE(o.IsValid(&why));
+  EXPECT_NE(why.find("num_threads"), std::string::npos) << why;
+  TestRng rng(27);
+  const Array a = RandomArray(rng, 3, Ground::kNone);
+  o.num_threads = 0;
+  o.tolerance_relative = 0.0;
+  EXPECT_THROW(FieldPlan(a, Grid(30), o), InvalidArgument);
+}
+
+}  // namespace
+}  // namespace lobecast

@@ -1,0 +1,133 @@
+// The type-3 NUFFT (engine/nufft.h) against the direct sum it approximates,
+// f_k = sum_j c_j exp(+i s_k . x_j), evaluated here in long double. Barnett,
+// Magland and af Klinteberg (SIAM J. Sci. Comput. 41, 2019, sec. 4) report errors
+// near the requested tolerance relative to sum_j |c_j|; we require below 3x that.
+#include "engine/nufft.h"
+
+#include <cmath>
+#include <complex>
+
+#include <gtest/gtest.h>
+
+#include "engine/error.h"
+#include "tests/test_util.h"
+
+namespace lobecast {
+namespace {
+
+using testing::TestRng;
+using LComplex = std::complex<long double>;
+
+// Max over targets and columns of |f - exact| / sum_j |c_j| (per column).
+double RelativeError(const Eigen::Matrix3Xd& x, const Eigen::Matrix3Xd& s,
+                     const Eigen::MatrixXcd& c, const Eigen::MatrixXcd& f) {
+  double worst = 0;
+  for (Eigen::Index a = 0; a < c.cols(); ++a) {
+    const double l1 = c.col(a).cwiseAbs().sum();
+    for (Eigen::Index k = 0; k < s.cols(); ++k) {
+      LComplex sum = 0;
+      for (Eigen::Index j = 0; j < x.cols(); ++j) {
+        const long double p = static_cast<long double>(s(0, k)) * x(0, j) +
+                              static_cast<long double>(s(1, k)) * x(1, j) +
+                              static_cast<long double>(s(2, k)) * x(2, j);
+        sum += LComplex(c(j, a).real(), c(j, a).imag()) * LComplex(cosl(p), sinl(p));
+      }
+      const LComplex d = LComplex(f(k, a).real(), f(k, a).imag()) - sum;
+      worst = std::max(worst, static_cast<double>(std::abs(d)) / l1);
+    }
+  }
+  return worst;
+}
+
+Eigen::Matrix3Xd RandomCloud(TestRng& rng, int n, const Eigen::Vector3d& half, const Eigen::Vector3d& centre) {
+  Eigen::Matrix3Xd m(3, n);
+  for (int j = 0; j < n; ++j) {
+    for (int d = 0; d < 3; ++d) m(d, j) = centre[d] + rng.Uniform(-half[d], half[d]);
+  }
+  return m;
+}
+
+Eigen::MatrixXcd RandomStrengths(TestRng& rng, int n, int cols) {
+  Eigen::MatrixXcd c(n, cols);
+  for (int j = 0; j < n; ++j) {
+    for (int a = 0; a < cols; ++a) c(j, a) = Complex(rng.Uniform(-1, 1), rng.Uniform(-1, 1));
+  }
+  return c;
+}
+
+struct Case {
+  const char* name;
+  Eigen::Vector3d x_half, s_half;
+};
+
+class NufftAccuracy : public ::testing::TestWithParam<double> {};
+
+TEST_P(NufftAccuracy, MatchesDirectSumIn1D2D3D) {
+  const double tol = GetParam();
+  const Case cases[] = {
+      {"3-D cloud", {3.0, 2.0, 1.5}, {8.0, 6.0, 7.0}},
+      {"planar (z exact)", {4.0, 5.0, 0.0}, {6.0, 6.0, 6.0}},
+      {"linear (y, z exact)", {20.0, 0.0, 0.0}, {3.0, 3.0, 3.0}},
+      {"targets on a line", {2.0, 2.0, 2.0}, {0.0, 0.0, 30.0}},
+  };
+  TestRng rng(11);
+  for (const Case& c : cases) {
+    const Eigen::Matrix3Xd x = RandomCloud(rng, 300, c.x_half, Eigen::Vector3d(0.7, -1.2, 2.0));
+    const Eigen::Matrix3Xd s = RandomCloud(rng, 400, c.s_half, Eigen::Vector3d(-0.3, 0.5, 1.1));
+    const Eigen::MatrixXcd str = RandomStrengths(rng, 300, 3);
+    const Nufft3 nufft(x, s, NufftOptions{tol, 0});
+    const double err = RelativeError(x, s, str, nufft.Execute(str));
+    EXPECT_LT(err, 3.0 * tol) << c.name << ", tolerance " << tol;
+    // Not absurdly pessimistic either: the width tracks the tolerance (floor 1e-14).
+    EXPECT_GT(err, 1e-4 * tol) << c.name << ", tolerance " << tol;
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Tolerances, NufftAccuracy, ::testing::Values(1e-3, 1e-6, 1e-9, 1e-12));
+
+TEST(Nufft, DegenerateDimensionsCostNothing) {
+  TestRng rng(12);
+  const Eigen::Matrix3Xd planar = RandomCloud(rng, 50, {5, 5, 0}, Eigen::Vector3d::Zero());
+  const Eigen::Matrix3Xd s = RandomCloud(rng, 50, {3, 3, 3}, Eigen::Vector3d::Zero());
+  const NufftGeometry g = Nufft3::GeometryFor(planar, s, 1e-9);
+  EXPECT_EQ(g.active_dims, 2);
+  EXPECT_EQ(g.fft_size[2], 1);
+  EXPECT_EQ(g.kernel_width, 10);  // ceil(log10(1e9)) + 1, Barnett et al. sec. 4.1
+}
+
+TEST(Nufft, SinglePointIsAPlaneWave) {
+  Eigen::Matrix3Xd x(3, 1);
+  x << 0.3, -0.2, 0.9;
+  TestRng rng(13);
+  const Eigen::Matrix3Xd s = RandomCloud(rng, 100, {10, 10, 10}, Eigen::Vector3d::Zero());
+  Eigen::MatrixXcd c(1, 1);
+  c(0, 0) = Complex(0.6, -0.8);
+  const Eigen::MatrixXcd f = Nufft3(x, s, NufftOptions{1e-12, 0}).Execute(c);
+  for (Eigen::Index k = 0; k < s.cols(); ++k) {
+    const double p = s.col(k).dot(x.col(0));
+    EXPECT_LT(std::abs(f(k, 0) - c(0, 0) * Complex(std::cos(p), std::sin(p))), 3e-12) << k;
+  }
+}
+
+TEST(Nufft, ResultDoesNotDependOnThreads) {
+  TestRng rng(14);
+  const Eigen::Matrix3Xd x = RandomCloud(rng, 500, {3, 3, 3}, Eigen::Vector3d::Zero());
+  const Eigen::Matrix3Xd s = RandomCloud(rng, 2000, {5, 5, 5}, Eigen::Vector3d::Zero());
+  const Eigen::MatrixXcd c = RandomStrengths(rng, 500, 2);
+  const Eigen::MatrixXcd f1 = Nufft3(x, s, NufftOptions{1e-9, 1}).Execute(c);
+  const Eigen::MatrixXcd f2 = Nufft3(x, s, NufftOptions{1e-9, 2}).Execute(c);
+  EXPECT_EQ((f1 - f2).cwiseAbs().maxCoeff(), 0.0);
+}
+
+TEST(Nufft, RejectsBadArguments) {
+  TestRng rng(15);
+  const Eigen::Matrix3Xd x = RandomCloud(rng, 5, {1, 1, 1}, Eigen::Vector3d::Zero());
+  EXPECT_THROW(Nufft3(x, x, NufftOptions{0.0, 0}), InvalidArgument);
+  EXPECT_THROW(Nufft3(x, x, NufftOptions{0.5, 0}), InvalidArgument);
+  const Nufft3 nufft(x, x, NufftOptions{1e-6, 0});
+  EXPECT_THROW(nufft.Execute(Eigen::MatrixXcd::Ones(4, 1)), InvalidArgument);
+  EXPECT_THROW(nufft.Execute(Eigen::MatrixXcd::Ones(5, 4)), InvalidArgument);
+}
+
+}  // namespace
+}  // namespace lobecast
