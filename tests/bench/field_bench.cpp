@@ -4,9 +4,9 @@
 // the peak resident memory (getrusage ru_maxrss) belongs to that case alone.
 //
 // Arrays: N z-directed short dipoles on a square planar lattice of half-wavelength
-// pitch with a small random jitter (a large planar array), random complex currents;
-// "general" cases tilt every dipole randomly, which takes the three-component
-// kernels. Huge direct and scalar cases run on an evenly strided subset of the grid
+// pitch with a small random jitter in x and y (a large planar array), random
+// complex currents; "general" cases tilt every dipole randomly and jitter z too,
+// which takes the three-component kernels and a 3-D NUFFT grid. Huge direct and scalar cases run on an evenly strided subset of the grid
 // (reported as "directions"), so pairs/s stays comparable.
 #include <sys/resource.h>
 
@@ -37,7 +37,10 @@ Array PlanarArray(int n, bool general) {
   std::uniform_real_distribution<double> u(-1.0, 1.0);
   for (int i = 0; i < n; ++i) {
     Dipole d;
-    d.position_m = Vec3((i % side) * 0.5 + 0.05 * u(rng), (i / side) * 0.5 + 0.05 * u(rng), 0.05 * u(rng)) * lambda;
+    // Planar (z = 0) for the collinear cases; the general cases also jitter z, so
+    // the fast path needs a 3-D grid there.
+    d.position_m = Vec3((i % side) * 0.5 + 0.05 * u(rng), (i / side) * 0.5 + 0.05 * u(rng),
+                        general ? 0.05 * u(rng) : 0.0) * lambda;
     d.orientation = general ? Vec3(u(rng), u(rng), u(rng)).normalized() : Vec3::UnitZ();
     d.length_m = 0.01 * lambda;
     d.current_a = Complex(u(rng), u(rng));
