@@ -5,6 +5,7 @@
 #include <limits>
 #include <vector>
 
+#include <Eigen/Geometry>
 #include <gtest/gtest.h>
 
 #include "engine/constants.h"

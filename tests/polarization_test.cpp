@@ -75,11 +75,26 @@ TEST(Polarization, StokesParameters) {
     EXPECT_NEAR(p.s0, s0, 1e-15 * s0);
     EXPECT_NEAR(p.s1, std::norm(et) - std::norm(ep), 1e-14 * s0);
     EXPECT_NEAR(p.s2, 2 * (et * std::conj(ep)).real(), 1e-14 * s0);
-    // s3 = |E_R|^2 - |E_L|^2, positive for right-hand (polarization.h).
-    EXPECT_NEAR(p.s3, std::norm(p.e_right) - std::norm(p.e_left), 1e-14 * s0);
     // A fully polarized wave: s0^2 = s1^2 + s2^2 + s3^2 (Stokes; e.g. Born & Wolf,
     // Principles of Optics, 7th ed., 1999, sec. 1.4.2, section from memory).
     EXPECT_NEAR(p.s0 * p.s0, p.s1 * p.s1 + p.s2 * p.s2 + p.s3 * p.s3, 1e-13 * s0 * s0);
+  }
+}
+
+TEST(Polarization, S3IsPositiveForRightHand) {
+  // polarization.h: s3 = |E_R|^2 - |E_L|^2, positive for right-hand (the IEEE Std
+  // 145-2013 sense of CONVENTIONS §2). The RHCP unit vector (theta_hat - j phi_hat)/sqrt2
+  // has E_R = 1, E_L = 0, so s3 = +1. Note |E_R|^2 - |E_L|^2 = +2 Im(Et Ep*).
+  const Polarization r = PolarizationOf(1.0 / std::sqrt(2.0), -kJ / std::sqrt(2.0));
+  EXPECT_NEAR(r.s3, 1.0, 1e-15);
+  const Polarization l = PolarizationOf(1.0 / std::sqrt(2.0), kJ / std::sqrt(2.0));
+  EXPECT_NEAR(l.s3, -1.0, 1e-15);
+  TestRng rng(41);
+  for (int i = 0; i < 200 && !HasFailure(); ++i) {
+    const Complex et = rng.Phasor(0, 3), ep = rng.Phasor(0, 3);
+    const Polarization p = PolarizationOf(et, ep);
+    const double s0 = std::norm(et) + std::norm(ep);
+    EXPECT_NEAR(p.s3, std::norm(p.e_right) - std::norm(p.e_left), 1e-14 * s0) << et << " " << ep;
     EXPECT_EQ(p.s3 > 0, p.sense == 1) << et << " " << ep;
   }
 }
