@@ -1,0 +1,28 @@
+// The error io/ throws when a file cannot be read or written. Bad input (a
+// malformed array description) is reported by the array reader with its own
+// located message; this one is for the file system and the file formats.
+#pragma once
+
+#include <stdexcept>
+#include <string>
+#include <utility>
+
+namespace lobecast {
+
+class IoError : public std::runtime_error {
+ public:
+  // what() is "<path>: <detail>".
+  IoError(std::string path, std::string detail)
+      : std::runtime_error(path + ": " + detail),
+        path_(std::move(path)),
+        detail_(std::move(detail)) {}
+
+  const std::string& path() const { return path_; }
+  const std::string& detail() const { return detail_; }
+
+ private:
+  std::string path_;
+  std::string detail_;
+};
+
+}  // namespace lobecast
