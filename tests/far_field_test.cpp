@@ -253,6 +253,48 @@ TEST(FarField, FastPathMeetsItsTolerance) {
   }
 }
 
+TEST(FarField, FastPlanReuseAndCopiesFollowTheCurrents) {
+  // The fast path caches per current vector and copies share the cache (far_field.h):
+  // alternating current vectors, chunked execution and a copied plan must all give the
+  // field of the currents actually passed, within the tolerance, and be linear.
+  TestRng rng(13);
+  const Array a = testing::RandomArray(rng, 30, Ground::kNone, 3.0);
+  const Directions dirs =
+      Directions::FromGrid(AngularGrid::FromRanges({0, 180, 2}, {0, 358, 2}));
+  Eigen::VectorXcd i1(30), i2(30);
+  for (int n = 0; n < 30; ++n) {
+    i1[n] = rng.Phasor(0.1, 2);
+    i2[n] = rng.Phasor(0.1, 2);
+  }
+  FieldOptions fast;
+  fast.method = FieldMethod::kFast;
+  fast.tolerance_relative = 1e-10;
+  const FieldPlan plan(a, dirs, fast);
+  const FieldPlan direct(a, dirs, DirectMethod());
+  const FarField d1 = direct.Execute(i1), d2 = direct.Execute(i2);
+  const double s1 = testing::Magnitude(d1).maxCoeff(), s2 = testing::Magnitude(d2).maxCoeff();
+  EXPECT_LE(testing::MaxFieldDifference(plan.Execute(i1), d1), 1e-10 * s1);
+  EXPECT_LE(testing::MaxFieldDifference(plan.Execute(i2), d2), 1e-10 * s2);
+  const FieldPlan copy = plan;
+  EXPECT_LE(testing::MaxFieldDifference(copy.Execute(i1), d1), 1e-10 * s1);
+  EXPECT_LE(testing::MaxFieldDifference(plan.Execute(i2), d2), 1e-10 * s2);
+  FarField part;
+  const std::size_t first = 1000, count = 777;
+  plan.ExecuteRange(i1, first, count, part);
+  ASSERT_EQ(part.size(), count);
+  double err = 0;
+  for (std::size_t i = 0; i < count; ++i)
+    err = std::max({err, std::abs(part.e_theta[i] - d1.e_theta[first + i]),
+                    std::abs(part.e_phi[i] - d1.e_phi[first + i])});
+  EXPECT_LE(err, 1e-10 * s1);
+  const Complex alpha(0.8, -0.3);
+  FarField lin;
+  lin.e_theta = alpha * d1.e_theta + d2.e_theta;
+  lin.e_phi = alpha * d1.e_phi + d2.e_phi;
+  EXPECT_LE(testing::MaxFieldDifference(plan.Execute(alpha * i1 + i2), lin),
+            1e-10 * testing::Magnitude(lin).maxCoeff());
+}
+
 TEST(FarField, AutoTakesTheDirectSumForSmallJobs) {
   const Array a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.01, 1.0));
   const FieldPlan plan(a, CoarseGrid());
