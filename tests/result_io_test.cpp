@@ -3,10 +3,12 @@
 // are about storage, not physics.
 #include <unistd.h>
 
+#include <algorithm>
 #include <cmath>
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
+#include <functional>
 #include <limits>
 #include <regex>
 #include <string>
