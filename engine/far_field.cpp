@@ -155,12 +155,15 @@ constexpr double kErrorModel = 3.0;
 // The first fast pass runs at this tolerance (cheap, w = 5) to locate the peak.
 constexpr double kScoutTolerance = 1e-4;
 
-// Cost model for kAuto, seconds per unit on one core of the development machine
-// (AMD EPYC, AVX-512), from tests/bench/field_bench.cpp. Only their ratios matter.
-constexpr double kSecondsPerPairCollinear = 1.0 / 7.0e8;
-constexpr double kSecondsPerPairGeneral = 1.0 / 3.5e8;
+// Cost model for kAuto: CPU seconds per unit on one core of the development
+// machine (AMD EPYC at 2.1 GHz, AVX-512 clone), from tests/bench/field_bench.cpp
+// process CPU times. Only their ratios matter; the 0.5 margin in the choice
+// absorbs the model's roughness.
+constexpr double kSecondsPerPairCollinear = 1.0 / 6.5e8;
+constexpr double kSecondsPerPairGeneral = 1.0 / 4.5e8;
 constexpr double kSecondsPerKernelPoint = 2.0e-9;   // spread or interpolate, per component
 constexpr double kSecondsPerFftPointLog = 1.0e-9;   // per grid point and log2(size), per component
+constexpr double kSecondsPerTargetPass = 1.0e-6;    // kernel transforms, phases, copies
 constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
 
 // True when every column of m is parallel or antiparallel to one unit vector.
@@ -209,7 +212,8 @@ double FieldPlan::EstimatedFastSeconds() const {
     const double spread = static_cast<double>(num_sources()) * g.kernel_points() * comps;
     const double interp = static_cast<double>(num_directions()) * g.kernel_points() * comps / threads;
     const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
-    total += (spread + interp) * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog;
+    total += (spread + interp) * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog +
+             static_cast<double>(num_directions()) * kSecondsPerTargetPass / threads;
   }
   return total;
 }

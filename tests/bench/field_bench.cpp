@@ -78,7 +78,7 @@ void BM_ScalarLoop(benchmark::State& state) {
   const double step = static_cast<double>(state.range(1)) / 100.0;
   const Array a = PlanarArray(n, state.range(2) != 0);
   std::size_t full = 0;
-  const Directions dirs = GridDirections(step, n, 2.0e8, &full);
+  const Directions dirs = GridDirections(step, n, 1.0e8, &full);
   const double k = a.wavenumber_rad_m();
   const auto m = static_cast<std::ptrdiff_t>(dirs.size());
   std::vector<Complex> et(dirs.size()), ep(dirs.size());
