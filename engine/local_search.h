@@ -1,0 +1,58 @@
+// Small derivative-free searches that refine pattern features off the grid: a root
+// of a bracketed scalar function, the minimum of a scalar function on an interval,
+// and a local minimum of a function of two variables. Generic numerics only; the
+// pattern-specific objectives live in beam.cpp, side_lobes.cpp and nulls.cpp.
+#pragma once
+
+#include <functional>
+
+namespace lobecast {
+
+// A root of f in [lo, hi], given f_lo = f(lo) and f_hi = f(hi) of opposite signs (or
+// one of them zero), by Brent's method: inverse quadratic or secant steps guarded by
+// bisection (R. P. Brent, Algorithms for Minimization without Derivatives, 1973,
+// ch. 4). The bracket always holds a sign change, so a discontinuity (the edge of the
+// ground's no-field region) is found like a root. Stops once the bracket is narrower
+// than about tolerance. Throws InvalidArgument without a sign change.
+double FindRoot(const std::function<double(double)>& f, double lo, double hi, double f_lo,
+                double f_hi, double tolerance);
+
+struct LineMinimum {
+  double x = 0.0;
+  double value = 0.0;
+};
+
+// A minimum of f on [lo, hi] by golden-section search (J. Kiefer, "Sequential minimax
+// search for a maximum", Proc. AMS 4, 1953): robust for any unimodal f, including
+// quartic minima and minima at an endpoint. Stops once the bracket is narrower than
+// tolerance. Only comparisons of f are used, so a zero at the minimum (an exact null)
+// is located to far below tolerance when the values around it are well above rounding.
+LineMinimum MinimizeOnInterval(const std::function<double(double)>& f, double lo, double hi,
+                               double tolerance);
+
+struct PlaneSearchOptions {
+  // Size of the starting simplex; about the spacing of the grid the start came from,
+  // so the first moves explore the cell around it.
+  double initial_step = 1e-2;
+  // Stop when every vertex is within this distance of the best one.
+  double tolerance = 1e-9;
+  // Hard stop, counted in evaluations of f.
+  int max_evaluations = 2000;
+};
+
+struct PlaneMinimum {
+  double a = 0.0;
+  double b = 0.0;
+  double value = 0.0;
+  int evaluations = 0;
+  bool converged = false;  // the simplex shrank below tolerance before max_evaluations
+};
+
+// A local minimum of f(a, b) near (a0, b0) by the Nelder-Mead simplex method with
+// the usual coefficients (reflection 1, expansion 2, contraction 1/2, shrink 1/2;
+// J. A. Nelder and R. Mead, "A simplex method for function minimization", Computer
+// Journal 7, 1965). f may return +inf for points that are not allowed.
+PlaneMinimum MinimizeOnPlane(const std::function<double(double, double)>& f, double a0, double b0,
+                             const PlaneSearchOptions& options);
+
+}  // namespace lobecast

@@ -1,0 +1,368 @@
+// Pattern analysis (engine/pattern_analysis.h): beams, lobes, nulls and polarization
+// purity of arrays whose answers are known in closed form, on coarse grids, so that
+// the off-grid refinement is what is being checked.
+#include "engine/pattern_analysis.h"
+
+#include <cmath>
+#include <limits>
+#include <string>
+#include <vector>
+
+#include <gtest/gtest.h>
+
+#include "engine/constants.h"
+#include "engine/error.h"
+#include "engine/pattern.h"
+#include "engine/polarization.h"
+#include "engine/types.h"
+#include "tests/test_util.h"
+
+namespace lobecast {
+namespace {
+
+using testing::kTestFrequency_hz;
+using testing::MakeDipole;
+
+double Lambda() { return kSpeedOfLight_m_s / kTestFrequency_hz; }
+
+AngularGrid Grid(double step_deg) {
+  // phi runs to 360 inclusive on purpose: the analysis must treat phi = 360 as phi = 0.
+  return AngularGrid::FromRanges({0.0, 180.0, step_deg}, {0.0, 360.0, step_deg});
+}
+
+// Angle between two directions given in degrees, deg.
+double Separation_deg(double t1, double p1, double t2, double p2) {
+  const Vec3 a(std::sin(t1 * kDegree) * std::cos(p1 * kDegree),
+               std::sin(t1 * kDegree) * std::sin(p1 * kDegree), std::cos(t1 * kDegree));
+  const Vec3 b(std::sin(t2 * kDegree) * std::cos(p2 * kDegree),
+               std::sin(t2 * kDegree) * std::sin(p2 * kDegree), std::cos(t2 * kDegree));
+  return std::atan2(a.cross(b).norm(), a.dot(b)) / kDegree;
+}
+
+// n z-directed Hertzian dipoles on the x axis, spacing d, currents exp(-j k d i cos phi0):
+// the array factor in the xy plane peaks at phi = phi0 (phi0 = 90 deg: broadside).
+Array ZLineAlongX(int n, double spacing_m, double phi0_deg) {
+  Array a;
+  a.frequency_hz = kTestFrequency_hz;
+  const double k = 2 * kPi / Lambda();
+  for (int i = 0; i < n; ++i) {
+    const Complex c = std::polar(1.0, -k * spacing_m * i * std::cos(phi0_deg * kDegree));
+    a.dipoles.push_back(MakeDipole(Vec3(i * spacing_m, 0, 0), Vec3::UnitZ(), Lambda() / 100, c));
+  }
+  return a;
+}
+
+// |AF|^2 / N^2 of a uniform line, u = k d cos(angle from the line axis) + phase step.
+double UniformFactor(int n, double u) {
+  const double s = std::sin(0.5 * u);
+  if (std::abs(s) < 1e-300) return 1.0;
+  const double r = std::sin(0.5 * n * u) / (n * s);
+  return r * r;
+}
+
+// Highest |AF|^2 / N^2 of the first side lobe, u in (2 pi/N, 4 pi/N): a plain dense scan
+// followed by a golden-section refinement written here, independent of the engine.
+double FirstSideLobeDb(int n) {
+  double lo = 2 * kPi / n, hi = 4 * kPi / n;
+  const double g = 0.5 * (std::sqrt(5.0) - 1);
+  for (int it = 0; it < 200; ++it) {
+    const double x1 = hi - g * (hi - lo), x2 = lo + g * (hi - lo);
+    if (UniformFactor(n, x1) > UniformFactor(n, x2))
+      hi = x2;
+    else
+      lo = x1;
+  }
+  return 10 * std::log10(UniformFactor(n, 0.5 * (lo + hi)));
+}
+
+TEST(PatternAnalysis, HertzianDipole) {
+  // z-directed Hertzian dipole: D = 1.5 on the equator, HPBW 90 deg in the elevation
+  // plane (sin^2 theta = 1/2 at 45 and 135 deg), nulls exactly on the axis (Balanis,
+  // Antenna Theory, 4th ed., 2016, sec. 4.2; section number from memory).
+  const Array a =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100, 1.0));
+  const PatternResult g = ComputePattern(a, Grid(5.0));
+  const PatternAnalysis r = AnalyzePattern(a, g);
+  EXPECT_NEAR(r.peak.directivity, 1.5, 1.5e-12);
+  EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-6);
+  EXPECT_TRUE(r.elevation_cut.half_power_found);
+  EXPECT_NEAR(r.elevation_cut.half_power_width_deg, 90.0, 1e-6);
+  EXPECT_NEAR(r.elevation_cut.half_power_lower_deg, -45.0, 1e-6);
+  EXPECT_NEAR(r.elevation_cut.first_null_width_deg, 180.0, 1e-6);
+  // The azimuth plane never falls to half power.
+  EXPECT_FALSE(r.orthogonal_cut.half_power_found);
+  EXPECT_TRUE(std::isinf(r.orthogonal_cut.half_power_width_deg));
+  // Symmetric pattern: the back direction has the peak directivity.
+  EXPECT_NEAR(r.front_to_back.ratio_db, 0.0, 1e-9);
+  ASSERT_EQ(r.nulls.size(), 2u);
+  for (const Null& n : r.nulls) {
+    EXPECT_TRUE(n.exact);
+    EXPECT_LT(std::min(n.direction.theta_deg, 180.0 - n.direction.theta_deg), 1e-9);
+  }
+  // The equator is one ring of maxima: no other lobes.
+  EXPECT_TRUE(r.major_lobes.empty());
+  EXPECT_FALSE(r.highest_side_lobe.has_value());
+}
+
+TEST(PatternAnalysis, TiltedDipoleNullsOffGrid) {
+  // A Hertzian dipole along u radiates nothing along +-u (Balanis 4th ed. sec. 4.2): point
+  // nulls, here off a 5 deg grid, refined to better than 1e-4 deg.
+  const double t0 = 17.3, p0 = 41.7;
+  const Vec3 u(std::sin(t0 * kDegree) * std::cos(p0 * kDegree),
+               std::sin(t0 * kDegree) * std::sin(p0 * kDegree), std::cos(t0 * kDegree));
+  const Array a = testing::OneDipoleArray(MakeDipole(Vec3::Zero(), u, Lambda() / 100, 1.0));
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  ASSERT_EQ(r.nulls.size(), 2u);
+  for (const Null& n : r.nulls) {
+    const double d =
+        std::min(Separation_deg(n.direction.theta_deg, n.direction.phi_deg, t0, p0),
+                 Separation_deg(n.direction.theta_deg, n.direction.phi_deg, 180 - t0, p0 + 180));
+    EXPECT_LT(d, 1e-4) << "null at " << n.direction.theta_deg << ", " << n.direction.phi_deg;
+    EXPECT_TRUE(n.exact) << n.level_db;
+  }
+  EXPECT_NEAR(r.peak.directivity, 1.5, 1.5e-12);
+}
+
+TEST(PatternAnalysis, UniformBroadsideLine) {
+  // 32 z dipoles along x, d = lambda/2, equal currents. In the H-plane (xy plane, element
+  // factor 1) the pattern is the uniform array factor (Balanis 4th ed., sec. 6.3, uniform
+  // linear arrays; from memory): first nulls at cos(angle from the axis) = lambda/(N d),
+  // first side lobe -> -13.26 dB for large N (value from memory). HPBW ~ 0.886
+  // lambda/(N d) rad for long arrays (Hansen, Phased Array Antennas, 2nd ed., 2009, ch. 3;
+  // N d = 16 lambda here). The elevation cut (yz plane) sees the element factor only.
+  const int n = 32;
+  const double d = 0.5 * Lambda();
+  const Array a = ZLineAlongX(n, d, 90.0);
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(1.0)));
+  EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-6);
+  EXPECT_NEAR(std::abs(r.peak.direction.phi_deg - 180.0), 90.0, 1e-6);
+
+  const double fnbw = 2 * std::asin(Lambda() / (n * d)) / kDegree;
+  EXPECT_NEAR(r.orthogonal_cut.first_null_width_deg, fnbw, 1e-6);
+  // Independent half-power point: bisection on the array factor in u = k d sin(beta).
+  double lo = 0, hi = 2 * kPi / n;
+  for (int it = 0; it < 200; ++it) {
+    const double mid = 0.5 * (lo + hi);
+    (UniformFactor(n, mid) > 0.5 ? lo : hi) = mid;
+  }
+  const double hpbw = 2 * std::asin(lo / (2 * kPi / Lambda() * d)) / kDegree;
+  EXPECT_NEAR(r.orthogonal_cut.half_power_width_deg, hpbw, 1e-6);
+  const double hansen = 0.886 * Lambda() / (n * d) / kDegree;
+  EXPECT_NEAR(r.orthogonal_cut.half_power_width_deg / hansen, 1.0, 0.01);
+  EXPECT_NEAR(r.elevation_cut.half_power_width_deg, 90.0, 1e-6);
+
+  ASSERT_TRUE(r.highest_side_lobe.has_value());
+  EXPECT_NEAR(r.highest_side_lobe->level_db, FirstSideLobeDb(n), 1e-6);
+  EXPECT_NEAR(r.highest_side_lobe->level_db, -13.26, 0.05);
+  EXPECT_NEAR(r.highest_side_lobe->direction.theta_deg, 90.0, 1e-6);
+  // The mirror beam toward -y (or +y) is a second major lobe, not a side lobe.
+  ASSERT_EQ(r.major_lobes.size(), 1u);
+  EXPECT_NEAR(r.major_lobes[0].level_db, 0.0, 1e-9);
+  EXPECT_NEAR(
+      Separation_deg(r.major_lobes[0].direction.theta_deg, r.major_lobes[0].direction.phi_deg, 90,
+                     r.peak.direction.phi_deg + 180),
+      0.0, 1e-6);
+  // Every listed side lobe is at or above the threshold, highest first.
+  for (std::size_t i = 0; i < r.side_lobes.size(); ++i) {
+    EXPECT_GE(r.side_lobes[i].level_db, -30.0);
+    if (i > 0) {
+      EXPECT_LE(r.side_lobes[i].level_db, r.side_lobes[i - 1].level_db);
+    }
+  }
+  EXPECT_GT(r.side_lobes.size(), 4u);
+}
+
+TEST(PatternAnalysis, FirstSideLobeApproachesLimit) {
+  // The first side lobe of a uniform line tends to -13.26 dB from above as N grows
+  // (Balanis 4th ed., sec. 6.3; from memory): 8 elements are further from it than 32.
+  const Array a = ZLineAlongX(8, 0.5 * Lambda(), 90.0);
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(2.0)));
+  ASSERT_TRUE(r.highest_side_lobe.has_value());
+  EXPECT_NEAR(r.highest_side_lobe->level_db, FirstSideLobeDb(8), 1e-6);
+  EXPECT_GT(r.highest_side_lobe->level_db + 13.26, 0.3);  // about -12.8 dB for N = 8
+}
+
+TEST(PatternAnalysis, EndfirePairFrontToBack) {
+  // Two sources lambda/4 apart fed 90 deg out of phase: the fields cancel exactly
+  // toward the lagging side (Kraus, Antennas, 2nd ed., 1988, two isotropic point
+  // sources, case of lambda/4 spacing and 90 deg phase; from memory). z dipoles on the x
+  // axis, element 1 lagging: peak toward +x, null toward -x.
+  Array a;
+  a.frequency_hz = kTestFrequency_hz;
+  a.dipoles = {
+      MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100, 1.0),
+      MakeDipole(Vec3(0.25 * Lambda(), 0, 0), Vec3::UnitZ(), Lambda() / 100, Complex(0, -1))};
+  AnalysisOptions o;
+  o.protected_directions_deg = {{90.0, 180.0}, {90.0, 0.0}};
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)), o);
+  EXPECT_LT(Separation_deg(r.peak.direction.theta_deg, r.peak.direction.phi_deg, 90, 0), 1e-4);
+  EXPECT_GT(r.front_to_back.ratio_db, 200.0);
+  bool back_null = false;
+  for (const Null& nl : r.nulls)
+    back_null |= Separation_deg(nl.direction.theta_deg, nl.direction.phi_deg, 90, 180) < 1e-4;
+  EXPECT_TRUE(back_null);
+  ASSERT_EQ(r.protected_directions.size(), 2u);
+  EXPECT_LT(r.protected_directions[0].level_db, -200.0);
+  EXPECT_NEAR(r.protected_directions[1].level_db, 0.0, 1e-9);
+}
+
+TEST(PatternAnalysis, SteeredPeakAndNullsOffGrid) {
+  // 8 z dipoles along x, d = lambda/2, steered to phi0 in the xy plane: the peak is at
+  // (90, phi0) exactly, and the array-factor zeros are the cones
+  // k d (sin(theta) cos(phi) - cos(phi0)) = 2 pi m / N, m not a multiple of N (Balanis
+  // 4th ed., sec. 6.3; from memory). Grid 5 deg; both found to better than 1e-4 deg.
+  const int n = 8;
+  const double d = 0.5 * Lambda(), phi0 = 62.3456;
+  const Array a = ZLineAlongX(n, d, phi0);
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
+  EXPECT_NEAR(r.peak.direction.phi_deg, phi0, 1e-4);
+  ASSERT_FALSE(r.nulls.empty());
+  const double kd = 2 * kPi / Lambda() * d;
+  for (const Null& nl : r.nulls) {
+    const double st = std::sin(nl.direction.theta_deg * kDegree);
+    if (st < 1e-9) continue;  // the element's own null on the z axis
+    const double c = st * std::cos(nl.direction.phi_deg * kDegree);  // cos(angle from x)
+    // The nearest zero cone, and the angular distance to it.
+    const double m = std::round(kd * (c - std::cos(phi0 * kDegree)) * n / (2 * kPi));
+    const double c_zero = std::cos(phi0 * kDegree) + 2 * kPi * m / (n * kd);
+    EXPECT_NE(std::fmod(m, n), 0.0);
+    EXPECT_LT(std::abs(std::acos(c) - std::acos(c_zero)) / kDegree, 1e-4)
+        << "null at " << nl.direction.theta_deg << ", " << nl.direction.phi_deg;
+  }
+}
+
+TEST(PatternAnalysis, VerticalDipoleOverGround) {
+  // A vertical Hertzian dipole just above a PEC ground: D -> 3 on the horizon (Balanis
+  // 4th ed., sec. 4.7.2; CONVENTIONS §1). The lower half space has no field and must not
+  // show up as nulls; the only null is the zenith. The elevation beam is clipped by the
+  // ground: from the horizon up to 45 deg elevation (sin^2 theta = 1/2).
+  const Array a = testing::OneDipoleArray(
+      MakeDipole(Vec3(0, 0, 1e-3 * Lambda()), Vec3::UnitZ(), Lambda() / 100, 1.0), Ground::kPec);
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  EXPECT_NEAR(r.peak.directivity, 3.0, 1e-3);
+  EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
+  ASSERT_EQ(r.nulls.size(), 1u);
+  EXPECT_LT(r.nulls[0].direction.theta_deg, 1e-6);
+  EXPECT_TRUE(r.elevation_cut.clipped_by_ground);
+  EXPECT_NEAR(r.elevation_cut.half_power_width_deg, 45.0, 0.01);
+  EXPECT_TRUE(std::isinf(r.front_to_back.ratio_db));  // straight down: below the ground
+}
+
+TEST(PatternAnalysis, LinearDipoleXpd) {
+  // An x dipole's field on its broadside circle (the yz plane) is exactly along the
+  // Ludwig-3 x co-polar vector (A. C. Ludwig, IEEE Trans. AP-21, 1973), so the XPD at the
+  // peak is unbounded; the field is linear, AR = +inf (IEEE Std 145-2013).
+  const Array a =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100, 1.0));
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  EXPECT_GT(r.polarization.xpd_at_peak_db, 200.0);
+  EXPECT_TRUE(std::isinf(r.polarization.axial_ratio_at_peak_db));
+  EXPECT_EQ(r.polarization.sense_at_peak, 0);
+  EXPECT_NEAR(r.polarization.co_polar_dbi_at_peak, 10 * std::log10(1.5), 1e-9);
+}
+
+TEST(PatternAnalysis, WorstXpdInBeam) {
+  // A horizontal x dipole lambda/4 above a PEC ground: the image (reversed, Balanis 4th
+  // ed., sec. 4.7; CONVENTIONS §1) multiplies the free-space field by a scalar array factor
+  // 2j sin(k h cos t), so the Ludwig-3 ratio is the dipole's own: with Et = cos t cos p,
+  // Ep = -sin p (an x dipole's field up to a factor, from the CONVENTIONS §1 formula),
+  // co = cos t cos^2 p + sin^2 p and cross = sin p cos p (cos t - 1) (Ludwig, IEEE Trans.
+  // AP-21, 1973, third definition). The -3 dB beam is the cap about the zenith where
+  // D ~ (1 - sin^2 t cos^2 p) sin^2(pi/2 cos t) >= half its peak. The worst XPD in it is
+  // compared with a dense scan of that closed form over the cap.
+  const Array a = testing::OneDipoleArray(
+      MakeDipole(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitX(), Lambda() / 100, 1.0), Ground::kPec);
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  EXPECT_LT(r.peak.direction.theta_deg, 1e-4);
+  auto d = [](double t, double p) {
+    return (1 - std::pow(std::sin(t) * std::cos(p), 2)) *
+           std::pow(std::sin(0.5 * kPi * std::cos(t)), 2);
+  };
+  double dense_min = std::numeric_limits<double>::infinity();
+  for (int i = 0; i <= 900; ++i) {
+    for (int j = 0; j < 3600; ++j) {
+      const double t = i * 0.1 * kDegree, p = j * 0.1 * kDegree;
+      if (d(t, p) < 0.5 * d(0, 0)) continue;
+      const double co = std::cos(t) * std::pow(std::cos(p), 2) + std::pow(std::sin(p), 2);
+      const double cr = std::sin(p) * std::cos(p) * (std::cos(t) - 1);
+      if (cr != 0) dense_min = std::min(dense_min, 10 * std::log10(co * co / (cr * cr)));
+    }
+  }
+  EXPECT_NEAR(r.polarization.worst_xpd_in_beam_db, dense_min, 0.05);
+  EXPECT_TRUE(std::isinf(r.polarization.xpd_at_peak_db) || r.polarization.xpd_at_peak_db > 200);
+}
+
+TEST(PatternAnalysis, TurnstileAxialRatio) {
+  // Crossed x and y dipoles fed 1 A and -j A. From the dipole fields (CONVENTIONS §1),
+  // Et = c cos(theta) e^{-j phi}, Ep = -j c e^{-j phi}: quadrature phase, so
+  // AR = 1/|cos theta|, right-hand above the xy plane (E_R = (Et + j Ep)/sqrt2, IEEE Std
+  // 145-2013). AR <= 3 dB where cos(theta) >= 10^(-3/20): a cap of 2 pi (1 - 10^(-3/20)) sr.
+  Array a;
+  a.frequency_hz = kTestFrequency_hz;
+  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100, 1.0),
+               MakeDipole(Vec3::Zero(), Vec3::UnitY(), Lambda() / 100, Complex(0, -1))};
+  AnalysisOptions o;
+  o.reference = PolarizationReference::kRightCircular;
+  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)), o);
+  EXPECT_LT(r.peak.direction.theta_deg, 1e-4);
+  EXPECT_LT(r.polarization.axial_ratio_at_peak_db, 1e-9);
+  EXPECT_EQ(r.polarization.sense_at_peak, 1);
+  EXPECT_GT(r.polarization.xpd_at_peak_db, 200.0);
+  const double cap = 2 * kPi * (1 - std::pow(10.0, -3.0 / 20.0));
+  EXPECT_NEAR(r.polarization.axial_ratio_solid_angle_sr, cap, 1e-9);
+
+  // Independent quadrature: midpoint rule in (cos theta, phi) over the engine's field and
+  // PolarizationOf, counting right-hand directions with AR <= 3 dB. The error is about one
+  // cell of cos(theta) at the edge, 2 pi / 4000 ~ 1.6e-3 sr at most.
+  const int n_mu = 4000, n_phi = 16;
+  std::vector<double> th, ph;
+  for (int i = 0; i < n_mu; ++i)
+    for (int j = 0; j < n_phi; ++j) {
+      th.push_back(std::acos(-1 + (i + 0.5) * 2.0 / n_mu));
+      ph.push_back((j + 0.5) * 2 * kPi / n_phi);
+    }
+  const FarField f =
+      FieldPlan(a, Directions::FromAngles(th, ph), testing::DirectMethod()).Execute(CurrentsOf(a));
+  double omega = 0;
+  for (std::size_t i = 0; i < f.size(); ++i) {
+    const Polarization p = PolarizationOf(f.e_theta[static_cast<Eigen::Index>(i)],
+                                          f.e_phi[static_cast<Eigen::Index>(i)]);
+    if (p.axial_ratio_db <= 3.0 && p.sense == 1) omega += (2.0 / n_mu) * (2 * kPi / n_phi);
+  }
+  EXPECT_NEAR(r.polarization.axial_ratio_solid_angle_sr, omega, 2 * kPi / n_mu);
+  // The nadir beam has the same directivity: a second major lobe.
+  ASSERT_EQ(r.major_lobes.size(), 1u);
+  EXPECT_GT(r.major_lobes[0].direction.theta_deg, 180 - 1e-4);
+}
+
+TEST(PatternAnalysis, RejectsBadOptionsAndMismatchedResults) {
+  AnalysisOptions o;
+  std::string why;
+  EXPECT_TRUE(o.IsValid(&why));
+  o.null_threshold_db = 5;
+  EXPECT_FALSE(o.IsValid(&why));
+  EXPECT_NE(why.find("null_threshold_db"), std::string::npos) << why;
+  o = {};
+  o.protected_directions_deg = {{200.0, 0.0}};
+  EXPECT_FALSE(o.IsValid(&why));
+  EXPECT_NE(why.find("protected_directions_deg"), std::string::npos) << why;
+
+  const Array z =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100, 1.0));
+  const Array x =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100, 1.0));
+  const PatternResult g = ComputePattern(z, Grid(10.0));
+  EXPECT_THROW(AnalyzePattern(x, g), InvalidArgument);
+  EXPECT_THROW(AnalyzePattern(z, g, o), InvalidArgument);
+}
+
+TEST(PatternAnalysis, NullFieldNames) {
+  EXPECT_EQ(NullFieldFromString("CO"), NullField::kCoPolar);
+  EXPECT_EQ(NullFieldFromString("total"), NullField::kTotal);
+  EXPECT_FALSE(NullFieldFromString("cross").has_value());
+  EXPECT_EQ(ToString(NullField::kCoPolar), "co");
+}
+
+}  // namespace
+}  // namespace lobecast
