@@ -9,5 +9,6 @@ namespace lobecast::cli {
 
 void AddComputeCommand(CLI::App& app);
 void AddCheckCommand(CLI::App& app);
+void AddPlotCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

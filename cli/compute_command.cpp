@@ -4,12 +4,15 @@
 #include <filesystem>
 #include <memory>
 #include <string>
+#include <vector>
 
 #include "cli/commands.h"
 #include "cli/progress_bar.h"
 #include "cli/summary_text.h"
 #include "engine/pattern.h"
 #include "io/array_reader.h"
+#include "io/plot.h"
+#include "io/result_reader.h"
 #include "io/result_writer.h"
 
 namespace lobecast::cli {
@@ -20,6 +23,7 @@ struct ComputeArgs {
   std::string output;
   int threads = 0;
   bool quiet = false;
+  std::string plots_dir;  // empty: no plots
 };
 
 // RESULT defaults to the input's stem with .h5, in the current directory.
@@ -46,6 +50,13 @@ void RunCompute(const ComputeArgs& args) {
   meta.input_text = desc.source_text;
   meta.input_path = desc.source_path;
   WriteResult(output, desc.array, result, meta);
+  if (!args.plots_dir.empty()) {
+    // Drawn from the file just written, so the plots show exactly what it holds.
+    std::vector<std::string> skipped;
+    plot::WriteStandardPlots(ReadResult(output), args.plots_dir,
+                             std::filesystem::path(output).stem().string(), &skipped);
+    for (const std::string& s : skipped) std::fprintf(stderr, "plot skipped: %s\n", s.c_str());
+  }
   const double wall =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
@@ -73,6 +84,9 @@ void AddComputeCommand(CLI::App& app) {
                   "Threads for the field computation (count); 0 = all cores")
       ->check(CLI::NonNegativeNumber);
   cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
+  cmd->add_option("--plots", args->plots_dir,
+                  "Also write a standard set of PNG plots into this folder: polar cuts phi = 0 "
+                  "and phi = 90 deg and a theta-phi directivity map (dBi)");
   cmd->callback([args] { RunCompute(*args); });
 }
 

@@ -34,6 +34,7 @@ int main(int argc, char** argv) {
   app.require_subcommand(1);
   lobecast::cli::AddComputeCommand(app);
   lobecast::cli::AddCheckCommand(app);
+  lobecast::cli::AddPlotCommand(app);
 
   try {
     app.parse(argc, argv);

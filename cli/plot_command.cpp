@@ -1,0 +1,132 @@
+// `lobecast plot RESULT.h5 --kind ... -o FILE.png|.svg|.pdf`: pictures of a
+// stored result, drawn by io/plot.h.
+#include <cmath>
+#include <cstdio>
+#include <memory>
+#include <string>
+
+#include "cli/commands.h"
+#include "io/input_error.h"
+#include "io/plot.h"
+#include "io/result_reader.h"
+
+namespace lobecast::cli {
+namespace {
+
+struct PlotArgs {
+  std::string input;
+  std::string output;
+  std::string kind = "polar";
+  std::string cut = "phi=0";
+  std::string quantity;
+  std::string reference = "auto";
+  std::string projection = "theta-phi";
+  std::string size = "800x600";
+  double floor_db = 40.0;
+  double contour_step_db = 10.0;
+  double axial_ratio_max_db = 30.0;
+  bool normalized = false;
+};
+
+[[noreturn]] void Bad(const char* option, const std::string& found, const std::string& expected) {
+  throw InputError(SourceLocation{option}, "found '" + found + "', expected " + expected);
+}
+
+plot::PlotOptions ToOptions(const PlotArgs& a) {
+  plot::PlotOptions o;
+  const auto kind = plot::PlotKindFromString(a.kind);
+  if (!kind) Bad("--kind", a.kind, "polar, cartesian, map or polarization");
+  o.kind = *kind;
+  const auto cut = plot::CutSpecFromString(a.cut);
+  if (!cut) Bad("--cut", a.cut, "phi=DEG (a plane through z) or theta=DEG (a cone, 0..180)");
+  o.cut = *cut;
+  if (!a.quantity.empty()) {
+    const auto q = plot::QuantityFromString(a.quantity);
+    if (!q) Bad("--quantity", a.quantity, "directivity, co, cross, theta or phi");
+    o.quantity = *q;
+  }
+  const auto ref = plot::ReferenceChoiceFromString(a.reference);
+  if (!ref) Bad("--reference", a.reference, "auto, x, y, rhcp or lhcp");
+  o.reference = *ref;
+  const auto proj = plot::MapProjectionFromString(a.projection);
+  if (!proj) Bad("--projection", a.projection, "theta-phi, az-el or uv");
+  o.projection = *proj;
+  const auto size = plot::ImageSizeFromString(a.size);
+  if (!size) Bad("--size", a.size, "WIDTHxHEIGHT in px, e.g. 800x600");
+  o.size = *size;
+  std::string why;
+  if (!o.size.IsValid(&why)) Bad("--size", a.size, why.substr(why.find("expected ") + 9));
+  o.floor_db = a.floor_db;
+  o.contour_step_db = a.contour_step_db;
+  o.axial_ratio_max_db = a.axial_ratio_max_db;
+  o.normalized = a.normalized;
+  auto range = [](const char* option, double v, double lo, double hi) {
+    if (!(std::isfinite(v) && v >= lo && v <= hi)) {
+      char buf[64];
+      std::snprintf(buf, sizeof buf, "%g .. %g dB", lo, hi);
+      char found[32];
+      std::snprintf(found, sizeof found, "%g", v);
+      Bad(option, found, buf);
+    }
+  };
+  range("--floor-db", a.floor_db, 1, 200);
+  range("--contour-db", a.contour_step_db, 0.5, 50);
+  range("--ar-max-db", a.axial_ratio_max_db, 1, 100);
+  if (!plot::ImageFormatFromPath(a.output))
+    Bad("--output", a.output, "a file name ending in .png, .svg or .pdf");
+  return o;
+}
+
+void RunPlot(const PlotArgs& args) {
+  const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
+  const StoredResult result = ReadResult(args.input);
+  plot::WritePlot(result, options, args.output);
+}
+
+}  // namespace
+
+void AddPlotCommand(CLI::App& app) {
+  auto args = std::make_shared<PlotArgs>();
+  CLI::App* cmd = app.add_subcommand(
+      "plot",
+      "Draw a stored result as a PNG, SVG or PDF (from the output's extension): a polar or "
+      "cartesian pattern cut, a map of the whole grid, or a polarization map. Levels are in "
+      "dBi (partial directivity for co/cross/theta/phi) unless --normalize; angles in degrees.");
+  cmd->add_option("RESULT", args->input, "Result file (HDF5) written by 'lobecast compute'")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("-o,--output", args->output, "Image file: .png, .svg or .pdf")->required();
+  cmd->add_option("-k,--kind", args->kind,
+                  "polar | cartesian (a cut), map (the grid as an image) | polarization "
+                  "(axial ratio and sense maps); default polar");
+  cmd->add_option("--cut", args->cut,
+                  "Cut for polar/cartesian: phi=DEG, the plane through z containing phi = DEG "
+                  "(signed theta -180..180 deg, negative on the phi + 180 side), or theta=DEG, "
+                  "the cone at that theta (against phi); must lie on the grid. Default phi=0");
+  cmd->add_option("-q,--quantity", args->quantity,
+                  "directivity (total) | co | cross (Ludwig-3 or circular, see --reference) | "
+                  "theta | phi (partial directivity of E_theta / E_phi), in dBi. Default: co "
+                  "(drawn with cross) for cuts, directivity for maps");
+  cmd->add_option("--reference", args->reference,
+                  "Polarization reference for co/cross: x | y (Ludwig-3 linear) | rhcp | lhcp | "
+                  "auto (the one with the largest co component at the peak); default auto");
+  cmd->add_option("--floor-db", args->floor_db,
+                  "Lowest level shown, dB below the plotted peak (1..200); default 40");
+  cmd->add_flag("--normalize", args->normalized,
+                "Levels in dB relative to the peak (0 dB at the peak) instead of dBi");
+  cmd->add_option("--projection", args->projection,
+                  "Map projection: theta-phi | az-el (azimuth = phi from +x toward +y, elevation "
+                  "above the xy plane) | uv (u = sin(theta) cos(phi), v = sin(theta) sin(phi), "
+                  "upper hemisphere); default theta-phi");
+  cmd->add_option("--contour-db", args->contour_step_db,
+                  "Map contour spacing, dB (0.5..50; e.g. 3 or 10); default 10");
+  cmd->add_option("--ar-max-db", args->axial_ratio_max_db,
+                  "Polarization map: axial ratios at or above this (dB) count as near linear; "
+                  "default 30");
+  cmd->add_option("--size", args->size,
+                  "Image size WIDTHxHEIGHT in px (points for SVG/PDF), 320x240 .. 8000x8000; "
+                  "default 800x600");
+  cmd->callback([args] { RunPlot(*args); });
+}
+
+}  // namespace lobecast::cli

@@ -1,0 +1,98 @@
+#include "io/plot_frame.h"
+
+#include <cairo.h>
+
+#include <cmath>
+#include <cstdarg>
+#include <cstdio>
+#include <filesystem>
+
+#include "io/plot_colormap.h"
+
+namespace lobecast::plot {
+namespace {
+
+Colour FromOklab(double l, double c, double h_deg) {
+  const double h = h_deg * kPi / 180.0;
+  const Rgb rgb = OklabToSrgb({l, c * std::cos(h), c * std::sin(h)});
+  return {rgb.r, rgb.g, rgb.b, 1.0};
+}
+
+}  // namespace
+
+std::string Tick(double v) {
+  if (std::fabs(v) < 1e-9) v = 0.0;  // no "-0"
+  return Format("%g", v);
+}
+
+std::string Format(const char* fmt, ...) {
+  char buf[512];
+  va_list args;
+  va_start(args, fmt);
+  std::vsnprintf(buf, sizeof buf, fmt, args);
+  va_end(args);
+  return buf;
+}
+
+std::string FormatFrequency(double hz) {
+  const char* units[] = {"Hz", "kHz", "MHz", "GHz", "THz"};
+  int u = 0;
+  double v = hz;
+  while (std::fabs(v) >= 1000.0 && u < 4) {
+    v /= 1000.0;
+    ++u;
+  }
+  return Format("%.6g %s", v, units[u]);
+}
+
+std::string ArrayLine(const StoredResult& r) {
+  std::string name = r.metadata.name;
+  if (name.empty() && !r.metadata.input_path.empty())
+    name = std::filesystem::path(r.metadata.input_path).stem().string();
+  if (name.empty()) name = "unnamed array";
+  const std::size_t n = r.array.dipoles.size();
+  return name + " - " + FormatFrequency(r.array.frequency_hz) + ", " + std::to_string(n) +
+         (n == 1 ? " dipole, " : " dipoles, ") +
+         (r.array.ground == Ground::kPec ? "PEC ground z = 0" : "free space");
+}
+
+double DrawTitleBlock(const Canvas& c, const std::vector<std::string>& lines) {
+  const double f = c.font_px();
+  const double x = 0.8 * f;
+  double y = 0.8 * f;
+  c.SetColour(TextColour());
+  for (std::size_t i = 0; i < lines.size(); ++i) {
+    const double size = i == 0 ? 1.15 * f : f;
+    c.Text(x, y, lines[i], size, HAlign::kLeft, VAlign::kTop, i == 0);
+    y += 1.35 * size;
+  }
+  return y + 0.3 * f;
+}
+
+// Dark blue and orange differ in lightness and hue, so the pair stays apart in
+// grey scale and for the common colour-vision deficiencies.
+Colour MainTraceColour() { return FromOklab(0.42, 0.15, 262.0); }
+Colour CompanionTraceColour() { return FromOklab(0.70, 0.15, 55.0); }
+Colour GridColour() { return {0.78, 0.78, 0.78, 1.0}; }
+Colour TextColour() { return {0.12, 0.12, 0.12, 1.0}; }
+Colour HalfPowerColour() { return FromOklab(0.55, 0.17, 20.0); }
+Colour MarkerColour() { return {0.0, 0.0, 0.0, 1.0}; }
+
+void SetSolid(const Canvas& c, double width_px) {
+  cairo_set_line_width(c.cr(), width_px);
+  cairo_set_dash(c.cr(), nullptr, 0, 0);
+}
+
+void SetDashed(const Canvas& c, double width_px, double dash_px) {
+  const double dashes[] = {dash_px, 0.6 * dash_px};
+  cairo_set_line_width(c.cr(), width_px);
+  cairo_set_dash(c.cr(), dashes, 2, 0);
+}
+
+double DbLabelStep(double range_db) {
+  if (range_db > 25) return 10;
+  if (range_db > 10) return 5;
+  return 2;
+}
+
+}  // namespace lobecast::plot

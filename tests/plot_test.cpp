@@ -1,0 +1,527 @@
+// Plots: the colour scale, the beam figures read off a cut, every plot kind for
+// every sample array in every format through the CLI, and pixel checks against
+// the known pattern of a single z dipole (D = 1.5 sin^2 theta; Balanis,
+// Antenna Theory, 4th ed., 2016, sec. 4.2, from memory) and of a turnstile
+// (right-hand circular toward +z, left-hand toward -z, see its sample file).
+//
+// Every plot is also left in <build>/tests/plot-review/ for a person to look at.
+#include <gtest/gtest.h>
+
+#include <sys/wait.h>
+#include <unistd.h>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdio>
+#include <cstdlib>
+#include <filesystem>
+#include <fstream>
+#include <set>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "io/plot.h"
+#include "io/plot_canvas.h"
+#include "io/plot_colormap.h"
+#include "io/plot_cut_traces.h"
+#include "io/plot_frame.h"
+#include "io/result_reader.h"
+
+namespace lobecast::plot {
+namespace {
+
+namespace fs = std::filesystem;
+
+fs::path ReviewDir() {
+  const fs::path d = fs::current_path() / "plot-review";
+  fs::create_directories(d);
+  return d;
+}
+
+fs::path WorkDir() {
+  const fs::path d = fs::current_path() / "plot-test.work";
+  fs::create_directories(d);
+  return d;
+}
+
+// Runs the CLI; returns its exit code, with stderr in *err.
+int RunCli(const std::string& args, std::string* err = nullptr) {
+  const fs::path err_file = WorkDir() / ("stderr-" + std::to_string(::getpid()) + ".txt");
+  const std::string cmd =
+      std::string(LOBECAST_EXE) + " " + args + " >/dev/null 2>" + err_file.string();
+  const int status = std::system(cmd.c_str());
+  if (err) {
+    std::ifstream in(err_file);
+    std::stringstream ss;
+    ss << in.rdbuf();
+    *err = ss.str();
+  }
+  return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+}
+
+std::string Quote(const fs::path& p) {
+  std::string q(1, '\'');
+  q.append(p.string());
+  q.push_back('\'');
+  return q;
+}
+
+// Computes a sample once per test process (the result files are small).
+fs::path ResultFor(const std::string& sample) {
+  const fs::path out = WorkDir() / (sample + ".h5");
+  const fs::path in = fs::path(LOBECAST_SAMPLES) / (sample + ".toml");
+  if (!fs::exists(out) || fs::last_write_time(out) < fs::last_write_time(LOBECAST_EXE)) {
+    std::string err;
+    const int rc = RunCli("compute " + Quote(in) + " -o " + Quote(out) + " --quiet", &err);
+    EXPECT_EQ(rc, 0) << err;
+  }
+  return out;
+}
+
+std::vector<std::string> Samples() {
+  std::vector<std::string> names;
+  for (const auto& e : fs::directory_iterator(LOBECAST_SAMPLES))
+    if (e.path().extension() == ".toml") names.push_back(e.path().stem().string());
+  std::sort(names.begin(), names.end());
+  return names;
+}
+
+std::string ReadFile(const fs::path& p) {
+  std::ifstream in(p, std::ios::binary);
+  std::stringstream ss;
+  ss << in.rdbuf();
+  return ss.str();
+}
+
+struct Rgb8 {
+  int r, g, b;
+};
+Rgb8 Unpack(std::uint32_t argb) {
+  return {static_cast<int>((argb >> 16) & 255), static_cast<int>((argb >> 8) & 255),
+          static_cast<int>(argb & 255)};
+}
+int ChannelDistance(std::uint32_t argb, const Colour& c) {
+  const Rgb8 p = Unpack(argb);
+  return std::max({std::abs(p.r - static_cast<int>(std::lround(c.r * 255))),
+                   std::abs(p.g - static_cast<int>(std::lround(c.g * 255))),
+                   std::abs(p.b - static_cast<int>(std::lround(c.b * 255)))});
+}
+Colour FromRgb(const Rgb& c) { return {c.r, c.g, c.b, 1}; }
+
+// ---------------------------------------------------------------------------
+// Colour scale
+
+TEST(PlotColormap, RampIsInGamutWithRisingLightnessAndEvenSteps) {
+  double previous_l = -1;
+  const int n = 200;
+  std::vector<double> steps;
+  Oklab prev{};
+  for (int k = 0; k <= n; ++k) {
+    const Oklab c = RampOklab(static_cast<double>(k) / n);
+    bool in_gamut = false;
+    OklabToSrgb(c, &in_gamut);
+    EXPECT_TRUE(in_gamut) << "t = " << static_cast<double>(k) / n;
+    EXPECT_GT(c.l, previous_l);
+    previous_l = c.l;
+    if (k > 0) steps.push_back(std::hypot(c.l - prev.l, c.a - prev.a, c.b - prev.b));
+    prev = c;
+  }
+  const auto [lo, hi] = std::minmax_element(steps.begin(), steps.end());
+  EXPECT_LT(*hi / *lo, 1.0 + 1e-9);  // constant chroma and linear L, h: equal steps
+}
+
+TEST(PlotColormap, OklabConversionsInvertEachOtherAndMapWhiteToL1) {
+  // Ottosson (2020): sRGB white is L = 1, a = b = 0 (to the matrices' 1e-4 or so).
+  const Oklab w = SrgbToOklab({1, 1, 1});
+  EXPECT_NEAR(w.l, 1.0, 1e-4);
+  EXPECT_NEAR(w.a, 0.0, 1e-4);
+  EXPECT_NEAR(w.b, 0.0, 1e-4);
+  for (const Rgb c : {Rgb{0.2, 0.5, 0.8}, Rgb{0.9, 0.1, 0.3}, Rgb{0.05, 0.95, 0.4}}) {
+    const Rgb back = OklabToSrgb(SrgbToOklab(c));
+    EXPECT_NEAR(back.r, c.r, 1e-6);
+    EXPECT_NEAR(back.g, c.g, 1e-6);
+    EXPECT_NEAR(back.b, c.b, 1e-6);
+  }
+  // Right, left and linear sense colours are in gamut and tell apart.
+  for (int s : {-1, 0, 1}) {
+    bool ok = false;
+    const Oklab lab = SrgbToOklab(SenseColour(s));
+    OklabToSrgb(lab, &ok);
+    EXPECT_TRUE(ok);
+  }
+  const Oklab r = SrgbToOklab(SenseColour(1)), l = SrgbToOklab(SenseColour(-1));
+  EXPECT_GT(std::hypot(r.a - l.a, r.b - l.b), 0.2);
+}
+
+// ---------------------------------------------------------------------------
+// Beam figures from a sampled cut
+
+TEST(PlotCutFigures, HalfPowerBeamwidthOfCosSquaredInterpolatesTheCrossings) {
+  // cos^2(theta) on -90..90 in 1 deg steps: the exact -3 dB points are at
+  // +-acos(sqrt(10^-0.3)); linear interpolation in dB between 1 deg samples is
+  // good to a few thousandths of a degree there.
+  std::vector<double> a, db;
+  for (int k = -90; k <= 90; ++k) {
+    a.push_back(k);
+    const double c = std::cos(k * kPi / 180.0);
+    db.push_back(10 * std::log10(std::max(c * c, 1e-300)));
+  }
+  const BeamFigures b = AnalyzeCut(a, db);
+  const double exact = 2 * std::acos(std::sqrt(std::pow(10.0, -0.3))) * 180.0 / kPi;
+  ASSERT_TRUE(b.has_hpbw);
+  EXPECT_NEAR(b.hpbw_deg, exact, 0.01);
+  EXPECT_NEAR(b.hpbw_left_deg, -0.5 * exact, 0.01);
+  EXPECT_FALSE(b.has_side_lobe);  // one lobe, and the ends of an open cut are no lobes
+}
+
+TEST(PlotCutFigures, HighestSideLobeOfASincPattern) {
+  // (sin x / x)^2 with x = 10 sin(angle): the highest side lobe's level is found
+  // here by a dense independent search of the same function (about -13.26 dB,
+  // the uniform line source's first side lobe; Balanis 4th ed. sec. 6.3, from memory).
+  auto f = [](double deg) {
+    const double x = 10.0 * std::sin(deg * kPi / 180.0);
+    const double s = std::fabs(x) < 1e-12 ? 1.0 : std::sin(x) / x;
+    return 10 * std::log10(std::max(s * s, 1e-300));
+  };
+  std::vector<double> a, db;
+  for (double k = -90; k <= 90; k += 0.25) {
+    a.push_back(k);
+    db.push_back(f(k));
+  }
+  double reference = -1e9;
+  for (double x = kPi * 1.05; x < 2 * kPi * 0.98; x += 1e-5) {  // the first side lobe in x
+    const double s = std::sin(x) / x;
+    reference = std::max(reference, 10 * std::log10(s * s));
+  }
+  const BeamFigures b = AnalyzeCut(a, db);
+  ASSERT_TRUE(b.has_side_lobe);
+  EXPECT_NEAR(b.side_lobe_rel_db, reference, 0.05);
+  EXPECT_NEAR(std::fabs(a[b.side_lobe_index]), std::asin(4.4934 / 10) * 180 / kPi, 0.5);
+}
+
+TEST(PlotCutFigures, WrappedCutFindsTheBeamAcrossTheSeam) {
+  // A beam centred on phi = 0 of a 0..360 cone: its half-power points straddle the seam.
+  std::vector<double> a, db;
+  for (int k = 0; k <= 360; k += 2) {
+    a.push_back(k);
+    const double c = std::cos(0.5 * k * kPi / 180.0);
+    db.push_back(10 * std::log10(std::max(std::pow(c, 8), 1e-300)));
+  }
+  const BeamFigures b = AnalyzeCut(a, db);
+  ASSERT_TRUE(b.has_hpbw);
+  EXPECT_LT(b.hpbw_left_deg, 0.0);
+  EXPECT_NEAR(b.hpbw_left_deg, -b.hpbw_right_deg, 1e-9);
+}
+
+// ---------------------------------------------------------------------------
+// Every kind, every sample, every format
+
+struct FileChecks {
+  static void Png(const fs::path& p, int w, int h) {
+    ASSERT_TRUE(fs::exists(p)) << p;
+    const RasterImage img = ReadPng(p.string());
+    EXPECT_EQ(img.width, w) << p;
+    EXPECT_EQ(img.height, h) << p;
+    // Not blank: a good share of non-white pixels, and many distinct colours.
+    std::size_t non_white = 0;
+    std::set<std::uint32_t> colours;
+    for (std::uint32_t v : img.argb) {
+      if ((v & 0xffffff) != 0xffffff) ++non_white;
+      if (colours.size() < 5000) colours.insert(v);
+    }
+    const double share = static_cast<double>(non_white) / static_cast<double>(img.argb.size());
+    EXPECT_GT(share, 0.03) << p;
+    EXPECT_LT(share, 0.97) << p;
+    EXPECT_GT(colours.size(), 30u) << p;
+  }
+  static void Svg(const fs::path& p) {
+    ASSERT_TRUE(fs::exists(p)) << p;
+    const std::string s = ReadFile(p);
+    EXPECT_EQ(s.rfind("<?xml", 0), 0u) << p;
+    EXPECT_NE(s.find("<svg"), std::string::npos) << p;
+    EXPECT_NE(s.find("</svg>"), std::string::npos) << p;
+    if (fs::exists("/usr/bin/python3")) {
+      const std::string cmd =
+          "/usr/bin/python3 -c \"import sys, xml.etree.ElementTree as E; "
+          "E.parse(sys.argv[1])\" " +
+          Quote(p) + " 2>/dev/null";
+      EXPECT_EQ(std::system(cmd.c_str()), 0) << "not well-formed XML: " << p;
+    }
+  }
+  static void Pdf(const fs::path& p) {
+    ASSERT_TRUE(fs::exists(p)) << p;
+    const std::string s = ReadFile(p);
+    EXPECT_EQ(s.rfind("%PDF-", 0), 0u) << p;
+    EXPECT_NE(s.find("%%EOF"), std::string::npos) << p;
+  }
+};
+
+class PlotEverySample : public ::testing::TestWithParam<std::string> {};
+
+TEST_P(PlotEverySample, EveryKindToEveryFormat) {
+  const std::string sample = GetParam();
+  const fs::path h5 = ResultFor(sample);
+  const fs::path review = ReviewDir();
+  struct Variant {
+    std::string name, args;
+  };
+  const std::vector<Variant> variants = {
+      {"polar-phi0", "--kind polar --cut phi=0"},
+      {"cartesian-phi0", "--kind cartesian --cut phi=0"},
+      {"map-theta-phi", "--kind map"},
+      {"polarization-theta-phi", "--kind polarization"},
+  };
+  for (const Variant& v : variants) {
+    for (const char* ext : {".png", ".svg", ".pdf"}) {
+      const fs::path out =
+          (std::string(ext) == ".png" ? review : WorkDir()) / (sample + "-" + v.name + ext);
+      fs::remove(out);
+      std::string err;
+      ASSERT_EQ(RunCli("plot " + Quote(h5) + " " + v.args + " -o " + Quote(out), &err), 0)
+          << v.args << " " << ext << ": " << err;
+      if (std::string(ext) == ".png") FileChecks::Png(out, 800, 600);
+      if (std::string(ext) == ".svg") FileChecks::Svg(out);
+      if (std::string(ext) == ".pdf") FileChecks::Pdf(out);
+    }
+  }
+  // More views for review, PNG only, some at other sizes.
+  const std::vector<Variant> extra = {
+      {"polar-phi90", "--kind polar --cut phi=90 --size 700x700"},
+      {"polar-theta90",
+       "--kind polar --cut theta=" + std::string(sample == "planar-4x4-ground" ? "60" : "90")},
+      {"cartesian-phi90-normalized", "--kind cartesian --cut phi=90 --normalize"},
+      {"map-uv", "--kind map --projection uv --contour-db 3"},
+      {"map-az-el", "--kind map --projection az-el --size 1000x600"},
+      {"polarization-uv", "--kind polarization --projection uv"},
+  };
+  for (const Variant& v : extra) {
+    const fs::path out = review / (sample + "-" + v.name + ".png");
+    fs::remove(out);
+    std::string err;
+    ASSERT_EQ(RunCli("plot " + Quote(h5) + " " + v.args + " -o " + Quote(out), &err), 0)
+        << v.args << ": " << err;
+    int w = 800, h = 600;
+    if (v.args.find("700x700") != std::string::npos) w = h = 700;
+    if (v.args.find("1000x600") != std::string::npos) w = 1000;
+    FileChecks::Png(out, w, h);
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Samples, PlotEverySample, ::testing::ValuesIn(Samples()),
+                         [](const auto& info) {
+                           std::string n = info.param;
+                           std::replace(n.begin(), n.end(), '-', '_');
+                           return n;
+                         });
+
+// ---------------------------------------------------------------------------
+// Pixel checks against known patterns
+
+StoredResult ZDipole() { return ReadResult(ResultFor("single-dipole").string()); }
+
+// The outermost pixel along a ray from (x0, y0) in direction (dx, dy) whose
+// colour is within `tol` of `c`; -1 when none. Distance in px from (x0, y0).
+double OutermostAlongRay(const RasterImage& img, double x0, double y0, double dx, double dy,
+                         double max_r, const Colour& c, int tol = 12) {
+  double found = -1;
+  for (double r = 0; r <= max_r; r += 0.25) {
+    const int x = static_cast<int>(std::floor(x0 + r * dx)),
+              y = static_cast<int>(std::floor(y0 + r * dy));
+    if (x < 0 || y < 0 || x >= img.width || y >= img.height) break;
+    if (ChannelDistance(img.At(x, y), c) <= tol) found = r;
+  }
+  return found;
+}
+
+// True when a pixel within `radius` px of (x, y) has colour `c`.
+bool ColourNear(const RasterImage& img, double x, double y, double radius, const Colour& c,
+                int tol = 12) {
+  for (int yy = static_cast<int>(y - radius); yy <= static_cast<int>(y + radius); ++yy)
+    for (int xx = static_cast<int>(x - radius); xx <= static_cast<int>(x + radius); ++xx)
+      if (xx >= 0 && yy >= 0 && xx < img.width && yy < img.height &&
+          std::hypot(xx + 0.5 - x, yy + 0.5 - y) <= radius + 0.71 &&
+          ChannelDistance(img.At(xx, yy), c) <= tol)
+        return true;
+  return false;
+}
+
+TEST(PlotPixels, PolarZDipoleTraceAt90DegLiesOnThe0dBRingAndTheAxisNullAtTheFloor) {
+  const StoredResult r = ZDipole();
+  for (bool normalized : {true, false}) {
+    PlotOptions o;
+    o.kind = PlotKind::kPolar;
+    o.quantity = Quantity::kDirectivity;
+    o.normalized = normalized;
+    const fs::path out =
+        ReviewDir() / (std::string("pixel-polar-") + (normalized ? "norm" : "dbi") + ".png");
+    const PolarGeometry g = WritePlot(r, o, out.string()).polar;
+    const RasterImage img = ReadPng(out.string());
+    // theta = +90 deg on the phi = 0 half: straight right of the centre.
+    const double peak = normalized ? 0.0 : 10 * std::log10(1.5);
+    const double expected_r = g.RadiusOf(peak);
+    if (normalized) {
+      EXPECT_DOUBLE_EQ(expected_r, g.radius_px);  // the 0 dB ring is the outer one
+    }
+    const double found = OutermostAlongRay(img, g.centre_x_px, g.centre_y_px + 0.5, 1, 0,
+                                           g.radius_px + 20, MainTraceColour());
+    EXPECT_NEAR(found, expected_r, 2.0) << (normalized ? "normalized" : "dBi");
+    // The null on the axis (theta = 0) is drawn at the floor, which is the centre.
+    EXPECT_TRUE(ColourNear(img, g.centre_x_px, g.centre_y_px, 2.0, MainTraceColour()));
+    double x, y;
+    g.PointOf(0.0, -1e300, &x, &y);
+    EXPECT_NEAR(x, g.centre_x_px, 1e-9);
+    EXPECT_NEAR(y, g.centre_y_px, 1e-9);
+    // ...and not at the top of the scale.
+    EXPECT_FALSE(
+        ColourNear(img, g.centre_x_px, g.centre_y_px - g.radius_px, 2.0, MainTraceColour()));
+  }
+}
+
+TEST(PlotPixels, CartesianZDipoleTraceAt90DegOnThe0dBLineAndTheAxisNullOnTheFloor) {
+  const StoredResult r = ZDipole();
+  PlotOptions o;
+  o.kind = PlotKind::kCartesian;
+  o.quantity = Quantity::kDirectivity;
+  o.normalized = true;
+  const fs::path out = ReviewDir() / "pixel-cartesian-norm.png";
+  const CartesianGeometry g = WritePlot(r, o, out.string()).cartesian;
+  const RasterImage img = ReadPng(out.string());
+  // Down the column at theta = 90 deg: the trace is at the 0 dB line.
+  const double x90 = g.XOf(90.0);
+  const double found =
+      OutermostAlongRay(img, x90, g.top_px + g.height_px, 0, -1, g.height_px, MainTraceColour());
+  EXPECT_NEAR(g.top_px + g.height_px - found, g.YOf(0.0), 2.0);
+  EXPECT_NEAR(g.YOf(0.0), g.top_px, 1e-9);
+  // At theta = 0 the null sits on the floor (the bottom edge).
+  EXPECT_TRUE(ColourNear(img, g.XOf(0.0), g.YOf(g.db_floor), 2.0, MainTraceColour()));
+  EXPECT_NEAR(g.YOf(-1e300), g.top_px + g.height_px, 1e-9);
+  EXPECT_FALSE(ColourNear(img, g.XOf(0.0), g.YOf(-10.0), 2.0, MainTraceColour()));
+}
+
+TEST(PlotPixels, MapZDipoleColoursFollowSinSquaredAndTheNullsAreMarked) {
+  const StoredResult r = ZDipole();
+  for (MapProjection proj : {MapProjection::kThetaPhi, MapProjection::kAzEl, MapProjection::kUv}) {
+    PlotOptions o;
+    o.kind = PlotKind::kMap;
+    o.projection = proj;
+    o.normalized = true;
+    o.floor_db = 20;
+    const fs::path out = ReviewDir() / ("pixel-map-" + std::string(ToString(proj)) + ".png");
+    const MapGeometry g = WritePlot(r, o, out.string()).map;
+    const RasterImage img = ReadPng(out.string());
+    ASSERT_EQ(g.panels.size(), 1u);
+    const MapPanel& p = g.panels[0];
+    // Directions clear of contour lines (-10 dB at theta = 18.4 deg) and markers.
+    for (const auto& [theta, phi] : {std::pair{3.0, 150.0}, std::pair{40.0, 60.0},
+                                     std::pair{70.0, 200.0}, std::pair{76.0, 100.0}}) {
+      double x, y;
+      ASSERT_TRUE(p.ToDevice(theta, phi, &x, &y));
+      const double s = std::sin(theta * kPi / 180.0);
+      const double db = std::max(10 * std::log10(s * s), -20.0);
+      const Colour expected = FromRgb(Ramp((db + 20.0) / 20.0));
+      EXPECT_LE(ChannelDistance(img.At(static_cast<int>(x), static_cast<int>(y)), expected), 6)
+          << ToString(proj) << " theta " << theta << " phi " << phi;
+    }
+    // The zenith null is marked (and the nadir one too when it is on the map).
+    bool zenith = false, nadir = false;
+    for (const auto& [theta, phi] : g.nulls_deg) {
+      zenith |= theta == 0.0;
+      nadir |= theta == 180.0;
+    }
+    EXPECT_TRUE(zenith) << ToString(proj);
+    EXPECT_EQ(nadir, proj != MapProjection::kUv) << ToString(proj);
+    EXPECT_EQ(g.nulls_deg.size(), proj == MapProjection::kUv ? 1u : 2u) << ToString(proj);
+  }
+}
+
+TEST(PlotPixels, PolarizationMapShowsLinearForTheDipoleAndRightHandAtTheTurnstileZenith) {
+  {
+    const StoredResult r = ZDipole();
+    PlotOptions o;
+    o.kind = PlotKind::kPolarization;
+    o.floor_db = 10;  // weak field (white) within 18.4 deg of the axis
+    const fs::path out = ReviewDir() / "pixel-polarization-dipole.png";
+    const MapGeometry g = WritePlot(r, o, out.string()).map;
+    const RasterImage img = ReadPng(out.string());
+    ASSERT_EQ(g.panels.size(), 2u);
+    double x, y;
+    ASSERT_TRUE(g.panels[0].ToDevice(80.0, 100.0, &x, &y));
+    EXPECT_LE(ChannelDistance(img.At(int(x), int(y)), FromRgb(Ramp(0.0))), 4);  // linear: dark end
+    ASSERT_TRUE(g.panels[1].ToDevice(80.0, 100.0, &x, &y));
+    EXPECT_LE(ChannelDistance(img.At(int(x), int(y)), FromRgb(SenseColour(0))), 4);
+    ASSERT_TRUE(g.panels[0].ToDevice(9.0, 100.0, &x, &y));
+    EXPECT_LE(ChannelDistance(img.At(int(x), int(y)), FromRgb(NoDataColour())), 4);
+  }
+  {
+    const StoredResult r = ReadResult(ResultFor("turnstile").string());
+    PlotOptions o;
+    o.kind = PlotKind::kPolarization;
+    const fs::path out = ReviewDir() / "pixel-polarization-turnstile.png";
+    const MapGeometry g = WritePlot(r, o, out.string()).map;
+    const RasterImage img = ReadPng(out.string());
+    double x, y;
+    // Near +z circular (AR ~ 0 dB: the light end) and right-hand; near -z left-hand.
+    ASSERT_TRUE(g.panels[0].ToDevice(4.0, 130.0, &x, &y));
+    EXPECT_LE(ChannelDistance(img.At(int(x), int(y)), FromRgb(Ramp(1.0))), 8);
+    ASSERT_TRUE(g.panels[1].ToDevice(4.0, 130.0, &x, &y));
+    EXPECT_LE(ChannelDistance(img.At(int(x), int(y)), FromRgb(SenseColour(+1))), 4);
+    ASSERT_TRUE(g.panels[1].ToDevice(176.0, 130.0, &x, &y));
+    EXPECT_LE(ChannelDistance(img.At(int(x), int(y)), FromRgb(SenseColour(-1))), 4);
+  }
+}
+
+// ---------------------------------------------------------------------------
+// The command line
+
+TEST(PlotCli, BadOptionsExitWith2AndWriteNothing) {
+  const fs::path h5 = ResultFor("single-dipole");
+  const fs::path out = WorkDir() / "rejected.png";
+  struct Case {
+    std::string args, expect_in_message;
+  };
+  const std::vector<Case> cases = {
+      {"--kind pie", "--kind"},
+      {"--cut phi=45", "phi = 45"},  // phi step 2: not on the grid? 45 is odd, so no
+      {"--cut psi=3", "--cut"},
+      {"--cut theta=200", "--cut"},
+      {"--quantity power", "--quantity"},
+      {"--reference z", "--reference"},
+      {"--projection mercator", "--projection"},
+      {"--size 10x10", "--size"},
+      {"--size big", "--size"},
+      {"--floor-db -3", "--floor-db"},
+      {"--contour-db 0", "--contour-db"},
+  };
+  for (const Case& c : cases) {
+    fs::remove(out);
+    std::string err;
+    EXPECT_EQ(RunCli("plot " + Quote(h5) + " " + c.args + " -o " + Quote(out), &err), 2) << c.args;
+    EXPECT_NE(err.find(c.expect_in_message), std::string::npos) << c.args << ": " << err;
+    EXPECT_FALSE(fs::exists(out)) << c.args;
+  }
+  std::string err;
+  const fs::path gif = WorkDir() / "rejected.gif";
+  EXPECT_EQ(RunCli("plot " + Quote(h5) + " -o " + Quote(gif), &err), 2);
+  EXPECT_NE(err.find(".png, .svg or .pdf"), std::string::npos) << err;
+  EXPECT_FALSE(fs::exists(gif));
+  EXPECT_EQ(RunCli("plot " + Quote(WorkDir() / "missing.h5") + " -o " + Quote(out), &err), 2);
+}
+
+TEST(PlotCli, ComputeWritesTheStandardSet) {
+  const fs::path dir = WorkDir() / "standard-set";
+  fs::remove_all(dir);
+  const fs::path h5 = WorkDir() / "broadside-standard.h5";
+  std::string err;
+  ASSERT_EQ(RunCli("compute " + Quote(fs::path(LOBECAST_SAMPLES) / "broadside-line-8.toml") +
+                       " -o " + Quote(h5) + " --quiet --plots " + Quote(dir),
+                   &err),
+            0)
+      << err;
+  for (const char* name : {"broadside-standard-polar-phi0.png",
+                           "broadside-standard-polar-phi90.png", "broadside-standard-map.png"})
+    FileChecks::Png(dir / name, 800, 600);
+}
+
+}  // namespace
+}  // namespace lobecast::plot
