@@ -6,6 +6,8 @@
 #include <array>
 #include <cctype>
 #include <cmath>
+#include <iterator>
+#include <map>
 #include <mutex>
 #include <sstream>
 
@@ -184,6 +186,9 @@ struct FieldPlan::FastCache {
   Eigen::VectorXcd currents;  // the key: the field below belongs to these currents
   FarField field;             // every plan direction
   double error_bound = 0;     // relative to the peak; 0 after a direct fallback
+  // NUFFT plans by tolerance exponent (the kernel width depends only on it), kept
+  // for the next current vector: O(directions) memory each, at most two in use.
+  std::map<int, std::shared_ptr<const Nufft3>> plans;
 };
 
 double FieldPlan::error_bound_relative() const {
@@ -242,8 +247,20 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
     cache.field.e_phi.resize(nd);
     // One NUFFT pass at tolerance eps; returns the peak |rE| over live directions.
     auto pass = [&](double eps) {
-      const Nufft3 nufft(source_pos_, k_r_hat_, NufftOptions{eps, num_threads_});
-      const Eigen::MatrixXcd m = nufft.Execute(strengths);
+      const int exponent = static_cast<int>(std::floor(std::log10(eps)));
+      const int scout = static_cast<int>(std::floor(std::log10(kScoutTolerance)));
+      auto it = cache.plans.find(exponent);
+      if (it == cache.plans.end()) {
+        for (auto j = cache.plans.begin(); j != cache.plans.end();) {
+          j = j->first == scout ? std::next(j) : cache.plans.erase(j);
+        }
+        it = cache.plans
+                 .emplace(exponent, std::make_shared<const Nufft3>(source_pos_, k_r_hat_,
+                                                                   NufftOptions{eps, num_threads_}))
+                 .first;
+      }
+      const Nufft3* plan = it->second.get();
+      const Eigen::MatrixXcd m = plan->Execute(strengths);
       double peak = 0;
       for (Eigen::Index i = 0; i < nd; ++i) {
         if (zeroed_[static_cast<std::size_t>(i)]) {
@@ -264,11 +281,14 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
     };
     // Error in |rE| at tolerance eps, by the error model (same for every direction).
     const auto bound = [&](double eps) { return prefactor_ * std::sqrt(comps) * kErrorModel * eps * l1; };
-    double eps = std::max(tolerance_relative_, kScoutTolerance);
+    // Tolerances are rounded down to a power of ten: the kernel width depends only
+    // on the exponent, so nothing is lost and plans can be reused.
+    const auto round_down = [](double e) { return std::pow(10.0, std::floor(std::log10(e))); };
+    double eps = round_down(std::max(tolerance_relative_, kScoutTolerance));
     double peak = pass(eps);
     if (bound(eps) > tolerance_relative_ * peak) {
       const double peak_low = peak - bound(eps);
-      eps = peak_low > 0 ? tolerance_relative_ * peak_low / bound(1.0) : 0.0;
+      eps = peak_low > 0 ? round_down(tolerance_relative_ * peak_low / bound(1.0)) : 0.0;
       if (eps >= 1e-14) peak = pass(eps);
     }
     if (eps >= 1e-14 && peak > 0 && bound(eps) <= tolerance_relative_ * peak) {
