@@ -105,8 +105,10 @@ void AddPlotCommand(CLI::App& app) {
                   "the cone at that theta (against phi); must lie on the grid. Default phi=0");
   cmd->add_option("-q,--quantity", args->quantity,
                   "directivity (total) | co | cross (Ludwig-3 or circular, see --reference) | "
-                  "theta | phi (partial directivity of E_theta / E_phi), in dBi. Default: co "
-                  "(drawn with cross) for cuts, directivity for maps");
+                  "theta | phi (partial directivity of E_theta / E_phi), in dBi; cuts draw the "
+                  "pair (co with cross, theta with phi). Default: for cuts co/cross when "
+                  "--reference is given or the peak is within 45 deg of the z axis, else "
+                  "theta/phi; for maps directivity");
   cmd->add_option("--reference", args->reference,
                   "Polarization reference for co/cross: x | y (Ludwig-3 linear) | rhcp | lhcp | "
                   "auto (the one with the largest co component at the peak); default auto");
