@@ -19,7 +19,7 @@ Polarization PolarizationOf(Complex et, Complex ep) {
   p.s0 = at + ap;
   p.s1 = at - ap;
   p.s2 = 2.0 * cross.real();
-  p.s3 = -2.0 * cross.imag();
+  p.s3 = 2.0 * cross.imag();  // = |E_R|^2 - |E_L|^2
 
   const double r = std::abs(p.e_right), l = std::abs(p.e_left);
   const double nan = std::numeric_limits<double>::quiet_NaN();
