@@ -7,6 +7,8 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include "bad_corpus.h"
+
 #include <algorithm>
 #include <cmath>
 #include <filesystem>
@@ -320,43 +322,9 @@ TEST(ArrayReader, DirectoryIsNotADescription) {
 
 // ---------------------------------------------------------------- bad corpus
 
-// Each tests/data/bad/*.toml starts with "# expect: k=v k=v ... [text=...]":
-// line (required), key (may be empty for syntax errors), file (default: the
-// TOML itself), col (optional), text (optional substring, rest of the line).
-struct BadCase {
-  std::string path;
-  std::map<std::string, std::string> expect;
-};
-
-std::vector<BadCase> BadCases() {
-  std::vector<BadCase> cases;
-  for (const auto& entry : fs::directory_iterator(kData + "/bad")) {
-    if (entry.path().extension() != ".toml") continue;
-    std::ifstream in(entry.path());
-    std::string first;
-    std::getline(in, first);
-    BadCase c{entry.path().string(), {}};
-    const std::string tag = "# expect:";
-    if (first.rfind(tag, 0) == 0) {
-      std::string rest = first.substr(tag.size());
-      const std::size_t text_at = rest.find("text=");
-      if (text_at != std::string::npos) {
-        c.expect["text"] = rest.substr(text_at + 5);
-        rest = rest.substr(0, text_at);
-      }
-      std::istringstream words(rest);
-      std::string w;
-      while (words >> w) {
-        const std::size_t eq = w.find('=');
-        if (eq != std::string::npos) c.expect[w.substr(0, eq)] = w.substr(eq + 1);
-      }
-    }
-    cases.push_back(std::move(c));
-  }
-  std::sort(cases.begin(), cases.end(),
-            [](const BadCase& a, const BadCase& b) { return a.path < b.path; });
-  return cases;
-}
+// The corpus format is described in bad_corpus.h (shared with cli_test.cpp).
+using lobecast::testing::BadCase;
+std::vector<BadCase> BadCases() { return lobecast::testing::BadCases(kData + "/bad"); }
 
 class BadInput : public ::testing::TestWithParam<BadCase> {};
 
@@ -392,11 +360,7 @@ TEST_P(BadInput, RejectedWithFileLineAndKey) {
 
 INSTANTIATE_TEST_SUITE_P(Corpus, BadInput, ::testing::ValuesIn(BadCases()),
                          [](const ::testing::TestParamInfo<BadCase>& info) {
-                           std::string name = fs::path(info.param.path).stem().string();
-                           for (char& ch : name) {
-                             if (!std::isalnum(static_cast<unsigned char>(ch))) ch = '_';
-                           }
-                           return name;
+                           return lobecast::testing::CaseName(info.param);
                          });
 
 TEST(BadInput, CorpusIsNotEmpty) { EXPECT_GE(BadCases().size(), 40u); }

@@ -1,0 +1,230 @@
+// End to end through the `lobecast` executable: every sample array computed and
+// its HDF5 result checked against the engine run in-process; the bad-input corpus
+// rejected with exit code 2, a located message, and no output file.
+#include <sys/wait.h>
+
+#include <array>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <string>
+
+#include <gmock/gmock.h>
+#include <gtest/gtest.h>
+
+#include "bad_corpus.h"
+#include "engine/pattern.h"
+#include "io/array_reader.h"
+#include "io/result_reader.h"
+
+namespace fs = std::filesystem;
+using ::testing::HasSubstr;
+
+namespace lobecast {
+namespace {
+
+struct RunOutput {
+  int exit_code = -1;
+  std::string out;  // stdout and stderr together
+};
+
+// Runs a shell command, capturing stdout+stderr and the exit code.
+RunOutput RunCommand(const std::string& command) {
+  RunOutput r;
+  FILE* p = popen((command + " 2>&1").c_str(), "r");
+  if (!p) return r;
+  std::array<char, 4096> buf;
+  while (std::fgets(buf.data(), buf.size(), p)) r.out += buf.data();
+  const int status = pclose(p);
+  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
+  return r;
+}
+
+std::string Quote(const std::string& s) { return "'" + s + "'"; }
+
+fs::path WorkDir(const std::string& name) {
+  fs::path d = fs::temp_directory_path() / ("lobecast-cli-test-" + std::to_string(getpid())) / name;
+  fs::create_directories(d);
+  return d;
+}
+
+std::vector<std::string> SampleArrays() {
+  std::vector<std::string> v;
+  for (const auto& e : fs::directory_iterator(LOBECAST_SAMPLES)) {
+    if (e.path().extension() == ".toml") v.push_back(e.path().string());
+  }
+  std::sort(v.begin(), v.end());
+  return v;
+}
+
+double MaxAbsDiff(const Eigen::VectorXcd& a, const Eigen::VectorXcd& b) {
+  return (a - b).cwiseAbs().maxCoeff();
+}
+
+class SampleArray : public ::testing::TestWithParam<std::string> {};
+
+TEST_P(SampleArray, ComputedResultMatchesTheEngine) {
+  const std::string input = GetParam();
+  const fs::path out = WorkDir("samples") / (fs::path(input).stem().string() + ".h5");
+  fs::remove(out);
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute " + Quote(input) + " -o " +
+                            Quote(out.string()));
+  ASSERT_EQ(run.exit_code, 0) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("dBi"));
+  EXPECT_THAT(run.out, HasSubstr("not an RF-exposure"));
+  ASSERT_TRUE(fs::exists(out));
+
+  const StoredResult stored = ReadResult(out.string());
+  const ArrayDescription desc = ReadArrayDescription(input);
+  const PatternResult direct = ComputePattern(desc.array, desc.grid);
+
+  EXPECT_EQ(stored.format_version, 1);
+  EXPECT_EQ(stored.metadata.input_text, desc.source_text);
+  EXPECT_EQ(stored.metadata.name, desc.name);
+  ASSERT_EQ(stored.array.size(), desc.array.size());
+  EXPECT_DOUBLE_EQ(stored.array.frequency_hz, desc.array.frequency_hz);
+  EXPECT_EQ(stored.array.ground, desc.array.ground);
+  ASSERT_EQ(stored.result.grid.theta_deg, direct.grid.theta_deg);
+  ASSERT_EQ(stored.result.grid.phi_deg, direct.grid.phi_deg);
+
+  // The file holds what the engine computes (bit-for-bit up to the thread split,
+  // which does not change per-direction sums; allow rounding anyway).
+  const double peak = std::sqrt(direct.field.e_theta.cwiseAbs2().maxCoeff() +
+                                direct.field.e_phi.cwiseAbs2().maxCoeff());
+  EXPECT_LE(MaxAbsDiff(stored.result.field.e_theta, direct.field.e_theta), 1e-13 * peak);
+  EXPECT_LE(MaxAbsDiff(stored.result.field.e_phi, direct.field.e_phi), 1e-13 * peak);
+  EXPECT_NEAR(stored.result.radiated_power_w, direct.radiated_power_w,
+              1e-14 * direct.radiated_power_w);
+  EXPECT_LE((stored.result.directivity - direct.directivity).cwiseAbs().maxCoeff(),
+            1e-12 * direct.directivity.maxCoeff());
+  EXPECT_LE((stored.result.resistance_ohm - direct.resistance_ohm).cwiseAbs().maxCoeff(),
+            1e-14 * direct.resistance_ohm.cwiseAbs().maxCoeff());
+  for (std::size_t n = 0; n < desc.array.size(); ++n) {
+    EXPECT_LE((stored.array.dipoles[n].position_m - desc.array.dipoles[n].position_m).norm(),
+              1e-15 + 1e-15 * desc.array.dipoles[n].position_m.norm());
+    EXPECT_EQ(stored.array.dipoles[n].current_a, desc.array.dipoles[n].current_a);
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Samples, SampleArray, ::testing::ValuesIn(SampleArrays()),
+                         [](const ::testing::TestParamInfo<std::string>& info) {
+                           std::string n = fs::path(info.param).stem().string();
+                           for (char& c : n) {
+                             if (!std::isalnum(static_cast<unsigned char>(c))) c = '_';
+                           }
+                           return n;
+                         });
+
+TEST(Samples, AtLeastFiveDemoArrays) { EXPECT_GE(SampleArrays().size(), 5u); }
+
+TEST(Samples, CheckDescribesWithoutWriting) {
+  const fs::path dir = WorkDir("check");
+  const std::string input = std::string(LOBECAST_SAMPLES) + "/turnstile.toml";
+  const RunOutput run = RunCommand("cd " + Quote(dir.string()) + " && " + LOBECAST_EXE + " check " +
+                            Quote(input));
+  ASSERT_EQ(run.exit_code, 0) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("401.5 MHz"));
+  EXPECT_THAT(run.out, HasSubstr("wavelength"));
+  EXPECT_TRUE(fs::is_empty(dir));
+}
+
+TEST(Cli, DefaultOutputNameComesFromTheInput) {
+  const fs::path dir = WorkDir("default-name");
+  const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";
+  const RunOutput run = RunCommand("cd " + Quote(dir.string()) + " && " + LOBECAST_EXE +
+                            " compute --quiet " + Quote(input));
+  ASSERT_EQ(run.exit_code, 0) << run.out;
+  EXPECT_TRUE(run.out.empty()) << run.out;
+  EXPECT_TRUE(fs::exists(dir / "single-dipole.h5"));
+}
+
+TEST(Cli, VersionAndHelp) {
+  RunOutput v = RunCommand(std::string(LOBECAST_EXE) + " --version");
+  EXPECT_EQ(v.exit_code, 0);
+  EXPECT_THAT(v.out, HasSubstr("lobecast "));
+  RunOutput h = RunCommand(std::string(LOBECAST_EXE) + " compute --help");
+  EXPECT_EQ(h.exit_code, 0);
+  EXPECT_THAT(h.out, HasSubstr("--threads"));
+  EXPECT_THAT(h.out, HasSubstr("(V)"));
+  RunOutput bad = RunCommand(std::string(LOBECAST_EXE) + " compute --no-such-option x.toml");
+  EXPECT_EQ(bad.exit_code, 2) << bad.out;
+}
+
+TEST(Cli, ThreadCountDoesNotChangeTheResult) {
+  const fs::path dir = WorkDir("threads");
+  const std::string input = std::string(LOBECAST_SAMPLES) + "/planar-4x4-ground.toml";
+  ASSERT_EQ(RunCommand(std::string(LOBECAST_EXE) + " compute -q -t 1 " + Quote(input) + " -o " +
+                Quote((dir / "t1.h5").string())).exit_code, 0);
+  ASSERT_EQ(RunCommand(std::string(LOBECAST_EXE) + " compute -q -t 2 " + Quote(input) + " -o " +
+                Quote((dir / "t2.h5").string())).exit_code, 0);
+  const StoredResult a = ReadResult((dir / "t1.h5").string());
+  const StoredResult b = ReadResult((dir / "t2.h5").string());
+  const double peak = a.result.field.e_theta.cwiseAbs().maxCoeff();
+  EXPECT_LE(MaxAbsDiff(a.result.field.e_theta, b.result.field.e_theta), 1e-13 * peak);
+  EXPECT_LE(MaxAbsDiff(a.result.field.e_phi, b.result.field.e_phi), 1e-13 * peak);
+}
+
+// --------------------------------------------------------------- bad input
+
+using lobecast::testing::BadCase;
+
+class BadInputCli : public ::testing::TestWithParam<BadCase> {};
+
+TEST_P(BadInputCli, ExitTwoLocatedMessageNothingWritten) {
+  const BadCase& c = GetParam();
+  ASSERT_FALSE(c.Get("line").empty()) << c.path << ": no '# expect:' header";
+  const fs::path dir = WorkDir("bad");
+  const fs::path out = dir / (fs::path(c.path).stem().string() + ".h5");
+  // An existing target must survive a rejected run untouched.
+  { std::ofstream(out) << "precious"; }
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute " + Quote(c.path) + " -o " +
+                            Quote(out.string()));
+  EXPECT_EQ(run.exit_code, 2) << run.out;
+  EXPECT_THAT(run.out, HasSubstr(c.MessageFile() + ":" + c.Get("line") + ":"));
+  if (!c.Get("key").empty()) {
+    EXPECT_THAT(run.out, HasSubstr("key '" + c.Get("key")));
+  }
+  std::ifstream in(out);
+  std::string content((std::istreambuf_iterator<char>(in)), {});
+  EXPECT_EQ(content, "precious");
+  // No temporary left beside it either.
+  for (const auto& e : fs::directory_iterator(dir)) {
+    EXPECT_EQ(e.path().string().find(".tmp"), std::string::npos) << e.path();
+  }
+  fs::remove(out);
+
+  const RunOutput check = RunCommand(std::string(LOBECAST_EXE) + " check " + Quote(c.path));
+  EXPECT_EQ(check.exit_code, 2) << check.out;
+}
+
+INSTANTIATE_TEST_SUITE_P(
+    Corpus, BadInputCli,
+    ::testing::ValuesIn(lobecast::testing::BadCases(std::string(LOBECAST_TESTS_DIR) + "/data/bad")),
+    [](const ::testing::TestParamInfo<BadCase>& info) {
+      return lobecast::testing::CaseName(info.param);
+    });
+
+TEST(Cli, LongDipoleWarnsButRuns) {
+  const fs::path dir = WorkDir("warn");
+  const fs::path toml = dir / "long.toml";
+  std::ofstream(toml) << "frequency = \"300 MHz\"\n[grid]\ntheta = { start = 0, stop = 180, "
+                         "step = 10 }\nphi = { start = 0, stop = 360, step = 30 }\n"
+                         "[[dipole]]\nposition = [0, 0, 0]\norientation = [0, 0, 1]\n"
+                         "length = 0.2\ncurrent = { magnitude = 1 }\n";
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(toml.string()) +
+                            " -o " + Quote((dir / "long.h5").string()));
+  EXPECT_EQ(run.exit_code, 0) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("long.toml:8:"));
+  EXPECT_THAT(run.out, HasSubstr("warning"));
+}
+
+TEST(Cli, UnwritableOutputExitsOneAndLeavesNothing) {
+  const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(input) +
+                            " -o /nonexistent-dir/x.h5");
+  EXPECT_EQ(run.exit_code, 1) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("/nonexistent-dir/x.h5"));
+}
+
+}  // namespace
+}  // namespace lobecast

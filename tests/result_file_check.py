@@ -1,0 +1,183 @@
+#!/usr/bin/env python3
+"""Outside check of lobecast result files with Debian's numpy, scipy and h5py.
+
+For every sample array: run `lobecast compute`, open the HDF5 file with h5py and
+check, independently of the C++ code,
+  * the complex datasets read as complex128 and every dataset has a `units` attribute;
+  * directivity recomputed from rE_theta/rE_phi and the stored power,
+    D = 4 pi |rE|^2 / (2 eta0 P)  (CONVENTIONS §1, U = |rE|^2 / (2 eta0));
+  * rE recomputed by numpy superposition from /array (CONVENTIONS §1 far-field
+    formula, written out again here with numpy, images for a PEC ground);
+  * the resistance matrix recomputed with scipy.special.spherical_jn
+    (reference library) from the closed form of CONVENTIONS §1;
+  * the stored power against a quadrature of the stored intensity over the grid
+    (trapezoid in theta and phi; loose tolerance: the grid is coarse).
+Exit status 0 when every check passes; failures print both values.
+"""
+import argparse
+import glob
+import os
+import subprocess
+import sys
+
+import h5py
+import numpy as np
+from scipy.special import spherical_jn
+
+C0 = 299792458.0
+MU0 = 1.25663706212e-6  # CODATA 2018
+ETA0 = MU0 * C0
+
+failures = []
+
+
+def check(ok, what):
+    if not ok:
+        failures.append(what)
+        print("FAIL:", what)
+
+
+def rel(a, b):
+    scale = max(np.max(np.abs(b)), 1e-300)
+    return float(np.max(np.abs(a - b)) / scale)
+
+
+def field_numpy(f):
+    """rE by direct superposition, vectorized over directions (numpy)."""
+    freq = f["/array"].attrs["frequency_hz"]
+    ground = f["/array"].attrs["ground"]
+    ground = ground.decode() if isinstance(ground, bytes) else ground
+    k = 2 * np.pi * freq / C0
+    pos = f["/array/position"][...]
+    u = f["/array/orientation"][...]
+    le = f["/array/effective_length"][...]
+    cur = f["/array/current"][...]
+    if ground == "pec":
+        pos = np.vstack([pos, pos * [1, 1, -1]])
+        u = np.vstack([u, u * [-1, -1, 1]])
+        le = np.concatenate([le, le])
+        cur = np.concatenate([cur, cur])
+    th = np.radians(f["/grid/theta_deg"][...])[:, None]
+    ph = np.radians(f["/grid/phi_deg"][...])[None, :]
+    r = np.stack(np.broadcast_arrays(np.sin(th) * np.cos(ph), np.sin(th) * np.sin(ph),
+                                     np.cos(th)), axis=-1)
+    t_hat = np.stack(np.broadcast_arrays(np.cos(th) * np.cos(ph), np.cos(th) * np.sin(ph),
+                                         -np.sin(th)), axis=-1)
+    p_hat = np.stack(np.broadcast_arrays(-np.sin(ph) + 0 * th, np.cos(ph) + 0 * th,
+                                         0 * th + 0 * ph), axis=-1)
+    phase = np.exp(1j * k * (r @ pos.T))          # (Nt, Np, Ns)
+    m = phase @ ((cur * le)[:, None] * u)         # (Nt, Np, 3): sum_n I Le u e^{jk r.r_n}
+    pref = 2 * np.pi * freq * MU0 / (4 * np.pi)
+    # r x (r x m) = -m_perp
+    et = -1j * pref * np.sum(t_hat * m, axis=-1)
+    ep = -1j * pref * np.sum(p_hat * m, axis=-1)
+    if ground == "pec":
+        below = (th > np.pi / 2) & np.ones_like(ph, dtype=bool)
+        et[below] = 0
+        ep[below] = 0
+    return et, ep
+
+
+def resistance_scipy(f):
+    freq = f["/array"].attrs["frequency_hz"]
+    ground = f["/array"].attrs["ground"]
+    ground = ground.decode() if isinstance(ground, bytes) else ground
+    k = 2 * np.pi * freq / C0
+    pos = f["/array/position"][...]
+    u = f["/array/orientation"][...]
+    le = f["/array/effective_length"][...]
+
+    def block(pa, ua, pb, ub):
+        d = pa[:, None, :] - pb[None, :, :]
+        dist = np.linalg.norm(d, axis=-1)
+        x = k * dist
+        with np.errstate(invalid="ignore", divide="ignore"):
+            fx = np.where(x > 0, spherical_jn(0, x) - spherical_jn(1, x) / x, 2.0 / 3.0)
+            dh = np.where(dist[..., None] > 0, d / dist[..., None], 0.0)
+        j2 = spherical_jn(2, x)
+        uu = ua @ ub.T
+        ud = np.einsum("ik,ijk->ij", ua, dh) * np.einsum("jk,ijk->ij", ub, dh)
+        return uu * fx + ud * j2
+
+    r = block(pos, u, pos, u)
+    if ground == "pec":
+        r = r + block(pos, u, pos * [1, 1, -1], u * [-1, -1, 1])
+    return k * k * ETA0 / (4 * np.pi) * np.outer(le, le) * r
+
+
+def trapezoid_power(f):
+    th = np.radians(f["/grid/theta_deg"][...])
+    ph = np.radians(f["/grid/phi_deg"][...])
+    u = f["/pattern/intensity"][...]
+    inner = np.trapz(u, ph, axis=1)
+    return float(np.trapz(inner * np.sin(th), th)), th, ph
+
+
+def check_file(path, name):
+    with h5py.File(path, "r") as f:
+        check(f.attrs["format"] in ("lobecast.pattern", b"lobecast.pattern"), f"{name}: format")
+        check(int(f.attrs["format_version"]) == 1, f"{name}: format_version")
+        for ds in ("/field/rE_theta", "/field/rE_phi", "/array/current"):
+            check(f[ds].dtype == np.complex128, f"{name}: {ds} dtype {f[ds].dtype}")
+
+        def visit(n, obj):
+            if isinstance(obj, h5py.Dataset):
+                check("units" in obj.attrs, f"{name}: {n} has no units attribute")
+        f.visititems(visit)
+
+        et = f["/field/rE_theta"][...]
+        ep = f["/field/rE_phi"][...]
+        p = f["/power/radiated_w"][()]
+        d = f["/pattern/directivity"][...]
+        d_py = 4 * np.pi * (np.abs(et) ** 2 + np.abs(ep) ** 2) / (2 * ETA0) / p
+        e = rel(d, d_py)
+        check(e < 1e-12, f"{name}: directivity vs 4 pi U / P: rel err {e:.3e}")
+
+        et_py, ep_py = field_numpy(f)
+        scale = max(np.max(np.abs(et_py)), np.max(np.abs(ep_py)))
+        e1 = float(np.max(np.abs(et - et_py)) / scale)
+        e2 = float(np.max(np.abs(ep - ep_py)) / scale)
+        check(e1 < 1e-10 and e2 < 1e-10, f"{name}: rE vs numpy superposition: {e1:.3e} {e2:.3e}")
+
+        r = f["/power/resistance_ohm"][...]
+        r_py = resistance_scipy(f)
+        e = rel(r, r_py)
+        # scipy's j0 - j1/x cancels at small x: 1e-9 is what the reference can reach.
+        check(e < 1e-9, f"{name}: resistance vs scipy.special.spherical_jn: rel err {e:.3e}")
+        cur = f["/array/current"][...]
+        p_py = 0.5 * np.real(np.conj(cur) @ r_py @ cur)
+        check(abs(p - p_py) < 1e-9 * p, f"{name}: power {p} vs numpy {p_py}")
+
+        p_quad, th, ph = trapezoid_power(f)
+        full = abs(th[0]) < 1e-12 and abs(th[-1] - (np.pi if f["/array"].attrs["ground"] in ("none", b"none") else np.pi / 2)) < 1e-12 and abs(ph[-1] - ph[0] - 2 * np.pi) < 1e-12
+        if full:
+            check(abs(p_quad - p) < 2e-2 * p, f"{name}: trapezoid power {p_quad} vs closed form {p}")
+        print(f"ok  {name}: D err ok, rE vs numpy {max(e1, e2):.1e}, R vs scipy {e:.1e}, "
+              f"P closed {p:.6g} W, trapezoid {p_quad:.6g} W")
+
+
+def main():
+    ap = argparse.ArgumentParser()
+    ap.add_argument("--lobecast", required=True)
+    ap.add_argument("--samples", required=True)
+    ap.add_argument("--workdir", required=True)
+    a = ap.parse_args()
+    os.makedirs(a.workdir, exist_ok=True)
+    samples = sorted(glob.glob(os.path.join(a.samples, "*.toml")))
+    check(len(samples) >= 5, f"only {len(samples)} sample arrays")
+    for s in samples:
+        name = os.path.splitext(os.path.basename(s))[0]
+        out = os.path.join(a.workdir, name + ".h5")
+        run = subprocess.run([a.lobecast, "compute", "--quiet", s, "-o", out],
+                             capture_output=True, text=True)
+        check(run.returncode == 0, f"{name}: compute exit {run.returncode}: {run.stderr}")
+        if run.returncode == 0:
+            check_file(out, name)
+    if failures:
+        print(f"{len(failures)} failure(s)")
+        return 1
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
