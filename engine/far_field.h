@@ -96,23 +96,23 @@ class FieldPlan {
 
   std::size_t num_dipoles_ = 0;
   Ground ground_ = Ground::kNone;
-  double prefactor_ = 0.0;                    // w mu0 / (4 pi)
-  Eigen::Matrix3Xd source_pos_;               // m
-  Eigen::Matrix3Xd source_moment_;            // Le * u, m
-  std::vector<int> source_dipole_;            // which dipole's current drives the source
+  double prefactor_ = 0.0;          // w mu0 / (4 pi)
+  Eigen::Matrix3Xd source_pos_;     // m
+  Eigen::Matrix3Xd source_moment_;  // Le * u, m
+  std::vector<int> source_dipole_;  // which dipole's current drives the source
   // When every moment is parallel to one axis (a common case: all dipoles along
   // z, with or without ground), each source carries a signed scalar moment
   // along it, and the sum needs one complex accumulator instead of three.
   bool collinear_ = false;
   Vec3 common_axis_ = Vec3::UnitZ();
-  std::vector<double> signed_moment_m_;       // Le * (u . axis), collinear only
+  std::vector<double> signed_moment_m_;  // Le * (u . axis), collinear only
   double tolerance_relative_ = 1e-9;
   FieldMethod method_used_ = FieldMethod::kDirect;
-  std::shared_ptr<FastCache> fast_;           // shared by copies; keyed on currents
-  Eigen::Matrix3Xd k_r_hat_;                  // k r_hat, rad/m
+  std::shared_ptr<FastCache> fast_;  // shared by copies; keyed on currents
+  Eigen::Matrix3Xd k_r_hat_;         // k r_hat, rad/m
   Eigen::Matrix3Xd theta_hat_;
   Eigen::Matrix3Xd phi_hat_;
-  std::vector<unsigned char> zeroed_;         // 1 where the ground forces E = 0
+  std::vector<unsigned char> zeroed_;  // 1 where the ground forces E = 0
   int num_threads_ = 0;
 };
 

@@ -133,7 +133,8 @@ NufftGeometry Nufft3::GeometryFor(const Eigen::Matrix3Xd& points, const Eigen::M
     const double h = kPi / (kUpsampling * s.half_width);
     const int n = 2 * static_cast<int>(std::ceil(x.half_width / h + 0.5 * g.kernel_width + 1.0));
     g.spread_size[static_cast<std::size_t>(d)] = n;
-    g.fft_size[static_cast<std::size_t>(d)] = NextSmooth(static_cast<int>(std::ceil(kUpsampling * n)));
+    g.fft_size[static_cast<std::size_t>(d)] =
+        NextSmooth(static_cast<int>(std::ceil(kUpsampling * n)));
   }
   return g;
 }
@@ -231,7 +232,8 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
   const std::size_t plane = static_cast<std::size_t>(n2[1]) * static_cast<std::size_t>(n2[2]);
   const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
 
-  auto* grid = static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
+  auto* grid =
+      static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
   if (!grid) throw std::bad_alloc();
   std::fill(grid, grid + cells * static_cast<std::size_t>(nc), Complex(0.0));
 
@@ -263,14 +265,17 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
 #pragma omp parallel num_threads(threads)
   {
     const int t = omp_get_thread_num(), nt = omp_get_num_threads();
-    const int lo = static_cast<int>(static_cast<long>(n2[static_cast<std::size_t>(slab_dim)]) * t / nt);
-    const int hi = static_cast<int>(static_cast<long>(n2[static_cast<std::size_t>(slab_dim)]) * (t + 1) / nt);
+    const int lo =
+        static_cast<int>(static_cast<long>(n2[static_cast<std::size_t>(slab_dim)]) * t / nt);
+    const int hi =
+        static_cast<int>(static_cast<long>(n2[static_cast<std::size_t>(slab_dim)]) * (t + 1) / nt);
     double wt[3][kMaxWidth];
     int idx[3][kMaxWidth];
     for (Eigen::Index j = 0; j < points_.cols(); ++j) {
       int len[3];
       for (int d = 0; d < 3; ++d) {
-        len[d] = weights(d, points_(d, j) / dims_[static_cast<std::size_t>(d)].h, n2[static_cast<std::size_t>(d)], wt[d], idx[d]);
+        len[d] = weights(d, points_(d, j) / dims_[static_cast<std::size_t>(d)].h,
+                         n2[static_cast<std::size_t>(d)], wt[d], idx[d]);
         if (d == slab_dim) {  // keep only this thread's slab
           int k = 0;
           for (int i = 0; i < len[d]; ++i) {
@@ -282,8 +287,9 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
       if (len[slab_dim] == 0) continue;
       for (int i0 = 0; i0 < len[0]; ++i0) {
         for (int i1 = 0; i1 < len[1]; ++i1) {
-          const std::size_t base = static_cast<std::size_t>(idx[0][i0]) * plane +
-                                   static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
+          const std::size_t base =
+              static_cast<std::size_t>(idx[0][i0]) * plane +
+              static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
           const double w01 = wt[0][i0] * wt[1][i1];
           for (int a = 0; a < nc; ++a) {
             Complex* row = grid + static_cast<std::size_t>(a) * cells + base;
@@ -301,7 +307,8 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
     for (int i1 = 0; i1 < dims_[1].n; ++i1) {
       const int l1 = i1 - dims_[1].n / 2;
       const std::size_t r1 = static_cast<std::size_t>((l1 + n2[1]) % n2[1]);
-      const double d01 = deconvolution_[0][static_cast<std::size_t>(i0)] * deconvolution_[1][static_cast<std::size_t>(i1)];
+      const double d01 = deconvolution_[0][static_cast<std::size_t>(i0)] *
+                         deconvolution_[1][static_cast<std::size_t>(i1)];
       for (int i2 = 0; i2 < dims_[2].n; ++i2) {
         const int l2 = i2 - dims_[2].n / 2;
         const std::size_t cell = r0 * plane + r1 * static_cast<std::size_t>(n2[2]) +
@@ -342,8 +349,9 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
     double ar[3] = {0, 0, 0}, ai[3] = {0, 0, 0};
     for (int i0 = 0; i0 < len[0]; ++i0) {
       for (int i1 = 0; i1 < len[1]; ++i1) {
-        const std::size_t base = static_cast<std::size_t>(idx[0][i0]) * plane +
-                                 static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
+        const std::size_t base =
+            static_cast<std::size_t>(idx[0][i0]) * plane +
+            static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
         const double w01 = wt[0][i0] * wt[1][i1];
         for (int a = 0; a < nc; ++a) {
           const Complex* row = grid + static_cast<std::size_t>(a) * cells + base;

@@ -43,14 +43,12 @@ struct NufftOptions {
 
 // The sizes a transform will use, computable without building it (cost models).
 struct NufftGeometry {
-  int kernel_width = 0;                  // w, grid points per active dimension
-  int active_dims = 0;                   // dimensions that need a grid
+  int kernel_width = 0;                     // w, grid points per active dimension
+  int active_dims = 0;                      // dimensions that need a grid
   std::array<int, 3> spread_size{1, 1, 1};  // grid the points are spread onto
   std::array<int, 3> fft_size{1, 1, 1};     // zero-padded FFT grid
-  double fft_points() const {
-    return static_cast<double>(fft_size[0]) * fft_size[1] * fft_size[2];
-  }
-  double kernel_points() const;          // w^active_dims
+  double fft_points() const { return static_cast<double>(fft_size[0]) * fft_size[1] * fft_size[2]; }
+  double kernel_points() const;  // w^active_dims
 };
 
 class Nufft3 {
@@ -70,18 +68,18 @@ class Nufft3 {
   struct Dim {
     bool active = false;
     double centre_x = 0, centre_s = 0;
-    double h = 1;                        // spread grid spacing (units of x)
-    int n = 1;                           // spread grid size
-    int n2 = 1;                          // FFT grid size
+    double h = 1;  // spread grid spacing (units of x)
+    int n = 1;     // spread grid size
+    int n2 = 1;    // FFT grid size
   };
   NufftGeometry geometry_;
   std::array<Dim, 3> dims_;
   double beta_ = 0;
   int num_threads_ = 0;
-  Eigen::Matrix3Xd points_;              // centred
-  Eigen::Matrix3Xd targets_;             // centred
-  Eigen::VectorXcd point_phase_;         // exp(i D . x'), D the targets' centre
-  Eigen::VectorXcd target_factor_;       // exp(i s . C) h^dims / psi_hat(s')
+  Eigen::Matrix3Xd points_;                           // centred
+  Eigen::Matrix3Xd targets_;                          // centred
+  Eigen::VectorXcd point_phase_;                      // exp(i D . x'), D the targets' centre
+  Eigen::VectorXcd target_factor_;                    // exp(i s . C) h^dims / psi_hat(s')
   std::array<std::vector<double>, 3> deconvolution_;  // h2 / psi2_hat(l), l = -n/2..n/2-1
 };
 

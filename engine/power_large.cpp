@@ -83,8 +83,10 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   for (std::size_t j = 0; j < src.size(); ++j) {
     const Dipole& d = src[j];
     const Complex c = currents_a[static_cast<Eigen::Index>(j % array.size())];
-    s.x.push_back(d.position_m.x()), s.y.push_back(d.position_m.y()), s.z.push_back(d.position_m.z());
-    s.ux.push_back(d.orientation.x()), s.uy.push_back(d.orientation.y()), s.uz.push_back(d.orientation.z());
+    s.x.push_back(d.position_m.x()), s.y.push_back(d.position_m.y()),
+        s.z.push_back(d.position_m.z());
+    s.ux.push_back(d.orientation.x()), s.uy.push_back(d.orientation.y()),
+        s.uz.push_back(d.orientation.z());
     s.le.push_back(d.effective_length_m());
     s.ir.push_back(c.real()), s.ii.push_back(c.imag());
   }

@@ -49,7 +49,8 @@ double Peak(const FarField& f) {
 double RelativeDifference(const FarField& a, const FarField& b) {
   double d = 0;
   for (Eigen::Index i = 0; i < a.e_theta.size(); ++i) {
-    d = std::max(d, std::sqrt(std::norm(a.e_theta[i] - b.e_theta[i]) + std::norm(a.e_phi[i] - b.e_phi[i])));
+    d = std::max(
+        d, std::sqrt(std::norm(a.e_theta[i] - b.e_theta[i]) + std::norm(a.e_phi[i] - b.e_phi[i])));
   }
   return d / Peak(b);
 }
@@ -72,17 +73,22 @@ FarField Reference(const Array& a, const Directions& dirs) {
       const long double ph = k * (static_cast<long double>(r.x()) * d.position_m.x() +
                                   static_cast<long double>(r.y()) * d.position_m.y() +
                                   static_cast<long double>(r.z()) * d.position_m.z());
-      const LComplex w = LComplex(cur.real(), cur.imag()) * static_cast<long double>(d.effective_length_m()) *
+      const LComplex w = LComplex(cur.real(), cur.imag()) *
+                         static_cast<long double>(d.effective_length_m()) *
                          std::exp(LComplex(0, ph));
       for (int c = 0; c < 3; ++c) m[c] += w * static_cast<long double>(d.orientation[c]);
     }
     const Vec3 t = dirs.theta_hat(i), p = dirs.phi_hat(i);
-    const LComplex mt = m[0] * (long double)t.x() + m[1] * (long double)t.y() + m[2] * (long double)t.z();
-    const LComplex mp = m[0] * (long double)p.x() + m[1] * (long double)p.y() + m[2] * (long double)p.z();
+    const LComplex mt =
+        m[0] * (long double)t.x() + m[1] * (long double)t.y() + m[2] * (long double)t.z();
+    const LComplex mp =
+        m[0] * (long double)p.x() + m[1] * (long double)p.y() + m[2] * (long double)p.z();
     const bool zero = BelowGround(a.ground, dirs.theta_rad(i));
     const LComplex mj(0, -pref);
-    f.e_theta[static_cast<Eigen::Index>(i)] = zero ? Complex(0) : Complex(static_cast<std::complex<double>>(mj * mt));
-    f.e_phi[static_cast<Eigen::Index>(i)] = zero ? Complex(0) : Complex(static_cast<std::complex<double>>(mj * mp));
+    f.e_theta[static_cast<Eigen::Index>(i)] =
+        zero ? Complex(0) : Complex(static_cast<std::complex<double>>(mj * mt));
+    f.e_phi[static_cast<Eigen::Index>(i)] =
+        zero ? Complex(0) : Complex(static_cast<std::complex<double>>(mj * mp));
   }
   return f;
 }
@@ -95,7 +101,8 @@ Array Lattice(TestRng& rng, int side, Ground ground = Ground::kNone) {
   a.ground = ground;
   const double lambda = a.wavelength_m();
   for (int i = 0; i < side * side; ++i) {
-    const Vec3 p(0.5 * lambda * (i % side), 0.5 * lambda * (i / side), ground == Ground::kPec ? 0.25 * lambda : 0.0);
+    const Vec3 p(0.5 * lambda * (i % side), 0.5 * lambda * (i / side),
+                 ground == Ground::kPec ? 0.25 * lambda : 0.0);
     a.dipoles.push_back(MakeDipole(p, Vec3::UnitZ(), 0.02 * lambda, rng.Phasor(0.1, 2.0)));
   }
   return a;
@@ -108,10 +115,12 @@ TEST(DirectPath, MatchesLongDoubleReference) {
     for (int n : {1, 5, 37, 300}) {  // below, at and past a kernel tile and block
       const Array a = RandomArray(rng, n, g, 6.0);
       const FarField f = FieldPlan(a, dirs, Options(FieldMethod::kDirect)).Execute(CurrentsOf(a));
-      EXPECT_LT(RelativeDifference(f, Reference(a, dirs)), 1e-13) << n << " dipoles, " << ToString(g);
+      EXPECT_LT(RelativeDifference(f, Reference(a, dirs)), 1e-13)
+          << n << " dipoles, " << ToString(g);
     }
     const Array lattice = Lattice(rng, 9, g);
-    const FarField f = FieldPlan(lattice, dirs, Options(FieldMethod::kDirect)).Execute(CurrentsOf(lattice));
+    const FarField f =
+        FieldPlan(lattice, dirs, Options(FieldMethod::kDirect)).Execute(CurrentsOf(lattice));
     EXPECT_LT(RelativeDifference(f, Reference(lattice, dirs)), 1e-13) << "lattice, " << ToString(g);
   }
 }
@@ -129,8 +138,10 @@ TEST(DirectPath, ThreadCountDoesNotChangeTheResult) {
   TestRng rng(23);
   const Array a = RandomArray(rng, 2500, Ground::kPec, 10.0);
   const Directions dirs = Grid(3);
-  const FarField f1 = FieldPlan(a, dirs, Options(FieldMethod::kDirect, 1e-9, 1)).Execute(CurrentsOf(a));
-  const FarField f2 = FieldPlan(a, dirs, Options(FieldMethod::kDirect, 1e-9, 2)).Execute(CurrentsOf(a));
+  const FarField f1 =
+      FieldPlan(a, dirs, Options(FieldMethod::kDirect, 1e-9, 1)).Execute(CurrentsOf(a));
+  const FarField f2 =
+      FieldPlan(a, dirs, Options(FieldMethod::kDirect, 1e-9, 2)).Execute(CurrentsOf(a));
   EXPECT_LE(RelativeDifference(f1, f2), 1e-13);
 }
 
@@ -146,6 +157,9 @@ TEST_P(FastPath, AgreesWithDirectWithinTolerance) {
   TestRng rng(24);
   std::vector<FastCase> cases;
   cases.push_back({"random 3-D, free space", RandomArray(rng, 400, Ground::kNone, 8.0)});
+  // Few sources: the pattern peak is close to sum |I Le|, so the bound is tightest.
+  cases.push_back({"3 random dipoles", RandomArray(rng, 3, Ground::kNone, 3.0)});
+  cases.push_back({"z lattice 4x4", Lattice(rng, 4)});
   cases.push_back({"random 3-D, PEC ground", RandomArray(rng, 300, Ground::kPec, 6.0)});
   cases.push_back({"z lattice 24x24", Lattice(rng, 24)});
   cases.push_back({"z lattice 16x16 over PEC", Lattice(rng, 16, Ground::kPec)});
@@ -196,14 +210,17 @@ TEST(FastPath, ChunkedExecutionMatchesWhole) {
     }
     // A new current vector is not served from the cache.
     const FarField doubled = plan.Execute(2.0 * cur);
-    EXPECT_LT(RelativeDifference(doubled, FieldPlan(a, dirs, Options(FieldMethod::kDirect)).Execute(2.0 * cur)), 1e-9);
+    EXPECT_LT(RelativeDifference(
+                  doubled, FieldPlan(a, dirs, Options(FieldMethod::kDirect)).Execute(2.0 * cur)),
+              1e-9);
   }
 }
 
 TEST(FastPath, TotalCancellationFallsBackToTheExactSum) {
   // Two coincident dipoles with opposite currents radiate nothing: no tolerance
   // relative to a zero peak can be met by the NUFFT, so the plan sums directly.
-  Array a = testing::OneDipoleArray(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(1, 0)));
+  Array a =
+      testing::OneDipoleArray(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(1, 0)));
   a.dipoles.push_back(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(-1, 0)));
   const FieldPlan plan(a, Grid(10), Options(FieldMethod::kFast));
   const FarField f = plan.Execute(CurrentsOf(a));
@@ -217,7 +234,8 @@ TEST(MethodChoice, AutoIsDirectForSmallAndFastForLargeJobs) {
   EXPECT_EQ(FieldPlan(small, Grid(1), FieldOptions{}).method_used(), FieldMethod::kDirect);
   // 128 x 128 lattice on a 0.25 deg grid: 1.7e10 pairs directly.
   const Array big = Lattice(rng, 128);
-  const Directions fine = Directions::FromGrid(AngularGrid::FromRanges({0, 180, 0.25}, {0, 360, 0.25}));
+  const Directions fine =
+      Directions::FromGrid(AngularGrid::FromRanges({0, 180, 0.25}, {0, 360, 0.25}));
   EXPECT_EQ(FieldPlan(big, fine, FieldOptions{}).method_used(), FieldMethod::kFast);
   EXPECT_EQ(FieldPlan(big, Grid(30), FieldOptions{}).method_used(), FieldMethod::kDirect);
 }

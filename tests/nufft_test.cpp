@@ -39,7 +39,8 @@ double RelativeError(const Eigen::Matrix3Xd& x, const Eigen::Matrix3Xd& s,
   return worst;
 }
 
-Eigen::Matrix3Xd RandomCloud(TestRng& rng, int n, const Eigen::Vector3d& half, const Eigen::Vector3d& centre) {
+Eigen::Matrix3Xd RandomCloud(TestRng& rng, int n, const Eigen::Vector3d& half,
+                             const Eigen::Vector3d& centre) {
   Eigen::Matrix3Xd m(3, n);
   for (int j = 0; j < n; ++j) {
     for (int d = 0; d < 3; ++d) m(d, j) = centre[d] + rng.Uniform(-half[d], half[d]);

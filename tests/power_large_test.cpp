@@ -27,12 +27,14 @@ TEST(StreamedPower, MatchesTheMatrixRoute) {
       const Eigen::MatrixXd r = ResistanceMatrix(a);
       const StreamedPower s = RadiatedPowerStreamed(a, cur);
       const double p = RadiatedPower(r, cur);
-      EXPECT_NEAR(s.radiated_power_w, p, 1e-12 * std::abs(p)) << ToString(g) << " extent " << extent;
+      EXPECT_NEAR(s.radiated_power_w, p, 1e-12 * std::abs(p))
+          << ToString(g) << " extent " << extent;
       const Eigen::VectorXd act = ActiveResistance(r, cur);
       // Active resistances are differences of large terms; compare on the scale of
       // the self resistance.
       const double scale = r.diagonal().cwiseAbs().maxCoeff();
-      EXPECT_LT((s.active_resistance_ohm - act).cwiseAbs().maxCoeff(), 1e-11 * scale) << ToString(g);
+      EXPECT_LT((s.active_resistance_ohm - act).cwiseAbs().maxCoeff(), 1e-11 * scale)
+          << ToString(g);
     }
   }
 }
@@ -40,7 +42,8 @@ TEST(StreamedPower, MatchesTheMatrixRoute) {
 TEST(StreamedPower, SingleHertzianDipoleMatchesHandbook) {
   // R = (2 pi / 3) eta0 (l / lambda)^2 (Balanis 4th ed. sec. 4.2, eq. 4-19, written
   // with eta0 instead of 120 pi as CONVENTIONS §1 asks; equation number from memory).
-  Array a = testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3(1, 2, 2) / 3.0, 0.0, Complex(0.3, -0.4)));
+  Array a = testing::OneDipoleArray(
+      MakeDipole(Vec3::Zero(), Vec3(1, 2, 2) / 3.0, 0.0, Complex(0.3, -0.4)));
   a.dipoles[0].length_m = a.wavelength_m() / 40;
   const double r = 2 * kPi / 3 * kEta0_ohm * std::pow(1.0 / 40, 2);
   const StreamedPower s = RadiatedPowerStreamed(a, CurrentsOf(a));

@@ -83,7 +83,8 @@ TEST(SinCos, AccurateNearMultiplesOfHalfPi) {
       double s, c;
       SinCos(x, s, c);
       const long double xl = x;
-      const double e = static_cast<double>(std::max(std::fabs(s - sinl(xl)), std::fabs(c - cosl(xl))));
+      const double e =
+          static_cast<double>(std::max(std::fabs(s - sinl(xl)), std::fabs(c - cosl(xl))));
       if (e > worst) worst = e, worst_x = x;
     }
   }
@@ -108,8 +109,9 @@ TEST(SinCos, ExactValuesAndSymmetry) {
 }
 
 TEST(SinCos, NonFiniteGivesNan) {
-  for (double x : {std::numeric_limits<double>::infinity(), -std::numeric_limits<double>::infinity(),
-                   std::numeric_limits<double>::quiet_NaN()}) {
+  for (double x :
+       {std::numeric_limits<double>::infinity(), -std::numeric_limits<double>::infinity(),
+        std::numeric_limits<double>::quiet_NaN()}) {
     double s, c;
     SinCos(x, s, c);
     EXPECT_TRUE(std::isnan(s)) << x;

@@ -6,8 +6,8 @@
 // Arrays: N z-directed short dipoles on a square planar lattice of half-wavelength
 // pitch with a small random jitter in x and y (a large planar array), random
 // complex currents; "general" cases tilt every dipole randomly and jitter z too,
-// which takes the three-component kernels and a 3-D NUFFT grid. Huge direct and scalar cases run on an evenly strided subset of the grid
-// (reported as "directions"), so pairs/s stays comparable.
+// which takes the three-component kernels and a 3-D NUFFT grid. Huge direct and scalar cases run on
+// an evenly strided subset of the grid (reported as "directions"), so pairs/s stays comparable.
 #include <sys/resource.h>
 
 #include <benchmark/benchmark.h>
@@ -40,7 +40,8 @@ Array PlanarArray(int n, bool general) {
     // Planar (z = 0) for the collinear cases; the general cases also jitter z, so
     // the fast path needs a 3-D grid there.
     d.position_m = Vec3((i % side) * 0.5 + 0.05 * u(rng), (i / side) * 0.5 + 0.05 * u(rng),
-                        general ? 0.05 * u(rng) : 0.0) * lambda;
+                        general ? 0.05 * u(rng) : 0.0) *
+                   lambda;
     d.orientation = general ? Vec3(u(rng), u(rng), u(rng)).normalized() : Vec3::UnitZ();
     d.length_m = 0.01 * lambda;
     d.current_a = Complex(u(rng), u(rng));
@@ -54,10 +55,12 @@ Directions GridDirections(double step_deg, double n, double max_pairs, std::size
   const AngularGrid g = AngularGrid::FromRanges({0, 180, step_deg}, {0, 360, step_deg});
   const Directions all = Directions::FromGrid(g);
   *full_size = all.size();
-  const auto stride = static_cast<std::size_t>(std::max(1.0, std::ceil(all.size() * n / max_pairs)));
+  const auto stride =
+      static_cast<std::size_t>(std::max(1.0, std::ceil(all.size() * n / max_pairs)));
   if (stride == 1) return all;
   std::vector<double> th, ph;
-  for (std::size_t i = 0; i < all.size(); i += stride) th.push_back(all.theta_rad(i)), ph.push_back(all.phi_rad(i));
+  for (std::size_t i = 0; i < all.size(); i += stride)
+    th.push_back(all.theta_rad(i)), ph.push_back(all.phi_rad(i));
   return Directions::FromAngles(th, ph);
 }
 
@@ -89,7 +92,8 @@ void BM_ScalarLoop(benchmark::State& state) {
       const Vec3 r = dirs.r_hat(ui);
       Complex mx = 0.0, my = 0.0, mz = 0.0;
       for (const Dipole& d : a.dipoles) {
-        const Complex w = d.current_a * d.effective_length_m() * std::exp(Complex(0.0, k * r.dot(d.position_m)));
+        const Complex w =
+            d.current_a * d.effective_length_m() * std::exp(Complex(0.0, k * r.dot(d.position_m)));
         mx += w * d.orientation.x(), my += w * d.orientation.y(), mz += w * d.orientation.z();
       }
       const Vec3 t = dirs.theta_hat(ui), p = dirs.phi_hat(ui);
@@ -147,7 +151,8 @@ void BM_Fast(benchmark::State& state) {
   const std::size_t stride = std::max<std::size_t>(1, dirs.size() / 4000);
   std::vector<double> th, ph;
   std::vector<std::size_t> at;
-  for (std::size_t i = 0; i < dirs.size(); i += stride) th.push_back(dirs.theta_rad(i)), ph.push_back(dirs.phi_rad(i)), at.push_back(i);
+  for (std::size_t i = 0; i < dirs.size(); i += stride)
+    th.push_back(dirs.theta_rad(i)), ph.push_back(dirs.phi_rad(i)), at.push_back(i);
   FieldOptions od;
   od.method = FieldMethod::kDirect;
   const FarField ref = FieldPlan(a, Directions::FromAngles(th, ph), od).Execute(currents);
@@ -158,7 +163,8 @@ void BM_Fast(benchmark::State& state) {
   }
   for (std::size_t j = 0; j < at.size(); ++j) {
     const auto e = static_cast<Eigen::Index>(at[j]), r = static_cast<Eigen::Index>(j);
-    err = std::max(err, std::sqrt(std::norm(f.e_theta[e] - ref.e_theta[r]) + std::norm(f.e_phi[e] - ref.e_phi[r])));
+    err = std::max(err, std::sqrt(std::norm(f.e_theta[e] - ref.e_theta[r]) +
+                                  std::norm(f.e_phi[e] - ref.e_phi[r])));
   }
   state.counters["error_rel_peak"] = err / peak;
 }
