@@ -53,8 +53,10 @@ struct FieldOptions {
   FieldMethod method = FieldMethod::kAuto;
   // Fast path only: the largest error in |rE| over all plan directions, relative
   // to the largest |rE| over the plan's directions. 1e-9 keeps patterns exact
-  // to far below any plotting or side-lobe resolution; the fast path reaches
-  // down to about 1e-13. The direct path ignores it.
+  // to far below any plotting or side-lobe resolution. The fast path first runs
+  // a cheap 1e-4 pass to find the peak, then one tight enough for it; when the
+  // peak is so far below sum |I Le| that double precision cannot reach the
+  // tolerance, it sums directly instead. The direct path ignores it.
   double tolerance_relative = 1e-9;
 
   // False (with a message naming the field, the value and the rule) unless
@@ -71,6 +73,9 @@ class FieldPlan {
   FarField Execute(const Eigen::VectorXcd& currents_a) const;
   // Fills a caller-owned FarField (resized as needed) for directions
   // [first, first + out.size()) -- lets callers process a grid in chunks.
+  // The fast path transforms all plan directions at once: its first call for a
+  // current vector computes and keeps the whole field (the output's size), and
+  // later chunks for the same currents are copies. Thread-safe.
   void ExecuteRange(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                     FarField& out) const;
 
