@@ -19,6 +19,7 @@
 //   /polarization          axial_ratio_db dB, tilt_deg deg, sense int8 (Nt,Np)
 //   /power                 radiated_w () W, resistance_ohm (N,N), active_resistance_ohm (N)
 //   /summary               attributes from ComputeSummary
+//   /summary/analysis      the pattern analysis, when written (io/analysis_writer.h)
 #pragma once
 
 #include <cstddef>
@@ -50,6 +51,8 @@ struct ResultMetadata {
   std::string created;      // ISO 8601 UTC; empty: the time the writer is created
 };
 
+class PatternFileWriter;
+
 struct ResultWriteOptions {
   // gzip level 0..9 for the (Nt, Np) datasets; -1 stores them uncompressed.
   int deflate_level = 4;
@@ -61,6 +64,10 @@ struct ResultWriteOptions {
   // it is written. Throwing from it aborts the write exactly as an I/O failure
   // would; tests inject failures through it.
   std::function<void(std::string_view)> before_write;
+  // WriteResult only: called after the result and its summary are written and
+  // before the file is finished, to add more under /summary (the pattern
+  // analysis). Throwing from it aborts the write like an I/O failure.
+  std::function<void(PatternFileWriter&)> before_finish;
 };
 
 // Rows [first, first + num_rows) of the (Nt, Np) quantities: each pointer holds

@@ -1,0 +1,29 @@
+#include "io/number_text.h"
+
+#include <charconv>
+#include <cmath>
+#include <system_error>
+
+namespace lobecast {
+
+void AppendShortest(std::string& out, double value) {
+  if (std::isnan(value)) {
+    out += "nan";
+    return;
+  }
+  if (std::isinf(value)) {
+    out += value > 0 ? "inf" : "-inf";
+    return;
+  }
+  char buf[32];  // the longest shortest form of a double is 24 characters
+  const std::to_chars_result r = std::to_chars(buf, buf + sizeof buf, value);
+  out.append(buf, r.ptr);
+}
+
+std::string ShortestText(double value) {
+  std::string s;
+  AppendShortest(s, value);
+  return s;
+}
+
+}  // namespace lobecast
