@@ -10,5 +10,7 @@ namespace lobecast::cli {
 void AddComputeCommand(CLI::App& app);
 void AddCheckCommand(CLI::App& app);
 void AddPlotCommand(CLI::App& app);
+void AddReportCommand(CLI::App& app);
+void AddExportCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

@@ -3,13 +3,19 @@
 #include <cstdio>
 #include <filesystem>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
+#include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/progress_bar.h"
+#include "cli/report_text.h"
 #include "cli/summary_text.h"
+#include "engine/error.h"
 #include "engine/pattern.h"
+#include "engine/pattern_analysis.h"
+#include "io/analysis_writer.h"
 #include "io/array_reader.h"
 #include "io/plot.h"
 #include "io/result_reader.h"
@@ -24,6 +30,8 @@ struct ComputeArgs {
   int threads = 0;
   bool quiet = false;
   std::string plots_dir;  // empty: no plots
+  std::string reference = "auto";  // for the stored analysis
+  bool no_analysis = false;
 };
 
 // RESULT defaults to the input's stem with .h5, in the current directory.
@@ -43,13 +51,33 @@ void RunCompute(const ComputeArgs& args) {
   const PatternResult result = ComputePattern(desc.array, desc.grid, options);
   bar.Finish();
 
+  // The pattern analysis goes into the file (/summary/analysis), so `report` needs
+  // no recomputation. A failed analysis costs the analysis, not the result.
+  std::optional<PatternAnalysis> analysis;
+  AnalysisOptions analysis_options;
+  if (!args.no_analysis) {
+    const auto ref = ParseReference(args.reference);
+    analysis_options.reference = ref ? *ref : AutoReference(result);
+    try {
+      analysis = AnalyzePattern(desc.array, result, analysis_options);
+    } catch (const InvalidArgument& e) {
+      std::fprintf(stderr, "pattern analysis skipped: %s\n", e.what());
+    }
+  }
+
   const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
   ResultMetadata meta;
   meta.name = desc.name;
   meta.description = desc.description;
   meta.input_text = desc.source_text;
   meta.input_path = desc.source_path;
-  WriteResult(output, desc.array, result, meta);
+  ResultWriteOptions write_options;
+  if (analysis) {
+    write_options.before_finish = [&](PatternFileWriter& w) {
+      WriteAnalysis(w, *analysis, analysis_options);
+    };
+  }
+  WriteResult(output, desc.array, result, meta, write_options);
   if (!args.plots_dir.empty()) {
     // Drawn from the file just written, so the plots show exactly what it holds.
     std::vector<std::string> skipped;
@@ -61,6 +89,7 @@ void RunCompute(const ComputeArgs& args) {
       std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
     std::fputs(DescribeResult(desc, result, output, wall).c_str(), stdout);
+    if (analysis) std::fputs(AnalysisBrief(*analysis).c_str(), stdout);
     std::fputs(SafetyNote().c_str(), stdout);
   }
 }
@@ -87,6 +116,12 @@ void AddComputeCommand(CLI::App& app) {
   cmd->add_option("--plots", args->plots_dir,
                   "Also write a standard set of PNG plots into this folder: polar cuts phi = 0 "
                   "and phi = 90 deg and a theta-phi directivity map (dBi)");
+  cmd->add_option("--reference", args->reference,
+                  std::string(kReferenceHelp) + "; for the analysis stored in the file")
+      ->check(CLI::IsMember({"x", "y", "rhcp", "lhcp", "auto"}, CLI::ignore_case));
+  cmd->add_flag("--no-analysis", args->no_analysis,
+                "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
+                "is otherwise stored under /summary/analysis");
   cmd->callback([args] { RunCompute(*args); });
 }
 

@@ -35,6 +35,8 @@ int main(int argc, char** argv) {
   lobecast::cli::AddComputeCommand(app);
   lobecast::cli::AddCheckCommand(app);
   lobecast::cli::AddPlotCommand(app);
+  lobecast::cli::AddReportCommand(app);
+  lobecast::cli::AddExportCommand(app);
 
   try {
     app.parse(argc, argv);

@@ -1,0 +1,67 @@
+#include "cli/analysis_setup.h"
+
+#include <cctype>
+#include <charconv>
+#include <cmath>
+#include <complex>
+#include <string>
+
+#include "engine/constants.h"
+#include "engine/error.h"
+#include "engine/polarization.h"
+
+namespace lobecast::cli {
+
+std::optional<PolarizationReference> ParseReference(std::string_view text) {
+  std::string lower(text);
+  for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  if (lower == "auto") return std::nullopt;
+  if (const auto r = PolarizationReferenceFromString(lower)) return r;
+  throw InvalidArgument("--reference '" + std::string(text) +
+                        "': expected x, y, rhcp, lhcp or auto");
+}
+
+std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,
+                                         std::string_view expected) {
+  auto number = [](std::string_view s) -> std::optional<double> {
+    while (!s.empty() && s.front() == ' ') s.remove_prefix(1);
+    while (!s.empty() && s.back() == ' ') s.remove_suffix(1);
+    if (!s.empty() && s.front() == '+') s.remove_prefix(1);
+    double v = 0;
+    const auto r = std::from_chars(s.data(), s.data() + s.size(), v);
+    if (s.empty() || r.ec != std::errc() || r.ptr != s.data() + s.size() || !std::isfinite(v)) {
+      return std::nullopt;
+    }
+    return v;
+  };
+  const std::size_t comma = text.find(',');
+  const auto a = comma == std::string_view::npos ? std::nullopt : number(text.substr(0, comma));
+  const auto b = comma == std::string_view::npos ? std::nullopt : number(text.substr(comma + 1));
+  if (!a || !b) {
+    throw InvalidArgument(std::string(option) + " '" + std::string(text) + "': expected " +
+                          std::string(expected));
+  }
+  return {*a, *b};
+}
+
+PolarizationReference AutoReference(const PatternResult& r) {
+  Eigen::Index peak = 0;
+  r.directivity.maxCoeff(&peak);
+  const double phi = r.grid.phi_deg[static_cast<std::size_t>(peak) % r.grid.phi_deg.size()];
+  PolarizationReference best = PolarizationReference::kLinearX;
+  double best_co = -1.0;
+  for (const PolarizationReference ref :
+       {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
+        PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular}) {
+    const double co =
+        std::norm(CoCrossOf(r.field.e_theta[peak], r.field.e_phi[peak], phi * kDegree, ref).co);
+    // The relative margin keeps ties (a 45 deg linear field) on the first candidate.
+    if (co > best_co * (1.0 + 1e-9)) {
+      best_co = co;
+      best = ref;
+    }
+  }
+  return best;
+}
+
+}  // namespace lobecast::cli

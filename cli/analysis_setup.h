@@ -1,0 +1,33 @@
+// The pattern-analysis options `compute` and `report` share: the polarization
+// reference (with an automatic choice) and the option text for --reference.
+#pragma once
+
+#include <optional>
+#include <string>
+#include <string_view>
+#include <utility>
+
+#include "engine/analysis_types.h"
+#include "engine/pattern.h"
+
+namespace lobecast::cli {
+
+// Help text for --reference.
+inline constexpr const char* kReferenceHelp =
+    "Polarization reference for co/cross-polar levels and XPD: x or y (Ludwig-3 linear), "
+    "rhcp or lhcp (circular), or auto: whichever of the four carries the most co-polar "
+    "field at the grid peak";
+
+// "auto" -> std::nullopt (resolve with AutoReference); throws InvalidArgument for an
+// unknown name.
+std::optional<PolarizationReference> ParseReference(std::string_view text);
+
+// "A,B" (two decimal numbers, spaces allowed) for the option named `option`;
+// throws InvalidArgument naming the option, what was found and what was expected.
+std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,
+                                         std::string_view expected);
+
+// The automatic choice described in kReferenceHelp, from the grid maximum.
+PolarizationReference AutoReference(const PatternResult& result);
+
+}  // namespace lobecast::cli

@@ -1,0 +1,172 @@
+// `lobecast export RESULT.h5`: the pattern as a CSV or TSV table for spreadsheets:
+// the stored grid, one cut, or one direction (--at), in theta-phi or azimuth-
+// elevation. Directions off the stored grid are computed exactly through the engine
+// (io/export_samples.h); the formatting is io/pattern_export.h.
+#include <cmath>
+#include <cstdio>
+#include <fstream>
+#include <memory>
+#include <sstream>
+#include <string>
+#include <vector>
+
+#include "cli/analysis_setup.h"
+#include "cli/commands.h"
+#include "cli/summary_text.h"
+#include "engine/error.h"
+#include "io/export_samples.h"
+#include "io/io_error.h"
+#include "io/pattern_export.h"
+#include "io/result_reader.h"
+
+namespace lobecast::cli {
+namespace {
+
+struct ExportArgs {
+  std::string input;
+  std::string output;  // empty: stdout
+  std::string format = "csv";
+  std::string coords = "theta-phi";
+  std::string reference = "auto";
+  std::string cut;  // empty: the full grid
+  double step_deg = 1.0;
+  std::string at;  // empty: no single-direction lookup
+  bool no_notes = false;
+};
+
+std::string ReferenceText(PolarizationReference r) {
+  switch (r) {
+    case PolarizationReference::kLinearX: return "x (Ludwig-3)";
+    case PolarizationReference::kLinearY: return "y (Ludwig-3)";
+    case PolarizationReference::kRightCircular: return "RHCP";
+    case PolarizationReference::kLeftCircular: return "LHCP";
+  }
+  return "?";
+}
+
+void RunExport(const ExportArgs& args) {
+  PatternTableOptions table;
+  const auto format = ExportFormatFromString(args.format);
+  if (!format) throw InvalidArgument("--format '" + args.format + "': expected csv or tsv");
+  table.format = *format;
+  const auto coords = ExportCoordinatesFromString(args.coords);
+  if (!coords) {
+    throw InvalidArgument("--coords '" + args.coords + "': expected theta-phi or az-el");
+  }
+  table.coordinates = *coords;
+  const std::optional<PolarizationReference> fixed = ParseReference(args.reference);
+  std::optional<CutSpec> cut;
+  if (!args.cut.empty()) {
+    std::string why;
+    cut = ParseCutSpec(args.cut, &why);
+    if (!cut) throw InvalidArgument("--cut: " + why);
+  }
+  if (!(args.step_deg > 0 && args.step_deg <= 90)) {
+    char found[32];
+    std::snprintf(found, sizeof found, "%g", args.step_deg);
+    throw InvalidArgument(std::string("--step ") + found + " deg: expected 0 < step <= 90 deg");
+  }
+  std::optional<std::pair<double, double>> at;
+  const bool az_el = table.coordinates == ExportCoordinates::kAzimuthElevation;
+  if (!args.at.empty()) {
+    auto d = ParseAnglePair(args.at, "--at",
+                            az_el ? "AZIMUTH,ELEVATION in deg (with --coords az-el)"
+                                  : "THETA,PHI in deg");
+    if (az_el) {
+      if (!(d.second >= -90 && d.second <= 90)) {
+        throw InvalidArgument("--at '" + args.at + "': elevation must be within -90..90 deg");
+      }
+      d = {90.0 - d.second, d.first};
+    } else if (!(d.first >= 0 && d.first <= 180)) {
+      throw InvalidArgument("--at '" + args.at + "': theta must be within 0..180 deg");
+    }
+    at = d;
+  }
+
+  const StoredResult stored = ReadResult(args.input);
+  table.reference = fixed ? *fixed : AutoReference(stored.result);
+  table.radiated_power_w = stored.result.radiated_power_w;
+  std::vector<ExportSample> samples;
+  std::string what;
+  if (at) {
+    samples = ExactSamples(stored, {*at});
+    what = "one direction, computed exactly through the engine";
+  } else if (cut) {
+    samples = CutSamples(stored, *cut, args.step_deg);
+    table.cut_angle_column = cut->kind != CutSpec::Kind::kTheta;
+    const bool exact = !samples.empty() && samples.front().exact;
+    what = "cut " + DescribeCut(*cut) +
+           (exact ? ", computed exactly through the engine" : ", from the stored grid");
+    if (cut->kind == CutSpec::Kind::kPhi) {
+      what += "; cut_angle_deg = theta on the phi half, -theta on the phi + 180 deg half";
+    } else if (cut->kind == CutSpec::Kind::kGreatCircle) {
+      what += "; cut_angle_deg = signed angle along the circle from that direction";
+    }
+  } else {
+    samples = GridSamples(stored);
+    what = "the stored grid, theta-major";
+  }
+  if (!args.no_notes) {
+    const std::string name = stored.metadata.name.empty() ? "(unnamed)" : stored.metadata.name;
+    table.notes = {
+        "lobecast export of " + args.input + ": " + name + ", " +
+            FormatFrequency(stored.array.frequency_hz) + ", ground " +
+            std::string(ToString(stored.array.ground)),
+        "directions: " + what + " (" + std::to_string(samples.size()) + " rows)",
+        "coordinates: " + CoordinateDefinition(table.coordinates),
+        "co_dBi, cross_dBi: reference " + ReferenceText(table.reference) +
+            "; directivity of the currents as given (gain = directivity for a lossless, "
+            "matched array)",
+        "sense: +1 right-hand, -1 left-hand, 0 linear or no field (IEEE Std 145-2013); "
+        "-inf: zero field; nan: undefined at zero field",
+    };
+  }
+  std::ostringstream text;
+  WritePatternTable(text, samples, table);
+  if (args.output.empty()) {
+    std::fputs(text.str().c_str(), stdout);
+    return;
+  }
+  std::ofstream out(args.output, std::ios::binary | std::ios::trunc);
+  out << text.str();
+  out.close();
+  if (!out) throw IoError(args.output, "could not write the export");
+}
+
+}  // namespace
+
+void AddExportCommand(CLI::App& app) {
+  auto args = std::make_shared<ExportArgs>();
+  CLI::App* cmd = app.add_subcommand(
+      "export",
+      "Write the pattern of a result file as a CSV or TSV table: one header row (units in "
+      "the names: directivity_dBi, co_dBi, cross_dBi, axial_ratio_dB, tilt_deg, sense, "
+      "phase_theta_deg, phase_phi_deg, rE_theta_V, rE_phi_V), then one row per direction. "
+      "Directions off the stored grid are computed exactly, not interpolated.");
+  cmd->add_option("RESULT", args->input, "Result file (HDF5) written by compute")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("-o,--output", args->output, "Table file; default: standard output");
+  cmd->add_option("--format", args->format, "csv (default) or tsv");
+  cmd->add_option("--coords", args->coords,
+                  "theta-phi (default; theta from +z, phi from +x toward +y) or az-el "
+                  "(azimuth from +x toward +y in the xy plane, elevation above it)");
+  cmd->add_option("--reference", args->reference, kReferenceHelp);
+  CLI::Option* cut = cmd->add_option(
+      "--cut", args->cut,
+      "One cut instead of the grid: phi=DEG (the plane through z; signed theta), theta=DEG "
+      "(a cone), or great-circle:THETA,PHI,HEADING (deg: the great circle through that "
+      "direction, leaving it HEADING deg from theta_hat toward phi_hat)");
+  cmd->add_option("--step", args->step_deg,
+                  "Spacing along a great-circle cut (deg; default 1)");
+  CLI::Option* at = cmd->add_option(
+      "--at", args->at,
+      "One direction, computed exactly: THETA,PHI (deg), or AZIMUTH,ELEVATION (deg) with "
+      "--coords az-el");
+  at->excludes(cut);
+  cmd->add_flag("--no-notes", args->no_notes,
+                "Leave out the '#' note lines: only the header row and the data");
+  cmd->callback([args] { RunExport(*args); });
+}
+
+}  // namespace lobecast::cli

@@ -1,0 +1,121 @@
+// `lobecast report RESULT.h5`: the pattern analysis of a result file as a table (or
+// JSON). The analysis that `compute` stored under /summary/analysis is shown as is;
+// it is recomputed from the stored array and field, exactly through the engine, when
+// the file has none or the options ask for something else (another reference,
+// threshold or null field, protected directions, --recompute).
+#include <cmath>
+#include <cstdio>
+#include <memory>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "cli/analysis_setup.h"
+#include "cli/commands.h"
+#include "cli/report_text.h"
+#include "engine/error.h"
+#include "engine/pattern_analysis.h"
+#include "io/analysis_reader.h"
+#include "io/result_reader.h"
+
+namespace lobecast::cli {
+namespace {
+
+struct ReportArgs {
+  std::string input;
+  bool json = false;
+  std::string reference;  // empty: as stored (auto when recomputing)
+  std::vector<std::string> toward;
+  std::optional<double> side_lobe_threshold_db;
+  std::optional<double> null_threshold_db;
+  std::string null_field;  // empty: as stored
+  bool recompute = false;
+};
+
+void RunReport(const ReportArgs& args) {
+  const StoredResult stored = ReadResult(args.input);
+  const std::optional<StoredAnalysis> saved = ReadAnalysis(args.input);
+
+  AnalysisOptions options = saved ? saved->options : AnalysisOptions{};
+  bool recompute = !saved || args.recompute;
+  auto set = [&recompute](auto& field, const auto& value) {
+    if (!(field == value)) recompute = true;
+    field = value;
+  };
+  if (!args.reference.empty()) {
+    const auto ref = ParseReference(args.reference);
+    set(options.reference, ref ? *ref : AutoReference(stored.result));
+  } else if (!saved) {
+    options.reference = AutoReference(stored.result);
+  }
+  if (args.side_lobe_threshold_db) set(options.side_lobe_threshold_db, *args.side_lobe_threshold_db);
+  if (args.null_threshold_db) set(options.null_threshold_db, *args.null_threshold_db);
+  if (!args.null_field.empty()) {
+    const auto f = NullFieldFromString(args.null_field);
+    if (!f) {
+      throw InvalidArgument("--null-field '" + args.null_field + "': expected total or co");
+    }
+    set(options.null_field, *f);
+  }
+  if (!args.toward.empty()) {
+    std::vector<std::pair<double, double>> dirs;
+    for (const std::string& t : args.toward) {
+      const auto d = ParseAnglePair(t, "--toward", "THETA,PHI in deg, e.g. 90,45");
+      if (!(d.first >= 0 && d.first <= 180)) {
+        throw InvalidArgument("--toward '" + t + "': theta must be within 0..180 deg");
+      }
+      dirs.push_back(d);
+    }
+    set(options.protected_directions_deg, dirs);
+  }
+  std::string why;
+  if (!options.IsValid(&why)) throw InvalidArgument(why);
+
+  const PatternAnalysis analysis = recompute
+                                       ? AnalyzePattern(stored.array, stored.result, options)
+                                       : saved->analysis;
+  ReportContext context;
+  context.result_path = args.input;
+  context.array_name = stored.metadata.name;
+  context.frequency_hz = stored.array.frequency_hz;
+  context.ground = stored.array.ground;
+  context.num_dipoles = stored.array.size();
+  context.recomputed = recompute;
+  const std::string text = args.json ? ReportJson(context, analysis, options)
+                                     : ReportText(context, analysis, options);
+  std::fputs(text.c_str(), stdout);
+}
+
+}  // namespace
+
+void AddReportCommand(CLI::App& app) {
+  auto args = std::make_shared<ReportArgs>();
+  CLI::App* cmd = app.add_subcommand(
+      "report",
+      "Print the pattern analysis of a result file: refined peak (dBi), half-power and "
+      "first-null beamwidths in both principal planes (deg), front-to-back (dB), side lobes, "
+      "nulls, field toward protected directions, XPD and axial ratio (dB).");
+  cmd->add_option("RESULT", args->input, "Result file (HDF5) written by compute")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_flag("--json", args->json, "Print one JSON object instead of the table");
+  cmd->add_option("--reference", args->reference,
+                  std::string(kReferenceHelp) + " (default: the one stored by compute)");
+  cmd->add_option("--toward", args->toward,
+                  "THETA,PHI (deg): report the exact field toward this protected direction; "
+                  "repeatable")
+      ->take_all();
+  cmd->add_option("--side-lobe-threshold", args->side_lobe_threshold_db,
+                  "List side lobes at or above this level (dB relative to the peak; default "
+                  "-30)");
+  cmd->add_option("--null-threshold", args->null_threshold_db,
+                  "List nulls below this level (dB relative to the peak; default -40)");
+  cmd->add_option("--null-field", args->null_field,
+                  "Field the nulls are nulls of: total or co (co-polar for --reference)");
+  cmd->add_flag("--recompute", args->recompute,
+                "Recompute the analysis from the stored array and field even when the file "
+                "holds one");
+  cmd->callback([args] { RunReport(*args); });
+}
+
+}  // namespace lobecast::cli
