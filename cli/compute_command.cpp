@@ -29,6 +29,9 @@ struct ComputeArgs {
   std::string output;
   int threads = 0;
   bool quiet = false;
+  std::string method = "auto";
+  double tolerance = 1e-9;
+  bool resistance_matrix = false;
   std::string plots_dir;  // empty: no plots
   std::string reference = "auto";  // for the stored analysis
   bool no_analysis = false;
@@ -47,6 +50,9 @@ void RunCompute(const ComputeArgs& args) {
   ProgressBar bar(!args.quiet);
   PatternOptions options;
   options.num_threads = args.threads;
+  options.method = *FieldMethodFromString(args.method);  // validated by CLI11
+  options.tolerance_relative = args.tolerance;
+  options.store_resistance_matrix = args.resistance_matrix;
   options.progress = [&bar](double f) { bar.Update(f); };
   const PatternResult result = ComputePattern(desc.array, desc.grid, options);
   bar.Finish();
@@ -112,6 +118,19 @@ void AddComputeCommand(CLI::App& app) {
   cmd->add_option("-t,--threads", args->threads,
                   "Threads for the field computation (count); 0 = all cores")
       ->check(CLI::NonNegativeNumber);
+  cmd->add_option("--method", args->method,
+                  "Field method: direct (exact sum over every dipole-direction pair), fast "
+                  "(non-uniform FFT, accurate to --tolerance of the pattern peak) or auto "
+                  "(fast only where it is clearly cheaper)")
+      ->check(CLI::IsMember({"direct", "fast", "auto"}))
+      ->capture_default_str();
+  cmd->add_option("--tolerance", args->tolerance,
+                  "Fast method: error allowed in rE, relative to the pattern's peak |rE| (1)")
+      ->check(CLI::Range(1e-14, 1e-2))
+      ->capture_default_str();
+  cmd->add_flag("--resistance-matrix", args->resistance_matrix,
+                "Store the N x N mutual resistance matrix (ohm) even above 4096 dipoles, "
+                "where it is otherwise streamed (8 N^2 bytes)");
   cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
   cmd->add_option("--plots", args->plots_dir,
                   "Also write a standard set of PNG plots into this folder: polar cuts phi = 0 "

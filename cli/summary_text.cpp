@@ -34,6 +34,13 @@ constexpr std::size_t kFullTableUpTo = 16;
 
 }  // namespace
 
+std::string FormatDirection(double theta_deg, double phi_deg) {
+  // On the z axis every phi names the same direction; don't print an arbitrary one.
+  if (theta_deg == 0.0) return "theta 0 deg (the +z axis)";
+  if (theta_deg == 180.0) return "theta 180 deg (the -z axis)";
+  return Printf("theta %g deg, phi %g deg", theta_deg, phi_deg);
+}
+
 std::string FormatFrequency(double hz) {
   const double a = std::abs(hz);
   if (a >= 1e12) return Printf("%.9g THz", hz / 1e12);
@@ -99,8 +106,8 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
   r.directivity.maxCoeff(&peak);
   const auto ip = static_cast<std::size_t>(peak);
   s << "peak         D = " << FormatDb(sm.peak_directivity) << " dBi ("
-    << Printf("%.6g", sm.peak_directivity) << Printf(") at theta %g deg, phi %g deg (grid maximum)\n",
-                                                      sm.peak_theta_deg, sm.peak_phi_deg);
+    << Printf("%.6g", sm.peak_directivity) << ") at " << FormatDirection(sm.peak_theta_deg, sm.peak_phi_deg)
+    << " (grid maximum)\n";
   const double ar = r.axial_ratio_db[peak];
   s << "polarization at the peak: axial ratio "
     << (std::isinf(ar) ? std::string("inf") : Printf("%.2f", ar)) << " dB, "
@@ -115,7 +122,8 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     for (std::size_t n = 0; n < a.size(); ++n) {
       const auto e = static_cast<Eigen::Index>(n);
       s << Printf("  %4zu ", n) << FormatCurrent(a.dipoles[n].current_a)
-        << Printf("   %14.6g   %12.6g\n", ra[e], r.resistance_ohm(e, e));
+        << Printf("   %14.6g   %12.6g\n", ra[e],
+                  r.resistance_ohm.size() ? r.resistance_ohm(e, e) : std::nan(""));
     }
   } else {
     Eigen::Index lo = -1, hi = -1;
@@ -129,6 +137,13 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
                   ra[lo], static_cast<long>(lo), ra[hi], static_cast<long>(hi));
     }
   }
+  s << "method       field " << sm.method << " (asked " << sm.method_requested << ")";
+  if (sm.method == "fast") {
+    s << Printf(", error bound %.2g of the peak |rE|", sm.field_error_bound_relative);
+  }
+  s << "; power " << sm.power_method
+    << (sm.power_method == "streamed" ? " (no resistance matrix stored)" : " (closed form)")
+    << "\n";
   s << Printf("time         %.3f s wall (field %.3f s, power %.3f s), %d thread%s, %.3g pairs\n",
               wall_seconds, sm.seconds_field, sm.seconds_power, sm.threads_used,
               sm.threads_used == 1 ? "" : "s", sm.pairs);

@@ -9,6 +9,8 @@
 
 namespace lobecast::cli {
 
+// "theta 30 deg, phi 45 deg"; on the z axis, where phi is immaterial, "theta 0 deg (the +z axis)".
+std::string FormatDirection(double theta_deg, double phi_deg);
 // "433.92 MHz", "2.45 GHz", "50 kHz".
 std::string FormatFrequency(double hz);
 // 10 log10(x) with one decimal, "-inf" for 0.

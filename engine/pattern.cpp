@@ -10,6 +10,7 @@
 
 #include "engine/error.h"
 #include "engine/polarization.h"
+#include "engine/power_large.h"
 #include "engine/radiated_power.h"
 
 namespace lobecast {
@@ -25,6 +26,12 @@ double SecondsSince(Clock::time_point t0) {
 PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
                              const PatternOptions& options) {
   Validate(array);
+  FieldOptions field_options;
+  field_options.num_threads = options.num_threads;
+  field_options.method = options.method;
+  field_options.tolerance_relative = options.tolerance_relative;
+  std::string why;
+  if (!field_options.IsValid(&why)) throw InvalidArgument(why);
   if (grid.size() == 0) throw InvalidArgument("grid: found no directions, expected at least one");
   PatternResult r;
   r.grid = grid;
@@ -34,9 +41,17 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
 
   auto t0 = Clock::now();
   const Eigen::VectorXcd currents = CurrentsOf(array);
-  r.resistance_ohm = ResistanceMatrix(array);
-  r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
-  r.active_resistance_ohm = ActiveResistance(r.resistance_ohm, currents);
+  if (array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix) {
+    r.resistance_ohm = ResistanceMatrix(array);
+    r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
+    r.active_resistance_ohm = ActiveResistance(r.resistance_ohm, currents);
+    s.power_method = "matrix";
+  } else {
+    const StreamedPower sp = RadiatedPowerStreamed(array, currents, options.num_threads);
+    r.radiated_power_w = sp.radiated_power_w;
+    r.active_resistance_ohm = sp.active_resistance_ohm;
+    s.power_method = "streamed";
+  }
   s.radiated_power_w = r.radiated_power_w;
   s.seconds_power = SecondsSince(t0);
   if (!(r.radiated_power_w > 0)) {
@@ -47,7 +62,9 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   }
 
   t0 = Clock::now();
-  const FieldPlan plan(array, Directions::FromGrid(grid), FieldOptions{s.threads_used});
+  const FieldPlan plan(array, Directions::FromGrid(grid), field_options);
+  s.method_requested = std::string(ToString(options.method));
+  s.method = std::string(ToString(plan.method_used()));
   s.num_sources = plan.num_sources();
   s.num_directions = plan.num_directions();
   s.seconds_plan = SecondsSince(t0);
@@ -57,7 +74,11 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   r.field.e_theta.resize(static_cast<Eigen::Index>(n));
   r.field.e_phi.resize(static_cast<Eigen::Index>(n));
   // Chunks only so progress can be reported; each is an independent plan execution.
-  const std::size_t chunk = std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan.num_sources()));
+  // The fast path transforms every direction at once, so it runs as one chunk.
+  const std::size_t chunk =
+      plan.method_used() == FieldMethod::kFast
+          ? n
+          : std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan.num_sources()));
   FarField part;
   for (std::size_t first = 0; first < n; first += chunk) {
     const std::size_t count = std::min(chunk, n - first);
@@ -67,6 +88,7 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
     if (options.progress) options.progress(static_cast<double>(first + count) / static_cast<double>(n));
   }
   s.pairs = static_cast<double>(n) * static_cast<double>(plan.num_sources());
+  s.field_error_bound_relative = plan.error_bound_relative();
   s.seconds_field = SecondsSince(t0);
 
   t0 = Clock::now();

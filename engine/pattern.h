@@ -18,6 +18,16 @@ namespace lobecast {
 
 struct PatternOptions {
   int num_threads = 0;  // 0: OpenMP default
+  // Field method: direct sum, fast (NUFFT) to tolerance_relative of the pattern
+  // peak, or auto (fast only when its estimated cost is well below direct).
+  FieldMethod method = FieldMethod::kAuto;
+  double tolerance_relative = 1e-9;
+  // The N x N resistance matrix costs 8 N^2 bytes. Up to this many dipoles it is
+  // built (and stored in results); beyond, power and active resistances are
+  // streamed row by row in O(N) memory and PatternResult::resistance_ohm is
+  // empty, unless store_resistance_matrix asks for it anyway.
+  std::size_t resistance_matrix_max_dipoles = 4096;
+  bool store_resistance_matrix = false;
   // Called with the fraction done (0..1) between chunks of directions; may be empty.
   // The engine never prints; the CLI draws its progress bar from this.
   std::function<void(double)> progress;
@@ -25,7 +35,10 @@ struct PatternOptions {
 
 // What was asked, what was used, and how long each stage took.
 struct ComputeSummary {
-  std::string method = "direct";
+  std::string method = "direct";       // field method used: "direct" or "fast"
+  std::string method_requested = "auto";
+  double field_error_bound_relative = 0; // fast path: bound met, relative to the peak
+  std::string power_method = "matrix";   // "matrix" or "streamed" (no R stored)
   int threads_used = 0;
   std::size_t num_dipoles = 0;
   std::size_t num_sources = 0;       // dipoles plus images
@@ -49,7 +62,7 @@ struct PatternResult {
   Eigen::VectorXd axial_ratio_db;
   Eigen::VectorXd tilt_deg;
   std::vector<std::int8_t> sense;
-  Eigen::MatrixXd resistance_ohm;              // (N, N)
+  Eigen::MatrixXd resistance_ohm;              // (N, N); 0 x 0 when streamed
   Eigen::VectorXd active_resistance_ohm;       // (N)
   double radiated_power_w = 0;
   ComputeSummary summary;

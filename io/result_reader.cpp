@@ -49,7 +49,13 @@ void ReadSummary(hid_t file, ComputeSummary& s) {
       out = static_cast<std::remove_reference_t<decltype(out)>>(hdf5::ReadIntAttribute(g, name));
     }
   };
-  if (hdf5::HasAttribute(g, "method")) s.method = hdf5::ReadStringAttribute(g, "method");
+  auto text = [&](const char* name, std::string& out) {
+    if (hdf5::HasAttribute(g, name)) out = hdf5::ReadStringAttribute(g, name);
+  };
+  text("method", s.method);
+  text("method_requested", s.method_requested);
+  text("power_method", s.power_method);
+  number("field_error_bound_relative", s.field_error_bound_relative);
   count("threads_used", s.threads_used);
   count("num_dipoles", s.num_dipoles);
   count("num_sources", s.num_sources);
@@ -179,13 +185,17 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
         path, "dataset '/power/radiated_w' has shape " + ShapeText(dims) + ", expected a scalar");
   }
   r.radiated_power_w = power[0];
-  const std::vector<double> resistance = hdf5::ReadDoubles(file, "/power/resistance_ohm", &dims);
-  ExpectShape(path, "/power/resistance_ohm", dims, {n, n});
-  r.resistance_ohm.resize(static_cast<Eigen::Index>(n), static_cast<Eigen::Index>(n));
-  for (std::size_t i = 0; i < n; ++i) {
-    for (std::size_t j = 0; j < n; ++j) {
-      r.resistance_ohm(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) =
-          resistance[i * n + j];
+  // Large arrays may be stored without the matrix (resistance_ohm stays 0 x 0).
+  if (hdf5::Exists(file, "/power/resistance_ohm")) {
+    const std::vector<double> resistance =
+        hdf5::ReadDoubles(file, "/power/resistance_ohm", &dims);
+    ExpectShape(path, "/power/resistance_ohm", dims, {n, n});
+    r.resistance_ohm.resize(static_cast<Eigen::Index>(n), static_cast<Eigen::Index>(n));
+    for (std::size_t i = 0; i < n; ++i) {
+      for (std::size_t j = 0; j < n; ++j) {
+        r.resistance_ohm(static_cast<Eigen::Index>(i), static_cast<Eigen::Index>(j)) =
+            resistance[i * n + j];
+      }
     }
   }
   r.active_resistance_ohm =

@@ -286,14 +286,26 @@ void PatternFileWriter::WritePower(double radiated_power_w, const Eigen::MatrixX
   Impl& w = *impl_;
   w.Step([&] {
     const auto n = static_cast<std::size_t>(w.num_dipoles);
-    CheckSize("resistance_ohm rows", static_cast<std::size_t>(resistance_ohm.rows()), n);
-    CheckSize("resistance_ohm columns", static_cast<std::size_t>(resistance_ohm.cols()), n);
+    // An empty matrix means the power was streamed without it (large arrays):
+    // the dataset is then left out and the group says why.
+    const bool with_matrix = resistance_ohm.size() != 0;
+    if (with_matrix) {
+      CheckSize("resistance_ohm rows", static_cast<std::size_t>(resistance_ohm.rows()), n);
+      CheckSize("resistance_ohm columns", static_cast<std::size_t>(resistance_ohm.cols()), n);
+    }
     CheckSize("active_resistance_ohm", static_cast<std::size_t>(active_resistance_ohm.size()), n);
     w.Hook("/power");
     Handle g = w.Group("/power");
     hdf5::WriteScalarDataset(g, "radiated_w", radiated_power_w, "W");
-    const std::vector<double> r = RowMajor(resistance_ohm);
-    hdf5::WriteDataset(g, "resistance_ohm", {n, n}, r.data(), "ohm");
+    if (with_matrix) {
+      const std::vector<double> r = RowMajor(resistance_ohm);
+      hdf5::WriteDataset(g, "resistance_ohm", {n, n}, r.data(), "ohm");
+    } else {
+      hdf5::WriteStringAttribute(g, "resistance_ohm_omitted",
+                                 "the N x N matrix was not stored for this array size; "
+                                 "power and active resistances were streamed without it "
+                                 "(lobecast compute --resistance-matrix stores it)");
+    }
     hdf5::WriteDataset(g, "active_resistance_ohm", {n}, active_resistance_ohm.data(), "ohm");
     w.power_written = true;
   });
@@ -305,6 +317,9 @@ void PatternFileWriter::WriteSummary(const ComputeSummary& s) {
     w.Hook("/summary");
     Handle g = w.Group("/summary");
     hdf5::WriteStringAttribute(g, "method", s.method);
+    hdf5::WriteStringAttribute(g, "method_requested", s.method_requested);
+    hdf5::WriteStringAttribute(g, "power_method", s.power_method);
+    hdf5::WriteScalarAttribute(g, "field_error_bound_relative", s.field_error_bound_relative);
     hdf5::WriteIntAttribute(g, "threads_used", s.threads_used);
     hdf5::WriteIntAttribute(g, "num_dipoles", static_cast<std::int64_t>(s.num_dipoles));
     hdf5::WriteIntAttribute(g, "num_sources", static_cast<std::int64_t>(s.num_sources));

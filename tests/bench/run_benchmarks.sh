@@ -14,9 +14,10 @@ out="$here/RESULTS.md"
 
 if [[ -z "${FIELD_BENCH:-}" ]]; then
   cmake -S "$root" -B "$build" -DCMAKE_BUILD_TYPE=Release -DLOBECAST_BUILD_BENCHMARKS=ON >/dev/null
-  cmake --build "$build" --target field_bench -j"$(nproc)" >/dev/null
+  cmake --build "$build" --target field_bench lobecast -j"$(nproc)" >/dev/null
   FIELD_BENCH="$build/tests/bench/field_bench"
 fi
+LOBECAST="${LOBECAST:-$build/cli/lobecast}"
 
 work="$(mktemp -d)"
 trap 'rm -rf "$work"' EXIT
@@ -98,3 +99,25 @@ with open(out, "w") as o:
                 f"{r['pairs']:.3g} | {r['cpu_pairs']:.3g} | {ratio:.1f}x | {r['mib']:.0f} | {err} |\n")
 print(f"wrote {out}", file=sys.stderr)
 PY
+
+# The whole job: `lobecast compute` on a 4096-dipole panel (1 deg grid), reading the
+# CSV, computing field, power and analysis, and writing the HDF5 file.
+{
+  echo
+  echo "## Whole job: lobecast compute, 4096 dipoles, 1 deg grid"
+  echo
+  echo "Input \`tests/bench/panel-4096.toml\` (64 x 64 x-directed dipoles over PEC, so 8192 sources; 65 341 directions), HDF5 output including the 4096 x 4096 resistance matrix (128 MiB)."
+  echo
+  echo "| --method | wall s | peak RSS MiB | field s | power s |"
+  echo "|---|---:|---:|---:|---:|"
+  for m in direct fast; do
+    res="$work/panel-$m.h5"
+    summary="$( { /usr/bin/time -f 'TIME %e %M' "$LOBECAST" compute "$here/panel-4096.toml" -o "$res" --method "$m"; } 2>&1 )"
+    wall="$(sed -n 's/^TIME \([0-9.]*\) \([0-9]*\)$/\1/p' <<<"$summary")"
+    rss="$(sed -n 's/^TIME \([0-9.]*\) \([0-9]*\)$/\2/p' <<<"$summary")"
+    field="$(sed -n 's/.*(field \([0-9.]*\) s, power \([0-9.]*\) s).*/\1/p' <<<"$summary")"
+    power="$(sed -n 's/.*(field \([0-9.]*\) s, power \([0-9.]*\) s).*/\2/p' <<<"$summary")"
+    echo "| $m | $wall | $((rss / 1024)) | $field | $power |"
+  done
+} >>"$out"
+echo "appended the whole-job timing to $out" >&2

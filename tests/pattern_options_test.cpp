@@ -1,0 +1,97 @@
+// ComputePattern's method and power options: the fast field path and the streamed
+// (matrix-free) power give the same answers as the direct sum and the closed-form
+// matrix route, and a result without the resistance matrix round-trips through HDF5.
+#include <filesystem>
+#include <random>
+
+#include <gtest/gtest.h>
+
+#include "engine/error.h"
+#include "engine/pattern.h"
+#include "io/result_reader.h"
+#include "io/result_writer.h"
+
+namespace lobecast {
+namespace {
+
+// A 12 x 12 lattice of random-current x dipoles over a PEC plane: big enough for
+// the fast path, small enough to be quick.
+Array Panel() {
+  Array a;
+  a.frequency_hz = 1e9;
+  a.ground = Ground::kPec;
+  const double lambda = a.wavelength_m();
+  std::mt19937 rng(7);
+  std::uniform_real_distribution<double> u(-1.0, 1.0);
+  for (int iy = 0; iy < 12; ++iy) {
+    for (int ix = 0; ix < 12; ++ix) {
+      Dipole d;
+      d.position_m = Vec3(0.5 * lambda * ix, 0.5 * lambda * iy, 0.25 * lambda);
+      d.orientation = Vec3::UnitX();
+      d.length_m = 0.05 * lambda;
+      d.current_a = Complex(u(rng), u(rng));
+      a.dipoles.push_back(d);
+    }
+  }
+  return a;
+}
+
+TEST(PatternOptions, FastFieldMatchesDirectWithinTolerance) {
+  const Array a = Panel();
+  const AngularGrid g = AngularGrid::FromRanges({0, 180, 1}, {0, 360, 2});
+  PatternOptions direct, fast;
+  direct.method = FieldMethod::kDirect;
+  fast.method = FieldMethod::kFast;
+  fast.tolerance_relative = 1e-9;
+  const PatternResult rd = ComputePattern(a, g, direct);
+  const PatternResult rf = ComputePattern(a, g, fast);
+  EXPECT_EQ(rd.summary.method, "direct");
+  EXPECT_EQ(rf.summary.method, "fast");
+  EXPECT_EQ(rf.summary.method_requested, "fast");
+  const double peak = std::sqrt((rd.field.e_theta.cwiseAbs2() + rd.field.e_phi.cwiseAbs2()).maxCoeff());
+  const double err = std::max((rf.field.e_theta - rd.field.e_theta).cwiseAbs().maxCoeff(),
+                              (rf.field.e_phi - rd.field.e_phi).cwiseAbs().maxCoeff()) / peak;
+  EXPECT_LE(err, 1e-9) << "fast vs direct, relative to the peak |rE|";
+  EXPECT_LE(err, rf.summary.field_error_bound_relative) << "the reported bound must hold";
+}
+
+TEST(PatternOptions, StreamedPowerMatchesMatrixAndStoresNoMatrix) {
+  const Array a = Panel();
+  const AngularGrid g = AngularGrid::FromRanges({0, 90, 5}, {0, 360, 10});
+  PatternOptions matrix, streamed;
+  streamed.resistance_matrix_max_dipoles = 10;  // below N = 144
+  const PatternResult rm = ComputePattern(a, g, matrix);
+  const PatternResult rs = ComputePattern(a, g, streamed);
+  EXPECT_EQ(rm.summary.power_method, "matrix");
+  EXPECT_EQ(rs.summary.power_method, "streamed");
+  EXPECT_EQ(rm.resistance_ohm.rows(), 144);
+  EXPECT_EQ(rs.resistance_ohm.size(), 0);
+  EXPECT_NEAR(rs.radiated_power_w, rm.radiated_power_w, 1e-12 * rm.radiated_power_w);
+  for (Eigen::Index m = 0; m < 144; ++m) {
+    EXPECT_NEAR(rs.active_resistance_ohm[m], rm.active_resistance_ohm[m],
+                1e-10 * rm.active_resistance_ohm.cwiseAbs().maxCoeff());
+  }
+  // Asked for explicitly, the matrix is built even above the limit.
+  streamed.store_resistance_matrix = true;
+  EXPECT_EQ(ComputePattern(a, g, streamed).resistance_ohm.rows(), 144);
+
+  // A result without the matrix writes and reads back; the matrix stays absent.
+  const std::string path =
+      (std::filesystem::temp_directory_path() / "lobecast-streamed-power.h5").string();
+  WriteResult(path, a, rs, ResultMetadata{});
+  const StoredResult back = ReadResult(path);
+  EXPECT_EQ(back.result.resistance_ohm.size(), 0);
+  EXPECT_DOUBLE_EQ(back.result.radiated_power_w, rs.radiated_power_w);
+  EXPECT_EQ(back.result.summary.power_method, "streamed");
+  std::filesystem::remove(path);
+}
+
+TEST(PatternOptions, InvalidToleranceIsRejected) {
+  PatternOptions o;
+  o.tolerance_relative = 0.5;
+  EXPECT_THROW(ComputePattern(Panel(), AngularGrid::FromRanges({0, 90, 10}, {0, 360, 30}), o),
+               InvalidArgument);
+}
+
+}  // namespace
+}  // namespace lobecast
