@@ -102,8 +102,12 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     << " phi = " << sm.num_directions << " directions\n";
 
   // Peak on the grid, and the polarization there.
-  Eigen::Index peak = 0;
-  r.directivity.maxCoeff(&peak);
+  Eigen::Index peak = 0;  // the grid point ComputePattern reported as the peak
+  const std::size_t np = r.grid.phi_deg.size();
+  while (r.grid.theta_deg[static_cast<std::size_t>(peak) / np] != sm.peak_theta_deg ||
+         r.grid.phi_deg[static_cast<std::size_t>(peak) % np] != sm.peak_phi_deg) {
+    ++peak;
+  }
   const auto ip = static_cast<std::size_t>(peak);
   s << "peak         D = " << FormatDb(sm.peak_directivity) << " dBi ("
     << Printf("%.6g", sm.peak_directivity) << ") at " << FormatDirection(sm.peak_theta_deg, sm.peak_phi_deg)

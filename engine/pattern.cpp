@@ -111,8 +111,11 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
     r.tilt_deg[i] = p.tilt_deg;
     r.sense[static_cast<std::size_t>(i)] = p.sense;
   }
+  // Ties within rounding go to the first (smallest theta) grid point, as in the
+  // pattern analysis (beam.cpp), so twin beams report the upper one.
+  s.peak_directivity = r.directivity.maxCoeff();
   Eigen::Index peak = 0;
-  s.peak_directivity = r.directivity.maxCoeff(&peak);
+  while (r.directivity[peak] < s.peak_directivity * (1.0 - 1e-9)) ++peak;
   const std::size_t np = grid.phi_deg.size();
   s.peak_theta_deg = grid.theta_deg[static_cast<std::size_t>(peak) / np];
   s.peak_phi_deg = grid.phi_deg[static_cast<std::size_t>(peak) % np];
