@@ -98,7 +98,9 @@ double ToDb(double ratio) {
 DirectionDeg ToDirectionDeg(const Vec3& r_hat) {
   const SphericalAngles s = AnglesOf(r_hat);
   DirectionDeg d{s.theta_rad / kDegree, s.phi_rad / kDegree};
-  if (d.phi_deg >= 360.0) d.phi_deg = 0.0;
+  // Rounding can leave phi a hair below 360; 1e-9 deg is far below any refinement
+  // tolerance, so call it 0 rather than print 360.0000.
+  if (d.phi_deg >= 360.0 - 1e-9) d.phi_deg = 0.0;
   return d;
 }
 
