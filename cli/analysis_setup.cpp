@@ -1,6 +1,5 @@
 #include "cli/analysis_setup.h"
 
-#include <cctype>
 #include <charconv>
 #include <cmath>
 #include <complex>
@@ -9,12 +8,12 @@
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/polarization.h"
+#include "engine/text_case.h"
 
 namespace lobecast::cli {
 
 std::optional<PolarizationReference> ParseReference(std::string_view text) {
-  std::string lower(text);
-  for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  const std::string lower = Lower(text);
   if (lower == "auto") return std::nullopt;
   if (const auto r = PolarizationReferenceFromString(lower)) return r;
   throw InvalidArgument("--reference '" + std::string(text) +

@@ -1,23 +1,14 @@
 // Enum names, current vectors and array validation (types.h).
-#include <algorithm>
-#include <cctype>
 #include <cmath>
 #include <sstream>
 
 #include "engine/error.h"
 #include "engine/ground.h"
+#include "engine/text_case.h"
 #include "engine/types.h"
 
 namespace lobecast {
 namespace {
-
-bool EqualsIgnoreCase(std::string_view a, std::string_view b) {
-  return a.size() == b.size() &&
-         std::equal(a.begin(), a.end(), b.begin(), [](char x, char y) {
-           return std::tolower(static_cast<unsigned char>(x)) ==
-                  std::tolower(static_cast<unsigned char>(y));
-         });
-}
 
 bool AllFinite(const Vec3& v) { return v.allFinite(); }
 

@@ -4,7 +4,6 @@
 
 #include <algorithm>
 #include <array>
-#include <cctype>
 #include <cmath>
 #include <iterator>
 #include <map>
@@ -18,6 +17,7 @@
 #include "engine/ground.h"
 #include "engine/nufft.h"
 #include "engine/sincos.h"
+#include "engine/text_case.h"
 
 // The hot kernels are compiled for AVX-512, AVX2+FMA and the baseline, and the
 // loader picks one for the running CPU (GCC/Clang function multiversioning), so a
@@ -44,8 +44,7 @@ std::string_view ToString(FieldMethod m) {
 }
 
 std::optional<FieldMethod> FieldMethodFromString(std::string_view s) {
-  std::string lower(s);
-  for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  const std::string lower = Lower(s);
   for (FieldMethod m : {FieldMethod::kDirect, FieldMethod::kFast, FieldMethod::kAuto}) {
     if (lower == ToString(m)) return m;
   }

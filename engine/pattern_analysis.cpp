@@ -2,7 +2,6 @@
 #include "engine/pattern_analysis.h"
 
 #include <algorithm>
-#include <cctype>
 #include <chrono>
 #include <cmath>
 #include <sstream>
@@ -14,15 +13,10 @@
 #include "engine/pattern_probe.h"
 #include "engine/polarization_purity.h"
 #include "engine/side_lobes.h"
+#include "engine/text_case.h"
 
 namespace lobecast {
 namespace {
-
-std::string Lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
-}
 
 // Sets *why to "field: found value, expected rule" and returns false.
 template <typename T>

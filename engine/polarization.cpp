@@ -1,10 +1,11 @@
 // Polarization ellipse, Stokes parameters and co/cross decomposition (polarization.h).
 #include "engine/polarization.h"
 
-#include <cctype>
 #include <cmath>
 #include <limits>
 #include <string>
+
+#include "engine/text_case.h"
 
 namespace lobecast {
 
@@ -57,8 +58,7 @@ std::string_view ToString(PolarizationReference r) {
 }
 
 std::optional<PolarizationReference> PolarizationReferenceFromString(std::string_view s) {
-  std::string lower(s);
-  for (char& c : lower) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  const std::string lower = Lower(s);
   if (lower == "x") return PolarizationReference::kLinearX;
   if (lower == "y") return PolarizationReference::kLinearY;
   if (lower == "rhcp") return PolarizationReference::kRightCircular;

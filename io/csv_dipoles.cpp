@@ -1,11 +1,11 @@
 #include "io/csv_dipoles.h"
 
 #include <array>
-#include <cctype>
 #include <cmath>
 #include <complex>
 #include <optional>
 
+#include "engine/text_case.h"
 #include "io/units.h"
 
 namespace lobecast {
@@ -38,12 +38,6 @@ std::vector<Cell> SplitRow(std::string_view line) {
     start = comma + 1;
   }
   return cells;
-}
-
-std::string Lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
 }
 
 std::string Quoted(std::string_view s) { return "'" + std::string(s) + "'"; }

@@ -1,20 +1,14 @@
 #include "io/pattern_export.h"
 
 #include <algorithm>
-#include <cctype>
 #include <cmath>
 
 #include "engine/constants.h"
+#include "engine/text_case.h"
 #include "io/number_text.h"
 
 namespace lobecast {
 namespace {
-
-std::string Lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
-}
 
 double Db(double linear) { return linear > 0 ? 10.0 * std::log10(linear) : -HUGE_VAL; }
 

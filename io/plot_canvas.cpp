@@ -6,24 +6,18 @@
 #include <unistd.h>
 
 #include <algorithm>
-#include <cctype>
 #include <charconv>
 #include <cstdio>
 #include <filesystem>
 #include <string>
 #include <system_error>
 
+#include "engine/text_case.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
 
 namespace lobecast::plot {
 namespace {
-
-std::string Lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
-}
 
 constexpr const char* kFontFace = "DejaVu Sans";
 

@@ -6,6 +6,7 @@
 #include <cmath>
 #include <cstdio>
 
+#include "engine/text_case.h"
 #include "io/input_error.h"
 
 namespace lobecast::plot {
@@ -65,8 +66,7 @@ std::optional<CutSpec> CutSpecFromString(std::string_view s) {
     while (!t.empty() && std::isspace(static_cast<unsigned char>(t.back()))) t.remove_suffix(1);
     return t;
   };
-  std::string name(trim(s.substr(0, eq)));
-  for (char& c : name) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
+  const std::string name = Lower(trim(s.substr(0, eq)));
   const std::string_view value = trim(s.substr(eq + 1));
   CutSpec spec;
   if (name == "phi") {

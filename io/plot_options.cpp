@@ -1,17 +1,12 @@
 #include "io/plot_options.h"
 
-#include <cctype>
 #include <cmath>
 #include <cstdio>
 
+#include "engine/text_case.h"
+
 namespace lobecast::plot {
 namespace {
-
-std::string Lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
-}
 
 bool InRange(double v, double lo, double hi, const char* option, std::string* why) {
   if (std::isfinite(v) && v >= lo && v <= hi) return true;

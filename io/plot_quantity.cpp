@@ -1,19 +1,11 @@
 #include "io/plot_quantity.h"
 
-#include <cctype>
 #include <cmath>
 #include <limits>
 
+#include "engine/text_case.h"
+
 namespace lobecast::plot {
-namespace {
-
-std::string Lower(std::string_view s) {
-  std::string out(s);
-  for (char& c : out) c = static_cast<char>(std::tolower(static_cast<unsigned char>(c)));
-  return out;
-}
-
-}  // namespace
 
 std::string_view ToString(Quantity q) {
   switch (q) {
