@@ -1,10 +1,6 @@
 // End to end through the `lobecast` executable: every sample array computed and
 // its HDF5 result checked against the engine run in-process; the bad-input corpus
 // rejected with exit code 2, a located message, and no output file.
-#include <sys/wait.h>
-
-#include <array>
-#include <cstdio>
 #include <filesystem>
 #include <fstream>
 #include <string>
@@ -13,6 +9,7 @@
 #include <gtest/gtest.h>
 
 #include "bad_corpus.h"
+#include "cli_util.h"
 #include "engine/pattern.h"
 #include "io/array_reader.h"
 #include "io/result_reader.h"
@@ -23,39 +20,14 @@ using ::testing::HasSubstr;
 namespace lobecast {
 namespace {
 
-struct RunOutput {
-  int exit_code = -1;
-  std::string out;  // stdout and stderr together
-};
+using testing::Quote;
+using testing::RunOutput;
+using testing::SampleArrays;
 
 // Runs a shell command, capturing stdout+stderr and the exit code.
-RunOutput RunCommand(const std::string& command) {
-  RunOutput r;
-  FILE* p = popen((command + " 2>&1").c_str(), "r");
-  if (!p) return r;
-  std::array<char, 4096> buf;
-  while (std::fgets(buf.data(), buf.size(), p)) r.out += buf.data();
-  const int status = pclose(p);
-  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return r;
-}
+RunOutput RunCommand(const std::string& command) { return testing::RunShell(command + " 2>&1"); }
 
-std::string Quote(const std::string& s) { return "'" + s + "'"; }
-
-fs::path WorkDir(const std::string& name) {
-  fs::path d = fs::temp_directory_path() / ("lobecast-cli-test-" + std::to_string(getpid())) / name;
-  fs::create_directories(d);
-  return d;
-}
-
-std::vector<std::string> SampleArrays() {
-  std::vector<std::string> v;
-  for (const auto& e : fs::directory_iterator(LOBECAST_SAMPLES)) {
-    if (e.path().extension() == ".toml") v.push_back(e.path().string());
-  }
-  std::sort(v.begin(), v.end());
-  return v;
-}
+fs::path WorkDir(const std::string& name) { return testing::TempWorkDir("lobecast-cli-test", name); }
 
 double MaxAbsDiff(const Eigen::VectorXcd& a, const Eigen::VectorXcd& b) {
   return (a - b).cwiseAbs().maxCoeff();

@@ -15,12 +15,11 @@
 #include <cstdio>
 #include <cstdlib>
 #include <filesystem>
-#include <fstream>
 #include <set>
-#include <sstream>
 #include <string>
 #include <vector>
 
+#include "cli_util.h"
 #include "io/plot.h"
 #include "io/plot_canvas.h"
 #include "io/plot_colormap.h"
@@ -32,6 +31,7 @@ namespace lobecast::plot {
 namespace {
 
 namespace fs = std::filesystem;
+using testing::ReadFile;
 
 fs::path ReviewDir() {
   const fs::path d = fs::current_path() / "plot-review";
@@ -51,12 +51,7 @@ int RunCli(const std::string& args, std::string* err = nullptr) {
   const std::string cmd =
       std::string(LOBECAST_EXE) + " " + args + " >/dev/null 2>" + err_file.string();
   const int status = std::system(cmd.c_str());
-  if (err) {
-    std::ifstream in(err_file);
-    std::stringstream ss;
-    ss << in.rdbuf();
-    *err = ss.str();
-  }
+  if (err) *err = ReadFile(err_file);
   return WIFEXITED(status) ? WEXITSTATUS(status) : -1;
 }
 
@@ -85,13 +80,6 @@ std::vector<std::string> Samples() {
     if (e.path().extension() == ".toml") names.push_back(e.path().stem().string());
   std::sort(names.begin(), names.end());
   return names;
-}
-
-std::string ReadFile(const fs::path& p) {
-  std::ifstream in(p, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  return ss.str();
 }
 
 struct Rgb8 {

@@ -3,11 +3,7 @@
 // of the grid, cuts and single directions. Checked against the HDF5 file and the
 // engine run in-process: exported numbers must read back to the same doubles, and
 // directions off the grid must equal the engine's exact sum.
-#include <sys/wait.h>
-#include <unistd.h>
-
 #include <algorithm>
-#include <array>
 #include <cctype>
 #include <cmath>
 #include <cstdio>
@@ -22,6 +18,7 @@
 #include <gmock/gmock.h>
 #include <gtest/gtest.h>
 
+#include "cli_util.h"
 #include "engine/constants.h"
 #include "engine/far_field.h"
 #include "engine/grid.h"
@@ -36,19 +33,13 @@ using ::testing::HasSubstr;
 namespace lobecast {
 namespace {
 
-struct RunOutput {
-  int exit_code = -1;
-  std::string out;  // stdout only
-  std::string err;  // stderr
-};
-
-std::string Quote(const std::string& s) { return "'" + s + "'"; }
+using testing::Quote;
+using testing::ReadFile;
+using testing::RunOutput;
+using testing::SampleArrays;
 
 fs::path WorkDir(const std::string& name) {
-  fs::path d = fs::temp_directory_path() /
-               ("lobecast-report-export-test-" + std::to_string(getpid())) / name;
-  fs::create_directories(d);
-  return d;
+  return testing::TempWorkDir("lobecast-report-export-test", name);
 }
 
 // Runs `lobecast ARGS` (ARGS already quoted), stdout and stderr kept apart.
@@ -62,18 +53,8 @@ RunOutput Lobecast(const std::string& args, const std::string& stdin_text = "") 
     std::ofstream(in) << stdin_text;
     command += " <" + Quote(in.string());
   }
-  RunOutput r;
-  FILE* p = popen(command.c_str(), "r");
-  if (!p) return r;
-  std::array<char, 65536> buf;
-  std::size_t n = 0;
-  while ((n = std::fread(buf.data(), 1, buf.size(), p)) > 0) r.out.append(buf.data(), n);
-  const int status = pclose(p);
-  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  std::ifstream e(err);
-  std::stringstream ss;
-  ss << e.rdbuf();
-  r.err = ss.str();
+  RunOutput r = testing::RunShell(command);
+  r.err = ReadFile(err);
   return r;
 }
 
@@ -89,22 +70,7 @@ RunOutput PythonOnJson(const std::string& json, const std::string& expression) {
   const std::string command = std::string(LOBECAST_PYTHON) +
                               " -c 'import json,sys; d = json.load(sys.stdin); print(" +
                               expression + ")' <" + Quote(in.string()) + " 2>&1";
-  RunOutput r;
-  FILE* p = popen(command.c_str(), "r");
-  std::array<char, 4096> buf;
-  while (std::fgets(buf.data(), buf.size(), p)) r.out += buf.data();
-  const int status = pclose(p);
-  r.exit_code = WIFEXITED(status) ? WEXITSTATUS(status) : -1;
-  return r;
-}
-
-std::vector<std::string> SampleArrays() {
-  std::vector<std::string> v;
-  for (const auto& e : fs::directory_iterator(LOBECAST_SAMPLES)) {
-    if (e.path().extension() == ".toml") v.push_back(e.path().string());
-  }
-  std::sort(v.begin(), v.end());
-  return v;
+  return testing::RunShell(command);
 }
 
 std::string Sample(const std::string& stem) {
@@ -379,11 +345,9 @@ TEST(Export, OutputFileEqualsStdout) {
   ASSERT_EQ(to_file.exit_code, 0) << to_file.err;
   EXPECT_TRUE(to_file.out.empty());
   const RunOutput to_stdout = Lobecast("export --format tsv --cut theta=90 " + Quote(result));
-  std::ifstream in(file, std::ios::binary);
-  std::stringstream ss;
-  ss << in.rdbuf();
-  EXPECT_EQ(ss.str(), to_stdout.out);
-  EXPECT_THAT(ss.str(), HasSubstr("\tdirectivity_dBi\t"));
+  const std::string written = ReadFile(file);
+  EXPECT_EQ(written, to_stdout.out);
+  EXPECT_THAT(written, HasSubstr("\tdirectivity_dBi\t"));
 }
 
 TEST(Export, AzimuthElevationIsDefinedInTheHeader) {
