@@ -13,6 +13,7 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/summary_text.h"
+#include "cli/text_format.h"
 #include "engine/error.h"
 #include "io/export_samples.h"
 #include "io/io_error.h"
@@ -33,16 +34,6 @@ struct ExportArgs {
   std::string at;  // empty: no single-direction lookup
   bool no_notes = false;
 };
-
-std::string ReferenceText(PolarizationReference r) {
-  switch (r) {
-    case PolarizationReference::kLinearX: return "x (Ludwig-3)";
-    case PolarizationReference::kLinearY: return "y (Ludwig-3)";
-    case PolarizationReference::kRightCircular: return "RHCP";
-    case PolarizationReference::kLeftCircular: return "LHCP";
-  }
-  return "?";
-}
 
 void RunExport(const ExportArgs& args) {
   PatternTableOptions table;
@@ -114,7 +105,7 @@ void RunExport(const ExportArgs& args) {
             std::string(ToString(stored.array.ground)),
         "directions: " + what + " (" + std::to_string(samples.size()) + " rows)",
         "coordinates: " + CoordinateDefinition(table.coordinates),
-        "co_dBi, cross_dBi: reference " + ReferenceText(table.reference) +
+        "co_dBi, cross_dBi: reference " + ReferenceName(table.reference) +
             "; directivity of the currents as given (gain = directivity for a lossless, "
             "matched array)",
         "sense: +1 right-hand, -1 left-hand, 0 linear or no field (IEEE Std 145-2013); "

@@ -6,18 +6,13 @@
 #include <string>
 
 #include "cli/summary_text.h"
+#include "cli/text_format.h"
 #include "engine/constants.h"
 #include "engine/polarization.h"
 #include "io/json_writer.h"
 
 namespace lobecast::cli {
 namespace {
-
-std::string Printf(const char* fmt, auto... args) {
-  char buf[256];
-  std::snprintf(buf, sizeof buf, fmt, args...);
-  return buf;
-}
 
 // dB with two decimals; "inf", "-inf"; "n/a" for NaN.
 std::string Db(double db) {
@@ -30,20 +25,6 @@ std::string Angle(double deg) { return std::isfinite(deg) ? Printf("%.4f", deg) 
 
 std::string Direction(const DirectionDeg& d) {
   return "theta " + Angle(d.theta_deg) + " deg, phi " + Angle(d.phi_deg) + " deg";
-}
-
-std::string ReferenceName(PolarizationReference r) {
-  switch (r) {
-    case PolarizationReference::kLinearX: return "x (Ludwig-3)";
-    case PolarizationReference::kLinearY: return "y (Ludwig-3)";
-    case PolarizationReference::kRightCircular: return "RHCP";
-    case PolarizationReference::kLeftCircular: return "LHCP";
-  }
-  return "?";
-}
-
-std::string SenseName(int sense) {
-  return sense > 0 ? "right-hand" : sense < 0 ? "left-hand" : "linear";
 }
 
 std::string HalfPower(const BeamCut& c) {

@@ -2,20 +2,14 @@
 
 #include <algorithm>
 #include <cmath>
-#include <cstdio>
 #include <sstream>
 #include <string>
 
+#include "cli/text_format.h"
 #include "engine/polarization.h"
 
 namespace lobecast::cli {
 namespace {
-
-std::string Printf(const char* fmt, auto... args) {
-  char buf[256];
-  std::snprintf(buf, sizeof buf, fmt, args...);
-  return buf;
-}
 
 std::string FormatRange(const AngleRange& r, std::size_t count) {
   if (count == 1) return Printf("%g deg", r.start_deg);
@@ -24,10 +18,6 @@ std::string FormatRange(const AngleRange& r, std::size_t count) {
 
 std::string FormatCurrent(Complex i) {
   return Printf("%10.4g A  %8.2f deg", std::abs(i), std::arg(i) / kDegree);
-}
-
-std::string SenseName(std::int8_t sense) {
-  return sense > 0 ? "right-hand" : sense < 0 ? "left-hand" : "linear";
 }
 
 constexpr std::size_t kFullTableUpTo = 16;
