@@ -1,6 +1,5 @@
 #include "cli/analysis_setup.h"
 
-#include <charconv>
 #include <cmath>
 #include <complex>
 #include <string>
@@ -9,6 +8,7 @@
 #include "engine/error.h"
 #include "engine/polarization.h"
 #include "engine/text_case.h"
+#include "io/number_text.h"
 
 namespace lobecast::cli {
 
@@ -25,13 +25,7 @@ std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view
   auto number = [](std::string_view s) -> std::optional<double> {
     while (!s.empty() && s.front() == ' ') s.remove_prefix(1);
     while (!s.empty() && s.back() == ' ') s.remove_suffix(1);
-    if (!s.empty() && s.front() == '+') s.remove_prefix(1);
-    double v = 0;
-    const auto r = std::from_chars(s.data(), s.data() + s.size(), v);
-    if (s.empty() || r.ec != std::errc() || r.ptr != s.data() + s.size() || !std::isfinite(v)) {
-      return std::nullopt;
-    }
-    return v;
+    return ParseFiniteNumber(s);
   };
   const std::size_t comma = text.find(',');
   const auto a = comma == std::string_view::npos ? std::nullopt : number(text.substr(0, comma));

@@ -1,15 +1,14 @@
 #include "io/export_samples.h"
 
-#include <charconv>
 #include <cmath>
 #include <cstdio>
-#include <system_error>
 
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/far_field.h"
 #include "engine/grid.h"
 #include "engine/polarization.h"
+#include "io/number_text.h"
 
 namespace lobecast {
 namespace {
@@ -22,17 +21,8 @@ std::string_view Trim(std::string_view s) {
   return s;
 }
 
-// A whole, finite decimal number (locale-independent).
-std::optional<double> ParseNumber(std::string_view s) {
-  s = Trim(s);
-  if (!s.empty() && s.front() == '+') s.remove_prefix(1);
-  double v = 0;
-  const auto r = std::from_chars(s.data(), s.data() + s.size(), v);
-  if (s.empty() || r.ec != std::errc() || r.ptr != s.data() + s.size() || !std::isfinite(v)) {
-    return std::nullopt;
-  }
-  return v;
-}
+// A whole, finite decimal number (locale-independent), blanks around it allowed.
+std::optional<double> ParseNumber(std::string_view s) { return ParseFiniteNumber(Trim(s)); }
 
 std::string Format(double v) {
   char buf[32];

@@ -26,4 +26,14 @@ std::string ShortestText(double value) {
   return s;
 }
 
+std::optional<double> ParseFiniteNumber(std::string_view s) {
+  if (!s.empty() && s.front() == '+') s.remove_prefix(1);
+  double v = 0;
+  const auto r = std::from_chars(s.data(), s.data() + s.size(), v);
+  if (s.empty() || r.ec != std::errc() || r.ptr != s.data() + s.size() || !std::isfinite(v)) {
+    return std::nullopt;
+  }
+  return v;
+}
+
 }  // namespace lobecast

@@ -3,7 +3,9 @@
 // (std::to_chars), always with '.' as the decimal point, whatever the C locale.
 #pragma once
 
+#include <optional>
 #include <string>
+#include <string_view>
 
 namespace lobecast {
 
@@ -11,5 +13,10 @@ namespace lobecast {
 // of them back exactly.
 std::string ShortestText(double value);
 void AppendShortest(std::string& out, double value);
+
+// The whole of `s` (no blanks, an optional leading '+') as a finite double, read
+// with std::from_chars (locale-independent); std::nullopt otherwise, also for
+// inf, nan and values out of range.
+std::optional<double> ParseFiniteNumber(std::string_view s);
 
 }  // namespace lobecast
