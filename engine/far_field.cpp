@@ -15,19 +15,10 @@
 
 #include "engine/error.h"
 #include "engine/ground.h"
+#include "engine/kernel_clones.h"
 #include "engine/nufft.h"
 #include "engine/sincos.h"
 #include "engine/text_case.h"
-
-// The hot kernels are compiled for AVX-512, AVX2+FMA and the baseline, and the
-// loader picks one for the running CPU (GCC/Clang function multiversioning), so a
-// portable build is still fast. A -march=native build makes "default" native too.
-#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
-#define LOBECAST_KERNEL_CLONES \
-  __attribute__((target_clones("arch=x86-64-v4", "arch=x86-64-v3", "default")))
-#else
-#define LOBECAST_KERNEL_CLONES
-#endif
 
 namespace lobecast {
 

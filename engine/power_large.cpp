@@ -10,15 +10,9 @@
 
 #include "engine/error.h"
 #include "engine/ground.h"
+#include "engine/kernel_clones.h"
 #include "engine/radiated_power.h"
 #include "engine/sincos.h"
-
-#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
-#define LOBECAST_KERNEL_CLONES \
-  __attribute__((target_clones("arch=x86-64-v4", "arch=x86-64-v3", "default")))
-#else
-#define LOBECAST_KERNEL_CLONES
-#endif
 
 namespace lobecast {
 namespace {
