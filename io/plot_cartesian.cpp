@@ -87,17 +87,9 @@ CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const Pl
     cairo_stroke(cr);
   }
   auto draw_trace = [&](const std::vector<double>& db, const Colour& colour, double width) {
-    c.SetColour(colour);
-    SetSolid(c, width);
-    cairo_set_line_join(cr, CAIRO_LINE_JOIN_ROUND);
-    for (std::size_t k = 0; k < db.size(); ++k) {
-      const double x = g.XOf(t.cut.angle_deg[k]), y = g.YOf(db[k]);
-      if (k == 0)
-        cairo_move_to(cr, x, y);
-      else
-        cairo_line_to(cr, x, y);
-    }
-    cairo_stroke(cr);
+    DrawTrace(c, colour, width, db.size(), [&](std::size_t k) {
+      return std::pair<double, double>(g.XOf(t.cut.angle_deg[k]), g.YOf(db[k]));
+    });
   };
   if (!t.companion_db.empty()) draw_trace(t.companion_db, CompanionTraceColour(), 1.8);
   draw_trace(t.main_db, MainTraceColour(), 2.4);

@@ -89,6 +89,22 @@ void SetDashed(const Canvas& c, double width_px, double dash_px) {
   cairo_set_dash(c.cr(), dashes, 2, 0);
 }
 
+void DrawTrace(const Canvas& c, const Colour& colour, double width_px, std::size_t n,
+               const std::function<std::pair<double, double>(std::size_t)>& point_px) {
+  cairo_t* cr = c.cr();
+  c.SetColour(colour);
+  SetSolid(c, width_px);
+  cairo_set_line_join(cr, CAIRO_LINE_JOIN_ROUND);
+  for (std::size_t k = 0; k < n; ++k) {
+    const auto [x, y] = point_px(k);
+    if (k == 0)
+      cairo_move_to(cr, x, y);
+    else
+      cairo_line_to(cr, x, y);
+  }
+  cairo_stroke(cr);
+}
+
 double DbLabelStep(double range_db) {
   if (range_db > 25) return 10;
   if (range_db > 10) return 5;

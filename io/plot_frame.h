@@ -3,7 +3,10 @@
 // number formatting for labels.
 #pragma once
 
+#include <cstddef>
+#include <functional>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include "io/plot_canvas.h"
@@ -37,6 +40,11 @@ Colour MarkerColour();
 // Sets line width and dash for a trace or a guide line.
 void SetSolid(const Canvas& c, double width_px);
 void SetDashed(const Canvas& c, double width_px, double dash_px);
+
+// Strokes a trace: the solid polyline through point_px(0) .. point_px(n - 1)
+// (device x, y) with round joins.
+void DrawTrace(const Canvas& c, const Colour& colour, double width_px, std::size_t n,
+               const std::function<std::pair<double, double>(std::size_t)>& point_px);
 
 // A step for ring / axis labels in dB: 10 when the range spans more than 25 dB,
 // 5 above 10 dB, else 2.

@@ -96,18 +96,11 @@ PolarGeometry DrawPolar(const Canvas& c, const StoredResult& r, const PlotOption
 
   // Traces: the companion first, so the main trace stays on top.
   auto draw_trace = [&](const std::vector<double>& db, const Colour& colour, double width) {
-    c.SetColour(colour);
-    SetSolid(c, width);
-    cairo_set_line_join(cr, CAIRO_LINE_JOIN_ROUND);
-    for (std::size_t k = 0; k < db.size(); ++k) {
-      double x, y;
-      g.PointOf(t.cut.angle_deg[k], db[k], &x, &y);
-      if (k == 0)
-        cairo_move_to(cr, x, y);
-      else
-        cairo_line_to(cr, x, y);
-    }
-    cairo_stroke(cr);
+    DrawTrace(c, colour, width, db.size(), [&](std::size_t k) {
+      std::pair<double, double> p;
+      g.PointOf(t.cut.angle_deg[k], db[k], &p.first, &p.second);
+      return p;
+    });
   };
   if (!t.companion_db.empty()) draw_trace(t.companion_db, CompanionTraceColour(), 1.8);
   draw_trace(t.main_db, MainTraceColour(), 2.4);
