@@ -96,7 +96,8 @@ struct MainBeamPeak {
 struct BeamCut {
   // Both half-power points found; otherwise the width is +inf: the pattern does not
   // fall to half the peak directivity anywhere on this great circle (a dipole's
-  // azimuth plane).
+  // azimuth plane, also over a PEC ground where that plane is the horizon itself: the
+  // ground plane is not a beam edge for a cut that runs along it).
   bool half_power_found = false;
   double half_power_width_deg = std::numeric_limits<double>::infinity();
   double half_power_lower_deg = std::numeric_limits<double>::quiet_NaN();

@@ -190,15 +190,28 @@ BeamRay WalkBeamRay(const PatternProbe& probe, const Vec3& peak, const Vec3& tan
                     bool find_null) {
   const int n = std::max(4, static_cast<int>(std::ceil(kPi / step_rad)));
   const double step = kPi / n;
+  // A great circle within the search tolerance of a PEC ground plane (the orthogonal
+  // cut through a peak on the horizon) is the horizon itself: rounding would otherwise
+  // tilt it a hair into the no-field half space and read that grazing exit as a beam
+  // edge. Its points are taken on the horizon.
+  const Vec3 normal = peak.cross(tangent);
+  const bool on_horizon =
+      probe.array().ground == Ground::kPec &&
+      std::hypot(normal.x(), normal.y()) <= std::max(tolerance_rad, 1e-12) * normal.norm();
+  auto point = [&](double alpha) {
+    const Vec3 p = AlongGreatCircle(peak, tangent, alpha);
+    if (!on_horizon) return p;
+    const Vec3 h(p.x(), p.y(), 0.0);
+    return Vec3(h / h.norm());
+  };
   // Samples 0..n reach the antipode; one more lets a minimum sitting there be bracketed.
   std::vector<Vec3> pts(static_cast<std::size_t>(n) + 2);
-  for (int k = 0; k <= n + 1; ++k)
-    pts[static_cast<std::size_t>(k)] = AlongGreatCircle(peak, tangent, k * step);
+  for (int k = 0; k <= n + 1; ++k) pts[static_cast<std::size_t>(k)] = point(k * step);
   const std::vector<ProbeSample> s = probe.At(pts);
   auto at = [&](int k) -> const ProbeSample& { return s[static_cast<std::size_t>(k)]; };
   const double half = 0.5 * peak_directivity;
   auto excess = [&](double alpha) {
-    const ProbeSample p = probe.At(AlongGreatCircle(peak, tangent, alpha));
+    const ProbeSample p = probe.At(point(alpha));
     return p.no_field ? -half : p.directivity - half;
   };
 
@@ -211,7 +224,7 @@ BeamRay WalkBeamRay(const PatternProbe& probe, const Vec3& peak, const Vec3& tan
   const double g_hi = at(k).no_field ? -half : at(k).directivity - half;
   r.half_power_rad = FindRoot(excess, (k - 1) * step, k * step, g_lo, g_hi, tolerance_rad);
   r.half_power_found = true;
-  if (probe.NoFieldAt(AlongGreatCircle(peak, tangent, r.half_power_rad + 4 * tolerance_rad))) {
+  if (probe.NoFieldAt(point(r.half_power_rad + 4 * tolerance_rad))) {
     r.clipped_by_ground = true;
     return r;
   }
@@ -223,7 +236,7 @@ BeamRay WalkBeamRay(const PatternProbe& probe, const Vec3& peak, const Vec3& tan
     }
     if (at(j + 1).directivity > at(j).directivity) {
       auto level = [&](double alpha) {
-        const ProbeSample p = probe.At(AlongGreatCircle(peak, tangent, alpha));
+        const ProbeSample p = probe.At(point(alpha));
         return p.no_field ? kInf : p.directivity;
       };
       const LineMinimum m =

@@ -38,6 +38,10 @@ struct BeamRay {
   double null_rad = 0.0;
 };
 // step_rad: sampling before the root search; find_null: also look for the first null.
+// Over a PEC ground, a great circle within tolerance_rad of the ground plane (the
+// orthogonal cut through a peak on the horizon) is walked on the horizon itself, so a
+// rounding-level dip below the ground is not taken for a beam edge: an omnidirectional
+// horizon reports no half-power point (+inf width), as in free space.
 BeamRay WalkBeamRay(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
                     double peak_directivity, double step_rad, double tolerance_rad, bool find_null);
 

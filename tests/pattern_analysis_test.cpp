@@ -247,6 +247,23 @@ TEST(PatternAnalysis, VerticalDipoleOverGround) {
   EXPECT_TRUE(r.elevation_cut.clipped_by_ground);
   EXPECT_NEAR(r.elevation_cut.half_power_width_deg, 45.0, 0.01);
   EXPECT_TRUE(std::isinf(r.front_to_back.ratio_db));  // straight down: below the ground
+  // The orthogonal cut through a horizon peak is the horizon itself, D = 3 all round:
+  // it never falls to half power, as in free space. Rounding can tilt that great circle
+  // a hair into the no-field half space; that grazing exit is not a beam edge.
+  EXPECT_FALSE(r.orthogonal_cut.half_power_found)
+      << "orthogonal HPBW " << r.orthogonal_cut.half_power_width_deg << " peak theta "
+      << 90.0 - r.peak.direction.theta_deg;
+  EXPECT_TRUE(std::isinf(r.orthogonal_cut.half_power_width_deg));
+  EXPECT_FALSE(r.orthogonal_cut.clipped_by_ground);
+  // The elevation cut: D = 3 sin^2(theta) above the ground, half power at theta = 45 deg;
+  // the beam runs from the ground plane (offset 0) up to 45 deg elevation.
+  EXPECT_TRUE(r.elevation_cut.half_power_found);
+  EXPECT_NEAR(std::max(std::abs(r.elevation_cut.half_power_lower_deg),
+                       std::abs(r.elevation_cut.half_power_upper_deg)),
+              45.0, 0.01);
+  EXPECT_LT(std::min(std::abs(r.elevation_cut.half_power_lower_deg),
+                     std::abs(r.elevation_cut.half_power_upper_deg)),
+            1e-3);
 }
 
 TEST(PatternAnalysis, LinearDipoleXpd) {
