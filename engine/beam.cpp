@@ -95,6 +95,13 @@ double ToDb(double ratio) {
   return 10.0 * std::log10(ratio);
 }
 
+double PowerRatioDb(double numerator, double denominator) {
+  if (numerator == 0.0 && denominator == 0.0) return std::numeric_limits<double>::quiet_NaN();
+  if (denominator <= kRoundingPowerRatio * numerator) return kInf;
+  if (numerator <= kRoundingPowerRatio * denominator) return -kInf;
+  return ToDb(numerator / denominator);
+}
+
 DirectionDeg ToDirectionDeg(const Vec3& r_hat) {
   const SphericalAngles s = AnglesOf(r_hat);
   DirectionDeg d{s.theta_rad / kDegree, s.phi_rad / kDegree};
@@ -293,9 +300,9 @@ FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double pe
   const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{back, behind});
   f.back_direction = ToDirectionDeg(back);
   f.same_elevation_back_direction = ToDirectionDeg(behind);
-  f.ratio_db = s[0].directivity > 0.0 ? ToDb(peak_directivity / s[0].directivity) : kInf;
-  f.same_elevation_ratio_db =
-      s[1].directivity > 0.0 ? ToDb(peak_directivity / s[1].directivity) : kInf;
+  // The peak is > 0, so a zero (or rounding-level) back field gives +inf.
+  f.ratio_db = PowerRatioDb(peak_directivity, s[0].directivity);
+  f.same_elevation_ratio_db = PowerRatioDb(peak_directivity, s[1].directivity);
   return f;
 }
 

@@ -10,15 +10,9 @@
 namespace lobecast {
 namespace {
 
-constexpr double kInf = std::numeric_limits<double>::infinity();
-
-// XPD in dB of a co/cross pair; +inf for a pure co-polar field, NaN for no field.
-double XpdDb(const CoCross& c) {
-  const double co = std::norm(c.co), cross = std::norm(c.cross);
-  if (co == 0.0 && cross == 0.0) return std::numeric_limits<double>::quiet_NaN();
-  if (cross == 0.0) return kInf;
-  return ToDb(co / cross);
-}
+// XPD in dB of a co/cross pair; +inf for a co-polar field whose cross part is zero up
+// to rounding (PowerRatioDb), -inf for the opposite, NaN for no field.
+double XpdDb(const CoCross& c) { return PowerRatioDb(std::norm(c.co), std::norm(c.cross)); }
 
 bool WithinAxialRatio(const ProbeSample& s, const AnalysisOptions& options) {
   if (s.no_field) return false;
