@@ -9,6 +9,7 @@
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
+#include "cli/output_path.h"
 #include "cli/progress_bar.h"
 #include "cli/report_text.h"
 #include "cli/summary_text.h"
@@ -114,7 +115,8 @@ void AddComputeCommand(CLI::App& app) {
       ->check(CLI::ExistingFile);
   cmd->add_option("-o,--output", args->output,
                   "Result file (HDF5); default: the array file's name with .h5, in the "
-                  "current directory. Written atomically: a failed run leaves it untouched.");
+                  "current directory. Written atomically: a failed run leaves it untouched.")
+      ->check(OutputFileInExistingFolder());
   cmd->add_option("-t,--threads", args->threads,
                   "Threads for the field computation (count); 0 = all cores")
       ->check(CLI::NonNegativeNumber);

@@ -12,6 +12,7 @@
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
+#include "cli/output_path.h"
 #include "cli/summary_text.h"
 #include "cli/text_format.h"
 #include "engine/error.h"
@@ -19,6 +20,7 @@
 #include "io/io_error.h"
 #include "io/pattern_export.h"
 #include "io/result_reader.h"
+#include "io/safety_note.h"
 
 namespace lobecast::cli {
 namespace {
@@ -103,6 +105,7 @@ void RunExport(const ExportArgs& args) {
         "lobecast export of " + args.input + ": " + name + ", " +
             FormatFrequency(stored.array.frequency_hz) + ", ground " +
             std::string(ToString(stored.array.ground)),
+        "note: " + std::string(kSafetyNote),
         "directions: " + what + " (" + std::to_string(samples.size()) + " rows)",
         "coordinates: " + CoordinateDefinition(table.coordinates),
         "co_dBi, cross_dBi: reference " + ReferenceName(table.reference) +
@@ -137,7 +140,8 @@ void AddExportCommand(CLI::App& app) {
   cmd->add_option("RESULT", args->input, "Result file (HDF5) written by compute")
       ->required()
       ->check(CLI::ExistingFile);
-  cmd->add_option("-o,--output", args->output, "Table file; default: standard output");
+  cmd->add_option("-o,--output", args->output, "Table file; default: standard output")
+      ->check(OutputFileInExistingFolder());
   cmd->add_option("--format", args->format, "csv (default) or tsv");
   cmd->add_option("--coords", args->coords,
                   "theta-phi (default; theta from +z, phi from +x toward +y) or az-el "

@@ -6,6 +6,7 @@
 #include <string>
 
 #include "cli/commands.h"
+#include "cli/output_path.h"
 #include "io/input_error.h"
 #include "io/plot.h"
 #include "io/result_reader.h"
@@ -95,7 +96,9 @@ void AddPlotCommand(CLI::App& app) {
   cmd->add_option("RESULT", args->input, "Result file (HDF5) written by 'lobecast compute'")
       ->required()
       ->check(CLI::ExistingFile);
-  cmd->add_option("-o,--output", args->output, "Image file: .png, .svg or .pdf")->required();
+  cmd->add_option("-o,--output", args->output, "Image file: .png, .svg or .pdf")
+      ->required()
+      ->check(OutputFileInExistingFolder());
   cmd->add_option("-k,--kind", args->kind,
                   "polar | cartesian (a cut), map (the grid as an image) | polarization "
                   "(axial ratio and sense maps); default polar");

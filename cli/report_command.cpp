@@ -13,6 +13,7 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/report_text.h"
+#include "cli/summary_text.h"
 #include "engine/error.h"
 #include "engine/pattern_analysis.h"
 #include "io/analysis_reader.h"
@@ -84,6 +85,7 @@ void RunReport(const ReportArgs& args) {
   const std::string text = args.json ? ReportJson(context, analysis, options)
                                      : ReportText(context, analysis, options);
   std::fputs(text.c_str(), stdout);
+  if (!args.json) std::fputs(("\n" + SafetyNote()).c_str(), stdout);
 }
 
 }  // namespace

@@ -10,6 +10,7 @@
 #include "engine/constants.h"
 #include "engine/polarization.h"
 #include "io/json_writer.h"
+#include "io/safety_note.h"
 
 namespace lobecast::cli {
 namespace {
@@ -315,6 +316,7 @@ std::string ReportJson(const ReportContext& c, const PatternAnalysis& a,
   j.EndObject();
 
   j.MemberInt("field_evaluations", static_cast<long long>(a.field_evaluations));
+  j.Member("safety_note", kSafetyNote);
   j.Member("seconds", a.seconds);
   j.EndObject();
   return j.text();

@@ -7,13 +7,16 @@
 
 #include "cli/text_format.h"
 #include "engine/polarization.h"
+#include "io/safety_note.h"
 
 namespace lobecast::cli {
 namespace {
 
-std::string FormatRange(const AngleRange& r, std::size_t count) {
-  if (count == 1) return Printf("%g deg", r.start_deg);
-  return Printf("%g..%g deg step %g (%zu)", r.start_deg, r.stop_deg, r.step_deg, count);
+// The angles actually sampled: "0..175 deg step 7 (26)" for a stop of 180.
+std::string FormatRange(const std::vector<double>& values, double step_deg) {
+  if (values.size() == 1) return Printf("%g deg", values.front());
+  return Printf("%g..%g deg step %g (%zu)", values.front(), values.back(), step_deg,
+                values.size());
 }
 
 std::string FormatCurrent(Complex i) {
@@ -55,8 +58,8 @@ std::string DescribeArray(const ArrayDescription& desc) {
     << Printf("   wavelength %.6g m   k = %.6g rad/m\n", a.wavelength_m(), a.wavenumber_rad_m());
   s << "ground       "
     << (a.ground == Ground::kPec ? "PEC plane z = 0 (image theory)" : "none (free space)") << "\n";
-  s << "grid         theta " << FormatRange(desc.theta, desc.grid.theta_deg.size()) << ", phi "
-    << FormatRange(desc.phi, desc.grid.phi_deg.size()) << " = " << desc.grid.size()
+  s << "grid         theta " << FormatRange(desc.grid.theta_deg, desc.theta.step_deg) << ", phi "
+    << FormatRange(desc.grid.phi_deg, desc.phi.step_deg) << " = " << desc.grid.size()
     << " directions\n";
   s << "dipoles      " << a.size() << (desc.csv_path.empty() ? "" : " (rows from " + desc.csv_path + ")")
     << "\n";
@@ -103,9 +106,13 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     << Printf("%.6g", sm.peak_directivity) << ") at " << FormatDirection(sm.peak_theta_deg, sm.peak_phi_deg)
     << " (grid maximum)\n";
   const double ar = r.axial_ratio_db[peak];
+  // Tilt is measured from theta_hat toward phi_hat; it is undefined for circular
+  // polarization (AR ~ 0 dB), so it is not printed there.
   s << "polarization at the peak: axial ratio "
     << (std::isinf(ar) ? std::string("inf") : Printf("%.2f", ar)) << " dB, "
-    << SenseName(r.sense[ip]) << Printf(", tilt %.2f deg\n", r.tilt_deg[peak]);
+    << SenseName(r.sense[ip])
+    << (ar < 0.01 ? std::string(", tilt undefined (circular)\n")
+                  : Printf(", tilt %.2f deg from theta_hat toward phi_hat\n", r.tilt_deg[peak]));
   s << Printf("power        %.6g W radiated for the given currents (closed form)\n",
               r.radiated_power_w);
 
@@ -146,9 +153,21 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
 }
 
 std::string SafetyNote() {
-  return "note: these are far-field figures for the currents given, not an RF-exposure or "
-         "compliance assessment.\n      Exposure limits near transmitting antennas are set by "
-         "local regulation; follow them and licensed practice.\n";
+  // kSafetyNote wrapped at about 88 columns under a "note: " prefix.
+  std::string out = "note: ";
+  std::size_t column = out.size();
+  std::istringstream words{std::string(kSafetyNote)};
+  std::string w;
+  while (words >> w) {
+    if (column + w.size() + 1 > 88) {
+      out += "\n     ";
+      column = 5;
+    }
+    out += " " + w;
+    column += w.size() + 1;
+  }
+  out.erase(5, 1);  // "note:  These" -> "note: These"
+  return out + "\n";
 }
 
 }  // namespace lobecast::cli

@@ -54,6 +54,12 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   }
   s.radiated_power_w = r.radiated_power_w;
   s.seconds_power = SecondsSince(t0);
+  if (!std::isfinite(r.radiated_power_w)) {
+    throw InvalidArgument(
+        "currents: the radiated power overflows a double (found " +
+        std::to_string(r.radiated_power_w) +
+        " W); expected currents of a physical size (A peak)");
+  }
   if (!(r.radiated_power_w > 0)) {
     std::ostringstream m;
     m << "currents: the array radiates " << r.radiated_power_w

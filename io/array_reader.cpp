@@ -136,6 +136,14 @@ class Reader {
                        "at least one [[dipole]] table or a dipoles_csv file with one row");
     }
     CheckDipoles(out);
+    bool any_current = false;
+    for (const Dipole& d : out.array.dipoles) any_current = any_current || d.current_a != 0.0;
+    if (!any_current) {
+      throw InputError(out.dipole_locations.front(), "dipole[*].current",
+                       "every magnitude is 0",
+                       "at least one non-zero current (with none, nothing radiates and "
+                       "directivity is undefined)");
+    }
 
     try {
       Validate(out.array);

@@ -13,6 +13,7 @@
 
 #include "engine/error.h"
 #include "io/hdf5_file.h"
+#include "io/safety_note.h"
 
 #ifndef LOBECAST_VERSION
 #define LOBECAST_VERSION "unknown"
@@ -394,6 +395,7 @@ void PatternFileWriter::Finish() {
     Handle root = hdf5::OpenGroup(w.file, "/");
     hdf5::WriteStringAttribute(root, "software_version", LOBECAST_VERSION);
     hdf5::WriteStringAttribute(root, "time_convention", "exp(+jwt)");
+    hdf5::WriteStringAttribute(root, "safety_note", kSafetyNote);
     hdf5::WriteStringAttribute(root, "created", w.meta.created);
     hdf5::WriteStringAttribute(root, "input", w.meta.input_text);
     if (!w.meta.input_path.empty()) {

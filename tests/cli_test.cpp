@@ -190,12 +190,44 @@ TEST(Cli, LongDipoleWarnsButRuns) {
   EXPECT_THAT(run.out, HasSubstr("warning"));
 }
 
-TEST(Cli, UnwritableOutputExitsOneAndLeavesNothing) {
+TEST(Cli, OutputInAMissingFolderIsRefusedBeforeComputing) {
   const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";
   const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(input) +
-                            " -o /nonexistent-dir/x.h5");
+                                   " -o /nonexistent-dir/x.h5");
+  EXPECT_EQ(run.exit_code, 2) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("/nonexistent-dir"));
+  EXPECT_FALSE(fs::exists("/nonexistent-dir"));
+}
+
+TEST(Cli, FailureWhileWritingExitsOneAndLeavesNothing) {
+  // The target is an existing folder: the result is written beside it, then the
+  // rename onto a folder fails -- a failure while running (exit 1), not bad input.
+  const fs::path dir = WorkDir("write-failure");
+  fs::create_directories(dir / "target.h5");
+  const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(input) +
+                                   " -o " + Quote((dir / "target.h5").string()));
   EXPECT_EQ(run.exit_code, 1) << run.out;
-  EXPECT_THAT(run.out, HasSubstr("/nonexistent-dir/x.h5"));
+  EXPECT_THAT(run.out, HasSubstr("target.h5"));
+  EXPECT_TRUE(fs::is_directory(dir / "target.h5"));
+  for (const auto& e : fs::directory_iterator(dir)) {
+    EXPECT_EQ(e.path().string().find(".tmp"), std::string::npos) << e.path();
+  }
+}
+
+TEST(Cli, CheckRejectsCurrentsThatOverflow) {
+  const fs::path dir = WorkDir("overflow");
+  const fs::path toml = dir / "huge.toml";
+  std::ofstream(toml) << "frequency = 1e9\n[[dipole]]\nposition = [0, 0, 0]\n"
+                         "orientation = [0, 0, 1]\nlength = 0.01\n"
+                         "current = { magnitude = 1e300 }\n";
+  EXPECT_EQ(RunCommand(std::string(LOBECAST_EXE) + " check " + Quote(toml.string())).exit_code, 2);
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " +
+                                   Quote(toml.string()) + " -o " +
+                                   Quote((dir / "huge.h5").string()));
+  EXPECT_EQ(run.exit_code, 2) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("overflows"));
+  EXPECT_FALSE(fs::exists(dir / "huge.h5"));
 }
 
 }  // namespace
