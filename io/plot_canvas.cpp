@@ -189,7 +189,7 @@ double Canvas::Text(double x, double y, std::string_view text, double size_px, H
 }
 
 void Canvas::BoxedText(double x, double y, std::string_view text, double size_px, HAlign h,
-                       VAlign v) const {
+                       VAlign v, double box_alpha) const {
   const double w = TextWidth(text, size_px);
   const double ascent = 0.72 * size_px;
   double left = x, top = y - ascent;
@@ -200,7 +200,7 @@ void Canvas::BoxedText(double x, double y, std::string_view text, double size_px
   if (v == VAlign::kBottom) top = y - ascent - 0.25 * size_px;
   cairo_t* cr = impl_->cr;
   cairo_save(cr);
-  cairo_set_source_rgba(cr, 1, 1, 1, 0.85);
+  cairo_set_source_rgba(cr, 1, 1, 1, box_alpha);
   const double pad = 0.2 * size_px;
   cairo_rectangle(cr, left - pad, top - pad, w + 2 * pad, ascent + 2 * pad);
   cairo_fill(cr);

@@ -65,9 +65,9 @@ class Canvas {
   double Text(double x, double y, std::string_view text, double size_px, HAlign h = HAlign::kLeft,
               VAlign v = VAlign::kBaseline, bool bold = false) const;
   double TextWidth(std::string_view text, double size_px, bool bold = false) const;
-  // Text on a white, slightly transparent box, for labels drawn over data.
-  void BoxedText(double x, double y, std::string_view text, double size_px, HAlign h,
-                 VAlign v) const;
+  // Text on a white box (slightly transparent by default), for labels drawn over data.
+  void BoxedText(double x, double y, std::string_view text, double size_px, HAlign h, VAlign v,
+                 double box_alpha = 0.85) const;
 
   // Writes the file (PNG) or finishes it (SVG, PDF) and renames it into place.
   // Throws IoError naming the path. The destructor of an unfinished canvas

@@ -91,8 +91,14 @@ CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const Pl
       return std::pair<double, double>(g.XOf(t.cut.angle_deg[k]), g.YOf(db[k]));
     });
   };
-  if (!t.companion_db.empty()) draw_trace(t.companion_db, CompanionTraceColour(), 1.8);
-  draw_trace(t.main_db, MainTraceColour(), 2.4);
+  if (t.no_field) {
+    c.SetColour(TextColour());
+    c.BoxedText(g.left_px + 0.5 * g.width_px, g.top_px + 0.5 * g.height_px, kNoFieldInCutText, f,
+                HAlign::kCentre, VAlign::kMiddle, 1.0);
+  } else {
+    if (!t.companion_db.empty()) draw_trace(t.companion_db, CompanionTraceColour(), 1.8);
+    draw_trace(t.main_db, MainTraceColour(), 2.4);
+  }
 
   BeamFigures b = t.beam;
   if (!(t.peak_db - 3.0 > g.db_floor)) b.has_hpbw = b.has_side_lobe = false;
@@ -122,7 +128,7 @@ CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const Pl
     c.BoxedText(0.5 * (xl + xr), y + 0.9 * f, Format("HPBW %.1f°", b.hpbw_deg), 0.9 * f,
                 HAlign::kCentre, VAlign::kTop);
   }
-  if (!t.main_db.empty()) {
+  if (!t.main_db.empty() && !t.no_field) {
     const std::size_t p = t.peak_index;
     c.SetColour(MarkerColour());
     SetSolid(c, 1.2);

@@ -13,32 +13,6 @@ namespace {
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
 
-// Splits `text` into lines no wider than `width` at spaces.
-std::vector<std::string> Wrap(const Canvas& c, const std::string& text, double size, double width) {
-  std::vector<std::string> lines;
-  std::string line, word;
-  auto flush_word = [&] {
-    if (word.empty()) return;
-    const std::string candidate = line.empty() ? word : line + " " + word;
-    if (!line.empty() && c.TextWidth(candidate, size) > width) {
-      lines.push_back(line);
-      line = word;
-    } else {
-      line = candidate;
-    }
-    word.clear();
-  };
-  for (char ch : text) {
-    if (ch == ' ')
-      flush_word();
-    else
-      word += ch;
-  }
-  flush_word();
-  if (!line.empty()) lines.push_back(line);
-  return lines;
-}
-
 }  // namespace
 
 Quantity CutQuantity(const StoredResult& r, const PlotOptions& o, PolarizationReference ref) {
@@ -169,6 +143,15 @@ CutTraces MakeCutTraces(const StoredResult& r, const PlotOptions& o) {
   double top = -kInf;
   for (double v : t.main_db) top = std::max(top, v);
   for (double v : t.companion_db) top = std::max(top, v);
+  const double pattern_peak =
+      r.result.directivity.size() > 0 ? r.result.directivity.maxCoeff() : 0.0;
+  t.no_field = !(top > ToDb(kNoFieldInCutRatio * pattern_peak));
+  if (t.no_field) {
+    // Nothing to draw: no trace, and a scale just below the pattern's peak.
+    for (double& v : t.main_db) v = -kInf;
+    for (double& v : t.companion_db) v = -kInf;
+    top = std::isfinite(ToDb(pattern_peak)) ? ToDb(pattern_peak) : 0.0;
+  }
   if (!std::isfinite(top)) top = 0;  // nothing radiates in this cut: any scale will do
   t.reference_dbi = top;
   t.units = o.normalized ? "dB" : "dBi";
@@ -188,7 +171,10 @@ CutTraces MakeCutTraces(const StoredResult& r, const PlotOptions& o) {
 
   std::string what = t.main == Quantity::kDirectivity ? "Directivity" : "Partial directivity";
   what += ", " + t.units;
-  if (o.normalized) what += Format(" relative to the cut's peak (%.2f dBi)", top);
+  if (o.normalized)
+    what += Format(t.no_field ? " relative to the pattern's peak (%.2f dBi)"
+                              : " relative to the cut's peak (%.2f dBi)",
+                   top);
   what += ": " + t.main_label;
   if (t.companion) what += " and " + QuantityLabel(*t.companion, t.reference);
   t.title_lines = {ArrayLine(r), what, "Cut: " + t.cut.spec.Describe()};
@@ -203,7 +189,7 @@ void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, doub
   const double text_x = x + swatch + 0.5 * f;
   const double text_w = width - swatch - 0.5 * f;
   auto entry = [&](const std::string& text) {
-    const auto lines = Wrap(c, text, f, text_w);
+    const auto lines = WrapText(c, text, f, text_w);
     c.SetColour(TextColour());
     for (std::size_t i = 0; i < lines.size(); ++i)
       c.Text(text_x, y + 1.3 * f * static_cast<double>(i), lines[i], f, HAlign::kLeft,
@@ -235,13 +221,15 @@ void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, doub
   cairo_arc(cr, x + 0.5 * swatch, y, 4.5, 0, 2 * kPi);
   cairo_stroke(cr);
   const std::size_t p = t.peak_index;
-  if (!t.main_db.empty() && std::isfinite(t.main_db[p]))
+  if (t.no_field)
+    entry(kNoFieldInCutText);
+  else if (!t.main_db.empty() && std::isfinite(t.main_db[p]))
     entry(Format("peak %.2f %s at ", t.main_db[p], t.units.c_str()) +
           CutAngleText(t.cut.spec, t.cut.angle_deg[p]));
   else
     entry("no radiation in this cut");
   y += 0.4 * f;
-  if (with_beam_figures) {
+  if (with_beam_figures && !t.no_field) {
     const BeamFigures& b = t.beam;
     if (b.has_hpbw)
       entry(Format("half-power beamwidth %.1f° (%.1f° .. %.1f°)", b.hpbw_deg, b.hpbw_left_deg,
@@ -254,12 +242,20 @@ void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, doub
     else
       entry("no side lobe in this cut");
   }
-  if (t.companion && !t.main_db.empty() && std::isfinite(t.peak_db)) {
+  if (t.companion && !t.no_field && !t.main_db.empty() && std::isfinite(t.peak_db)) {
     double worst = -kInf;
     for (std::size_t k = 0; k < t.main_db.size(); ++k)
       if (t.main_db[k] >= t.peak_db - 3.0)
         worst = std::max(worst, t.companion_db[k] - t.main_db[k]);
-    if (std::isfinite(worst))
+    // Below -300 dB the companion is zero up to rounding (~1e-16 of the field).
+    if (std::isfinite(worst) && worst < -300.0) worst = -kInf;
+    if (std::isinf(worst))
+      entry(Format("%s within the -3 dB beam: none (zero up to rounding)",
+                   t.companion == Quantity::kCross   ? "cross"
+                   : t.companion == Quantity::kCo    ? "co"
+                   : t.companion == Quantity::kTheta ? "E_theta"
+                                                     : "E_phi"));
+    else
       entry(Format("%s within the -3 dB beam: at most %.1f dB relative to %s",
                    t.companion == Quantity::kCross   ? "cross"
                    : t.companion == Quantity::kCo    ? "co"
@@ -271,8 +267,10 @@ void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, doub
                    : t.main == Quantity::kTheta ? "E_theta"
                                                 : "E_phi"));
   }
-  entry(
-      Format("floor: %g dB below the cut's peak; lower values are drawn at the floor", t.floor_db));
+  entry(Format(t.no_field
+                   ? "floor: %g dB below the pattern's peak"
+                   : "floor: %g dB below the cut's peak; lower values are drawn at the floor",
+               t.floor_db));
 }
 
 }  // namespace lobecast::plot

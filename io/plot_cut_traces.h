@@ -51,7 +51,16 @@ struct CutTraces {
   double floor_db = 40;  // dB below the cut's peak
   std::vector<std::string> title_lines;
   BeamFigures beam;
+  // The cut's largest value (either trace) is below kNoFieldInCutRatio of the whole
+  // pattern's peak directivity: the field here is zero up to rounding (the horizon over
+  // PEC for horizontal dipoles, ~-310 dBi of noise). The plots then draw no trace and
+  // say "no field in this cut (zero up to rounding)".
+  bool no_field = false;
 };
+// 1e-24 in power: a field below 1e-12 of the pattern's peak field (-240 dB). Rounding
+// noise of the element sum is ~1e-16 relative; a designed null is rarely below -100 dB.
+inline constexpr double kNoFieldInCutRatio = 1e-24;
+inline constexpr const char* kNoFieldInCutText = "no field in this cut (zero up to rounding)";
 
 // The main trace of a cut: the asked quantity; unset, co (against cross) when
 // --reference is given or the directivity peak lies within 45 deg of the z axis

@@ -56,6 +56,32 @@ std::string ArrayLine(const StoredResult& r) {
          (r.array.ground == Ground::kPec ? "PEC ground z = 0" : "free space");
 }
 
+std::vector<std::string> WrapText(const Canvas& c, const std::string& text, double size_px,
+                                  double width_px, bool bold) {
+  std::vector<std::string> lines;
+  std::string line, word;
+  auto flush_word = [&] {
+    if (word.empty()) return;
+    const std::string candidate = line.empty() ? word : line + " " + word;
+    if (!line.empty() && c.TextWidth(candidate, size_px, bold) > width_px) {
+      lines.push_back(line);
+      line = word;
+    } else {
+      line = candidate;
+    }
+    word.clear();
+  };
+  for (char ch : text) {
+    if (ch == ' ')
+      flush_word();
+    else
+      word += ch;
+  }
+  flush_word();
+  if (!line.empty()) lines.push_back(line);
+  return lines;
+}
+
 double DrawTitleBlock(const Canvas& c, const std::vector<std::string>& lines) {
   const double f = c.font_px();
   const double x = 0.8 * f;
@@ -63,8 +89,10 @@ double DrawTitleBlock(const Canvas& c, const std::vector<std::string>& lines) {
   c.SetColour(TextColour());
   for (std::size_t i = 0; i < lines.size(); ++i) {
     const double size = i == 0 ? 1.15 * f : f;
-    c.Text(x, y, lines[i], size, HAlign::kLeft, VAlign::kTop, i == 0);
-    y += 1.35 * size;
+    for (const std::string& part : WrapText(c, lines[i], size, c.width() - 2 * x, i == 0)) {
+      c.Text(x, y, part, size, HAlign::kLeft, VAlign::kTop, i == 0);
+      y += 1.35 * size;
+    }
   }
   return y + 0.3 * f;
 }

@@ -25,8 +25,14 @@ std::string Format(const char* fmt, ...) __attribute__((format(printf, 1, 2)));
 // element count and ground: "Kestrel Row calibration probe - 433.92 MHz, 1 dipole, free space".
 std::string ArrayLine(const StoredResult& r);
 
+// Splits `text` into lines no wider than `width_px` at spaces (a single word
+// wider than that keeps a line of its own).
+std::vector<std::string> WrapText(const Canvas& c, const std::string& text, double size_px,
+                                  double width_px, bool bold = false);
+
 // Draws the title block at the top left: the first line bold, the rest
-// regular. Returns the y just below it (px).
+// regular, each wrapped to the canvas width less equal margins on both sides.
+// Returns the y just below it (px).
 double DrawTitleBlock(const Canvas& c, const std::vector<std::string>& lines);
 
 // Trace styles: the main trace, its companion (co/cross), guides.

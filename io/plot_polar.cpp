@@ -75,15 +75,6 @@ PolarGeometry DrawPolar(const Canvas& c, const StoredResult& r, const PlotOption
   c.Text(g.centre_x_px, g.centre_y_px - g.radius_px - 2.3 * f,
          g.theta_cut ? "phi (deg)" : "theta (deg); +z up", 0.9 * f, HAlign::kCentre,
          VAlign::kMiddle);
-  // Ring labels along a ray between two spokes.
-  const double label_angle = g.theta_cut ? 75.0 : 15.0;
-  for (double v : rings) {
-    double x, y;
-    g.PointOf(label_angle, v, &x, &y);
-    c.SetColour(TextColour());
-    c.BoxedText(x, y, Tick(v), 0.85 * f, HAlign::kCentre, VAlign::kMiddle);
-  }
-
   // -3 dB level.
   const double half = g.peak_db - 3.0;
   if (half > g.db_floor) {
@@ -102,11 +93,28 @@ PolarGeometry DrawPolar(const Canvas& c, const StoredResult& r, const PlotOption
       return p;
     });
   };
-  if (!t.companion_db.empty()) draw_trace(t.companion_db, CompanionTraceColour(), 1.8);
-  draw_trace(t.main_db, MainTraceColour(), 2.4);
+  if (!t.no_field) {
+    if (!t.companion_db.empty()) draw_trace(t.companion_db, CompanionTraceColour(), 1.8);
+    draw_trace(t.main_db, MainTraceColour(), 2.4);
+  }
+
+  // Ring labels with their unit along a ray between two spokes, over the traces on an
+  // opaque box, so a trace never hides a label's minus sign.
+  const double label_angle = g.theta_cut ? 75.0 : 15.0;
+  for (double v : rings) {
+    double x, y;
+    g.PointOf(label_angle, v, &x, &y);
+    c.SetColour(TextColour());
+    c.BoxedText(x, y, Tick(v) + " " + t.units, 0.85 * f, HAlign::kCentre, VAlign::kMiddle, 1.0);
+  }
+  if (t.no_field) {
+    c.SetColour(TextColour());
+    c.BoxedText(g.centre_x_px, g.centre_y_px + 0.35 * g.radius_px, kNoFieldInCutText, f,
+                HAlign::kCentre, VAlign::kMiddle, 1.0);
+  }
 
   // Peak marker.
-  if (t.peak_index < t.main_db.size()) {
+  if (!t.no_field && t.peak_index < t.main_db.size()) {
     double x, y;
     g.PointOf(t.cut.angle_deg[t.peak_index], t.main_db[t.peak_index], &x, &y);
     c.SetColour(MarkerColour());

@@ -459,6 +459,109 @@ TEST(PlotPixels, PolarizationMapShowsLinearForTheDipoleAndRightHandAtTheTurnstil
   }
 }
 
+TEST(PlotPixels, CutWithNoFieldDrawsNoTraceAndSaysSo) {
+  // planar-4x4-ground: horizontal dipoles over PEC, so the horizon (theta = 90) has a
+  // field that is zero up to rounding (~1e-16 of the peak field, -310 dBi noise); the
+  // theta = 60 cone has a real pattern.
+  const StoredResult r = ReadResult(ResultFor("planar-4x4-ground").string());
+  for (bool normalized : {false, true}) {
+    PlotOptions o;
+    o.kind = PlotKind::kPolar;
+    o.cut = *CutSpecFromString("theta=90");
+    o.normalized = normalized;
+    const CutTraces t = MakeCutTraces(r, o);
+    EXPECT_TRUE(t.no_field);
+    const fs::path out =
+        ReviewDir() / (std::string("pixel-polar-no-field") + (normalized ? "-norm" : "") + ".png");
+    const PolarGeometry g = WritePlot(r, o, out.string()).polar;
+    const RasterImage img = ReadPng(out.string());
+    // No trace inside the plot circle (the legend swatch lies outside it).
+    int trace_px = 0;
+    for (int y = 0; y < img.height; ++y)
+      for (int x = 0; x < img.width; ++x)
+        if (std::hypot(x + 0.5 - g.centre_x_px, y + 0.5 - g.centre_y_px) < g.radius_px &&
+            (ChannelDistance(img.At(x, y), MainTraceColour()) <= 12 ||
+             ChannelDistance(img.At(x, y), CompanionTraceColour()) <= 12))
+          ++trace_px;
+    EXPECT_EQ(trace_px, 0) << out;
+  }
+  PlotOptions o;
+  o.kind = PlotKind::kCartesian;
+  o.cut = *CutSpecFromString("theta=60");
+  EXPECT_FALSE(MakeCutTraces(r, o).no_field);
+  o.cut = *CutSpecFromString("theta=90");
+  WritePlot(r, o, (ReviewDir() / "pixel-cartesian-no-field.png").string());
+}
+
+TEST(PlotPixels, PolarRingLabelsSitOverTheTraces) {
+  // planar-4x4-ground, theta = 60 cone: the co-pol trace crosses the ring-label ray
+  // (phi = 75 deg on a theta cut) near the -30 dBi ring. The labels are drawn over the
+  // traces on an opaque box, so no trace pixel shows at a label's centre (where "-" of
+  // "-30 dBi" would otherwise be hidden).
+  const StoredResult r = ReadResult(ResultFor("planar-4x4-ground").string());
+  PlotOptions o;
+  o.kind = PlotKind::kPolar;
+  o.cut = *CutSpecFromString("theta=60");
+  const fs::path out = ReviewDir() / "pixel-polar-ring-labels.png";
+  const PolarGeometry g = WritePlot(r, o, out.string()).polar;
+  const RasterImage img = ReadPng(out.string());
+  const double step = DbLabelStep(g.db_top - g.db_floor);
+  int rings = 0;
+  for (double v = g.db_top; v > g.db_floor + 0.25 * step; v -= step, ++rings) {
+    double x, y;
+    g.PointOf(75.0, v, &x, &y);
+    int trace_px = 0;
+    for (int yy = static_cast<int>(y) - 3; yy <= static_cast<int>(y) + 3; ++yy)
+      for (int xx = static_cast<int>(x) - 12; xx <= static_cast<int>(x) + 12; ++xx)
+        if (ChannelDistance(img.At(xx, yy), MainTraceColour()) <= 40 ||
+            ChannelDistance(img.At(xx, yy), CompanionTraceColour()) <= 40)
+          ++trace_px;
+    EXPECT_EQ(trace_px, 0) << "ring " << v << " dBi label at " << x << ", " << y;
+  }
+  EXPECT_GE(rings, 4);
+}
+
+TEST(PlotPixels, TitleBlockIsNotClippedAtTheRightEdge) {
+  // The longest subtitles (a normalized co/cross cut, the u-v polarization map, the
+  // samples with long names) at 800x600: the title band keeps a white right margin, so
+  // no text runs off the canvas.
+  for (const std::string& sample : Samples()) {
+    const StoredResult r = ReadResult(ResultFor(sample).string());
+    struct Case {
+      std::string name;
+      PlotOptions o;
+    };
+    std::vector<Case> cases;
+    for (PlotKind k : {PlotKind::kCartesian, PlotKind::kPolar}) {
+      PlotOptions o;
+      o.kind = k;
+      o.cut = *CutSpecFromString("phi=90");
+      o.normalized = true;
+      o.reference = ReferenceChoice{false, PolarizationReference::kLinearX};
+      cases.push_back({std::string(ToString(k)) + "-normalized-co", o});
+    }
+    for (MapProjection p : {MapProjection::kUv, MapProjection::kThetaPhi, MapProjection::kAzEl}) {
+      PlotOptions o;
+      o.kind = PlotKind::kPolarization;
+      o.projection = p;
+      cases.push_back({"polarization-" + std::string(ToString(p)), o});
+      o.kind = PlotKind::kMap;
+      cases.push_back({"map-" + std::string(ToString(p)), o});
+    }
+    for (const Case& c : cases) {
+      const fs::path out = WorkDir() / ("title-" + sample + "-" + c.name + ".png");
+      WritePlot(r, c.o, out.string());
+      const RasterImage img = ReadPng(out.string());
+      const int margin = 6;  // px; the title starts 10 px from the left edge
+      int ink = 0;
+      for (int y = 0; y < 60; ++y)
+        for (int x = img.width - margin; x < img.width; ++x)
+          if (ChannelDistance(img.At(x, y), Colour{1, 1, 1, 1}) > 40) ++ink;
+      EXPECT_EQ(ink, 0) << out;
+    }
+  }
+}
+
 // ---------------------------------------------------------------------------
 // The command line
 
