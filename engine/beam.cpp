@@ -293,10 +293,19 @@ BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tang
   return c;
 }
 
-FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity) {
+FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
+                          double tolerance_rad) {
   FrontToBack f;
-  const Vec3 back = -peak;
-  const Vec3 behind(-peak.x(), -peak.y(), peak.z());
+  auto grazing_onto_horizon = [&](Vec3 r) {
+    if (probe.array().ground == Ground::kPec && r.z() < 0.0 &&
+        r.z() >= -std::max(tolerance_rad, 1e-12) && std::hypot(r.x(), r.y()) > 0.0) {
+      r.z() = 0.0;
+      r.normalize();
+    }
+    return r;
+  };
+  const Vec3 back = grazing_onto_horizon(-peak);
+  const Vec3 behind = grazing_onto_horizon(Vec3(-peak.x(), -peak.y(), peak.z()));
   const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{back, behind});
   f.back_direction = ToDirectionDeg(back);
   f.same_elevation_back_direction = ToDirectionDeg(behind);

@@ -54,7 +54,11 @@ double CutStepRad(const PatternProbe& probe, const Vec3& peak, const Vec3& tange
 BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
                    double peak_directivity, const AnalysisOptions& options);
 
-FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity);
+// Over a PEC ground, a back direction within tolerance_rad below the ground plane (the
+// opposite of a peak on the horizon, tilted a hair down by rounding) is taken on the
+// horizon: the field there is not the zero below the ground.
+FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
+                          double tolerance_rad);
 
 // Direction in degrees, phi in [0, 360) (0 on a pole).
 DirectionDeg ToDirectionDeg(const Vec3& r_hat);

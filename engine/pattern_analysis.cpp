@@ -119,7 +119,7 @@ PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_res
   const LocalChart chart(peak);
   out.elevation_cut = AnalyzeCut(probe, peak, chart.e1(), dp, options);
   out.orthogonal_cut = AnalyzeCut(probe, peak, chart.e2(), dp, options);
-  out.front_to_back = FrontToBackOf(probe, peak, dp);
+  out.front_to_back = FrontToBackOf(probe, peak, dp, options.refine_tolerance_deg * kDegree);
 
   const GridNeighbours neighbours(grid_result.grid, array.ground);
   std::vector<double> d(grid_result.directivity.data(),
