@@ -22,7 +22,7 @@ std::string Tick(double v);
 std::string Format(const char* fmt, ...) __attribute__((format(printf, 1, 2)));
 
 // The array's name (or the input file's stem, or "unnamed array"), frequency,
-// element count and ground: "Kestrel Row calibration probe - 433.92 MHz, 1 dipole, free space".
+// element count and ground: "Orrindale Lane calibration probe - 433.92 MHz, 1 dipole, free space".
 std::string ArrayLine(const StoredResult& r);
 
 // Splits `text` into lines no wider than `width_px` at spaces (a single word
