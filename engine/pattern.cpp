@@ -67,35 +67,57 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
     throw InvalidArgument(m.str());
   }
 
-  t0 = Clock::now();
-  const FieldPlan plan(array, Directions::FromGrid(grid), field_options);
-  s.method_requested = std::string(ToString(options.method));
-  s.method = std::string(ToString(plan.method_used()));
-  s.num_sources = plan.num_sources();
-  s.num_directions = plan.num_directions();
-  s.seconds_plan = SecondsSince(t0);
-
-  t0 = Clock::now();
-  const std::size_t n = plan.num_directions();
+  // The grid is planned and computed in blocks of whole theta rows, so the plan's
+  // per-direction data (unit vectors, fast-path buffers) is bounded by the block,
+  // not the grid: peak memory is the result itself plus O(block + N). A grid up
+  // to block_directions is one block, exactly as one plan over the whole grid.
+  const std::size_t n = grid.size();
+  const std::size_t np = grid.phi_deg.size();
+  const std::size_t rows_per_block =
+      std::max<std::size_t>(1, std::max<std::size_t>(1, options.block_directions) / np);
   r.field.e_theta.resize(static_cast<Eigen::Index>(n));
   r.field.e_phi.resize(static_cast<Eigen::Index>(n));
-  // Chunks only so progress can be reported; each is an independent plan execution.
-  // The fast path transforms every direction at once, so it runs as one chunk.
-  const std::size_t chunk =
-      plan.method_used() == FieldMethod::kFast
-          ? n
-          : std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan.num_sources()));
+  s.method_requested = std::string(ToString(options.method));
+  bool any_fast = false;
   FarField part;
-  for (std::size_t first = 0; first < n; first += chunk) {
-    const std::size_t count = std::min(chunk, n - first);
-    plan.ExecuteRange(currents, first, count, part);
-    r.field.e_theta.segment(static_cast<Eigen::Index>(first), static_cast<Eigen::Index>(count)) = part.e_theta;
-    r.field.e_phi.segment(static_cast<Eigen::Index>(first), static_cast<Eigen::Index>(count)) = part.e_phi;
-    if (options.progress) options.progress(static_cast<double>(first + count) / static_cast<double>(n));
+  for (std::size_t row = 0; row < grid.theta_deg.size(); row += rows_per_block) {
+    auto tb = Clock::now();
+    const std::size_t rows = std::min(rows_per_block, grid.theta_deg.size() - row);
+    AngularGrid block;
+    block.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
+                           grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
+    block.phi_deg = grid.phi_deg;
+    const FieldPlan plan(array, Directions::FromGrid(block), field_options);
+    s.seconds_plan += SecondsSince(tb);
+    tb = Clock::now();
+    s.num_sources = plan.num_sources();
+    const bool fast = plan.method_used() == FieldMethod::kFast;
+    any_fast = any_fast || fast;
+    // Sub-chunks only so progress can be reported; the fast path transforms the
+    // whole block at once, so it runs as one.
+    const std::size_t nb = plan.num_directions();
+    const std::size_t chunk =
+        fast ? nb
+             : std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan.num_sources()));
+    const std::size_t offset = row * np;
+    for (std::size_t first = 0; first < nb; first += chunk) {
+      const std::size_t count = std::min(chunk, nb - first);
+      plan.ExecuteRange(currents, first, count, part);
+      const auto at = static_cast<Eigen::Index>(offset + first);
+      const auto len = static_cast<Eigen::Index>(count);
+      r.field.e_theta.segment(at, len) = part.e_theta;
+      r.field.e_phi.segment(at, len) = part.e_phi;
+      if (options.progress) {
+        options.progress(static_cast<double>(offset + first + count) / static_cast<double>(n));
+      }
+    }
+    s.field_error_bound_relative =
+        std::max(s.field_error_bound_relative, plan.error_bound_relative());
+    s.seconds_field += SecondsSince(tb);
   }
-  s.pairs = static_cast<double>(n) * static_cast<double>(plan.num_sources());
-  s.field_error_bound_relative = plan.error_bound_relative();
-  s.seconds_field = SecondsSince(t0);
+  s.method = any_fast ? "fast" : "direct";
+  s.num_directions = n;
+  s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
 
   t0 = Clock::now();
   const auto nn = static_cast<Eigen::Index>(n);
@@ -122,7 +144,6 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   s.peak_directivity = r.directivity.maxCoeff();
   Eigen::Index peak = 0;
   while (r.directivity[peak] < s.peak_directivity * (1.0 - 1e-9)) ++peak;
-  const std::size_t np = grid.phi_deg.size();
   s.peak_theta_deg = grid.theta_deg[static_cast<std::size_t>(peak) / np];
   s.peak_phi_deg = grid.phi_deg[static_cast<std::size_t>(peak) % np];
   s.seconds_polarization = SecondsSince(t0);

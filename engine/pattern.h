@@ -28,6 +28,11 @@ struct PatternOptions {
   // empty, unless store_resistance_matrix asks for it anyway.
   std::size_t resistance_matrix_max_dipoles = 4096;
   bool store_resistance_matrix = false;
+  // The grid is planned and computed in blocks of whole theta rows of about this
+  // many directions, bounding the plan's memory (~100 bytes per direction) on
+  // large grids. The result does not depend on it beyond the fast path's tolerance
+  // (each block's fast transform meets it relative to that block's peak).
+  std::size_t block_directions = std::size_t{1} << 20;
   // Called with the fraction done (0..1) between chunks of directions; may be empty.
   // The engine never prints; the CLI draws its progress bar from this.
   std::function<void(double)> progress;
