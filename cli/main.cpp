@@ -49,6 +49,9 @@ int main(int argc, char** argv) {
   } catch (const lobecast::InvalidArgument& e) {
     std::fprintf(stderr, "lobecast: invalid input: %s\n", e.what());
     return kExitBadInput;
+  } catch (const lobecast::NotAResultError& e) {
+    std::fprintf(stderr, "lobecast: %s\n", e.what());
+    return kExitBadInput;
   } catch (const lobecast::IoError& e) {
     std::fprintf(stderr, "lobecast: %s\n", e.what());
     return kExitFailure;

@@ -192,7 +192,7 @@ Handle OpenFileReadOnly(const std::string& path) {
   const htri_t is_hdf5 = H5Fis_hdf5(path.c_str());
   if (is_hdf5 == 0) {
     H5Eclear2(H5E_DEFAULT);
-    throw IoError(path, "not an HDF5 file, so not a lobecast result file");
+    throw NotAResultError(path, "not an HDF5 file, so not a lobecast result file");
   }
   if (is_hdf5 < 0) Fail(path, "cannot open the file");
   Handle fapl(H5Pcreate(H5P_FILE_ACCESS));

@@ -25,4 +25,12 @@ class IoError : public std::runtime_error {
   std::string detail_;
 };
 
+// A file given where a lobecast result was expected is not one: not HDF5, another
+// program's HDF5, or a newer schema version. That is bad input (exit 2), unlike
+// an I/O failure while reading a genuine result (exit 1).
+class NotAResultError : public IoError {
+ public:
+  using IoError::IoError;
+};
+
 }  // namespace lobecast

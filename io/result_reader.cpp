@@ -77,13 +77,13 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   const std::string format =
       hdf5::HasAttribute(root, "format") ? hdf5::ReadStringAttribute(root, "format") : "";
   if (format != kResultFormat) {
-    throw IoError(path, "not a lobecast result file (root attribute format is " +
+    throw NotAResultError(path, "not a lobecast result file (root attribute format is " +
                             (format.empty() ? std::string("missing") : "\"" + format + "\"") +
                             ", expected \"" + std::string(kResultFormat) + "\")");
   }
   const std::int64_t version = hdf5::ReadIntAttribute(root, "format_version");
   if (version > kResultFormatVersion) {
-    throw IoError(path, "format_version " + std::to_string(version) +
+    throw NotAResultError(path, "format_version " + std::to_string(version) +
                             " is newer than this lobecast (reads " +
                             std::to_string(kResultFormatVersion) + ")");
   }
@@ -258,6 +258,9 @@ StoredResult ReadResult(const std::string& path) {
   Handle file = hdf5::OpenFileReadOnly(path);
   try {
     return ReadOpen(path, file);
+  } catch (const NotAResultError& e) {
+    if (e.path() == path) throw;
+    throw NotAResultError(path, e.detail());
   } catch (const IoError& e) {
     if (e.path() == path) throw;
     throw IoError(path, e.detail());

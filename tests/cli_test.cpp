@@ -215,6 +215,17 @@ TEST(Cli, FailureWhileWritingExitsOneAndLeavesNothing) {
   }
 }
 
+TEST(Cli, AnArrayFileWhereAResultIsExpectedIsBadInput) {
+  // report/export/plot read result files; handing them the TOML is a user slip
+  // (exit 2), not a failure while running.
+  const std::string toml = std::string(LOBECAST_SAMPLES) + "/turnstile.toml";
+  const RunOutput report = RunCommand(std::string(LOBECAST_EXE) + " report " + Quote(toml));
+  EXPECT_EQ(report.exit_code, 2) << report.out;
+  EXPECT_THAT(report.out, HasSubstr("not an HDF5 file"));
+  const RunOutput exp = RunCommand(std::string(LOBECAST_EXE) + " export " + Quote(toml));
+  EXPECT_EQ(exp.exit_code, 2) << exp.out;
+}
+
 TEST(Cli, CheckRejectsCurrentsThatOverflow) {
   const fs::path dir = WorkDir("overflow");
   const fs::path toml = dir / "huge.toml";
