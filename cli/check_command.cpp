@@ -3,12 +3,10 @@
 #include <memory>
 #include <string>
 
-#include <cmath>
-
 #include "cli/commands.h"
-#include "engine/error.h"
-#include "engine/power_large.h"
 #include "cli/summary_text.h"
+#include "engine/power_large.h"
+#include "engine/radiated_power.h"
 #include "io/array_reader.h"
 
 namespace lobecast::cli {
@@ -28,12 +26,7 @@ void AddCheckCommand(CLI::App& app) {
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
     // currents that cancel or overflow before anyone waits for a compute.
     const StreamedPower p = RadiatedPowerStreamed(desc.array, CurrentsOf(desc.array));
-    if (!std::isfinite(p.radiated_power_w) || !(p.radiated_power_w > 0)) {
-      throw InvalidArgument("currents: the array radiates " +
-                            std::to_string(p.radiated_power_w) +
-                            " W; expected a finite power > 0 (currents of a physical size "
-                            "that do not cancel exactly)");
-    }
+    CheckRadiatedPower(p.radiated_power_w);
     std::printf("power        %.6g W radiated for the given currents (closed form)\n",
                 p.radiated_power_w);
     std::printf("ok           %s is a valid array description\n", input->c_str());

@@ -95,12 +95,7 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     << " phi = " << sm.num_directions << " directions\n";
 
   // Peak on the grid, and the polarization there.
-  Eigen::Index peak = 0;  // the grid point ComputePattern reported as the peak
-  const std::size_t np = r.grid.phi_deg.size();
-  while (r.grid.theta_deg[static_cast<std::size_t>(peak) / np] != sm.peak_theta_deg ||
-         r.grid.phi_deg[static_cast<std::size_t>(peak) % np] != sm.peak_phi_deg) {
-    ++peak;
-  }
+  const Eigen::Index peak = PeakIndex(r.directivity);  // the peak the summary reports
   const auto ip = static_cast<std::size_t>(peak);
   s << "peak         D = " << FormatDb(sm.peak_directivity) << " dBi ("
     << Printf("%.6g", sm.peak_directivity) << ") at " << FormatDirection(sm.peak_theta_deg, sm.peak_phi_deg)
@@ -154,19 +149,18 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
 
 std::string SafetyNote() {
   // kSafetyNote wrapped at about 88 columns under a "note: " prefix.
-  std::string out = "note: ";
+  std::string out = "note:";
   std::size_t column = out.size();
   std::istringstream words{std::string(kSafetyNote)};
   std::string w;
   while (words >> w) {
-    if (column + w.size() + 1 > 88) {
-      out += "\n     ";
+    if (column + 1 + w.size() > 88) {
+      out += "\n     ";  // continuation lines align under the first word
       column = 5;
     }
     out += " " + w;
-    column += w.size() + 1;
+    column += 1 + w.size();
   }
-  out.erase(5, 1);  // "note:  These" -> "note: These"
   return out + "\n";
 }
 

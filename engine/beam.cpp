@@ -1,6 +1,8 @@
 // Main beam: peak, principal-plane beamwidths, front-to-back (beam.h).
 #include "engine/beam.h"
 
+#include "engine/pattern.h"
+
 #include <algorithm>
 #include <cmath>
 #include <limits>
@@ -161,12 +163,8 @@ RefinedMaximum RefineMaximum(const PatternProbe& probe, const Vec3& start, doubl
 MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,
                         const Eigen::VectorXd& grid_directivity, const AnalysisOptions& options,
                         Vec3* peak_r_hat) {
-  // Ties (within rounding) go to the first grid point, i.e. the smallest theta:
-  // a planar array's twin beams at theta and 180 - theta are equal, and the upper
-  // one is where Ludwig-3 references (defined about +z) mean what users expect.
-  const double grid_max = grid_directivity.maxCoeff();
-  Eigen::Index best = 0;
-  while (grid_directivity[best] < grid_max * (1.0 - 1e-9)) ++best;
+  const Eigen::Index best = PeakIndex(grid_directivity);
+  const double grid_max = grid_directivity[best];
   const std::size_t np = grid.phi_deg.size();
   const double t0 = grid.theta_deg[static_cast<std::size_t>(best) / np];
   const double p0 = grid.phi_deg[static_cast<std::size_t>(best) % np];

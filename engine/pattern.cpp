@@ -23,6 +23,13 @@ double SecondsSince(Clock::time_point t0) {
 
 }  // namespace
 
+Eigen::Index PeakIndex(const Eigen::VectorXd& directivity) {
+  const double max = directivity.maxCoeff();
+  Eigen::Index i = 0;
+  while (directivity[i] < max * (1.0 - 1e-9)) ++i;
+  return i;
+}
+
 PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
                              const PatternOptions& options) {
   Validate(array);
@@ -54,18 +61,7 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   }
   s.radiated_power_w = r.radiated_power_w;
   s.seconds_power = SecondsSince(t0);
-  if (!std::isfinite(r.radiated_power_w)) {
-    throw InvalidArgument(
-        "currents: the radiated power overflows a double (found " +
-        std::to_string(r.radiated_power_w) +
-        " W); expected currents of a physical size (A peak)");
-  }
-  if (!(r.radiated_power_w > 0)) {
-    std::ostringstream m;
-    m << "currents: the array radiates " << r.radiated_power_w
-      << " W, so directivity is undefined; expected at least one non-zero current";
-    throw InvalidArgument(m.str());
-  }
+  CheckRadiatedPower(r.radiated_power_w);
 
   // The grid is planned and computed in blocks of whole theta rows, so the plan's
   // per-direction data (unit vectors, fast-path buffers) is bounded by the block,
@@ -73,8 +69,7 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   // to block_directions is one block, exactly as one plan over the whole grid.
   const std::size_t n = grid.size();
   const std::size_t np = grid.phi_deg.size();
-  const std::size_t rows_per_block =
-      std::max<std::size_t>(1, std::max<std::size_t>(1, options.block_directions) / np);
+  const std::size_t rows_per_block = std::max<std::size_t>(1, options.block_directions / np);
   r.field.e_theta.resize(static_cast<Eigen::Index>(n));
   r.field.e_phi.resize(static_cast<Eigen::Index>(n));
   s.method_requested = std::string(ToString(options.method));
@@ -139,11 +134,8 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
     r.tilt_deg[i] = p.tilt_deg;
     r.sense[static_cast<std::size_t>(i)] = p.sense;
   }
-  // Ties within rounding go to the first (smallest theta) grid point, as in the
-  // pattern analysis (beam.cpp), so twin beams report the upper one.
-  s.peak_directivity = r.directivity.maxCoeff();
-  Eigen::Index peak = 0;
-  while (r.directivity[peak] < s.peak_directivity * (1.0 - 1e-9)) ++peak;
+  const Eigen::Index peak = PeakIndex(r.directivity);
+  s.peak_directivity = r.directivity[peak];
   s.peak_theta_deg = grid.theta_deg[static_cast<std::size_t>(peak) / np];
   s.peak_phi_deg = grid.phi_deg[static_cast<std::size_t>(peak) % np];
   s.seconds_polarization = SecondsSince(t0);

@@ -73,6 +73,13 @@ struct PatternResult {
   ComputeSummary summary;
 };
 
+// The grid index of the directivity peak. Ties (within 1e-9 relative, i.e.
+// rounding) go to the first index, the smallest theta: a planar array's twin
+// beams at theta and 180 - theta are equal, and the upper one is where Ludwig-3
+// references (defined about +z) mean what users expect. Used by ComputePattern's
+// summary and by the pattern analysis, so both name the same beam.
+Eigen::Index PeakIndex(const Eigen::VectorXd& directivity);
+
 // Throws InvalidArgument for an invalid array or grid, or when the currents
 // radiate no power (directivity undefined).
 PatternResult ComputePattern(const Array& array, const AngularGrid& grid,

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <string>
 
 #include <omp.h>
 
@@ -105,6 +106,21 @@ double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorX
   // R is real symmetric, so I^H R I = a^T R a + b^T R b with I = a + j b.
   const Eigen::VectorXd a = currents_a.real(), b = currents_a.imag();
   return 0.5 * (a.dot(resistance_ohm * a) + b.dot(resistance_ohm * b));
+}
+
+void CheckRadiatedPower(double p) {
+  if (!std::isfinite(p)) {
+    throw InvalidArgument("currents: the radiated power overflows a double (found " +
+                          std::to_string(p) +
+                          " W); expected currents of a physical size (A peak)");
+  }
+  if (!(p > 0)) {
+    std::ostringstream m;
+    m << "currents: the array radiates " << p
+      << " W, so directivity is undefined; expected at least one non-zero current (and "
+         "currents that do not cancel exactly)";
+    throw InvalidArgument(m.str());
+  }
 }
 
 Eigen::VectorXd ActiveResistance(const Eigen::MatrixXd& resistance_ohm,

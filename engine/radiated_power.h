@@ -35,6 +35,10 @@ Eigen::MatrixXd ResistanceMatrix(const Array& array);
 // P = 1/2 Re(I^H R I), W.
 double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a);
 
+// Throws InvalidArgument unless P is finite and > 0: currents so large the power
+// overflows, or none (or exactly cancelling ones), leave directivity undefined.
+void CheckRadiatedPower(double radiated_power_w);
+
 // Active (driving-point) resistance Re(sum_n R_mn I_n / I_m), ohm; NaN where I_m = 0.
 Eigen::VectorXd ActiveResistance(const Eigen::MatrixXd& resistance_ohm,
                                  const Eigen::VectorXcd& currents_a);

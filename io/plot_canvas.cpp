@@ -21,6 +21,12 @@ namespace {
 
 constexpr const char* kFontFace = "DejaVu Sans";
 
+void SelectFont(cairo_t* cr, double size_px, bool bold) {
+  cairo_select_font_face(cr, kFontFace, CAIRO_FONT_SLANT_NORMAL,
+                         bold ? CAIRO_FONT_WEIGHT_BOLD : CAIRO_FONT_WEIGHT_NORMAL);
+  cairo_set_font_size(cr, size_px);
+}
+
 }  // namespace
 
 std::string_view ToString(ImageFormat f) {
@@ -151,9 +157,7 @@ void Canvas::SetColour(const Colour& c) const {
 double Canvas::TextWidth(std::string_view text, double size_px, bool bold) const {
   cairo_t* cr = impl_->cr;
   cairo_save(cr);
-  cairo_select_font_face(cr, kFontFace, CAIRO_FONT_SLANT_NORMAL,
-                         bold ? CAIRO_FONT_WEIGHT_BOLD : CAIRO_FONT_WEIGHT_NORMAL);
-  cairo_set_font_size(cr, size_px);
+  SelectFont(cr, size_px, bold);
   const std::string s(text);
   cairo_text_extents_t e;
   cairo_text_extents(cr, s.c_str(), &e);
@@ -165,9 +169,7 @@ double Canvas::Text(double x, double y, std::string_view text, double size_px, H
                     bool bold) const {
   cairo_t* cr = impl_->cr;
   cairo_save(cr);
-  cairo_select_font_face(cr, kFontFace, CAIRO_FONT_SLANT_NORMAL,
-                         bold ? CAIRO_FONT_WEIGHT_BOLD : CAIRO_FONT_WEIGHT_NORMAL);
-  cairo_set_font_size(cr, size_px);
+  SelectFont(cr, size_px, bold);
   const std::string s(text);
   cairo_text_extents_t e;
   cairo_text_extents(cr, s.c_str(), &e);

@@ -42,19 +42,30 @@ def rel(a, b):
     return float(np.max(np.abs(a - b)) / scale)
 
 
+def ground_of(f):
+    g = f["/array"].attrs["ground"]
+    return g.decode() if isinstance(g, bytes) else g
+
+
+def array_of(f):
+    """(frequency Hz, ground, k rad/m, positions, orientations, effective lengths, currents)."""
+    freq = f["/array"].attrs["frequency_hz"]
+    return (freq, ground_of(f), 2 * np.pi * freq / C0, f["/array/position"][...],
+            f["/array/orientation"][...], f["/array/effective_length"][...],
+            f["/array/current"][...])
+
+
+def images(pos, u):
+    """PEC images (CONVENTIONS §1): z mirrored, horizontal current components reversed."""
+    return pos * [1, 1, -1], u * [-1, -1, 1]
+
+
 def field_numpy(f):
     """rE by direct superposition, vectorized over directions (numpy)."""
-    freq = f["/array"].attrs["frequency_hz"]
-    ground = f["/array"].attrs["ground"]
-    ground = ground.decode() if isinstance(ground, bytes) else ground
-    k = 2 * np.pi * freq / C0
-    pos = f["/array/position"][...]
-    u = f["/array/orientation"][...]
-    le = f["/array/effective_length"][...]
-    cur = f["/array/current"][...]
+    freq, ground, k, pos, u, le, cur = array_of(f)
     if ground == "pec":
-        pos = np.vstack([pos, pos * [1, 1, -1]])
-        u = np.vstack([u, u * [-1, -1, 1]])
+        ipos, iu = images(pos, u)
+        pos, u = np.vstack([pos, ipos]), np.vstack([u, iu])
         le = np.concatenate([le, le])
         cur = np.concatenate([cur, cur])
     th = np.radians(f["/grid/theta_deg"][...])[:, None]
@@ -79,13 +90,7 @@ def field_numpy(f):
 
 
 def resistance_scipy(f):
-    freq = f["/array"].attrs["frequency_hz"]
-    ground = f["/array"].attrs["ground"]
-    ground = ground.decode() if isinstance(ground, bytes) else ground
-    k = 2 * np.pi * freq / C0
-    pos = f["/array/position"][...]
-    u = f["/array/orientation"][...]
-    le = f["/array/effective_length"][...]
+    _, ground, k, pos, u, le, _ = array_of(f)
 
     def block(pa, ua, pb, ub):
         d = pa[:, None, :] - pb[None, :, :]
@@ -101,7 +106,7 @@ def resistance_scipy(f):
 
     r = block(pos, u, pos, u)
     if ground == "pec":
-        r = r + block(pos, u, pos * [1, 1, -1], u * [-1, -1, 1])
+        r = r + block(pos, u, *images(pos, u))
     return k * k * ETA0 / (4 * np.pi) * np.outer(le, le) * r
 
 
@@ -149,7 +154,9 @@ def check_file(path, name):
         check(abs(p - p_py) < 1e-9 * p, f"{name}: power {p} vs numpy {p_py}")
 
         p_quad, th, ph = trapezoid_power(f)
-        full = abs(th[0]) < 1e-12 and abs(th[-1] - (np.pi if f["/array"].attrs["ground"] in ("none", b"none") else np.pi / 2)) < 1e-12 and abs(ph[-1] - ph[0] - 2 * np.pi) < 1e-12
+        theta_top = np.pi / 2 if ground_of(f) == "pec" else np.pi
+        full = (abs(th[0]) < 1e-12 and abs(th[-1] - theta_top) < 1e-12
+                and abs(ph[-1] - ph[0] - 2 * np.pi) < 1e-12)
         if full:
             check(abs(p_quad - p) < 2e-2 * p, f"{name}: trapezoid power {p_quad} vs closed form {p}")
         print(f"ok  {name}: D err ok, rE vs numpy {max(e1, e2):.1e}, R vs scipy {e:.1e}, "
