@@ -108,6 +108,47 @@ Range RangeOf(const Eigen::Matrix3Xd& m, int d) {
   return {0.5 * (lo + hi), 0.5 * (hi - lo)};
 }
 
+// Rejects a tolerance outside 1e-14 to 1e-1, naming it.
+void CheckTolerance(double tolerance) {
+  if (!(tolerance >= 1e-14 && tolerance <= 1e-1)) {
+    std::ostringstream m;
+    m << "nufft tolerance: found " << tolerance << ", expected 1e-14 to 1e-1";
+    throw InvalidArgument(m.str());
+  }
+}
+
+void CheckStrengths(const Eigen::MatrixXcd& c, Eigen::Index rows, const char* what) {
+  if (c.rows() != rows) {
+    std::ostringstream m;
+    m << "nufft " << what << ": found " << c.rows() << " rows, expected " << rows;
+    throw InvalidArgument(m.str());
+  }
+  if (c.cols() < 1 || c.cols() > 3) {
+    std::ostringstream m;
+    m << "nufft " << what << ": found " << c.cols() << " columns, expected 1 to 3";
+    throw InvalidArgument(m.str());
+  }
+}
+
+// Kernel weights and wrapped grid indices of a coordinate t (grid units) on a
+// periodic grid of size n, for a kernel w cells wide; an inactive dimension has
+// the single weight 1 at cell 0. Returns the number of weights.
+inline int KernelWeights(bool active, double beta, int w, double t, int n, double* wt, int* idx) {
+  if (!active) {
+    wt[0] = 1.0, idx[0] = 0;
+    return 1;
+  }
+  const int l0 = static_cast<int>(std::ceil(t - 0.5 * w));
+  for (int i = 0; i < w; ++i) {
+    const int l = l0 + i;
+    wt[i] = Kernel(beta, (l - t) * 2.0 / w);
+    idx[i] = ((l % n) + n) % n;
+  }
+  return w;
+}
+
+int Threads(int requested) { return requested > 0 ? requested : omp_get_max_threads(); }
+
 }  // namespace
 
 double NufftGeometry::kernel_points() const {
@@ -116,209 +157,104 @@ double NufftGeometry::kernel_points() const {
   return p;
 }
 
-NufftGeometry Nufft3::GeometryFor(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
-                                  double tolerance) {
-  if (!(tolerance >= 1e-14 && tolerance <= 1e-1)) {
-    std::ostringstream m;
-    m << "nufft tolerance: found " << tolerance << ", expected 1e-14 to 1e-1";
-    throw InvalidArgument(m.str());
-  }
+// ---- Type 2 ----------------------------------------------------------------
+
+NufftGeometry Nufft2::GeometryFor(const std::array<int, 3>& modes, double tolerance) {
+  CheckTolerance(tolerance);
   NufftGeometry g;
   g.kernel_width = WidthFor(tolerance);
-  for (int d = 0; d < 3; ++d) {
-    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
-    // Dropping exp(i s' x') costs at most |s' x'| <= X S relative to sum |c_j|.
-    if (x.half_width * s.half_width <= 1e-3 * tolerance) continue;
+  for (std::size_t d = 0; d < 3; ++d) {
+    if (modes[d] < 1) {
+      std::ostringstream m;
+      m << "nufft modes[" << d << "]: found " << modes[d] << ", expected 1 or more";
+      throw InvalidArgument(m.str());
+    }
+    if (modes[d] == 1) continue;
     ++g.active_dims;
-    const double h = kPi / (kUpsampling * s.half_width);
-    const int n = 2 * static_cast<int>(std::ceil(x.half_width / h + 0.5 * g.kernel_width + 1.0));
-    g.spread_size[static_cast<std::size_t>(d)] = n;
-    g.fft_size[static_cast<std::size_t>(d)] =
-        NextSmooth(static_cast<int>(std::ceil(kUpsampling * n)));
+    g.spread_size[d] = modes[d];
+    // At least two kernel widths: a few modes on a grid narrower than the kernel
+    // lose about a digit (measured: 3.8 eps for 2 and 3 modes at 1e-9).
+    g.fft_size[d] = NextSmooth(
+        std::max(static_cast<int>(std::ceil(kUpsampling * modes[d])), 2 * g.kernel_width));
   }
   return g;
 }
 
-Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
+std::size_t Nufft2::num_modes() const {
+  return static_cast<std::size_t>(modes_[0]) * static_cast<std::size_t>(modes_[1]) *
+         static_cast<std::size_t>(modes_[2]);
+}
+
+Nufft2::Nufft2(const std::array<int, 3>& modes, const Eigen::Matrix3Xd& targets,
                const NufftOptions& options)
-    : geometry_(GeometryFor(points, targets, options.tolerance)),
+    : geometry_(GeometryFor(modes, options.tolerance)),
+      modes_(modes),
       num_threads_(options.num_threads) {
   const int w = geometry_.kernel_width;
   // Barnett et al. 2019, sec. 4.1: beta = 2.30 w at sigma = 2.
   beta_ = 2.30 * w;
   const KernelTransform phi_hat(beta_, w);
-
-  Eigen::Vector3d cx = Eigen::Vector3d::Zero(), cs = Eigen::Vector3d::Zero();
-  for (int d = 0; d < 3; ++d) {
-    Dim& dim = dims_[static_cast<std::size_t>(d)];
-    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
-    dim.centre_x = cx[d] = x.centre;
-    dim.centre_s = cs[d] = s.centre;
-    dim.n = geometry_.spread_size[static_cast<std::size_t>(d)];
-    dim.n2 = geometry_.fft_size[static_cast<std::size_t>(d)];
-    dim.active = dim.n > 1;
-    if (dim.active) dim.h = kPi / (kUpsampling * s.half_width);
-  }
-  points_ = points.colwise() - cx;
-  targets_ = targets.colwise() - cs;
-
-  // exp(i s . x) = exp(i s . C) exp(i D . x') exp(i s' . x').
-  point_phase_.resize(points_.cols());
-  for (Eigen::Index j = 0; j < points_.cols(); ++j) {
-    const double p = cs.dot(points_.col(j));
-    point_phase_[j] = Complex(std::cos(p), std::sin(p));
-  }
-  // The grid's deconvolution h2 / psi2_hat(l), psi2_hat(xi) = alpha2 phi_hat(alpha2 xi),
+  // Deconvolution h2 / psi2_hat(l), psi2_hat(xi) = alpha2 phi_hat(alpha2 xi),
   // alpha2 = w h2 / 2, h2 = 2 pi / n2.
-  for (int d = 0; d < 3; ++d) {
-    const Dim& dim = dims_[static_cast<std::size_t>(d)];
-    std::vector<double>& dc = deconvolution_[static_cast<std::size_t>(d)];
-    dc.assign(static_cast<std::size_t>(dim.n), 1.0);
-    if (!dim.active) continue;
-    const double h2 = 2.0 * kPi / dim.n2, alpha2 = 0.5 * w * h2;
-    for (int i = 0; i < dim.n; ++i) {
-      const double l = i - dim.n / 2;
+  for (std::size_t d = 0; d < 3; ++d) {
+    std::vector<double>& dc = deconvolution_[d];
+    dc.assign(static_cast<std::size_t>(modes_[d]), 1.0);
+    if (modes_[d] == 1) continue;
+    const int n2 = geometry_.fft_size[d];
+    const double h2 = 2.0 * kPi / n2, alpha2 = 0.5 * w * h2;
+    for (int i = 0; i < modes_[d]; ++i) {
+      const double l = i - modes_[d] / 2;
       dc[static_cast<std::size_t>(i)] = h2 / (alpha2 * phi_hat(alpha2 * l));
     }
   }
-  // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi).
-  target_factor_.resize(targets_.cols());
-  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
-  const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
-#pragma omp parallel for num_threads(threads) schedule(static)
-  for (std::ptrdiff_t k = 0; k < m; ++k) {
-    double scale = 1.0;
+  // Targets in grid units, reduced to one period first so large t keep their digits.
+  targets_.resize(3, targets.cols());
+  for (Eigen::Index k = 0; k < targets.cols(); ++k) {
     for (int d = 0; d < 3; ++d) {
-      const Dim& dim = dims_[static_cast<std::size_t>(d)];
-      if (!dim.active) continue;
-      const double alpha = 0.5 * w * dim.h;
-      scale *= dim.h / (alpha * phi_hat(alpha * targets_(d, k)));
+      const int n2 = geometry_.fft_size[static_cast<std::size_t>(d)];
+      if (n2 == 1) {
+        targets_(d, k) = 0.0;
+        continue;
+      }
+      const double t = targets(d, k);
+      targets_(d, k) = (t - 2.0 * kPi * std::nearbyint(t / (2.0 * kPi))) * n2 / (2.0 * kPi);
     }
-    const double p = targets.col(k).dot(cx);
-    target_factor_[k] = scale * Complex(std::cos(p), std::sin(p));
-  }
-  // Internally the trivial dimensions come first, so the innermost (contiguous)
-  // grid loop always runs over an active dimension: planar arrays run as (x, y).
-  std::array<int, 3> order{0, 1, 2};
-  std::stable_partition(order.begin(), order.end(),
-                        [&](int d) { return !dims_[static_cast<std::size_t>(d)].active; });
-  const std::array<Dim, 3> dims = dims_;
-  const std::array<std::vector<double>, 3> deconvolution = deconvolution_;
-  const Eigen::Matrix3Xd p = points_, t = targets_;
-  for (int i = 0; i < 3; ++i) {
-    const auto o = static_cast<std::size_t>(order[static_cast<std::size_t>(i)]);
-    dims_[static_cast<std::size_t>(i)] = dims[o];
-    deconvolution_[static_cast<std::size_t>(i)] = deconvolution[o];
-    points_.row(i) = p.row(static_cast<Eigen::Index>(o));
-    targets_.row(i) = t.row(static_cast<Eigen::Index>(o));
   }
 }
 
-Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
-  if (strengths.rows() != points_.cols()) {
-    std::ostringstream m;
-    m << "nufft strengths: found " << strengths.rows() << " rows, expected one per point ("
-      << points_.cols() << ")";
-    throw InvalidArgument(m.str());
-  }
-  if (strengths.cols() < 1 || strengths.cols() > 3) {
-    std::ostringstream m;
-    m << "nufft strengths: found " << strengths.cols() << " columns, expected 1 to 3";
-    throw InvalidArgument(m.str());
-  }
+Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
+  CheckStrengths(coefficients, static_cast<Eigen::Index>(num_modes()), "coefficients");
   const int w = geometry_.kernel_width;
-  const auto nc = static_cast<int>(strengths.cols());
-  const std::array<int, 3> n2{dims_[0].n2, dims_[1].n2, dims_[2].n2};
+  const auto nc = static_cast<int>(coefficients.cols());
+  const std::array<int, 3>& n2 = geometry_.fft_size;
   const std::size_t plane = static_cast<std::size_t>(n2[1]) * static_cast<std::size_t>(n2[2]);
   const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
+  const int threads = Threads(num_threads_);
 
   auto* grid =
       static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
   if (!grid) throw std::bad_alloc();
   std::fill(grid, grid + cells * static_cast<std::size_t>(nc), Complex(0.0));
 
-  // Kernel weights and wrapped grid indices of one coordinate along dimension d;
-  // t is the coordinate in grid units of a grid of size n.
-  auto weights = [&](int d, double t, int n, double* wt, int* idx) {
-    if (!dims_[static_cast<std::size_t>(d)].active) {
-      wt[0] = 1.0, idx[0] = 0;
-      return 1;
-    }
-    const int l0 = static_cast<int>(std::ceil(t - 0.5 * w));
-    for (int i = 0; i < w; ++i) {
-      const int l = l0 + i;
-      wt[i] = Kernel(beta_, (l - t) * 2.0 / w);
-      idx[i] = ((l % n) + n) % n;
-    }
-    return w;
-  };
-
-  // 1. Spread c_j exp(i D . x'_j) onto the grid (cells l mod n2, |l| < n/2).
-  //    Threads own slabs of the grid along its first non-trivial dimension and
-  //    every thread visits the points in order, so each cell's sum runs in point
-  //    order whatever the thread count.
-  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
-  int slab_dim = 0;
-  while (slab_dim < 2 && n2[static_cast<std::size_t>(slab_dim)] == 1) ++slab_dim;
-  Eigen::MatrixXcd phased(points_.cols(), nc);
-  for (int c = 0; c < nc; ++c) phased.col(c) = strengths.col(c).cwiseProduct(point_phase_);
-#pragma omp parallel num_threads(threads)
-  {
-    const int t = omp_get_thread_num(), nt = omp_get_num_threads();
-    const int lo =
-        static_cast<int>(static_cast<long>(n2[static_cast<std::size_t>(slab_dim)]) * t / nt);
-    const int hi =
-        static_cast<int>(static_cast<long>(n2[static_cast<std::size_t>(slab_dim)]) * (t + 1) / nt);
-    double wt[3][kMaxWidth];
-    int idx[3][kMaxWidth];
-    for (Eigen::Index j = 0; j < points_.cols(); ++j) {
-      int len[3];
-      for (int d = 0; d < 3; ++d) {
-        len[d] = weights(d, points_(d, j) / dims_[static_cast<std::size_t>(d)].h,
-                         n2[static_cast<std::size_t>(d)], wt[d], idx[d]);
-        if (d == slab_dim) {  // keep only this thread's slab
-          int k = 0;
-          for (int i = 0; i < len[d]; ++i) {
-            if (idx[d][i] >= lo && idx[d][i] < hi) wt[d][k] = wt[d][i], idx[d][k] = idx[d][i], ++k;
-          }
-          len[d] = k;
-        }
-      }
-      if (len[slab_dim] == 0) continue;
-      for (int i0 = 0; i0 < len[0]; ++i0) {
-        for (int i1 = 0; i1 < len[1]; ++i1) {
-          const std::size_t base =
-              static_cast<std::size_t>(idx[0][i0]) * plane +
-              static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
-          const double w01 = wt[0][i0] * wt[1][i1];
-          for (int a = 0; a < nc; ++a) {
-            Complex* row = grid + static_cast<std::size_t>(a) * cells + base;
-            const Complex c = phased(j, a);
-            for (int i2 = 0; i2 < len[2]; ++i2) row[idx[2][i2]] += (w01 * wt[2][i2]) * c;
-          }
-        }
-      }
-    }
-  }
-  // 2. Deconvolve for the type-2 step (only the spread cells are non-zero).
-  for (int i0 = 0; i0 < dims_[0].n; ++i0) {
-    const int l0 = i0 - dims_[0].n / 2;
-    const std::size_t r0 = static_cast<std::size_t>((l0 + n2[0]) % n2[0]);
-    for (int i1 = 0; i1 < dims_[1].n; ++i1) {
-      const int l1 = i1 - dims_[1].n / 2;
-      const std::size_t r1 = static_cast<std::size_t>((l1 + n2[1]) % n2[1]);
+  // 1. Deconvolved modes into the zero-padded grid (mode l at cell l mod n2).
+  for (int i0 = 0; i0 < modes_[0]; ++i0) {
+    const std::size_t r0 = static_cast<std::size_t>((i0 - modes_[0] / 2 + n2[0]) % n2[0]);
+    for (int i1 = 0; i1 < modes_[1]; ++i1) {
+      const std::size_t r1 = static_cast<std::size_t>((i1 - modes_[1] / 2 + n2[1]) % n2[1]);
       const double d01 = deconvolution_[0][static_cast<std::size_t>(i0)] *
                          deconvolution_[1][static_cast<std::size_t>(i1)];
-      for (int i2 = 0; i2 < dims_[2].n; ++i2) {
-        const int l2 = i2 - dims_[2].n / 2;
+      const auto row0 = (static_cast<Eigen::Index>(i0) * modes_[1] + i1) * modes_[2];
+      for (int i2 = 0; i2 < modes_[2]; ++i2) {
         const std::size_t cell = r0 * plane + r1 * static_cast<std::size_t>(n2[2]) +
-                                 static_cast<std::size_t>((l2 + n2[2]) % n2[2]);
+                                 static_cast<std::size_t>((i2 - modes_[2] / 2 + n2[2]) % n2[2]);
         const double f = d01 * deconvolution_[2][static_cast<std::size_t>(i2)];
-        for (int a = 0; a < nc; ++a) grid[static_cast<std::size_t>(a) * cells + cell] *= f;
+        for (int a = 0; a < nc; ++a) {
+          grid[static_cast<std::size_t>(a) * cells + cell] = f * coefficients(row0 + i2, a);
+        }
       }
     }
   }
-  // 3. g_m = sum_l b_l exp(+i 2 pi l m / n2): FFTW's backward transform.
+  // 2. g_m = sum_l b_l exp(+i 2 pi l m / n2): FFTW's backward transform.
   {
     fftw_plan plan;
     {
@@ -331,7 +267,7 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
     const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
     fftw_destroy_plan(plan);
   }
-  // 4. Interpolate at u = s' h (grid units u n2 / 2 pi) and apply the target factor.
+  // 3. Interpolate at each target with the kernel.
   Eigen::MatrixXcd out(targets_.cols(), nc);
   const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
 #pragma omp parallel for num_threads(threads) schedule(static)
@@ -339,10 +275,9 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
     double wt[3][kMaxWidth];
     int idx[3][kMaxWidth];
     int len[3];
-    for (int d = 0; d < 3; ++d) {
-      const Dim& dim = dims_[static_cast<std::size_t>(d)];
-      const double t = targets_(d, k) * dim.h * dim.n2 / (2.0 * kPi);
-      len[d] = weights(d, t, dim.n2, wt[d], idx[d]);
+    for (std::size_t d = 0; d < 3; ++d) {
+      len[d] = KernelWeights(n2[d] > 1, beta_, w, targets_(static_cast<Eigen::Index>(d), k), n2[d],
+                             wt[d], idx[d]);
     }
     // The innermost run is contiguous unless it wraps around the grid.
     const bool contiguous = idx[2][len[2] - 1] == idx[2][0] + len[2] - 1;
@@ -374,9 +309,154 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
         }
       }
     }
-    for (int a = 0; a < nc; ++a) out(k, a) = Complex(ar[a], ai[a]) * target_factor_[k];
+    for (int a = 0; a < nc; ++a) out(k, a) = Complex(ar[a], ai[a]);
   }
   fftw_free(grid);
+  return out;
+}
+
+// ---- Type 3 ----------------------------------------------------------------
+
+NufftGeometry Nufft3::GeometryFor(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
+                                  double tolerance) {
+  CheckTolerance(tolerance);
+  NufftGeometry g;
+  g.kernel_width = WidthFor(tolerance);
+  for (int d = 0; d < 3; ++d) {
+    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
+    // Dropping exp(i s' x') costs at most |s' x'| <= X S relative to sum |c_j|.
+    if (x.half_width * s.half_width <= 1e-3 * tolerance) continue;
+    ++g.active_dims;
+    const double h = kPi / (kUpsampling * s.half_width);
+    const int n = 2 * static_cast<int>(std::ceil(x.half_width / h + 0.5 * g.kernel_width + 1.0));
+    g.spread_size[static_cast<std::size_t>(d)] = n;
+    g.fft_size[static_cast<std::size_t>(d)] =
+        NextSmooth(static_cast<int>(std::ceil(kUpsampling * n)));
+  }
+  return g;
+}
+
+Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
+               const NufftOptions& options)
+    : geometry_(GeometryFor(points, targets, options.tolerance)),
+      num_threads_(options.num_threads) {
+  const int w = geometry_.kernel_width;
+  beta_ = 2.30 * w;  // as in Nufft2
+  const KernelTransform phi_hat(beta_, w);
+
+  Eigen::Vector3d cx = Eigen::Vector3d::Zero(), cs = Eigen::Vector3d::Zero();
+  for (int d = 0; d < 3; ++d) {
+    Dim& dim = dims_[static_cast<std::size_t>(d)];
+    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
+    dim.centre_x = cx[d] = x.centre;
+    dim.centre_s = cs[d] = s.centre;
+    dim.n = geometry_.spread_size[static_cast<std::size_t>(d)];
+    dim.active = dim.n > 1;
+    if (dim.active) dim.h = kPi / (kUpsampling * s.half_width);
+  }
+  points_ = points.colwise() - cx;
+  targets_ = targets.colwise() - cs;
+
+  // exp(i s . x) = exp(i s . C) exp(i D . x') exp(i s' . x').
+  point_phase_.resize(points_.cols());
+  for (Eigen::Index j = 0; j < points_.cols(); ++j) {
+    const double p = cs.dot(points_.col(j));
+    point_phase_[j] = Complex(std::cos(p), std::sin(p));
+  }
+  // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi).
+  target_factor_.resize(targets_.cols());
+  const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
+#pragma omp parallel for num_threads(Threads(num_threads_)) schedule(static)
+  for (std::ptrdiff_t k = 0; k < m; ++k) {
+    double scale = 1.0;
+    for (int d = 0; d < 3; ++d) {
+      const Dim& dim = dims_[static_cast<std::size_t>(d)];
+      if (!dim.active) continue;
+      const double alpha = 0.5 * w * dim.h;
+      scale *= dim.h / (alpha * phi_hat(alpha * targets_(d, k)));
+    }
+    const double p = targets.col(k).dot(cx);
+    target_factor_[k] = scale * Complex(std::cos(p), std::sin(p));
+  }
+  // Internally the trivial dimensions come first, so the innermost (contiguous)
+  // grid loop always runs over an active dimension: planar arrays run as (x, y).
+  std::array<int, 3> order{0, 1, 2};
+  std::stable_partition(order.begin(), order.end(),
+                        [&](int d) { return !dims_[static_cast<std::size_t>(d)].active; });
+  const std::array<Dim, 3> dims = dims_;
+  const Eigen::Matrix3Xd p = points_, t = targets_;
+  for (int i = 0; i < 3; ++i) {
+    const auto o = static_cast<std::size_t>(order[static_cast<std::size_t>(i)]);
+    dims_[static_cast<std::size_t>(i)] = dims[o];
+    points_.row(i) = p.row(static_cast<Eigen::Index>(o));
+    targets_.row(i) = t.row(static_cast<Eigen::Index>(o));
+  }
+  // Stage 3: the spread grid (cell i <-> l = i - n/2) summed at s' h (radians
+  // per cell) by a type-2 transform.
+  std::array<int, 3> modes{};
+  Eigen::Matrix3Xd grid_targets(3, targets_.cols());
+  for (int d = 0; d < 3; ++d) {
+    modes[static_cast<std::size_t>(d)] = dims_[static_cast<std::size_t>(d)].n;
+    grid_targets.row(d) = targets_.row(d) * dims_[static_cast<std::size_t>(d)].h;
+  }
+  grid_sum_ = std::make_unique<const Nufft2>(modes, grid_targets, options);
+}
+
+Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
+  CheckStrengths(strengths, points_.cols(), "strengths (one row per point)");
+  const int w = geometry_.kernel_width;
+  const auto nc = static_cast<int>(strengths.cols());
+  const std::array<int, 3> n{dims_[0].n, dims_[1].n, dims_[2].n};
+  const auto plane = static_cast<Eigen::Index>(n[1]) * n[2];
+  Eigen::MatrixXcd grid = Eigen::MatrixXcd::Zero(static_cast<Eigen::Index>(n[0]) * plane, nc);
+
+  // Spread c_j exp(i D . x'_j) onto the grid (cell l + n/2: the grid was sized so
+  // that no kernel reaches past its edge). Threads own slabs of the grid along its
+  // first non-trivial dimension and every thread visits the points in order, so
+  // each cell's sum runs in point order whatever the thread count.
+  int slab_dim = 0;
+  while (slab_dim < 2 && n[static_cast<std::size_t>(slab_dim)] == 1) ++slab_dim;
+  Eigen::MatrixXcd phased(points_.cols(), nc);
+  for (int c = 0; c < nc; ++c) phased.col(c) = strengths.col(c).cwiseProduct(point_phase_);
+#pragma omp parallel num_threads(Threads(num_threads_))
+  {
+    const int t = omp_get_thread_num(), nt = omp_get_num_threads();
+    const long slab_n = n[static_cast<std::size_t>(slab_dim)];
+    const int lo = static_cast<int>(slab_n * t / nt), hi = static_cast<int>(slab_n * (t + 1) / nt);
+    double wt[3][kMaxWidth];
+    int idx[3][kMaxWidth];
+    for (Eigen::Index j = 0; j < points_.cols(); ++j) {
+      int len[3];
+      for (int d = 0; d < 3; ++d) {
+        const Dim& dim = dims_[static_cast<std::size_t>(d)];
+        // In-range cells: the modulo in KernelWeights never wraps here.
+        len[d] = KernelWeights(dim.active, beta_, w, points_(d, j) / dim.h + dim.n / 2, dim.n,
+                               wt[d], idx[d]);
+        if (d == slab_dim) {  // keep only this thread's slab
+          int k = 0;
+          for (int i = 0; i < len[d]; ++i) {
+            if (idx[d][i] >= lo && idx[d][i] < hi) wt[d][k] = wt[d][i], idx[d][k] = idx[d][i], ++k;
+          }
+          len[d] = k;
+        }
+      }
+      if (len[slab_dim] == 0) continue;
+      for (int i0 = 0; i0 < len[0]; ++i0) {
+        for (int i1 = 0; i1 < len[1]; ++i1) {
+          const Eigen::Index base =
+              idx[0][i0] * plane + static_cast<Eigen::Index>(idx[1][i1]) * n[2];
+          const double w01 = wt[0][i0] * wt[1][i1];
+          for (int a = 0; a < nc; ++a) {
+            Complex* row = grid.col(a).data() + base;
+            const Complex c = phased(j, a);
+            for (int i2 = 0; i2 < len[2]; ++i2) row[idx[2][i2]] += (w01 * wt[2][i2]) * c;
+          }
+        }
+      }
+    }
+  }
+  Eigen::MatrixXcd out = grid_sum_->Execute(grid);
+  for (int a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(target_factor_);
   return out;
 }
 

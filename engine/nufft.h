@@ -27,6 +27,7 @@
 
 #include <array>
 #include <cstddef>
+#include <memory>
 #include <vector>
 
 #include <Eigen/Core>
@@ -51,6 +52,39 @@ struct NufftGeometry {
   double kernel_points() const;  // w^active_dims
 };
 
+// Type-2 NUFFT (uniform modes to non-uniform targets) in one to three dimensions,
+//
+//   f_k = sum_l c_l exp(+i l . t_k),   l_d = -floor(M_d / 2) .. M_d - 1 - floor(M_d / 2),
+//
+// the same scheme's second stage (Barnett et al. 2019, sec. 2): divide the modes
+// by the kernel's Fourier transform, zero-pad by 2, FFTW, interpolate with the
+// kernel at t_k (radians per mode step, any range: the sum is 2 pi periodic).
+// Error about tolerance * sum_l |c_l|. A dimension with M_d = 1 costs nothing.
+// Nufft3 runs one as its last stage; arrays on a regular lattice use it directly
+// (engine/lattice.h).
+class Nufft2 {
+ public:
+  // modes: M_d >= 1 per dimension; targets: 3 x K.
+  Nufft2(const std::array<int, 3>& modes, const Eigen::Matrix3Xd& targets,
+         const NufftOptions& options = {});
+  static NufftGeometry GeometryFor(const std::array<int, 3>& modes, double tolerance);
+
+  // coefficients: (M_0 M_1 M_2) x C, C = 1 to 3, mode (l_0, l_1, l_2) in row
+  // ((i_0 M_1) + i_1) M_2 + i_2 with i_d = l_d + floor(M_d / 2); returns K x C.
+  Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& coefficients) const;
+
+  const NufftGeometry& geometry() const { return geometry_; }
+  std::size_t num_modes() const;
+
+ private:
+  NufftGeometry geometry_;
+  std::array<int, 3> modes_{1, 1, 1};
+  double beta_ = 0;
+  int num_threads_ = 0;
+  Eigen::Matrix3Xd targets_;  // in grid units, t n2 / (2 pi), t reduced to [-pi, pi]
+  std::array<std::vector<double>, 3> deconvolution_;  // h2 / psi2_hat(l), per mode
+};
+
 class Nufft3 {
  public:
   // points_m: 3 x N, targets: 3 x M (any units with s . x in radians).
@@ -70,17 +104,16 @@ class Nufft3 {
     double centre_x = 0, centre_s = 0;
     double h = 1;  // spread grid spacing (units of x)
     int n = 1;     // spread grid size
-    int n2 = 1;    // FFT grid size
   };
   NufftGeometry geometry_;
   std::array<Dim, 3> dims_;
   double beta_ = 0;
   int num_threads_ = 0;
-  Eigen::Matrix3Xd points_;                           // centred
-  Eigen::Matrix3Xd targets_;                          // centred
-  Eigen::VectorXcd point_phase_;                      // exp(i D . x'), D the targets' centre
-  Eigen::VectorXcd target_factor_;                    // exp(i s . C) h^dims / psi_hat(s')
-  std::array<std::vector<double>, 3> deconvolution_;  // h2 / psi2_hat(l), l = -n/2..n/2-1
+  Eigen::Matrix3Xd points_;                 // centred
+  Eigen::Matrix3Xd targets_;                // centred
+  Eigen::VectorXcd point_phase_;            // exp(i D . x'), D the targets' centre
+  Eigen::VectorXcd target_factor_;          // exp(i s . C) h^dims / psi_hat(s')
+  std::unique_ptr<const Nufft2> grid_sum_;  // stage 3: the spread grid's Fourier sum
 };
 
 }  // namespace lobecast

@@ -5,7 +5,9 @@
 #include "engine/nufft.h"
 
 #include <cmath>
+#include <array>
 #include <complex>
+#include <string>
 
 #include <gtest/gtest.h>
 
@@ -118,6 +120,61 @@ TEST(Nufft, ResultDoesNotDependOnThreads) {
   const Eigen::MatrixXcd f1 = Nufft3(x, s, NufftOptions{1e-9, 1}).Execute(c);
   const Eigen::MatrixXcd f2 = Nufft3(x, s, NufftOptions{1e-9, 2}).Execute(c);
   EXPECT_EQ((f1 - f2).cwiseAbs().maxCoeff(), 0.0);
+}
+
+// The type-2 stage on its own: modes l_d = i_d - floor(M_d / 2) against the
+// direct sum sum_l c_l exp(+i l . t_k), in long double. Odd and even mode counts,
+// one to three active dimensions, and targets far outside one period (the sum
+// is 2 pi periodic in each t_d; the transform reduces them itself).
+class Nufft2Accuracy : public ::testing::TestWithParam<double> {};
+
+TEST_P(Nufft2Accuracy, MatchesDirectSum) {
+  const double tol = GetParam();
+  const std::array<int, 3> shapes[] = {{7, 12, 5}, {1, 40, 1}, {1, 16, 17}, {3, 1, 2}};
+  TestRng rng(16);
+  for (const auto& modes : shapes) {
+    const int nm = modes[0] * modes[1] * modes[2];
+    const Eigen::Matrix3Xd t = RandomCloud(rng, 300, {40.0, 40.0, 40.0}, Eigen::Vector3d::Zero());
+    const Eigen::MatrixXcd c = RandomStrengths(rng, nm, 2);
+    const Eigen::MatrixXcd f = Nufft2(modes, t, NufftOptions{tol, 0}).Execute(c);
+    double worst = 0;
+    for (Eigen::Index a = 0; a < c.cols(); ++a) {
+      const double l1 = c.col(a).cwiseAbs().sum();
+      for (Eigen::Index k = 0; k < t.cols(); ++k) {
+        LComplex sum = 0;
+        for (int i0 = 0; i0 < modes[0]; ++i0) {
+          for (int i1 = 0; i1 < modes[1]; ++i1) {
+            for (int i2 = 0; i2 < modes[2]; ++i2) {
+              const long double p = static_cast<long double>(i0 - modes[0] / 2) * t(0, k) +
+                                    static_cast<long double>(i1 - modes[1] / 2) * t(1, k) +
+                                    static_cast<long double>(i2 - modes[2] / 2) * t(2, k);
+              const Complex cl = c((i0 * modes[1] + i1) * modes[2] + i2, a);
+              sum += LComplex(cl.real(), cl.imag()) * LComplex(cosl(p), sinl(p));
+            }
+          }
+        }
+        const LComplex d = LComplex(f(k, a).real(), f(k, a).imag()) - sum;
+        worst = std::max(worst, static_cast<double>(std::abs(d)) / l1);
+      }
+    }
+    const std::string shape = std::to_string(modes[0]) + "x" + std::to_string(modes[1]) + "x" +
+                              std::to_string(modes[2]);
+    EXPECT_LT(worst, 3.0 * tol) << shape << ", tolerance " << tol;
+    EXPECT_GT(worst, 1e-4 * tol) << shape << ", tolerance " << tol;
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Tolerances, Nufft2Accuracy, ::testing::Values(1e-3, 1e-6, 1e-9, 1e-12));
+
+TEST(Nufft2, GeometryPadsActiveDimensionsOnly) {
+  const NufftGeometry g = Nufft2::GeometryFor({1, 64, 9}, 1e-6);
+  EXPECT_EQ(g.active_dims, 2);
+  EXPECT_EQ(g.fft_size[0], 1);
+  EXPECT_EQ(g.fft_size[1], 128);  // sigma = 2, already 2-3-5 smooth
+  EXPECT_EQ(g.fft_size[2], 18);
+  EXPECT_THROW(Nufft2::GeometryFor({0, 4, 4}, 1e-6), InvalidArgument);
+  const Nufft2 n({2, 2, 1}, Eigen::Matrix3Xd::Zero(3, 3), NufftOptions{1e-6, 0});
+  EXPECT_THROW(n.Execute(Eigen::MatrixXcd::Ones(5, 1)), InvalidArgument);
 }
 
 TEST(Nufft, RejectsBadArguments) {
