@@ -43,6 +43,18 @@ struct NufftOptions {
 };
 
 // The sizes a transform will use, computable without building it (cost models).
+// f_k = sum_j c_j exp(+i s_k . x_j) for points and targets fixed at construction:
+// Nufft3 for any points, LatticeSum (lattice.h) for points on a lattice.
+class PointSum {
+ public:
+  virtual ~PointSum() = default;
+  // strengths: N x C (C = 1 to 3); returns K x C, each within about
+  // tolerance * sum_j |c_j| (plus representation_error() * sum_j |c_j|).
+  virtual Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& strengths) const = 0;
+  // An error beyond the kernel's, relative to sum_j |c_j| (0: none).
+  virtual double representation_error() const { return 0.0; }
+};
+
 struct NufftGeometry {
   int kernel_width = 0;                     // w, grid points per active dimension
   int active_dims = 0;                      // dimensions that need a grid
@@ -85,7 +97,7 @@ class Nufft2 {
   std::array<std::vector<double>, 3> deconvolution_;  // h2 / psi2_hat(l), per mode
 };
 
-class Nufft3 {
+class Nufft3 : public PointSum {
  public:
   // points_m: 3 x N, targets: 3 x M (any units with s . x in radians).
   Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
@@ -94,7 +106,7 @@ class Nufft3 {
                                    double tolerance);
 
   // strengths: N x C with C = 1, 2 or 3; returns M x C.
-  Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& strengths) const;
+  Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& strengths) const override;
 
   const NufftGeometry& geometry() const { return geometry_; }
 
