@@ -10,7 +10,7 @@
 namespace lobecast {
 namespace {
 
-constexpr std::size_t kNone = std::numeric_limits<std::size_t>::max();
+constexpr std::size_t kNoNode = std::numeric_limits<std::size_t>::max();
 
 bool IsPole(double theta_deg) {
   return std::abs(theta_deg) < 1e-9 || std::abs(theta_deg - 180.0) < 1e-9;
@@ -18,71 +18,35 @@ bool IsPole(double theta_deg) {
 
 }  // namespace
 
-GridNeighbours::GridNeighbours(const AngularGrid& grid, Ground ground) {
+GridNeighbours::GridNeighbours(const AngularGrid& grid, Ground ground)
+    : theta_deg_(grid.theta_deg), phi_deg_(grid.phi_deg) {
   const std::size_t nt = grid.theta_deg.size(), np = grid.phi_deg.size();
   if (nt == 0 || np == 0) return;
 
   // phi columns: a last column at +360 deg repeats the first; the seam is closed when
   // the columns cover the circle (with or without that repeat).
-  std::size_t ncol = np;
-  bool periodic = false;
+  columns_ = np;
   if (np >= 2) {
     const double span = grid.phi_deg.back() - grid.phi_deg.front();
     const double step = grid.phi_deg[1] - grid.phi_deg[0];
     if (std::abs(span - 360.0) < 1e-6) {
-      ncol = np - 1;
-      periodic = ncol >= 3;
+      columns_ = np - 1;
+      periodic_ = columns_ >= 3;
     } else if (np >= 3 && std::abs(span + step - 360.0) < 1e-6 * std::max(1.0, step)) {
-      periodic = true;
+      periodic_ = true;
     }
   }
 
-  std::vector<std::size_t> node(nt * ncol, kNone);  // per (row, column)
-  std::vector<bool> pole(nt, false);
+  row_first_.assign(nt, kNoNode);
+  pole_.assign(nt, false);
   for (std::size_t i = 0; i < nt; ++i) {
     const double t = grid.theta_deg[i];
     if (BelowGround(ground, t * kDegree)) continue;
-    pole[i] = IsPole(t);
-    for (std::size_t j = 0; j < ncol; ++j) {
-      if (pole[i] && j > 0) {
-        node[i * ncol + j] = node[i * ncol];
-        continue;
-      }
-      node[i * ncol + j] = representative_.size();
-      representative_.push_back(i * np + j);
-      const double th = t * kDegree, ph = grid.phi_deg[j] * kDegree;
-      direction_.emplace_back(std::sin(th) * std::cos(ph), std::sin(th) * std::sin(ph),
-                              std::cos(th));
-    }
-  }
-  neighbours_.assign(representative_.size(), {});
-  auto link = [&](std::size_t a, std::size_t b) {
-    if (a == kNone || b == kNone || a == b) return;
-    neighbours_[a].push_back(b);
-    neighbours_[b].push_back(a);
-  };
-  for (std::size_t i = 0; i < nt; ++i) {
-    for (std::size_t j = 0; j < ncol; ++j) {
-      const std::size_t a = node[i * ncol + j];
-      if (a == kNone) continue;
-      // Forward half of the 8-neighbourhood; link() adds the reverse edges.
-      const int steps[4][2] = {{0, 1}, {1, -1}, {1, 0}, {1, 1}};
-      for (const auto& s : steps) {
-        const std::size_t ii = i + static_cast<std::size_t>(s[0]);
-        if (ii >= nt) continue;
-        long jj = static_cast<long>(j) + s[1];
-        if (periodic) {
-          jj = (jj + static_cast<long>(ncol)) % static_cast<long>(ncol);
-        } else if (jj < 0 || jj >= static_cast<long>(ncol)) {
-          continue;
-        }
-        link(a, node[ii * ncol + static_cast<std::size_t>(jj)]);
-      }
-    }
-  }
-  for (auto& n : neighbours_) {
-    std::sort(n.begin(), n.end());
-    n.erase(std::unique(n.begin(), n.end()), n.end());
+    pole_[i] = IsPole(t);
+    row_first_[i] = num_nodes_;
+    node_rows_.push_back(i);
+    node_rows_first_.push_back(num_nodes_);
+    num_nodes_ += NodesInRow(i);
   }
 
   if (nt >= 2) {
@@ -92,57 +56,174 @@ GridNeighbours::GridNeighbours(const AngularGrid& grid, Ground ground) {
   }
 }
 
-std::vector<bool> GridNeighbours::LocalMaxima(const std::vector<double>& v,
-                                              double tolerance) const {
-  std::vector<bool> out(num_nodes(), false);
-  for (std::size_t n = 0; n < num_nodes(); ++n) {
-    if (neighbours_[n].empty()) continue;
-    out[n] = std::all_of(neighbours_[n].begin(), neighbours_[n].end(),
-                         [&](std::size_t m) { return v[n] >= v[m] - tolerance; });
-  }
-  return out;
+std::size_t GridNeighbours::NodesInRow(std::size_t row) const {
+  if (row_first_[row] == kNoNode) return 0;
+  return pole_[row] ? 1 : columns_;
 }
 
-std::vector<bool> GridNeighbours::LocalMinima(const std::vector<double>& v,
-                                              double tolerance) const {
-  std::vector<bool> out(num_nodes(), false);
-  for (std::size_t n = 0; n < num_nodes(); ++n) {
-    if (neighbours_[n].empty()) continue;
-    out[n] = std::all_of(neighbours_[n].begin(), neighbours_[n].end(),
-                         [&](std::size_t m) { return v[n] <= v[m] + tolerance; });
-  }
-  return out;
+GridNeighbours::Position GridNeighbours::PositionOf(std::size_t node) const {
+  const auto k = static_cast<std::size_t>(
+      std::upper_bound(node_rows_first_.begin(), node_rows_first_.end(), node) -
+      node_rows_first_.begin() - 1);
+  return {node_rows_[k], node - node_rows_first_[k]};
 }
 
-std::vector<std::vector<std::size_t>> GridNeighbours::Components(
-    const std::vector<bool>& member) const {
-  std::vector<std::vector<std::size_t>> out;
-  std::vector<bool> seen(num_nodes(), false);
-  std::vector<std::size_t> stack;
-  for (std::size_t start = 0; start < num_nodes(); ++start) {
-    if (!member[start] || seen[start]) continue;
-    out.emplace_back();
-    stack.assign(1, start);
-    seen[start] = true;
-    while (!stack.empty()) {
-      const std::size_t n = stack.back();
-      stack.pop_back();
-      out.back().push_back(n);
-      for (std::size_t m : neighbours_[n]) {
-        if (member[m] && !seen[m]) {
-          seen[m] = true;
-          stack.push_back(m);
-        }
+std::size_t GridNeighbours::NodeAt(std::size_t row, std::size_t column) const {
+  return pole_[row] ? row_first_[row] : row_first_[row] + column;
+}
+
+std::size_t GridNeighbours::representative(std::size_t node) const {
+  const Position p = PositionOf(node);
+  return p.row * phi_deg_.size() + p.column;
+}
+
+Vec3 GridNeighbours::direction(std::size_t node) const {
+  const Position p = PositionOf(node);
+  const double th = theta_deg_[p.row] * kDegree, ph = phi_deg_[p.column] * kDegree;
+  return {std::sin(th) * std::cos(ph), std::sin(th) * std::sin(ph), std::cos(th)};
+}
+
+template <typename F>
+void GridNeighbours::ForEachAround(const Position& p, F&& f) const {
+  const auto ncol = static_cast<long>(columns_);
+  for (int di = -1; di <= 1; ++di) {
+    if ((di < 0 && p.row == 0) || (di > 0 && p.row + 1 >= theta_deg_.size())) continue;
+    const std::size_t row = p.row + static_cast<std::size_t>(static_cast<long>(di));
+    if (row_first_[row] == kNoNode) continue;
+    if (pole_[p.row]) {  // every position of a pole's row is the pole itself
+      if (di != 0)
+        for (std::size_t c = 0; c < columns_; ++c) f(row, c);
+      continue;
+    }
+    for (int dj = -1; dj <= 1; ++dj) {
+      if (di == 0 && dj == 0) continue;
+      long c = static_cast<long>(p.column) + dj;
+      if (periodic_) {
+        c = (c + ncol) % ncol;
+      } else if (c < 0 || c >= ncol) {
+        continue;
       }
+      f(row, static_cast<std::size_t>(c));
+    }
+  }
+}
+
+std::vector<std::size_t> GridNeighbours::neighbours(std::size_t node) const {
+  std::vector<std::size_t> out;
+  ForEachAround(PositionOf(node),
+                [&](std::size_t row, std::size_t column) { out.push_back(NodeAt(row, column)); });
+  std::sort(out.begin(), out.end());
+  out.erase(std::unique(out.begin(), out.end()), out.end());
+  return out;
+}
+
+std::size_t GridNeighbours::MaxNode(const GridValue& value) const {
+  std::size_t best = 0;
+  double best_value = 0.0;
+  for (std::size_t row : node_rows_) {
+    for (std::size_t c = 0; c < NodesInRow(row); ++c) {
+      const double v = value(row * phi_deg_.size() + c);
+      const std::size_t n = row_first_[row] + c;
+      if (n == 0 || best_value < v) {  // strict: the first of equal values stays
+        best = n;
+        best_value = v;
+      }
+    }
+  }
+  return best;
+}
+
+std::vector<bool> GridNeighbours::LocalExtrema(const GridValue& value, double tolerance,
+                                               bool maxima) const {
+  std::vector<bool> out(num_nodes_, false);
+  // The values of rows i - 1, i and i + 1 by column (a pole's one value in each), in
+  // slots row % 3: rows are swept in order, so each row is read once.
+  std::vector<double> window[3];
+  std::size_t window_row[3] = {kNoNode, kNoNode, kNoNode};
+  auto row_values = [&](std::size_t row) -> const std::vector<double>& {
+    const std::size_t slot = row % 3;
+    std::vector<double>& w = window[slot];
+    if (window_row[slot] != row) {
+      w.resize(columns_);
+      if (pole_[row]) {
+        std::fill(w.begin(), w.end(), value(row * phi_deg_.size()));
+      } else {
+        for (std::size_t c = 0; c < columns_; ++c) w[c] = value(row * phi_deg_.size() + c);
+      }
+      window_row[slot] = row;
+    }
+    return w;
+  };
+  for (std::size_t row : node_rows_) {
+    for (std::size_t c = 0; c < NodesInRow(row); ++c) {
+      const double v = row_values(row)[c];
+      bool any = false, extreme = true;
+      ForEachAround(Position{row, c}, [&](std::size_t r, std::size_t col) {
+        const double w = row_values(r)[col];
+        any = true;
+        extreme = extreme && (maxima ? v >= w - tolerance : v <= w + tolerance);
+      });
+      out[row_first_[row] + c] = any && extreme;
     }
   }
   return out;
 }
 
-std::vector<double> GridNeighbours::NodeValues(const std::vector<double>& grid_value) const {
-  std::vector<double> v(num_nodes());
-  for (std::size_t n = 0; n < num_nodes(); ++n) v[n] = grid_value[representative_[n]];
-  return v;
+std::vector<bool> GridNeighbours::LocalMaxima(const GridValue& value, double tolerance) const {
+  return LocalExtrema(value, tolerance, true);
+}
+
+std::vector<bool> GridNeighbours::LocalMinima(const GridValue& value, double tolerance) const {
+  return LocalExtrema(value, tolerance, false);
+}
+
+std::vector<bool> GridNeighbours::NodesWhere(const GridTest& test) const {
+  std::vector<bool> out(num_nodes_, false);
+  for (std::size_t row : node_rows_)
+    for (std::size_t c = 0; c < NodesInRow(row); ++c)
+      out[row_first_[row] + c] = test(row * phi_deg_.size() + c);
+  return out;
+}
+
+template <typename F>
+void GridNeighbours::Flood(const std::vector<bool>& member, std::size_t start,
+                           std::vector<bool>& seen, F&& visit) const {
+  std::vector<std::size_t> stack(1, start);
+  seen[start] = true;
+  while (!stack.empty()) {
+    const std::size_t n = stack.back();
+    stack.pop_back();
+    visit(n);
+    for (std::size_t m : neighbours(n)) {
+      if (member[m] && !seen[m]) {
+        seen[m] = true;
+        stack.push_back(m);
+      }
+    }
+  }
+}
+
+std::vector<std::vector<std::size_t>> GridNeighbours::Components(
+    const std::vector<bool>& member) const {
+  std::vector<std::vector<std::size_t>> out;
+  std::vector<bool> seen(num_nodes_, false);
+  for (std::size_t start = 0; start < num_nodes_; ++start) {
+    if (!member[start] || seen[start]) continue;
+    out.emplace_back();
+    Flood(member, start, seen, [&](std::size_t n) { out.back().push_back(n); });
+  }
+  return out;
+}
+
+void GridNeighbours::VisitComponent(const std::vector<bool>& member, std::size_t node,
+                                    const std::function<void(std::size_t)>& visit) const {
+  if (!member[node]) return;
+  // Components walks each component from its lowest node: find it, then walk from it.
+  std::vector<bool> seen(num_nodes_, false);
+  std::size_t lowest = node;
+  Flood(member, node, seen, [&](std::size_t n) { lowest = std::min(lowest, n); });
+  seen.assign(num_nodes_, false);
+  Flood(member, lowest, seen, visit);
 }
 
 }  // namespace lobecast

@@ -55,20 +55,21 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
   NullSearch out;
   if (neighbours.num_nodes() == 0) return out;
   const std::size_t np = grid_result.grid.phi_deg.size();
-  std::vector<double> level(neighbours.num_nodes());
-  for (std::size_t n = 0; n < neighbours.num_nodes(); ++n) {
-    const std::size_t g = neighbours.representative(n);
+  // The null-field level relative to the peak, computed from the stored grid field
+  // where it is needed (no per-direction copy).
+  const GridNeighbours::GridValue grid_level = [&](std::size_t g) {
     ProbeSample s;
     s.phi_rad = grid_result.grid.phi_deg[g % np] * kDegree;
     s.e_theta = grid_result.field.e_theta[static_cast<Eigen::Index>(g)];
     s.e_phi = grid_result.field.e_phi[static_cast<Eigen::Index>(g)];
     s.directivity = grid_result.directivity[static_cast<Eigen::Index>(g)];
-    level[n] = NullFieldDirectivity(probe, s, options) / peak_directivity;
-  }
+    return NullFieldDirectivity(probe, s, options) / peak_directivity;
+  };
   const double threshold = std::pow(10.0, options.null_threshold_db / 10.0);
   const double screen =
       std::min(0.5, std::pow(10.0, (options.null_threshold_db + kScreenMargin_db) / 10.0));
-  const auto components = neighbours.Components(neighbours.LocalMinima(level, 1e-9 * threshold));
+  const auto components =
+      neighbours.Components(neighbours.LocalMinima(grid_level, 1e-9 * threshold));
   struct Candidate {
     std::size_t node;
     double value;
@@ -76,9 +77,15 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
   std::vector<Candidate> cands;
   for (const auto& comp : components) {
     std::size_t best = comp[0];
-    for (std::size_t n : comp)
-      if (level[n] < level[best]) best = n;
-    if (level[best] < screen) cands.push_back({best, level[best]});
+    double best_level = grid_level(neighbours.representative(best));
+    for (std::size_t n : comp) {
+      const double l = grid_level(neighbours.representative(n));
+      if (l < best_level) {
+        best = n;
+        best_level = l;
+      }
+    }
+    if (best_level < screen) cands.push_back({best, best_level});
   }
   std::sort(cands.begin(), cands.end(),
             [](const Candidate& a, const Candidate& b) { return a.value < b.value; });

@@ -122,9 +122,7 @@ PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_res
   out.front_to_back = FrontToBackOf(probe, peak, dp, options.refine_tolerance_deg * kDegree);
 
   const GridNeighbours neighbours(grid_result.grid, array.ground);
-  std::vector<double> d(grid_result.directivity.data(),
-                        grid_result.directivity.data() + grid_result.directivity.size());
-  LobeSearch lobes = FindLobes(probe, neighbours, neighbours.NodeValues(d), peak, dp, options);
+  LobeSearch lobes = FindLobes(probe, neighbours, grid_result.directivity, peak, dp, options);
   out.major_lobes = std::move(lobes.major_lobes);
   out.highest_side_lobe = lobes.highest_side_lobe;
   out.side_lobes = std::move(lobes.side_lobes);

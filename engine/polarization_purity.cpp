@@ -53,25 +53,18 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
   // (a) grid directions of the beam.
   if (neighbours.num_nodes() > 0) {
     const std::size_t np = grid_result.grid.phi_deg.size();
-    std::vector<bool> member(neighbours.num_nodes());
-    std::size_t top = 0;
-    for (std::size_t n = 0; n < neighbours.num_nodes(); ++n) {
-      const auto g = static_cast<Eigen::Index>(neighbours.representative(n));
-      member[n] = grid_result.directivity[g] >= 0.5 * peak_directivity;
-      if (grid_result.directivity[g] >
-          grid_result.directivity[static_cast<Eigen::Index>(neighbours.representative(top))])
-        top = n;
-    }
-    for (const auto& comp : neighbours.Components(member)) {
-      if (std::find(comp.begin(), comp.end(), top) == comp.end()) continue;
-      for (std::size_t n : comp) {
-        const std::size_t g = neighbours.representative(n);
-        const CoCross c = CoCrossOf(grid_result.field.e_theta[static_cast<Eigen::Index>(g)],
-                                    grid_result.field.e_phi[static_cast<Eigen::Index>(g)],
-                                    grid_result.grid.phi_deg[g % np] * kDegree, options.reference);
-        consider(XpdDb(c), neighbours.direction(n));
-      }
-    }
+    const auto& d = grid_result.directivity;
+    const std::size_t top =
+        neighbours.MaxNode([&](std::size_t g) { return d[static_cast<Eigen::Index>(g)]; });
+    const std::vector<bool> member = neighbours.NodesWhere(
+        [&](std::size_t g) { return d[static_cast<Eigen::Index>(g)] >= 0.5 * peak_directivity; });
+    neighbours.VisitComponent(member, top, [&](std::size_t n) {
+      const std::size_t g = neighbours.representative(n);
+      const CoCross c = CoCrossOf(grid_result.field.e_theta[static_cast<Eigen::Index>(g)],
+                                  grid_result.field.e_phi[static_cast<Eigen::Index>(g)],
+                                  grid_result.grid.phi_deg[g % np] * kDegree, options.reference);
+      consider(XpdDb(c), neighbours.direction(n));
+    });
   }
 
   // (b) rays from the peak out to the half-power contour.

@@ -20,12 +20,16 @@ constexpr double kCandidateMargin_db = 10.0;
 }  // namespace
 
 LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours,
-                     const std::vector<double>& d, const Vec3& peak, double peak_directivity,
-                     const AnalysisOptions& options) {
+                     const Eigen::VectorXd& grid_directivity, const Vec3& peak,
+                     double peak_directivity, const AnalysisOptions& options) {
   LobeSearch out;
   if (neighbours.num_nodes() == 0) return out;
-  const auto top = static_cast<std::size_t>(std::max_element(d.begin(), d.end()) - d.begin());
-  const auto components = neighbours.Components(neighbours.LocalMaxima(d, 1e-12 * d[top]));
+  const GridNeighbours::GridValue at = [&](std::size_t g) {
+    return grid_directivity[static_cast<Eigen::Index>(g)];
+  };
+  auto d = [&](std::size_t node) { return at(neighbours.representative(node)); };
+  const std::size_t top = neighbours.MaxNode(at);
+  const auto components = neighbours.Components(neighbours.LocalMaxima(at, 1e-12 * d(top)));
 
   struct Candidate {
     std::size_t node;
@@ -35,9 +39,15 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
   for (const auto& comp : components) {
     if (std::find(comp.begin(), comp.end(), top) != comp.end()) continue;  // the main lobe
     std::size_t best = comp[0];
-    for (std::size_t n : comp)
-      if (d[n] > d[best]) best = n;
-    cands.push_back({best, d[best]});
+    double best_d = d(best);
+    for (std::size_t n : comp) {
+      const double dn = d(n);
+      if (dn > best_d) {
+        best = n;
+        best_d = dn;
+      }
+    }
+    cands.push_back({best, best_d});
   }
   std::sort(cands.begin(), cands.end(),
             [](const Candidate& a, const Candidate& b) { return a.value > b.value; });

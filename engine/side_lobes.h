@@ -9,6 +9,8 @@
 #include <optional>
 #include <vector>
 
+#include <Eigen/Core>
+
 #include "engine/analysis_types.h"
 #include "engine/grid_neighbours.h"
 #include "engine/pattern_probe.h"
@@ -22,9 +24,10 @@ struct LobeSearch {
   bool truncated = false;
 };
 
-// node_directivity: the grid directivity per node of `neighbours`.
+// grid_directivity: one value per grid direction (PatternResult::directivity), read in
+// place.
 LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours,
-                     const std::vector<double>& node_directivity, const Vec3& peak,
+                     const Eigen::VectorXd& grid_directivity, const Vec3& peak,
                      double peak_directivity, const AnalysisOptions& options);
 
 }  // namespace lobecast
