@@ -16,6 +16,7 @@
 #include "engine/error.h"
 #include "engine/ground.h"
 #include "engine/kernel_clones.h"
+#include "engine/lattice.h"
 #include "engine/nufft.h"
 #include "engine/sincos.h"
 #include "engine/text_case.h"
@@ -30,6 +31,18 @@ std::string_view ToString(FieldMethod m) {
       return "fast";
     case FieldMethod::kAuto:
       return "auto";
+  }
+  return "unknown";
+}
+
+std::string_view ToString(FastTransform t) {
+  switch (t) {
+    case FastTransform::kNone:
+      return "none";
+    case FastTransform::kType3:
+      return "type-3";
+    case FastTransform::kLattice:
+      return "lattice";
   }
   return "unknown";
 }
@@ -158,10 +171,17 @@ constexpr double kScoutTolerance = 1e-4;
 // absorbs the model's roughness.
 constexpr double kSecondsPerPairCollinear = 1.0 / 6.5e8;
 constexpr double kSecondsPerPairGeneral = 1.0 / 4.5e8;
-constexpr double kSecondsPerKernelPoint = 2.0e-9;  // spread or interpolate, per component
-constexpr double kSecondsPerFftPointLog = 1.0e-9;  // per grid point and log2(size), per component
-constexpr double kSecondsPerTargetPass = 1.0e-6;   // kernel transforms, phases, copies
+constexpr double kSecondsPerKernelPoint = 2.0e-9;    // spread or interpolate, per component
+constexpr double kSecondsPerFftPointLog = 1.0e-9;    // per grid point and log2(size), per component
+constexpr double kSecondsPerTargetPass = 1.0e-6;     // kernel transforms, phases, copies
+constexpr double kSecondsPerLatticeTarget = 2.0e-7;  // lattice: phases, projection, copies
+constexpr double kSecondsPerLayerTarget = 2.0e-8;    // lattice: one layer's phase and sum
 constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
+// Lattice detection: the sites may hold at most this many times the sources (so
+// thinned lattices qualify, scattered points on a fine raster do not), and the
+// sources may sit at most kLatticeOffsetPhase * tolerance / k from their sites.
+constexpr double kMaxSitesPerSource = 16.0;
+constexpr double kLatticeOffsetPhase = 1e-3;
 
 // True when every column of m is parallel or antiparallel to one unit vector.
 bool AllParallel(const Eigen::Matrix3Xd& m, Vec3* axis) {
@@ -183,7 +203,7 @@ struct FieldPlan::FastCache {
   double error_bound = 0;     // relative to the peak; 0 after a direct fallback
   // NUFFT plans by tolerance exponent (the kernel width depends only on it), kept
   // for the next current vector: O(directions) memory each, at most two in use.
-  std::map<int, std::shared_ptr<const Nufft3>> plans;
+  std::map<int, std::shared_ptr<const PointSum>> plans;
 };
 
 double FieldPlan::error_bound_relative() const {
@@ -200,13 +220,17 @@ double FieldPlan::EstimatedDirectSeconds() const {
   return static_cast<double>(live) * static_cast<double>(num_sources()) * per / threads;
 }
 
-double FieldPlan::EstimatedFastSeconds() const {
+// A scout pass, then one about two digits tighter than asked (the peak is
+// usually below sum |c|): the tolerances both fast estimates cost.
+static std::array<double, 2> PassTolerances(double tolerance_relative) {
+  return {kScoutTolerance, std::max(1e-14, 1e-2 * tolerance_relative)};
+}
+
+double FieldPlan::EstimatedType3Seconds() const {
   const double comps = collinear_ ? 1.0 : 3.0;
   const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
   double total = 0;
-  // A scout pass, then a pass about two digits tighter than asked (the peak is
-  // usually below sum |c|).
-  for (double eps : {kScoutTolerance, std::max(1e-14, 1e-2 * tolerance_relative_)}) {
+  for (double eps : PassTolerances(tolerance_relative_)) {
     const NufftGeometry g = Nufft3::GeometryFor(source_pos_, k_r_hat_, eps);
     if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
     const double spread = static_cast<double>(num_sources()) * g.kernel_points() * comps;
@@ -215,6 +239,25 @@ double FieldPlan::EstimatedFastSeconds() const {
     const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
     total += (spread + interp) * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog +
              static_cast<double>(num_directions()) * kSecondsPerTargetPass / threads;
+  }
+  return total;
+}
+
+double FieldPlan::EstimatedLatticeSeconds() const {
+  if (!lattice_) return 1e300;
+  const double comps = collinear_ ? 1.0 : 3.0;
+  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  const auto nd = static_cast<double>(num_directions());
+  double total = 0;
+  for (double eps : PassTolerances(tolerance_relative_)) {
+    const LatticeShape shape = LatticeSum::ShapeFor(*lattice_, eps);
+    const NufftGeometry& g = shape.per_layer;
+    if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
+    const double interp = nd * g.kernel_points() * comps / threads;
+    const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
+    total += shape.layers * (interp * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog +
+                             nd * comps * kSecondsPerLayerTarget / threads) +
+             nd * kSecondsPerLatticeTarget / threads;
   }
   return total;
 }
@@ -250,12 +293,16 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
         for (auto j = cache.plans.begin(); j != cache.plans.end();) {
           j = j->first == scout ? std::next(j) : cache.plans.erase(j);
         }
-        it = cache.plans
-                 .emplace(exponent, std::make_shared<const Nufft3>(source_pos_, k_r_hat_,
-                                                                   NufftOptions{eps, num_threads_}))
-                 .first;
+        const NufftOptions nufft_options{eps, num_threads_};
+        std::shared_ptr<const PointSum> sum;
+        if (fast_transform_ == FastTransform::kLattice) {
+          sum = std::make_shared<const LatticeSum>(*lattice_, k_r_hat_, nufft_options);
+        } else {
+          sum = std::make_shared<const Nufft3>(source_pos_, k_r_hat_, nufft_options);
+        }
+        it = cache.plans.emplace(exponent, std::move(sum)).first;
       }
-      const Nufft3* plan = it->second.get();
+      const PointSum* plan = it->second.get();
       const Eigen::MatrixXcd m = plan->Execute(strengths);
       double peak = 0;
       for (Eigen::Index i = 0; i < nd; ++i) {
@@ -276,10 +323,11 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
       }
       return peak;
     };
-    // Error in |rE| at tolerance eps, by the error model (same for every direction).
-    const auto bound = [&](double eps) {
-      return prefactor_ * std::sqrt(comps) * kErrorModel * eps * l1;
-    };
+    // Error in |rE| at tolerance eps, by the error model (same for every
+    // direction), plus the lattice's placement error when it has one.
+    const double unit = prefactor_ * std::sqrt(comps) * l1;
+    const double placement = lattice_phase_error_;
+    const auto bound = [&](double eps) { return unit * (kErrorModel * eps + placement); };
     // Tolerances are rounded down to a power of ten: the kernel width depends only
     // on the exponent, so nothing is lost and plans can be reused.
     const auto round_down = [](double e) { return std::pow(10.0, std::floor(std::log10(e))); };
@@ -287,7 +335,8 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
     double peak = pass(eps);
     if (bound(eps) > tolerance_relative_ * peak) {
       const double peak_low = peak - bound(eps);
-      eps = peak_low > 0 ? round_down(tolerance_relative_ * peak_low / bound(1.0)) : 0.0;
+      const double room = peak_low > 0 ? tolerance_relative_ * peak_low / unit - placement : 0.0;
+      eps = room > 0 ? round_down(room / kErrorModel) : 0.0;
       if (eps >= 1e-14) peak = pass(eps);
     }
     if (eps >= 1e-14 && peak > 0 && bound(eps) <= tolerance_relative_ * peak) {
@@ -357,12 +406,28 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
       method_used_ = FieldMethod::kDirect;
       break;
     case FieldMethod::kFast:
-      method_used_ = FieldMethod::kFast;
-      break;
     case FieldMethod::kAuto:
-      method_used_ = EstimatedFastSeconds() < 0.5 * EstimatedDirectSeconds() ? FieldMethod::kFast
-                                                                             : FieldMethod::kDirect;
-      break;
+      break;  // below, once the costs are known
+  }
+  if (options.method != FieldMethod::kDirect) {
+    // A lattice within kLatticeOffsetPhase * tolerance of phase of every source.
+    const double max_offset = kLatticeOffsetPhase * tolerance_relative_ / k;
+    const double max_sites = kMaxSitesPerSource * static_cast<double>(num_sources()) + 1024.0;
+    auto lat = options.use_lattice ? FindAxisLattice(source_pos_, max_offset, max_sites)
+                                   : std::nullopt;
+    if (lat) {
+      lattice_ = std::make_shared<const AxisLattice>(std::move(*lat));
+      lattice_phase_error_ = k * lattice_->max_offset;
+    }
+    const double type3 = EstimatedType3Seconds(), on_lattice = EstimatedLatticeSeconds();
+    const double fast = std::min(type3, on_lattice);
+    if (options.method == FieldMethod::kFast || fast < 0.5 * EstimatedDirectSeconds()) {
+      method_used_ = FieldMethod::kFast;
+      fast_transform_ = on_lattice < type3 ? FastTransform::kLattice : FastTransform::kType3;
+    } else {
+      method_used_ = FieldMethod::kDirect;
+    }
+    if (fast_transform_ != FastTransform::kLattice) lattice_.reset(), lattice_phase_error_ = 0;
   }
   if (method_used_ == FieldMethod::kFast) fast_ = std::make_shared<FastCache>();
 }

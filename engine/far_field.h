@@ -13,9 +13,11 @@
 //  - fast: a type-3 non-uniform FFT with the exponential-of-semicircle kernel
 //    (engine/nufft.h; Barnett, Magland and af Klinteberg, SIAM J. Sci. Comput.
 //    41, 2019), O(N + M + grid log grid) with a kernel-width factor, accurate to
-//    a requested tolerance relative to the pattern peak. It pays off for large
-//    arrays on dense grids; auto picks it only when its estimated cost is well
-//    below the direct one.
+//    a requested tolerance relative to the pattern peak. Sources on a lattice
+//    take a type-2 transform over the lattice sites instead (engine/lattice.h),
+//    which needs no spreading and whose grid does not grow with the pitch. It
+//    pays off for large arrays on dense grids; auto picks it only when its
+//    estimated cost is well below the direct one.
 #pragma once
 
 #include <cstddef>
@@ -32,6 +34,8 @@
 
 namespace lobecast {
 
+struct AxisLattice;  // engine/lattice.h
+
 struct FarField {
   Eigen::VectorXcd e_theta;  // rE_theta per direction, V
   Eigen::VectorXcd e_phi;    // rE_phi per direction, V
@@ -39,7 +43,12 @@ struct FarField {
 };
 
 enum class FieldMethod { kDirect, kFast, kAuto };
-std::string_view ToString(FieldMethod m);  // "direct", "fast", "auto"
+// Which transform the fast path runs: a type-3 NUFFT for any positions, or a
+// type-2 NUFFT over the sites when every source sits on an axis-aligned
+// lattice (engine/lattice.h; grid arrays, also thinned, offset-row and over ground).
+enum class FastTransform { kNone, kType3, kLattice };
+std::string_view ToString(FastTransform t);  // "none", "type-3", "lattice"
+std::string_view ToString(FieldMethod m);    // "direct", "fast", "auto"
 // Case-insensitive; std::nullopt for an unknown name.
 std::optional<FieldMethod> FieldMethodFromString(std::string_view s);
 
@@ -58,6 +67,9 @@ struct FieldOptions {
   // peak is so far below sum |I Le| that double precision cannot reach the
   // tolerance, it sums directly instead. The direct path ignores it.
   double tolerance_relative = 1e-9;
+  // Fast path: take the lattice transform when the sources sit on a lattice and
+  // it is estimated cheaper; false always runs type 3 (for comparisons).
+  bool use_lattice = true;
 
   // False (with a message naming the field, the value and the rule) unless
   // num_threads >= 0 and 1e-14 <= tolerance_relative <= 1e-2.
@@ -85,6 +97,9 @@ class FieldPlan {
 
   // kDirect or kFast: what options.method (kAuto resolved) led to.
   FieldMethod method_used() const { return method_used_; }
+  // The fast path's transform (kNone for the direct path): the lattice one when
+  // the sources sit on a lattice and it is estimated cheaper than type 3.
+  FastTransform fast_transform() const { return fast_transform_; }
   // Fast path: the error bound it met for the last current vector, relative to
   // that pattern's peak (<= tolerance_relative); 0 for the direct path.
   double error_bound_relative() const;
@@ -97,7 +112,8 @@ class FieldPlan {
   void ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                    FarField& out) const;
   double EstimatedDirectSeconds() const;
-  double EstimatedFastSeconds() const;
+  double EstimatedType3Seconds() const;
+  double EstimatedLatticeSeconds() const;
 
   std::size_t num_dipoles_ = 0;
   Ground ground_ = Ground::kNone;
@@ -113,6 +129,11 @@ class FieldPlan {
   std::vector<double> signed_moment_m_;  // Le * (u . axis), collinear only
   double tolerance_relative_ = 1e-9;
   FieldMethod method_used_ = FieldMethod::kDirect;
+  FastTransform fast_transform_ = FastTransform::kNone;
+  // The sources' lattice, when they have one (fast path only): its phase error
+  // k max|x - site| is added to the fast path's error bound.
+  std::shared_ptr<const AxisLattice> lattice_;
+  double lattice_phase_error_ = 0;
   std::shared_ptr<FastCache> fast_;  // shared by copies; keyed on currents
   Eigen::Matrix3Xd k_r_hat_;         // k r_hat, rad/m
   Eigen::Matrix3Xd theta_hat_;

@@ -3,11 +3,18 @@
 // grids. Run through run_benchmarks.sh, which starts one process per case so that
 // the peak resident memory (getrusage ru_maxrss) belongs to that case alone.
 //
-// Arrays: N z-directed short dipoles on a square planar lattice of half-wavelength
-// pitch with a small random jitter in x and y (a large planar array), random
-// complex currents; "general" cases tilt every dipole randomly and jitter z too,
-// which takes the three-component kernels and a 3-D NUFFT grid. Huge direct and scalar cases run on
-// an evenly strided subset of the grid (reported as "directions"), so pairs/s stays comparable.
+// Arrays (third argument, the layout):
+//  0 jittered: N z-directed short dipoles on a square planar lattice of
+//    half-wavelength pitch with a small random jitter in x and y (a large planar
+//    array as built), random complex currents: the type-3 fast path;
+//  1 general: every dipole tilted randomly and z jittered too: the three-component
+//    kernels and a 3-D type-3 grid;
+//  2 lattice: the same lattice without jitter: the lattice (type-2) fast path;
+//  3 sparse lattice: pitch 2 wavelengths (a thinned-aperture or station layout).
+// BM_FastType3 runs the lattice layouts with the lattice transform switched off,
+// for the ratio between the two fast transforms. Huge direct and scalar cases run
+// on an evenly strided subset of the grid (reported as "directions"), so pairs/s
+// stays comparable.
 #include <sys/resource.h>
 
 #include <benchmark/benchmark.h>
@@ -28,20 +35,24 @@ namespace {
 
 constexpr double kFrequency_hz = 1.0e9;
 
-Array PlanarArray(int n, bool general) {
+enum Layout { kJittered = 0, kGeneral = 1, kLattice = 2, kSparseLattice = 3 };
+
+Array PlanarArray(int n, int layout) {
   Array a;
   a.frequency_hz = kFrequency_hz;
   const double lambda = a.wavelength_m();
   const int side = static_cast<int>(std::ceil(std::sqrt(static_cast<double>(n))));
   std::mt19937_64 rng(12345);
   std::uniform_real_distribution<double> u(-1.0, 1.0);
+  const bool general = layout == kGeneral;
+  const double jitter = layout == kJittered || general ? 0.05 : 0.0;
+  const double pitch = layout == kSparseLattice ? 2.0 : 0.5;
   for (int i = 0; i < n; ++i) {
     Dipole d;
     // Planar (z = 0) for the collinear cases; the general cases also jitter z, so
     // the fast path needs a 3-D grid there.
-    d.position_m = Vec3((i % side) * 0.5 + 0.05 * u(rng), (i / side) * 0.5 + 0.05 * u(rng),
-                        general ? 0.05 * u(rng) : 0.0) *
-                   lambda;
+    const double jx = jitter * u(rng), jy = jitter * u(rng), jz = general ? 0.05 * u(rng) : 0.0;
+    d.position_m = Vec3((i % side) * pitch + jx, (i / side) * pitch + jy, jz) * lambda;
     d.orientation = general ? Vec3(u(rng), u(rng), u(rng)).normalized() : Vec3::UnitZ();
     d.length_m = 0.01 * lambda;
     d.current_a = Complex(u(rng), u(rng));
@@ -79,7 +90,7 @@ void Finish(benchmark::State& state, double pairs_per_iteration, std::size_t dir
 void BM_ScalarLoop(benchmark::State& state) {
   const auto n = static_cast<int>(state.range(0));
   const double step = static_cast<double>(state.range(1)) / 100.0;
-  const Array a = PlanarArray(n, state.range(2) != 0);
+  const Array a = PlanarArray(n, static_cast<int>(state.range(2)));
   std::size_t full = 0;
   const Directions dirs = GridDirections(step, n, 1.0e8, &full);
   const double k = a.wavenumber_rad_m();
@@ -109,7 +120,7 @@ void BM_ScalarLoop(benchmark::State& state) {
 void BM_Direct(benchmark::State& state) {
   const auto n = static_cast<int>(state.range(0));
   const double step = static_cast<double>(state.range(1)) / 100.0;
-  const Array a = PlanarArray(n, state.range(2) != 0);
+  const Array a = PlanarArray(n, static_cast<int>(state.range(2)));
   std::size_t full = 0;
   const Directions dirs = GridDirections(step, n, 4.0e9, &full);
   FieldOptions o;
@@ -128,25 +139,29 @@ void BM_Direct(benchmark::State& state) {
 // NUFFT's kernel-transform setup once per plan, so a user pays both). The error is
 // measured against the direct sum on an evenly strided subset of 4000 directions,
 // relative to the pattern peak.
-void BM_Fast(benchmark::State& state) {
+void RunFast(benchmark::State& state, bool use_lattice) {
   const auto n = static_cast<int>(state.range(0));
   const double step = static_cast<double>(state.range(1)) / 100.0;
-  const Array a = PlanarArray(n, state.range(2) != 0);
+  const Array a = PlanarArray(n, static_cast<int>(state.range(2)));
   std::size_t full = 0;
   const Directions dirs = GridDirections(step, 1.0, 1e300, &full);
   FieldOptions o;
   o.method = FieldMethod::kFast;
+  o.use_lattice = use_lattice;
   const Eigen::VectorXcd currents = CurrentsOf(a);
   FarField f;
   double bound = 0;
+  FastTransform transform = FastTransform::kNone;
   for (auto _ : state) {
     const FieldPlan plan(a, dirs, o);
     plan.ExecuteRange(currents, 0, plan.num_directions(), f);
     bound = plan.error_bound_relative();
+    transform = plan.fast_transform();
     benchmark::DoNotOptimize(f.e_theta.data());
   }
   Finish(state, static_cast<double>(n) * static_cast<double>(dirs.size()), dirs.size());
   state.counters["error_bound"] = bound;
+  state.counters["lattice"] = transform == FastTransform::kLattice ? 1.0 : 0.0;
 
   const std::size_t stride = std::max<std::size_t>(1, dirs.size() / 4000);
   std::vector<double> th, ph;
@@ -169,18 +184,35 @@ void BM_Fast(benchmark::State& state) {
   state.counters["error_rel_peak"] = err / peak;
 }
 
-// Arguments: N, grid step in hundredths of a degree, general orientation (0/1).
+void BM_Fast(benchmark::State& state) { RunFast(state, true); }
+void BM_FastType3(benchmark::State& state) { RunFast(state, false); }
+
+void Timing(benchmark::internal::Benchmark* b) {
+  b->Unit(benchmark::kMillisecond)->UseRealTime()->MeasureProcessCPUTime()->MinTime(0.3);
+}
+
+// Arguments: N, grid step in hundredths of a degree, layout (see the top).
 void Cases(benchmark::internal::Benchmark* b) {
   for (int step : {100, 25}) {
-    for (int n : {16, 256, 1024, 4096, 65536}) b->Args({n, step, 0});
-    b->Args({1024, step, 1});
+    for (int n : {16, 256, 1024, 4096, 65536}) b->Args({n, step, kJittered});
+    b->Args({1024, step, kGeneral});
   }
-  b->Unit(benchmark::kMillisecond)->UseRealTime()->MeasureProcessCPUTime()->MinTime(0.3);
+  Timing(b);
+}
+
+void LatticeCases(benchmark::internal::Benchmark* b) {
+  for (int step : {100, 25}) {
+    for (int layout : {kLattice, kSparseLattice}) {
+      for (int n : {256, 4096, 65536}) b->Args({n, step, layout});
+    }
+  }
+  Timing(b);
 }
 
 BENCHMARK(BM_ScalarLoop)->Apply(Cases);
 BENCHMARK(BM_Direct)->Apply(Cases);
-BENCHMARK(BM_Fast)->Apply(Cases);
+BENCHMARK(BM_Fast)->Apply(Cases)->Apply(LatticeCases);
+BENCHMARK(BM_FastType3)->Apply(LatticeCases);
 
 }  // namespace
 }  // namespace lobecast
