@@ -23,19 +23,26 @@ work="$(mktemp -d)"
 trap 'rm -rf "$work"' EXIT
 load_before="$(cut -d' ' -f1-3 /proc/loadavg)"
 
-cases=()
+# N/step/layout (field_bench.cpp): 0 jittered lattice, 1 general, 2 exact lattice,
+# 3 sparse (2-wavelength) lattice; each with the methods that apply to it.
+runs=()
 for step in 100 25; do
-  for n in 16 256 1024 4096 65536; do cases+=("$n/$step/0"); done
-  cases+=("1024/$step/1")
+  for n in 16 256 1024 4096 65536; do
+    for m in ScalarLoop Direct Fast; do runs+=("$m/$n/$step/0"); done
+  done
+  for m in ScalarLoop Direct Fast; do runs+=("$m/1024/$step/1"); done
+  for layout in 2 3; do
+    for n in 256 4096 65536; do
+      for m in Fast FastType3; do runs+=("$m/$n/$step/$layout"); done
+    done
+  done
 done
 i=0
-for c in "${cases[@]}"; do
-  for m in ScalarLoop Direct Fast; do
-    i=$((i + 1))
-    echo "[$i/$((3 * ${#cases[@]}))] $m/$c" >&2
-    "$FIELD_BENCH" --benchmark_filter="^BM_$m/$c/" --benchmark_format=json \
-      >"$work/$(printf '%03d' $i).json" 2>/dev/null
-  done
+for r in "${runs[@]}"; do
+  i=$((i + 1))
+  echo "[$i/${#runs[@]}] $r" >&2
+  "$FIELD_BENCH" --benchmark_filter="^BM_$r/" --benchmark_format=json \
+    >"$work/$(printf '%03d' $i).json" 2>/dev/null
 done
 load_after="$(cut -d' ' -f1-3 /proc/loadavg)"
 
@@ -47,9 +54,11 @@ for f in sorted(glob.glob(os.path.join(work, "*.json"))):
     data = json.load(open(f))
     for b in data["benchmarks"]:
         name = b["name"].split("/")
-        method, n, step, general = name[0][3:], int(name[1]), int(name[2]) / 100, name[3] == "1"
-        key = (n, step, general)
-        r = dict(method=method, n=n, step=step, general=general, ms=b["real_time"],
+        method, n, step, layout = name[0][3:], int(name[1]), int(name[2]) / 100, int(name[3])
+        if method.startswith("Fast"):
+            method = "Fast (lattice)" if b.get("lattice") else "Fast (type-3)"
+        key = (n, step, layout)
+        r = dict(method=method, n=n, step=step, layout=layout, ms=b["real_time"],
                  cpu_pairs=b["pairs_per_s"] * b["real_time"] / b["cpu_time"],
                  pairs=b["pairs_per_s"], dirs=int(b["directions"]), mib=b["peak_MiB"],
                  threads=int(b["threads"]), err=b.get("error_rel_peak"), bound=b.get("error_bound"))
@@ -78,8 +87,12 @@ with open(out, "w") as o:
     o.write(f"- {platform.system()} {platform.release()}, {ctx.get('date', '')}\n")
     o.write(f"- Load average before / after: {load_before} / {load_after} "
             "(the machine is shared; wall times under load are pessimistic)\n\n")
-    o.write("Arrays: z-directed short dipoles on a planar half-wavelength lattice (random "
-            "currents); *general*: random orientations and a 3-D jitter. Grids cover the "
+    o.write("Arrays: z-directed short dipoles on a planar half-wavelength lattice with a "
+            "small jitter (random currents; the type-3 fast path); *general*: random "
+            "orientations and a 3-D jitter; *lattice*: the same lattice exactly (the lattice "
+            "fast path, and type 3 alone for comparison); *sparse lattice*: pitch 2 "
+            "wavelengths. *vs scalar* for lattice rows uses the jittered array's scalar loop "
+            "(the same work per pair). Grids cover the "
             "full sphere (1 deg: 65 341 directions, 0.25 deg: 1 038 961). Scalar and direct "
             "cases with many pairs run on an evenly strided subset of the grid (column "
             "*directions*); pairs/s is comparable across rows. The fast path always runs "
@@ -90,11 +103,13 @@ with open(out, "w") as o:
             "still measures fairly; *vs scalar* compares pairs/CPU-s with the scalar loop's.\n\n")
     o.write("| method | N | grid | directions | wall ms | pairs/s | pairs/CPU-s | vs scalar | peak MiB | fast error (measured / bound) |\n")
     o.write("|---|---:|---:|---:|---:|---:|---:|---:|---:|---|\n")
+    names = {0: "", 1: " general", 2: " lattice", 3: " sparse lattice"}
     for r in rows:
-        key = (r["n"], r["step"], r["general"])
-        ratio = r["cpu_pairs"] / scalar[key] if key in scalar else float("nan")
+        key = (r["n"], r["step"], r["layout"])
+        ref = scalar.get(key, scalar.get((r["n"], r["step"], 0)))
+        ratio = r["cpu_pairs"] / ref if ref else float("nan")
         err = f"{r['err']:.1e} / {r['bound']:.1e}" if r["err"] is not None else ""
-        label = f"{r['n']}" + (" general" if r["general"] else "")
+        label = f"{r['n']}{names[r['layout']]}"
         o.write(f"| {r['method']} | {label} | {r['step']:g} deg | {r['dirs']} | {r['ms']:.1f} | "
                 f"{r['pairs']:.3g} | {r['cpu_pairs']:.3g} | {ratio:.1f}x | {r['mib']:.0f} | {err} |\n")
 print(f"wrote {out}", file=sys.stderr)
