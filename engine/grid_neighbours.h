@@ -9,7 +9,10 @@
 // (O(Nt + Np) held), so a 6.5 M-direction grid costs kilobytes here, not the ~1 GB
 // that stored neighbour lists and unit vectors would. Quantities are read through a
 // callback by grid index, never copied per node; the sweeps hold three theta rows of
-// values. What the searches keep per node is one bit (the std::vector<bool> masks).
+// values. What the searches keep per node is one bit (the std::vector<bool> masks);
+// a component walk's stack holds at most one index per node of that component (for
+// the main beam of a single dipole, half the sphere: a few bytes per grid direction
+// at worst), kept because the walk's order decides ties and so the results.
 #pragma once
 
 #include <cstddef>
@@ -53,7 +56,8 @@ class GridNeighbours {
   std::vector<std::vector<std::size_t>> Components(const std::vector<bool>& member) const;
   // Calls visit for every node of the member component holding `node`, in the order
   // Components lists it, without building the list (a broad beam's component can
-  // be half the grid). Nothing is visited when `node` is not a member.
+  // be half the grid). Nothing is visited when `node` is not a member. Holds one
+  // bit per node and the walk's stack.
   void VisitComponent(const std::vector<bool>& member, std::size_t node,
                       const std::function<void(std::size_t)>& visit) const;
 
