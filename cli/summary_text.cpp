@@ -15,8 +15,7 @@ namespace {
 // The angles actually sampled: "0..175 deg step 7 (26)" for a stop of 180.
 std::string FormatRange(const std::vector<double>& values, double step_deg) {
   if (values.size() == 1) return Printf("%g deg", values.front());
-  return Printf("%g..%g deg step %g (%zu)", values.front(), values.back(), step_deg,
-                values.size());
+  return Printf("%g..%g deg step %g (%zu)", values.front(), values.back(), step_deg, values.size());
 }
 
 std::string FormatCurrent(Complex i) {
@@ -61,17 +60,16 @@ std::string DescribeArray(const ArrayDescription& desc) {
   s << "grid         theta " << FormatRange(desc.grid.theta_deg, desc.theta.step_deg) << ", phi "
     << FormatRange(desc.grid.phi_deg, desc.phi.step_deg) << " = " << desc.grid.size()
     << " directions\n";
-  s << "dipoles      " << a.size() << (desc.csv_path.empty() ? "" : " (rows from " + desc.csv_path + ")")
-    << "\n";
+  s << "dipoles      " << a.size()
+    << (desc.csv_path.empty() ? "" : " (rows from " + desc.csv_path + ")") << "\n";
   const std::size_t shown = std::min(a.size(), kFullTableUpTo);
   s << "     #     x (m)      y (m)      z (m)    ux     uy     uz   length (m)  dist.       "
        "|I|        phase\n";
   for (std::size_t n = 0; n < shown; ++n) {
     const Dipole& d = a.dipoles[n];
-    s << Printf("  %4zu %10.4g %10.4g %10.4g %6.3f %6.3f %6.3f %11.4g  %-10s", n,
-                d.position_m.x(), d.position_m.y(), d.position_m.z(), d.orientation.x(),
-                d.orientation.y(), d.orientation.z(), d.length_m,
-                std::string(ToString(d.distribution)).c_str())
+    s << Printf("  %4zu %10.4g %10.4g %10.4g %6.3f %6.3f %6.3f %11.4g  %-10s", n, d.position_m.x(),
+                d.position_m.y(), d.position_m.z(), d.orientation.x(), d.orientation.y(),
+                d.orientation.z(), d.length_m, std::string(ToString(d.distribution)).c_str())
       << FormatCurrent(d.current_a) << "\n";
   }
   if (shown < a.size()) s << "  ... " << a.size() - shown << " more\n";
@@ -87,8 +85,8 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
   const ComputeSummary& sm = r.summary;
   std::ostringstream s;
   s << "array        " << (desc.name.empty() ? "(unnamed)" : "\"" + desc.name + "\"") << ", "
-    << a.size() << " dipole" << (a.size() == 1 ? "" : "s") << ", ground "
-    << ToString(a.ground) << "\n";
+    << a.size() << " dipole" << (a.size() == 1 ? "" : "s") << ", ground " << ToString(a.ground)
+    << "\n";
   s << "frequency    " << FormatFrequency(a.frequency_hz)
     << Printf("   wavelength %.6g m\n", a.wavelength_m());
   s << "grid         " << r.grid.theta_deg.size() << " theta x " << r.grid.phi_deg.size()
@@ -98,8 +96,8 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
   const Eigen::Index peak = PeakIndex(r.directivity);  // the peak the summary reports
   const auto ip = static_cast<std::size_t>(peak);
   s << "peak         D = " << FormatDb(sm.peak_directivity) << " dBi ("
-    << Printf("%.6g", sm.peak_directivity) << ") at " << FormatDirection(sm.peak_theta_deg, sm.peak_phi_deg)
-    << " (grid maximum)\n";
+    << Printf("%.6g", sm.peak_directivity) << ") at "
+    << FormatDirection(sm.peak_theta_deg, sm.peak_phi_deg) << " (grid maximum)\n";
   const double ar = r.axial_ratio_db[peak];
   // Tilt is measured from theta_hat toward phi_hat; it is undefined for circular
   // polarization (AR ~ 0 dB), so it is not printed there.
@@ -135,7 +133,8 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
   }
   s << "method       field " << sm.method << " (asked " << sm.method_requested << ")";
   if (sm.method == "fast") {
-    s << Printf(", error bound %.2g of the peak |rE|", sm.field_error_bound_relative);
+    s << Printf(", %s transform, error bound %.2g of the peak |rE|", sm.fast_transform.c_str(),
+                sm.field_error_bound_relative);
   }
   s << "; power " << sm.power_method
     << (sm.power_method == "streamed" ? " (no resistance matrix stored)" : " (closed form)")

@@ -88,6 +88,12 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
     s.num_sources = plan.num_sources();
     const bool fast = plan.method_used() == FieldMethod::kFast;
     any_fast = any_fast || fast;
+    const std::string transform(ToString(plan.fast_transform()));
+    if (s.fast_transform == "none") {
+      s.fast_transform = transform;
+    } else if (transform != "none" && s.fast_transform.find(transform) == std::string::npos) {
+      s.fast_transform += "+" + transform;
+    }
     // Sub-chunks only so progress can be reported; the fast path transforms the
     // whole block at once, so it runs as one.
     const std::size_t nb = plan.num_directions();

@@ -40,35 +40,38 @@ struct PatternOptions {
 
 // What was asked, what was used, and how long each stage took.
 struct ComputeSummary {
-  std::string method = "direct";       // field method used: "direct" or "fast"
+  std::string method = "direct";  // field method used: "direct" or "fast"
   std::string method_requested = "auto";
-  double field_error_bound_relative = 0; // fast path: bound met, relative to the peak
-  std::string power_method = "matrix";   // "matrix" or "streamed" (no R stored)
+  // Fast path: "type-3" (any positions) or "lattice" (type 2 over the sites);
+  // "none" for the direct path; blocks that differ are joined with "+".
+  std::string fast_transform = "none";
+  double field_error_bound_relative = 0;  // fast path: bound met, relative to the peak
+  std::string power_method = "matrix";    // "matrix" or "streamed" (no R stored)
   int threads_used = 0;
   std::size_t num_dipoles = 0;
-  std::size_t num_sources = 0;       // dipoles plus images
+  std::size_t num_sources = 0;  // dipoles plus images
   std::size_t num_directions = 0;
-  double pairs = 0;                  // source-direction pairs evaluated
+  double pairs = 0;  // source-direction pairs evaluated
   double seconds_plan = 0;
   double seconds_field = 0;
   double seconds_power = 0;
   double seconds_polarization = 0;
   double radiated_power_w = 0;
-  double peak_directivity = 0;       // linear, grid maximum
+  double peak_directivity = 0;  // linear, grid maximum
   double peak_theta_deg = 0;
   double peak_phi_deg = 0;
 };
 
 struct PatternResult {
   AngularGrid grid;
-  FarField field;                              // (Nt*Np), theta-major
-  Eigen::VectorXd intensity_w_sr;              // U = |rE|^2 / (2 eta0)
-  Eigen::VectorXd directivity;                 // linear, 4 pi U / P
+  FarField field;                  // (Nt*Np), theta-major
+  Eigen::VectorXd intensity_w_sr;  // U = |rE|^2 / (2 eta0)
+  Eigen::VectorXd directivity;     // linear, 4 pi U / P
   Eigen::VectorXd axial_ratio_db;
   Eigen::VectorXd tilt_deg;
   std::vector<std::int8_t> sense;
-  Eigen::MatrixXd resistance_ohm;              // (N, N); 0 x 0 when streamed
-  Eigen::VectorXd active_resistance_ohm;       // (N)
+  Eigen::MatrixXd resistance_ohm;         // (N, N); 0 x 0 when streamed
+  Eigen::VectorXd active_resistance_ohm;  // (N)
   double radiated_power_w = 0;
   ComputeSummary summary;
 };

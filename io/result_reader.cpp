@@ -54,6 +54,7 @@ void ReadSummary(hid_t file, ComputeSummary& s) {
   };
   text("method", s.method);
   text("method_requested", s.method_requested);
+  text("fast_transform", s.fast_transform);
   text("power_method", s.power_method);
   number("field_error_bound_relative", s.field_error_bound_relative);
   count("threads_used", s.threads_used);
@@ -77,15 +78,16 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   const std::string format =
       hdf5::HasAttribute(root, "format") ? hdf5::ReadStringAttribute(root, "format") : "";
   if (format != kResultFormat) {
-    throw NotAResultError(path, "not a lobecast result file (root attribute format is " +
-                            (format.empty() ? std::string("missing") : "\"" + format + "\"") +
-                            ", expected \"" + std::string(kResultFormat) + "\")");
+    throw NotAResultError(path,
+                          "not a lobecast result file (root attribute format is " +
+                              (format.empty() ? std::string("missing") : "\"" + format + "\"") +
+                              ", expected \"" + std::string(kResultFormat) + "\")");
   }
   const std::int64_t version = hdf5::ReadIntAttribute(root, "format_version");
   if (version > kResultFormatVersion) {
     throw NotAResultError(path, "format_version " + std::to_string(version) +
-                            " is newer than this lobecast (reads " +
-                            std::to_string(kResultFormatVersion) + ")");
+                                    " is newer than this lobecast (reads " +
+                                    std::to_string(kResultFormatVersion) + ")");
   }
   if (version < 1) {
     throw IoError(path, "format_version " + std::to_string(version) + " is not valid");
@@ -187,8 +189,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   r.radiated_power_w = power[0];
   // Large arrays may be stored without the matrix (resistance_ohm stays 0 x 0).
   if (hdf5::Exists(file, "/power/resistance_ohm")) {
-    const std::vector<double> resistance =
-        hdf5::ReadDoubles(file, "/power/resistance_ohm", &dims);
+    const std::vector<double> resistance = hdf5::ReadDoubles(file, "/power/resistance_ohm", &dims);
     ExpectShape(path, "/power/resistance_ohm", dims, {n, n});
     r.resistance_ohm.resize(static_cast<Eigen::Index>(n), static_cast<Eigen::Index>(n));
     for (std::size_t i = 0; i < n; ++i) {

@@ -319,6 +319,7 @@ void PatternFileWriter::WriteSummary(const ComputeSummary& s) {
     Handle g = w.Group("/summary");
     hdf5::WriteStringAttribute(g, "method", s.method);
     hdf5::WriteStringAttribute(g, "method_requested", s.method_requested);
+    hdf5::WriteStringAttribute(g, "fast_transform", s.fast_transform);
     hdf5::WriteStringAttribute(g, "power_method", s.power_method);
     hdf5::WriteScalarAttribute(g, "field_error_bound_relative", s.field_error_bound_relative);
     hdf5::WriteIntAttribute(g, "threads_used", s.threads_used);

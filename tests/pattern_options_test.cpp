@@ -48,9 +48,13 @@ TEST(PatternOptions, FastFieldMatchesDirectWithinTolerance) {
   EXPECT_EQ(rd.summary.method, "direct");
   EXPECT_EQ(rf.summary.method, "fast");
   EXPECT_EQ(rf.summary.method_requested, "fast");
-  const double peak = std::sqrt((rd.field.e_theta.cwiseAbs2() + rd.field.e_phi.cwiseAbs2()).maxCoeff());
+  EXPECT_EQ(rd.summary.fast_transform, "none");
+  EXPECT_EQ(rf.summary.fast_transform, "lattice");  // a 12 x 12 grid over ground
+  const double peak =
+      std::sqrt((rd.field.e_theta.cwiseAbs2() + rd.field.e_phi.cwiseAbs2()).maxCoeff());
   const double err = std::max((rf.field.e_theta - rd.field.e_theta).cwiseAbs().maxCoeff(),
-                              (rf.field.e_phi - rd.field.e_phi).cwiseAbs().maxCoeff()) / peak;
+                              (rf.field.e_phi - rd.field.e_phi).cwiseAbs().maxCoeff()) /
+                     peak;
   EXPECT_LE(err, 1e-9) << "fast vs direct, relative to the peak |rE|";
   EXPECT_LE(err, rf.summary.field_error_bound_relative) << "the reported bound must hold";
 }

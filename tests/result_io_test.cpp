@@ -93,7 +93,8 @@ PatternResult MakeResult() {
   r.active_resistance_ohm.resize(2);
   r.active_resistance_ohm << 0.08, kNaN;
   r.radiated_power_w = 0.125;
-  r.summary.method = "direct";
+  r.summary.method = "fast";
+  r.summary.fast_transform = "lattice";
   r.summary.threads_used = 3;
   r.summary.num_dipoles = 2;
   r.summary.num_sources = 4;
@@ -189,6 +190,7 @@ TEST(ResultIo, RoundTripKeepsEverything) {
   const ComputeSummary& f = s.result.summary;
   const ComputeSummary& e = r.summary;
   EXPECT_EQ(f.method, e.method);
+  EXPECT_EQ(f.fast_transform, e.fast_transform);
   EXPECT_EQ(f.threads_used, e.threads_used);
   EXPECT_EQ(f.num_dipoles, e.num_dipoles);
   EXPECT_EQ(f.num_sources, e.num_sources);
