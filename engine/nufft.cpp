@@ -13,6 +13,7 @@
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/exp.h"
+#include "engine/kernel_clones.h"
 #include "engine/sincos.h"
 
 namespace lobecast {
@@ -134,7 +135,8 @@ void CheckStrengths(const Eigen::MatrixXcd& c, Eigen::Index rows, const char* wh
 // Kernel weights and wrapped grid indices of a coordinate t (grid units) on a
 // periodic grid of size n, for a kernel w cells wide; an inactive dimension has
 // the single weight 1 at cell 0. Returns the number of weights.
-inline int KernelWeights(bool active, double beta, int w, double t, int n, double* wt, int* idx) {
+[[gnu::always_inline]] inline int KernelWeights(bool active, double beta, int w, double t, int n,
+                                                double* wt, int* idx) {
   if (!active) {
     wt[0] = 1.0, idx[0] = 0;
     return 1;
@@ -151,6 +153,63 @@ inline int KernelWeights(bool active, double beta, int w, double t, int n, doubl
   }
   for (int i = 0; i < w; ++i) idx[i] = (((l0 + i) % n) + n) % n;
   return w;
+}
+
+// The zero-padded grid after its FFT, as the interpolation reads it.
+struct GridView {
+  const Complex* grid;
+  std::array<int, 3> n2;
+  std::size_t plane, cells;  // n2[1] n2[2], and all cells of one component
+  int nc;                    // components
+  double beta;
+  int w;
+};
+
+// out(k, :) = sum over the kernel's footprint of the grid at target k (grid
+// units), for targets [begin, end). Built for each vector width.
+LOBECAST_KERNEL_CLONES
+void InterpolateTargets(const GridView& g, const Eigen::Matrix3Xd& targets, std::ptrdiff_t begin,
+                        std::ptrdiff_t end, Eigen::MatrixXcd& out) {
+  for (std::ptrdiff_t k = begin; k < end; ++k) {
+    double wt[3][kMaxWidth];
+    int idx[3][kMaxWidth];
+    int len[3];
+    for (std::size_t d = 0; d < 3; ++d) {
+      len[d] = KernelWeights(g.n2[d] > 1, g.beta, g.w, targets(static_cast<Eigen::Index>(d), k),
+                             g.n2[d], wt[d], idx[d]);
+    }
+    // The innermost run is contiguous unless it wraps around the grid.
+    const bool contiguous = idx[2][len[2] - 1] == idx[2][0] + len[2] - 1;
+    double ar[3] = {0, 0, 0}, ai[3] = {0, 0, 0};
+    for (int i0 = 0; i0 < len[0]; ++i0) {
+      for (int i1 = 0; i1 < len[1]; ++i1) {
+        const std::size_t base =
+            static_cast<std::size_t>(idx[0][i0]) * g.plane +
+            static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(g.n2[2]);
+        const double w01 = wt[0][i0] * wt[1][i1];
+        for (int a = 0; a < g.nc; ++a) {
+          const Complex* row = g.grid + static_cast<std::size_t>(a) * g.cells + base;
+          double sr = 0, si = 0;
+          if (contiguous) {
+            const double* p = reinterpret_cast<const double*>(row + idx[2][0]);
+#pragma omp simd reduction(+ : sr, si)
+            for (int i2 = 0; i2 < len[2]; ++i2) {
+              sr += wt[2][i2] * p[2 * i2];
+              si += wt[2][i2] * p[2 * i2 + 1];
+            }
+          } else {
+            for (int i2 = 0; i2 < len[2]; ++i2) {
+              sr += wt[2][i2] * row[idx[2][i2]].real();
+              si += wt[2][i2] * row[idx[2][i2]].imag();
+            }
+          }
+          ar[a] += w01 * sr;
+          ai[a] += w01 * si;
+        }
+      }
+    }
+    for (int a = 0; a < g.nc; ++a) out(k, a) = Complex(ar[a], ai[a]);
+  }
 }
 
 int Threads(int requested) { return requested > 0 ? requested : omp_get_max_threads(); }
@@ -273,49 +332,15 @@ Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
     const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
     fftw_destroy_plan(plan);
   }
-  // 3. Interpolate at each target with the kernel.
+  // 3. Interpolate at each target with the kernel, in blocks of targets.
   Eigen::MatrixXcd out(targets_.cols(), nc);
+  const GridView view{grid, n2, plane, cells, nc, beta_, w};
+  constexpr std::ptrdiff_t kBlock = 512;
   const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
+  const std::ptrdiff_t blocks = (m + kBlock - 1) / kBlock;
 #pragma omp parallel for num_threads(threads) schedule(static)
-  for (std::ptrdiff_t k = 0; k < m; ++k) {
-    double wt[3][kMaxWidth];
-    int idx[3][kMaxWidth];
-    int len[3];
-    for (std::size_t d = 0; d < 3; ++d) {
-      len[d] = KernelWeights(n2[d] > 1, beta_, w, targets_(static_cast<Eigen::Index>(d), k), n2[d],
-                             wt[d], idx[d]);
-    }
-    // The innermost run is contiguous unless it wraps around the grid.
-    const bool contiguous = idx[2][len[2] - 1] == idx[2][0] + len[2] - 1;
-    double ar[3] = {0, 0, 0}, ai[3] = {0, 0, 0};
-    for (int i0 = 0; i0 < len[0]; ++i0) {
-      for (int i1 = 0; i1 < len[1]; ++i1) {
-        const std::size_t base =
-            static_cast<std::size_t>(idx[0][i0]) * plane +
-            static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(n2[2]);
-        const double w01 = wt[0][i0] * wt[1][i1];
-        for (int a = 0; a < nc; ++a) {
-          const Complex* row = grid + static_cast<std::size_t>(a) * cells + base;
-          double sr = 0, si = 0;
-          if (contiguous) {
-            const double* p = reinterpret_cast<const double*>(row + idx[2][0]);
-#pragma omp simd reduction(+ : sr, si)
-            for (int i2 = 0; i2 < len[2]; ++i2) {
-              sr += wt[2][i2] * p[2 * i2];
-              si += wt[2][i2] * p[2 * i2 + 1];
-            }
-          } else {
-            for (int i2 = 0; i2 < len[2]; ++i2) {
-              sr += wt[2][i2] * row[idx[2][i2]].real();
-              si += wt[2][i2] * row[idx[2][i2]].imag();
-            }
-          }
-          ar[a] += w01 * sr;
-          ai[a] += w01 * si;
-        }
-      }
-    }
-    for (int a = 0; a < nc; ++a) out(k, a) = Complex(ar[a], ai[a]);
+  for (std::ptrdiff_t b = 0; b < blocks; ++b) {
+    InterpolateTargets(view, targets_, b * kBlock, std::min(m, (b + 1) * kBlock), out);
   }
   fftw_free(grid);
   return out;
