@@ -122,8 +122,9 @@ void AddComputeCommand(CLI::App& app) {
       ->check(CLI::NonNegativeNumber);
   cmd->add_option("--method", args->method,
                   "Field method: direct (exact sum over every dipole-direction pair), fast "
-                  "(non-uniform FFT, accurate to --tolerance of the pattern peak) or auto "
-                  "(fast only where it is clearly cheaper)")
+                  "(non-uniform FFT, accurate to --tolerance of the pattern peak; a lattice "
+                  "transform when the elements sit on a regular grid) or auto (fast only "
+                  "where it is clearly cheaper)")
       ->check(CLI::IsMember({"direct", "fast", "auto"}))
       ->capture_default_str();
   cmd->add_option("--tolerance", args->tolerance,
