@@ -5,6 +5,7 @@
 #include <cmath>
 #include <complex>
 #include <sstream>
+#include <utility>
 
 #include <omp.h>
 
@@ -180,7 +181,7 @@ LatticeSum::LatticeSum(const AxisLattice& lattice, const Eigen::Matrix3Xd& targe
     target_factor_[k] = Complex(std::cos(phase), std::sin(phase));
   }
   representation_error_ = s_max * lattice.max_offset;
-  layer_sum_ = std::make_unique<const Nufft2>(modes, t, options);
+  layer_sum_ = std::make_unique<const Nufft2>(modes, std::move(t), options);
 }
 
 Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {

@@ -6,6 +6,7 @@
 #include <complex>
 #include <mutex>
 #include <sstream>
+#include <utility>
 
 #include <fftw3.h>
 #include <omp.h>
@@ -250,7 +251,7 @@ std::size_t Nufft2::num_modes() const {
          static_cast<std::size_t>(modes_[2]);
 }
 
-Nufft2::Nufft2(const std::array<int, 3>& modes, const Eigen::Matrix3Xd& targets,
+Nufft2::Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
                const NufftOptions& options)
     : geometry_(GeometryFor(modes, options.tolerance)),
       modes_(modes),
@@ -272,19 +273,17 @@ Nufft2::Nufft2(const std::array<int, 3>& modes, const Eigen::Matrix3Xd& targets,
       dc[static_cast<std::size_t>(i)] = h2 / (alpha2 * phi_hat(alpha2 * l));
     }
   }
-  // Targets in grid units, reduced to one period first so large t keep their digits.
-  targets_.resize(3, targets.cols());
+  // Targets in grid units (in place), reduced to one period first so large t
+  // keep their digits.
   for (Eigen::Index k = 0; k < targets.cols(); ++k) {
     for (int d = 0; d < 3; ++d) {
       const int n2 = geometry_.fft_size[static_cast<std::size_t>(d)];
-      if (n2 == 1) {
-        targets_(d, k) = 0.0;
-        continue;
-      }
       const double t = targets(d, k);
-      targets_(d, k) = (t - 2.0 * kPi * std::nearbyint(t / (2.0 * kPi))) * n2 / (2.0 * kPi);
+      targets(d, k) =
+          n2 == 1 ? 0.0 : (t - 2.0 * kPi * std::nearbyint(t / (2.0 * kPi))) * n2 / (2.0 * kPi);
     }
   }
+  targets_ = std::move(targets);
 }
 
 Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
@@ -386,7 +385,8 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
     if (dim.active) dim.h = kPi / (kUpsampling * s.half_width);
   }
   points_ = points.colwise() - cx;
-  targets_ = targets.colwise() - cs;
+  // Centred targets; after the target factors they become the type-2 stage's.
+  Eigen::Matrix3Xd centred = targets.colwise() - cs;
 
   // exp(i s . x) = exp(i s . C) exp(i D . x') exp(i s' . x').
   point_phase_.resize(points_.cols());
@@ -395,8 +395,8 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
     point_phase_[j] = Complex(std::cos(p), std::sin(p));
   }
   // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi).
-  target_factor_.resize(targets_.cols());
-  const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
+  target_factor_.resize(centred.cols());
+  const auto m = static_cast<std::ptrdiff_t>(centred.cols());
 #pragma omp parallel for num_threads(Threads(num_threads_)) schedule(static)
   for (std::ptrdiff_t k = 0; k < m; ++k) {
     double scale = 1.0;
@@ -404,7 +404,7 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
       const Dim& dim = dims_[static_cast<std::size_t>(d)];
       if (!dim.active) continue;
       const double alpha = 0.5 * w * dim.h;
-      scale *= dim.h / (alpha * phi_hat(alpha * targets_(d, k)));
+      scale *= dim.h / (alpha * phi_hat(alpha * centred(d, k)));
     }
     const double p = targets.col(k).dot(cx);
     target_factor_[k] = scale * Complex(std::cos(p), std::sin(p));
@@ -414,23 +414,29 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
   std::array<int, 3> order{0, 1, 2};
   std::stable_partition(order.begin(), order.end(),
                         [&](int d) { return !dims_[static_cast<std::size_t>(d)].active; });
+  // Stage 3: the spread grid (cell i <-> l = i - n/2) summed at s' h (radians
+  // per cell) by a type-2 transform; its targets are built in the centred
+  // matrix, so a dense grid holds one copy of them (rows permuted in place).
   const std::array<Dim, 3> dims = dims_;
-  const Eigen::Matrix3Xd p = points_, t = targets_;
+  const Eigen::Matrix3Xd p = points_;
+  for (int d = 0; d < 3; ++d) centred.row(d) *= dims[static_cast<std::size_t>(d)].h;
+  std::array<int, 3> modes{};
+  std::array<int, 3> at{0, 1, 2};  // at[d]: the row now holding dimension d
   for (int i = 0; i < 3; ++i) {
     const auto o = static_cast<std::size_t>(order[static_cast<std::size_t>(i)]);
     dims_[static_cast<std::size_t>(i)] = dims[o];
+    modes[static_cast<std::size_t>(i)] = dims[o].n;
     points_.row(i) = p.row(static_cast<Eigen::Index>(o));
-    targets_.row(i) = t.row(static_cast<Eigen::Index>(o));
+    const int from = at[o];
+    if (from != i) {
+      centred.row(i).swap(centred.row(from));
+      for (int& r : at) {
+        if (r == i) r = from;
+      }
+      at[o] = i;
+    }
   }
-  // Stage 3: the spread grid (cell i <-> l = i - n/2) summed at s' h (radians
-  // per cell) by a type-2 transform.
-  std::array<int, 3> modes{};
-  Eigen::Matrix3Xd grid_targets(3, targets_.cols());
-  for (int d = 0; d < 3; ++d) {
-    modes[static_cast<std::size_t>(d)] = dims_[static_cast<std::size_t>(d)].n;
-    grid_targets.row(d) = targets_.row(d) * dims_[static_cast<std::size_t>(d)].h;
-  }
-  grid_sum_ = std::make_unique<const Nufft2>(modes, grid_targets, options);
+  grid_sum_ = std::make_unique<const Nufft2>(modes, std::move(centred), options);
 }
 
 Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {

@@ -77,7 +77,7 @@ struct NufftGeometry {
 class Nufft2 {
  public:
   // modes: M_d >= 1 per dimension; targets: 3 x K.
-  Nufft2(const std::array<int, 3>& modes, const Eigen::Matrix3Xd& targets,
+  Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
          const NufftOptions& options = {});
   static NufftGeometry GeometryFor(const std::array<int, 3>& modes, double tolerance);
 
@@ -122,7 +122,6 @@ class Nufft3 : public PointSum {
   double beta_ = 0;
   int num_threads_ = 0;
   Eigen::Matrix3Xd points_;                 // centred
-  Eigen::Matrix3Xd targets_;                // centred
   Eigen::VectorXcd point_phase_;            // exp(i D . x'), D the targets' centre
   Eigen::VectorXcd target_factor_;          // exp(i s . C) h^dims / psi_hat(s')
   std::unique_ptr<const Nufft2> grid_sum_;  // stage 3: the spread grid's Fourier sum

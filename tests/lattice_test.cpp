@@ -14,6 +14,7 @@
 #include <gtest/gtest.h>
 
 #include "engine/error.h"
+#include "tests/exponential_sum.h"
 #include "tests/test_util.h"
 
 namespace lobecast {
@@ -52,27 +53,6 @@ Eigen::Matrix3Xd Wavevectors(TestRng& rng, int n, double k) {
     s.col(i) = k * Eigen::Vector3d(r * std::cos(p), r * std::sin(p), z);
   }
   return s;
-}
-
-// Max over targets and columns of |f - exact| / sum_j |c_j|.
-double RelativeError(const Eigen::Matrix3Xd& x, const Eigen::Matrix3Xd& s,
-                     const Eigen::MatrixXcd& c, const Eigen::MatrixXcd& f) {
-  double worst = 0;
-  for (Eigen::Index a = 0; a < c.cols(); ++a) {
-    const double l1 = c.col(a).cwiseAbs().sum();
-    for (Eigen::Index k = 0; k < s.cols(); ++k) {
-      LComplex sum = 0;
-      for (Eigen::Index j = 0; j < x.cols(); ++j) {
-        const long double p = static_cast<long double>(s(0, k)) * x(0, j) +
-                              static_cast<long double>(s(1, k)) * x(1, j) +
-                              static_cast<long double>(s(2, k)) * x(2, j);
-        sum += LComplex(c(j, a).real(), c(j, a).imag()) * LComplex(cosl(p), sinl(p));
-      }
-      const LComplex d = LComplex(f(k, a).real(), f(k, a).imag()) - sum;
-      worst = std::max(worst, static_cast<double>(std::abs(d)) / l1);
-    }
-  }
-  return worst;
 }
 
 TEST(FindAxisLattice, FindsPitchSitesAndIndices) {
@@ -168,7 +148,7 @@ TEST_P(LatticeSumAccuracy, MatchesTheExponentialSum) {
       for (int a = 0; a < 3; ++a) str(j, a) = Complex(rng.Uniform(-1, 1), rng.Uniform(-1, 1));
     }
     const LatticeSum sum(*lat, s, NufftOptions{tol, 0});
-    const double err = RelativeError(x, s, str, sum.Execute(str));
+    const double err = testing::SumRelativeError(x, s, str, sum.Execute(str));
     EXPECT_LT(err, 3.0 * tol + sum.representation_error()) << c.name << ", tolerance " << tol;
     EXPECT_GT(err, 1e-4 * tol) << c.name << ", tolerance " << tol;
   }

@@ -12,6 +12,7 @@
 #include <gtest/gtest.h>
 
 #include "engine/error.h"
+#include "tests/exponential_sum.h"
 #include "tests/test_util.h"
 
 namespace lobecast {
@@ -19,27 +20,6 @@ namespace {
 
 using testing::TestRng;
 using LComplex = std::complex<long double>;
-
-// Max over targets and columns of |f - exact| / sum_j |c_j| (per column).
-double RelativeError(const Eigen::Matrix3Xd& x, const Eigen::Matrix3Xd& s,
-                     const Eigen::MatrixXcd& c, const Eigen::MatrixXcd& f) {
-  double worst = 0;
-  for (Eigen::Index a = 0; a < c.cols(); ++a) {
-    const double l1 = c.col(a).cwiseAbs().sum();
-    for (Eigen::Index k = 0; k < s.cols(); ++k) {
-      LComplex sum = 0;
-      for (Eigen::Index j = 0; j < x.cols(); ++j) {
-        const long double p = static_cast<long double>(s(0, k)) * x(0, j) +
-                              static_cast<long double>(s(1, k)) * x(1, j) +
-                              static_cast<long double>(s(2, k)) * x(2, j);
-        sum += LComplex(c(j, a).real(), c(j, a).imag()) * LComplex(cosl(p), sinl(p));
-      }
-      const LComplex d = LComplex(f(k, a).real(), f(k, a).imag()) - sum;
-      worst = std::max(worst, static_cast<double>(std::abs(d)) / l1);
-    }
-  }
-  return worst;
-}
 
 Eigen::Matrix3Xd RandomCloud(TestRng& rng, int n, const Eigen::Vector3d& half,
                              const Eigen::Vector3d& centre) {
@@ -79,7 +59,7 @@ TEST_P(NufftAccuracy, MatchesDirectSumIn1D2D3D) {
     const Eigen::Matrix3Xd s = RandomCloud(rng, 400, c.s_half, Eigen::Vector3d(-0.3, 0.5, 1.1));
     const Eigen::MatrixXcd str = RandomStrengths(rng, 300, 3);
     const Nufft3 nufft(x, s, NufftOptions{tol, 0});
-    const double err = RelativeError(x, s, str, nufft.Execute(str));
+    const double err = testing::SumRelativeError(x, s, str, nufft.Execute(str));
     EXPECT_LT(err, 3.0 * tol) << c.name << ", tolerance " << tol;
     // Not absurdly pessimistic either: the width tracks the tolerance (floor 1e-14).
     EXPECT_GT(err, 1e-4 * tol) << c.name << ", tolerance " << tol;
