@@ -214,7 +214,7 @@ double FieldPlan::error_bound_relative() const {
 
 double FieldPlan::EstimatedDirectSeconds() const {
   std::size_t live = 0;
-  for (unsigned char z : zeroed_) live += z ? 0 : 1;
+  for (unsigned char z : dirs_.zeroed) live += z ? 0 : 1;
   const double per = collinear_ ? kSecondsPerPairCollinear : kSecondsPerPairGeneral;
   const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
   return static_cast<double>(live) * static_cast<double>(num_sources()) * per / threads;
@@ -231,7 +231,7 @@ double FieldPlan::EstimatedType3Seconds() const {
   const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
   double total = 0;
   for (double eps : PassTolerances(tolerance_relative_)) {
-    const NufftGeometry g = Nufft3::GeometryFor(source_pos_, k_r_hat_, eps);
+    const NufftGeometry g = Nufft3::GeometryFor(source_pos_, dirs_.k_r_hat, eps);
     if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
     const double spread = static_cast<double>(num_sources()) * g.kernel_points() * comps;
     const double interp =
@@ -268,7 +268,7 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
   FastCache& cache = *fast_;
   if (!cache.valid || cache.currents.size() != currents_a.size() || cache.currents != currents_a) {
     cache.valid = false;
-    const Eigen::Index ns = source_pos_.cols(), nd = k_r_hat_.cols();
+    const Eigen::Index ns = source_pos_.cols(), nd = dirs_.k_r_hat.cols();
     const int comps = collinear_ ? 1 : 3;
     Eigen::MatrixXcd strengths(ns, comps);
     double l1 = 0;  // sum_s |I_s| |Le_s u_s|, bounds every component's sum
@@ -296,9 +296,9 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
         const NufftOptions nufft_options{eps, num_threads_};
         std::shared_ptr<const PointSum> sum;
         if (fast_transform_ == FastTransform::kLattice) {
-          sum = std::make_shared<const LatticeSum>(*lattice_, k_r_hat_, nufft_options);
+          sum = std::make_shared<const LatticeSum>(*lattice_, dirs_.k_r_hat, nufft_options);
         } else {
-          sum = std::make_shared<const Nufft3>(source_pos_, k_r_hat_, nufft_options);
+          sum = std::make_shared<const Nufft3>(source_pos_, dirs_.k_r_hat, nufft_options);
         }
         it = cache.plans.emplace(exponent, std::move(sum)).first;
       }
@@ -306,15 +306,15 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
       const Eigen::MatrixXcd m = plan->Execute(strengths);
       double peak = 0;
       for (Eigen::Index i = 0; i < nd; ++i) {
-        if (zeroed_[static_cast<std::size_t>(i)]) {
+        if (dirs_.zeroed[static_cast<std::size_t>(i)]) {
           cache.field.e_theta[i] = 0.0, cache.field.e_phi[i] = 0.0;
           continue;
         }
         Complex mt = 0.0, mp = 0.0;
         for (int a = 0; a < 3; ++a) {
           const Complex ma = collinear_ ? m(i, 0) * common_axis_[a] : m(i, a);
-          mt += theta_hat_(a, i) * ma;
-          mp += phi_hat_(a, i) * ma;
+          mt += dirs_.theta_hat(a, i) * ma;
+          mp += dirs_.phi_hat(a, i) * ma;
         }
         cache.field.e_theta[i] = minus_j_pref * mt;
         cache.field.e_phi[i] = minus_j_pref * mp;
@@ -380,6 +380,15 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
         static_cast<int>(s % static_cast<Eigen::Index>(num_dipoles_));
   }
   collinear_ = AllParallel(source_moment_, &common_axis_);
+  // The direct kernels' structure of arrays: x, y, z, then the moment's x, y, z
+  // (general moments only).
+  for (int d = 0; d < 3; ++d) {
+    soa_[static_cast<std::size_t>(d)].assign(source_pos_.row(d).begin(), source_pos_.row(d).end());
+    if (!collinear_) {
+      soa_[static_cast<std::size_t>(d + 3)].assign(source_moment_.row(d).begin(),
+                                                   source_moment_.row(d).end());
+    }
+  }
   if (collinear_) {
     signed_moment_m_.resize(sources.size());
     for (Eigen::Index s = 0; s < ns; ++s) {
@@ -388,25 +397,8 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
   }
 
   const double k = array.wavenumber_rad_m();
-  const auto nd = static_cast<Eigen::Index>(directions.size());
-  k_r_hat_.resize(3, nd);
-  theta_hat_.resize(3, nd);
-  phi_hat_.resize(3, nd);
-  zeroed_.assign(directions.size(), 0);
-  // The unit vectors of grid.h's Directions, from one sin/cos pair per angle
-  // (the same values as Directions::r_hat etc.: std::sin and std::cos of the
-  // same arguments), in parallel: on dense grids this loop is the plan's cost.
-#pragma omp parallel for num_threads(num_threads_ > 0 ? num_threads_ : omp_get_max_threads()) \
-    schedule(static)
-  for (Eigen::Index i = 0; i < nd; ++i) {
-    const auto u = static_cast<std::size_t>(i);
-    const double t = directions.theta_rad(u), p = directions.phi_rad(u);
-    const double st = std::sin(t), ct = std::cos(t), sp = std::sin(p), cp = std::cos(p);
-    k_r_hat_.col(i) << k * (st * cp), k * (st * sp), k * ct;
-    theta_hat_.col(i) << ct * cp, ct * sp, -st;
-    phi_hat_.col(i) << -sp, cp, 0.0;
-    zeroed_[u] = BelowGround(ground_, t) ? 1 : 0;
-  }
+  wavenumber_rad_m_ = k;
+  dirs_ = MakeDirectionData(directions);
 
   switch (options.method) {
     case FieldMethod::kDirect:
@@ -420,8 +412,8 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
     // A lattice within kLatticeOffsetPhase * tolerance of phase of every source.
     const double max_offset = kLatticeOffsetPhase * tolerance_relative_ / k;
     const double max_sites = kMaxSitesPerSource * static_cast<double>(num_sources()) + 1024.0;
-    auto lat = options.use_lattice ? FindAxisLattice(source_pos_, max_offset, max_sites)
-                                   : std::nullopt;
+    auto lat =
+        options.use_lattice ? FindAxisLattice(source_pos_, max_offset, max_sites) : std::nullopt;
     if (lat) {
       lattice_ = std::make_shared<const AxisLattice>(std::move(*lat));
       lattice_phase_error_ = k * lattice_->max_offset;
@@ -437,6 +429,46 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
     if (fast_transform_ != FastTransform::kLattice) lattice_.reset(), lattice_phase_error_ = 0;
   }
   if (method_used_ == FieldMethod::kFast) fast_ = std::make_shared<FastCache>();
+}
+
+FieldPlan::DirectionData FieldPlan::MakeDirectionData(const Directions& directions) const {
+  DirectionData d;
+  const double k = wavenumber_rad_m_;
+  const auto nd = static_cast<Eigen::Index>(directions.size());
+  d.k_r_hat.resize(3, nd);
+  d.theta_hat.resize(3, nd);
+  d.phi_hat.resize(3, nd);
+  d.zeroed.assign(directions.size(), 0);
+  // The unit vectors of grid.h's Directions, from one sin/cos pair per angle
+  // (the same values as Directions::r_hat etc.: std::sin and std::cos of the
+  // same arguments), in parallel: on dense grids this loop is the plan's cost.
+  const int threads = nd < 4096 ? 1 : (num_threads_ > 0 ? num_threads_ : omp_get_max_threads());
+#pragma omp parallel for num_threads(threads) schedule(static)
+  for (Eigen::Index i = 0; i < nd; ++i) {
+    const auto u = static_cast<std::size_t>(i);
+    const double t = directions.theta_rad(u), p = directions.phi_rad(u);
+    const double st = std::sin(t), ct = std::cos(t), sp = std::sin(p), cp = std::cos(p);
+    d.k_r_hat.col(i) << k * (st * cp), k * (st * sp), k * ct;
+    d.theta_hat.col(i) << ct * cp, ct * sp, -st;
+    d.phi_hat.col(i) << -sp, cp, 0.0;
+    d.zeroed[u] = BelowGround(ground_, t) ? 1 : 0;
+  }
+  return d;
+}
+
+FarField FieldPlan::ExecuteAt(const Eigen::VectorXcd& currents_a,
+                              const Directions& directions) const {
+  if (static_cast<std::size_t>(currents_a.size()) != num_dipoles_) {
+    std::ostringstream s;
+    s << "currents: found " << currents_a.size() << " values, expected one per dipole ("
+      << num_dipoles_ << ")";
+    throw InvalidArgument(s.str());
+  }
+  FarField out;
+  out.e_theta.resize(static_cast<Eigen::Index>(directions.size()));
+  out.e_phi.resize(static_cast<Eigen::Index>(directions.size()));
+  SumDirect(currents_a, MakeDirectionData(directions), 0, directions.size(), out);
+  return out;
 }
 
 FarField FieldPlan::Execute(const Eigen::VectorXcd& currents_a) const {
@@ -470,30 +502,27 @@ void FieldPlan::ExecuteRange(const Eigen::VectorXcd& currents_a, std::size_t fir
 
 void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first,
                               std::size_t count, FarField& out) const {
+  SumDirect(currents_a, dirs_, first, count, out);
+}
+
+void FieldPlan::SumDirect(const Eigen::VectorXcd& currents_a, const DirectionData& dirs,
+                          std::size_t first, std::size_t count, FarField& out) const {
   const std::size_t ns = num_sources();
-  std::vector<double> wr(ns), wi(ns), mx, my, mz;
-  if (!collinear_) mx.resize(ns), my.resize(ns), mz.resize(ns);
-  const std::vector<double> x(source_pos_.row(0).begin(), source_pos_.row(0).end());
-  const std::vector<double> y(source_pos_.row(1).begin(), source_pos_.row(1).end());
-  const std::vector<double> z(source_pos_.row(2).begin(), source_pos_.row(2).end());
+  std::vector<double> wr(ns), wi(ns);
   for (std::size_t s = 0; s < ns; ++s) {
     const Complex c = currents_a[source_dipole_[s]];
     const double m = collinear_ ? signed_moment_m_[s] : 1.0;
     wr[s] = c.real() * m;
     wi[s] = c.imag() * m;
-    if (!collinear_) {
-      const auto e = static_cast<Eigen::Index>(s);
-      mx[s] = source_moment_(0, e), my[s] = source_moment_(1, e), mz[s] = source_moment_(2, e);
-    }
   }
-  const SourceArrays src{x.data(),  y.data(),  z.data(),  wr.data(),
-                         wi.data(), mx.data(), my.data(), mz.data()};
+  const SourceArrays src{soa_[0].data(), soa_[1].data(), soa_[2].data(), wr.data(),
+                         wi.data(),      soa_[3].data(), soa_[4].data(), soa_[5].data()};
 
   // Directions the ground does not force to zero; the others are set here.
   std::vector<std::size_t> live;
   live.reserve(count);
   for (std::size_t j = 0; j < count; ++j) {
-    if (zeroed_[first + j]) {
+    if (dirs.zeroed[first + j]) {
       out.e_theta[static_cast<Eigen::Index>(j)] = 0.0;
       out.e_phi[static_cast<Eigen::Index>(j)] = 0.0;
     } else {
@@ -504,7 +533,10 @@ void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t fi
   const int acc_per_dir = collinear_ ? 2 : 6;
   const auto num_chunks =
       static_cast<std::ptrdiff_t>((live.size() + kChunkDirections - 1) / kChunkDirections);
-  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  // No more threads than chunks: a probe of a few directions runs on one.
+  const int threads = static_cast<int>(
+      std::clamp<std::ptrdiff_t>(num_threads_ > 0 ? num_threads_ : omp_get_max_threads(), 1,
+                                 std::max<std::ptrdiff_t>(1, num_chunks)));
   const Complex minus_j_pref(0.0, -prefactor_);
 
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
@@ -518,7 +550,7 @@ void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t fi
     std::array<double, 6 * (kChunkDirections + kTileCollinear)> acc{};
     for (std::size_t t = 0; t < ntiles * static_cast<std::size_t>(tile); ++t) {
       const auto i = static_cast<Eigen::Index>(first + live[d0 + std::min(t, nd - 1)]);
-      for (int a = 0; a < 3; ++a) k[3 * t + static_cast<std::size_t>(a)] = k_r_hat_(a, i);
+      for (int a = 0; a < 3; ++a) k[3 * t + static_cast<std::size_t>(a)] = dirs.k_r_hat(a, i);
     }
     // Blocks of sources in a fixed order, so the sum does not depend on threads.
     for (std::size_t b = 0; b < ns; b += kBlockSources) {
@@ -546,8 +578,8 @@ void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t fi
         mi << a[1], a[3], a[5];
       }
       // r_hat x (r_hat x M) = -M_perp, so rE_theta = -j (w mu0 / 4 pi) theta_hat . M.
-      const Complex m_theta(theta_hat_.col(i).dot(mr), theta_hat_.col(i).dot(mi));
-      const Complex m_phi(phi_hat_.col(i).dot(mr), phi_hat_.col(i).dot(mi));
+      const Complex m_theta(dirs.theta_hat.col(i).dot(mr), dirs.theta_hat.col(i).dot(mi));
+      const Complex m_phi(dirs.phi_hat.col(i).dot(mr), dirs.phi_hat.col(i).dot(mi));
       out.e_theta[j] = minus_j_pref * m_theta;
       out.e_phi[j] = minus_j_pref * m_phi;
     }

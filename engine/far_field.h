@@ -20,6 +20,7 @@
 //    estimated cost is well below the direct one.
 #pragma once
 
+#include <array>
 #include <cstddef>
 #include <memory>
 #include <optional>
@@ -91,9 +92,15 @@ class FieldPlan {
   void ExecuteRange(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                     FarField& out) const;
 
+  // The exact (direct) sum at directions of the caller's, reusing the plan's
+  // sources: for many small evaluations (off-grid searches), where building a
+  // plan per call would cost O(N) setup each time. Any plan can serve, one built
+  // on no directions too. Thread-safe.
+  FarField ExecuteAt(const Eigen::VectorXcd& currents_a, const Directions& directions) const;
+
   std::size_t num_dipoles() const { return num_dipoles_; }
   std::size_t num_sources() const { return static_cast<std::size_t>(source_pos_.cols()); }
-  std::size_t num_directions() const { return static_cast<std::size_t>(k_r_hat_.cols()); }
+  std::size_t num_directions() const { return static_cast<std::size_t>(dirs_.k_r_hat.cols()); }
 
   // kDirect or kFast: what options.method (kAuto resolved) led to.
   FieldMethod method_used() const { return method_used_; }
@@ -107,8 +114,16 @@ class FieldPlan {
  private:
   struct FastCache;  // defined in far_field.cpp
 
+  // Per-direction data the direct sum reads: k r_hat, theta_hat, phi_hat, zeroed.
+  struct DirectionData {
+    Eigen::Matrix3Xd k_r_hat, theta_hat, phi_hat;
+    std::vector<unsigned char> zeroed;  // 1 where the ground forces E = 0
+  };
+  DirectionData MakeDirectionData(const Directions& directions) const;
   void ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                      FarField& out) const;
+  void SumDirect(const Eigen::VectorXcd& currents_a, const DirectionData& dirs, std::size_t first,
+                 std::size_t count, FarField& out) const;
   void ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                    FarField& out) const;
   double EstimatedDirectSeconds() const;
@@ -126,7 +141,8 @@ class FieldPlan {
   // along it, and the sum needs one complex accumulator instead of three.
   bool collinear_ = false;
   Vec3 common_axis_ = Vec3::UnitZ();
-  std::vector<double> signed_moment_m_;  // Le * (u . axis), collinear only
+  std::vector<double> signed_moment_m_;     // Le * (u . axis), collinear only
+  std::array<std::vector<double>, 6> soa_;  // x, y, z (m); moment x, y, z (m, general only)
   double tolerance_relative_ = 1e-9;
   FieldMethod method_used_ = FieldMethod::kDirect;
   FastTransform fast_transform_ = FastTransform::kNone;
@@ -135,11 +151,9 @@ class FieldPlan {
   std::shared_ptr<const AxisLattice> lattice_;
   double lattice_phase_error_ = 0;
   std::shared_ptr<FastCache> fast_;  // shared by copies; keyed on currents
-  Eigen::Matrix3Xd k_r_hat_;         // k r_hat, rad/m
-  Eigen::Matrix3Xd theta_hat_;
-  Eigen::Matrix3Xd phi_hat_;
-  std::vector<unsigned char> zeroed_;  // 1 where the ground forces E = 0
+  double wavenumber_rad_m_ = 0;
   int num_threads_ = 0;
+  DirectionData dirs_;  // the plan's directions
 };
 
 }  // namespace lobecast

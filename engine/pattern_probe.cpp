@@ -62,6 +62,9 @@ CoCross ProbeSample::CoCrossFor(PolarizationReference reference) const {
 PatternProbe::PatternProbe(const Array& array, double radiated_power_w)
     : array_(array),
       currents_(CurrentsOf(array)),
+      // Sources only: every At() call brings its own directions (direct sums).
+      plan_(std::make_shared<const FieldPlan>(array, Directions::FromAngles({}, {}),
+                                              FieldOptions{0, FieldMethod::kDirect})),
       per_v2_(4.0 * kPi / (2.0 * kEta0_ohm * radiated_power_w)) {}
 
 bool PatternProbe::NoFieldAt(const Vec3& r) const {
@@ -77,11 +80,8 @@ std::vector<ProbeSample> PatternProbe::At(const std::vector<Vec3>& r_hat) const 
     theta[i] = s.theta_rad;
     phi[i] = s.phi_rad;
   }
-  FieldOptions fo;
-  fo.method = FieldMethod::kDirect;             // exact sums: null depths reach rounding
-  fo.num_threads = r_hat.size() < 512 ? 1 : 0;  // no thread start-up for a handful
-  const FieldPlan plan(array_, Directions::FromAngles(theta, phi), fo);
-  const FarField f = plan.Execute(currents_);
+  // Exact sums (null depths reach rounding) on the plan built once for the sources.
+  const FarField f = plan_->ExecuteAt(currents_, Directions::FromAngles(theta, phi));
   evaluations_ += r_hat.size();
   for (std::size_t i = 0; i < r_hat.size(); ++i) {
     ProbeSample& s = out[i];

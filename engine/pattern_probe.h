@@ -1,11 +1,12 @@
 // Exact pattern values in arbitrary directions, for the off-grid refinement of the
 // pattern analysis. Directions are unit vectors here, not (theta, phi): searches
 // move in a local chart around a point, so the poles and the phi seam need no
-// special cases. Every evaluation builds a FieldPlan on the requested directions
-// and runs the direct (exact) sum.
+// special cases. Every evaluation runs the direct (exact) sum on one FieldPlan of
+// the sources, built once (FieldPlan::ExecuteAt).
 #pragma once
 
 #include <cstddef>
+#include <memory>
 #include <vector>
 
 #include "engine/far_field.h"
@@ -78,7 +79,8 @@ class PatternProbe {
  private:
   Array array_;
   Eigen::VectorXcd currents_;
-  double per_v2_ = 0.0;  // 4 pi / (2 eta0 P), 1/V^2
+  std::shared_ptr<const FieldPlan> plan_;  // the sources, built once
+  double per_v2_ = 0.0;                    // 4 pi / (2 eta0 P), 1/V^2
   mutable std::size_t evaluations_ = 0;
 };
 

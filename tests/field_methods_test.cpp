@@ -7,9 +7,9 @@
 #include "engine/far_field.h"
 
 #include <cmath>
+#include <complex>
 #include <cstdio>
 #include <cstdlib>
-#include <complex>
 #include <string>
 #include <vector>
 
@@ -233,6 +233,30 @@ TEST(FastPath, LatticesTakeTheLatticeTransformAndOthersTypeThree) {
   EXPECT_EQ(FieldPlan(jittered, dirs, Options(FieldMethod::kDirect)).fast_transform(),
             FastTransform::kNone);
   EXPECT_EQ(ToString(FastTransform::kLattice), "lattice");
+}
+
+TEST(DirectPath, ExecuteAtMatchesAPlanOnThoseDirections) {
+  TestRng rng(28);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array a = RandomArray(rng, 150, g, 3.0);
+    const Eigen::VectorXcd cur = CurrentsOf(a);
+    std::vector<double> th, ph;
+    for (int i = 0; i < 300; ++i)
+      th.push_back(rng.Uniform(0, kPi)), ph.push_back(rng.Uniform(0, 2 * kPi));
+    const Directions dirs = Directions::FromAngles(th, ph);
+    const FarField want = FieldPlan(a, dirs, Options(FieldMethod::kDirect)).Execute(cur);
+    // A plan of the sources on no directions, and one on other directions.
+    for (const Directions& own : {Directions::FromAngles({}, {}), Grid(30)}) {
+      const FarField got = FieldPlan(a, own, Options(FieldMethod::kDirect)).ExecuteAt(cur, dirs);
+      ASSERT_EQ(got.size(), dirs.size());
+      for (Eigen::Index i = 0; i < got.e_theta.size(); ++i) {
+        ASSERT_EQ(got.e_theta[i], want.e_theta[i]) << i;
+        ASSERT_EQ(got.e_phi[i], want.e_phi[i]) << i;
+      }
+    }
+    EXPECT_THROW(FieldPlan(a, dirs, Options(FieldMethod::kDirect)).ExecuteAt(cur.head(3), dirs),
+                 InvalidArgument);
+  }
 }
 
 TEST(FastPath, ChunkedExecutionMatchesWhole) {
