@@ -183,6 +183,15 @@ constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
 constexpr double kMaxSitesPerSource = 16.0;
 constexpr double kLatticeOffsetPhase = 1e-3;
 
+// One complex current per dipole, or InvalidArgument naming both counts.
+void CheckCurrents(const Eigen::VectorXcd& currents_a, std::size_t num_dipoles) {
+  if (static_cast<std::size_t>(currents_a.size()) == num_dipoles) return;
+  std::ostringstream s;
+  s << "currents: found " << currents_a.size() << " values, expected one per dipole ("
+    << num_dipoles << ")";
+  throw InvalidArgument(s.str());
+}
+
 // True when every column of m is parallel or antiparallel to one unit vector.
 bool AllParallel(const Eigen::Matrix3Xd& m, Vec3* axis) {
   if (m.cols() == 0) return false;
@@ -458,12 +467,7 @@ FieldPlan::DirectionData FieldPlan::MakeDirectionData(const Directions& directio
 
 FarField FieldPlan::ExecuteAt(const Eigen::VectorXcd& currents_a,
                               const Directions& directions) const {
-  if (static_cast<std::size_t>(currents_a.size()) != num_dipoles_) {
-    std::ostringstream s;
-    s << "currents: found " << currents_a.size() << " values, expected one per dipole ("
-      << num_dipoles_ << ")";
-    throw InvalidArgument(s.str());
-  }
+  CheckCurrents(currents_a, num_dipoles_);
   FarField out;
   out.e_theta.resize(static_cast<Eigen::Index>(directions.size()));
   out.e_phi.resize(static_cast<Eigen::Index>(directions.size()));
@@ -479,12 +483,7 @@ FarField FieldPlan::Execute(const Eigen::VectorXcd& currents_a) const {
 
 void FieldPlan::ExecuteRange(const Eigen::VectorXcd& currents_a, std::size_t first,
                              std::size_t count, FarField& out) const {
-  if (static_cast<std::size_t>(currents_a.size()) != num_dipoles_) {
-    std::ostringstream s;
-    s << "currents: found " << currents_a.size() << " values, expected one per dipole ("
-      << num_dipoles_ << ")";
-    throw InvalidArgument(s.str());
-  }
+  CheckCurrents(currents_a, num_dipoles_);
   if (first > num_directions() || count > num_directions() - first) {
     std::ostringstream s;
     s << "direction range [" << first << ", " << first + count << ") exceeds the plan's "
