@@ -175,7 +175,7 @@ constexpr double kSecondsPerKernelPoint = 2.0e-9;    // spread or interpolate, p
 constexpr double kSecondsPerFftPointLog = 1.0e-9;    // per grid point and log2(size), per component
 constexpr double kSecondsPerTargetPass = 1.0e-6;     // kernel transforms, phases, copies
 constexpr double kSecondsPerLatticeTarget = 6.0e-7;  // lattice: phases, projection, copies
-constexpr double kSecondsPerLayerTarget = 2.0e-8;    // lattice: one layer's phase and sum
+constexpr double kSecondsPerLayerTarget = 8.0e-8;    // lattice: one layer's phase and sum
 constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
 // Lattice detection: the sites may hold at most this many times the sources (so
 // thinned lattices qualify, scattered points on a fine raster do not), and the
@@ -229,10 +229,11 @@ double FieldPlan::EstimatedDirectSeconds() const {
   return static_cast<double>(live) * static_cast<double>(num_sources()) * per / threads;
 }
 
-// A scout pass, then one about two digits tighter than asked (the peak is
-// usually below sum |c|): the tolerances both fast estimates cost.
+// A scout pass, then one about three digits tighter than asked (the peak is
+// below sum |c|, often well below for irregular currents, and the error model
+// carries a factor 10): the tolerances both fast estimates cost.
 static std::array<double, 2> PassTolerances(double tolerance_relative) {
-  return {kScoutTolerance, std::max(1e-14, 1e-2 * tolerance_relative)};
+  return {kScoutTolerance, std::max(1e-14, 1e-3 * tolerance_relative)};
 }
 
 double FieldPlan::EstimatedType3Seconds() const {

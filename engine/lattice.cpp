@@ -26,6 +26,9 @@ struct Axis {
 
 // The lattice of one coordinate, or std::nullopt.
 std::optional<Axis> FindAxis(std::vector<double> v, double max_offset, double max_sites) {
+  for (double x : v) {
+    if (!std::isfinite(x)) return std::nullopt;
+  }
   std::sort(v.begin(), v.end());
   const double lo = v.front(), span = v.back() - lo;
   if (span <= 2.0 * max_offset) return Axis{lo + 0.5 * span, 0.0, 1};
@@ -56,11 +59,48 @@ std::optional<Axis> FindAxis(std::vector<double> v, double max_offset, double ma
 
 int Threads(int requested) { return requested > 0 ? requested : omp_get_max_threads(); }
 
+// At most this many layers: each costs a pass over every target, so a cube of
+// few sites per side must not become hundreds of zero-dimensional transforms.
+constexpr int kMaxLayers = 16;
+// One layer's fixed cost per target (phase, accumulation, a pass of the
+// interpolation loop) in kernel-point units: about 80 ns against 2 ns
+// (tests/bench, this machine's AVX-512 build).
+constexpr double kLayerCostInKernelPoints = 40.0;
+
+// Which dimensions are summed layer by layer for a kernel w cells wide. Layering
+// a dimension of m sites turns one interpolation of w^a kernel points per target
+// (a transformed dimensions) into m of w^(a-1); it is done when that is cheaper
+// with the layers' fixed cost counted, fewest sites first, while the layers
+// multiply to at most kMaxLayers.
+std::array<bool, 3> LayeredDimensions(const AxisLattice& lattice, int w) {
+  std::array<int, 3> by_sites{0, 1, 2};
+  std::stable_sort(by_sites.begin(), by_sites.end(), [&](int a, int b) {
+    return lattice.sites[static_cast<std::size_t>(a)] < lattice.sites[static_cast<std::size_t>(b)];
+  });
+  std::array<bool, 3> layered{false, false, false};
+  int active = 0;
+  for (int m : lattice.sites) active += m > 1 ? 1 : 0;
+  int layers = 1;
+  for (int d : by_sites) {
+    const int m = lattice.sites[static_cast<std::size_t>(d)];
+    if (m == 1 || layers * m > kMaxLayers) continue;
+    const double transformed = std::pow(w, active) + kLayerCostInKernelPoints;
+    const double as_layers = m * (std::pow(w, active - 1) + kLayerCostInKernelPoints);
+    if (as_layers < transformed) {
+      layered[static_cast<std::size_t>(d)] = true;
+      layers *= m;
+      --active;
+    }
+  }
+  return layered;
+}
+
 }  // namespace
 
 std::optional<AxisLattice> FindAxisLattice(const Eigen::Matrix3Xd& points, double max_offset,
                                            double max_sites) {
   if (points.cols() == 0 || !(max_offset >= 0)) return std::nullopt;
+  max_sites = std::min(max_sites, 2e9);  // site numbers are ints
   AxisLattice lat;
   for (int d = 0; d < 3; ++d) {
     const std::optional<Axis> axis = FindAxis(
@@ -89,15 +129,14 @@ std::optional<AxisLattice> FindAxisLattice(const Eigen::Matrix3Xd& points, doubl
 
 LatticeShape LatticeSum::ShapeFor(const AxisLattice& lattice, double tolerance) {
   const int w = Nufft2::GeometryFor({1, 1, 1}, tolerance).kernel_width;
+  const std::array<bool, 3> layered = LayeredDimensions(lattice, w);
   LatticeShape shape;
   std::array<int, 3> modes{1, 1, 1};
-  int slot = 2;
+  int slot = 2;  // transformed dimensions fill the last slots, in order
   for (int d = 2; d >= 0; --d) {
     const int m = lattice.sites[static_cast<std::size_t>(d)];
     if (m == 1) continue;
-    // Layer by layer when the dimension has fewer sites than the kernel is wide:
-    // m transforms of one dimension less beat one whose interpolation costs w times more.
-    if (m < w) {
+    if (layered[static_cast<std::size_t>(d)]) {
       shape.layers *= m;
     } else {
       modes[static_cast<std::size_t>(slot--)] = m;
@@ -113,6 +152,7 @@ LatticeSum::LatticeSum(const AxisLattice& lattice, const Eigen::Matrix3Xd& targe
       num_points_(lattice.index.size()),
       num_threads_(options.num_threads) {
   const int w = shape_.per_layer.kernel_width;
+  const std::array<bool, 3> layered = LayeredDimensions(lattice, w);
   // Mode slots: trivial and layered dimensions first, transformed ones last (the
   // order ShapeFor fills them in), so the innermost grid loop is a transformed one.
   std::array<int, 3> modes{1, 1, 1};
@@ -120,7 +160,7 @@ LatticeSum::LatticeSum(const AxisLattice& lattice, const Eigen::Matrix3Xd& targe
   for (int d = 0; d < 3; ++d) {
     const int m = lattice.sites[static_cast<std::size_t>(d)];
     if (m == 1) continue;
-    if (m < w) {
+    if (layered[static_cast<std::size_t>(d)]) {
       layered_.push_back(d);
       layered_sites_.push_back(m);
     } else {

@@ -13,7 +13,7 @@
 // site counts M_d only, not on pitch times |s|: sparse lattices (pitch above
 // half a wavelength) cost no more than dense ones. A dimension with fewer sites
 // than the kernel is wide (a plane and its image over ground: two) is summed
-// layer by layer, one lower-dimensional transform per layer.
+// layer by layer, one lower-dimensional transform per layer (at most 16 layers).
 #pragma once
 
 #include <array>
@@ -38,9 +38,10 @@ struct AxisLattice {
 };
 
 // The lattice of the points (3 x N), or std::nullopt when some point lies
-// farther than max_offset from every candidate lattice with at most max_sites
-// sites. Pitches are searched as the smallest gap between distinct coordinates
-// divided by 1 to 8, so thinned and offset-row lattices are found.
+// farther than max_offset along an axis (sqrt(3) max_offset in all) from every
+// candidate lattice with at most max_sites sites, or a coordinate is not finite.
+// max_offset on the result is the actual largest distance. Pitches are searched as the smallest gap
+// between distinct coordinates divided by 1 to 8, so thinned and offset-row lattices are found.
 std::optional<AxisLattice> FindAxisLattice(const Eigen::Matrix3Xd& points, double max_offset,
                                            double max_sites);
 

@@ -70,7 +70,9 @@ struct NufftGeometry {
 //
 // the same scheme's second stage (Barnett et al. 2019, sec. 2): divide the modes
 // by the kernel's Fourier transform, zero-pad by 2, FFTW, interpolate with the
-// kernel at t_k (radians per mode step, any range: the sum is 2 pi periodic).
+// kernel at t_k (radians per mode step; the sum is 2 pi periodic, and t is
+// reduced to one period first, which keeps 1e-9 up to |t| ~ 1e6 rad: as many
+// digits as a double phase of that size has anyway).
 // Error about tolerance * sum_l |c_l|. A dimension with M_d = 1 costs nothing.
 // Nufft3 runs one as its last stage; arrays on a regular lattice use it directly
 // (engine/lattice.h).
