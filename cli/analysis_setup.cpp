@@ -37,24 +37,4 @@ std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view
   return {*a, *b};
 }
 
-PolarizationReference AutoReference(const PatternResult& r) {
-  Eigen::Index peak = 0;
-  r.directivity.maxCoeff(&peak);
-  const double phi = r.grid.phi_deg[static_cast<std::size_t>(peak) % r.grid.phi_deg.size()];
-  PolarizationReference best = PolarizationReference::kLinearX;
-  double best_co = -1.0;
-  for (const PolarizationReference ref :
-       {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-        PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular}) {
-    const double co =
-        std::norm(CoCrossOf(r.field.e_theta[peak], r.field.e_phi[peak], phi * kDegree, ref).co);
-    // The relative margin keeps ties (a 45 deg linear field) on the first candidate.
-    if (co > best_co * (1.0 + 1e-9)) {
-      best_co = co;
-      best = ref;
-    }
-  }
-  return best;
-}
-
 }  // namespace lobecast::cli

@@ -27,7 +27,7 @@ std::optional<PolarizationReference> ParseReference(std::string_view text);
 std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,
                                          std::string_view expected);
 
-// The automatic choice described in kReferenceHelp, from the grid maximum.
-PolarizationReference AutoReference(const PatternResult& result);
+// The automatic choice described in kReferenceHelp: lobecast::AutoReference
+// (engine/pattern_analysis.h).
 
 }  // namespace lobecast::cli

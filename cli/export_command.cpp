@@ -16,6 +16,7 @@
 #include "cli/summary_text.h"
 #include "cli/text_format.h"
 #include "engine/error.h"
+#include "engine/pattern_analysis.h"
 #include "io/export_samples.h"
 #include "io/io_error.h"
 #include "io/pattern_export.h"
@@ -62,9 +63,9 @@ void RunExport(const ExportArgs& args) {
   std::optional<std::pair<double, double>> at;
   const bool az_el = table.coordinates == ExportCoordinates::kAzimuthElevation;
   if (!args.at.empty()) {
-    auto d = ParseAnglePair(args.at, "--at",
-                            az_el ? "AZIMUTH,ELEVATION in deg (with --coords az-el)"
-                                  : "THETA,PHI in deg");
+    auto d = ParseAnglePair(
+        args.at, "--at",
+        az_el ? "AZIMUTH,ELEVATION in deg (with --coords az-el)" : "THETA,PHI in deg");
     if (az_el) {
       if (!(d.second >= -90 && d.second <= 90)) {
         throw InvalidArgument("--at '" + args.at + "': elevation must be within -90..90 deg");
@@ -152,8 +153,7 @@ void AddExportCommand(CLI::App& app) {
       "One cut instead of the grid: phi=DEG (the plane through z; signed theta), theta=DEG "
       "(a cone), or great-circle:THETA,PHI,HEADING (deg: the great circle through that "
       "direction, leaving it HEADING deg from theta_hat toward phi_hat)");
-  cmd->add_option("--step", args->step_deg,
-                  "Spacing along a great-circle cut (deg; default 1)");
+  cmd->add_option("--step", args->step_deg, "Spacing along a great-circle cut (deg; default 1)");
   CLI::Option* at = cmd->add_option(
       "--at", args->at,
       "One direction, computed exactly: THETA,PHI (deg), or AZIMUTH,ELEVATION (deg) with "

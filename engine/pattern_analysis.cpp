@@ -73,6 +73,25 @@ bool AnalysisOptions::IsValid(std::string* why) const {
   return true;
 }
 
+PolarizationReference AutoReference(const PatternResult& r) {
+  const Eigen::Index peak = PeakIndex(r.directivity);
+  const double phi = r.grid.phi_deg[static_cast<std::size_t>(peak) % r.grid.phi_deg.size()];
+  PolarizationReference best = PolarizationReference::kLinearX;
+  double best_co = -1.0;
+  for (const PolarizationReference ref :
+       {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
+        PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular}) {
+    const double co =
+        std::norm(CoCrossOf(r.field.e_theta[peak], r.field.e_phi[peak], phi * kDegree, ref).co);
+    // The relative margin keeps ties (a 45 deg linear field) on the first candidate.
+    if (co > best_co * (1.0 + 1e-9)) {
+      best_co = co;
+      best = ref;
+    }
+  }
+  return best;
+}
+
 PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_result,
                                const AnalysisOptions& options) {
   const auto t0 = std::chrono::steady_clock::now();

@@ -21,6 +21,12 @@ namespace lobecast {
 // grid_result must be ComputePattern(array, ...) for this array (checked at the grid
 // maximum). Throws InvalidArgument for invalid options (see IsValid), an invalid
 // array, or a grid result that does not fit the array.
+// The polarization reference (x, y, RHCP, LHCP) with the largest co-polar
+// part at the grid peak (PeakIndex, so the beam the summary and the analysis
+// name); ties, as for a 45 deg linear field, go to the first in that order.
+// What "auto" means for compute, report, export and plot.
+PolarizationReference AutoReference(const PatternResult& result);
+
 PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_result,
                                const AnalysisOptions& options = {});
 

@@ -18,8 +18,7 @@ constexpr double kInf = std::numeric_limits<double>::infinity();
 Quantity CutQuantity(const StoredResult& r, const PlotOptions& o, PolarizationReference ref) {
   if (o.quantity) return *o.quantity;
   if (!o.reference.automatic) return Quantity::kCo;
-  Eigen::Index peak = 0;
-  r.result.directivity.maxCoeff(&peak);
+  const Eigen::Index peak = PeakIndex(r.result.directivity);  // the beam the summary names
   const std::size_t np = r.result.grid.phi_deg.size();
   const double theta = r.result.grid.theta_deg[static_cast<std::size_t>(peak) / np];
   if (std::fabs(std::cos(theta * kPi / 180.0)) >= std::cos(kPi / 4)) return Quantity::kCo;

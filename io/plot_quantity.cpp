@@ -3,6 +3,7 @@
 #include <cmath>
 #include <limits>
 
+#include "engine/pattern_analysis.h"
 #include "engine/text_case.h"
 
 namespace lobecast::plot {
@@ -83,22 +84,7 @@ std::vector<double> QuantityOnGrid(const StoredResult& r, Quantity q, Polarizati
 }
 
 PolarizationReference ResolveReference(const StoredResult& r, const ReferenceChoice& choice) {
-  if (!choice.automatic) return choice.fixed;
-  Eigen::Index peak = 0;
-  r.result.directivity.maxCoeff(&peak);
-  PolarizationReference best = PolarizationReference::kLinearX;
-  double best_value = -1;
-  for (PolarizationReference ref :
-       {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-        PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular}) {
-    const double v = QuantityAt(r, static_cast<std::size_t>(peak), Quantity::kCo, ref);
-    // A relative margin keeps the choice stable against rounding when two tie.
-    if (v > best_value * (1 + 1e-9)) {
-      best_value = v;
-      best = ref;
-    }
-  }
-  return best;
+  return choice.automatic ? AutoReference(r.result) : choice.fixed;
 }
 
 std::string QuantityLabel(Quantity q, PolarizationReference ref) {

@@ -75,6 +75,31 @@ double FirstSideLobeDb(int n) {
   return 10 * std::log10(UniformFactor(n, 0.5 * (lo + hi)));
 }
 
+TEST(AutoReference, TwinBeamsGoToTheUpperOneAsThePeakDoes) {
+  // A planar turnstile's beams at theta 0 and 180 deg are equal up to rounding and
+  // opposite in sense. Whichever rounds higher, "auto" must pick the reference of
+  // the beam PeakIndex names (the upper one), or the report's own peak reads as
+  // cross-polarized (found with a 2 x 2 turnstile panel).
+  PatternResult r;
+  r.grid = AngularGrid::FromRanges({0, 180, 90}, {0, 0, 1});
+  const Complex j(0, 1);
+  r.field.e_theta = Eigen::VectorXcd::Constant(3, Complex(1, 0));
+  r.field.e_phi.resize(3);
+  r.field.e_phi << j, 0.0, -j;
+  r.field.e_theta[1] = 0.1;
+  r.directivity.resize(3);
+  r.directivity << 1.0, 0.01, 1.0 + 1e-12;  // the lower beam a rounding above
+  const auto co = [&](Eigen::Index k, PolarizationReference ref) {
+    return std::norm(CoCrossOf(r.field.e_theta[k], r.field.e_phi[k], 0.0, ref).co);
+  };
+  const PolarizationReference upper =
+      co(0, PolarizationReference::kRightCircular) > co(0, PolarizationReference::kLeftCircular)
+          ? PolarizationReference::kRightCircular
+          : PolarizationReference::kLeftCircular;
+  EXPECT_EQ(PeakIndex(r.directivity), 0);
+  EXPECT_EQ(AutoReference(r), upper);
+}
+
 TEST(PatternAnalysis, HertzianDipole) {
   // z-directed Hertzian dipole: D = 1.5 on the equator, HPBW 90 deg in the elevation
   // plane (sin^2 theta = 1/2 at 45 and 135 deg), nulls exactly on the axis (Balanis,
