@@ -5,8 +5,8 @@
 #include <cmath>
 #include <cstdio>
 #include <fstream>
+#include <iostream>
 #include <memory>
-#include <sstream>
 #include <string>
 #include <vector>
 
@@ -116,14 +116,14 @@ void RunExport(const ExportArgs& args) {
         "-inf: zero field; nan: undefined at zero field",
     };
   }
-  std::ostringstream text;
-  WritePatternTable(text, samples, table);
+  // Straight into the stream: a full-grid table is not held in memory twice.
   if (args.output.empty()) {
-    std::fputs(text.str().c_str(), stdout);
+    WritePatternTable(std::cout, samples, table);
+    std::cout.flush();
     return;
   }
   std::ofstream out(args.output, std::ios::binary | std::ios::trunc);
-  out << text.str();
+  WritePatternTable(out, samples, table);
   out.close();
   if (!out) throw IoError(args.output, "could not write the export");
 }
