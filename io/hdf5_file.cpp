@@ -187,7 +187,11 @@ Handle CreateFile(const std::string& path) {
 
 Handle OpenFileReadOnly(const std::string& path) {
   std::error_code ec;
-  if (!std::filesystem::exists(path, ec)) throw IoError(path, "no such file");
+  if (!std::filesystem::exists(path, ec)) {
+    // Only a missing file is "no such file"; a permission or other error says itself.
+    throw IoError(path,
+                  ec && ec != std::errc::no_such_file_or_directory ? ec.message() : "no such file");
+  }
   if (std::filesystem::is_directory(path, ec)) throw IoError(path, "is a directory, not a file");
   const htri_t is_hdf5 = H5Fis_hdf5(path.c_str());
   if (is_hdf5 == 0) {

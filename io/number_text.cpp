@@ -20,14 +20,11 @@ void AppendShortest(std::string& out, double value) {
   out.append(buf, r.ptr);
 }
 
-std::string ShortestText(double value) {
-  std::string s;
-  AppendShortest(s, value);
-  return s;
-}
-
 std::optional<double> ParseFiniteNumber(std::string_view s) {
-  if (!s.empty() && s.front() == '+') s.remove_prefix(1);
+  if (!s.empty() && s.front() == '+') {
+    s.remove_prefix(1);
+    if (!s.empty() && (s.front() == '+' || s.front() == '-')) return std::nullopt;  // "+-5"
+  }
   double v = 0;
   const auto r = std::from_chars(s.data(), s.data() + s.size(), v);
   if (s.empty() || r.ec != std::errc() || r.ptr != s.data() + s.size() || !std::isfinite(v)) {

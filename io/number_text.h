@@ -9,9 +9,8 @@
 
 namespace lobecast {
 
-// "0.1", "1e-30", "-inf", "inf", "nan". std::strtod and Python's float() read all
-// of them back exactly.
-std::string ShortestText(double value);
+// Appends "0.1", "1e-30", "-inf", "inf", "nan": the shortest text that
+// std::strtod and Python's float() read back exactly.
 void AppendShortest(std::string& out, double value);
 
 // The whole of `s` (no blanks, an optional leading '+') as a finite double, read

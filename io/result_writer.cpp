@@ -14,10 +14,7 @@
 #include "engine/error.h"
 #include "io/hdf5_file.h"
 #include "io/safety_note.h"
-
-#ifndef LOBECAST_VERSION
-#define LOBECAST_VERSION "unknown"
-#endif
+#include "io/version.h"
 
 namespace lobecast {
 namespace {
@@ -394,7 +391,7 @@ void PatternFileWriter::Finish() {
 
     w.Hook("/");
     Handle root = hdf5::OpenGroup(w.file, "/");
-    hdf5::WriteStringAttribute(root, "software_version", LOBECAST_VERSION);
+    hdf5::WriteStringAttribute(root, "software_version", SoftwareVersion());
     hdf5::WriteStringAttribute(root, "time_convention", "exp(+jwt)");
     hdf5::WriteStringAttribute(root, "safety_note", kSafetyNote);
     hdf5::WriteStringAttribute(root, "created", w.meta.created);

@@ -12,7 +12,12 @@ namespace lobecast {
 std::optional<std::string> ReadTextFile(const std::string& path, std::string* why) {
   std::error_code ec;
   const auto status = std::filesystem::status(path, ec);
-  if (ec || !std::filesystem::exists(status)) {
+  // Only a missing file is "no such file"; a permission or other error says itself.
+  if (ec && ec != std::errc::no_such_file_or_directory) {
+    if (why) *why = ec.message();
+    return std::nullopt;
+  }
+  if (!std::filesystem::exists(status)) {
     if (why) *why = "no such file";
     return std::nullopt;
   }

@@ -29,8 +29,21 @@ std::size_t ParseLeadingNumber(std::string_view s, double& value) {
   const auto result = std::from_chars(s.data(), end, value, std::chars_format::general);
   if (result.ec != std::errc() && result.ec != std::errc::result_out_of_range) return 0;
   if (result.ec == std::errc::result_out_of_range) {
-    // Overflow reads as infinity so the caller can report a non-finite value.
-    value = (s.front() == '-') ? -HUGE_VAL : HUGE_VAL;
+    // from_chars says "out of range" for underflow too: read it in long double
+    // (subnormals and 1e-400 become what the double nearest is, 0 at worst);
+    // beyond even that, a negative exponent is underflow. Overflow reads as
+    // infinity so the caller can report a non-finite value.
+    const bool negative = s.front() == '-';
+    long double wide = 0;
+    const auto w = std::from_chars(s.data(), result.ptr, wide, std::chars_format::general);
+    if (w.ec == std::errc()) {
+      value = static_cast<double>(wide);
+    } else {
+      const std::string_view text(s.data(), static_cast<std::size_t>(result.ptr - s.data()));
+      const std::size_t e = text.find_first_of("eE");
+      const bool tiny = e != std::string_view::npos && e + 1 < text.size() && text[e + 1] == '-';
+      value = tiny ? (negative ? -0.0 : 0.0) : (negative ? -HUGE_VAL : HUGE_VAL);
+    }
   }
   return skip + static_cast<std::size_t>(result.ptr - s.data());
 }

@@ -22,6 +22,7 @@
 #include "io/array_reader.h"
 #include "io/csv_dipoles.h"
 #include "io/input_error.h"
+#include "io/number_text.h"
 #include "io/units.h"
 
 namespace lobecast {
@@ -75,6 +76,14 @@ TEST(Units, NumbersAndLengthUnits) {
   EXPECT_FALSE(ParseNumber(""));
   EXPECT_FALSE(ParseNumber("short"));
   EXPECT_TRUE(std::isinf(ParseNumber("1e999").value()));
+  // Underflow is a tiny number, not infinity (from_chars calls both out of range).
+  EXPECT_EQ(ParseNumber("1e-400").value(), 0.0);
+  EXPECT_EQ(ParseNumber("-1e-99999").value(), 0.0);
+  EXPECT_EQ(ParseNumber("4e-320").value(), 4e-320);  // subnormal
+  EXPECT_FALSE(ParseNumber("+-5"));
+  EXPECT_EQ(ParseFiniteNumber("+5").value(), 5.0);
+  EXPECT_FALSE(ParseFiniteNumber("+-5"));  // as ParseNumber: one sign only
+  EXPECT_FALSE(ParseFiniteNumber("inf"));
   EXPECT_EQ(FormatNumber(0.01), "0.01");
   EXPECT_EQ(FormatNumber(433920000.0), "433920000");
   EXPECT_EQ(LengthUnitFromString("cm"), LengthUnit::kCentimetre);
