@@ -61,7 +61,7 @@ void DrawColourBar(const Canvas& c, const ColourBar& bar, double step, const std
 
 MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PlotOptions& o) {
   const AngularGrid& grid = r.result.grid;
-  const Quantity q = o.QuantityOrDefault();
+  const Quantity q = o.quantity.value_or(Quantity::kDirectivity);  // cuts: CutQuantity
   const PolarizationReference ref = ResolveReference(r, o.reference);
   std::vector<double> db = QuantityOnGrid(r, q, ref);
   for (double& v : db) v = ToDb(v);

@@ -62,12 +62,6 @@ std::optional<MapProjection> MapProjectionFromString(std::string_view s) {
   return std::nullopt;
 }
 
-Quantity PlotOptions::QuantityOrDefault() const {
-  if (quantity) return *quantity;
-  return kind == PlotKind::kPolar || kind == PlotKind::kCartesian ? Quantity::kCo
-                                                                  : Quantity::kDirectivity;
-}
-
 bool PlotOptions::IsValid(std::string* why) const {
   return InRange(floor_db, 1, 200, "floor_db", why) &&
          InRange(contour_step_db, 0.5, 50, "contour_step_db", why) &&

@@ -47,7 +47,6 @@ struct PlotOptions {
   double axial_ratio_max_db = 30.0;
   ImageSize size;
 
-  Quantity QuantityOrDefault() const;
   // False, with a message naming the option, the value and the rule, unless
   // 1 <= floor_db <= 200, 0.5 <= contour_step_db <= 50,
   // 1 <= axial_ratio_max_db <= 100 and the size is valid.
