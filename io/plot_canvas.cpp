@@ -1,4 +1,5 @@
 #include "io/plot_canvas.h"
+#include "io/output_file.h"
 
 #include <cairo-pdf.h>
 #include <cairo-svg.h>
@@ -15,6 +16,7 @@
 #include "engine/text_case.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
+#include "io/output_file.h"
 
 namespace lobecast::plot {
 namespace {
@@ -99,6 +101,7 @@ Canvas::Canvas(const std::string& path, const ImageSize& size) : impl_(std::make
                      "unknown image type: expected a file name ending in .png, .svg or .pdf");
   std::string why;
   if (!size.IsValid(&why)) throw InputError(SourceLocation{"--size"}, why);
+  RequireReplaceable(path);  // the finished image is renamed into place
   impl_->path = path;
   impl_->format = *format;
   impl_->width = size.width_px;

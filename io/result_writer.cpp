@@ -13,6 +13,7 @@
 
 #include "engine/error.h"
 #include "io/hdf5_file.h"
+#include "io/output_file.h"
 #include "io/safety_note.h"
 #include "io/version.h"
 
@@ -199,6 +200,7 @@ PatternFileWriter::PatternFileWriter(const std::string& path, const Array& array
                                      const ResultWriteOptions& options)
     : impl_(std::make_unique<Impl>()) {
   Impl& w = *impl_;
+  RequireReplaceable(path);  // the rename below must not replace a device
   w.path = path;
   w.temp_path = TemporaryPathFor(path);
   w.meta = meta;

@@ -1,6 +1,7 @@
 // Round trip and schema checks of the HDF5 result file (CONVENTIONS §3). The
 // results are built by hand with recognisable values, not computed: these tests
 // are about storage, not physics.
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include <algorithm>
@@ -18,6 +19,7 @@
 #include <gtest/gtest.h>
 
 #include "engine/error.h"
+#include "io/input_error.h"
 #include "io/result_reader.h"
 #include "io/result_writer.h"
 
@@ -217,6 +219,20 @@ TEST(ResultIo, EmptyNameAndDescriptionAreOmittedAndCreatedIsKept) {
   EXPECT_EQ(s.metadata.description, "");
   EXPECT_EQ(s.metadata.input_path, "");
   EXPECT_EQ(s.metadata.created, "2026-12-02T01:23:45Z");
+}
+
+TEST(ResultIo, NeverReplacesAPipeOrFolder) {
+  // The atomic rename would replace whatever sits at the path; `-o /dev/null` as
+  // root would destroy the device. A pipe and a folder stand in for it here.
+  const fs::path dir = FreshDir("not_regular");
+  const std::string pipe = dir / "pipe";
+  ASSERT_EQ(::mkfifo(pipe.c_str(), 0600), 0);
+  EXPECT_THROW(WriteResult(pipe, MakeArray(), MakeResult(), MakeMeta()), InputError);
+  EXPECT_TRUE(fs::is_fifo(pipe));
+  const std::string folder = dir / "folder.h5";
+  fs::create_directory(folder);
+  EXPECT_THROW(WriteResult(folder, MakeArray(), MakeResult(), MakeMeta()), InputError);
+  EXPECT_TRUE(fs::is_directory(folder));
 }
 
 TEST(ResultIo, LargeInputTextSurvives) {
