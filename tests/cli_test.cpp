@@ -200,15 +200,28 @@ TEST(Cli, OutputInAMissingFolderIsRefusedBeforeComputing) {
 }
 
 TEST(Cli, FailureWhileWritingExitsOneAndLeavesNothing) {
-  // The target is an existing folder: the result is written beside it, then the
-  // rename onto a folder fails -- a failure while running (exit 1), not bad input.
-  const fs::path dir = WorkDir("write-failure");
+  // /proc exists but takes no new files (not even as root): the file cannot be
+  // created -- a failure while running (exit 1), not bad input.
+  const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(input) +
+                                   " -o /proc/lobecast-target.h5");
+  EXPECT_EQ(run.exit_code, 1) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("lobecast-target.h5"));
+  for (const auto& e : fs::directory_iterator("/proc")) {
+    EXPECT_EQ(e.path().string().find("lobecast-target"), std::string::npos) << e.path();
+  }
+}
+
+TEST(Cli, AFolderOrDeviceAtTheOutputPathIsRefusedUntouched) {
+  // The result is renamed into place, which would replace a folder or a device
+  // (-o /dev/null as root): refused before any work, as bad input.
+  const fs::path dir = WorkDir("not-regular");
   fs::create_directories(dir / "target.h5");
   const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";
   const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(input) +
                                    " -o " + Quote((dir / "target.h5").string()));
-  EXPECT_EQ(run.exit_code, 1) << run.out;
-  EXPECT_THAT(run.out, HasSubstr("target.h5"));
+  EXPECT_EQ(run.exit_code, 2) << run.out;
+  EXPECT_THAT(run.out, HasSubstr("not a regular file"));
   EXPECT_TRUE(fs::is_directory(dir / "target.h5"));
   for (const auto& e : fs::directory_iterator(dir)) {
     EXPECT_EQ(e.path().string().find(".tmp"), std::string::npos) << e.path();
