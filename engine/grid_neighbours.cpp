@@ -118,19 +118,24 @@ std::vector<std::size_t> GridNeighbours::neighbours(std::size_t node) const {
 }
 
 std::size_t GridNeighbours::MaxNode(const GridValue& value) const {
-  std::size_t best = 0;
-  double best_value = 0.0;
+  // PeakIndex's tie rule (engine/pattern.h): the first node within 1e-9 of the
+  // maximum, so twin beams that differ by rounding name the same beam as the
+  // summary's peak. Nodes run in grid-index order, so "first" agrees.
+  double max = 0.0;
+  bool any = false;
   for (std::size_t row : node_rows_) {
     for (std::size_t c = 0; c < NodesInRow(row); ++c) {
       const double v = value(row * phi_deg_.size() + c);
-      const std::size_t n = row_first_[row] + c;
-      if (n == 0 || best_value < v) {  // strict: the first of equal values stays
-        best = n;
-        best_value = v;
-      }
+      if (!any || max < v) max = v, any = true;
     }
   }
-  return best;
+  for (std::size_t row : node_rows_) {
+    for (std::size_t c = 0; c < NodesInRow(row); ++c) {
+      if (value(row * phi_deg_.size() + c) >= max - 1e-9 * std::abs(max))
+        return row_first_[row] + c;
+    }
+  }
+  return 0;
 }
 
 std::vector<bool> GridNeighbours::LocalExtrema(const GridValue& value, double tolerance,

@@ -40,7 +40,7 @@ class GridNeighbours {
   // The up to eight surrounding nodes (every node of the next row for a pole), ascending.
   std::vector<std::size_t> neighbours(std::size_t node) const;
 
-  // The first node holding the largest value.
+  // The first node within 1e-9 (relative) of the largest value: PeakIndex's tie rule.
   std::size_t MaxNode(const GridValue& value) const;
   // Nodes whose value is >= (local maxima) or <= (local minima) every neighbour's
   // within tolerance (absolute, in the value's units); a node without neighbours is

@@ -224,6 +224,20 @@ TEST(GridNeighbours, ExtremaAndComponentsMatchBruteForce) {
   }
 }
 
+TEST(GridNeighbours, MaxNodeBreaksRoundingTiesAsPeakIndexDoes) {
+  // Twin beams at theta 45 and 135 deg, the lower one a rounding above: the
+  // analysis must take the beam PeakIndex names (the first), or it measures side
+  // lobes and in-beam XPD around the mirror beam.
+  const AngularGrid grid = AngularGrid::FromRanges({0, 180, 45}, {0, 270, 90});
+  const GridNeighbours n(grid, Ground::kNone);
+  Eigen::VectorXd v = Eigen::VectorXd::Constant(static_cast<Eigen::Index>(grid.size()), 0.1);
+  v[1 * 4 + 2] = 2.0;
+  v[3 * 4 + 2] = 2.0 * (1 + 1e-12);
+  const std::size_t top = n.MaxNode([&](std::size_t g) { return v[static_cast<Eigen::Index>(g)]; });
+  EXPECT_EQ(n.representative(top), static_cast<std::size_t>(PeakIndex(v)));
+  EXPECT_EQ(n.representative(top), 6u);
+}
+
 TEST(GridNeighbours, HoldsNothingPerDirection) {
   // 0.2 deg full sphere: 1.6 M directions. The structure holds its rows and columns;
   // the sweeps and masks one bit per node and three rows of values. Bounds: the bits,
