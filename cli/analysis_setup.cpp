@@ -8,7 +8,7 @@
 #include "engine/error.h"
 #include "engine/polarization.h"
 #include "engine/text_case.h"
-#include "io/number_text.h"
+#include "io/text/number_text.h"
 
 namespace lobecast::cli {
 

@@ -7,7 +7,7 @@
 #include <string_view>
 #include <utility>
 
-#include "engine/analysis_types.h"
+#include "engine/analysis/analysis_types.h"
 #include "engine/pattern.h"
 
 namespace lobecast::cli {
@@ -28,6 +28,6 @@ std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view
                                          std::string_view expected);
 
 // The automatic choice described in kReferenceHelp: lobecast::AutoReference
-// (engine/pattern_analysis.h).
+// (engine/analysis/pattern_analysis.h).
 
 }  // namespace lobecast::cli

@@ -4,10 +4,10 @@
 #include <string>
 
 #include "cli/commands.h"
-#include "cli/summary_text.h"
-#include "engine/power_large.h"
-#include "engine/radiated_power.h"
-#include "io/array_reader.h"
+#include "io/text/summary_text.h"
+#include "engine/power/power_large.h"
+#include "engine/power/radiated_power.h"
+#include "io/input/array_reader.h"
 
 namespace lobecast::cli {
 
@@ -22,7 +22,7 @@ void AddCheckCommand(CLI::App& app) {
   cmd->callback([input] {
     const ArrayDescription desc = ReadArrayDescription(*input);
     for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
-    std::fputs(DescribeArray(desc).c_str(), stdout);
+    std::fputs(text::DescribeArray(desc).c_str(), stdout);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
     // currents that cancel or overflow before anyone waits for a compute.
     const StreamedPower p = RadiatedPowerStreamed(desc.array, CurrentsOf(desc.array));

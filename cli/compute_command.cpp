@@ -11,16 +11,16 @@
 #include "cli/commands.h"
 #include "cli/output_path.h"
 #include "cli/progress_bar.h"
-#include "cli/report_text.h"
-#include "cli/summary_text.h"
+#include "io/text/report_text.h"
+#include "io/text/summary_text.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
-#include "engine/pattern_analysis.h"
-#include "io/analysis_writer.h"
-#include "io/array_reader.h"
-#include "io/plot.h"
-#include "io/result_reader.h"
-#include "io/result_writer.h"
+#include "engine/analysis/pattern_analysis.h"
+#include "io/hdf5/analysis_writer.h"
+#include "io/input/array_reader.h"
+#include "io/plot/plot.h"
+#include "io/hdf5/result_reader.h"
+#include "io/hdf5/result_writer.h"
 
 namespace lobecast::cli {
 namespace {
@@ -95,9 +95,9 @@ void RunCompute(const ComputeArgs& args) {
   const double wall =
       std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
-    std::fputs(DescribeResult(desc, result, output, wall).c_str(), stdout);
-    if (analysis) std::fputs(AnalysisBrief(*analysis).c_str(), stdout);
-    std::fputs(SafetyNote().c_str(), stdout);
+    std::fputs(text::DescribeResult(desc, result, output, wall).c_str(), stdout);
+    if (analysis) std::fputs(text::AnalysisBrief(*analysis).c_str(), stdout);
+    std::fputs(text::SafetyNote().c_str(), stdout);
   }
 }
 

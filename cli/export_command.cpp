@@ -1,7 +1,7 @@
 // `lobecast export RESULT.h5`: the pattern as a CSV or TSV table for spreadsheets:
 // the stored grid, one cut, or one direction (--at), in theta-phi or azimuth-
 // elevation. Directions off the stored grid are computed exactly through the engine
-// (io/export_samples.h); the formatting is io/pattern_export.h.
+// (io/text/export_samples.h); the formatting is io/text/pattern_export.h.
 #include <cmath>
 #include <cstdio>
 #include <fstream>
@@ -13,14 +13,14 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/output_path.h"
-#include "cli/summary_text.h"
-#include "cli/text_format.h"
+#include "io/text/summary_text.h"
+#include "io/text/text_format.h"
 #include "engine/error.h"
-#include "engine/pattern_analysis.h"
-#include "io/export_samples.h"
+#include "engine/analysis/pattern_analysis.h"
+#include "io/text/export_samples.h"
 #include "io/io_error.h"
-#include "io/pattern_export.h"
-#include "io/result_reader.h"
+#include "io/text/pattern_export.h"
+#include "io/hdf5/result_reader.h"
 #include "io/safety_note.h"
 
 namespace lobecast::cli {
@@ -104,12 +104,12 @@ void RunExport(const ExportArgs& args) {
     const std::string name = stored.metadata.name.empty() ? "(unnamed)" : stored.metadata.name;
     table.notes = {
         "lobecast export of " + args.input + ": " + name + ", " +
-            FormatFrequency(stored.array.frequency_hz) + ", ground " +
+            text::FormatFrequency(stored.array.frequency_hz) + ", ground " +
             std::string(ToString(stored.array.ground)),
         "note: " + std::string(kSafetyNote),
         "directions: " + what + " (" + std::to_string(samples.size()) + " rows)",
         "coordinates: " + CoordinateDefinition(table.coordinates),
-        "co_dBi, cross_dBi: reference " + ReferenceName(table.reference) +
+        "co_dBi, cross_dBi: reference " + text::ReferenceName(table.reference) +
             "; directivity of the currents as given (gain = directivity for a lossless, "
             "matched array)",
         "sense: +1 right-hand, -1 left-hand, 0 linear or no field (IEEE Std 145-2013); "

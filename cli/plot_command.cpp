@@ -1,5 +1,5 @@
 // `lobecast plot RESULT.h5 --kind ... -o FILE.png|.svg|.pdf`: pictures of a
-// stored result, drawn by io/plot.h.
+// stored result, drawn by io/plot/plot.h.
 #include <cmath>
 #include <cstdio>
 #include <memory>
@@ -8,8 +8,8 @@
 #include "cli/commands.h"
 #include "cli/output_path.h"
 #include "io/input_error.h"
-#include "io/plot.h"
-#include "io/result_reader.h"
+#include "io/plot/plot.h"
+#include "io/hdf5/result_reader.h"
 
 namespace lobecast::cli {
 namespace {

@@ -12,12 +12,12 @@
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
-#include "cli/report_text.h"
-#include "cli/summary_text.h"
+#include "io/text/report_text.h"
+#include "io/text/summary_text.h"
 #include "engine/error.h"
-#include "engine/pattern_analysis.h"
-#include "io/analysis_reader.h"
-#include "io/result_reader.h"
+#include "engine/analysis/pattern_analysis.h"
+#include "io/hdf5/analysis_reader.h"
+#include "io/hdf5/result_reader.h"
 
 namespace lobecast::cli {
 namespace {
@@ -75,17 +75,17 @@ void RunReport(const ReportArgs& args) {
   const PatternAnalysis analysis = recompute
                                        ? AnalyzePattern(stored.array, stored.result, options)
                                        : saved->analysis;
-  ReportContext context;
+  text::ReportContext context;
   context.result_path = args.input;
   context.array_name = stored.metadata.name;
   context.frequency_hz = stored.array.frequency_hz;
   context.ground = stored.array.ground;
   context.num_dipoles = stored.array.size();
   context.recomputed = recompute;
-  const std::string text = args.json ? ReportJson(context, analysis, options)
-                                     : ReportText(context, analysis, options);
+  const std::string text = args.json ? text::ReportJson(context, analysis, options)
+                                     : text::ReportText(context, analysis, options);
   std::fputs(text.c_str(), stdout);
-  if (!args.json) std::fputs(("\n" + SafetyNote()).c_str(), stdout);
+  if (!args.json) std::fputs(("\n" + text::SafetyNote()).c_str(), stdout);
 }
 
 }  // namespace

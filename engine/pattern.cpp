@@ -10,8 +10,8 @@
 
 #include "engine/error.h"
 #include "engine/polarization.h"
-#include "engine/power_large.h"
-#include "engine/radiated_power.h"
+#include "engine/power/power_large.h"
+#include "engine/power/radiated_power.h"
 
 namespace lobecast {
 namespace {

@@ -10,7 +10,7 @@
 
 #include <Eigen/Core>
 
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 #include "engine/grid.h"
 #include "engine/types.h"
 

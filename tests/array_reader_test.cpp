@@ -1,4 +1,4 @@
-// Tests for io/array_reader, io/csv_dipoles and io/units: good descriptions parse
+// Tests for io/input/array_reader, io/input/csv_dipoles and io/input/units: good descriptions parse
 // to the right engine values, and every file in tests/data/bad is rejected with a
 // message naming the file, the line and the key.
 //
@@ -19,11 +19,11 @@
 #include <vector>
 
 #include "engine/constants.h"
-#include "io/array_reader.h"
-#include "io/csv_dipoles.h"
+#include "io/input/array_reader.h"
+#include "io/input/csv_dipoles.h"
 #include "io/input_error.h"
-#include "io/number_text.h"
-#include "io/units.h"
+#include "io/text/number_text.h"
+#include "io/input/units.h"
 
 namespace lobecast {
 namespace {

@@ -11,8 +11,8 @@
 #include "bad_corpus.h"
 #include "cli_util.h"
 #include "engine/pattern.h"
-#include "io/array_reader.h"
-#include "io/result_reader.h"
+#include "io/input/array_reader.h"
+#include "io/hdf5/result_reader.h"
 
 namespace fs = std::filesystem;
 using ::testing::HasSubstr;

@@ -1,7 +1,7 @@
-// The inlined exp (engine/exp.h) against long double expl: relative error below
+// The inlined exp (engine/field/exp.h) against long double expl: relative error below
 // 4e-16 over its whole range, and exact where exp is exact. It feeds the NUFFT
 // kernel weights exp(beta (sqrt(1 - z^2) - 1)), arguments -37 to 0.
-#include "engine/exp.h"
+#include "engine/field/exp.h"
 
 #include <cmath>
 #include <vector>

@@ -1,7 +1,7 @@
-// Far field by direct superposition (engine/far_field.h): analytic single-dipole
+// Far field by direct superposition (engine/field/far_field.h): analytic single-dipole
 // answers first, then invariances (rotation, translation), linearity, plan reuse and
 // thread independence.
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 
 #include <cmath>
 #include <complex>
@@ -12,7 +12,7 @@
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/grid.h"
-#include "engine/radiated_power.h"
+#include "engine/power/radiated_power.h"
 #include "engine/types.h"
 #include "tests/test_util.h"
 

@@ -1,10 +1,10 @@
 // The far-field methods against each other and against an independent reference:
-// the direct path (vectorized, engine/sincos.h) against a plain long double
+// the direct path (vectorized, engine/field/sincos.h) against a plain long double
 // std::complex loop of the formula in CONVENTIONS §1, and the fast path (type-3
-// NUFFT, engine/nufft.h) against the direct path, which must agree to the
+// NUFFT, engine/field/nufft.h) against the direct path, which must agree to the
 // requested tolerance relative to the pattern peak. Also the method choice, the
 // options check, chunked execution and thread independence.
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 
 #include <cmath>
 #include <complex>

@@ -1,11 +1,11 @@
-// Grid neighbourhoods (engine/grid_neighbours.h): the computed-on-demand structure
+// Grid neighbourhoods (engine/analysis/grid_neighbours.h): the computed-on-demand structure
 // against a brute-force one built from explicit position tables, and the memory
 // design it exists for. The memory checks count the bytes allocated through
 // operator new (every std container; Eigen's own allocations go through malloc and
 // are not seen) while the code runs. They are allocation counts, not RSS or timing:
 // deterministic, and they fail when a per-direction copy (8 bytes a direction for a
 // double) comes back where the design keeps at most a bit.
-#include "engine/grid_neighbours.h"
+#include "engine/analysis/grid_neighbours.h"
 
 #include <algorithm>
 #include <atomic>
@@ -20,7 +20,7 @@
 #include <gtest/gtest.h>
 
 #include "engine/pattern.h"
-#include "engine/pattern_analysis.h"
+#include "engine/analysis/pattern_analysis.h"
 #include "engine/types.h"
 #include "tests/test_util.h"
 

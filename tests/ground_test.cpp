@@ -10,10 +10,10 @@
 
 #include "engine/constants.h"
 #include "engine/error.h"
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 #include "engine/grid.h"
 #include "engine/pattern.h"
-#include "engine/radiated_power.h"
+#include "engine/power/radiated_power.h"
 #include "engine/types.h"
 #include "tests/test_util.h"
 

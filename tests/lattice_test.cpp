@@ -1,10 +1,10 @@
-// Lattice detection and the lattice's type-2 sum (engine/lattice.h). The sum is
+// Lattice detection and the lattice's type-2 sum (engine/field/lattice.h). The sum is
 // checked against the exponential sum it replaces, sum_j c_j exp(+i s . x_j),
 // evaluated in long double over the points themselves (not their sites), to the
 // accuracy Barnett, Magland and af Klinteberg report for their kernel (SIAM J.
 // Sci. Comput. 41, 2019, sec. 4: near the tolerance relative to sum |c|; we
 // require below 3x).
-#include "engine/lattice.h"
+#include "engine/field/lattice.h"
 
 #include <cmath>
 #include <complex>

@@ -1,8 +1,8 @@
-// The type-3 NUFFT (engine/nufft.h) against the direct sum it approximates,
+// The type-3 NUFFT (engine/field/nufft.h) against the direct sum it approximates,
 // f_k = sum_j c_j exp(+i s_k . x_j), evaluated here in long double. Barnett,
 // Magland and af Klinteberg (SIAM J. Sci. Comput. 41, 2019, sec. 4) report errors
 // near the requested tolerance relative to sum_j |c_j|; we require below 3x that.
-#include "engine/nufft.h"
+#include "engine/field/nufft.h"
 
 #include <cmath>
 #include <array>

@@ -1,7 +1,7 @@
-// Pattern analysis (engine/pattern_analysis.h): beams, lobes, nulls and polarization
+// Pattern analysis (engine/analysis/pattern_analysis.h): beams, lobes, nulls and polarization
 // purity of arrays whose answers are known in closed form, on coarse grids, so that
 // the off-grid refinement is what is being checked.
-#include "engine/pattern_analysis.h"
+#include "engine/analysis/pattern_analysis.h"
 
 #include <cmath>
 #include <limits>

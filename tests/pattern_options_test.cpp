@@ -8,8 +8,8 @@
 
 #include "engine/error.h"
 #include "engine/pattern.h"
-#include "io/result_reader.h"
-#include "io/result_writer.h"
+#include "io/hdf5/result_reader.h"
+#include "io/hdf5/result_writer.h"
 
 namespace lobecast {
 namespace {

@@ -9,9 +9,9 @@
 
 #include "engine/constants.h"
 #include "engine/error.h"
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 #include "engine/polarization.h"
-#include "engine/radiated_power.h"
+#include "engine/power/radiated_power.h"
 #include "engine/types.h"
 #include "tests/test_util.h"
 

@@ -10,7 +10,7 @@
 
 #include <gtest/gtest.h>
 
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 #include "engine/grid.h"
 #include "engine/types.h"
 #include "tests/test_util.h"

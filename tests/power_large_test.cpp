@@ -1,14 +1,14 @@
-// Matrix-free power (engine/power_large.h) against the resistance-matrix route
-// (engine/radiated_power.h) -- the same closed form, two summation orders -- and
+// Matrix-free power (engine/power/power_large.h) against the resistance-matrix route
+// (engine/power/radiated_power.h) -- the same closed form, two summation orders -- and
 // against the handbook self resistance.
-#include "engine/power_large.h"
+#include "engine/power/power_large.h"
 
 #include <cmath>
 
 #include <gtest/gtest.h>
 
 #include "engine/error.h"
-#include "engine/radiated_power.h"
+#include "engine/power/radiated_power.h"
 #include "tests/test_util.h"
 
 namespace lobecast {

@@ -1,8 +1,8 @@
-// Closed-form radiated power (engine/radiated_power.h): the radial kernel against the
+// Closed-form radiated power (engine/power/radiated_power.h): the radial kernel against the
 // standard library's spherical Bessel functions, handbook self resistances, the x -> 0
 // limit, matrix properties, and the closed form against an independent quadrature of
 // U over the sphere.
-#include "engine/radiated_power.h"
+#include "engine/power/radiated_power.h"
 
 #include <cmath>
 #include <limits>

@@ -20,12 +20,12 @@
 
 #include "cli_util.h"
 #include "engine/constants.h"
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 #include "engine/grid.h"
-#include "engine/pattern_analysis.h"
+#include "engine/analysis/pattern_analysis.h"
 #include "engine/polarization.h"
-#include "io/analysis_reader.h"
-#include "io/result_reader.h"
+#include "io/hdf5/analysis_reader.h"
+#include "io/hdf5/result_reader.h"
 
 namespace fs = std::filesystem;
 using ::testing::HasSubstr;

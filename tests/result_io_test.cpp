@@ -20,8 +20,8 @@
 
 #include "engine/error.h"
 #include "io/input_error.h"
-#include "io/result_reader.h"
-#include "io/result_writer.h"
+#include "io/hdf5/result_reader.h"
+#include "io/hdf5/result_writer.h"
 
 namespace lobecast {
 namespace {

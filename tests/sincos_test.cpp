@@ -1,8 +1,8 @@
-// The inlined sincos (engine/sincos.h) against references outside the project:
+// The inlined sincos (engine/field/sincos.h) against references outside the project:
 // glibc's long double sinl/cosl (64-bit mantissa, its own exact reduction) and the
 // double std::sin/std::cos. Phases of large arrays reach 1e4-1e5 rad, so the
 // reduction is tested well past that.
-#include "engine/sincos.h"
+#include "engine/field/sincos.h"
 
 #include <cmath>
 #include <limits>

@@ -14,7 +14,7 @@
 #include <Eigen/Geometry>
 
 #include "engine/constants.h"
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 #include "engine/grid.h"
 #include "engine/ground.h"
 #include "engine/types.h"

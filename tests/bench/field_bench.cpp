@@ -27,7 +27,7 @@
 #include <string>
 #include <vector>
 
-#include "engine/far_field.h"
+#include "engine/field/far_field.h"
 #include "engine/grid.h"
 
 namespace lobecast {

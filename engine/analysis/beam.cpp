@@ -1,0 +1,316 @@
+// Main beam: peak, principal-plane beamwidths, front-to-back (beam.h).
+#include "engine/analysis/beam.h"
+
+#include "engine/pattern.h"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include <Eigen/Eigenvalues>
+
+#include "engine/analysis/local_search.h"
+
+namespace lobecast {
+namespace {
+
+constexpr double kInf = std::numeric_limits<double>::infinity();
+
+// Finite-difference step for the Newton polish, rad. Central differences of D: the
+// gradient error is ~h^2 D'''/6 (position error ~1e-10 rad for beams wider than
+// 0.1 deg) and the Hessian's rounding error ~eps D / h^2 ~ 2e-6 D.
+constexpr double kNewtonStep_rad = 1e-5;
+
+// Along each principal direction v of the peak, moves to where D(s + h) = D(s - h),
+// with h wide enough that D falls by ~1e-6 relative over it. Near a quadratic peak this
+// is a Newton step free of rounding; near a flat (quartic) one, where function values
+// cannot resolve the top to better than ~1e-4 rad, the balance point is still exact for
+// a symmetric beam. Directions in which D does not fall by 1e-6 within 0.1 rad (a ring
+// of maxima) are left alone, and no move that lowers D beyond rounding is taken.
+void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
+  const double h = kNewtonStep_rad;
+  for (int pass = 0; pass < 2; ++pass) {
+    const LocalChart c(r.r_hat);
+    std::vector<Vec3> pts;
+    for (int ia = -1; ia <= 1; ++ia)
+      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
+    const std::vector<ProbeSample> s = probe.At(pts);
+    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) return;
+    auto F = [&](int ia, int ib) {
+      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
+    };
+    Eigen::Matrix2d hess;
+    hess(0, 0) = F(1, 0) - 2 * F(0, 0) + F(-1, 0);
+    hess(1, 1) = F(0, 1) - 2 * F(0, 0) + F(0, -1);
+    hess(0, 1) = hess(1, 0) = 0.25 * (F(1, 1) - F(1, -1) - F(-1, 1) + F(-1, -1));
+    const Eigen::SelfAdjointEigenSolver<Eigen::Matrix2d> es(hess);
+    for (int k = 0; k < 2; ++k) {
+      const LocalChart here(r.r_hat);
+      const Eigen::Vector2d v = es.eigenvectors().col(k);
+      auto at = [&](double t) { return here.At(t * v[0], t * v[1]); };
+      double w = 1e-4;
+      double lo = 0, hi = 0;
+      for (; w <= 0.1; w *= 2) {
+        const std::vector<ProbeSample> e = probe.At(std::vector<Vec3>{at(w), at(-w)});
+        if (e[0].no_field || e[1].no_field) {
+          w = 1.0;
+          break;
+        }
+        lo = e[1].directivity;
+        hi = e[0].directivity;
+        if (r.directivity - 0.5 * (lo + hi) > 1e-6 * r.directivity) break;
+      }
+      if (w > 0.1) continue;
+      // Secant on G(t) = D(t + w) - D(t - w), from t = 0 and t = w / 16.
+      double t0 = 0, g0 = hi - lo, t1 = w / 16;
+      auto G = [&](double t) {
+        const std::vector<ProbeSample> e = probe.At(std::vector<Vec3>{at(t + w), at(t - w)});
+        return e[0].directivity - e[1].directivity;
+      };
+      double g1 = G(t1);
+      for (int it = 0; it < 8 && g1 != g0; ++it) {
+        const double t2 = t1 - g1 * (t1 - t0) / (g1 - g0);
+        t0 = t1;
+        g0 = g1;
+        t1 = t2;
+        if (std::abs(t1) > w) break;
+        g1 = G(t1);
+        if (std::abs(t1 - t0) < 1e-13) break;
+      }
+      if (!(std::abs(t1) <= w)) continue;
+      const Vec3 cand = at(t1);
+      const ProbeSample pc = probe.At(cand);
+      constexpr double kEps = std::numeric_limits<double>::epsilon();
+      if (!pc.no_field && pc.directivity >= r.directivity * (1 - 8 * kEps)) {
+        r.r_hat = cand;
+        r.directivity = pc.directivity;
+      }
+    }
+  }
+}
+
+}  // namespace
+
+double ToDb(double ratio) {
+  if (ratio == kInf) return kInf;
+  if (ratio <= 0.0) return -kInf;
+  return 10.0 * std::log10(ratio);
+}
+
+double PowerRatioDb(double numerator, double denominator) {
+  if (numerator == 0.0 && denominator == 0.0) return std::numeric_limits<double>::quiet_NaN();
+  if (denominator <= kRoundingPowerRatio * numerator) return kInf;
+  if (numerator <= kRoundingPowerRatio * denominator) return -kInf;
+  return ToDb(numerator / denominator);
+}
+
+DirectionDeg ToDirectionDeg(const Vec3& r_hat) {
+  const SphericalAngles s = AnglesOf(r_hat);
+  DirectionDeg d{s.theta_rad / kDegree, s.phi_rad / kDegree};
+  // Rounding can leave phi a hair below 360; 1e-9 deg is far below any refinement
+  // tolerance, so call it 0 rather than print 360.0000.
+  if (d.phi_deg >= 360.0 - 1e-9) d.phi_deg = 0.0;
+  return d;
+}
+
+RefinedMaximum RefineMaximum(const PatternProbe& probe, const Vec3& start, double initial_step_rad,
+                             double tolerance_rad, int max_evaluations) {
+  const LocalChart chart(start);
+  auto f = [&](double a, double b) { return -probe.DirectivityAt(chart.At(a, b)); };
+  const PlaneMinimum m =
+      MinimizeOnPlane(f, 0.0, 0.0, {initial_step_rad, tolerance_rad, max_evaluations});
+  RefinedMaximum r{chart.At(m.a, m.b), -m.value, m.converged};
+
+  // Newton polish on the 3x3 stencil, only along directions of clearly negative
+  // curvature (a ring of maxima has a flat direction that must be left alone).
+  const double h = kNewtonStep_rad;
+  for (int iter = 0; iter < 4; ++iter) {
+    const LocalChart c(r.r_hat);
+    std::vector<Vec3> pts;
+    for (int ia = -1; ia <= 1; ++ia)
+      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
+    const std::vector<ProbeSample> s = probe.At(pts);
+    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
+    auto F = [&](int ia, int ib) {
+      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
+    };
+    const Eigen::Vector2d g((F(1, 0) - F(-1, 0)) / (2 * h), (F(0, 1) - F(0, -1)) / (2 * h));
+    Eigen::Matrix2d hess;
+    hess(0, 0) = (F(1, 0) - 2 * F(0, 0) + F(-1, 0)) / (h * h);
+    hess(1, 1) = (F(0, 1) - 2 * F(0, 0) + F(0, -1)) / (h * h);
+    hess(0, 1) = hess(1, 0) = (F(1, 1) - F(1, -1) - F(-1, 1) + F(-1, -1)) / (4 * h * h);
+    const Eigen::SelfAdjointEigenSolver<Eigen::Matrix2d> es(hess);
+    const double scale = es.eigenvalues().cwiseAbs().maxCoeff();
+    Eigen::Vector2d step = Eigen::Vector2d::Zero();
+    for (int k = 0; k < 2; ++k) {
+      const double lam = es.eigenvalues()[k];
+      if (lam < -1e-5 * scale)
+        step -= (es.eigenvectors().col(k).dot(g) / lam) * es.eigenvectors().col(k);
+    }
+    const double len = step.norm();
+    if (!(len > 0.0) || len > 100 * h) break;  // nothing to do, or not in the quadratic zone
+    const Vec3 cand = c.At(step[0], step[1]);
+    const double dc = probe.DirectivityAt(cand);
+    if (!(dc >= r.directivity)) break;
+    r.r_hat = cand;
+    r.directivity = dc;
+    if (len < 1e-12) break;
+  }
+  BalancePeak(probe, r);
+  return r;
+}
+
+MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,
+                        const Eigen::VectorXd& grid_directivity, const AnalysisOptions& options,
+                        Vec3* peak_r_hat) {
+  const Eigen::Index best = PeakIndex(grid_directivity);
+  const double grid_max = grid_directivity[best];
+  const std::size_t np = grid.phi_deg.size();
+  const double t0 = grid.theta_deg[static_cast<std::size_t>(best) / np];
+  const double p0 = grid.phi_deg[static_cast<std::size_t>(best) % np];
+  const Vec3 start = UnitVectorAt(t0 * kDegree, p0 * kDegree);
+
+  double spacing = kDegree;
+  if (grid.theta_deg.size() >= 2)
+    spacing = std::abs(grid.theta_deg[1] - grid.theta_deg[0]) * kDegree;
+  else if (np >= 2)
+    spacing = std::abs(grid.phi_deg[1] - grid.phi_deg[0]) * kDegree;
+
+  const RefinedMaximum m =
+      RefineMaximum(probe, start, 0.5 * spacing, options.refine_tolerance_deg * kDegree,
+                    options.max_evaluations_per_search);
+  MainBeamPeak p;
+  p.grid_direction = {t0, p0};
+  p.grid_directivity = grid_max;
+  p.direction = ToDirectionDeg(m.r_hat);
+  p.directivity = m.directivity;
+  p.directivity_dbi = ToDb(m.directivity);
+  p.refined = m.converged;
+  *peak_r_hat = m.r_hat;
+  return p;
+}
+
+BeamRay WalkBeamRay(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
+                    double peak_directivity, double step_rad, double tolerance_rad,
+                    bool find_null) {
+  const int n = std::max(4, static_cast<int>(std::ceil(kPi / step_rad)));
+  const double step = kPi / n;
+  // A great circle within the search tolerance of a PEC ground plane (the orthogonal
+  // cut through a peak on the horizon) is the horizon itself: rounding would otherwise
+  // tilt it a hair into the no-field half space and read that grazing exit as a beam
+  // edge. Its points are taken on the horizon.
+  const Vec3 normal = peak.cross(tangent);
+  const bool on_horizon =
+      probe.array().ground == Ground::kPec &&
+      std::hypot(normal.x(), normal.y()) <= std::max(tolerance_rad, 1e-12) * normal.norm();
+  auto point = [&](double alpha) {
+    const Vec3 p = AlongGreatCircle(peak, tangent, alpha);
+    if (!on_horizon) return p;
+    const Vec3 h(p.x(), p.y(), 0.0);
+    return Vec3(h / h.norm());
+  };
+  // Samples 0..n reach the antipode; one more lets a minimum sitting there be bracketed.
+  std::vector<Vec3> pts(static_cast<std::size_t>(n) + 2);
+  for (int k = 0; k <= n + 1; ++k) pts[static_cast<std::size_t>(k)] = point(k * step);
+  const std::vector<ProbeSample> s = probe.At(pts);
+  auto at = [&](int k) -> const ProbeSample& { return s[static_cast<std::size_t>(k)]; };
+  const double half = 0.5 * peak_directivity;
+  auto excess = [&](double alpha) {
+    const ProbeSample p = probe.At(point(alpha));
+    return p.no_field ? -half : p.directivity - half;
+  };
+
+  BeamRay r;
+  r.half_power_rad = kPi;
+  int k = 1;
+  while (k <= n && !at(k).no_field && at(k).directivity >= half) ++k;
+  if (k > n) return r;
+  const double g_lo = at(k - 1).directivity - half;
+  const double g_hi = at(k).no_field ? -half : at(k).directivity - half;
+  r.half_power_rad = FindRoot(excess, (k - 1) * step, k * step, g_lo, g_hi, tolerance_rad);
+  r.half_power_found = true;
+  if (probe.NoFieldAt(point(r.half_power_rad + 4 * tolerance_rad))) {
+    r.clipped_by_ground = true;
+    return r;
+  }
+  if (!find_null) return r;
+  for (int j = k; j <= n; ++j) {
+    if (at(j + 1).no_field) {
+      r.clipped_by_ground = true;
+      return r;
+    }
+    if (at(j + 1).directivity > at(j).directivity) {
+      auto level = [&](double alpha) {
+        const ProbeSample p = probe.At(point(alpha));
+        return p.no_field ? kInf : p.directivity;
+      };
+      const LineMinimum m =
+          MinimizeOnInterval(level, (j - 1) * step, (j + 1) * step, tolerance_rad);
+      r.null_found = true;
+      r.null_rad = m.x;
+      return r;
+    }
+  }
+  return r;
+}
+
+double CutStepRad(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
+                  double peak_directivity, const AnalysisOptions& options) {
+  const double h = 1e-3;
+  const std::vector<ProbeSample> s = probe.At(
+      std::vector<Vec3>{AlongGreatCircle(peak, tangent, h), AlongGreatCircle(peak, tangent, -h)});
+  double step = options.cut_step_deg * kDegree;
+  if (s[0].no_field || s[1].no_field) return step;
+  // D ~ Dp (1 - c a^2) near the peak, half power near a = 1/sqrt(2c).
+  const double c =
+      (peak_directivity - 0.5 * (s[0].directivity + s[1].directivity)) / (peak_directivity * h * h);
+  if (c > 0.0) step = std::min(step, 0.1 / std::sqrt(2.0 * c));
+  return std::max(step, 1e-7);
+}
+
+BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
+                   double peak_directivity, const AnalysisOptions& options) {
+  const double step = CutStepRad(probe, peak, tangent, peak_directivity, options);
+  const double tol = options.refine_tolerance_deg * kDegree;
+  const BeamRay up = WalkBeamRay(probe, peak, tangent, peak_directivity, step, tol, true);
+  const BeamRay down = WalkBeamRay(probe, peak, -tangent, peak_directivity, step, tol, true);
+  BeamCut c;
+  c.clipped_by_ground = up.clipped_by_ground || down.clipped_by_ground;
+  if (up.half_power_found && down.half_power_found) {
+    c.half_power_found = true;
+    c.half_power_upper_deg = up.half_power_rad / kDegree;
+    c.half_power_lower_deg = -down.half_power_rad / kDegree;
+    c.half_power_width_deg = c.half_power_upper_deg - c.half_power_lower_deg;
+  }
+  if (up.null_found && down.null_found) {
+    c.first_nulls_found = true;
+    c.first_null_upper_deg = up.null_rad / kDegree;
+    c.first_null_lower_deg = -down.null_rad / kDegree;
+    c.first_null_width_deg = c.first_null_upper_deg - c.first_null_lower_deg;
+  }
+  return c;
+}
+
+FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
+                          double tolerance_rad) {
+  FrontToBack f;
+  auto grazing_onto_horizon = [&](Vec3 r) {
+    if (probe.array().ground == Ground::kPec && r.z() < 0.0 &&
+        r.z() >= -std::max(tolerance_rad, 1e-12) && std::hypot(r.x(), r.y()) > 0.0) {
+      r.z() = 0.0;
+      r.normalize();
+    }
+    return r;
+  };
+  const Vec3 back = grazing_onto_horizon(-peak);
+  const Vec3 behind = grazing_onto_horizon(Vec3(-peak.x(), -peak.y(), peak.z()));
+  const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{back, behind});
+  f.back_direction = ToDirectionDeg(back);
+  f.same_elevation_back_direction = ToDirectionDeg(behind);
+  // The peak is > 0, so a zero (or rounding-level) back field gives +inf.
+  f.ratio_db = PowerRatioDb(peak_directivity, s[0].directivity);
+  f.same_elevation_ratio_db = PowerRatioDb(peak_directivity, s[1].directivity);
+  return f;
+}
+
+}  // namespace lobecast

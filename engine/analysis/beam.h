@@ -1,0 +1,79 @@
+// The main beam, refined off the grid through the engine: the peak (simplex search,
+// then Newton steps on finite differences), half-power and first-null beamwidths
+// along the two principal planes (sampling, then Brent root finding and golden-
+// section minimization), and the front-to-back ratio. Definitions of the planes and
+// of F/B are in analysis_types.h.
+#pragma once
+
+#include "engine/analysis/analysis_types.h"
+#include "engine/analysis/pattern_probe.h"
+
+namespace lobecast {
+
+struct RefinedMaximum {
+  Vec3 r_hat = Vec3::UnitZ();
+  double directivity = 0.0;
+  bool converged = false;
+};
+
+// A local maximum of the directivity near `start`: Nelder-Mead in normal coordinates
+// about `start` with a first simplex of initial_step_rad, to tolerance_rad, then up to
+// a few Newton steps on a 3x3 finite-difference stencil (skipped next to the ground's
+// no-field region, where the pattern is not smooth). The result is never below the
+// starting value.
+RefinedMaximum RefineMaximum(const PatternProbe& probe, const Vec3& start, double initial_step_rad,
+                             double tolerance_rad, int max_evaluations);
+
+// The peak, refined from the grid maximum of grid_directivity.
+MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,
+                        const Eigen::VectorXd& grid_directivity, const AnalysisOptions& options,
+                        Vec3* peak_r_hat);
+
+// Walking out from the peak along one great circle (unit tangent at the peak).
+struct BeamRay {
+  bool half_power_found = false;  // D fell to half the peak (or the ray hit the ground)
+  double half_power_rad = 0.0;    // distance from the peak to that point, else pi
+  bool clipped_by_ground = false;
+  bool null_found = false;  // first minimum beyond the half-power point
+  double null_rad = 0.0;
+};
+// step_rad: sampling before the root search; find_null: also look for the first null.
+// Over a PEC ground, a great circle within tolerance_rad of the ground plane (the
+// orthogonal cut through a peak on the horizon) is walked on the horizon itself, so a
+// rounding-level dip below the ground is not taken for a beam edge: an omnidirectional
+// horizon reports no half-power point (+inf width), as in free space.
+BeamRay WalkBeamRay(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
+                    double peak_directivity, double step_rad, double tolerance_rad, bool find_null);
+
+// Sampling step for cuts through this peak: cut_step_deg, or less for a beam narrower
+// than ~20 samples (estimated from the curvature of D at the peak along tangent).
+double CutStepRad(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
+                  double peak_directivity, const AnalysisOptions& options);
+
+// Both sides of the great circle through the peak with this tangent.
+BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
+                   double peak_directivity, const AnalysisOptions& options);
+
+// Over a PEC ground, a back direction within tolerance_rad below the ground plane (the
+// opposite of a peak on the horizon, tilted a hair down by rounding) is taken on the
+// horizon: the field there is not the zero below the ground.
+FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
+                          double tolerance_rad);
+
+// Direction in degrees, phi in [0, 360) (0 on a pole).
+DirectionDeg ToDirectionDeg(const Vec3& r_hat);
+
+// 10 log10(ratio), with +-inf at 0 and +inf.
+double ToDb(double ratio);
+
+// A power ratio below which the smaller of two powers is rounding noise of the larger:
+// 1e-30, i.e. a field below ~1e-15 of the other (a few ulps of double precision), 300 dB.
+inline constexpr double kRoundingPowerRatio = 1e-30;
+
+// 10 log10(numerator / denominator) for two powers (or directivities) >= 0 that are
+// compared as a ratio (XPD, F/B): +inf when the denominator is below kRoundingPowerRatio
+// of the numerator (zero up to rounding, not a finite ~320 dB of noise), -inf in the
+// opposite case, NaN when both are zero.
+double PowerRatioDb(double numerator, double denominator);
+
+}  // namespace lobecast

@@ -1,0 +1,178 @@
+// Pattern analysis: options, enum names and the whole analysis (pattern_analysis.h).
+#include "engine/analysis/pattern_analysis.h"
+
+#include <algorithm>
+#include <chrono>
+#include <cmath>
+#include <sstream>
+
+#include "engine/analysis/beam.h"
+#include "engine/error.h"
+#include "engine/analysis/grid_neighbours.h"
+#include "engine/analysis/nulls.h"
+#include "engine/analysis/pattern_probe.h"
+#include "engine/analysis/polarization_purity.h"
+#include "engine/analysis/side_lobes.h"
+#include "engine/text_case.h"
+
+namespace lobecast {
+namespace {
+
+// Sets *why to "field: found value, expected rule" and returns false.
+template <typename T>
+bool Fail(std::string* why, const char* field, T value, const char* rule) {
+  if (why) {
+    std::ostringstream s;
+    s << "analysis options: " << field << " found " << value << ", expected " << rule;
+    *why = s.str();
+  }
+  return false;
+}
+
+}  // namespace
+
+std::string_view ToString(NullField f) { return f == NullField::kCoPolar ? "co" : "total"; }
+
+std::optional<NullField> NullFieldFromString(std::string_view s) {
+  const std::string l = Lower(s);
+  if (l == "total") return NullField::kTotal;
+  if (l == "co") return NullField::kCoPolar;
+  return std::nullopt;
+}
+
+bool AnalysisOptions::IsValid(std::string* why) const {
+  if (!(std::isfinite(null_threshold_db) && null_threshold_db < 0))
+    return Fail(why, "null_threshold_db", null_threshold_db, "a finite value < 0 dB");
+  if (!(std::isfinite(side_lobe_threshold_db) && side_lobe_threshold_db < 0))
+    return Fail(why, "side_lobe_threshold_db", side_lobe_threshold_db, "a finite value < 0 dB");
+  if (!(major_lobe_tolerance_db >= 0 && major_lobe_tolerance_db < 3))
+    return Fail(why, "major_lobe_tolerance_db", major_lobe_tolerance_db, "0 <= value < 3 dB");
+  for (const auto& [t, p] : protected_directions_deg) {
+    if (!(std::isfinite(t) && t >= 0 && t <= 180))
+      return Fail(why, "protected_directions_deg theta", t, "0 <= theta <= 180 deg");
+    if (!std::isfinite(p)) return Fail(why, "protected_directions_deg phi", p, "a finite angle");
+  }
+  if (!(refine_tolerance_deg >= 1e-12 && refine_tolerance_deg <= 0.1))
+    return Fail(why, "refine_tolerance_deg", refine_tolerance_deg, "1e-12 <= value <= 0.1 deg");
+  if (max_evaluations_per_search < 20)
+    return Fail(why, "max_evaluations_per_search", max_evaluations_per_search, ">= 20");
+  if (!(cut_step_deg >= 1e-6 && cut_step_deg <= 5))
+    return Fail(why, "cut_step_deg", cut_step_deg, "1e-6 <= value <= 5 deg");
+  if (!(exact_null_relative > 0 && exact_null_relative < 1e-6))
+    return Fail(why, "exact_null_relative", exact_null_relative, "0 < value < 1e-6");
+  if (!(axial_ratio_limit_db > 0 && std::isfinite(axial_ratio_limit_db)))
+    return Fail(why, "axial_ratio_limit_db", axial_ratio_limit_db, "a finite value > 0 dB");
+  if (axial_ratio_phi_planes < 4 || axial_ratio_phi_planes > 100000)
+    return Fail(why, "axial_ratio_phi_planes", axial_ratio_phi_planes, "4 .. 100000");
+  if (!(axial_ratio_theta_step_deg >= 1e-3 && axial_ratio_theta_step_deg <= 10))
+    return Fail(why, "axial_ratio_theta_step_deg", axial_ratio_theta_step_deg,
+                "1e-3 <= value <= 10 deg");
+  if (beam_rays < 4 || beam_rays > 100000) return Fail(why, "beam_rays", beam_rays, "4 .. 100000");
+  if (beam_ray_samples < 1 || beam_ray_samples > 100000)
+    return Fail(why, "beam_ray_samples", beam_ray_samples, "1 .. 100000");
+  return true;
+}
+
+PolarizationReference AutoReference(const PatternResult& r) {
+  const Eigen::Index peak = PeakIndex(r.directivity);
+  const double phi = r.grid.phi_deg[static_cast<std::size_t>(peak) % r.grid.phi_deg.size()];
+  PolarizationReference best = PolarizationReference::kLinearX;
+  double best_co = -1.0;
+  for (const PolarizationReference ref :
+       {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
+        PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular}) {
+    const double co =
+        std::norm(CoCrossOf(r.field.e_theta[peak], r.field.e_phi[peak], phi * kDegree, ref).co);
+    // The relative margin keeps ties (a 45 deg linear field) on the first candidate.
+    if (co > best_co * (1.0 + 1e-9)) {
+      best_co = co;
+      best = ref;
+    }
+  }
+  return best;
+}
+
+PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_result,
+                               const AnalysisOptions& options) {
+  const auto t0 = std::chrono::steady_clock::now();
+  std::string why;
+  if (!options.IsValid(&why)) throw InvalidArgument(why);
+  Validate(array);
+  const std::size_t n = grid_result.grid.size();
+  if (n == 0 || static_cast<std::size_t>(grid_result.directivity.size()) != n ||
+      grid_result.field.size() != n) {
+    std::ostringstream s;
+    s << "pattern analysis: grid result has " << grid_result.directivity.size()
+      << " directivity values and " << grid_result.field.size() << " field values for a grid of "
+      << n << " directions, expected one each per direction (at least one)";
+    throw InvalidArgument(s.str());
+  }
+  if (!(grid_result.radiated_power_w > 0)) {
+    std::ostringstream s;
+    s << "pattern analysis: radiated power found " << grid_result.radiated_power_w
+      << " W, expected > 0";
+    throw InvalidArgument(s.str());
+  }
+  const PatternProbe probe(array, grid_result.radiated_power_w);
+
+  // The grid result must belong to this array: compare at its maximum.
+  {
+    Eigen::Index best = 0;
+    const double grid_max = grid_result.directivity.maxCoeff(&best);
+    const std::size_t np = grid_result.grid.phi_deg.size();
+    const double d = probe.DirectivityAt(
+        UnitVectorAt(grid_result.grid.theta_deg[static_cast<std::size_t>(best) / np] * kDegree,
+                     grid_result.grid.phi_deg[static_cast<std::size_t>(best) % np] * kDegree));
+    if (!(std::abs(d - grid_max) <= 1e-6 * grid_max)) {
+      std::ostringstream s;
+      s << "pattern analysis: the grid maximum directivity is " << grid_max
+        << " but the array gives " << d << " there; expected the grid result of this array";
+      throw InvalidArgument(s.str());
+    }
+  }
+
+  PatternAnalysis out;
+  Vec3 peak;
+  out.peak = RefinePeak(probe, grid_result.grid, grid_result.directivity, options, &peak);
+  const double dp = out.peak.directivity;
+  const LocalChart chart(peak);
+  out.elevation_cut = AnalyzeCut(probe, peak, chart.e1(), dp, options);
+  out.orthogonal_cut = AnalyzeCut(probe, peak, chart.e2(), dp, options);
+  out.front_to_back = FrontToBackOf(probe, peak, dp, options.refine_tolerance_deg * kDegree);
+
+  const GridNeighbours neighbours(grid_result.grid, array.ground);
+  LobeSearch lobes = FindLobes(probe, neighbours, grid_result.directivity, peak, dp, options);
+  out.major_lobes = std::move(lobes.major_lobes);
+  out.highest_side_lobe = lobes.highest_side_lobe;
+  out.side_lobes = std::move(lobes.side_lobes);
+  out.side_lobes_truncated = lobes.truncated;
+
+  NullSearch nulls = FindNulls(probe, neighbours, grid_result, dp, options);
+  out.nulls = std::move(nulls.nulls);
+  out.nulls_truncated = nulls.truncated;
+
+  std::vector<Vec3> prot;
+  for (const auto& [t, p] : options.protected_directions_deg)
+    prot.push_back(UnitVectorAt(t * kDegree, p * kDegree));
+  const std::vector<ProbeSample> ps = probe.At(prot);
+  for (std::size_t i = 0; i < ps.size(); ++i) {
+    ProtectedDirectionField f;
+    f.direction = {options.protected_directions_deg[i].first,
+                   options.protected_directions_deg[i].second};
+    f.directivity = ps[i].directivity;
+    f.directivity_dbi = ToDb(ps[i].directivity);
+    f.level_db = ToDb(ps[i].directivity / dp);
+    const CoCross c = ps[i].CoCrossFor(options.reference);  // phi as evaluated (0 on a pole)
+    f.co_polar_dbi = ToDb(probe.DirectivityOf(c.co));
+    f.cross_polar_dbi = ToDb(probe.DirectivityOf(c.cross));
+    f.no_field = ps[i].no_field;
+    out.protected_directions.push_back(f);
+  }
+
+  out.polarization = AnalyzePolarization(probe, neighbours, grid_result, peak, dp, options);
+  out.field_evaluations = probe.evaluations();
+  out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  return out;
+}
+
+}  // namespace lobecast

@@ -1,0 +1,33 @@
+// Pattern analysis (issue 4): the numbers an engineer sizes an array by, computed
+// from a grid job and refined off the grid through the engine itself: the main
+// beam (peak, principal-plane half-power and first-null beamwidths, front-to-back),
+// side lobes, nulls, the field toward protected directions, and polarization purity.
+// Pure computation: reports, exports and the HDF5 /summary are built on this by io/
+// and cli/. Definitions (principal planes, F/B, side lobes, the -3 dB beam) are
+// documented beside the result fields in analysis_types.h.
+//
+// The grid only seeds the searches: every reported angle and level comes from exact
+// field evaluations (direct sum) near the grid feature, so results do not depend on
+// the grid spacing as long as the grid resolves the feature at all (a lobe narrower
+// than the spacing may go unseen).
+#pragma once
+
+#include "engine/analysis/analysis_types.h"
+#include "engine/pattern.h"
+#include "engine/types.h"
+
+namespace lobecast {
+
+// grid_result must be ComputePattern(array, ...) for this array (checked at the grid
+// maximum). Throws InvalidArgument for invalid options (see IsValid), an invalid
+// array, or a grid result that does not fit the array.
+// The polarization reference (x, y, RHCP, LHCP) with the largest co-polar
+// part at the grid peak (PeakIndex, so the beam the summary and the analysis
+// name); ties, as for a 45 deg linear field, go to the first in that order.
+// What "auto" means for compute, report, export and plot.
+PolarizationReference AutoReference(const PatternResult& result);
+
+PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_result,
+                               const AnalysisOptions& options = {});
+
+}  // namespace lobecast

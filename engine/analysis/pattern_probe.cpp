@@ -1,0 +1,100 @@
+// Exact pattern values in arbitrary directions (pattern_probe.h).
+#include "engine/analysis/pattern_probe.h"
+
+#include <cmath>
+
+#include <Eigen/Geometry>
+
+#include "engine/ground.h"
+
+namespace lobecast {
+
+Vec3 UnitVectorAt(double theta_rad, double phi_rad) {
+  return {std::sin(theta_rad) * std::cos(phi_rad), std::sin(theta_rad) * std::sin(phi_rad),
+          std::cos(theta_rad)};
+}
+
+SphericalAngles AnglesOf(const Vec3& r) {
+  SphericalAngles s;
+  const double rho = std::hypot(r.x(), r.y());
+  s.theta_rad = std::atan2(rho, r.z());
+  if (rho > 0.0) {
+    s.phi_rad = std::atan2(r.y(), r.x());
+    if (s.phi_rad < 0.0) s.phi_rad += 2.0 * kPi;
+    if (s.phi_rad >= 2.0 * kPi) s.phi_rad = 0.0;
+  }
+  return s;
+}
+
+double AngleBetween(const Vec3& a, const Vec3& b) {
+  return std::atan2(a.cross(b).norm(), a.dot(b));
+}
+
+Vec3 AlongGreatCircle(const Vec3& from, const Vec3& tangent, double angle_rad) {
+  return (std::cos(angle_rad) * from + std::sin(angle_rad) * tangent).normalized();
+}
+
+LocalChart::LocalChart(const Vec3& origin) : origin_(origin.normalized()) {
+  const SphericalAngles s = AnglesOf(origin_);
+  const double ct = std::cos(s.theta_rad), st = std::sin(s.theta_rad);
+  const double cp = std::cos(s.phi_rad), sp = std::sin(s.phi_rad);
+  e1_ = Vec3(ct * cp, ct * sp, -st);
+  e2_ = Vec3(-sp, cp, 0.0);
+}
+
+Vec3 LocalChart::At(double a, double b) const {
+  const double rho = std::hypot(a, b);
+  if (rho == 0.0) return origin_;
+  return AlongGreatCircle(origin_, (a * e1_ + b * e2_) / rho, rho);
+}
+
+Eigen::Vector3cd ProbeSample::FieldVector_v() const {
+  const Vec3 th(std::cos(theta_rad) * std::cos(phi_rad), std::cos(theta_rad) * std::sin(phi_rad),
+                -std::sin(theta_rad));
+  const Vec3 ph(-std::sin(phi_rad), std::cos(phi_rad), 0.0);
+  return e_theta * th.cast<Complex>() + e_phi * ph.cast<Complex>();
+}
+
+CoCross ProbeSample::CoCrossFor(PolarizationReference reference) const {
+  return CoCrossOf(e_theta, e_phi, phi_rad, reference);
+}
+
+PatternProbe::PatternProbe(const Array& array, double radiated_power_w)
+    : array_(array),
+      currents_(CurrentsOf(array)),
+      // Sources only: every At() call brings its own directions (direct sums).
+      plan_(std::make_shared<const FieldPlan>(array, Directions::FromAngles({}, {}),
+                                              FieldOptions{0, FieldMethod::kDirect})),
+      per_v2_(4.0 * kPi / (2.0 * kEta0_ohm * radiated_power_w)) {}
+
+bool PatternProbe::NoFieldAt(const Vec3& r) const {
+  return BelowGround(array_.ground, AnglesOf(r).theta_rad);
+}
+
+std::vector<ProbeSample> PatternProbe::At(const std::vector<Vec3>& r_hat) const {
+  std::vector<ProbeSample> out(r_hat.size());
+  if (r_hat.empty()) return out;
+  std::vector<double> theta(r_hat.size()), phi(r_hat.size());
+  for (std::size_t i = 0; i < r_hat.size(); ++i) {
+    const SphericalAngles s = AnglesOf(r_hat[i]);
+    theta[i] = s.theta_rad;
+    phi[i] = s.phi_rad;
+  }
+  // Exact sums (null depths reach rounding) on the plan built once for the sources.
+  const FarField f = plan_->ExecuteAt(currents_, Directions::FromAngles(theta, phi));
+  evaluations_ += r_hat.size();
+  for (std::size_t i = 0; i < r_hat.size(); ++i) {
+    ProbeSample& s = out[i];
+    s.theta_rad = theta[i];
+    s.phi_rad = phi[i];
+    s.e_theta = f.e_theta[static_cast<Eigen::Index>(i)];
+    s.e_phi = f.e_phi[static_cast<Eigen::Index>(i)];
+    s.directivity = per_v2_ * (std::norm(s.e_theta) + std::norm(s.e_phi));
+    s.no_field = BelowGround(array_.ground, theta[i]);
+  }
+  return out;
+}
+
+ProbeSample PatternProbe::At(const Vec3& r_hat) const { return At(std::vector<Vec3>{r_hat})[0]; }
+
+}  // namespace lobecast

@@ -1,0 +1,87 @@
+// Exact pattern values in arbitrary directions, for the off-grid refinement of the
+// pattern analysis. Directions are unit vectors here, not (theta, phi): searches
+// move in a local chart around a point, so the poles and the phi seam need no
+// special cases. Every evaluation runs the direct (exact) sum on one FieldPlan of
+// the sources, built once (FieldPlan::ExecuteAt).
+#pragma once
+
+#include <cstddef>
+#include <memory>
+#include <vector>
+
+#include "engine/field/far_field.h"
+#include "engine/polarization.h"
+#include "engine/types.h"
+
+namespace lobecast {
+
+// r_hat for (theta, phi) in radians.
+Vec3 UnitVectorAt(double theta_rad, double phi_rad);
+
+struct SphericalAngles {
+  double theta_rad = 0.0;  // [0, pi], from atan2 (accurate near the poles)
+  double phi_rad = 0.0;    // [0, 2 pi); 0 on the poles, where phi is degenerate
+};
+SphericalAngles AnglesOf(const Vec3& r_hat);
+
+// Angle between two unit vectors (rad), accurate for small and near-pi angles.
+double AngleBetween(const Vec3& a, const Vec3& b);
+
+// The point reached from a unit vector `from` after angle_rad along the great circle
+// whose unit tangent at `from` is `tangent` (tangent . from = 0).
+Vec3 AlongGreatCircle(const Vec3& from, const Vec3& tangent, double angle_rad);
+
+// Normal coordinates about a point: (a, b) -> exp_origin(a e1 + b e2), with e1 and e2
+// the theta_hat and phi_hat of the origin (phi = 0 on a pole). Distances from the
+// origin are exact: |(a, b)| is the angle from the origin.
+class LocalChart {
+ public:
+  explicit LocalChart(const Vec3& origin);
+  Vec3 At(double a, double b) const;
+  const Vec3& origin() const { return origin_; }
+  const Vec3& e1() const { return e1_; }
+  const Vec3& e2() const { return e2_; }
+
+ private:
+  Vec3 origin_, e1_, e2_;
+};
+
+struct ProbeSample {
+  double theta_rad = 0.0;
+  double phi_rad = 0.0;
+  Complex e_theta = 0.0;  // rE_theta, V
+  Complex e_phi = 0.0;    // rE_phi, V
+  double directivity = 0.0;
+  bool no_field = false;  // below a PEC ground: the field is zero by construction
+
+  // rE as a Cartesian complex vector (V): smooth across the poles, unlike its
+  // theta and phi components.
+  Eigen::Vector3cd FieldVector_v() const;
+  CoCross CoCrossFor(PolarizationReference reference) const;
+};
+
+class PatternProbe {
+ public:
+  // radiated_power_w: the closed-form P of these currents (PatternResult).
+  PatternProbe(const Array& array, double radiated_power_w);
+
+  std::vector<ProbeSample> At(const std::vector<Vec3>& r_hat) const;
+  ProbeSample At(const Vec3& r_hat) const;
+  double DirectivityAt(const Vec3& r_hat) const { return At(r_hat).directivity; }
+
+  // Directivity of a field component c (V): 4 pi |c|^2 / (2 eta0 P).
+  double DirectivityOf(Complex component_v) const { return per_v2_ * std::norm(component_v); }
+  bool NoFieldAt(const Vec3& r_hat) const;
+  const Array& array() const { return array_; }
+  // Directions evaluated so far (all calls).
+  std::size_t evaluations() const { return evaluations_; }
+
+ private:
+  Array array_;
+  Eigen::VectorXcd currents_;
+  std::shared_ptr<const FieldPlan> plan_;  // the sources, built once
+  double per_v2_ = 0.0;                    // 4 pi / (2 eta0 P), 1/V^2
+  mutable std::size_t evaluations_ = 0;
+};
+
+}  // namespace lobecast

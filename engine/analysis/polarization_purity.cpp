@@ -1,0 +1,161 @@
+// Co/cross-polarization, XPD and axial-ratio coverage (polarization_purity.h).
+#include "engine/analysis/polarization_purity.h"
+
+#include <algorithm>
+#include <cmath>
+#include <limits>
+
+#include "engine/analysis/beam.h"
+
+namespace lobecast {
+namespace {
+
+// XPD in dB of a co/cross pair; +inf for a co-polar field whose cross part is zero up
+// to rounding (PowerRatioDb), -inf for the opposite, NaN for no field.
+double XpdDb(const CoCross& c) { return PowerRatioDb(std::norm(c.co), std::norm(c.cross)); }
+
+bool WithinAxialRatio(const ProbeSample& s, const AnalysisOptions& options) {
+  if (s.no_field) return false;
+  const Polarization p = PolarizationOf(s.e_theta, s.e_phi);
+  if (!(p.axial_ratio_db <= options.axial_ratio_limit_db)) return false;  // NaN: no field
+  if (options.reference == PolarizationReference::kRightCircular) return p.sense == 1;
+  if (options.reference == PolarizationReference::kLeftCircular) return p.sense == -1;
+  return true;
+}
+
+}  // namespace
+
+PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeighbours& neighbours,
+                                       const PatternResult& grid_result, const Vec3& peak,
+                                       double peak_directivity, const AnalysisOptions& options) {
+  PolarizationPurity out;
+  out.reference = options.reference;
+  out.axial_ratio_limit_db = options.axial_ratio_limit_db;
+  const ProbeSample at_peak = probe.At(peak);
+  const CoCross cc = at_peak.CoCrossFor(options.reference);
+  out.co_polar_dbi_at_peak = ToDb(probe.DirectivityOf(cc.co));
+  out.cross_polar_dbi_at_peak = ToDb(probe.DirectivityOf(cc.cross));
+  out.xpd_at_peak_db = XpdDb(cc);
+  const Polarization pol = PolarizationOf(at_peak.e_theta, at_peak.e_phi);
+  out.axial_ratio_at_peak_db = pol.axial_ratio_db;
+  out.tilt_at_peak_deg = pol.tilt_deg;
+  out.sense_at_peak = pol.sense;
+
+  double worst = out.xpd_at_peak_db;
+  Vec3 worst_r = peak;
+  auto consider = [&](double xpd, const Vec3& r) {
+    if (xpd < worst) {
+      worst = xpd;
+      worst_r = r;
+    }
+  };
+
+  // (a) grid directions of the beam.
+  if (neighbours.num_nodes() > 0) {
+    const std::size_t np = grid_result.grid.phi_deg.size();
+    const auto& d = grid_result.directivity;
+    const std::size_t top =
+        neighbours.MaxNode([&](std::size_t g) { return d[static_cast<Eigen::Index>(g)]; });
+    const std::vector<bool> member = neighbours.NodesWhere(
+        [&](std::size_t g) { return d[static_cast<Eigen::Index>(g)] >= 0.5 * peak_directivity; });
+    neighbours.VisitComponent(member, top, [&](std::size_t n) {
+      const std::size_t g = neighbours.representative(n);
+      const CoCross c = CoCrossOf(grid_result.field.e_theta[static_cast<Eigen::Index>(g)],
+                                  grid_result.field.e_phi[static_cast<Eigen::Index>(g)],
+                                  grid_result.grid.phi_deg[g % np] * kDegree, options.reference);
+      consider(XpdDb(c), neighbours.direction(n));
+    });
+  }
+
+  // (b) rays from the peak out to the half-power contour.
+  const LocalChart chart(peak);
+  const double tol = options.refine_tolerance_deg * kDegree;
+  std::vector<Vec3> pts;
+  for (int k = 0; k < options.beam_rays; ++k) {
+    const double psi = 2.0 * kPi * k / options.beam_rays;
+    const Vec3 t = std::cos(psi) * chart.e1() + std::sin(psi) * chart.e2();
+    const double step = 4.0 * CutStepRad(probe, peak, t, peak_directivity, options);
+    const BeamRay ray = WalkBeamRay(probe, peak, t, peak_directivity, step, tol, false);
+    // Stop short of a ground edge by the search tolerance, so the samples stay above it.
+    const double edge = ray.clipped_by_ground ? ray.half_power_rad - 4 * tol : ray.half_power_rad;
+    for (int i = 1; i <= options.beam_ray_samples; ++i)
+      pts.push_back(AlongGreatCircle(peak, t, edge * i / options.beam_ray_samples));
+  }
+  const std::vector<ProbeSample> s = probe.At(pts);
+  for (std::size_t i = 0; i < s.size(); ++i) {
+    if (s[i].no_field || s[i].directivity < 0.5 * peak_directivity * (1 - 1e-9)) continue;
+    consider(XpdDb(s[i].CoCrossFor(options.reference)), pts[i]);
+  }
+  out.worst_xpd_in_beam_db = worst;
+  out.worst_xpd_direction = ToDirectionDeg(worst_r);
+  out.axial_ratio_solid_angle_sr = AxialRatioSolidAngle(probe, options);
+  return out;
+}
+
+double AxialRatioSolidAngle(const PatternProbe& probe, const AnalysisOptions& options) {
+  const int nphi = options.axial_ratio_phi_planes;
+  const double theta_max = probe.array().ground == Ground::kPec ? 0.5 * kPi : kPi;
+  const int nt = std::max(
+      2, static_cast<int>(std::ceil(theta_max / (options.axial_ratio_theta_step_deg * kDegree))));
+  const double dt = theta_max / nt;
+  std::vector<Vec3> pts;
+  pts.reserve(static_cast<std::size_t>(nphi) * static_cast<std::size_t>(nt + 1));
+  for (int k = 0; k < nphi; ++k)
+    for (int i = 0; i <= nt; ++i) pts.push_back(UnitVectorAt(i * dt, 2.0 * kPi * k / nphi));
+  const std::vector<ProbeSample> s = probe.At(pts);
+  std::vector<bool> in(s.size());
+  for (std::size_t i = 0; i < s.size(); ++i) in[i] = WithinAxialRatio(s[i], options);
+
+  struct Edge {
+    int plane;
+    double lo, hi;
+    bool in_lo;
+  };
+  std::vector<Edge> edges;
+  for (int k = 0; k < nphi; ++k) {
+    for (int i = 0; i < nt; ++i) {
+      const std::size_t a = static_cast<std::size_t>(k) * static_cast<std::size_t>(nt + 1) +
+                            static_cast<std::size_t>(i);
+      if (in[a] != in[a + 1]) edges.push_back({k, i * dt, (i + 1) * dt, static_cast<bool>(in[a])});
+    }
+  }
+  // Bisection on the in/out predicate, all edges at once (one engine call per halving).
+  for (int iter = 0; iter < 48 && !edges.empty(); ++iter) {
+    std::vector<Vec3> mid(edges.size());
+    for (std::size_t e = 0; e < edges.size(); ++e)
+      mid[e] = UnitVectorAt(0.5 * (edges[e].lo + edges[e].hi), 2.0 * kPi * edges[e].plane / nphi);
+    const std::vector<ProbeSample> m = probe.At(mid);
+    for (std::size_t e = 0; e < edges.size(); ++e) {
+      const double c = 0.5 * (edges[e].lo + edges[e].hi);
+      if (WithinAxialRatio(m[e], options) == edges[e].in_lo)
+        edges[e].lo = c;
+      else
+        edges[e].hi = c;
+    }
+  }
+  // Per plane: int sin(theta) dtheta over the in-limit intervals = sum (cos a - cos b).
+  std::vector<double> plane(static_cast<std::size_t>(nphi), 0.0);
+  std::vector<double> open_at(static_cast<std::size_t>(nphi), -1.0);
+  for (int k = 0; k < nphi; ++k)
+    if (in[static_cast<std::size_t>(k) * static_cast<std::size_t>(nt + 1)])
+      open_at[static_cast<std::size_t>(k)] = 0.0;
+  for (const Edge& e : edges) {  // edges are in theta order within each plane
+    const auto k = static_cast<std::size_t>(e.plane);
+    const double x = 0.5 * (e.lo + e.hi);
+    if (e.in_lo) {
+      plane[k] += std::cos(open_at[k]) - std::cos(x);
+      open_at[k] = -1.0;
+    } else {
+      open_at[k] = x;
+    }
+  }
+  double sum = 0.0;
+  for (int k = 0; k < nphi; ++k) {
+    const auto kk = static_cast<std::size_t>(k);
+    if (open_at[kk] >= 0.0) plane[kk] += std::cos(open_at[kk]) - std::cos(theta_max);
+    sum += plane[kk];
+  }
+  return sum * 2.0 * kPi / nphi;
+}
+
+}  // namespace lobecast

@@ -1,0 +1,32 @@
+// Polarization purity of the main beam for a chosen reference (polarization.h):
+// co- and cross-polar directivity and XPD at the peak, the worst XPD inside the
+// -3 dB main beam, the axial ratio at the peak, and the solid angle where the axial
+// ratio is within a limit.
+#pragma once
+
+#include "engine/analysis/analysis_types.h"
+#include "engine/analysis/grid_neighbours.h"
+#include "engine/pattern.h"
+#include "engine/analysis/pattern_probe.h"
+
+namespace lobecast {
+
+// The -3 dB main beam is the connected region around the peak where D >= D_peak / 2.
+// Its worst XPD is the lowest over (a) the grid directions of that region (the
+// grid's connected component holding the grid maximum) and (b) beam_rays great-circle
+// rays from the peak, each sampled beam_ray_samples times out to its first half-power
+// point (found by root finding). Every sample lies in the region, so the reported
+// value is an upper bound of the true minimum, tight to the sampling.
+PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeighbours& neighbours,
+                                       const PatternResult& grid_result, const Vec3& peak,
+                                       double peak_directivity, const AnalysisOptions& options);
+
+// Solid angle (sr) where AR <= options.axial_ratio_limit_db, counting for a circular
+// reference only the reference hand: the trapezoid rule over axial_ratio_phi_planes
+// phi planes (spectrally accurate for the periodic integrand) of the exact integral
+// of sin(theta) over the in-limit theta intervals of each plane, whose edges are
+// found by bisection from a axial_ratio_theta_step_deg sampling. Zero-field
+// directions and the ground's no-field region count as outside.
+double AxialRatioSolidAngle(const PatternProbe& probe, const AnalysisOptions& options);
+
+}  // namespace lobecast

@@ -1,0 +1,103 @@
+// Side lobes and other major lobes (side_lobes.h).
+#include "engine/analysis/side_lobes.h"
+
+#include <algorithm>
+#include <cmath>
+
+#include "engine/analysis/beam.h"
+
+namespace lobecast {
+namespace {
+
+// Two refined lobes closer than this are the same lobe, rad (the searches converge to
+// ~1e-8 rad; distinct lobes of any realistic array are far wider apart).
+constexpr double kSameLobe_rad = 1e-4;
+
+// Grid candidates this far below the listing threshold are refined only while looking
+// for the highest side lobe: a coarse grid can undersample a lobe by several dB.
+constexpr double kCandidateMargin_db = 10.0;
+
+}  // namespace
+
+LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours,
+                     const Eigen::VectorXd& grid_directivity, const Vec3& peak,
+                     double peak_directivity, const AnalysisOptions& options) {
+  LobeSearch out;
+  if (neighbours.num_nodes() == 0) return out;
+  const GridNeighbours::GridValue at = [&](std::size_t g) {
+    return grid_directivity[static_cast<Eigen::Index>(g)];
+  };
+  auto d = [&](std::size_t node) { return at(neighbours.representative(node)); };
+  const std::size_t top = neighbours.MaxNode(at);
+  const auto components = neighbours.Components(neighbours.LocalMaxima(at, 1e-12 * d(top)));
+
+  struct Candidate {
+    std::size_t node;
+    double value;
+  };
+  std::vector<Candidate> cands;
+  for (const auto& comp : components) {
+    if (std::find(comp.begin(), comp.end(), top) != comp.end()) continue;  // the main lobe
+    std::size_t best = comp[0];
+    double best_d = d(best);
+    for (std::size_t n : comp) {
+      const double dn = d(n);
+      if (dn > best_d) {
+        best = n;
+        best_d = dn;
+      }
+    }
+    cands.push_back({best, best_d});
+  }
+  std::sort(cands.begin(), cands.end(),
+            [](const Candidate& a, const Candidate& b) { return a.value > b.value; });
+
+  const double listing = std::pow(10.0, options.side_lobe_threshold_db / 10.0) * peak_directivity;
+  const double worth =
+      std::pow(10.0, (options.side_lobe_threshold_db - kCandidateMargin_db) / 10.0) *
+      peak_directivity;
+  const double major = std::pow(10.0, -options.major_lobe_tolerance_db / 10.0) * peak_directivity;
+  const std::size_t max_refined = 4 * options.max_side_lobes + 8;
+  std::vector<Vec3> accepted;
+  std::vector<Lobe> sides;
+  std::size_t refined = 0;
+  for (const Candidate& c : cands) {
+    if (c.value < worth && out.highest_side_lobe) break;
+    if (refined == max_refined) {
+      out.truncated = true;
+      break;
+    }
+    ++refined;
+    const RefinedMaximum m =
+        RefineMaximum(probe, neighbours.direction(c.node), 0.5 * neighbours.spacing_rad(),
+                      options.refine_tolerance_deg * kDegree, options.max_evaluations_per_search);
+    if (AngleBetween(m.r_hat, peak) < kSameLobe_rad) continue;
+    if (std::any_of(accepted.begin(), accepted.end(),
+                    [&](const Vec3& r) { return AngleBetween(r, m.r_hat) < kSameLobe_rad; }))
+      continue;
+    accepted.push_back(m.r_hat);
+    Lobe lobe;
+    lobe.direction = ToDirectionDeg(m.r_hat);
+    lobe.directivity = m.directivity;
+    lobe.directivity_dbi = ToDb(m.directivity);
+    lobe.level_db = ToDb(m.directivity / peak_directivity);
+    if (m.directivity >= major) {
+      out.major_lobes.push_back(lobe);
+      continue;
+    }
+    if (!out.highest_side_lobe || lobe.directivity > out.highest_side_lobe->directivity)
+      out.highest_side_lobe = lobe;
+    if (m.directivity >= listing) sides.push_back(lobe);
+  }
+  auto by_level = [](const Lobe& a, const Lobe& b) { return a.directivity > b.directivity; };
+  std::sort(sides.begin(), sides.end(), by_level);
+  std::sort(out.major_lobes.begin(), out.major_lobes.end(), by_level);
+  if (sides.size() > options.max_side_lobes) {
+    sides.resize(options.max_side_lobes);
+    out.truncated = true;
+  }
+  out.side_lobes = std::move(sides);
+  return out;
+}
+
+}  // namespace lobecast

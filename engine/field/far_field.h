@@ -1,0 +1,159 @@
+// Exact far field of an array of elemental dipoles by direct superposition
+// (CONVENTIONS §1; Balanis 4th ed. sec. 4.2 for one dipole):
+//
+//   rE(r_hat) = (j w mu0 / 4 pi) sum_n I_n Le_n [r_hat x (r_hat x u_n)] exp(+j k r_hat . r_n)
+//
+// reported as rE_theta, rE_phi in volts. The plan holds everything that does not
+// depend on the currents (source moments, directions, projection vectors), so it
+// can be executed for many current vectors (synthesis, tolerance studies).
+//
+// Two methods compute the same sum:
+//  - direct: every source-direction pair, vectorized (inlined sincos,
+//    engine/field/sincos.h) and threaded over directions; exact to rounding, O(N M);
+//  - fast: a type-3 non-uniform FFT with the exponential-of-semicircle kernel
+//    (engine/field/nufft.h; Barnett, Magland and af Klinteberg, SIAM J. Sci. Comput.
+//    41, 2019), O(N + M + grid log grid) with a kernel-width factor, accurate to
+//    a requested tolerance relative to the pattern peak. Sources on a lattice
+//    take a type-2 transform over the lattice sites instead (engine/field/lattice.h),
+//    which needs no spreading and whose grid does not grow with the pitch. It
+//    pays off for large arrays on dense grids; auto picks it only when its
+//    estimated cost is well below the direct one.
+#pragma once
+
+#include <array>
+#include <cstddef>
+#include <memory>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "engine/grid.h"
+#include "engine/types.h"
+
+namespace lobecast {
+
+struct AxisLattice;  // engine/field/lattice.h
+
+struct FarField {
+  Eigen::VectorXcd e_theta;  // rE_theta per direction, V
+  Eigen::VectorXcd e_phi;    // rE_phi per direction, V
+  std::size_t size() const { return static_cast<std::size_t>(e_theta.size()); }
+};
+
+enum class FieldMethod { kDirect, kFast, kAuto };
+// Which transform the fast path runs: a type-3 NUFFT for any positions, or a
+// type-2 NUFFT over the sites when every source sits on an axis-aligned
+// lattice (engine/field/lattice.h; grid arrays, also thinned, offset-row and over ground).
+enum class FastTransform { kNone, kType3, kLattice };
+std::string_view ToString(FastTransform t);  // "none", "type-3", "lattice"
+std::string_view ToString(FieldMethod m);    // "direct", "fast", "auto"
+// Case-insensitive; std::nullopt for an unknown name.
+std::optional<FieldMethod> FieldMethodFromString(std::string_view s);
+
+struct FieldOptions {
+  // OpenMP threads across directions; 0 uses the OpenMP default. The result does
+  // not depend on it: each direction's sum runs over the sources in a fixed order
+  // (direct), and the fast path's grid sums run in a fixed order too.
+  int num_threads = 0;
+  // kAuto takes the fast path only when its estimated cost is below half the
+  // direct one, so small arrays and coarse grids always get the exact sum.
+  FieldMethod method = FieldMethod::kAuto;
+  // Fast path only: the largest error in |rE| over all plan directions, relative
+  // to the largest |rE| over the plan's directions. 1e-9 keeps patterns exact
+  // to far below any plotting or side-lobe resolution. The fast path first runs
+  // a cheap 1e-4 pass to find the peak, then one tight enough for it; when the
+  // peak is so far below sum |I Le| that double precision cannot reach the
+  // tolerance, it sums directly instead. The direct path ignores it.
+  double tolerance_relative = 1e-9;
+  // Fast path: take the lattice transform when the sources sit on a lattice and
+  // it is estimated cheaper; false always runs type 3 (for comparisons).
+  bool use_lattice = true;
+
+  // False (with a message naming the field, the value and the rule) unless
+  // num_threads >= 0 and 1e-14 <= tolerance_relative <= 1e-2.
+  bool IsValid(std::string* why) const;
+};
+
+class FieldPlan {
+ public:
+  // Throws InvalidArgument if the array is invalid (see Validate in types.h).
+  FieldPlan(const Array& array, const Directions& directions, const FieldOptions& options = {});
+
+  // currents_a: one complex peak current per dipole (images follow automatically).
+  FarField Execute(const Eigen::VectorXcd& currents_a) const;
+  // Fills a caller-owned FarField (resized as needed) for directions
+  // [first, first + out.size()) -- lets callers process a grid in chunks.
+  // The fast path transforms all plan directions at once: its first call for a
+  // current vector computes and keeps the whole field (the output's size), and
+  // later chunks for the same currents are copies. Thread-safe.
+  void ExecuteRange(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
+                    FarField& out) const;
+
+  // The exact (direct) sum at directions of the caller's, reusing the plan's
+  // sources: for many small evaluations (off-grid searches), where building a
+  // plan per call would cost O(N) setup each time. Any plan can serve, one built
+  // on no directions too. Thread-safe.
+  FarField ExecuteAt(const Eigen::VectorXcd& currents_a, const Directions& directions) const;
+
+  std::size_t num_dipoles() const { return num_dipoles_; }
+  std::size_t num_sources() const { return static_cast<std::size_t>(source_pos_.cols()); }
+  std::size_t num_directions() const { return static_cast<std::size_t>(dirs_.k_r_hat.cols()); }
+
+  // kDirect or kFast: what options.method (kAuto resolved) led to.
+  FieldMethod method_used() const { return method_used_; }
+  // The fast path's transform (kNone for the direct path): the lattice one when
+  // the sources sit on a lattice and it is estimated cheaper than type 3.
+  FastTransform fast_transform() const { return fast_transform_; }
+  // Fast path: the error bound it met for the last current vector, relative to
+  // that pattern's peak (<= tolerance_relative); 0 for the direct path.
+  double error_bound_relative() const;
+
+ private:
+  struct FastCache;  // defined in far_field.cpp
+
+  // Per-direction data the direct sum reads: k r_hat, theta_hat, phi_hat, zeroed.
+  struct DirectionData {
+    Eigen::Matrix3Xd k_r_hat, theta_hat, phi_hat;
+    std::vector<unsigned char> zeroed;  // 1 where the ground forces E = 0
+  };
+  DirectionData MakeDirectionData(const Directions& directions) const;
+  void ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
+                     FarField& out) const;
+  void SumDirect(const Eigen::VectorXcd& currents_a, const DirectionData& dirs, std::size_t first,
+                 std::size_t count, FarField& out) const;
+  void ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
+                   FarField& out) const;
+  double EstimatedDirectSeconds() const;
+  double EstimatedType3Seconds() const;
+  double EstimatedLatticeSeconds() const;
+
+  std::size_t num_dipoles_ = 0;
+  Ground ground_ = Ground::kNone;
+  double prefactor_ = 0.0;          // w mu0 / (4 pi)
+  Eigen::Matrix3Xd source_pos_;     // m
+  Eigen::Matrix3Xd source_moment_;  // Le * u, m
+  std::vector<int> source_dipole_;  // which dipole's current drives the source
+  // When every moment is parallel to one axis (a common case: all dipoles along
+  // z, with or without ground), each source carries a signed scalar moment
+  // along it, and the sum needs one complex accumulator instead of three.
+  bool collinear_ = false;
+  Vec3 common_axis_ = Vec3::UnitZ();
+  std::vector<double> signed_moment_m_;     // Le * (u . axis), collinear only
+  std::array<std::vector<double>, 6> soa_;  // x, y, z (m); moment x, y, z (m, general only)
+  double tolerance_relative_ = 1e-9;
+  FieldMethod method_used_ = FieldMethod::kDirect;
+  FastTransform fast_transform_ = FastTransform::kNone;
+  // The sources' lattice, when they have one (fast path only): its phase error
+  // k max|x - site| is added to the fast path's error bound.
+  std::shared_ptr<const AxisLattice> lattice_;
+  double lattice_phase_error_ = 0;
+  std::shared_ptr<FastCache> fast_;  // shared by copies; keyed on currents
+  double wavenumber_rad_m_ = 0;
+  int num_threads_ = 0;
+  DirectionData dirs_;  // the plan's directions
+};
+
+}  // namespace lobecast

@@ -1,0 +1,500 @@
+// Type-3 NUFFT with the exponential-of-semicircle kernel (nufft.h).
+#include "engine/field/nufft.h"
+
+#include <algorithm>
+#include <cmath>
+#include <complex>
+#include <mutex>
+#include <sstream>
+#include <utility>
+
+#include <fftw3.h>
+#include <omp.h>
+
+#include "engine/constants.h"
+#include "engine/error.h"
+#include "engine/field/exp.h"
+#include "engine/field/kernel_clones.h"
+#include "engine/field/sincos.h"
+
+namespace lobecast {
+namespace {
+
+using Complex = std::complex<double>;
+
+constexpr double kUpsampling = 2.0;  // sigma, for both the spread and the FFT grid
+constexpr int kMaxWidth = 16;
+
+// FFTW's planner is not thread-safe; execution is.
+std::mutex& FftwPlannerMutex() {
+  static std::mutex m;
+  return m;
+}
+
+int WidthFor(double tolerance) {
+  // Barnett et al. 2019, sec. 4.1: w = ceil(log10(1/eps)) + 1 at sigma = 2.
+  const int w = static_cast<int>(std::ceil(std::log10(1.0 / tolerance))) + 1;
+  return std::clamp(w, 2, kMaxWidth);
+}
+
+// Smallest even n >= m whose only prime factors are 2, 3 and 5 (fast for FFTW).
+int NextSmooth(int m) {
+  for (int n = std::max(2, m + (m & 1));; n += 2) {
+    int r = n;
+    for (int p : {2, 3, 5}) {
+      while (r % p == 0) r /= p;
+    }
+    if (r == 1) return n;
+  }
+}
+
+// The ES kernel phi(z) = exp(beta (sqrt(1 - z^2) - 1)), zero outside |z| <= 1.
+inline double Kernel(double beta, double z) {
+  const double q = 1.0 - z * z;
+  return q > 0 ? std::exp(beta * (std::sqrt(q) - 1.0)) : 0.0;
+}
+
+// phi_hat(xi) = int_{-1}^{1} phi(z) cos(xi z) dz by Gauss-Legendre quadrature on
+// the half interval (phi is even), as Barnett et al. 2019 do (sec. 3.1.1).
+class KernelTransform {
+ public:
+  KernelTransform(double beta, int width) {
+    // Nodes and weights of the n-point rule on [-1, 1] by Newton's method on the
+    // Legendre polynomial (Abramowitz and Stegun 25.4.29); keep z > 0 and map to
+    // [0, 1] weights for the even integrand.
+    // 2 (w + 6) nodes: the quadrature error then stays three or more orders
+    // below the kernel's own tolerance for every width (checked against 600 nodes
+    // while writing this; the sqrt endpoint singularity caps convergence at the
+    // e^-beta level, which is the tolerance itself).
+    const int n = 2 * (width + 6);
+    for (int i = 0; i < n / 2; ++i) {
+      double z = std::cos(kPi * (i + 0.75) / (n + 0.5));
+      double dp = 0;
+      for (int it = 0; it < 100; ++it) {
+        double p0 = 1, p1 = z;
+        for (int k = 2; k <= n; ++k) {
+          const double p2 = ((2 * k - 1) * z * p1 - (k - 1) * p0) / k;
+          p0 = p1, p1 = p2;
+        }
+        dp = n * (z * p1 - p0) / (z * z - 1);
+        const double dz = p1 / dp;
+        z -= dz;
+        if (std::abs(dz) < 1e-16) break;
+      }
+      const double w = 2.0 / ((1 - z * z) * dp * dp);
+      nodes_.push_back(z);
+      weights_.push_back(2.0 * w * Kernel(beta, z));  // both halves
+    }
+  }
+  double operator()(double xi) const {
+    double sum = 0;
+    const std::size_t n = nodes_.size();
+#pragma omp simd reduction(+ : sum)
+    for (std::size_t i = 0; i < n; ++i) {
+      double s, c;
+      SinCos(xi * nodes_[i], s, c);
+      sum += weights_[i] * c;
+    }
+    return sum;
+  }
+
+ private:
+  std::vector<double> nodes_, weights_;
+};
+
+struct Range {
+  double centre, half_width;
+};
+Range RangeOf(const Eigen::Matrix3Xd& m, int d) {
+  if (m.cols() == 0) return {0.0, 0.0};
+  const double lo = m.row(d).minCoeff(), hi = m.row(d).maxCoeff();
+  return {0.5 * (lo + hi), 0.5 * (hi - lo)};
+}
+
+// Rejects a tolerance outside 1e-14 to 1e-1, naming it.
+void CheckTolerance(double tolerance) {
+  if (!(tolerance >= 1e-14 && tolerance <= 1e-1)) {
+    std::ostringstream m;
+    m << "nufft tolerance: found " << tolerance << ", expected 1e-14 to 1e-1";
+    throw InvalidArgument(m.str());
+  }
+}
+
+void CheckStrengths(const Eigen::MatrixXcd& c, Eigen::Index rows, const char* what) {
+  if (c.rows() != rows) {
+    std::ostringstream m;
+    m << "nufft " << what << ": found " << c.rows() << " rows, expected " << rows;
+    throw InvalidArgument(m.str());
+  }
+  if (c.cols() < 1 || c.cols() > 3) {
+    std::ostringstream m;
+    m << "nufft " << what << ": found " << c.cols() << " columns, expected 1 to 3";
+    throw InvalidArgument(m.str());
+  }
+}
+
+// Kernel weights and wrapped grid indices of a coordinate t (grid units) on a
+// periodic grid of size n, for a kernel w cells wide; an inactive dimension has
+// the single weight 1 at cell 0. Returns the number of weights.
+[[gnu::always_inline]] inline int KernelWeights(bool active, double beta, int w, double t, int n,
+                                                double* wt, int* idx) {
+  if (!active) {
+    wt[0] = 1.0, idx[0] = 0;
+    return 1;
+  }
+  const int l0 = static_cast<int>(std::ceil(t - 0.5 * w));
+  const double z0 = (l0 - t) * 2.0 / w, dz = 2.0 / w;
+  // Kernel(beta, z) with the inlined exp, so the w weights vectorize.
+#pragma omp simd
+  for (int i = 0; i < w; ++i) {
+    const double z = z0 + i * dz;
+    const double q = 1.0 - z * z;
+    const double v = Exp(beta * (std::sqrt(q > 0 ? q : 0.0) - 1.0));
+    wt[i] = q > 0 ? v : 0.0;
+  }
+  for (int i = 0; i < w; ++i) idx[i] = (((l0 + i) % n) + n) % n;
+  return w;
+}
+
+// The zero-padded grid after its FFT, as the interpolation reads it.
+struct GridView {
+  const Complex* grid;
+  std::array<int, 3> n2;
+  std::size_t plane, cells;  // n2[1] n2[2], and all cells of one component
+  int nc;                    // components
+  double beta;
+  int w;
+};
+
+// out(k, :) = sum over the kernel's footprint of the grid at target k (grid
+// units), for targets [begin, end). Built for each vector width.
+LOBECAST_KERNEL_CLONES
+void InterpolateTargets(const GridView& g, const Eigen::Matrix3Xd& targets, std::ptrdiff_t begin,
+                        std::ptrdiff_t end, Eigen::MatrixXcd& out) {
+  for (std::ptrdiff_t k = begin; k < end; ++k) {
+    double wt[3][kMaxWidth];
+    int idx[3][kMaxWidth];
+    int len[3];
+    for (std::size_t d = 0; d < 3; ++d) {
+      len[d] = KernelWeights(g.n2[d] > 1, g.beta, g.w, targets(static_cast<Eigen::Index>(d), k),
+                             g.n2[d], wt[d], idx[d]);
+    }
+    // The innermost run is contiguous unless it wraps around the grid.
+    const bool contiguous = idx[2][len[2] - 1] == idx[2][0] + len[2] - 1;
+    double ar[3] = {0, 0, 0}, ai[3] = {0, 0, 0};
+    for (int i0 = 0; i0 < len[0]; ++i0) {
+      for (int i1 = 0; i1 < len[1]; ++i1) {
+        const std::size_t base =
+            static_cast<std::size_t>(idx[0][i0]) * g.plane +
+            static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(g.n2[2]);
+        const double w01 = wt[0][i0] * wt[1][i1];
+        for (int a = 0; a < g.nc; ++a) {
+          const Complex* row = g.grid + static_cast<std::size_t>(a) * g.cells + base;
+          double sr = 0, si = 0;
+          if (contiguous) {
+            const double* p = reinterpret_cast<const double*>(row + idx[2][0]);
+#pragma omp simd reduction(+ : sr, si)
+            for (int i2 = 0; i2 < len[2]; ++i2) {
+              sr += wt[2][i2] * p[2 * i2];
+              si += wt[2][i2] * p[2 * i2 + 1];
+            }
+          } else {
+            for (int i2 = 0; i2 < len[2]; ++i2) {
+              sr += wt[2][i2] * row[idx[2][i2]].real();
+              si += wt[2][i2] * row[idx[2][i2]].imag();
+            }
+          }
+          ar[a] += w01 * sr;
+          ai[a] += w01 * si;
+        }
+      }
+    }
+    for (int a = 0; a < g.nc; ++a) out(k, a) = Complex(ar[a], ai[a]);
+  }
+}
+
+int Threads(int requested) { return requested > 0 ? requested : omp_get_max_threads(); }
+
+}  // namespace
+
+double NufftGeometry::kernel_points() const {
+  double p = 1;
+  for (int d = 0; d < active_dims; ++d) p *= kernel_width;
+  return p;
+}
+
+// ---- Type 2 ----------------------------------------------------------------
+
+NufftGeometry Nufft2::GeometryFor(const std::array<int, 3>& modes, double tolerance) {
+  CheckTolerance(tolerance);
+  NufftGeometry g;
+  g.kernel_width = WidthFor(tolerance);
+  for (std::size_t d = 0; d < 3; ++d) {
+    if (modes[d] < 1) {
+      std::ostringstream m;
+      m << "nufft modes[" << d << "]: found " << modes[d] << ", expected 1 or more";
+      throw InvalidArgument(m.str());
+    }
+    if (modes[d] == 1) continue;
+    ++g.active_dims;
+    g.spread_size[d] = modes[d];
+    // At least two kernel widths: a few modes on a grid narrower than the kernel
+    // lose about a digit (measured: 3.8 eps for 2 and 3 modes at 1e-9).
+    g.fft_size[d] = NextSmooth(
+        std::max(static_cast<int>(std::ceil(kUpsampling * modes[d])), 2 * g.kernel_width));
+  }
+  return g;
+}
+
+std::size_t Nufft2::num_modes() const {
+  return static_cast<std::size_t>(modes_[0]) * static_cast<std::size_t>(modes_[1]) *
+         static_cast<std::size_t>(modes_[2]);
+}
+
+Nufft2::Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
+               const NufftOptions& options)
+    : geometry_(GeometryFor(modes, options.tolerance)),
+      modes_(modes),
+      num_threads_(options.num_threads) {
+  const int w = geometry_.kernel_width;
+  // Barnett et al. 2019, sec. 4.1: beta = 2.30 w at sigma = 2.
+  beta_ = 2.30 * w;
+  const KernelTransform phi_hat(beta_, w);
+  // Deconvolution h2 / psi2_hat(l), psi2_hat(xi) = alpha2 phi_hat(alpha2 xi),
+  // alpha2 = w h2 / 2, h2 = 2 pi / n2.
+  for (std::size_t d = 0; d < 3; ++d) {
+    std::vector<double>& dc = deconvolution_[d];
+    dc.assign(static_cast<std::size_t>(modes_[d]), 1.0);
+    if (modes_[d] == 1) continue;
+    const int n2 = geometry_.fft_size[d];
+    const double h2 = 2.0 * kPi / n2, alpha2 = 0.5 * w * h2;
+    for (int i = 0; i < modes_[d]; ++i) {
+      const double l = i - modes_[d] / 2;
+      dc[static_cast<std::size_t>(i)] = h2 / (alpha2 * phi_hat(alpha2 * l));
+    }
+  }
+  // Targets in grid units (in place), reduced to one period first so large t
+  // keep their digits.
+  for (Eigen::Index k = 0; k < targets.cols(); ++k) {
+    for (int d = 0; d < 3; ++d) {
+      const int n2 = geometry_.fft_size[static_cast<std::size_t>(d)];
+      const double t = targets(d, k);
+      targets(d, k) =
+          n2 == 1 ? 0.0 : (t - 2.0 * kPi * std::nearbyint(t / (2.0 * kPi))) * n2 / (2.0 * kPi);
+    }
+  }
+  targets_ = std::move(targets);
+}
+
+Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
+  CheckStrengths(coefficients, static_cast<Eigen::Index>(num_modes()), "coefficients");
+  const int w = geometry_.kernel_width;
+  const auto nc = static_cast<int>(coefficients.cols());
+  const std::array<int, 3>& n2 = geometry_.fft_size;
+  const std::size_t plane = static_cast<std::size_t>(n2[1]) * static_cast<std::size_t>(n2[2]);
+  const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
+  const int threads = Threads(num_threads_);
+
+  auto* grid =
+      static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
+  if (!grid) throw std::bad_alloc();
+  std::fill(grid, grid + cells * static_cast<std::size_t>(nc), Complex(0.0));
+
+  // 1. Deconvolved modes into the zero-padded grid (mode l at cell l mod n2).
+  for (int i0 = 0; i0 < modes_[0]; ++i0) {
+    const std::size_t r0 = static_cast<std::size_t>((i0 - modes_[0] / 2 + n2[0]) % n2[0]);
+    for (int i1 = 0; i1 < modes_[1]; ++i1) {
+      const std::size_t r1 = static_cast<std::size_t>((i1 - modes_[1] / 2 + n2[1]) % n2[1]);
+      const double d01 = deconvolution_[0][static_cast<std::size_t>(i0)] *
+                         deconvolution_[1][static_cast<std::size_t>(i1)];
+      const auto row0 = (static_cast<Eigen::Index>(i0) * modes_[1] + i1) * modes_[2];
+      for (int i2 = 0; i2 < modes_[2]; ++i2) {
+        const std::size_t cell = r0 * plane + r1 * static_cast<std::size_t>(n2[2]) +
+                                 static_cast<std::size_t>((i2 - modes_[2] / 2 + n2[2]) % n2[2]);
+        const double f = d01 * deconvolution_[2][static_cast<std::size_t>(i2)];
+        for (int a = 0; a < nc; ++a) {
+          grid[static_cast<std::size_t>(a) * cells + cell] = f * coefficients(row0 + i2, a);
+        }
+      }
+    }
+  }
+  // 2. g_m = sum_l b_l exp(+i 2 pi l m / n2): FFTW's backward transform.
+  {
+    fftw_plan plan;
+    {
+      const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+      plan = fftw_plan_many_dft(3, n2.data(), nc, reinterpret_cast<fftw_complex*>(grid), nullptr, 1,
+                                static_cast<int>(cells), reinterpret_cast<fftw_complex*>(grid),
+                                nullptr, 1, static_cast<int>(cells), FFTW_BACKWARD, FFTW_ESTIMATE);
+    }
+    fftw_execute(plan);
+    const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+    fftw_destroy_plan(plan);
+  }
+  // 3. Interpolate at each target with the kernel, in blocks of targets.
+  Eigen::MatrixXcd out(targets_.cols(), nc);
+  const GridView view{grid, n2, plane, cells, nc, beta_, w};
+  constexpr std::ptrdiff_t kBlock = 512;
+  const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
+  const std::ptrdiff_t blocks = (m + kBlock - 1) / kBlock;
+#pragma omp parallel for num_threads(threads) schedule(static)
+  for (std::ptrdiff_t b = 0; b < blocks; ++b) {
+    InterpolateTargets(view, targets_, b * kBlock, std::min(m, (b + 1) * kBlock), out);
+  }
+  fftw_free(grid);
+  return out;
+}
+
+// ---- Type 3 ----------------------------------------------------------------
+
+NufftGeometry Nufft3::GeometryFor(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
+                                  double tolerance) {
+  CheckTolerance(tolerance);
+  NufftGeometry g;
+  g.kernel_width = WidthFor(tolerance);
+  for (int d = 0; d < 3; ++d) {
+    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
+    // Dropping exp(i s' x') costs at most |s' x'| <= X S relative to sum |c_j|.
+    if (x.half_width * s.half_width <= 1e-3 * tolerance) continue;
+    ++g.active_dims;
+    const double h = kPi / (kUpsampling * s.half_width);
+    const int n = 2 * static_cast<int>(std::ceil(x.half_width / h + 0.5 * g.kernel_width + 1.0));
+    g.spread_size[static_cast<std::size_t>(d)] = n;
+    g.fft_size[static_cast<std::size_t>(d)] =
+        NextSmooth(static_cast<int>(std::ceil(kUpsampling * n)));
+  }
+  return g;
+}
+
+Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
+               const NufftOptions& options)
+    : geometry_(GeometryFor(points, targets, options.tolerance)),
+      num_threads_(options.num_threads) {
+  const int w = geometry_.kernel_width;
+  beta_ = 2.30 * w;  // as in Nufft2
+  const KernelTransform phi_hat(beta_, w);
+
+  Eigen::Vector3d cx = Eigen::Vector3d::Zero(), cs = Eigen::Vector3d::Zero();
+  for (int d = 0; d < 3; ++d) {
+    Dim& dim = dims_[static_cast<std::size_t>(d)];
+    const Range x = RangeOf(points, d), s = RangeOf(targets, d);
+    dim.centre_x = cx[d] = x.centre;
+    dim.centre_s = cs[d] = s.centre;
+    dim.n = geometry_.spread_size[static_cast<std::size_t>(d)];
+    dim.active = dim.n > 1;
+    if (dim.active) dim.h = kPi / (kUpsampling * s.half_width);
+  }
+  points_ = points.colwise() - cx;
+  // Centred targets; after the target factors they become the type-2 stage's.
+  Eigen::Matrix3Xd centred = targets.colwise() - cs;
+
+  // exp(i s . x) = exp(i s . C) exp(i D . x') exp(i s' . x').
+  point_phase_.resize(points_.cols());
+  for (Eigen::Index j = 0; j < points_.cols(); ++j) {
+    const double p = cs.dot(points_.col(j));
+    point_phase_[j] = Complex(std::cos(p), std::sin(p));
+  }
+  // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi).
+  target_factor_.resize(centred.cols());
+  const auto m = static_cast<std::ptrdiff_t>(centred.cols());
+#pragma omp parallel for num_threads(Threads(num_threads_)) schedule(static)
+  for (std::ptrdiff_t k = 0; k < m; ++k) {
+    double scale = 1.0;
+    for (int d = 0; d < 3; ++d) {
+      const Dim& dim = dims_[static_cast<std::size_t>(d)];
+      if (!dim.active) continue;
+      const double alpha = 0.5 * w * dim.h;
+      scale *= dim.h / (alpha * phi_hat(alpha * centred(d, k)));
+    }
+    const double p = targets.col(k).dot(cx);
+    target_factor_[k] = scale * Complex(std::cos(p), std::sin(p));
+  }
+  // Internally the trivial dimensions come first, so the innermost (contiguous)
+  // grid loop always runs over an active dimension: planar arrays run as (x, y).
+  std::array<int, 3> order{0, 1, 2};
+  std::stable_partition(order.begin(), order.end(),
+                        [&](int d) { return !dims_[static_cast<std::size_t>(d)].active; });
+  // Stage 3: the spread grid (cell i <-> l = i - n/2) summed at s' h (radians
+  // per cell) by a type-2 transform; its targets are built in the centred
+  // matrix, so a dense grid holds one copy of them (rows permuted in place).
+  const std::array<Dim, 3> dims = dims_;
+  const Eigen::Matrix3Xd p = points_;
+  for (int d = 0; d < 3; ++d) centred.row(d) *= dims[static_cast<std::size_t>(d)].h;
+  std::array<int, 3> modes{};
+  std::array<int, 3> at{0, 1, 2};  // at[d]: the row now holding dimension d
+  for (int i = 0; i < 3; ++i) {
+    const auto o = static_cast<std::size_t>(order[static_cast<std::size_t>(i)]);
+    dims_[static_cast<std::size_t>(i)] = dims[o];
+    modes[static_cast<std::size_t>(i)] = dims[o].n;
+    points_.row(i) = p.row(static_cast<Eigen::Index>(o));
+    const int from = at[o];
+    if (from != i) {
+      centred.row(i).swap(centred.row(from));
+      for (int& r : at) {
+        if (r == i) r = from;
+      }
+      at[o] = i;
+    }
+  }
+  grid_sum_ = std::make_unique<const Nufft2>(modes, std::move(centred), options);
+}
+
+Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
+  CheckStrengths(strengths, points_.cols(), "strengths (one row per point)");
+  const int w = geometry_.kernel_width;
+  const auto nc = static_cast<int>(strengths.cols());
+  const std::array<int, 3> n{dims_[0].n, dims_[1].n, dims_[2].n};
+  const auto plane = static_cast<Eigen::Index>(n[1]) * n[2];
+  Eigen::MatrixXcd grid = Eigen::MatrixXcd::Zero(static_cast<Eigen::Index>(n[0]) * plane, nc);
+
+  // Spread c_j exp(i D . x'_j) onto the grid (cell l + n/2: the grid was sized so
+  // that no kernel reaches past its edge). Threads own slabs of the grid along its
+  // first non-trivial dimension and every thread visits the points in order, so
+  // each cell's sum runs in point order whatever the thread count.
+  int slab_dim = 0;
+  while (slab_dim < 2 && n[static_cast<std::size_t>(slab_dim)] == 1) ++slab_dim;
+  Eigen::MatrixXcd phased(points_.cols(), nc);
+  for (int c = 0; c < nc; ++c) phased.col(c) = strengths.col(c).cwiseProduct(point_phase_);
+#pragma omp parallel num_threads(Threads(num_threads_))
+  {
+    const int t = omp_get_thread_num(), nt = omp_get_num_threads();
+    const long slab_n = n[static_cast<std::size_t>(slab_dim)];
+    const int lo = static_cast<int>(slab_n * t / nt), hi = static_cast<int>(slab_n * (t + 1) / nt);
+    double wt[3][kMaxWidth];
+    int idx[3][kMaxWidth];
+    for (Eigen::Index j = 0; j < points_.cols(); ++j) {
+      int len[3];
+      for (int d = 0; d < 3; ++d) {
+        const Dim& dim = dims_[static_cast<std::size_t>(d)];
+        // In-range cells: the modulo in KernelWeights never wraps here.
+        len[d] = KernelWeights(dim.active, beta_, w, points_(d, j) / dim.h + dim.n / 2, dim.n,
+                               wt[d], idx[d]);
+        if (d == slab_dim) {  // keep only this thread's slab
+          int k = 0;
+          for (int i = 0; i < len[d]; ++i) {
+            if (idx[d][i] >= lo && idx[d][i] < hi) wt[d][k] = wt[d][i], idx[d][k] = idx[d][i], ++k;
+          }
+          len[d] = k;
+        }
+      }
+      if (len[slab_dim] == 0) continue;
+      for (int i0 = 0; i0 < len[0]; ++i0) {
+        for (int i1 = 0; i1 < len[1]; ++i1) {
+          const Eigen::Index base =
+              idx[0][i0] * plane + static_cast<Eigen::Index>(idx[1][i1]) * n[2];
+          const double w01 = wt[0][i0] * wt[1][i1];
+          for (int a = 0; a < nc; ++a) {
+            Complex* row = grid.col(a).data() + base;
+            const Complex c = phased(j, a);
+            for (int i2 = 0; i2 < len[2]; ++i2) row[idx[2][i2]] += (w01 * wt[2][i2]) * c;
+          }
+        }
+      }
+    }
+  }
+  Eigen::MatrixXcd out = grid_sum_->Execute(grid);
+  for (int a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(target_factor_);
+  return out;
+}
+
+}  // namespace lobecast

@@ -1,0 +1,117 @@
+// Matrix-free closed-form power (power_large.h).
+#include "engine/power/power_large.h"
+
+#include <cmath>
+#include <limits>
+#include <sstream>
+#include <vector>
+
+#include <omp.h>
+
+#include "engine/error.h"
+#include "engine/ground.h"
+#include "engine/field/kernel_clones.h"
+#include "engine/power/radiated_power.h"
+#include "engine/field/sincos.h"
+
+namespace lobecast {
+namespace {
+
+// Below this x the closed forms cancel; radiated_power.cpp switches to the series there.
+constexpr double kSeriesBelow = 2.0;
+
+struct Sources {
+  std::vector<double> x, y, z, ux, uy, uz, le, ir, ii;  // I of the driving dipole
+};
+
+// sum over sources s of Le_m Le_s [(u_m.u_s) f(x) + (u_m.d)(u_s.d)/d^2 j2(x)] I_s for
+// the sources with x = k |r_m - r_s| >= kSeriesBelow (the others contribute 0 here).
+LOBECAST_KERNEL_CLONES
+void RowFar(const Sources& s, const Dipole& m, double k, double* out_r, double* out_i) {
+  const double mx = m.position_m.x(), my = m.position_m.y(), mz = m.position_m.z();
+  const double ax = m.orientation.x(), ay = m.orientation.y(), az = m.orientation.z();
+  const std::size_t n = s.x.size();
+  const double *x = s.x.data(), *y = s.y.data(), *z = s.z.data();
+  const double *ux = s.ux.data(), *uy = s.uy.data(), *uz = s.uz.data();
+  const double *le = s.le.data(), *ir = s.ir.data(), *ii = s.ii.data();
+  double vr = 0, vi = 0;
+#pragma omp simd reduction(+ : vr, vi)
+  for (std::size_t j = 0; j < n; ++j) {
+    const double dx = mx - x[j], dy = my - y[j], dz = mz - z[j];
+    const double d2 = dx * dx + dy * dy + dz * dz;
+    const double xx = k * std::sqrt(d2);
+    const bool far = xx >= kSeriesBelow;
+    const double xs = far ? xx : kSeriesBelow;  // keep the masked lanes finite
+    double sn, cs;
+    SinCos(xs, sn, cs);
+    const double inv = 1.0 / xs, inv2 = inv * inv;
+    // Spherical Bessel closed forms (DLMF 10.49.3).
+    const double j0 = sn * inv;
+    const double j1 = sn * inv2 - cs * inv;
+    const double j2 = (3.0 * inv2 - 1.0) * sn * inv - 3.0 * cs * inv2;
+    const double f = j0 - j1 * inv;
+    const double uu = ax * ux[j] + ay * uy[j] + az * uz[j];
+    const double ad = ax * dx + ay * dy + az * dz, bd = ux[j] * dx + uy[j] * dy + uz[j] * dz;
+    const double kern = far ? le[j] * (uu * f + ad * bd * (k * k) * inv2 * j2) : 0.0;
+    vr += kern * ir[j];
+    vi += kern * ii[j];
+  }
+  *out_r = vr * m.effective_length_m();
+  *out_i = vi * m.effective_length_m();
+}
+
+}  // namespace
+
+StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
+                                    int num_threads) {
+  Validate(array);
+  if (static_cast<std::size_t>(currents_a.size()) != array.size()) {
+    std::ostringstream s;
+    s << "currents: found " << currents_a.size() << " values, expected one per dipole ("
+      << array.size() << ")";
+    throw InvalidArgument(s.str());
+  }
+  const double k = array.wavenumber_rad_m();
+  const std::vector<Dipole> src = RadiatingSources(array);  // images after the dipoles
+  Sources s;
+  for (std::size_t j = 0; j < src.size(); ++j) {
+    const Dipole& d = src[j];
+    const Complex c = currents_a[static_cast<Eigen::Index>(j % array.size())];
+    s.x.push_back(d.position_m.x()), s.y.push_back(d.position_m.y()),
+        s.z.push_back(d.position_m.z());
+    s.ux.push_back(d.orientation.x()), s.uy.push_back(d.orientation.y()),
+        s.uz.push_back(d.orientation.z());
+    s.le.push_back(d.effective_length_m());
+    s.ir.push_back(c.real()), s.ii.push_back(c.imag());
+  }
+  const double scale = k * k * kEta0_ohm / (4.0 * kPi);
+  const auto n = static_cast<std::ptrdiff_t>(array.size());
+  Eigen::VectorXcd ri(n);  // R I
+  const int threads = num_threads > 0 ? num_threads : omp_get_max_threads();
+#pragma omp parallel for num_threads(threads) schedule(dynamic, 8)
+  for (std::ptrdiff_t m = 0; m < n; ++m) {
+    const Dipole& dm = array.dipoles[static_cast<std::size_t>(m)];
+    double vr, vi;
+    RowFar(s, dm, k, &vr, &vi);
+    // Near pairs (x < 2, including m itself) through the series, in source order.
+    for (std::size_t j = 0; j < src.size(); ++j) {
+      const double x = k * (dm.position_m - src[j].position_m).norm();
+      if (x >= kSeriesBelow) continue;
+      const double r = MutualResistance(dm, src[j], k) / scale;
+      vr += r * s.ir[j];
+      vi += r * s.ii[j];
+    }
+    ri[m] = scale * Complex(vr, vi);
+  }
+  StreamedPower out;
+  out.radiated_power_w = 0.5 * currents_a.dot(ri).real();  // dot conjugates the first
+  out.active_resistance_ohm.resize(n);
+  for (Eigen::Index m = 0; m < n; ++m) {
+    out.active_resistance_ohm[m] = currents_a[m] == Complex(0.0)
+                                       ? std::numeric_limits<double>::quiet_NaN()
+                                       : (ri[m] / currents_a[m]).real();
+  }
+  return out;
+}
+
+}  // namespace lobecast

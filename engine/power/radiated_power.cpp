@@ -1,0 +1,137 @@
+// Closed-form radiated power and resistances (radiated_power.h).
+#include "engine/power/radiated_power.h"
+
+#include <cmath>
+#include <limits>
+#include <sstream>
+#include <string>
+
+#include <omp.h>
+
+#include "engine/error.h"
+#include "engine/ground.h"
+
+namespace lobecast {
+namespace {
+
+// Below this x the closed forms of j0 - j1/x and j2 lose digits to cancellation
+// (j2 ~ x^2/15 comes out of terms of size 3/x^2); the series converges fast there.
+constexpr double kSeriesBelow = 2.0;
+
+RadiationKernel SeriesKernel(double x) {
+  // Maclaurin series of the spherical Bessel functions (DLMF 10.53.1):
+  //   j_n(x) = x^n sum_k (-x^2/2)^k / (k! (2n+2k+1)!!), so
+  //   j0 - j1/x = sum_k (-x^2/2)^k (2k+2) / (k! (2k+3)!!),
+  //   j2        = x^2 sum_k (-x^2/2)^k / (k! (2k+5)!!).
+  const double x2 = x * x;
+  double b = 1.0 / 3.0;  // (-x^2/2)^k / (k! (2k+3)!!) at k = 0
+  double c = 1.0 / 15.0; // (-x^2/2)^k / (k! (2k+5)!!) at k = 0
+  double f = 0.0, g = 0.0;
+  for (int k = 0; k < 40; ++k) {
+    const double tf = b * (2.0 * k + 2.0);
+    f += tf;
+    g += c;
+    if (std::abs(tf) <= 1e-18 * std::abs(f) && std::abs(c) <= 1e-18 * std::abs(g)) break;
+    b *= -x2 / (2.0 * (k + 1) * (2.0 * k + 5.0));
+    c *= -x2 / (2.0 * (k + 1) * (2.0 * k + 7.0));
+  }
+  return {f, x2 * g};
+}
+
+// R_mn without the common factor k^2 eta0 / (4 pi); a and b are (possibly image) sources.
+double KernelBetween(const Dipole& a, const Dipole& b, double k) {
+  const Vec3 d = a.position_m - b.position_m;
+  const double dist = d.norm();
+  const double x = k * dist;
+  const RadiationKernel kr = RadiationKernelAt(x);
+  double value = a.orientation.dot(b.orientation) * kr.f;
+  if (dist > 0) {
+    const Vec3 dh = d / dist;
+    value += a.orientation.dot(dh) * b.orientation.dot(dh) * kr.j2;
+  }
+  return value * a.effective_length_m() * b.effective_length_m();
+}
+
+}  // namespace
+
+RadiationKernel RadiationKernelAt(double x) {
+  x = std::abs(x);
+  if (x < kSeriesBelow) return SeriesKernel(x);
+  const double s = std::sin(x), c = std::cos(x);
+  const double j0 = s / x;
+  const double j1 = s / (x * x) - c / x;
+  const double j2 = (3.0 / (x * x) - 1.0) * s / x - 3.0 * c / (x * x);
+  return {j0 - j1 / x, j2};
+}
+
+double MutualResistance(const Dipole& m, const Dipole& n, double k_rad_m) {
+  return k_rad_m * k_rad_m * kEta0_ohm / (4.0 * kPi) * KernelBetween(m, n, k_rad_m);
+}
+
+Eigen::MatrixXd ResistanceMatrix(const Array& array) {
+  Validate(array);
+  const double k = array.wavenumber_rad_m();
+  const double scale = k * k * kEta0_ohm / (4.0 * kPi);
+  const auto n = static_cast<std::ptrdiff_t>(array.size());
+  const bool pec = array.ground == Ground::kPec;
+  std::vector<Dipole> images;
+  if (pec) {
+    images.reserve(array.size());
+    for (const Dipole& d : array.dipoles) images.push_back(ImageOf(d));
+  }
+  Eigen::MatrixXd r(n, n);
+  // Rows have different lengths (lower triangle), so balance them dynamically.
+#pragma omp parallel for schedule(dynamic, 16)
+  for (std::ptrdiff_t m = 0; m < n; ++m) {
+    const Dipole& dm = array.dipoles[static_cast<std::size_t>(m)];
+    for (std::ptrdiff_t q = 0; q <= m; ++q) {
+      double v = KernelBetween(dm, array.dipoles[static_cast<std::size_t>(q)], k);
+      // R_to_images is symmetric (reflection preserves u.u' and the d terms), so
+      // one evaluation per pair suffices.
+      if (pec) v += KernelBetween(dm, images[static_cast<std::size_t>(q)], k);
+      r(m, q) = scale * v;
+      r(q, m) = scale * v;
+    }
+  }
+  return r;
+}
+
+double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a) {
+  if (resistance_ohm.rows() != currents_a.size() || resistance_ohm.cols() != currents_a.size()) {
+    std::ostringstream s;
+    s << "radiated power: resistance matrix is " << resistance_ohm.rows() << "x"
+      << resistance_ohm.cols() << " but there are " << currents_a.size() << " currents";
+    throw InvalidArgument(s.str());
+  }
+  // R is real symmetric, so I^H R I = a^T R a + b^T R b with I = a + j b.
+  const Eigen::VectorXd a = currents_a.real(), b = currents_a.imag();
+  return 0.5 * (a.dot(resistance_ohm * a) + b.dot(resistance_ohm * b));
+}
+
+void CheckRadiatedPower(double p) {
+  if (!std::isfinite(p)) {
+    throw InvalidArgument("currents: the radiated power overflows a double (found " +
+                          std::to_string(p) +
+                          " W); expected currents of a physical size (A peak)");
+  }
+  if (!(p > 0)) {
+    std::ostringstream m;
+    m << "currents: the array radiates " << p
+      << " W, so directivity is undefined; expected at least one non-zero current (and "
+         "currents that do not cancel exactly)";
+    throw InvalidArgument(m.str());
+  }
+}
+
+Eigen::VectorXd ActiveResistance(const Eigen::MatrixXd& resistance_ohm,
+                                 const Eigen::VectorXcd& currents_a) {
+  const Eigen::VectorXcd v = resistance_ohm.cast<Complex>() * currents_a;
+  Eigen::VectorXd out(currents_a.size());
+  for (Eigen::Index m = 0; m < currents_a.size(); ++m) {
+    out[m] = currents_a[m] == Complex(0.0) ? std::numeric_limits<double>::quiet_NaN()
+                                            : (v[m] / currents_a[m]).real();
+  }
+  return out;
+}
+
+}  // namespace lobecast

@@ -1,0 +1,49 @@
+// Reads a lobecast result file (schema version 1, CONVENTIONS §3) back into
+// engine types. Files from a newer schema version are refused with a message
+// saying so; datasets added by later versions of version 1 are ignored.
+#pragma once
+
+#include <cstdint>
+#include <string>
+#include <vector>
+
+#include "engine/pattern.h"
+#include "engine/types.h"
+#include "io/io_error.h"
+#include "io/hdf5/result_writer.h"
+
+namespace lobecast {
+
+struct StoredResult {
+  int format_version = 0;
+  std::string software_version;
+  std::string time_convention;
+  ResultMetadata metadata;  // name, description, input text and path, created
+  Array array;              // frequency, ground, dipoles with their currents
+  // grid, field, intensity, directivity, polarization, power, resistances; the
+  // summary when the file has a /summary group (has_summary).
+  PatternResult result;
+  bool has_summary = false;
+};
+
+// Throws IoError naming the path: not an HDF5 file, "not a lobecast result file",
+// "format_version 2 is newer than this lobecast (reads 1)", a missing dataset or
+// one of the wrong shape.
+StoredResult ReadResult(const std::string& path);
+
+// One dataset of a file, as stored (for inspection and tests).
+struct StoredDatasetInfo {
+  std::string path;                  // e.g. "/field/rE_theta"
+  std::vector<std::uint64_t> shape;  // empty for a scalar
+  // "float64", "int8", "string", "complex128" (the compound {r, i} of two
+  // little-endian float64 at offsets 0 and 8), or "other".
+  std::string type;
+  std::string units;  // the `units` attribute; empty when absent
+  bool chunked = false;
+  bool deflated = false;
+};
+
+// Every dataset in the file, sorted by path. Throws IoError.
+std::vector<StoredDatasetInfo> ListDatasets(const std::string& path);
+
+}  // namespace lobecast

@@ -1,0 +1,456 @@
+#include "io/hdf5/result_writer.h"
+
+#include <unistd.h>
+
+#include <fcntl.h>
+#include <algorithm>
+#include <cerrno>
+#include <chrono>
+#include <cstdio>
+#include <cstring>
+#include <ctime>
+#include <utility>
+
+#include "engine/error.h"
+#include "io/hdf5/hdf5_file.h"
+#include "io/output_file.h"
+#include "io/safety_note.h"
+#include "io/version.h"
+
+namespace lobecast {
+namespace {
+
+using hdf5::Handle;
+
+std::string TemporaryPathFor(const std::string& path) {
+  return path + ".tmp-" + std::to_string(static_cast<long>(::getpid()));
+}
+
+std::size_t ChunkRows(const ResultWriteOptions& options, std::size_t nt, std::size_t np) {
+  std::size_t rows = options.chunk_theta_rows;
+  if (rows == 0) rows = (64 * 1024 / sizeof(double)) / std::max<std::size_t>(np, 1);
+  return std::clamp<std::size_t>(rows, 1, std::max<std::size_t>(nt, 1));
+}
+
+// Eigen matrices are column-major; HDF5 datasets are row-major.
+std::vector<double> RowMajor(const Eigen::MatrixXd& m) {
+  std::vector<double> out(static_cast<std::size_t>(m.size()));
+  for (Eigen::Index i = 0; i < m.rows(); ++i) {
+    for (Eigen::Index j = 0; j < m.cols(); ++j) {
+      out[static_cast<std::size_t>(i * m.cols() + j)] = m(i, j);
+    }
+  }
+  return out;
+}
+
+void CheckSize(const char* what, std::size_t found, std::size_t expected) {
+  if (found != expected) {
+    throw InvalidArgument(std::string("result to write: ") + what + " has " +
+                          std::to_string(found) + " values, expected " + std::to_string(expected));
+  }
+}
+
+}  // namespace
+
+std::string Iso8601UtcNow() {
+  const std::time_t now = std::chrono::system_clock::to_time_t(std::chrono::system_clock::now());
+  std::tm utc{};
+  gmtime_r(&now, &utc);
+  char buffer[32];
+  std::strftime(buffer, sizeof buffer, "%Y-%m-%dT%H:%M:%SZ", &utc);
+  return buffer;
+}
+
+PatternRows RowsOf(const PatternResult& result, std::size_t first_row, std::size_t num_rows) {
+  const std::size_t np = result.grid.phi_deg.size();
+  const std::size_t offset = first_row * np;
+  PatternRows rows;
+  rows.num_rows = num_rows;
+  rows.e_theta = result.field.e_theta.data() + offset;
+  rows.e_phi = result.field.e_phi.data() + offset;
+  rows.intensity_w_sr = result.intensity_w_sr.data() + offset;
+  rows.directivity = result.directivity.data() + offset;
+  rows.axial_ratio_db = result.axial_ratio_db.data() + offset;
+  rows.tilt_deg = result.tilt_deg.data() + offset;
+  rows.sense = result.sense.data() + offset;
+  return rows;
+}
+
+struct PatternFileWriter::Impl {
+  std::string path;
+  std::string temp_path;
+  ResultMetadata meta;
+  ResultWriteOptions options;
+  std::size_t num_dipoles = 0;
+  std::size_t nt = 0;
+  std::size_t np = 0;
+  std::vector<bool> rows_written;
+  bool power_written = false;
+  bool finished = false;
+  bool dead = false;
+  hdf5::ErrorSilencer silencer;  // for the writer's lifetime
+  Handle file;
+  Handle complex_file_type;
+  Handle e_theta, e_phi, intensity, directivity, axial_ratio, tilt, sense;
+
+  void Hook(std::string_view what) const {
+    if (options.before_write) options.before_write(what);
+  }
+
+  void RemoveTemporary() noexcept {
+    e_theta.Reset(), e_phi.Reset(), intensity.Reset(), directivity.Reset();
+    axial_ratio.Reset(), tilt.Reset(), sense.Reset(), complex_file_type.Reset();
+    file.Reset();
+    std::remove(temp_path.c_str());
+  }
+
+  // Runs one step; on any failure removes the temporary file, marks the writer
+  // dead and rethrows (HDF5 errors name the target, not the temporary).
+  template <typename F>
+  void Step(F&& f) {
+    if (dead) throw IoError(path, "the result writer already failed or finished");
+    try {
+      f();
+    } catch (const IoError& e) {
+      dead = true;
+      RemoveTemporary();
+      if (e.path() == path) throw;
+      throw IoError(path, e.detail());
+    } catch (...) {
+      dead = true;
+      RemoveTemporary();
+      throw;
+    }
+  }
+
+  Handle Group(const std::string& group_path) {
+    if (hdf5::Exists(file, group_path)) return hdf5::OpenGroup(file, group_path);
+    std::size_t pos = 0;
+    while ((pos = group_path.find('/', pos + 1)) != std::string::npos) {
+      const std::string parent = group_path.substr(0, pos);
+      if (!hdf5::Exists(file, parent)) hdf5::CreateGroup(file, parent);
+    }
+    return hdf5::CreateGroup(file, group_path);
+  }
+
+  Handle Create2D(const std::string& name, hid_t type, std::string_view units) {
+    Hook(name);
+    hdf5::DatasetLayout layout;
+    layout.chunk_rows = ChunkRows(options, nt, np);
+    layout.deflate_level = options.deflate_level;
+    return hdf5::CreateDataset(file, name, type, {nt, np}, units, layout);
+  }
+
+  void WriteHeader(const Array& array, const AngularGrid& grid) {
+    const std::size_t n = array.size();
+    std::vector<double> position(3 * n), orientation(3 * n), effective_length(n), length(n);
+    std::vector<std::string> distribution(n);
+    std::vector<Complex> current(n);
+    for (std::size_t k = 0; k < n; ++k) {
+      const Dipole& d = array.dipoles[k];
+      for (int c = 0; c < 3; ++c) {
+        position[3 * k + c] = d.position_m[c];
+        orientation[3 * k + c] = d.orientation[c];
+      }
+      effective_length[k] = d.effective_length_m();
+      length[k] = d.length_m;
+      distribution[k] = std::string(ToString(d.distribution));
+      current[k] = d.current_a;
+    }
+    const auto N = static_cast<hsize_t>(n);
+
+    Hook("/array");
+    Handle g = hdf5::CreateGroup(file, "/array");
+    hdf5::WriteScalarAttribute(g, "frequency_hz", array.frequency_hz);
+    hdf5::WriteScalarAttribute(g, "wavelength_m", array.wavelength_m());
+    hdf5::WriteStringAttribute(g, "ground", ToString(array.ground));
+    if (!meta.name.empty()) hdf5::WriteStringAttribute(g, "name", meta.name);
+    if (!meta.description.empty()) hdf5::WriteStringAttribute(g, "description", meta.description);
+    Hook("/array/position");
+    hdf5::WriteDataset(g, "position", {N, 3}, position.data(), "m");
+    hdf5::WriteDataset(g, "orientation", {N, 3}, orientation.data(), "1");
+    hdf5::WriteDataset(g, "effective_length", {N}, effective_length.data(), "m");
+    hdf5::WriteDataset(g, "length_m", {N}, length.data(), "m");
+    hdf5::WriteStringDataset(g, "distribution", distribution, "1");
+    hdf5::WriteDataset(g, "current", {N}, current.data(), "A");
+
+    Hook("/grid");
+    Handle gg = hdf5::CreateGroup(file, "/grid");
+    hdf5::WriteDataset(gg, "theta_deg", {nt}, grid.theta_deg.data(), "deg");
+    hdf5::WriteDataset(gg, "phi_deg", {np}, grid.phi_deg.data(), "deg");
+
+    hdf5::CreateGroup(file, "/field");
+    hdf5::CreateGroup(file, "/pattern");
+    hdf5::CreateGroup(file, "/polarization");
+    e_theta = Create2D("/field/rE_theta", complex_file_type, "V");
+    e_phi = Create2D("/field/rE_phi", complex_file_type, "V");
+    intensity = Create2D("/pattern/intensity", H5T_IEEE_F64LE, "W/sr");
+    directivity = Create2D("/pattern/directivity", H5T_IEEE_F64LE, "1");
+    axial_ratio = Create2D("/polarization/axial_ratio_db", H5T_IEEE_F64LE, "dB");
+    tilt = Create2D("/polarization/tilt_deg", H5T_IEEE_F64LE, "deg");
+    sense = Create2D("/polarization/sense", H5T_STD_I8LE, "1");
+    hdf5::WriteStringAttribute(sense, "values",
+                               "+1 right-hand, -1 left-hand, 0 linear or no field "
+                               "(IEEE Std 145-2013)");
+  }
+};
+
+PatternFileWriter::PatternFileWriter(const std::string& path, const Array& array,
+                                     const AngularGrid& grid, const ResultMetadata& meta,
+                                     const ResultWriteOptions& options)
+    : impl_(std::make_unique<Impl>()) {
+  Impl& w = *impl_;
+  RequireReplaceable(path);  // the rename below must not replace a device
+  w.path = path;
+  w.temp_path = TemporaryPathFor(path);
+  w.meta = meta;
+  if (w.meta.created.empty()) w.meta.created = Iso8601UtcNow();
+  w.options = options;
+  w.num_dipoles = array.size();
+  w.nt = grid.theta_deg.size();
+  w.np = grid.phi_deg.size();
+  w.rows_written.assign(w.nt, false);
+  if (array.size() == 0) throw InvalidArgument("result to write: the array has no dipoles");
+  if (w.nt == 0 || w.np == 0) throw InvalidArgument("result to write: the grid is empty");
+
+  w.Step([&] {
+    w.Hook("create");
+    w.file = hdf5::CreateFile(w.temp_path);
+    w.complex_file_type = Handle(H5Tcreate(H5T_COMPOUND, 2 * sizeof(double)));
+    hdf5::Check(w.complex_file_type.get(), w.file, "building the complex type");
+    hdf5::Check(H5Tinsert(w.complex_file_type, "r", 0, H5T_IEEE_F64LE), w.file,
+                "building the complex type");
+    hdf5::Check(H5Tinsert(w.complex_file_type, "i", sizeof(double), H5T_IEEE_F64LE), w.file,
+                "building the complex type");
+    w.WriteHeader(array, grid);
+  });
+}
+
+PatternFileWriter::~PatternFileWriter() { Abandon(); }
+PatternFileWriter::PatternFileWriter(PatternFileWriter&&) noexcept = default;
+PatternFileWriter& PatternFileWriter::operator=(PatternFileWriter&& other) noexcept {
+  if (this != &other) {
+    Abandon();
+    impl_ = std::move(other.impl_);
+  }
+  return *this;
+}
+
+void PatternFileWriter::Abandon() noexcept {
+  if (impl_ && !impl_->finished) {
+    impl_->dead = true;
+    impl_->RemoveTemporary();
+  }
+}
+
+const std::string& PatternFileWriter::path() const { return impl_->path; }
+const std::string& PatternFileWriter::temporary_path() const { return impl_->temp_path; }
+
+void PatternFileWriter::WriteRows(std::size_t first_theta_row, const PatternRows& rows) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    if (first_theta_row + rows.num_rows > w.nt) {
+      throw InvalidArgument("result to write: theta rows " + std::to_string(first_theta_row) +
+                            ".." + std::to_string(first_theta_row + rows.num_rows - 1) +
+                            " exceed the grid's " + std::to_string(w.nt));
+    }
+    if (rows.num_rows == 0) return;
+    if (!rows.e_theta || !rows.e_phi || !rows.intensity_w_sr || !rows.directivity ||
+        !rows.axial_ratio_db || !rows.tilt_deg || !rows.sense) {
+      throw InvalidArgument("result to write: PatternRows has a null quantity");
+    }
+    const auto first = static_cast<hsize_t>(first_theta_row);
+    const auto count = static_cast<hsize_t>(rows.num_rows);
+    Handle complex_mem = hdf5::ComplexType();
+    w.Hook("/field/rE_theta");
+    hdf5::WriteRows(w.e_theta, complex_mem, first, count, rows.e_theta);
+    w.Hook("/field/rE_phi");
+    hdf5::WriteRows(w.e_phi, complex_mem, first, count, rows.e_phi);
+    w.Hook("/pattern/intensity");
+    hdf5::WriteRows(w.intensity, H5T_NATIVE_DOUBLE, first, count, rows.intensity_w_sr);
+    w.Hook("/pattern/directivity");
+    hdf5::WriteRows(w.directivity, H5T_NATIVE_DOUBLE, first, count, rows.directivity);
+    w.Hook("/polarization/axial_ratio_db");
+    hdf5::WriteRows(w.axial_ratio, H5T_NATIVE_DOUBLE, first, count, rows.axial_ratio_db);
+    w.Hook("/polarization/tilt_deg");
+    hdf5::WriteRows(w.tilt, H5T_NATIVE_DOUBLE, first, count, rows.tilt_deg);
+    w.Hook("/polarization/sense");
+    hdf5::WriteRows(w.sense, H5T_NATIVE_INT8, first, count, rows.sense);
+    std::fill_n(w.rows_written.begin() + static_cast<std::ptrdiff_t>(first_theta_row),
+                rows.num_rows, true);
+  });
+}
+
+void PatternFileWriter::WritePower(double radiated_power_w, const Eigen::MatrixXd& resistance_ohm,
+                                   const Eigen::VectorXd& active_resistance_ohm) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    const auto n = static_cast<std::size_t>(w.num_dipoles);
+    // An empty matrix means the power was streamed without it (large arrays):
+    // the dataset is then left out and the group says why.
+    const bool with_matrix = resistance_ohm.size() != 0;
+    if (with_matrix) {
+      CheckSize("resistance_ohm rows", static_cast<std::size_t>(resistance_ohm.rows()), n);
+      CheckSize("resistance_ohm columns", static_cast<std::size_t>(resistance_ohm.cols()), n);
+    }
+    CheckSize("active_resistance_ohm", static_cast<std::size_t>(active_resistance_ohm.size()), n);
+    w.Hook("/power");
+    Handle g = w.Group("/power");
+    hdf5::WriteScalarDataset(g, "radiated_w", radiated_power_w, "W");
+    if (with_matrix) {
+      const std::vector<double> r = RowMajor(resistance_ohm);
+      hdf5::WriteDataset(g, "resistance_ohm", {n, n}, r.data(), "ohm");
+    } else {
+      hdf5::WriteStringAttribute(g, "resistance_ohm_omitted",
+                                 "the N x N matrix was not stored for this array size; "
+                                 "power and active resistances were streamed without it "
+                                 "(lobecast compute --resistance-matrix stores it)");
+    }
+    hdf5::WriteDataset(g, "active_resistance_ohm", {n}, active_resistance_ohm.data(), "ohm");
+    w.power_written = true;
+  });
+}
+
+void PatternFileWriter::WriteSummary(const ComputeSummary& s) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    w.Hook("/summary");
+    Handle g = w.Group("/summary");
+    hdf5::WriteStringAttribute(g, "method", s.method);
+    hdf5::WriteStringAttribute(g, "method_requested", s.method_requested);
+    hdf5::WriteStringAttribute(g, "fast_transform", s.fast_transform);
+    hdf5::WriteStringAttribute(g, "power_method", s.power_method);
+    hdf5::WriteScalarAttribute(g, "field_error_bound_relative", s.field_error_bound_relative);
+    hdf5::WriteIntAttribute(g, "threads_used", s.threads_used);
+    hdf5::WriteIntAttribute(g, "num_dipoles", static_cast<std::int64_t>(s.num_dipoles));
+    hdf5::WriteIntAttribute(g, "num_sources", static_cast<std::int64_t>(s.num_sources));
+    hdf5::WriteIntAttribute(g, "num_directions", static_cast<std::int64_t>(s.num_directions));
+    hdf5::WriteScalarAttribute(g, "pairs", s.pairs);
+    hdf5::WriteScalarAttribute(g, "seconds_plan", s.seconds_plan);
+    hdf5::WriteScalarAttribute(g, "seconds_field", s.seconds_field);
+    hdf5::WriteScalarAttribute(g, "seconds_power", s.seconds_power);
+    hdf5::WriteScalarAttribute(g, "seconds_polarization", s.seconds_polarization);
+    hdf5::WriteScalarAttribute(g, "radiated_power_w", s.radiated_power_w);
+    hdf5::WriteScalarAttribute(g, "peak_directivity", s.peak_directivity);
+    hdf5::WriteScalarAttribute(g, "peak_theta_deg", s.peak_theta_deg);
+    hdf5::WriteScalarAttribute(g, "peak_phi_deg", s.peak_phi_deg);
+  });
+}
+
+void PatternFileWriter::WriteAttribute(const std::string& object_path, const std::string& name,
+                                       double value) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    w.Hook(object_path);
+    hdf5::WriteScalarAttribute(w.Group(object_path), name, value);
+  });
+}
+
+void PatternFileWriter::WriteIntAttribute(const std::string& object_path, const std::string& name,
+                                          std::int64_t value) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    w.Hook(object_path);
+    hdf5::WriteIntAttribute(w.Group(object_path), name, value);
+  });
+}
+
+void PatternFileWriter::WriteStringAttribute(const std::string& object_path,
+                                             const std::string& name, std::string_view value) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    w.Hook(object_path);
+    hdf5::WriteStringAttribute(w.Group(object_path), name, value);
+  });
+}
+
+void PatternFileWriter::WriteTable(const std::string& dataset_path,
+                                   const std::vector<std::size_t>& dims, const double* data,
+                                   std::string_view units) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    const std::size_t slash = dataset_path.rfind('/');
+    if (slash == std::string::npos || slash == 0 || slash + 1 == dataset_path.size()) {
+      throw InvalidArgument("result to write: table path '" + dataset_path +
+                            "' must be /group/name");
+    }
+    w.Hook(dataset_path);
+    Handle g = w.Group(dataset_path.substr(0, slash));
+    std::vector<hsize_t> h5dims(dims.begin(), dims.end());
+    hdf5::WriteDataset(g, dataset_path.substr(slash + 1), h5dims, data, units);
+  });
+}
+
+void PatternFileWriter::Finish() {
+  Impl& w = *impl_;
+  w.Step([&] {
+    const auto missing = std::find(w.rows_written.begin(), w.rows_written.end(), false);
+    if (missing != w.rows_written.end()) {
+      throw IoError(w.path, "theta row " + std::to_string(missing - w.rows_written.begin()) +
+                                " of " + std::to_string(w.nt) + " was never written");
+    }
+    if (!w.power_written) throw IoError(w.path, "the /power group was never written");
+
+    w.Hook("/");
+    Handle root = hdf5::OpenGroup(w.file, "/");
+    hdf5::WriteStringAttribute(root, "software_version", SoftwareVersion());
+    hdf5::WriteStringAttribute(root, "time_convention", "exp(+jwt)");
+    hdf5::WriteStringAttribute(root, "safety_note", kSafetyNote);
+    hdf5::WriteStringAttribute(root, "created", w.meta.created);
+    hdf5::WriteStringAttribute(root, "input", w.meta.input_text);
+    if (!w.meta.input_path.empty()) {
+      hdf5::WriteStringAttribute(root, "input_path", w.meta.input_path);
+    }
+    // Last: only a complete file says what it is.
+    hdf5::WriteIntAttribute(root, "format_version", kResultFormatVersion);
+    hdf5::WriteStringAttribute(root, "format", kResultFormat);
+    root.Reset();
+
+    w.e_theta.Reset(), w.e_phi.Reset(), w.intensity.Reset(), w.directivity.Reset();
+    w.axial_ratio.Reset(), w.tilt.Reset(), w.sense.Reset(), w.complex_file_type.Reset();
+    if (w.file.Close() < 0) hdf5::Fail(w.path, "closing the temporary file " + w.temp_path);
+
+    // Make the data durable before the name points at it.
+    const int fd = ::open(w.temp_path.c_str(), O_RDONLY);
+    if (fd < 0 || ::fsync(fd) != 0) {
+      const int err = errno;
+      if (fd >= 0) ::close(fd);
+      throw IoError(w.path, "syncing " + w.temp_path + ": " + std::strerror(err));
+    }
+    ::close(fd);
+
+    w.Hook("rename");
+    if (std::rename(w.temp_path.c_str(), w.path.c_str()) != 0) {
+      const int err = errno;
+      throw IoError(w.path, "renaming " + w.temp_path + " into place: " + std::strerror(err));
+    }
+    w.finished = true;
+    w.dead = true;
+  });
+}
+
+void WriteResult(const std::string& path, const Array& array, const PatternResult& result,
+                 const ResultMetadata& meta, const ResultWriteOptions& options) {
+  const std::size_t nt = result.grid.theta_deg.size();
+  const std::size_t np = result.grid.phi_deg.size();
+  const std::size_t m = nt * np;
+  CheckSize("field.e_theta", result.field.size(), m);
+  CheckSize("field.e_phi", static_cast<std::size_t>(result.field.e_phi.size()), m);
+  CheckSize("intensity_w_sr", static_cast<std::size_t>(result.intensity_w_sr.size()), m);
+  CheckSize("directivity", static_cast<std::size_t>(result.directivity.size()), m);
+  CheckSize("axial_ratio_db", static_cast<std::size_t>(result.axial_ratio_db.size()), m);
+  CheckSize("tilt_deg", static_cast<std::size_t>(result.tilt_deg.size()), m);
+  CheckSize("sense", result.sense.size(), m);
+
+  PatternFileWriter writer(path, array, result.grid, meta, options);
+  const std::size_t block = ChunkRows(options, nt, np);
+  for (std::size_t first = 0; first < nt; first += block) {
+    writer.WriteRows(first, RowsOf(result, first, std::min(block, nt - first)));
+  }
+  writer.WritePower(result.radiated_power_w, result.resistance_ohm, result.active_resistance_ohm);
+  writer.WriteSummary(result.summary);
+  if (options.before_finish) options.before_finish(writer);
+  writer.Finish();
+}
+
+}  // namespace lobecast

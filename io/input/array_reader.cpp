@@ -1,0 +1,501 @@
+#include "io/input/array_reader.h"
+
+#include <algorithm>
+#include <cmath>
+#include <complex>
+#include <filesystem>
+#include <initializer_list>
+#include <optional>
+#include <utility>
+#include <vector>
+
+#include <toml++/toml.h>
+
+#include "engine/error.h"
+#include "io/input/csv_dipoles.h"
+#include "io/input/text_file.h"
+#include "io/input/units.h"
+
+namespace lobecast {
+namespace {
+
+// Grids beyond this many directions are almost certainly a mistyped step; they would
+// need gigabytes before the first field value.
+constexpr double kMaxDirections = 1e8;
+
+std::string Quoted(std::string_view s) { return "\"" + std::string(s) + "\""; }
+
+std::string JoinList(std::initializer_list<std::string_view> names) {
+  std::string out;
+  for (std::string_view n : names) {
+    if (!out.empty()) out += ", ";
+    out += n;
+  }
+  return out;
+}
+
+// Edit distance counting a swap of neighbours as one edit (optimal string
+// alignment), for "did you mean" hints on unknown keys: "stpe" is one edit from "step".
+std::size_t EditDistance(std::string_view a, std::string_view b) {
+  std::vector<std::vector<std::size_t>> d(a.size() + 1, std::vector<std::size_t>(b.size() + 1));
+  for (std::size_t i = 0; i <= a.size(); ++i) d[i][0] = i;
+  for (std::size_t j = 0; j <= b.size(); ++j) d[0][j] = j;
+  for (std::size_t i = 1; i <= a.size(); ++i) {
+    for (std::size_t j = 1; j <= b.size(); ++j) {
+      d[i][j] = std::min(
+          {d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1)});
+      if (i > 1 && j > 1 && a[i - 1] == b[j - 2] && a[i - 2] == b[j - 1]) {
+        d[i][j] = std::min(d[i][j], d[i - 2][j - 2] + 1);
+      }
+    }
+  }
+  return d[a.size()][b.size()];
+}
+
+// What a node holds, for "found X".
+std::string Describe(const toml::node& n) {
+  switch (n.type()) {
+    case toml::node_type::string:
+      return "string " + Quoted(n.as_string()->get());
+    case toml::node_type::integer:
+      return "integer " + std::to_string(n.as_integer()->get());
+    case toml::node_type::floating_point:
+      return "float " + FormatNumber(n.as_floating_point()->get());
+    case toml::node_type::boolean:
+      return n.as_boolean()->get() ? "boolean true" : "boolean false";
+    case toml::node_type::array: {
+      const std::size_t size = n.as_array()->size();
+      return "an array of " + std::to_string(size) + (size == 1 ? " element" : " elements");
+    }
+    case toml::node_type::table:
+      return "a table";
+    case toml::node_type::date:
+      return "a date";
+    case toml::node_type::time:
+      return "a time";
+    case toml::node_type::date_time:
+      return "a date-time";
+    default:
+      return "nothing";
+  }
+}
+
+struct DipoleSite {
+  SourceLocation where;     // table header or CSV row
+  SourceLocation position;  // position value (TOML) or z cell (CSV)
+  std::string position_key;
+  SourceLocation length;
+  std::string length_key;
+};
+
+class Reader {
+ public:
+  Reader(std::string_view text, std::string path, std::string base_dir)
+      : text_(text), path_(std::move(path)), base_dir_(std::move(base_dir)) {}
+
+  ArrayDescription Read() {
+    ArrayDescription out;
+    out.source_path = path_;
+    out.source_text = std::string(text_);
+
+    toml::table root;
+    try {
+      root = toml::parse(text_, std::string_view(path_));
+    } catch (const toml::parse_error& e) {
+      throw InputError(At(e.source()), "TOML syntax error: " + std::string(e.description()));
+    }
+
+    CheckKeys(root, "",
+              {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
+               "dipole"});
+    if (const toml::node* n = root.get("name")) out.name = String(*n, "name");
+    if (const toml::node* n = root.get("description")) out.description = String(*n, "description");
+
+    ReadFrequency(root, out.array);
+    ReadGround(root, out.array);
+
+    LengthUnit unit = LengthUnit::kMetre;
+    if (const toml::node* n = root.get("length_unit")) {
+      const std::string s = String(*n, "length_unit");
+      const auto u = LengthUnitFromString(s);
+      if (!u)
+        throw InputError(At(*n), "length_unit", Quoted(s),
+                         "one of " + std::string(kLengthUnitList));
+      unit = *u;
+    }
+    out.length_unit = std::string(ToString(unit));
+    scale_ = MetresPer(unit, out.array.wavelength_m());
+
+    ReadGrid(root, out);
+
+    if (const toml::node* n = root.get("dipole")) ReadDipoleTables(*n, out);
+    if (const toml::node* n = root.get("dipoles_csv")) ReadCsv(*n, out);
+
+    if (out.array.dipoles.empty()) {
+      throw InputError(SourceLocation{path_, 1, 1}, "dipole", "no dipoles",
+                       "at least one [[dipole]] table or a dipoles_csv file with one row");
+    }
+    CheckDipoles(out);
+    bool any_current = false;
+    for (const Dipole& d : out.array.dipoles) any_current = any_current || d.current_a != 0.0;
+    if (!any_current) {
+      throw InputError(out.dipole_locations.front(), "dipole[*].current",
+                       "every magnitude is 0",
+                       "at least one non-zero current (with none, nothing radiates and "
+                       "directivity is undefined)");
+    }
+
+    try {
+      Validate(out.array);
+    } catch (const InvalidArgument& e) {
+      throw InputError(SourceLocation{path_, 1, 1}, std::string("array rejected: ") + e.what());
+    }
+    return out;
+  }
+
+ private:
+  SourceLocation At(const toml::source_region& r) const {
+    return SourceLocation{path_, static_cast<int>(r.begin.line), static_cast<int>(r.begin.column)};
+  }
+  SourceLocation At(const toml::node& n) const { return At(n.source()); }
+
+  static std::string Join(std::string_view prefix, std::string_view key) {
+    if (prefix.empty()) return std::string(key);
+    return std::string(prefix) + "." + std::string(key);
+  }
+
+  // Unknown keys are errors (a typo must never fall back to a default). The first
+  // unknown key in file order is reported.
+  void CheckKeys(const toml::table& t, std::string_view prefix,
+                 std::initializer_list<std::string_view> allowed) const {
+    const toml::key* worst = nullptr;
+    for (const auto& [k, v] : t) {
+      if (std::find(allowed.begin(), allowed.end(), k.str()) != allowed.end()) continue;
+      const auto before = [](const toml::source_position& a, const toml::source_position& b) {
+        return a.line != b.line ? a.line < b.line : a.column < b.column;
+      };
+      if (!worst || before(k.source().begin, worst->source().begin)) worst = &k;
+    }
+    if (!worst) return;
+    std::string expected = "one of " + JoinList(allowed);
+    std::string_view best;
+    std::size_t best_distance = 3;  // hint only for close matches
+    for (std::string_view a : allowed) {
+      const std::size_t d = EditDistance(worst->str(), a);
+      if (d < best_distance) {
+        best_distance = d;
+        best = a;
+      }
+    }
+    if (!best.empty()) expected += " (did you mean '" + std::string(best) + "'?)";
+    SourceLocation where = At(worst->source());
+    if (where.line == 0) where = At(*t.get(worst->str()));
+    throw InputError(where, Join(prefix, worst->str()), "unknown key", expected);
+  }
+
+  std::string String(const toml::node& n, const std::string& key) const {
+    if (!n.is_string()) throw InputError(At(n), key, Describe(n), "a string");
+    return n.as_string()->get();
+  }
+
+  // An integer or float; `what` completes "expected ..." for a wrong type.
+  double Number(const toml::node& n, const std::string& key,
+                std::string_view what = "a number") const {
+    if (n.is_integer()) return static_cast<double>(n.as_integer()->get());
+    if (n.is_floating_point()) {
+      const double v = n.as_floating_point()->get();
+      if (!std::isfinite(v)) throw InputError(At(n), key, Describe(n), "a finite number");
+      return v;
+    }
+    throw InputError(At(n), key, Describe(n), std::string(what));
+  }
+
+  // A number > 0: `type` completes "expected ..." for a wrong type, `what` names the
+  // quantity in "expected <what> > 0".
+  double Positive(const toml::node& n, const std::string& key, std::string_view type,
+                  std::string_view what) const {
+    const double v = Number(n, key, type);
+    if (!(v > 0.0)) throw InputError(At(n), key, FormatNumber(v), std::string(what) + " > 0");
+    return v;
+  }
+
+  Vec3 Vector3(const toml::node& n, const std::string& key, std::string_view what) const {
+    const std::string expected = "an array of 3 numbers " + std::string(what);
+    const toml::array* a = n.as_array();
+    if (!a || a->size() != 3) throw InputError(At(n), key, Describe(n), expected);
+    Vec3 v;
+    for (std::size_t i = 0; i < 3; ++i) {
+      v[static_cast<Eigen::Index>(i)] = Number(*a->get(i), key + "[" + std::to_string(i) + "]");
+    }
+    return v;
+  }
+
+  void ReadFrequency(const toml::table& root, Array& array) const {
+    const toml::node* n = root.get("frequency");
+    if (!n) {
+      throw InputError(
+          SourceLocation{path_, 1, 1}, "frequency", "no frequency key",
+          "frequency = <Hz> or \"<number> <unit>\" (unit " + std::string(kFrequencyUnitList) + ")");
+    }
+    double f = 0.0;
+    if (n->is_string()) {
+      const std::string s = n->as_string()->get();
+      const auto hz = FrequencyFromString(s);
+      if (!hz) {
+        throw InputError(At(*n), "frequency", Describe(*n),
+                         "a number followed by a unit, one of " + std::string(kFrequencyUnitList) +
+                             " (e.g. \"433.92 MHz\")");
+      }
+      f = *hz;
+      if (!std::isfinite(f))
+        throw InputError(At(*n), "frequency", Describe(*n), "a finite frequency");
+    } else {
+      f = Number(*n, "frequency", "a frequency in Hz or a string such as \"433.92 MHz\"");
+    }
+    if (!(f > 0.0)) {
+      throw InputError(At(*n), "frequency", n->is_string() ? Describe(*n) : FormatNumber(f) + " Hz",
+                       "a frequency > 0");
+    }
+    array.frequency_hz = f;
+  }
+
+  void ReadGround(const toml::table& root, Array& array) const {
+    const toml::node* n = root.get("ground");
+    if (!n) return;  // default: free space
+    const std::string s = String(*n, "ground");
+    const auto g = GroundFromString(s);
+    if (!g) throw InputError(At(*n), "ground", Quoted(s), "\"none\" or \"pec\"");
+    array.ground = *g;
+  }
+
+  AngleRange Range(const toml::node& n, const std::string& key, double max_deg,
+                   std::vector<std::string>& warnings) const {
+    const std::string bounds = "[0, " + FormatNumber(max_deg) + "] degrees";
+    auto in_bounds = [&](const toml::node& v, const std::string& k) {
+      const double x = Number(v, k, "an angle in degrees");
+      if (x < 0.0 || x > max_deg)
+        throw InputError(At(v), k, FormatNumber(x), "an angle in " + bounds);
+      return x;
+    };
+    AngleRange r;
+    if (n.is_number()) {
+      r.start_deg = r.stop_deg = in_bounds(n, key);
+      return r;
+    }
+    const toml::table* t = n.as_table();
+    if (!t) {
+      throw InputError(At(n), key, Describe(n),
+                       "{ start = <deg>, stop = <deg>, step = <deg> } or one angle in degrees");
+    }
+    CheckKeys(*t, key, {"start", "stop", "step"});
+    const toml::node* start = t->get("start");
+    const toml::node* stop = t->get("stop");
+    for (auto [node, name] : {std::pair{start, "start"}, std::pair{stop, "stop"}}) {
+      if (!node) {
+        throw InputError(
+            At(*t), Join(key, name), std::string("no ") + name + " key",
+            "{ start = <deg>, stop = <deg>, step = <deg> } (step optional, default 1)");
+      }
+    }
+    r.start_deg = in_bounds(*start, Join(key, "start"));
+    r.stop_deg = in_bounds(*stop, Join(key, "stop"));
+    if (r.stop_deg < r.start_deg) {
+      throw InputError(At(*stop), Join(key, "stop"), FormatNumber(r.stop_deg),
+                       "stop >= start (" + FormatNumber(r.start_deg) + ")");
+    }
+    if (const toml::node* step = t->get("step")) {
+      r.step_deg = Positive(*step, Join(key, "step"), "a number (degrees)", "a step");
+      if ((r.stop_deg - r.start_deg) / r.step_deg > kMaxDirections) {
+        throw InputError(At(*step), Join(key, "step"), FormatNumber(r.step_deg),
+                         "a step giving at most " + FormatNumber(kMaxDirections) + " angles");
+      }
+    }
+    // Same tolerance as AngleRange::Values (1e-9 of a step).
+    const double n_steps = (r.stop_deg - r.start_deg) / r.step_deg;
+    const double whole = std::floor(n_steps + 1e-9);
+    if (n_steps - whole > 1e-9) {
+      warnings.push_back(At(*stop).ToString() + ": warning: key '" + Join(key, "stop") + "': " +
+                         FormatNumber(r.stop_deg) + " is not start + n * step; the last angle is " +
+                         FormatNumber(r.start_deg + whole * r.step_deg));
+    }
+    return r;
+  }
+
+  void ReadGrid(const toml::table& root, ArrayDescription& out) const {
+    out.theta = AngleRange{0.0, 180.0, 1.0};
+    out.phi = AngleRange{0.0, 360.0, 1.0};
+    if (const toml::node* g = root.get("grid")) {
+      const toml::table* t = g->as_table();
+      if (!t) throw InputError(At(*g), "grid", Describe(*g), "a [grid] table");
+      CheckKeys(*t, "grid", {"theta", "phi"});
+      if (const toml::node* n = t->get("theta"))
+        out.theta = Range(*n, "grid.theta", 180.0, out.warnings);
+      if (const toml::node* n = t->get("phi")) out.phi = Range(*n, "grid.phi", 360.0, out.warnings);
+      auto count = [](const AngleRange& r) {
+        return std::floor((r.stop_deg - r.start_deg) / r.step_deg + 1e-9) + 1.0;
+      };
+      if (count(out.theta) * count(out.phi) > kMaxDirections) {
+        throw InputError(
+            At(*g), "grid", FormatNumber(count(out.theta) * count(out.phi)) + " directions",
+            "at most " + FormatNumber(kMaxDirections) + " directions (use a coarser step)");
+      }
+    }
+    out.grid = AngularGrid::FromRanges(out.theta, out.phi);
+  }
+
+  void ReadDipoleTables(const toml::node& n, ArrayDescription& out) {
+    const toml::array* a = n.as_array();
+    if (!a) throw InputError(At(n), "dipole", Describe(n), "an array of tables ([[dipole]])");
+    for (std::size_t i = 0; i < a->size(); ++i) {
+      const toml::node& e = *a->get(i);
+      const std::string key = "dipole[" + std::to_string(i) + "]";
+      const toml::table* t = e.as_table();
+      if (!t) throw InputError(At(e), key, Describe(e), "a table ([[dipole]])");
+      CheckKeys(*t, key, {"position", "orientation", "length", "distribution", "current"});
+      auto require = [&](std::string_view name, std::string_view example) -> const toml::node& {
+        const toml::node* v = t->get(name);
+        if (!v) {
+          throw InputError(At(*t), Join(key, name), "no " + std::string(name) + " key",
+                           std::string(name) + " = " + std::string(example));
+        }
+        return *v;
+      };
+
+      Dipole d;
+      DipoleSite site;
+      site.where = At(*t);
+      const toml::node& pos = require("position", "[x, y, z]");
+      d.position_m = Vector3(pos, Join(key, "position"), "[x, y, z]") * scale_;
+      site.position = At(pos);
+      site.position_key = Join(key, "position");
+
+      const toml::node& ori = require("orientation", "[ux, uy, uz]");
+      const Vec3 u = Vector3(ori, Join(key, "orientation"), "[ux, uy, uz]");
+      if (!(u.stableNorm() > 0.0)) {
+        throw InputError(At(ori), Join(key, "orientation"), "the zero vector [0, 0, 0]",
+                         "a non-zero vector along the current");
+      }
+      d.orientation = u / u.stableNorm();  // stableNorm: no overflow for huge components
+
+      const toml::node& len = require("length", "<length in " + out.length_unit + ">");
+      d.length_m = Positive(len, Join(key, "length"),
+                            "a number (the length in " + out.length_unit + ")", "a length") *
+                   scale_;
+      site.length = At(len);
+      site.length_key = Join(key, "length");
+
+      if (const toml::node* v = t->get("distribution")) {
+        const std::string s = String(*v, Join(key, "distribution"));
+        const auto dist = DistributionFromString(s);
+        if (!dist) {
+          throw InputError(At(*v), Join(key, "distribution"), Quoted(s),
+                           "\"uniform\" or \"triangular\"");
+        }
+        d.distribution = *dist;
+      }
+
+      d.current_a = Current(require("current", "{ magnitude = <A peak>, phase = <deg> }"),
+                            Join(key, "current"));
+      out.array.dipoles.push_back(d);
+      out.dipole_locations.push_back(site.where);
+      sites_.push_back(std::move(site));
+    }
+  }
+
+  Complex Current(const toml::node& n, const std::string& key) const {
+    const toml::table* t = n.as_table();
+    if (!t) throw InputError(At(n), key, Describe(n), "{ magnitude = <A peak>, phase = <deg> }");
+    CheckKeys(*t, key, {"magnitude", "phase"});
+    const toml::node* m = t->get("magnitude");
+    if (!m) {
+      throw InputError(At(*t), Join(key, "magnitude"), "no magnitude key",
+                       "{ magnitude = <A peak>, phase = <deg> } (phase optional, default 0)");
+    }
+    const double magnitude = Number(*m, Join(key, "magnitude"), "a current in A peak");
+    if (magnitude < 0.0) {
+      throw InputError(At(*m), Join(key, "magnitude"), FormatNumber(magnitude),
+                       "a magnitude >= 0 (A peak; reverse the sign with phase = 180)");
+    }
+    double phase_deg = 0.0;
+    if (const toml::node* p = t->get("phase"))
+      phase_deg = Number(*p, Join(key, "phase"), "a phase in degrees");
+    return std::polar(magnitude, phase_deg * kDegree);
+  }
+
+  void ReadCsv(const toml::node& n, ArrayDescription& out) {
+    const std::string name = String(n, "dipoles_csv");
+    std::filesystem::path p(name);
+    if (p.is_relative() && !base_dir_.empty()) p = std::filesystem::path(base_dir_) / p;
+    const std::string path = p.lexically_normal().string();
+    std::string why;
+    auto text = ReadTextFile(path, &why);
+    if (!text) {
+      throw InputError(At(n), "dipoles_csv", Quoted(name) + " (" + path + ": " + why + ")",
+                       "a readable CSV file, relative to the TOML file's directory");
+    }
+    const std::size_t first = out.array.dipoles.size();
+    std::vector<CsvDipole> rows = ParseCsvDipoles(*text, path, scale_, first);
+    for (std::size_t i = 0; i < rows.size(); ++i) {
+      const std::string key = "dipole[" + std::to_string(first + i) + "]";
+      out.array.dipoles.push_back(rows[i].dipole);
+      out.dipole_locations.push_back(rows[i].row);
+      sites_.push_back(DipoleSite{rows[i].row, rows[i].z_cell, key + ".z", rows[i].length_cell,
+                                  key + ".length"});
+    }
+    if (rows.empty()) {
+      out.warnings.push_back(SourceLocation{path, 1, 1}.ToString() +
+                             ": warning: key 'dipoles_csv': the file has no dipole rows");
+    }
+    out.csv_path = path;
+    out.csv_text = std::move(*text);
+  }
+
+  // Checks that need the whole array: lengths against the wavelength, the ground.
+  void CheckDipoles(ArrayDescription& out) const {
+    const double lambda = out.array.wavelength_m();
+    for (std::size_t i = 0; i < out.array.dipoles.size(); ++i) {
+      const Dipole& d = out.array.dipoles[i];
+      const DipoleSite& s = sites_[i];
+      const std::string found =
+          FormatApprox(d.length_m) + " m (" + FormatApprox(d.length_m / lambda, 4) + " wavelength)";
+      if (d.length_m > 0.5 * lambda) {
+        throw InputError(s.length, s.length_key, found,
+                         "a length <= lambda/2 = " + FormatApprox(0.5 * lambda) +
+                             " m; an elemental dipole model is meaningless beyond that");
+      }
+      if (d.length_m > 0.1 * lambda) {
+        out.warnings.push_back(s.length.ToString() + ": warning: key '" + s.length_key + "': " +
+                               found + " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) +
+                               " m; the short-dipole model holds for lengths well below lambda/10");
+      }
+      if (out.array.ground == Ground::kPec && !(d.position_m.z() > 0.0)) {
+        throw InputError(s.position, s.position_key, "z = " + FormatApprox(d.position_m.z()) + " m",
+                         "z > 0: with ground = \"pec\" every dipole must be above the plane z = 0");
+      }
+    }
+  }
+
+  std::string_view text_;
+  std::string path_;
+  std::string base_dir_;
+  double scale_ = 1.0;  // metres per length_unit
+  std::vector<DipoleSite> sites_;
+};
+
+}  // namespace
+
+ArrayDescription ParseArrayDescription(std::string_view text, const std::string& path_for_messages,
+                                       const std::string& base_dir_for_csv) {
+  return Reader(text, path_for_messages, base_dir_for_csv).Read();
+}
+
+ArrayDescription ReadArrayDescription(const std::string& path) {
+  std::string why;
+  const auto text = ReadTextFile(path, &why);
+  if (!text)
+    throw InputError(SourceLocation{path, 0, 0}, "cannot read the array description: " + why);
+  const std::string base = std::filesystem::path(path).parent_path().string();
+  return ParseArrayDescription(*text, path, base);
+}
+
+}  // namespace lobecast

@@ -1,0 +1,69 @@
+#include "io/plot/plot.h"
+
+#include <filesystem>
+#include <system_error>
+
+#include "io/input_error.h"
+#include "io/io_error.h"
+#include "io/plot/canvas.h"
+#include "io/plot/polarization_map.h"
+
+namespace lobecast::plot {
+
+PlotGeometry WritePlot(const StoredResult& r, const PlotOptions& o, const std::string& path) {
+  std::string why;
+  if (!o.IsValid(&why)) throw InputError(SourceLocation{"plot options"}, why);
+  if (r.result.grid.size() == 0)
+    throw InputError(SourceLocation{path}, "the result's grid is empty");
+  Canvas canvas(path, o.size);
+  PlotGeometry g;
+  g.kind = o.kind;
+  switch (o.kind) {
+    case PlotKind::kPolar:
+      g.polar = DrawPolar(canvas, r, o);
+      break;
+    case PlotKind::kCartesian:
+      g.cartesian = DrawCartesian(canvas, r, o);
+      break;
+    case PlotKind::kMap:
+      g.map = DrawMap(canvas, r, o);
+      break;
+    case PlotKind::kPolarization:
+      g.map = DrawPolarizationMap(canvas, r, o);
+      break;
+  }
+  canvas.Finish();
+  return g;
+}
+
+std::vector<std::string> WriteStandardPlots(const StoredResult& r, const std::string& dir,
+                                            const std::string& stem,
+                                            std::vector<std::string>* skipped) {
+  std::error_code ec;
+  std::filesystem::create_directories(dir, ec);
+  if (ec) throw IoError(dir, "cannot create the plot folder: " + ec.message());
+  std::vector<std::string> written;
+  for (double phi : {0.0, 90.0}) {
+    PlotOptions o;
+    o.kind = PlotKind::kPolar;
+    o.cut.plane = CutPlane::kPhiConstant;
+    o.cut.value_deg = phi;
+    const std::string path =
+        (std::filesystem::path(dir) / (stem + "-polar-" + o.cut.ShortName() + ".png")).string();
+    try {
+      WritePlot(r, o, path);
+      written.push_back(path);
+    } catch (const InputError& e) {
+      if (!skipped) throw;
+      skipped->push_back(path + ": " + e.what());
+    }
+  }
+  PlotOptions o;
+  o.kind = PlotKind::kMap;
+  const std::string path = (std::filesystem::path(dir) / (stem + "-map.png")).string();
+  WritePlot(r, o, path);
+  written.push_back(path);
+  return written;
+}
+
+}  // namespace lobecast::plot

@@ -1,0 +1,125 @@
+#include "io/plot/quantity.h"
+
+#include <cmath>
+#include <limits>
+
+#include "engine/analysis/pattern_analysis.h"
+#include "engine/text_case.h"
+
+namespace lobecast::plot {
+
+std::string_view ToString(Quantity q) {
+  switch (q) {
+    case Quantity::kDirectivity:
+      return "directivity";
+    case Quantity::kCo:
+      return "co";
+    case Quantity::kCross:
+      return "cross";
+    case Quantity::kTheta:
+      return "theta";
+    case Quantity::kPhi:
+      return "phi";
+  }
+  return "?";
+}
+
+std::optional<Quantity> QuantityFromString(std::string_view s) {
+  const std::string l = Lower(s);
+  for (Quantity q :
+       {Quantity::kDirectivity, Quantity::kCo, Quantity::kCross, Quantity::kTheta, Quantity::kPhi})
+    if (l == ToString(q)) return q;
+  return std::nullopt;
+}
+
+std::optional<Quantity> CompanionOf(Quantity q) {
+  switch (q) {
+    case Quantity::kCo:
+      return Quantity::kCross;
+    case Quantity::kCross:
+      return Quantity::kCo;
+    case Quantity::kTheta:
+      return Quantity::kPhi;
+    case Quantity::kPhi:
+      return Quantity::kTheta;
+    case Quantity::kDirectivity:
+      break;
+  }
+  return std::nullopt;
+}
+
+std::optional<ReferenceChoice> ReferenceChoiceFromString(std::string_view s) {
+  if (Lower(s) == "auto") return ReferenceChoice{};
+  const auto ref = PolarizationReferenceFromString(s);
+  if (!ref) return std::nullopt;
+  return ReferenceChoice{false, *ref};
+}
+
+double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, PolarizationReference ref) {
+  const PatternResult& p = r.result;
+  const double d = p.directivity[static_cast<Eigen::Index>(k)];
+  if (q == Quantity::kDirectivity) return d;
+  const Complex et = p.field.e_theta[static_cast<Eigen::Index>(k)];
+  const Complex ep = p.field.e_phi[static_cast<Eigen::Index>(k)];
+  const double total = std::norm(et) + std::norm(ep);
+  if (!(total > 0)) return 0.0;
+  double part = 0;
+  if (q == Quantity::kTheta) {
+    part = std::norm(et);
+  } else if (q == Quantity::kPhi) {
+    part = std::norm(ep);
+  } else {
+    const std::size_t np = p.grid.phi_deg.size();
+    const double phi_rad = p.grid.phi_deg[k % np] * kPi / 180.0;
+    const CoCross cc = CoCrossOf(et, ep, phi_rad, ref);
+    part = std::norm(q == Quantity::kCo ? cc.co : cc.cross);
+  }
+  return d * part / total;
+}
+
+std::vector<double> QuantityOnGrid(const StoredResult& r, Quantity q, PolarizationReference ref) {
+  std::vector<double> v(r.result.grid.size());
+  for (std::size_t k = 0; k < v.size(); ++k) v[k] = QuantityAt(r, k, q, ref);
+  return v;
+}
+
+PolarizationReference ResolveReference(const StoredResult& r, const ReferenceChoice& choice) {
+  return choice.automatic ? AutoReference(r.result) : choice.fixed;
+}
+
+std::string QuantityLabel(Quantity q, PolarizationReference ref) {
+  std::string ref_text;
+  switch (ref) {
+    case PolarizationReference::kLinearX:
+      ref_text = "Ludwig-3, x reference";
+      break;
+    case PolarizationReference::kLinearY:
+      ref_text = "Ludwig-3, y reference";
+      break;
+    case PolarizationReference::kRightCircular:
+      ref_text = "RHCP reference";
+      break;
+    case PolarizationReference::kLeftCircular:
+      ref_text = "LHCP reference";
+      break;
+  }
+  switch (q) {
+    case Quantity::kDirectivity:
+      return "directivity";
+    case Quantity::kCo:
+      return "co-pol (" + ref_text + ")";
+    case Quantity::kCross:
+      return "cross-pol (" + ref_text + ")";
+    case Quantity::kTheta:
+      return "E_theta part";
+    case Quantity::kPhi:
+      return "E_phi part";
+  }
+  return "?";
+}
+
+double ToDb(double linear) {
+  return linear > 0 ? 10.0 * std::log10(linear) : -std::numeric_limits<double>::infinity();
+}
+
+}  // namespace lobecast::plot

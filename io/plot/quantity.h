@@ -1,0 +1,53 @@
+// What a plot shows: the quantity (total directivity, or the share of it in one
+// polarization component, "partial directivity") and the polarization reference
+// for co/cross. Values are linear (not dB); the plots convert.
+//
+// Partial directivity of a component E_c: D_c = D |E_c|^2 / (|E_theta|^2 +
+// |E_phi|^2), so the parts of an orthogonal pair add up to D (IEEE Std 145-2013,
+// "partial directivity"). Co and cross are Ludwig's third definition for a linear
+// x or y reference, or the two circular hands (engine/polarization.h).
+#pragma once
+
+#include <cstddef>
+#include <optional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+#include "engine/polarization.h"
+#include "io/hdf5/result_reader.h"
+
+namespace lobecast::plot {
+
+enum class Quantity { kDirectivity, kCo, kCross, kTheta, kPhi };
+std::string_view ToString(Quantity q);  // "directivity", "co", "cross", "theta", "phi"
+// Case-insensitive; std::nullopt for an unknown name.
+std::optional<Quantity> QuantityFromString(std::string_view s);
+// The component a trace is drawn against: co <-> cross, theta <-> phi;
+// directivity has none.
+std::optional<Quantity> CompanionOf(Quantity q);
+
+// "auto" or a fixed reference.
+struct ReferenceChoice {
+  bool automatic = true;
+  PolarizationReference fixed = PolarizationReference::kLinearX;
+};
+// "auto", "x", "y", "rhcp", "lhcp" (case-insensitive).
+std::optional<ReferenceChoice> ReferenceChoiceFromString(std::string_view s);
+
+// auto: of x, y, rhcp and lhcp, the reference whose co component is largest at
+// the grid's directivity peak (ties go in that order).
+PolarizationReference ResolveReference(const StoredResult& r, const ReferenceChoice& choice);
+
+// Human-readable label, e.g. "co-pol (Ludwig-3, x reference)", "E_theta part".
+std::string QuantityLabel(Quantity q, PolarizationReference ref);
+
+// The quantity at flattened grid index k (theta-major), linear.
+double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, PolarizationReference ref);
+// The quantity over the whole grid, linear, theta-major.
+std::vector<double> QuantityOnGrid(const StoredResult& r, Quantity q, PolarizationReference ref);
+
+// 10 log10(v); -inf for v <= 0.
+double ToDb(double linear);
+
+}  // namespace lobecast::plot

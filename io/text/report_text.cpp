@@ -1,0 +1,325 @@
+#include "io/text/report_text.h"
+
+#include <cmath>
+#include <cstdio>
+#include <sstream>
+#include <string>
+
+#include "io/text/summary_text.h"
+#include "io/text/text_format.h"
+#include "engine/constants.h"
+#include "engine/polarization.h"
+#include "io/text/json_writer.h"
+#include "io/safety_note.h"
+
+namespace lobecast::text {
+namespace {
+
+// dB with two decimals; "inf", "-inf"; "n/a" for NaN.
+std::string Db(double db) {
+  if (std::isnan(db)) return "n/a";
+  if (std::isinf(db)) return db > 0 ? "inf" : "-inf";
+  return Printf("%.2f", db);
+}
+
+std::string Angle(double deg) { return std::isfinite(deg) ? Printf("%.4f", deg) : "n/a"; }
+
+std::string Direction(const DirectionDeg& d) {
+  return "theta " + Angle(d.theta_deg) + " deg, phi " + Angle(d.phi_deg) + " deg";
+}
+
+std::string HalfPower(const BeamCut& c) {
+  if (!c.half_power_found) return "none (the plane never falls to half power)";
+  return Angle(c.half_power_width_deg) + " deg  (offsets " + Angle(c.half_power_lower_deg) +
+         " .. " + Angle(c.half_power_upper_deg) + " deg)";
+}
+
+std::string FirstNull(const BeamCut& c) {
+  if (!c.first_nulls_found) {
+    return c.clipped_by_ground ? "none (the beam reaches the ground plane)" : "none found";
+  }
+  return Angle(c.first_null_width_deg) + " deg  (offsets " + Angle(c.first_null_lower_deg) +
+         " .. " + Angle(c.first_null_upper_deg) + " deg)" +
+         (c.clipped_by_ground ? ", clipped by the ground plane" : "");
+}
+
+constexpr double kSphereSr = 4.0 * kPi;
+
+void Row(std::ostringstream& s, const char* label, const std::string& value) {
+  s << Printf("  %-30s ", label) << value << "\n";
+}
+
+}  // namespace
+
+std::string AnalysisBrief(const PatternAnalysis& a) {
+  std::ostringstream s;
+  auto width = [](const BeamCut& c) {
+    return c.half_power_found ? Angle(c.half_power_width_deg) + " deg" : std::string("none");
+  };
+  s << "beam         D = " << Db(a.peak.directivity_dbi) << " dBi at " << Direction(a.peak.direction)
+    << " (refined); HPBW " << width(a.elevation_cut) << " (elevation plane), "
+    << width(a.orthogonal_cut) << " (orthogonal plane)\n";
+  if (a.highest_side_lobe) {
+    s << "side lobe    highest " << Db(a.highest_side_lobe->level_db) << " dB re peak at "
+      << Direction(a.highest_side_lobe->direction) << "\n";
+  } else {
+    s << "side lobe    none\n";
+  }
+  const PolarizationPurity& p = a.polarization;
+  s << "purity       XPD at peak " << Db(p.xpd_at_peak_db) << " dB (reference "
+    << ReferenceName(p.reference) << "), axial ratio " << Db(p.axial_ratio_at_peak_db)
+    << " dB\n";
+  return s.str();
+}
+
+std::string ReportText(const ReportContext& c, const PatternAnalysis& a,
+                       const AnalysisOptions& o) {
+  std::ostringstream s;
+  s << "lobecast report: " << c.result_path << "\n";
+  s << "array   " << (c.array_name.empty() ? "(unnamed)" : "\"" + c.array_name + "\"") << ", "
+    << c.num_dipoles << " dipole" << (c.num_dipoles == 1 ? "" : "s") << ", "
+    << FormatFrequency(c.frequency_hz) << ", ground " << ToString(c.ground) << "\n";
+  s << "source  "
+    << (c.recomputed ? "recomputed now from the stored array and field"
+                     : "stored by compute in /summary/analysis")
+    << Printf("; %zu exact field evaluations, %.3f s\n", a.field_evaluations, a.seconds);
+  s << "\nAngles in deg; levels in dB relative to the peak directivity unless marked dBi.\n"
+       "Elevation plane: the great circle through the peak and the z axis (constant phi).\n"
+       "Orthogonal plane: the great circle through the peak perpendicular to it.\n"
+       "Offsets: signed angles from the peak along a plane, + toward theta_hat (elevation)\n"
+       "or phi_hat (orthogonal). HPBW between the half-power points, FNBW between the first\n"
+       "minima beyond them; F/B = peak over the exactly opposite direction.\n";
+
+  s << "\nMain beam\n";
+  Row(s, "peak directivity (dBi)",
+      Db(a.peak.directivity_dbi) + Printf(" dBi (%.6g)", a.peak.directivity) + " at " +
+          Direction(a.peak.direction) + (a.peak.refined ? "" : " (search did not converge)"));
+  Row(s, "grid maximum (dBi)",
+      Db(10.0 * std::log10(a.peak.grid_directivity)) + " dBi at " +
+          Direction(a.peak.grid_direction));
+  Row(s, "HPBW elevation plane (deg)", HalfPower(a.elevation_cut));
+  Row(s, "HPBW orthogonal plane (deg)", HalfPower(a.orthogonal_cut));
+  Row(s, "FNBW elevation plane (deg)", FirstNull(a.elevation_cut));
+  Row(s, "FNBW orthogonal plane (deg)", FirstNull(a.orthogonal_cut));
+  Row(s, "front-to-back (dB)",
+      Db(a.front_to_back.ratio_db) + " dB toward " + Direction(a.front_to_back.back_direction));
+  Row(s, "F/B at the same theta (dB)",
+      Db(a.front_to_back.same_elevation_ratio_db) + " dB toward " +
+          Direction(a.front_to_back.same_elevation_back_direction));
+  for (const Lobe& l : a.major_lobes) {
+    Row(s, "another major lobe (dB)",
+        Db(l.level_db) + " dB (" + Db(l.directivity_dbi) + " dBi) at " + Direction(l.direction));
+  }
+
+  s << "\nSide lobes\n";
+  if (a.highest_side_lobe) {
+    const Lobe& l = *a.highest_side_lobe;
+    Row(s, "highest side lobe (dB re peak)",
+        Db(l.level_db) + " dB (" + Db(l.directivity_dbi) + " dBi) at " + Direction(l.direction));
+  } else {
+    Row(s, "highest side lobe (dB re peak)", "none");
+  }
+  s << "  " << a.side_lobes.size() << " side lobe" << (a.side_lobes.size() == 1 ? "" : "s")
+    << " at or above " << Db(o.side_lobe_threshold_db) << " dB"
+    << (a.side_lobes_truncated ? " (list truncated)" : "") << "\n";
+  if (!a.side_lobes.empty()) {
+    s << "      #   theta (deg)     phi (deg)   level (dB)      D (dBi)\n";
+    for (std::size_t i = 0; i < a.side_lobes.size(); ++i) {
+      const Lobe& l = a.side_lobes[i];
+      s << Printf("  %5zu  %12s  %12s  %11s  %11s\n", i, Angle(l.direction.theta_deg).c_str(),
+                  Angle(l.direction.phi_deg).c_str(), Db(l.level_db).c_str(),
+                  Db(l.directivity_dbi).c_str());
+    }
+  }
+
+  s << "\nNulls (" << ToString(o.null_field) << " field below " << Db(o.null_threshold_db)
+    << " dB re peak; depth -inf = exact null)\n";
+  s << "  " << a.nulls.size() << " null" << (a.nulls.size() == 1 ? "" : "s")
+    << (a.nulls_truncated ? " (list truncated)" : "") << "\n";
+  if (!a.nulls.empty()) {
+    s << "      #   theta (deg)     phi (deg)   depth (dB)\n";
+    for (std::size_t i = 0; i < a.nulls.size(); ++i) {
+      const Null& n = a.nulls[i];
+      s << Printf("  %5zu  %12s  %12s  %11s%s\n", i, Angle(n.direction.theta_deg).c_str(),
+                  Angle(n.direction.phi_deg).c_str(), Db(n.level_db).c_str(),
+                  n.exact ? "  exact" : "");
+    }
+  }
+
+  if (!a.protected_directions.empty()) {
+    s << "\nProtected directions (exact field; co/cross for reference "
+      << ReferenceName(o.reference) << ")\n";
+    s << "      #   theta (deg)     phi (deg)      D (dBi)   level (dB)     co (dBi)  cross (dBi)\n";
+    for (std::size_t i = 0; i < a.protected_directions.size(); ++i) {
+      const ProtectedDirectionField& f = a.protected_directions[i];
+      s << Printf("  %5zu  %12s  %12s  %11s  %11s  %11s  %11s%s\n", i,
+                  Angle(f.direction.theta_deg).c_str(), Angle(f.direction.phi_deg).c_str(),
+                  Db(f.directivity_dbi).c_str(), Db(f.level_db).c_str(),
+                  Db(f.co_polar_dbi).c_str(), Db(f.cross_polar_dbi).c_str(),
+                  f.no_field ? "  below the ground plane" : "");
+    }
+  }
+
+  const PolarizationPurity& p = a.polarization;
+  s << "\nPolarization (reference " << ReferenceName(p.reference) << ")\n";
+  Row(s, "co-polar at peak (dBi)", Db(p.co_polar_dbi_at_peak) + " dBi");
+  Row(s, "cross-polar at peak (dBi)", Db(p.cross_polar_dbi_at_peak) + " dBi");
+  Row(s, "XPD at peak (dB)", Db(p.xpd_at_peak_db) + " dB");
+  Row(s, "worst XPD in -3 dB beam (dB)",
+      Db(p.worst_xpd_in_beam_db) + " dB at " + Direction(p.worst_xpd_direction));
+  Row(s, "axial ratio at peak (dB)",
+      Db(p.axial_ratio_at_peak_db) + " dB, " + SenseName(p.sense_at_peak) + ", tilt " +
+          Angle(p.tilt_at_peak_deg) + " deg");
+  const std::string ar_label = "solid angle AR <= " + Db(p.axial_ratio_limit_db) + " dB (sr)";
+  Row(s, ar_label.c_str(),
+      Printf("%.6g sr (%.3g %% of the sphere)", p.axial_ratio_solid_angle_sr,
+             100.0 * p.axial_ratio_solid_angle_sr / kSphereSr));
+  return s.str();
+}
+
+std::string ReportJson(const ReportContext& c, const PatternAnalysis& a,
+                       const AnalysisOptions& o) {
+  JsonWriter j;
+  auto direction = [&j](std::string_view key, const DirectionDeg& d) {
+    j.Key(key);
+    j.BeginObject();
+    j.Member("theta_deg", d.theta_deg);
+    j.Member("phi_deg", d.phi_deg);
+    j.EndObject();
+  };
+  auto lobe = [&](const Lobe& l) {
+    j.BeginObject();
+    direction("direction", l.direction);
+    j.Member("directivity", l.directivity);
+    j.Member("directivity_dbi", l.directivity_dbi);
+    j.Member("level_db", l.level_db);
+    j.EndObject();
+  };
+  auto cut = [&](std::string_view key, const BeamCut& b) {
+    j.Key(key);
+    j.BeginObject();
+    j.MemberBool("half_power_found", b.half_power_found);
+    j.Member("half_power_width_deg", b.half_power_width_deg);
+    j.Member("half_power_lower_deg", b.half_power_lower_deg);
+    j.Member("half_power_upper_deg", b.half_power_upper_deg);
+    j.MemberBool("first_nulls_found", b.first_nulls_found);
+    j.Member("first_null_width_deg", b.first_null_width_deg);
+    j.Member("first_null_lower_deg", b.first_null_lower_deg);
+    j.Member("first_null_upper_deg", b.first_null_upper_deg);
+    j.MemberBool("clipped_by_ground", b.clipped_by_ground);
+    j.EndObject();
+  };
+
+  j.BeginObject();
+  j.Member("format", "lobecast.report");
+  j.MemberInt("format_version", 1);
+  j.Member("result_path", c.result_path);
+  j.Member("array_name", c.array_name);
+  j.Member("frequency_hz", c.frequency_hz);
+  j.Member("ground", ToString(c.ground));
+  j.MemberInt("num_dipoles", static_cast<long long>(c.num_dipoles));
+  j.Member("source", c.recomputed ? "recomputed" : "stored");
+  j.Member("null_means", "an infinite or undefined value; see the flags beside it");
+  j.Key("options");
+  j.BeginObject();
+  j.Member("reference", ToString(o.reference));
+  j.Member("null_field", ToString(o.null_field));
+  j.Member("null_threshold_db", o.null_threshold_db);
+  j.Member("side_lobe_threshold_db", o.side_lobe_threshold_db);
+  j.Member("axial_ratio_limit_db", o.axial_ratio_limit_db);
+  j.EndObject();
+
+  j.Key("peak");
+  j.BeginObject();
+  direction("direction", a.peak.direction);
+  j.Member("directivity", a.peak.directivity);
+  j.Member("directivity_dbi", a.peak.directivity_dbi);
+  direction("grid_direction", a.peak.grid_direction);
+  j.Member("grid_directivity", a.peak.grid_directivity);
+  j.MemberBool("refined", a.peak.refined);
+  j.EndObject();
+  cut("elevation_plane", a.elevation_cut);
+  cut("orthogonal_plane", a.orthogonal_cut);
+
+  j.Key("front_to_back");
+  j.BeginObject();
+  j.Member("ratio_db", a.front_to_back.ratio_db);
+  j.MemberBool("ratio_infinite", std::isinf(a.front_to_back.ratio_db));
+  direction("back_direction", a.front_to_back.back_direction);
+  j.Member("same_elevation_ratio_db", a.front_to_back.same_elevation_ratio_db);
+  j.MemberBool("same_elevation_ratio_infinite",
+               std::isinf(a.front_to_back.same_elevation_ratio_db));
+  direction("same_elevation_back_direction", a.front_to_back.same_elevation_back_direction);
+  j.EndObject();
+
+  j.Key("major_lobes");
+  j.BeginArray();
+  for (const Lobe& l : a.major_lobes) lobe(l);
+  j.EndArray();
+  j.Key("highest_side_lobe");
+  if (a.highest_side_lobe) {
+    lobe(*a.highest_side_lobe);
+  } else {
+    j.Null();
+  }
+  j.Key("side_lobes");
+  j.BeginArray();
+  for (const Lobe& l : a.side_lobes) lobe(l);
+  j.EndArray();
+  j.MemberBool("side_lobes_truncated", a.side_lobes_truncated);
+
+  j.Key("nulls");
+  j.BeginArray();
+  for (const Null& n : a.nulls) {
+    j.BeginObject();
+    direction("direction", n.direction);
+    j.Member("directivity", n.directivity);
+    j.Member("level_db", n.level_db);
+    j.MemberBool("exact", n.exact);
+    j.EndObject();
+  }
+  j.EndArray();
+  j.MemberBool("nulls_truncated", a.nulls_truncated);
+
+  j.Key("protected_directions");
+  j.BeginArray();
+  for (const ProtectedDirectionField& f : a.protected_directions) {
+    j.BeginObject();
+    direction("direction", f.direction);
+    j.Member("directivity", f.directivity);
+    j.Member("directivity_dbi", f.directivity_dbi);
+    j.Member("level_db", f.level_db);
+    j.Member("co_polar_dbi", f.co_polar_dbi);
+    j.Member("cross_polar_dbi", f.cross_polar_dbi);
+    j.MemberBool("no_field", f.no_field);
+    j.EndObject();
+  }
+  j.EndArray();
+
+  const PolarizationPurity& p = a.polarization;
+  j.Key("polarization");
+  j.BeginObject();
+  j.Member("reference", ToString(p.reference));
+  j.Member("co_polar_dbi_at_peak", p.co_polar_dbi_at_peak);
+  j.Member("cross_polar_dbi_at_peak", p.cross_polar_dbi_at_peak);
+  j.Member("xpd_at_peak_db", p.xpd_at_peak_db);
+  j.MemberBool("xpd_at_peak_infinite", std::isinf(p.xpd_at_peak_db));
+  j.Member("worst_xpd_in_beam_db", p.worst_xpd_in_beam_db);
+  j.MemberBool("worst_xpd_in_beam_infinite", std::isinf(p.worst_xpd_in_beam_db));
+  direction("worst_xpd_direction", p.worst_xpd_direction);
+  j.Member("axial_ratio_at_peak_db", p.axial_ratio_at_peak_db);
+  j.MemberBool("axial_ratio_at_peak_infinite", std::isinf(p.axial_ratio_at_peak_db));
+  j.Member("tilt_at_peak_deg", p.tilt_at_peak_deg);
+  j.MemberInt("sense_at_peak", p.sense_at_peak);
+  j.Member("axial_ratio_limit_db", p.axial_ratio_limit_db);
+  j.Member("axial_ratio_solid_angle_sr", p.axial_ratio_solid_angle_sr);
+  j.EndObject();
+
+  j.MemberInt("field_evaluations", static_cast<long long>(a.field_evaluations));
+  j.Member("safety_note", kSafetyNote);
+  j.Member("seconds", a.seconds);
+  j.EndObject();
+  return j.text();
+}
+
+}  // namespace lobecast::text

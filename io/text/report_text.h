@@ -1,0 +1,42 @@
+// What `report` prints (a table for people, or JSON for scripts) and the brief
+// analysis lines `compute` adds to its summary. Units on every number.
+//
+// Definitions used in the report (see engine/analysis/analysis_types.h):
+//   elevation plane   the great circle through the peak and the z axis (constant phi)
+//   orthogonal plane  the great circle through the peak perpendicular to it
+//   offsets along a plane are signed angles from the peak (deg), positive toward
+//   theta_hat (elevation plane) or phi_hat (orthogonal plane) of the peak
+//   HPBW  between the half-power (-3.01 dB) points of a plane
+//   FNBW  between the first minima beyond the half-power points
+//   F/B   peak directivity over that in the exactly opposite direction
+#pragma once
+
+#include <cstddef>
+#include <string>
+
+#include "engine/analysis/analysis_types.h"
+#include "engine/types.h"
+
+namespace lobecast::text {
+
+struct ReportContext {
+  std::string result_path;
+  std::string array_name;
+  double frequency_hz = 0.0;
+  Ground ground = Ground::kNone;
+  std::size_t num_dipoles = 0;
+  bool recomputed = false;  // false: read from the file's /summary/analysis
+};
+
+// Three lines for `compute`: beamwidths, highest side lobe, XPD and AR at the peak.
+std::string AnalysisBrief(const PatternAnalysis& analysis);
+
+std::string ReportText(const ReportContext& context, const PatternAnalysis& analysis,
+                       const AnalysisOptions& options);
+
+// One JSON object; non-finite numbers are null (an infinite F/B or XPD, an exact
+// null's depth, an undefined angle), with flags saying which case applies.
+std::string ReportJson(const ReportContext& context, const PatternAnalysis& analysis,
+                       const AnalysisOptions& options);
+
+}  // namespace lobecast::text

@@ -1,0 +1,29 @@
+// Human-readable text for the terminal: the array as described, and the short
+// summary `compute` prints. Plain text, units on every number.
+#pragma once
+
+#include <string>
+
+#include "engine/pattern.h"
+#include "io/input/array_description.h"
+
+namespace lobecast::text {
+
+// "theta 30 deg, phi 45 deg"; on the z axis, where phi is immaterial, "theta 0 deg (the +z axis)".
+std::string FormatDirection(double theta_deg, double phi_deg);
+// "433.92 MHz", "2.45 GHz", "50 kHz".
+std::string FormatFrequency(double hz);
+// 10 log10(x) with one decimal, "-inf" for 0.
+std::string FormatDb(double linear);
+
+// What `check` prints: name, frequency, wavelength, ground, grid, dipoles.
+std::string DescribeArray(const ArrayDescription& desc);
+
+// What `compute` prints after a run.
+std::string DescribeResult(const ArrayDescription& desc, const PatternResult& result,
+                           const std::string& output_path, double wall_seconds);
+
+// The safety note printed with every result (CONVENTIONS §5).
+std::string SafetyNote();
+
+}  // namespace lobecast::text

@@ -1,0 +1,36 @@
+// Small pieces of terminal text shared by the compute summary, the report and
+// the export notes: printf into a std::string, and the names shown for a
+// polarization reference and sense.
+#pragma once
+
+#include <cstdio>
+#include <string>
+
+#include "engine/polarization.h"
+
+namespace lobecast::text {
+
+// std::snprintf into a string; the texts formatted here are short (< 256 bytes).
+inline std::string Printf(const char* fmt, auto... args) {
+  char buf[256];
+  std::snprintf(buf, sizeof buf, fmt, args...);
+  return buf;
+}
+
+// "x (Ludwig-3)", "y (Ludwig-3)", "RHCP", "LHCP".
+inline std::string ReferenceName(PolarizationReference r) {
+  switch (r) {
+    case PolarizationReference::kLinearX: return "x (Ludwig-3)";
+    case PolarizationReference::kLinearY: return "y (Ludwig-3)";
+    case PolarizationReference::kRightCircular: return "RHCP";
+    case PolarizationReference::kLeftCircular: return "LHCP";
+  }
+  return "?";
+}
+
+// "right-hand", "left-hand" or "linear" for a sense of +1, -1 or 0.
+inline std::string SenseName(int sense) {
+  return sense > 0 ? "right-hand" : sense < 0 ? "left-hand" : "linear";
+}
+
+}  // namespace lobecast::text
