@@ -4,10 +4,10 @@
 #include <string>
 
 #include "cli/commands.h"
-#include "io/text/summary_text.h"
 #include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
 #include "io/input/array_reader.h"
+#include "io/text/summary_text.h"
 
 namespace lobecast::cli {
 
@@ -18,7 +18,9 @@ void AddCheckCommand(CLI::App& app) {
       "Read and validate an array description and describe it (frequency in Hz, "
       "wavelength in m, positions in m, currents in A peak and degrees) without computing. "
       "Exit code 0 when valid, 2 when rejected.");
-  cmd->add_option("ARRAY", *input, "Array description (TOML)")->required()->check(CLI::ExistingFile);
+  cmd->add_option("ARRAY", *input, "Array description (TOML)")
+      ->required()
+      ->check(CLI::ExistingFile);
   cmd->callback([input] {
     const ArrayDescription desc = ReadArrayDescription(*input);
     for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());

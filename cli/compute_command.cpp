@@ -11,16 +11,16 @@
 #include "cli/commands.h"
 #include "cli/output_path.h"
 #include "cli/progress_bar.h"
-#include "io/text/report_text.h"
-#include "io/text/summary_text.h"
+#include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
-#include "engine/analysis/pattern_analysis.h"
 #include "io/hdf5/analysis_writer.h"
-#include "io/input/array_reader.h"
-#include "io/plot/plot.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "io/input/array_reader.h"
+#include "io/plot/plot.h"
+#include "io/text/report_text.h"
+#include "io/text/summary_text.h"
 
 namespace lobecast::cli {
 namespace {
@@ -33,7 +33,7 @@ struct ComputeArgs {
   std::string method = "auto";
   double tolerance = 1e-9;
   bool resistance_matrix = false;
-  std::string plots_dir;  // empty: no plots
+  std::string plots_dir;           // empty: no plots
   std::string reference = "auto";  // for the stored analysis
   bool no_analysis = false;
 };
@@ -92,8 +92,7 @@ void RunCompute(const ComputeArgs& args) {
                              std::filesystem::path(output).stem().string(), &skipped);
     for (const std::string& s : skipped) std::fprintf(stderr, "plot skipped: %s\n", s.c_str());
   }
-  const double wall =
-      std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
     std::fputs(text::DescribeResult(desc, result, output, wall).c_str(), stdout);
     if (analysis) std::fputs(text::AnalysisBrief(*analysis).c_str(), stdout);

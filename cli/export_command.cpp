@@ -13,15 +13,15 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/output_path.h"
+#include "engine/analysis/pattern_analysis.h"
+#include "engine/error.h"
+#include "io/hdf5/result_reader.h"
+#include "io/io_error.h"
+#include "io/safety_note.h"
+#include "io/text/export_samples.h"
+#include "io/text/pattern_export.h"
 #include "io/text/summary_text.h"
 #include "io/text/text_format.h"
-#include "engine/error.h"
-#include "engine/analysis/pattern_analysis.h"
-#include "io/text/export_samples.h"
-#include "io/io_error.h"
-#include "io/text/pattern_export.h"
-#include "io/hdf5/result_reader.h"
-#include "io/safety_note.h"
 
 namespace lobecast::cli {
 namespace {

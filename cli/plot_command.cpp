@@ -7,9 +7,9 @@
 
 #include "cli/commands.h"
 #include "cli/output_path.h"
+#include "io/hdf5/result_reader.h"
 #include "io/input_error.h"
 #include "io/plot/plot.h"
-#include "io/hdf5/result_reader.h"
 
 namespace lobecast::cli {
 namespace {

@@ -12,12 +12,12 @@
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
-#include "io/text/report_text.h"
-#include "io/text/summary_text.h"
-#include "engine/error.h"
 #include "engine/analysis/pattern_analysis.h"
+#include "engine/error.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
+#include "io/text/report_text.h"
+#include "io/text/summary_text.h"
 
 namespace lobecast::cli {
 namespace {
@@ -49,7 +49,8 @@ void RunReport(const ReportArgs& args) {
   } else if (!saved) {
     options.reference = AutoReference(stored.result);
   }
-  if (args.side_lobe_threshold_db) set(options.side_lobe_threshold_db, *args.side_lobe_threshold_db);
+  if (args.side_lobe_threshold_db)
+    set(options.side_lobe_threshold_db, *args.side_lobe_threshold_db);
   if (args.null_threshold_db) set(options.null_threshold_db, *args.null_threshold_db);
   if (!args.null_field.empty()) {
     const auto f = NullFieldFromString(args.null_field);
@@ -72,9 +73,8 @@ void RunReport(const ReportArgs& args) {
   std::string why;
   if (!options.IsValid(&why)) throw InvalidArgument(why);
 
-  const PatternAnalysis analysis = recompute
-                                       ? AnalyzePattern(stored.array, stored.result, options)
-                                       : saved->analysis;
+  const PatternAnalysis analysis =
+      recompute ? AnalyzePattern(stored.array, stored.result, options) : saved->analysis;
   text::ReportContext context;
   context.result_path = args.input;
   context.array_name = stored.metadata.name;

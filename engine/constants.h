@@ -7,10 +7,10 @@
 namespace lobecast {
 
 inline constexpr double kPi = std::numbers::pi;
-inline constexpr double kSpeedOfLight_m_s = 299792458.0;              // exact (SI 2019)
-inline constexpr double kMu0_H_m = 1.25663706212e-6;                  // CODATA 2018
+inline constexpr double kSpeedOfLight_m_s = 299792458.0;  // exact (SI 2019)
+inline constexpr double kMu0_H_m = 1.25663706212e-6;      // CODATA 2018
 inline constexpr double kEps0_F_m = 1.0 / (kMu0_H_m * kSpeedOfLight_m_s * kSpeedOfLight_m_s);
-inline constexpr double kEta0_ohm = kMu0_H_m * kSpeedOfLight_m_s;     // ~376.730 ohm
-inline constexpr double kDegree = kPi / 180.0;                        // radians per degree
+inline constexpr double kEta0_ohm = kMu0_H_m * kSpeedOfLight_m_s;  // ~376.730 ohm
+inline constexpr double kDegree = kPi / 180.0;                     // radians per degree
 
 }  // namespace lobecast

@@ -34,7 +34,8 @@ std::optional<Ground> GroundFromString(std::string_view s) {
 
 Eigen::VectorXcd CurrentsOf(const Array& array) {
   Eigen::VectorXcd i(static_cast<Eigen::Index>(array.size()));
-  for (std::size_t n = 0; n < array.size(); ++n) i[static_cast<Eigen::Index>(n)] = array.dipoles[n].current_a;
+  for (std::size_t n = 0; n < array.size(); ++n)
+    i[static_cast<Eigen::Index>(n)] = array.dipoles[n].current_a;
   return i;
 }
 
@@ -49,7 +50,8 @@ void Validate(const Array& array) {
     s << "frequency_hz: found " << array.frequency_hz << ", expected a finite number > 0";
     throw InvalidArgument(s.str());
   }
-  if (array.dipoles.empty()) throw InvalidArgument("array: found no dipoles, expected at least one");
+  if (array.dipoles.empty())
+    throw InvalidArgument("array: found no dipoles, expected at least one");
   for (std::size_t n = 0; n < array.size(); ++n) {
     const Dipole& d = array.dipoles[n];
     if (!AllFinite(d.position_m)) fail(n, "position is not finite");

@@ -49,10 +49,14 @@ Polarization PolarizationOf(Complex et, Complex ep) {
 
 std::string_view ToString(PolarizationReference r) {
   switch (r) {
-    case PolarizationReference::kLinearX: return "x";
-    case PolarizationReference::kLinearY: return "y";
-    case PolarizationReference::kRightCircular: return "rhcp";
-    case PolarizationReference::kLeftCircular: return "lhcp";
+    case PolarizationReference::kLinearX:
+      return "x";
+    case PolarizationReference::kLinearY:
+      return "y";
+    case PolarizationReference::kRightCircular:
+      return "rhcp";
+    case PolarizationReference::kLeftCircular:
+      return "lhcp";
   }
   return "x";
 }
@@ -69,13 +73,15 @@ std::optional<PolarizationReference> PolarizationReferenceFromString(std::string
 CoCross CoCrossOf(Complex et, Complex ep, double phi_rad, PolarizationReference ref) {
   const double c = std::cos(phi_rad), s = std::sin(phi_rad);
   switch (ref) {
-    case PolarizationReference::kLinearX: return {et * c - ep * s, et * s + ep * c};
-    case PolarizationReference::kLinearY: return {et * s + ep * c, et * c - ep * s};
+    case PolarizationReference::kLinearX:
+      return {et * c - ep * s, et * s + ep * c};
+    case PolarizationReference::kLinearY:
+      return {et * s + ep * c, et * c - ep * s};
     case PolarizationReference::kRightCircular:
     case PolarizationReference::kLeftCircular: {
       const Polarization p = PolarizationOf(et, ep);
       return ref == PolarizationReference::kRightCircular ? CoCross{p.e_right, p.e_left}
-                                                           : CoCross{p.e_left, p.e_right};
+                                                          : CoCross{p.e_left, p.e_right};
     }
   }
   return {et, ep};

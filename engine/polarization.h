@@ -17,15 +17,15 @@
 namespace lobecast {
 
 struct Polarization {
-  Complex e_right = 0.0;     // V, RHCP component
-  Complex e_left = 0.0;      // V, LHCP component
-  double s0 = 0.0;           // Stokes parameters, V^2: |Et|^2 + |Ep|^2
-  double s1 = 0.0;           // |Et|^2 - |Ep|^2
-  double s2 = 0.0;           // 2 Re(Et Ep*)
-  double s3 = 0.0;           // 2 Im(Et Ep*) = |E_R|^2 - |E_L|^2 (positive for right-hand)
-  double axial_ratio_db = 0; // 0 dB circular, +inf linear, NaN where the field is zero
-  double tilt_deg = 0;       // major axis from theta_hat toward phi_hat, (-90, 90]; NaN at a zero
-  std::int8_t sense = 0;     // +1 right, -1 left, 0 linear (or zero field)
+  Complex e_right = 0.0;      // V, RHCP component
+  Complex e_left = 0.0;       // V, LHCP component
+  double s0 = 0.0;            // Stokes parameters, V^2: |Et|^2 + |Ep|^2
+  double s1 = 0.0;            // |Et|^2 - |Ep|^2
+  double s2 = 0.0;            // 2 Re(Et Ep*)
+  double s3 = 0.0;            // 2 Im(Et Ep*) = |E_R|^2 - |E_L|^2 (positive for right-hand)
+  double axial_ratio_db = 0;  // 0 dB circular, +inf linear, NaN where the field is zero
+  double tilt_deg = 0;        // major axis from theta_hat toward phi_hat, (-90, 90]; NaN at a zero
+  std::int8_t sense = 0;      // +1 right, -1 left, 0 linear (or zero field)
 };
 
 // |E_R| and |E_L| closer than kLinearTolerance * (|E_R| + |E_L|) count as linear

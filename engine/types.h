@@ -39,7 +39,7 @@ struct Dipole {
   Vec3 orientation = Vec3::UnitZ();  // unit vector along positive current
   double length_m = 0.0;             // physical length l
   Distribution distribution = Distribution::kUniform;
-  Complex current_a = 0.0;           // terminal current, complex peak (A)
+  Complex current_a = 0.0;  // terminal current, complex peak (A)
 
   double effective_length_m() const {
     return distribution == Distribution::kTriangular ? 0.5 * length_m : length_m;

@@ -21,9 +21,9 @@
 #include "engine/constants.h"
 #include "io/input/array_reader.h"
 #include "io/input/csv_dipoles.h"
+#include "io/input/units.h"
 #include "io/input_error.h"
 #include "io/text/number_text.h"
-#include "io/input/units.h"
 
 namespace lobecast {
 namespace {

@@ -11,8 +11,8 @@
 #include "bad_corpus.h"
 #include "cli_util.h"
 #include "engine/pattern.h"
-#include "io/input/array_reader.h"
 #include "io/hdf5/result_reader.h"
+#include "io/input/array_reader.h"
 
 namespace fs = std::filesystem;
 using ::testing::HasSubstr;
@@ -27,7 +27,9 @@ using testing::SampleArrays;
 // Runs a shell command, capturing stdout+stderr and the exit code.
 RunOutput RunCommand(const std::string& command) { return testing::RunShell(command + " 2>&1"); }
 
-fs::path WorkDir(const std::string& name) { return testing::TempWorkDir("lobecast-cli-test", name); }
+fs::path WorkDir(const std::string& name) {
+  return testing::TempWorkDir("lobecast-cli-test", name);
+}
 
 double MaxAbsDiff(const Eigen::VectorXcd& a, const Eigen::VectorXcd& b) {
   return (a - b).cwiseAbs().maxCoeff();
@@ -40,7 +42,7 @@ TEST_P(SampleArray, ComputedResultMatchesTheEngine) {
   const fs::path out = WorkDir("samples") / (fs::path(input).stem().string() + ".h5");
   fs::remove(out);
   const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute " + Quote(input) + " -o " +
-                            Quote(out.string()));
+                                   Quote(out.string()));
   ASSERT_EQ(run.exit_code, 0) << run.out;
   EXPECT_THAT(run.out, HasSubstr("dBi"));
   EXPECT_THAT(run.out, HasSubstr("not an RF-exposure"));
@@ -92,8 +94,8 @@ TEST(Samples, AtLeastFiveDemoArrays) { EXPECT_GE(SampleArrays().size(), 5u); }
 TEST(Samples, CheckDescribesWithoutWriting) {
   const fs::path dir = WorkDir("check");
   const std::string input = std::string(LOBECAST_SAMPLES) + "/turnstile.toml";
-  const RunOutput run = RunCommand("cd " + Quote(dir.string()) + " && " + LOBECAST_EXE + " check " +
-                            Quote(input));
+  const RunOutput run =
+      RunCommand("cd " + Quote(dir.string()) + " && " + LOBECAST_EXE + " check " + Quote(input));
   ASSERT_EQ(run.exit_code, 0) << run.out;
   EXPECT_THAT(run.out, HasSubstr("401.5 MHz"));
   EXPECT_THAT(run.out, HasSubstr("wavelength"));
@@ -104,7 +106,7 @@ TEST(Cli, DefaultOutputNameComesFromTheInput) {
   const fs::path dir = WorkDir("default-name");
   const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";
   const RunOutput run = RunCommand("cd " + Quote(dir.string()) + " && " + LOBECAST_EXE +
-                            " compute --quiet " + Quote(input));
+                                   " compute --quiet " + Quote(input));
   ASSERT_EQ(run.exit_code, 0) << run.out;
   EXPECT_TRUE(run.out.empty()) << run.out;
   EXPECT_TRUE(fs::exists(dir / "single-dipole.h5"));
@@ -126,9 +128,13 @@ TEST(Cli, ThreadCountDoesNotChangeTheResult) {
   const fs::path dir = WorkDir("threads");
   const std::string input = std::string(LOBECAST_SAMPLES) + "/planar-4x4-ground.toml";
   ASSERT_EQ(RunCommand(std::string(LOBECAST_EXE) + " compute -q -t 1 " + Quote(input) + " -o " +
-                Quote((dir / "t1.h5").string())).exit_code, 0);
+                       Quote((dir / "t1.h5").string()))
+                .exit_code,
+            0);
   ASSERT_EQ(RunCommand(std::string(LOBECAST_EXE) + " compute -q -t 2 " + Quote(input) + " -o " +
-                Quote((dir / "t2.h5").string())).exit_code, 0);
+                       Quote((dir / "t2.h5").string()))
+                .exit_code,
+            0);
   const StoredResult a = ReadResult((dir / "t1.h5").string());
   const StoredResult b = ReadResult((dir / "t2.h5").string());
   const double peak = a.result.field.e_theta.cwiseAbs().maxCoeff();
@@ -149,8 +155,8 @@ TEST_P(BadInputCli, ExitTwoLocatedMessageNothingWritten) {
   const fs::path out = dir / (fs::path(c.path).stem().string() + ".h5");
   // An existing target must survive a rejected run untouched.
   { std::ofstream(out) << "precious"; }
-  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute " + Quote(c.path) + " -o " +
-                            Quote(out.string()));
+  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute " + Quote(c.path) +
+                                   " -o " + Quote(out.string()));
   EXPECT_EQ(run.exit_code, 2) << run.out;
   EXPECT_THAT(run.out, HasSubstr(c.MessageFile() + ":" + c.Get("line") + ":"));
   if (!c.Get("key").empty()) {
@@ -183,8 +189,9 @@ TEST(Cli, LongDipoleWarnsButRuns) {
                          "step = 10 }\nphi = { start = 0, stop = 360, step = 30 }\n"
                          "[[dipole]]\nposition = [0, 0, 0]\norientation = [0, 0, 1]\n"
                          "length = 0.2\ncurrent = { magnitude = 1 }\n";
-  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(toml.string()) +
-                            " -o " + Quote((dir / "long.h5").string()));
+  const RunOutput run =
+      RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(toml.string()) + " -o " +
+                 Quote((dir / "long.h5").string()));
   EXPECT_EQ(run.exit_code, 0) << run.out;
   EXPECT_THAT(run.out, HasSubstr("long.toml:8:"));
   EXPECT_THAT(run.out, HasSubstr("warning"));
@@ -246,9 +253,9 @@ TEST(Cli, CheckRejectsCurrentsThatOverflow) {
                          "orientation = [0, 0, 1]\nlength = 0.01\n"
                          "current = { magnitude = 1e300 }\n";
   EXPECT_EQ(RunCommand(std::string(LOBECAST_EXE) + " check " + Quote(toml.string())).exit_code, 2);
-  const RunOutput run = RunCommand(std::string(LOBECAST_EXE) + " compute -q " +
-                                   Quote(toml.string()) + " -o " +
-                                   Quote((dir / "huge.h5").string()));
+  const RunOutput run =
+      RunCommand(std::string(LOBECAST_EXE) + " compute -q " + Quote(toml.string()) + " -o " +
+                 Quote((dir / "huge.h5").string()));
   EXPECT_EQ(run.exit_code, 2) << run.out;
   EXPECT_THAT(run.out, HasSubstr("overflows"));
   EXPECT_FALSE(fs::exists(dir / "huge.h5"));

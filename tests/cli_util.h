@@ -42,8 +42,8 @@ inline std::string Quote(const std::string& s) { return "'" + s + "'"; }
 
 // <temp>/<prefix>-<pid>/<name>, created: each test process gets its own tree.
 inline std::filesystem::path TempWorkDir(const std::string& prefix, const std::string& name) {
-  std::filesystem::path d = std::filesystem::temp_directory_path() /
-                            (prefix + "-" + std::to_string(getpid())) / name;
+  std::filesystem::path d =
+      std::filesystem::temp_directory_path() / (prefix + "-" + std::to_string(getpid())) / name;
   std::filesystem::create_directories(d);
   return d;
 }

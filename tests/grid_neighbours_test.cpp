@@ -19,8 +19,8 @@
 
 #include <gtest/gtest.h>
 
-#include "engine/pattern.h"
 #include "engine/analysis/pattern_analysis.h"
+#include "engine/pattern.h"
 #include "engine/types.h"
 #include "tests/test_util.h"
 

@@ -5,8 +5,8 @@
 #include <limits>
 #include <vector>
 
-#include <Eigen/Geometry>
 #include <gtest/gtest.h>
+#include <Eigen/Geometry>
 
 #include "engine/constants.h"
 #include "engine/error.h"

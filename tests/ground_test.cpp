@@ -71,8 +71,7 @@ TEST(Ground, VerticalDipoleAtZeroHeight) {
   const double r_free = ResistanceMatrix(free)(0, 0);
   EXPECT_NEAR(r, 2 * r_free, 1e-9 * r);
 
-  const PatternResult p =
-      ComputePattern(a, AngularGrid::FromRanges({0, 180, 1}, {0, 355, 5}));
+  const PatternResult p = ComputePattern(a, AngularGrid::FromRanges({0, 180, 1}, {0, 355, 5}));
   EXPECT_NEAR(p.summary.peak_directivity, 3.0, 3e-9);
   EXPECT_NEAR(p.summary.peak_theta_deg, 90.0, 1e-12);
   EXPECT_NEAR(10 * std::log10(p.summary.peak_directivity), 4.77, 5e-3);
@@ -121,8 +120,7 @@ TEST(Ground, UpperHalfSpaceIsDipolesPlusImagesInFreeSpace) {
   both.dipoles = RadiatingSources(a);
   Eigen::VectorXcd i2(24);
   i2 << CurrentsOf(a), CurrentsOf(a);
-  const Directions dirs =
-      Directions::FromGrid(AngularGrid::FromRanges({0, 90, 3}, {0, 357, 3}));
+  const Directions dirs = Directions::FromGrid(AngularGrid::FromRanges({0, 90, 3}, {0, 357, 3}));
   const FarField fg = FieldPlan(a, dirs).Execute(CurrentsOf(a));
   const FarField ff = FieldPlan(both, dirs).Execute(i2);
   EXPECT_LE(testing::MaxFieldDifference(fg, ff), 1e-13 * testing::Magnitude(ff).maxCoeff());
@@ -138,8 +136,8 @@ TEST(Ground, VerticalDipoleResistanceVersusHeight) {
   for (double h : {0.05, 0.1, 0.25, 0.5, 1.0, 3.7}) {
     const Array a = VerticalOverGround(h, 0.01);
     const double x = 2 * 2 * kPi * h;
-    const double expected = 2 * kPi * kEta0_ohm * 1e-4 *
-                            (1.0 / 3 - std::cos(x) / (x * x) + std::sin(x) / (x * x * x));
+    const double expected =
+        2 * kPi * kEta0_ohm * 1e-4 * (1.0 / 3 - std::cos(x) / (x * x) + std::sin(x) / (x * x * x));
     EXPECT_NEAR(ResistanceMatrix(a)(0, 0), expected, 1e-12 * expected) << "h = " << h;
   }
 }
@@ -152,9 +150,9 @@ TEST(Ground, HorizontalDipoleResistanceVersusHeight) {
     Array a = VerticalOverGround(h, 0.01);
     a.dipoles[0].orientation = Vec3(std::cos(0.4), std::sin(0.4), 0.0);
     const double x = 2 * 2 * kPi * h;
-    const double expected = kPi * kEta0_ohm * 1e-4 *
-                            (2.0 / 3 - std::sin(x) / x - std::cos(x) / (x * x) +
-                             std::sin(x) / (x * x * x));
+    const double expected =
+        kPi * kEta0_ohm * 1e-4 *
+        (2.0 / 3 - std::sin(x) / x - std::cos(x) / (x * x) + std::sin(x) / (x * x * x));
     EXPECT_NEAR(ResistanceMatrix(a)(0, 0), expected, 1e-12 * expected) << "h = " << h;
   }
 }

@@ -4,8 +4,8 @@
 // near the requested tolerance relative to sum_j |c_j|; we require below 3x that.
 #include "engine/field/nufft.h"
 
-#include <cmath>
 #include <array>
+#include <cmath>
 #include <complex>
 #include <string>
 
@@ -137,8 +137,8 @@ TEST_P(Nufft2Accuracy, MatchesDirectSum) {
         worst = std::max(worst, static_cast<double>(std::abs(d)) / l1);
       }
     }
-    const std::string shape = std::to_string(modes[0]) + "x" + std::to_string(modes[1]) + "x" +
-                              std::to_string(modes[2]);
+    const std::string shape =
+        std::to_string(modes[0]) + "x" + std::to_string(modes[1]) + "x" + std::to_string(modes[2]);
     EXPECT_LT(worst, 3.0 * tol) << shape << ", tolerance " << tol;
     EXPECT_GT(worst, 1e-4 * tol) << shape << ", tolerance " << tol;
   }

@@ -113,7 +113,8 @@ TEST(Pattern, ActiveResistancesSumToThePower) {
     const PatternResult p = ComputePattern(a, AngularGrid::FromRanges({0, 180, 10}, {0, 350, 10}));
     ASSERT_EQ(p.active_resistance_ohm.size(), 14);
     double sum = 0;
-    for (int m = 0; m < 14; ++m) sum += 0.5 * std::norm(a.dipoles[m].current_a) * p.active_resistance_ohm[m];
+    for (int m = 0; m < 14; ++m)
+      sum += 0.5 * std::norm(a.dipoles[m].current_a) * p.active_resistance_ohm[m];
     EXPECT_NEAR(sum, p.radiated_power_w, 1e-12 * p.radiated_power_w);
   }
 }

@@ -20,12 +20,12 @@
 #include <vector>
 
 #include "cli_util.h"
-#include "io/plot/plot.h"
+#include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/colormap.h"
 #include "io/plot/cut_traces.h"
 #include "io/plot/frame.h"
-#include "io/hdf5/result_reader.h"
+#include "io/plot/plot.h"
 
 namespace lobecast::plot {
 namespace {

@@ -212,13 +212,14 @@ TEST(Polarization, LudwigThirdCrossPolarOfAnXDipole) {
   double co_max = 0;
   for (std::size_t i = 0; i < dirs.size(); ++i)
     co_max = std::max(co_max, std::abs(CoCrossOf(f.e_theta[i], f.e_phi[i], dirs.phi_rad(i),
-                                                  PolarizationReference::kLinearX).co));
+                                                 PolarizationReference::kLinearX)
+                                           .co));
   ASSERT_GT(co_max, 0);
   for (std::size_t i = 0; i < dirs.size(); ++i) {
     const CoCross cc =
         CoCrossOf(f.e_theta[i], f.e_phi[i], dirs.phi_rad(i), PolarizationReference::kLinearX);
-    EXPECT_LE(std::abs(cc.cross), 1e-12 * co_max) << "theta " << dirs.theta_rad(i) / kDegree
-                                                   << " phi " << dirs.phi_rad(i) / kDegree;
+    EXPECT_LE(std::abs(cc.cross), 1e-12 * co_max)
+        << "theta " << dirs.theta_rad(i) / kDegree << " phi " << dirs.phi_rad(i) / kDegree;
   }
   // Off the principal planes the cross-polarization is there: phi = 45, theta = 60.
   const double th = 60 * kDegree, ph = 45 * kDegree;

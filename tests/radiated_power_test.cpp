@@ -8,8 +8,8 @@
 #include <limits>
 #include <vector>
 
-#include <Eigen/Eigenvalues>
 #include <gtest/gtest.h>
+#include <Eigen/Eigenvalues>
 
 #include "engine/constants.h"
 #include "engine/error.h"
@@ -106,8 +106,8 @@ TEST(RadiatedPower, HertzianSelfResistance) {
 }
 
 TEST(RadiatedPower, TriangularSelfResistance) {
-  Array a = OneDipoleArray(MakeDipole(Vec3(0.2, 0.1, -0.3), Vec3::UnitZ(), 0.0, 1.0,
-                                      Distribution::kTriangular));
+  Array a = OneDipoleArray(
+      MakeDipole(Vec3(0.2, 0.1, -0.3), Vec3::UnitZ(), 0.0, 1.0, Distribution::kTriangular));
   const double l_over_lambda = 0.02;
   a.dipoles[0].length_m = l_over_lambda * a.wavelength_m();
   const double r = ResistanceMatrix(a)(0, 0);
@@ -126,10 +126,11 @@ TEST(RadiatedPower, MutualResistanceIsContinuousAtZeroSpacing) {
   const double k = base.wavenumber_rad_m(), lambda = base.wavelength_m();
   for (int trial = 0; trial < 50; ++trial) {
     const Dipole m = MakeDipole(Vec3(0.1, 0.2, 0.3), rng.UnitVector(), 0.003, 1.0);
-    Dipole n = MakeDipole(m.position_m + 1e-6 * lambda * rng.UnitVector(), rng.UnitVector(),
-                          0.002, 1.0, Distribution::kTriangular);
+    Dipole n = MakeDipole(m.position_m + 1e-6 * lambda * rng.UnitVector(), rng.UnitVector(), 0.002,
+                          1.0, Distribution::kTriangular);
     if (trial == 0) n.orientation = m.orientation;  // parallel
-    const double pref = k * k * kEta0_ohm * m.effective_length_m() * n.effective_length_m() / (4 * kPi);
+    const double pref =
+        k * k * kEta0_ohm * m.effective_length_m() * n.effective_length_m() / (4 * kPi);
     const double limit = pref * 2.0 / 3.0 * m.orientation.dot(n.orientation);
     EXPECT_NEAR(MutualResistance(m, n, k), limit, 1e-11 * pref) << "trial " << trial;
     EXPECT_NEAR(MutualResistance(n, m, k), limit, 1e-11 * pref) << "trial " << trial;
@@ -190,7 +191,8 @@ TEST(RadiatedPower, ScalesWithCurrentMagnitudeSquared) {
   const Eigen::MatrixXd r = ResistanceMatrix(a);
   const double p = RadiatedPower(r, CurrentsOf(a));
   const Complex alpha(0.3, -2.1);
-  EXPECT_NEAR(RadiatedPower(r, alpha * CurrentsOf(a)), std::norm(alpha) * p, 1e-13 * std::norm(alpha) * p);
+  EXPECT_NEAR(RadiatedPower(r, alpha * CurrentsOf(a)), std::norm(alpha) * p,
+              1e-13 * std::norm(alpha) * p);
   EXPECT_GT(p, 0);
 }
 
@@ -200,7 +202,8 @@ TEST(Quadrature, GaussRuleIsExact) {
     const testing::QuadratureRule g = testing::GaussLegendreRule(n);
     for (int k = 0; k <= 2 * n - 1; ++k) {
       long double s = 0;
-      for (int i = 0; i < n; ++i) s += g.weights[i] * std::pow(static_cast<long double>(g.nodes[i]), k);
+      for (int i = 0; i < n; ++i)
+        s += g.weights[i] * std::pow(static_cast<long double>(g.nodes[i]), k);
       const double exact = k % 2 ? 0.0 : 2.0 / (k + 1);
       EXPECT_NEAR(static_cast<double>(s), exact, 1e-15) << "n = " << n << " k = " << k;
     }
@@ -213,7 +216,8 @@ TEST(Quadrature, HasConvergedAtTheChosenOrder) {
   TestRng rng(50);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
     const Array a = testing::RandomArray(rng, 24, g);
-    const int n = static_cast<int>(std::ceil(a.wavenumber_rad_m() * testing::MaxSourceSeparation_m(a))) + 40;
+    const int n =
+        static_cast<int>(std::ceil(a.wavenumber_rad_m() * testing::MaxSourceSeparation_m(a))) + 40;
     const double p1 = testing::QuadraturePower(a, CurrentsOf(a), n, n);
     const double p2 = testing::QuadraturePower(a, CurrentsOf(a), n + 25, n + 31);
     EXPECT_NEAR(p1, p2, 1e-13 * p2);

@@ -19,10 +19,10 @@
 #include <gtest/gtest.h>
 
 #include "cli_util.h"
+#include "engine/analysis/pattern_analysis.h"
 #include "engine/constants.h"
 #include "engine/field/far_field.h"
 #include "engine/grid.h"
-#include "engine/analysis/pattern_analysis.h"
 #include "engine/polarization.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
@@ -172,11 +172,11 @@ TEST_P(SampleResult, ReportAndExportWork) {
   ASSERT_TRUE(saved.has_value());
   const RunOutput report = Lobecast("report " + Quote(result));
   ASSERT_EQ(report.exit_code, 0) << report.err;
-  for (const char* label : {"peak directivity (dBi)", "HPBW elevation plane (deg)",
-                            "HPBW orthogonal plane (deg)", "FNBW elevation plane (deg)",
-                            "front-to-back (dB)", "highest side lobe (dB re peak)",
-                            "XPD at peak (dB)", "worst XPD in -3 dB beam (dB)",
-                            "axial ratio at peak (dB)", "stored by compute"}) {
+  for (const char* label :
+       {"peak directivity (dBi)", "HPBW elevation plane (deg)", "HPBW orthogonal plane (deg)",
+        "FNBW elevation plane (deg)", "front-to-back (dB)", "highest side lobe (dB re peak)",
+        "XPD at peak (dB)", "worst XPD in -3 dB beam (dB)", "axial ratio at peak (dB)",
+        "stored by compute"}) {
     EXPECT_THAT(report.out, HasSubstr(label));
   }
 
@@ -255,8 +255,8 @@ TEST(Export, AtLookupEqualsTheEngine) {
   const StoredResult stored = ReadResult(result);
   // Off the grid, in both coordinate systems (az 73.25 deg, el 12.5 deg is theta 77.5 deg).
   const Exact e = EngineAt(stored, 77.5, 73.25);
-  for (const std::string& args : {std::string("--at 77.5,73.25"),
-                                  std::string("--coords az-el --at 73.25,12.5")}) {
+  for (const std::string& args :
+       {std::string("--at 77.5,73.25"), std::string("--coords az-el --at 73.25,12.5")}) {
     const RunOutput run = Lobecast("export --no-notes " + args + " " + Quote(result));
     ASSERT_EQ(run.exit_code, 0) << run.err;
     const Table t = ParseTable(run.out, ',');
@@ -267,8 +267,8 @@ TEST(Export, AtLookupEqualsTheEngine) {
     EXPECT_NEAR(t.At(0, "phase_theta_deg"), std::arg(e.e_theta) / kDegree, 1e-10);
     // Ludwig-3 y co-polar of a z-directed array (auto reference at a broadside peak
     // on the y axis): co = Et sin(phi) + Ep cos(phi).
-    const CoCross cc = CoCrossOf(e.e_theta, e.e_phi, 73.25 * kDegree,
-                                 PolarizationReference::kLinearY);
+    const CoCross cc =
+        CoCrossOf(e.e_theta, e.e_phi, 73.25 * kDegree, PolarizationReference::kLinearY);
     const double per_v2 = 4.0 * kPi / (2.0 * kEta0_ohm * stored.result.radiated_power_w);
     EXPECT_NEAR(t.At(0, "co_dBi"), Db(per_v2 * std::norm(cc.co)), 1e-12);
   }
@@ -277,8 +277,8 @@ TEST(Export, AtLookupEqualsTheEngine) {
   ASSERT_EQ(on.exit_code, 0) << on.err;
   const Table t = ParseTable(on.out, ',');
   const std::size_t k = 90 * stored.result.grid.phi_deg.size() + 90;
-  EXPECT_NEAR(t.At(0, "directivity_dBi"), Db(stored.result.directivity[static_cast<Eigen::Index>(k)]),
-              1e-12);
+  EXPECT_NEAR(t.At(0, "directivity_dBi"),
+              Db(stored.result.directivity[static_cast<Eigen::Index>(k)]), 1e-12);
 }
 
 TEST(Export, CutsOffTheGridAreExactAndOnItAreStored) {
@@ -340,8 +340,8 @@ TEST(Export, CutsOffTheGridAreExactAndOnItAreStored) {
 TEST(Export, OutputFileEqualsStdout) {
   const std::string result = Compute(Sample("single-dipole"));
   const fs::path file = WorkDir("out") / "cut.tsv";
-  const RunOutput to_file =
-      Lobecast("export --format tsv --cut theta=90 -o " + Quote(file.string()) + " " + Quote(result));
+  const RunOutput to_file = Lobecast("export --format tsv --cut theta=90 -o " +
+                                     Quote(file.string()) + " " + Quote(result));
   ASSERT_EQ(to_file.exit_code, 0) << to_file.err;
   EXPECT_TRUE(to_file.out.empty());
   const RunOutput to_stdout = Lobecast("export --format tsv --cut theta=90 " + Quote(result));
@@ -378,8 +378,9 @@ TEST(Report, HertzianDipoleBeamAndNulls) {
   if (HavePython()) {
     const RunOutput json = Lobecast("report --json " + Quote(result));
     const RunOutput py = PythonOnJson(
-        json.out, "d[\"elevation_plane\"][\"half_power_width_deg\"], "
-                  "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"nulls\"][0][\"exact\"]");
+        json.out,
+        "d[\"elevation_plane\"][\"half_power_width_deg\"], "
+        "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"nulls\"][0][\"exact\"]");
     ASSERT_EQ(py.exit_code, 0) << py.out;
     EXPECT_THAT(py.out, HasSubstr("None True"));  // an infinite width is null in JSON
     EXPECT_NEAR(std::strtod(py.out.c_str(), nullptr), 90.0, 1e-4);
@@ -421,8 +422,8 @@ TEST(Report, StoredAnalysisMatchesTheEngineAndRecomputesWhenAbsent) {
     const std::size_t at = text.find(label);
     return at == std::string::npos ? std::string() : text.substr(at, text.find('\n', at) - at);
   };
-  for (const char* label : {"peak directivity", "HPBW elevation", "FNBW orthogonal",
-                            "XPD at peak"}) {
+  for (const char* label :
+       {"peak directivity", "HPBW elevation", "FNBW orthogonal", "XPD at peak"}) {
     EXPECT_EQ(line(a.out, label), line(b.out, label)) << label;
     EXPECT_FALSE(line(a.out, label).empty()) << label;
   }
@@ -431,13 +432,13 @@ TEST(Report, StoredAnalysisMatchesTheEngineAndRecomputesWhenAbsent) {
 TEST(Report, TowardDirectionsAreExact) {
   const std::string result = Compute(Sample("broadside-line-8"));
   const StoredResult stored = ReadResult(result);
-  const RunOutput run =
-      Lobecast("report --json --toward 90,0 --toward 60,75.5 " + Quote(result));
+  const RunOutput run = Lobecast("report --json --toward 90,0 --toward 60,75.5 " + Quote(result));
   ASSERT_EQ(run.exit_code, 0) << run.err;
   if (!HavePython()) GTEST_SKIP() << "no Python to read the JSON";
-  const RunOutput py = PythonOnJson(
-      run.out, "d[\"source\"], repr(d[\"protected_directions\"][1][\"directivity\"]), "
-               "len(d[\"protected_directions\"])");
+  const RunOutput py =
+      PythonOnJson(run.out,
+                   "d[\"source\"], repr(d[\"protected_directions\"][1][\"directivity\"]), "
+                   "len(d[\"protected_directions\"])");
   ASSERT_EQ(py.exit_code, 0) << py.out;
   EXPECT_THAT(py.out, HasSubstr("recomputed"));
   EXPECT_THAT(py.out, HasSubstr(" 2"));

@@ -19,9 +19,9 @@
 #include <gtest/gtest.h>
 
 #include "engine/error.h"
-#include "io/input_error.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "io/input_error.h"
 
 namespace lobecast {
 namespace {

@@ -115,7 +115,8 @@ inline double MaxSourceSeparation_m(const Array& a) {
   std::vector<Vec3> p;
   for (const Dipole& d : a.dipoles) {
     p.push_back(d.position_m);
-    if (a.ground == Ground::kPec) p.emplace_back(d.position_m.x(), d.position_m.y(), -d.position_m.z());
+    if (a.ground == Ground::kPec)
+      p.emplace_back(d.position_m.x(), d.position_m.y(), -d.position_m.z());
   }
   double m = 0.0;
   for (std::size_t i = 0; i < p.size(); ++i)

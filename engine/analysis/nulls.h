@@ -13,8 +13,8 @@
 
 #include "engine/analysis/analysis_types.h"
 #include "engine/analysis/grid_neighbours.h"
-#include "engine/pattern.h"
 #include "engine/analysis/pattern_probe.h"
+#include "engine/pattern.h"
 
 namespace lobecast {
 

@@ -7,12 +7,12 @@
 #include <sstream>
 
 #include "engine/analysis/beam.h"
-#include "engine/error.h"
 #include "engine/analysis/grid_neighbours.h"
 #include "engine/analysis/nulls.h"
 #include "engine/analysis/pattern_probe.h"
 #include "engine/analysis/polarization_purity.h"
 #include "engine/analysis/side_lobes.h"
+#include "engine/error.h"
 #include "engine/text_case.h"
 
 namespace lobecast {

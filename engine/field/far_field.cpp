@@ -14,11 +14,11 @@
 #include <Eigen/Geometry>
 
 #include "engine/error.h"
-#include "engine/ground.h"
 #include "engine/field/kernel_clones.h"
 #include "engine/field/lattice.h"
 #include "engine/field/nufft.h"
 #include "engine/field/sincos.h"
+#include "engine/ground.h"
 #include "engine/text_case.h"
 
 namespace lobecast {

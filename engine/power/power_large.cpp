@@ -9,10 +9,10 @@
 #include <omp.h>
 
 #include "engine/error.h"
-#include "engine/ground.h"
 #include "engine/field/kernel_clones.h"
-#include "engine/power/radiated_power.h"
 #include "engine/field/sincos.h"
+#include "engine/ground.h"
+#include "engine/power/radiated_power.h"
 
 namespace lobecast {
 namespace {

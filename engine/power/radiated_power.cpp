@@ -24,8 +24,8 @@ RadiationKernel SeriesKernel(double x) {
   //   j0 - j1/x = sum_k (-x^2/2)^k (2k+2) / (k! (2k+3)!!),
   //   j2        = x^2 sum_k (-x^2/2)^k / (k! (2k+5)!!).
   const double x2 = x * x;
-  double b = 1.0 / 3.0;  // (-x^2/2)^k / (k! (2k+3)!!) at k = 0
-  double c = 1.0 / 15.0; // (-x^2/2)^k / (k! (2k+5)!!) at k = 0
+  double b = 1.0 / 3.0;   // (-x^2/2)^k / (k! (2k+3)!!) at k = 0
+  double c = 1.0 / 15.0;  // (-x^2/2)^k / (k! (2k+5)!!) at k = 0
   double f = 0.0, g = 0.0;
   for (int k = 0; k < 40; ++k) {
     const double tf = b * (2.0 * k + 2.0);
@@ -111,8 +111,7 @@ double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorX
 void CheckRadiatedPower(double p) {
   if (!std::isfinite(p)) {
     throw InvalidArgument("currents: the radiated power overflows a double (found " +
-                          std::to_string(p) +
-                          " W); expected currents of a physical size (A peak)");
+                          std::to_string(p) + " W); expected currents of a physical size (A peak)");
   }
   if (!(p > 0)) {
     std::ostringstream m;
@@ -129,7 +128,7 @@ Eigen::VectorXd ActiveResistance(const Eigen::MatrixXd& resistance_ohm,
   Eigen::VectorXd out(currents_a.size());
   for (Eigen::Index m = 0; m < currents_a.size(); ++m) {
     out[m] = currents_a[m] == Complex(0.0) ? std::numeric_limits<double>::quiet_NaN()
-                                            : (v[m] / currents_a[m]).real();
+                                           : (v[m] / currents_a[m]).real();
   }
   return out;
 }

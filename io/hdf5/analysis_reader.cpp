@@ -50,8 +50,8 @@ std::vector<double> ReadTable(const std::string& path, hid_t file, const std::st
   if (count < 0) throw IoError(path, "negative row count for '" + name + "'");
   if (count == 0) return {};
   if (!hdf5::Exists(file, name)) {
-    throw IoError(path, "'" + name + "' is missing but " + std::to_string(count) +
-                            " rows are recorded");
+    throw IoError(path,
+                  "'" + name + "' is missing but " + std::to_string(count) + " rows are recorded");
   }
   std::vector<hsize_t> dims;
   std::vector<double> t = hdf5::ReadDoubles(file, name, &dims);
@@ -173,8 +173,7 @@ std::optional<StoredAnalysis> ReadAnalysis(const std::string& path) {
       n.exact = t[i + 4] != 0.0;
       a.nulls.push_back(n);
     }
-    t = ReadTable(path, file, root + "/protected_directions",
-                  g.Int("num_protected_directions"), 8);
+    t = ReadTable(path, file, root + "/protected_directions", g.Int("num_protected_directions"), 8);
     for (std::size_t i = 0; i < t.size(); i += 8) {
       ProtectedDirectionField f;
       f.direction = {t[i], t[i + 1]};

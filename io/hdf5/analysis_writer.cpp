@@ -53,8 +53,7 @@ void AppendLobe(std::vector<double>& t, const Lobe& l) {
 }
 
 void WriteRowsIfAny(PatternFileWriter& w, const std::string& path, std::size_t rows,
-                    std::size_t columns, const std::vector<double>& table,
-                    std::string_view units) {
+                    std::size_t columns, const std::vector<double>& table, std::string_view units) {
   if (rows > 0) w.WriteTable(path, {rows, columns}, table.data(), units);
 }
 
@@ -147,9 +146,8 @@ void WriteAnalysis(PatternFileWriter& w, const PatternAnalysis& a, const Analysi
   WriteRowsIfAny(w, root + "/nulls", a.nulls.size(), 5, t, kNullUnits);
   t.clear();
   for (const ProtectedDirectionField& f : a.protected_directions) {
-    t.insert(t.end(), {f.direction.theta_deg, f.direction.phi_deg, f.directivity,
-                       f.directivity_dbi, f.level_db, f.co_polar_dbi, f.cross_polar_dbi,
-                       f.no_field ? 1.0 : 0.0});
+    t.insert(t.end(), {f.direction.theta_deg, f.direction.phi_deg, f.directivity, f.directivity_dbi,
+                       f.level_db, f.co_polar_dbi, f.cross_polar_dbi, f.no_field ? 1.0 : 0.0});
   }
   WriteRowsIfAny(w, root + "/protected_directions", a.protected_directions.size(), 8, t,
                  kProtectedUnits);

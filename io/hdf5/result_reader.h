@@ -9,8 +9,8 @@
 
 #include "engine/pattern.h"
 #include "engine/types.h"
-#include "io/io_error.h"
 #include "io/hdf5/result_writer.h"
+#include "io/io_error.h"
 
 namespace lobecast {
 

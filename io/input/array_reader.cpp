@@ -139,8 +139,7 @@ class Reader {
     bool any_current = false;
     for (const Dipole& d : out.array.dipoles) any_current = any_current || d.current_a != 0.0;
     if (!any_current) {
-      throw InputError(out.dipole_locations.front(), "dipole[*].current",
-                       "every magnitude is 0",
+      throw InputError(out.dipole_locations.front(), "dipole[*].current", "every magnitude is 0",
                        "at least one non-zero current (with none, nothing radiates and "
                        "directivity is undefined)");
     }

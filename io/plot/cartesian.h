@@ -4,9 +4,9 @@
 // crossings) and the highest side lobe annotated.
 #pragma once
 
+#include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/options.h"
-#include "io/hdf5/result_reader.h"
 
 namespace lobecast::plot {
 

@@ -8,10 +8,10 @@
 #include <string>
 #include <vector>
 
+#include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/cuts.h"
 #include "io/plot/options.h"
-#include "io/hdf5/result_reader.h"
 
 namespace lobecast::plot {
 

@@ -12,8 +12,8 @@
 #include <string_view>
 #include <vector>
 
-#include "io/plot/quantity.h"
 #include "io/hdf5/result_reader.h"
+#include "io/plot/quantity.h"
 
 namespace lobecast::plot {
 

@@ -9,8 +9,8 @@
 #include <utility>
 #include <vector>
 
-#include "io/plot/canvas.h"
 #include "io/hdf5/result_reader.h"
+#include "io/plot/canvas.h"
 
 namespace lobecast::plot {
 

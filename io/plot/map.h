@@ -9,10 +9,10 @@
 #include <string>
 #include <vector>
 
+#include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/map_panel.h"
 #include "io/plot/options.h"
-#include "io/hdf5/result_reader.h"
 
 namespace lobecast::plot {
 

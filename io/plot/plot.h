@@ -7,11 +7,11 @@
 #include <string>
 #include <vector>
 
+#include "io/hdf5/result_reader.h"
 #include "io/plot/cartesian.h"
 #include "io/plot/map.h"
 #include "io/plot/options.h"
 #include "io/plot/polar.h"
-#include "io/hdf5/result_reader.h"
 
 namespace lobecast::plot {
 

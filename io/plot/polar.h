@@ -8,9 +8,9 @@
 // the right and phi increasing counter-clockwise (seen from +z).
 #pragma once
 
+#include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/options.h"
-#include "io/hdf5/result_reader.h"
 
 namespace lobecast::plot {
 

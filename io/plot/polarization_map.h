@@ -7,10 +7,10 @@
 // white ("weak field").
 #pragma once
 
+#include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/map.h"
 #include "io/plot/options.h"
-#include "io/hdf5/result_reader.h"
 
 namespace lobecast::plot {
 

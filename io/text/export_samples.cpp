@@ -125,8 +125,8 @@ std::optional<CutSpec> ParseCutSpec(std::string_view text, std::string* why) {
     double v[3];
     for (int k = 0; k < 3; ++k) {
       const std::size_t comma = k < 2 ? rest.find(',') : rest.size();
-      const auto x = comma == std::string_view::npos ? std::nullopt
-                                                      : ParseNumber(rest.substr(0, comma));
+      const auto x =
+          comma == std::string_view::npos ? std::nullopt : ParseNumber(rest.substr(0, comma));
       if (!x || (k == 2 && rest.find(',') != std::string_view::npos)) {
         Fail(why, "cut '" + std::string(text) + "': " + expected);
         return std::nullopt;

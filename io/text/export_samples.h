@@ -38,8 +38,8 @@ struct ExportSample {
   double phi_deg = 0.0;
   // Signed angle along a phi or great-circle cut (see above), deg; NaN otherwise.
   double cut_angle_deg = std::numeric_limits<double>::quiet_NaN();
-  Complex e_theta = 0.0;  // rE_theta, V
-  Complex e_phi = 0.0;    // rE_phi, V
+  Complex e_theta = 0.0;     // rE_theta, V
+  Complex e_phi = 0.0;       // rE_phi, V
   double directivity = 0.0;  // linear
   double axial_ratio_db = 0.0;
   double tilt_deg = 0.0;
@@ -50,7 +50,7 @@ struct ExportSample {
 struct CutSpec {
   enum class Kind { kPhi, kTheta, kGreatCircle };
   Kind kind = Kind::kPhi;
-  double value_deg = 0.0;  // P or T
+  double value_deg = 0.0;                                                    // P or T
   double through_theta_deg = 0.0, through_phi_deg = 0.0, heading_deg = 0.0;  // great circle
 };
 

@@ -64,11 +64,21 @@ void JsonWriter::String(std::string_view value) {
   for (const char ch : value) {
     const auto c = static_cast<unsigned char>(ch);
     switch (c) {
-      case '"': out_ += "\\\""; break;
-      case '\\': out_ += "\\\\"; break;
-      case '\n': out_ += "\\n"; break;
-      case '\t': out_ += "\\t"; break;
-      case '\r': out_ += "\\r"; break;
+      case '"':
+        out_ += "\\\"";
+        break;
+      case '\\':
+        out_ += "\\\\";
+        break;
+      case '\n':
+        out_ += "\\n";
+        break;
+      case '\t':
+        out_ += "\\t";
+        break;
+      case '\r':
+        out_ += "\\r";
+        break;
       default:
         if (c < 0x20) {
           char buf[8];

@@ -5,12 +5,12 @@
 #include <sstream>
 #include <string>
 
-#include "io/text/summary_text.h"
-#include "io/text/text_format.h"
 #include "engine/constants.h"
 #include "engine/polarization.h"
-#include "io/text/json_writer.h"
 #include "io/safety_note.h"
+#include "io/text/json_writer.h"
+#include "io/text/summary_text.h"
+#include "io/text/text_format.h"
 
 namespace lobecast::text {
 namespace {
@@ -56,9 +56,9 @@ std::string AnalysisBrief(const PatternAnalysis& a) {
   auto width = [](const BeamCut& c) {
     return c.half_power_found ? Angle(c.half_power_width_deg) + " deg" : std::string("none");
   };
-  s << "beam         D = " << Db(a.peak.directivity_dbi) << " dBi at " << Direction(a.peak.direction)
-    << " (refined); HPBW " << width(a.elevation_cut) << " (elevation plane), "
-    << width(a.orthogonal_cut) << " (orthogonal plane)\n";
+  s << "beam         D = " << Db(a.peak.directivity_dbi) << " dBi at "
+    << Direction(a.peak.direction) << " (refined); HPBW " << width(a.elevation_cut)
+    << " (elevation plane), " << width(a.orthogonal_cut) << " (orthogonal plane)\n";
   if (a.highest_side_lobe) {
     s << "side lobe    highest " << Db(a.highest_side_lobe->level_db) << " dB re peak at "
       << Direction(a.highest_side_lobe->direction) << "\n";
@@ -67,13 +67,11 @@ std::string AnalysisBrief(const PatternAnalysis& a) {
   }
   const PolarizationPurity& p = a.polarization;
   s << "purity       XPD at peak " << Db(p.xpd_at_peak_db) << " dB (reference "
-    << ReferenceName(p.reference) << "), axial ratio " << Db(p.axial_ratio_at_peak_db)
-    << " dB\n";
+    << ReferenceName(p.reference) << "), axial ratio " << Db(p.axial_ratio_at_peak_db) << " dB\n";
   return s.str();
 }
 
-std::string ReportText(const ReportContext& c, const PatternAnalysis& a,
-                       const AnalysisOptions& o) {
+std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const AnalysisOptions& o) {
   std::ostringstream s;
   s << "lobecast report: " << c.result_path << "\n";
   s << "array   " << (c.array_name.empty() ? "(unnamed)" : "\"" + c.array_name + "\"") << ", "
@@ -149,14 +147,14 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a,
   if (!a.protected_directions.empty()) {
     s << "\nProtected directions (exact field; co/cross for reference "
       << ReferenceName(o.reference) << ")\n";
-    s << "      #   theta (deg)     phi (deg)      D (dBi)   level (dB)     co (dBi)  cross (dBi)\n";
+    s << "      #   theta (deg)     phi (deg)      D (dBi)   level (dB)     co (dBi)  cross "
+         "(dBi)\n";
     for (std::size_t i = 0; i < a.protected_directions.size(); ++i) {
       const ProtectedDirectionField& f = a.protected_directions[i];
       s << Printf("  %5zu  %12s  %12s  %11s  %11s  %11s  %11s%s\n", i,
                   Angle(f.direction.theta_deg).c_str(), Angle(f.direction.phi_deg).c_str(),
-                  Db(f.directivity_dbi).c_str(), Db(f.level_db).c_str(),
-                  Db(f.co_polar_dbi).c_str(), Db(f.cross_polar_dbi).c_str(),
-                  f.no_field ? "  below the ground plane" : "");
+                  Db(f.directivity_dbi).c_str(), Db(f.level_db).c_str(), Db(f.co_polar_dbi).c_str(),
+                  Db(f.cross_polar_dbi).c_str(), f.no_field ? "  below the ground plane" : "");
     }
   }
 
@@ -177,8 +175,7 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a,
   return s.str();
 }
 
-std::string ReportJson(const ReportContext& c, const PatternAnalysis& a,
-                       const AnalysisOptions& o) {
+std::string ReportJson(const ReportContext& c, const PatternAnalysis& a, const AnalysisOptions& o) {
   JsonWriter j;
   auto direction = [&j](std::string_view key, const DirectionDeg& d) {
     j.Key(key);

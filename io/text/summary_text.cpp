@@ -5,9 +5,9 @@
 #include <sstream>
 #include <string>
 
-#include "io/text/text_format.h"
 #include "engine/polarization.h"
 #include "io/safety_note.h"
+#include "io/text/text_format.h"
 
 namespace lobecast::text {
 namespace {

@@ -20,10 +20,14 @@ inline std::string Printf(const char* fmt, auto... args) {
 // "x (Ludwig-3)", "y (Ludwig-3)", "RHCP", "LHCP".
 inline std::string ReferenceName(PolarizationReference r) {
   switch (r) {
-    case PolarizationReference::kLinearX: return "x (Ludwig-3)";
-    case PolarizationReference::kLinearY: return "y (Ludwig-3)";
-    case PolarizationReference::kRightCircular: return "RHCP";
-    case PolarizationReference::kLeftCircular: return "LHCP";
+    case PolarizationReference::kLinearX:
+      return "x (Ludwig-3)";
+    case PolarizationReference::kLinearY:
+      return "y (Ludwig-3)";
+    case PolarizationReference::kRightCircular:
+      return "RHCP";
+    case PolarizationReference::kLeftCircular:
+      return "LHCP";
   }
   return "?";
 }
