@@ -1,5 +1,6 @@
 // The whole pattern job on a grid (pattern.h).
 #include "engine/pattern.h"
+#include "engine/threads.h"
 
 #include <algorithm>
 #include <chrono>
@@ -43,7 +44,7 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   PatternResult r;
   r.grid = grid;
   ComputeSummary& s = r.summary;
-  s.threads_used = options.num_threads > 0 ? options.num_threads : omp_get_max_threads();
+  s.threads_used = ResolveThreads(options.num_threads);
   s.num_dipoles = array.size();
 
   auto t0 = Clock::now();

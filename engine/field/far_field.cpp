@@ -1,6 +1,7 @@
 // Far field of elemental dipoles (far_field.h): plan, method choice, the
 // vectorized direct sum, and the glue to the NUFFT fast path (nufft.h).
 #include "engine/field/far_field.h"
+#include "engine/threads.h"
 
 #include <algorithm>
 #include <array>
@@ -225,7 +226,7 @@ double FieldPlan::EstimatedDirectSeconds() const {
   std::size_t live = 0;
   for (unsigned char z : dirs_.zeroed) live += z ? 0 : 1;
   const double per = collinear_ ? kSecondsPerPairCollinear : kSecondsPerPairGeneral;
-  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  const int threads = ResolveThreads(num_threads_);
   return static_cast<double>(live) * static_cast<double>(num_sources()) * per / threads;
 }
 
@@ -238,7 +239,7 @@ static std::array<double, 2> PassTolerances(double tolerance_relative) {
 
 double FieldPlan::EstimatedType3Seconds() const {
   const double comps = collinear_ ? 1.0 : 3.0;
-  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  const int threads = ResolveThreads(num_threads_);
   double total = 0;
   for (double eps : PassTolerances(tolerance_relative_)) {
     const NufftGeometry g = Nufft3::GeometryFor(source_pos_, dirs_.k_r_hat, eps);
@@ -256,7 +257,7 @@ double FieldPlan::EstimatedType3Seconds() const {
 double FieldPlan::EstimatedLatticeSeconds() const {
   if (!lattice_) return 1e300;
   const double comps = collinear_ ? 1.0 : 3.0;
-  const int threads = num_threads_ > 0 ? num_threads_ : omp_get_max_threads();
+  const int threads = ResolveThreads(num_threads_);
   const auto nd = static_cast<double>(num_directions());
   double total = 0;
   for (double eps : PassTolerances(tolerance_relative_)) {
@@ -452,7 +453,7 @@ FieldPlan::DirectionData FieldPlan::MakeDirectionData(const Directions& directio
   // The unit vectors of grid.h's Directions, from one sin/cos pair per angle
   // (the same values as Directions::r_hat etc.: std::sin and std::cos of the
   // same arguments), in parallel: on dense grids this loop is the plan's cost.
-  const int threads = nd < 4096 ? 1 : (num_threads_ > 0 ? num_threads_ : omp_get_max_threads());
+  const int threads = nd < 4096 ? 1 : ResolveThreads(num_threads_);
 #pragma omp parallel for num_threads(threads) schedule(static)
   for (Eigen::Index i = 0; i < nd; ++i) {
     const auto u = static_cast<std::size_t>(i);
@@ -534,9 +535,8 @@ void FieldPlan::SumDirect(const Eigen::VectorXcd& currents_a, const DirectionDat
   const auto num_chunks =
       static_cast<std::ptrdiff_t>((live.size() + kChunkDirections - 1) / kChunkDirections);
   // No more threads than chunks: a probe of a few directions runs on one.
-  const int threads = static_cast<int>(
-      std::clamp<std::ptrdiff_t>(num_threads_ > 0 ? num_threads_ : omp_get_max_threads(), 1,
-                                 std::max<std::ptrdiff_t>(1, num_chunks)));
+  const int threads = static_cast<int>(std::clamp<std::ptrdiff_t>(
+      ResolveThreads(num_threads_), 1, std::max<std::ptrdiff_t>(1, num_chunks)));
   const Complex minus_j_pref(0.0, -prefactor_);
 
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 1)

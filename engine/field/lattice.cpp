@@ -1,5 +1,6 @@
 // Lattice detection and the lattice's type-2 sum (lattice.h).
 #include "engine/field/lattice.h"
+#include "engine/threads.h"
 
 #include <algorithm>
 #include <cmath>
@@ -56,8 +57,6 @@ std::optional<Axis> FindAxis(std::vector<double> v, double max_offset, double ma
   }
   return std::nullopt;
 }
-
-int Threads(int requested) { return requested > 0 ? requested : omp_get_max_threads(); }
 
 // At most this many layers: each costs a pass over every target, so a cube of
 // few sites per side must not become hundreds of zero-dimensional transforms.
@@ -254,7 +253,7 @@ Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
       n[l] = static_cast<double>(r % m);
       r /= m;
     }
-#pragma omp parallel for num_threads(Threads(num_threads_)) schedule(static)
+#pragma omp parallel for num_threads(ResolveThreads(num_threads_)) schedule(static)
     for (Eigen::Index k = 0; k < nk; ++k) {
       double phase = 0;
       for (Eigen::Index l = 0; l < nl; ++l) phase += layer_targets_(l, k) * n[l];

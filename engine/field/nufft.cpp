@@ -1,5 +1,6 @@
 // Type-3 NUFFT with the exponential-of-semicircle kernel (nufft.h).
 #include "engine/field/nufft.h"
+#include "engine/threads.h"
 
 #include <algorithm>
 #include <cmath>
@@ -213,8 +214,6 @@ void InterpolateTargets(const GridView& g, const Eigen::Matrix3Xd& targets, std:
   }
 }
 
-int Threads(int requested) { return requested > 0 ? requested : omp_get_max_threads(); }
-
 }  // namespace
 
 double NufftGeometry::kernel_points() const {
@@ -293,7 +292,7 @@ Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
   const std::array<int, 3>& n2 = geometry_.fft_size;
   const std::size_t plane = static_cast<std::size_t>(n2[1]) * static_cast<std::size_t>(n2[2]);
   const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
-  const int threads = Threads(num_threads_);
+  const int threads = ResolveThreads(num_threads_);
 
   auto* grid =
       static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
@@ -397,7 +396,7 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
   // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi).
   target_factor_.resize(centred.cols());
   const auto m = static_cast<std::ptrdiff_t>(centred.cols());
-#pragma omp parallel for num_threads(Threads(num_threads_)) schedule(static)
+#pragma omp parallel for num_threads(ResolveThreads(num_threads_)) schedule(static)
   for (std::ptrdiff_t k = 0; k < m; ++k) {
     double scale = 1.0;
     for (int d = 0; d < 3; ++d) {
@@ -455,7 +454,7 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
   while (slab_dim < 2 && n[static_cast<std::size_t>(slab_dim)] == 1) ++slab_dim;
   Eigen::MatrixXcd phased(points_.cols(), nc);
   for (int c = 0; c < nc; ++c) phased.col(c) = strengths.col(c).cwiseProduct(point_phase_);
-#pragma omp parallel num_threads(Threads(num_threads_))
+#pragma omp parallel num_threads(ResolveThreads(num_threads_))
   {
     const int t = omp_get_thread_num(), nt = omp_get_num_threads();
     const long slab_n = n[static_cast<std::size_t>(slab_dim)];

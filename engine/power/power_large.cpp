@@ -1,5 +1,6 @@
 // Matrix-free closed-form power (power_large.h).
 #include "engine/power/power_large.h"
+#include "engine/threads.h"
 
 #include <cmath>
 #include <limits>
@@ -87,7 +88,7 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   const double scale = k * k * kEta0_ohm / (4.0 * kPi);
   const auto n = static_cast<std::ptrdiff_t>(array.size());
   Eigen::VectorXcd ri(n);  // R I
-  const int threads = num_threads > 0 ? num_threads : omp_get_max_threads();
+  const int threads = ResolveThreads(num_threads);
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 8)
   for (std::ptrdiff_t m = 0; m < n; ++m) {
     const Dipole& dm = array.dipoles[static_cast<std::size_t>(m)];
