@@ -52,7 +52,10 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   if (array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix) {
     r.resistance_ohm = ResistanceMatrix(array);
     r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
-    r.active_resistance_ohm = ActiveResistance(r.resistance_ohm, currents);
+    // The active resistances need the mutual reactances too: summed row by row
+    // (O(N) memory) rather than from a second, complex N x N matrix.
+    r.active_resistance_ohm =
+        RadiatedPowerStreamed(array, currents, options.num_threads).active_resistance_ohm;
     s.power_method = "matrix";
   } else {
     const StreamedPower sp = RadiatedPowerStreamed(array, currents, options.num_threads);

@@ -71,7 +71,7 @@ struct PatternResult {
   Eigen::VectorXd tilt_deg;
   std::vector<std::int8_t> sense;
   Eigen::MatrixXd resistance_ohm;         // (N, N); 0 x 0 when streamed
-  Eigen::VectorXd active_resistance_ohm;  // (N)
+  Eigen::VectorXd active_resistance_ohm;  // (N) Re Z_act (engine/power/impedance.h)
   double radiated_power_w = 0;
   ComputeSummary summary;
 };

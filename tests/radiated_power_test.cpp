@@ -257,41 +257,5 @@ INSTANTIATE_TEST_SUITE_P(RandomArrays, ClosedFormVsQuadrature, ::testing::Values
                                   std::to_string(info.param.num_dipoles);
                          });
 
-TEST(ActiveResistance, WeightedSumIsThePower) {
-  // sum_m 1/2 |I_m|^2 Ract_m = 1/2 Re(I^H R I) = P (definition, CONVENTIONS §1).
-  TestRng rng(60);
-  for (Ground g : {Ground::kNone, Ground::kPec}) {
-    const Array a = testing::RandomArray(rng, 17, g);
-    const Eigen::MatrixXd r = ResistanceMatrix(a);
-    const Eigen::VectorXcd i = CurrentsOf(a);
-    const Eigen::VectorXd ract = ActiveResistance(r, i);
-    ASSERT_EQ(ract.size(), 17);
-    double sum = 0;
-    for (int m = 0; m < 17; ++m) {
-      sum += 0.5 * std::norm(i[m]) * ract[m];
-      Complex v = 0;
-      for (int n = 0; n < 17; ++n) v += r(m, n) * i[n];
-      // Rounding in the sum is relative to max|R| sum|I_n|, divided by |I_m|.
-      const double tol = 1e-13 * r.cwiseAbs().maxCoeff() * i.cwiseAbs().sum() / std::abs(i[m]);
-      EXPECT_NEAR(ract[m], (v / i[m]).real(), tol) << "element " << m;
-    }
-    const double p = RadiatedPower(r, i);
-    EXPECT_NEAR(sum, p, 1e-12 * p);
-  }
-}
-
-TEST(ActiveResistance, UndefinedForAnUndrivenElement) {
-  TestRng rng(61);
-  Array a = testing::RandomArray(rng, 4, Ground::kNone);
-  a.dipoles[2].current_a = 0;
-  const Eigen::VectorXd ract = ActiveResistance(ResistanceMatrix(a), CurrentsOf(a));
-  EXPECT_TRUE(std::isnan(ract[2]));
-  EXPECT_TRUE(std::isfinite(ract[0]));
-  // A single driven dipole: its active resistance is its self resistance.
-  const Array one = OneDipoleArray(a.dipoles[0]);
-  const Eigen::MatrixXd r1 = ResistanceMatrix(one);
-  EXPECT_NEAR(ActiveResistance(r1, CurrentsOf(one))[0], r1(0, 0), 1e-14 * r1(0, 0));
-}
-
 }  // namespace
 }  // namespace lobecast

@@ -10,6 +10,10 @@ check, independently of the C++ code,
     formula, written out again here with numpy, images for a PEC ground);
   * the resistance matrix recomputed with scipy.special.spherical_jn
     (reference library) from the closed form of CONVENTIONS §1;
+  * the active resistances Re Z_act,m = Re(sum_n Z_mn I_n / I_m) with the mutual
+    reactances from scipy.special.spherical_yn (the spherical Hankel function
+    h2 = j - j y of the mutual impedance, CONVENTIONS §1), self reactance left out
+    as it cancels from the real part;
   * the stored power against a quadrature of the stored intensity over the grid
     (trapezoid in theta and phi; loose tolerance: the grid is coarse).
 Exit status 0 when every check passes; failures print both values.
@@ -22,7 +26,7 @@ import sys
 
 import h5py
 import numpy as np
-from scipy.special import spherical_jn
+from scipy.special import spherical_jn, spherical_yn
 
 C0 = 299792458.0
 MU0 = 1.25663706212e-6  # CODATA 2018
@@ -110,6 +114,34 @@ def resistance_scipy(f):
     return k * k * ETA0 / (4 * np.pi) * np.outer(le, le) * r
 
 
+def mutual_reactance_scipy(f):
+    """X'_mn = Im Z_mn for n != m, with the image terms; 0 for dipoles at one point
+    that are orthogonal, NaN for others there, and 0 on the diagonal of the direct
+    block (the self reactance is not needed for the active resistance)."""
+    _, ground, k, pos, u, le, _ = array_of(f)
+
+    def block(pa, ua, pb, ub, skip_diagonal):
+        d = pa[:, None, :] - pb[None, :, :]
+        dist = np.linalg.norm(d, axis=-1)
+        x = k * dist
+        uu = ua @ ub.T
+        with np.errstate(invalid="ignore", divide="ignore"):
+            dh = np.where(dist[..., None] > 0, d / dist[..., None], 0.0)
+            gy = np.where(x > 0, -(spherical_yn(0, x) - spherical_yn(1, x) / x), 0.0)
+            y2 = np.where(x > 0, -spherical_yn(2, x), 0.0)
+        ud = np.einsum("ik,ijk->ij", ua, dh) * np.einsum("jk,ijk->ij", ub, dh)
+        out = uu * gy + ud * y2
+        out[(x == 0) & (np.abs(uu) > 1e-12)] = np.nan
+        if skip_diagonal:
+            np.fill_diagonal(out, 0.0)
+        return out
+
+    x = block(pos, u, pos, u, True)
+    if ground == "pec":
+        x = x + block(pos, u, *images(pos, u), False)
+    return k * k * ETA0 / (4 * np.pi) * np.outer(le, le) * x
+
+
 def trapezoid_power(f):
     th = np.radians(f["/grid/theta_deg"][...])
     ph = np.radians(f["/grid/phi_deg"][...])
@@ -153,6 +185,21 @@ def check_file(path, name):
         p_py = 0.5 * np.real(np.conj(cur) @ r_py @ cur)
         check(abs(p - p_py) < 1e-9 * p, f"{name}: power {p} vs numpy {p_py}")
 
+        # Active resistance (CONVENTIONS §1): needs the mutual reactances; rounding
+        # is relative to sum_n |Z_mn I_n| / |I_m|.
+        z_py = r_py + 1j * mutual_reactance_scipy(f)
+        live = cur != 0
+        zi = (z_py[:, live] @ cur[live]) / np.where(live, cur, 1)
+        ract_py = np.where(live, zi.real, np.nan)
+        ract = f["/power/active_resistance_ohm"][...]
+        scale = (np.abs(z_py) @ np.abs(cur)) / np.where(live, np.abs(cur), 1)
+        same_nan = np.array_equal(np.isnan(ract), np.isnan(ract_py))
+        ok = np.isfinite(ract_py)
+        e_act = float(np.max(np.abs(ract - ract_py)[ok] / scale[ok], initial=0.0))
+        check(same_nan and e_act < 1e-9,
+              f"{name}: active resistance vs scipy: rel err {e_act:.3e}, NaN where "
+              f"{np.isnan(ract)} vs {np.isnan(ract_py)}")
+
         p_quad, th, ph = trapezoid_power(f)
         theta_top = np.pi / 2 if ground_of(f) == "pec" else np.pi
         full = (abs(th[0]) < 1e-12 and abs(th[-1] - theta_top) < 1e-12
@@ -160,6 +207,7 @@ def check_file(path, name):
         if full:
             check(abs(p_quad - p) < 2e-2 * p, f"{name}: trapezoid power {p_quad} vs closed form {p}")
         print(f"ok  {name}: D err ok, rE vs numpy {max(e1, e2):.1e}, R vs scipy {e:.1e}, "
+              f"R_active vs scipy {e_act:.1e}, "
               f"P closed {p:.6g} W, trapezoid {p_quad:.6g} W")
 
 

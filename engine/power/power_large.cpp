@@ -13,6 +13,7 @@
 #include "engine/field/kernel_clones.h"
 #include "engine/field/sincos.h"
 #include "engine/ground.h"
+#include "engine/power/impedance.h"
 #include "engine/power/radiated_power.h"
 
 namespace lobecast {
@@ -25,18 +26,23 @@ struct Sources {
   std::vector<double> x, y, z, ux, uy, uz, le, ir, ii;  // I of the driving dipole
 };
 
-// sum over sources s of Le_m Le_s [(u_m.u_s) f(x) + (u_m.d)(u_s.d)/d^2 j2(x)] I_s for
-// the sources with x = k |r_m - r_s| >= kSeriesBelow (the others contribute 0 here).
+// Row m of R I and of X' I (X' the mutual reactances, no self term) over the
+// sources with x = k |r_m - r_s| >= kSeriesBelow (the others contribute 0 here),
+// without the factor k^2 eta0 / (4 pi): sum_s Le_m Le_s [(u_m.u_s) h(x) +
+// (u_m.d)(u_s.d)/d^2 h2(x)] I_s with the kernels of impedance.h.
+struct RowSums {
+  Complex r_i, x_i;
+};
 LOBECAST_KERNEL_CLONES
-void RowFar(const Sources& s, const Dipole& m, double k, double* out_r, double* out_i) {
+RowSums RowFar(const Sources& s, const Dipole& m, double k) {
   const double mx = m.position_m.x(), my = m.position_m.y(), mz = m.position_m.z();
   const double ax = m.orientation.x(), ay = m.orientation.y(), az = m.orientation.z();
   const std::size_t n = s.x.size();
   const double *x = s.x.data(), *y = s.y.data(), *z = s.z.data();
   const double *ux = s.ux.data(), *uy = s.uy.data(), *uz = s.uz.data();
   const double *le = s.le.data(), *ir = s.ir.data(), *ii = s.ii.data();
-  double vr = 0, vi = 0;
-#pragma omp simd reduction(+ : vr, vi)
+  double vr = 0, vi = 0, wr = 0, wi = 0;
+#pragma omp simd reduction(+ : vr, vi, wr, wi)
   for (std::size_t j = 0; j < n; ++j) {
     const double dx = mx - x[j], dy = my - y[j], dz = mz - z[j];
     const double d2 = dx * dx + dy * dy + dz * dz;
@@ -46,19 +52,25 @@ void RowFar(const Sources& s, const Dipole& m, double k, double* out_r, double* 
     double sn, cs;
     SinCos(xs, sn, cs);
     const double inv = 1.0 / xs, inv2 = inv * inv;
-    // Spherical Bessel closed forms (DLMF 10.49.3).
+    // Spherical Bessel and Neumann closed forms (DLMF 10.49.3, 10.49.4).
     const double j0 = sn * inv;
     const double j1 = sn * inv2 - cs * inv;
     const double j2 = (3.0 * inv2 - 1.0) * sn * inv - 3.0 * cs * inv2;
-    const double f = j0 - j1 * inv;
+    const double y0 = -cs * inv;
+    const double y1 = -cs * inv2 - sn * inv;
+    const double y2 = (1.0 - 3.0 * inv2) * cs * inv - 3.0 * sn * inv2;
     const double uu = ax * ux[j] + ay * uy[j] + az * uz[j];
     const double ad = ax * dx + ay * dy + az * dz, bd = ux[j] * dx + uy[j] * dy + uz[j] * dz;
-    const double kern = far ? le[j] * (uu * f + ad * bd * (k * k) * inv2 * j2) : 0.0;
-    vr += kern * ir[j];
-    vi += kern * ii[j];
+    const double dd = ad * bd * (k * k) * inv2;
+    const double kr = far ? le[j] * (uu * (j0 - j1 * inv) + dd * j2) : 0.0;
+    const double kx = far ? -le[j] * (uu * (y0 - y1 * inv) + dd * y2) : 0.0;
+    vr += kr * ir[j];
+    vi += kr * ii[j];
+    wr += kx * ir[j];
+    wi += kx * ii[j];
   }
-  *out_r = vr * m.effective_length_m();
-  *out_i = vi * m.effective_length_m();
+  const double lm = m.effective_length_m();
+  return {lm * Complex(vr, vi), lm * Complex(wr, wi)};
 }
 
 }  // namespace
@@ -87,30 +99,35 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   }
   const double scale = k * k * kEta0_ohm / (4.0 * kPi);
   const auto n = static_cast<std::ptrdiff_t>(array.size());
-  Eigen::VectorXcd ri(n);  // R I
+  Eigen::VectorXcd ri(n), xi(n);  // R I and X' I
   const int threads = ResolveThreads(num_threads);
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 8)
   for (std::ptrdiff_t m = 0; m < n; ++m) {
     const Dipole& dm = array.dipoles[static_cast<std::size_t>(m)];
-    double vr, vi;
-    RowFar(s, dm, k, &vr, &vi);
-    // Near pairs (x < 2, including m itself) through the series, in source order.
+    RowSums row = RowFar(s, dm, k);
+    // Near pairs (x < 2) through the series, in source order. The self term adds
+    // R_mm only (the active resistance does not need X_mm); a source without
+    // current couples nothing (and may have no finite X_mn, impedance.h).
     for (std::size_t j = 0; j < src.size(); ++j) {
       const double x = k * (dm.position_m - src[j].position_m).norm();
       if (x >= kSeriesBelow) continue;
-      const double r = MutualResistance(dm, src[j], k) / scale;
-      vr += r * s.ir[j];
-      vi += r * s.ii[j];
+      const Complex c(s.ir[j], s.ii[j]);
+      row.r_i += MutualResistance(dm, src[j], k) / scale * c;
+      if (j == static_cast<std::size_t>(m) || c == Complex(0.0)) continue;
+      row.x_i += MutualImpedance(dm, src[j], k).imag() / scale * c;
     }
-    ri[m] = scale * Complex(vr, vi);
+    ri[m] = scale * row.r_i;
+    xi[m] = scale * row.x_i;
   }
   StreamedPower out;
+  // P from R alone: I^H X' I is real, so j I^H X' I adds only rounding to Re.
   out.radiated_power_w = 0.5 * currents_a.dot(ri).real();  // dot conjugates the first
   out.active_resistance_ohm.resize(n);
   for (Eigen::Index m = 0; m < n; ++m) {
-    out.active_resistance_ohm[m] = currents_a[m] == Complex(0.0)
+    const Complex i = currents_a[m];
+    out.active_resistance_ohm[m] = i == Complex(0.0)
                                        ? std::numeric_limits<double>::quiet_NaN()
-                                       : (ri[m] / currents_a[m]).real();
+                                       : ((ri[m] + Complex(0.0, 1.0) * xi[m]) / i).real();
   }
   return out;
 }

@@ -1,12 +1,14 @@
 // Radiated power and active resistances for large arrays without the resistance
-// matrix: the same closed form as radiated_power.h (CONVENTIONS §1),
+// matrix: the same closed forms as radiated_power.h and impedance.h (CONVENTIONS §1),
 //
-//   P = 1/2 Re(I^H R I),  R_act,m = Re((R I)_m / I_m),
+//   P = 1/2 Re(I^H R I),  R_act,m = Re(Z_act,m) = Re(((R + j X') I)_m / I_m),
 //
-// with (R I)_m summed row by row as the R_mn are generated. O(N^2) time like the
-// matrix route but O(N) memory, so 10^5 dipoles need megabytes instead of 80 GB.
-// The rows are independent and each runs over the sources in a fixed order, so
-// the result does not depend on the thread count. The inner loop is vectorized
+// X' the mutual reactances (X'_mm = 0 in free space, m's own image over PEC: the
+// active resistance does not need the self reactance). (R I)_m and (X' I)_m are
+// summed row by row as the kernels are generated. O(N^2) time like the matrix route
+// but O(N) memory, so 10^5 dipoles need megabytes instead of 80 GB. The rows are
+// independent and each runs over the sources in a fixed order, so the result does
+// not depend on the thread count. The inner loop is vectorized
 // (engine/field/sincos.h); pairs closer than x = k d < 2 take the series of
 // RadiationKernelAt, as the matrix route does.
 #pragma once
@@ -19,7 +21,9 @@ namespace lobecast {
 
 struct StreamedPower {
   double radiated_power_w = 0;
-  Eigen::VectorXd active_resistance_ohm;  // NaN where I_m = 0
+  // Re Z_act,m (impedance.h); NaN where I_m = 0, or where a dipole at the same
+  // point couples with no finite reactance.
+  Eigen::VectorXd active_resistance_ohm;
 };
 
 // Throws InvalidArgument for an invalid array or a current vector of the wrong length.

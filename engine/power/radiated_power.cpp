@@ -122,15 +122,4 @@ void CheckRadiatedPower(double p) {
   }
 }
 
-Eigen::VectorXd ActiveResistance(const Eigen::MatrixXd& resistance_ohm,
-                                 const Eigen::VectorXcd& currents_a) {
-  const Eigen::VectorXcd v = resistance_ohm.cast<Complex>() * currents_a;
-  Eigen::VectorXd out(currents_a.size());
-  for (Eigen::Index m = 0; m < currents_a.size(); ++m) {
-    out[m] = currents_a[m] == Complex(0.0) ? std::numeric_limits<double>::quiet_NaN()
-                                           : (v[m] / currents_a[m]).real();
-  }
-  return out;
-}
-
 }  // namespace lobecast

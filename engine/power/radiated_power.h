@@ -39,8 +39,7 @@ double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorX
 // overflows, or none (or exactly cancelling ones), leave directivity undefined.
 void CheckRadiatedPower(double radiated_power_w);
 
-// Active (driving-point) resistance Re(sum_n R_mn I_n / I_m), ohm; NaN where I_m = 0.
-Eigen::VectorXd ActiveResistance(const Eigen::MatrixXd& resistance_ohm,
-                                 const Eigen::VectorXcd& currents_a);
+// The active (driving-point) resistance needs the mutual reactances as well:
+// engine/power/impedance.h (ActiveImpedance) and power_large.h.
 
 }  // namespace lobecast

@@ -18,6 +18,7 @@
 //   /pattern               intensity (Nt,Np) W/sr, directivity (Nt,Np) 1
 //   /polarization          axial_ratio_db dB, tilt_deg deg, sense int8 (Nt,Np)
 //   /power                 radiated_w () W, resistance_ohm (N,N), active_resistance_ohm (N)
+//                          (Re Z_act, CONVENTIONS §1: with the mutual reactances)
 //   /summary               attributes from ComputeSummary
 //   /summary/analysis      the pattern analysis, when written (io/hdf5/analysis_writer.h)
 #pragma once
