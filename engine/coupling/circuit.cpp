@@ -1,0 +1,112 @@
+// The array's circuit (circuit.h).
+#include "engine/coupling/circuit.h"
+
+#include <cmath>
+#include <limits>
+#include <sstream>
+
+#include <Eigen/LU>
+
+#include "engine/error.h"
+
+namespace lobecast {
+namespace {
+
+bool Finite(Complex c) { return std::isfinite(c.real()) && std::isfinite(c.imag()); }
+
+}  // namespace
+
+std::string_view ToString(PortKind k) {
+  switch (k) {
+    case PortKind::kCurrent:
+      return "current";
+    case PortKind::kDrive:
+      return "drive";
+    case PortKind::kLoad:
+      return "load";
+  }
+  return "current";
+}
+
+CircuitSolution SolveCircuit(const Eigen::MatrixXcd& z, const std::vector<Port>& ports) {
+  const auto n = static_cast<Eigen::Index>(ports.size());
+  if (z.rows() != n || z.cols() != n) {
+    std::ostringstream s;
+    s << "circuit: impedance matrix is " << z.rows() << "x" << z.cols() << " but there are " << n
+      << " ports";
+    throw InvalidArgument(s.str());
+  }
+  if (!z.allFinite()) {
+    throw InvalidArgument(
+        "circuit: the impedance matrix is not finite (a self reactance is unknown, or two "
+        "dipoles share a point); expected a reactance or radius for every driven or loaded "
+        "dipole");
+  }
+  std::vector<Eigen::Index> unknown, forced;
+  for (Eigen::Index m = 0; m < n; ++m) {
+    const Port& p = ports[static_cast<std::size_t>(m)];
+    if (!Finite(p.current_a) || !Finite(p.voltage_v) || !Finite(p.impedance_ohm)) {
+      std::ostringstream s;
+      s << "dipole " << m << ": " << ToString(p.kind) << " values are not finite";
+      throw InvalidArgument(s.str());
+    }
+    (p.kind == PortKind::kCurrent ? forced : unknown).push_back(m);
+  }
+  CircuitSolution out;
+  out.current_a = Eigen::VectorXcd::Zero(n);
+  for (Eigen::Index m : forced) out.current_a[m] = ports[static_cast<std::size_t>(m)].current_a;
+  if (!unknown.empty()) {
+    const auto nu = static_cast<Eigen::Index>(unknown.size());
+    Eigen::MatrixXcd a(nu, nu);
+    Eigen::VectorXcd b(nu);
+    for (Eigen::Index i = 0; i < nu; ++i) {
+      const Port& p = ports[static_cast<std::size_t>(unknown[i])];
+      for (Eigen::Index j = 0; j < nu; ++j) a(i, j) = z(unknown[i], unknown[j]);
+      a(i, i) += p.impedance_ohm;
+      b[i] = p.kind == PortKind::kDrive ? p.voltage_v : Complex(0.0);
+      for (Eigen::Index f : forced) b[i] -= z(unknown[i], f) * out.current_a[f];
+    }
+    const Eigen::PartialPivLU<Eigen::MatrixXcd> lu(a);
+    const Eigen::VectorXcd x = lu.solve(b);
+    // Partial pivoting does not report singularity: check the residual and the
+    // reciprocal condition estimate.
+    const double rcond = lu.rcond();
+    if (!(rcond > 1e-14) || !x.allFinite()) {
+      std::ostringstream s;
+      s << "circuit: the driven and loaded dipoles have no unique currents (reciprocal "
+           "condition number "
+        << rcond << "); expected sources or loads with some resistance off resonance";
+      throw InvalidArgument(s.str());
+    }
+    for (Eigen::Index i = 0; i < nu; ++i) out.current_a[unknown[i]] = x[i];
+  }
+  const Eigen::VectorXcd& i = out.current_a;
+  out.terminal_voltage_v = z * i;
+  out.input_impedance_ohm.resize(n);
+  out.accepted_w.resize(n);
+  out.supplied_w.resize(n);
+  out.port_loss_w.resize(n);
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  for (Eigen::Index m = 0; m < n; ++m) {
+    const Port& p = ports[static_cast<std::size_t>(m)];
+    const Complex v = out.terminal_voltage_v[m];
+    out.input_impedance_ohm[m] = i[m] == Complex(0.0) ? Complex(nan, nan) : v / i[m];
+    out.accepted_w[m] = 0.5 * (v * std::conj(i[m])).real();
+    out.port_loss_w[m] =
+        p.kind == PortKind::kCurrent ? 0.0 : 0.5 * std::norm(i[m]) * p.impedance_ohm.real();
+    switch (p.kind) {
+      case PortKind::kCurrent:
+        out.supplied_w[m] = out.accepted_w[m];
+        break;
+      case PortKind::kDrive:
+        out.supplied_w[m] = 0.5 * (p.voltage_v * std::conj(i[m])).real();
+        break;
+      case PortKind::kLoad:
+        out.supplied_w[m] = 0.0;
+        break;
+    }
+  }
+  return out;
+}
+
+}  // namespace lobecast
