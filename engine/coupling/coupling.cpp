@@ -1,0 +1,137 @@
+// Impedances, currents and powers of a coupled array (coupling.h).
+#include "engine/coupling/coupling.h"
+
+#include <cmath>
+#include <sstream>
+
+#include "engine/coupling/self_impedance.h"
+#include "engine/error.h"
+#include "engine/power/impedance.h"
+#include "engine/power/radiated_power.h"
+
+namespace lobecast {
+namespace {
+
+[[noreturn]] void Fail(std::size_t m, const std::string& what) {
+  std::ostringstream s;
+  s << "dipole " << m << ": " << what;
+  throw InvalidArgument(s.str());
+}
+
+bool Given(double v) { return v != 0 && !std::isinf(v); }
+
+}  // namespace
+
+bool NeedsCoupling(const std::vector<Port>& ports, const std::vector<Wire>& wires) {
+  for (const Port& p : ports)
+    if (p.kind != PortKind::kCurrent) return true;
+  for (const Wire& w : wires)
+    if (w.radius_m > 0 || !std::isnan(w.reactance_ohm) || Given(w.conductivity_s_m)) return true;
+  return false;
+}
+
+CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
+                             const std::vector<Wire>& wires, const CouplingOptions& options) {
+  Validate(array);
+  const std::size_t n = array.size();
+  if (ports.size() != n || wires.size() != n) {
+    std::ostringstream s;
+    s << "coupling: " << ports.size() << " ports and " << wires.size() << " wires for " << n
+      << " dipoles";
+    throw InvalidArgument(s.str());
+  }
+  const double z0 = options.reference_impedance_ohm;
+  if (!std::isfinite(z0) || z0 <= 0) {
+    std::ostringstream s;
+    s << "reference impedance: found " << z0 << " ohm, expected a finite number > 0";
+    throw InvalidArgument(s.str());
+  }
+  const double k = array.wavenumber_rad_m(), w = array.angular_frequency_rad_s();
+  CouplingResult r;
+  r.reference_impedance_ohm = z0;
+  r.self_reactance_ohm.resize(static_cast<Eigen::Index>(n));
+  r.loss_resistance_ohm = Eigen::VectorXd::Zero(static_cast<Eigen::Index>(n));
+  r.skin_depth_m = Eigen::VectorXd::Zero(static_cast<Eigen::Index>(n));
+  for (std::size_t m = 0; m < n; ++m) {
+    const Dipole& d = array.dipoles[m];
+    const Wire& wire = wires[m];
+    const auto e = static_cast<Eigen::Index>(m);
+    if (!std::isnan(wire.reactance_ohm)) {
+      if (!std::isfinite(wire.reactance_ohm)) Fail(m, "reactance is not finite");
+      r.self_reactance_ohm[e] = wire.reactance_ohm;
+    } else if (wire.radius_m > 0 && d.distribution == Distribution::kTriangular) {
+      r.self_reactance_ohm[e] = SelfReactance(d, wire.radius_m, k);
+    } else {
+      r.self_reactance_ohm[e] = std::numeric_limits<double>::quiet_NaN();
+    }
+    if (Given(wire.conductivity_s_m)) {
+      if (!(wire.radius_m > 0)) Fail(m, "a conductivity needs the wire radius (radius key)");
+      const OhmicLoss loss = LossResistance(d, wire.radius_m, wire.conductivity_s_m, w);
+      r.loss_resistance_ohm[e] = loss.resistance_ohm;
+      r.skin_depth_m[e] = loss.skin_depth_m;
+    }
+    if (ports[m].kind != PortKind::kCurrent && std::isnan(r.self_reactance_ohm[e])) {
+      Fail(m, std::string(ToString(ports[m].kind)) +
+                  " needs the self reactance: give the wire radius (triangular current) or a "
+                  "reactance" +
+                  (d.distribution == Distribution::kUniform
+                       ? " (a uniform current's reactance depends on its end loading)"
+                       : ""));
+    }
+  }
+  // An unknown self reactance belongs to a current-forced element (checked above).
+  // It enters only that element's own terminal voltage (Z_mm I_m), never another
+  // port's equation, so the solve takes 0 for it, and that element's V and Z_in are
+  // NaN (its accepted power 1/2 Re(V I*) does not depend on X_mm).
+  Eigen::VectorXd xs = r.self_reactance_ohm;
+  for (Eigen::Index e = 0; e < xs.size(); ++e)
+    if (std::isnan(xs[e])) xs[e] = 0;
+  Eigen::MatrixXcd z = ImpedanceMatrix(array, xs, options.num_threads);
+  z.diagonal().real() += r.loss_resistance_ohm;
+  r.circuit = SolveCircuit(z, ports);
+  for (Eigen::Index e = 0; e < xs.size(); ++e) {
+    if (!std::isnan(r.self_reactance_ohm[e])) continue;
+    z(e, e) = Complex(z(e, e).real(), std::numeric_limits<double>::quiet_NaN());
+    const double nan = std::numeric_limits<double>::quiet_NaN();
+    r.circuit.terminal_voltage_v[e] = Complex(nan, nan);
+    r.circuit.input_impedance_ohm[e] = Complex(nan, nan);
+    // Accepted power needs only Re V I*, which X_mm does not change.
+  }
+  r.impedance_ohm = std::move(z);
+
+  const Eigen::VectorXcd& i = r.circuit.current_a;
+  const auto ne = static_cast<Eigen::Index>(n);
+  r.reflection.resize(ne);
+  r.vswr.resize(ne);
+  for (Eigen::Index e = 0; e < ne; ++e) {
+    const Complex zin = r.circuit.input_impedance_ohm[e];
+    const Complex g = (zin - z0) / (zin + z0);
+    r.reflection[e] = g;
+    const double a = std::abs(g);
+    r.vswr[e] = a < 1 ? (1 + a) / (1 - a) : std::numeric_limits<double>::infinity();
+    if (std::isnan(a)) r.vswr[e] = a;
+  }
+  r.radiated_w = RadiatedPower(ResistanceMatrix(array), i);
+  r.ohmic_w = 0.5 * (r.loss_resistance_ohm.array() * i.cwiseAbs2().array()).sum();
+  r.accepted_w = r.radiated_w + r.ohmic_w;
+  r.supplied_w = r.circuit.supplied_w.sum();
+  r.port_loss_w = r.circuit.port_loss_w.sum();
+  r.efficiency = r.accepted_w > 0 ? r.radiated_w / r.accepted_w : 0;
+  bool all_sources = true, any_drive = false;
+  double available = 0;
+  for (std::size_t m = 0; m < n; ++m) {
+    const Port& p = ports[m];
+    if (p.kind == PortKind::kCurrent && i[static_cast<Eigen::Index>(m)] != Complex(0.0))
+      all_sources = false;
+    if (p.kind != PortKind::kDrive) continue;
+    any_drive = true;
+    if (!(p.impedance_ohm.real() > 0))
+      all_sources = false;
+    else
+      available += std::norm(p.voltage_v) / (8 * p.impedance_ohm.real());
+  }
+  r.available_w = all_sources && any_drive ? available : 0;
+  return r;
+}
+
+}  // namespace lobecast

@@ -1,0 +1,67 @@
+// What currents really flow: the impedance matrix of the array (mutual terms in
+// closed form, self reactance from the wire or given, ohmic loss), the circuit of
+// its ports, and the figures a designer matches and budgets with.
+//
+// Per element: Z_in = V / I (the active impedance, self reactance and loss
+// included), the reflection coefficient against a real reference impedance Z0,
+// Gamma = (Z_in - Z0) / (Z_in + Z0), and VSWR = (1 + |Gamma|) / (1 - |Gamma|)
+// (IEEE Std 145-2013 terms). For the array: the power supplied by the sources,
+// accepted at the terminals, radiated (closed form) and lost in the wires, the
+// radiation efficiency e = P_rad / P_accepted, so that gain = e D (IEEE Std
+// 145-2013: gain referred to the accepted power); and, when every driven port is a
+// voltage source with a resistive part, the available power sum |V_s|^2 / (8 R_s)
+// and realized gain = 4 pi U / P_available (mismatch included).
+#pragma once
+
+#include <limits>
+#include <vector>
+
+#include <Eigen/Core>
+
+#include "engine/coupling/circuit.h"
+#include "engine/types.h"
+
+namespace lobecast {
+
+// The wire of one dipole. radius_m = 0: not given. reactance_ohm NaN: from the
+// wire (needs a radius and a triangular current). conductivity_s_m = 0 (or +inf):
+// a perfect conductor, no ohmic loss.
+struct Wire {
+  double radius_m = 0;
+  double reactance_ohm = std::numeric_limits<double>::quiet_NaN();
+  double conductivity_s_m = 0;
+};
+
+struct CouplingOptions {
+  double reference_impedance_ohm = 50;  // Z0 for Gamma and VSWR, real, > 0
+  int num_threads = 0;
+};
+
+struct CouplingResult {
+  Eigen::MatrixXcd impedance_ohm;      // Z, self reactance and loss resistance on the diagonal
+  Eigen::VectorXd self_reactance_ohm;  // X_self per dipole (NaN where unknown)
+  Eigen::VectorXd loss_resistance_ohm;
+  Eigen::VectorXd skin_depth_m;  // 0 where lossless
+  CircuitSolution circuit;       // currents, voltages, input impedances, powers
+  Eigen::VectorXcd reflection;   // Gamma against Z0 (NaN where I = 0)
+  Eigen::VectorXd vswr;
+  double reference_impedance_ohm = 50;
+  double supplied_w = 0;   // by all sources (drive and current ports)
+  double accepted_w = 0;   // at the terminals: radiated + ohmic
+  double radiated_w = 0;   // 1/2 I^H R I
+  double ohmic_w = 0;      // in the wires
+  double port_loss_w = 0;  // in source and load impedances
+  double available_w = 0;  // sum |V_s|^2 / (8 R_s); 0 when not defined
+  double efficiency = 1;   // radiated / accepted
+};
+
+// True when the array needs a circuit solve: any port that is not a current
+// source, or any wire given (radius, reactance, conductivity).
+bool NeedsCoupling(const std::vector<Port>& ports, const std::vector<Wire>& wires);
+
+// Throws InvalidArgument (naming the dipole) when a driven or loaded dipole has no
+// known self reactance, a wire property is out of range, or the circuit is singular.
+CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
+                             const std::vector<Wire>& wires, const CouplingOptions& options = {});
+
+}  // namespace lobecast

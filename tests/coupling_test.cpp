@@ -1,0 +1,102 @@
+// The coupled array (engine/coupling/coupling.h): one driven dipole against the
+// transmission-line formulas, the power balance of a mixed array, and refusals.
+#include "engine/coupling/coupling.h"
+
+#include <cmath>
+
+#include <gtest/gtest.h>
+
+#include "engine/coupling/self_impedance.h"
+#include "engine/error.h"
+#include "engine/power/radiated_power.h"
+#include "tests/test_util.h"
+
+namespace lobecast {
+namespace {
+
+using testing::MakeDipole;
+using testing::OneDipoleArray;
+using testing::RandomArray;
+using testing::TestRng;
+
+TEST(Coupling, OneDrivenDipoleMatchesTheLineFormulas) {
+  // A triangular dipole of l = lambda/20 on a 1 mm copper wire, driven by 1 V behind
+  // 50 ohm: Z_in = R_rad + R_loss + j X_self; I = V / (Z_in + Zs);
+  // Gamma = (Z_in - Z0) / (Z_in + Z0), VSWR = (1 + |Gamma|) / (1 - |Gamma|) (the
+  // transmission-line definitions, IEEE Std 145-2013 terms); efficiency
+  // R_rad / (R_rad + R_loss).
+  Array a =
+      OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.0, 0.0, Distribution::kTriangular),
+                     Ground::kNone, 100e6);
+  a.dipoles[0].length_m = a.wavelength_m() / 20;
+  std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0}};
+  std::vector<Wire> wires = {{1e-3, std::numeric_limits<double>::quiet_NaN(), 5.8e7}};
+  const CouplingResult r = SolveCoupling(a, ports, wires, {.reference_impedance_ohm = 75});
+  const double rrad = ResistanceMatrix(a)(0, 0);
+  const double rloss =
+      LossResistance(a.dipoles[0], 1e-3, 5.8e7, a.angular_frequency_rad_s()).resistance_ohm;
+  const double x = SelfReactance(a.dipoles[0], 1e-3, a.wavenumber_rad_m());
+  const Complex zin(rrad + rloss, x);
+  EXPECT_LT(std::abs(r.circuit.input_impedance_ohm[0] - zin), 1e-12 * std::abs(zin));
+  const Complex i = 1.0 / (zin + 50.0);
+  EXPECT_LT(std::abs(r.circuit.current_a[0] - i), 1e-12 * std::abs(i));
+  const Complex g = (zin - 75.0) / (zin + 75.0);
+  EXPECT_LT(std::abs(r.reflection[0] - g), 1e-12);
+  EXPECT_NEAR(r.vswr[0], (1 + std::abs(g)) / (1 - std::abs(g)), 1e-9 * r.vswr[0]);
+  EXPECT_NEAR(r.efficiency, rrad / (rrad + rloss), 1e-12);
+  EXPECT_NEAR(r.available_w, 1.0 / (8 * 50), 1e-15);
+  EXPECT_NEAR(r.radiated_w, 0.5 * std::norm(i) * rrad, 1e-12 * r.radiated_w);
+}
+
+TEST(Coupling, PowerBalanceOfAMixedArray) {
+  // Supplied = radiated + ohmic + in source and load impedances (energy conservation).
+  TestRng rng(90);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    Array a = RandomArray(rng, 10, g, 0.6);
+    std::vector<Port> ports(a.size());
+    std::vector<Wire> wires(a.size());
+    for (std::size_t m = 0; m < a.size(); ++m) {
+      a.dipoles[m].distribution = Distribution::kTriangular;
+      wires[m].radius_m = a.dipoles[m].length_m / 300;
+      wires[m].conductivity_s_m = 3.5e7;
+      ports[m].kind = static_cast<PortKind>(m % 3);
+      ports[m].current_a = a.dipoles[m].current_a;
+      ports[m].voltage_v = rng.Phasor(0.5, 5.0);
+      ports[m].impedance_ohm = Complex(rng.Uniform(1, 75), rng.Uniform(-100, 3000));
+    }
+    const CouplingResult r = SolveCoupling(a, ports, wires);
+    EXPECT_NEAR(r.supplied_w, r.radiated_w + r.ohmic_w + r.port_loss_w, 1e-10 * r.supplied_w);
+    EXPECT_NEAR(r.circuit.accepted_w.sum(), r.accepted_w, 1e-10 * r.accepted_w);
+    EXPECT_GT(r.efficiency, 0);
+    EXPECT_LT(r.efficiency, 1);
+    EXPECT_EQ(r.available_w, 0);  // current-forced ports: no available power
+  }
+}
+
+TEST(Coupling, WhatNeedsAWireAndWhatIsRefused) {
+  Array a = OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.05, 0.0));
+  std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0}};
+  std::vector<Wire> wires(1);
+  EXPECT_FALSE(NeedsCoupling({Port{}}, wires));
+  EXPECT_TRUE(NeedsCoupling(ports, wires));
+  // A uniform current has no wire formula: a reactance must be given.
+  wires[0].radius_m = 1e-3;
+  try {
+    SolveCoupling(a, ports, wires);
+    ADD_FAILURE() << "expected a refusal";
+  } catch (const InvalidArgument& e) {
+    EXPECT_NE(std::string(e.what()).find("dipole 0: drive needs the self reactance"),
+              std::string::npos)
+        << e.what();
+  }
+  wires[0].reactance_ohm = -1500;
+  EXPECT_NO_THROW(SolveCoupling(a, ports, wires));
+  wires[0] = Wire{};
+  wires[0].reactance_ohm = -1500;
+  wires[0].conductivity_s_m = 5.8e7;  // without a radius
+  EXPECT_THROW(SolveCoupling(a, ports, wires), InvalidArgument);
+  EXPECT_THROW(SolveCoupling(a, ports, {Wire{}, Wire{}}), InvalidArgument);
+}
+
+}  // namespace
+}  // namespace lobecast
