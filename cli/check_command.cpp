@@ -7,6 +7,8 @@
 #include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
 #include "io/input/array_reader.h"
+#include "io/input/solve_circuit.h"
+#include "io/text/coupling_text.h"
 #include "io/text/summary_text.h"
 
 namespace lobecast::cli {
@@ -22,9 +24,12 @@ void AddCheckCommand(CLI::App& app) {
       ->required()
       ->check(CLI::ExistingFile);
   cmd->callback([input] {
-    const ArrayDescription desc = ReadArrayDescription(*input);
+    ArrayDescription desc = ReadArrayDescription(*input);
     for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
     std::fputs(text::DescribeArray(desc).c_str(), stdout);
+    if (const auto coupling = SolveArrayCircuit(desc, 0)) {
+      std::fputs(text::DescribeCoupling(*coupling, desc.ports, 0.0).c_str(), stdout);
+    }
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
     // currents that cancel or overflow before anyone waits for a compute.
     const StreamedPower p = RadiatedPowerStreamed(desc.array, CurrentsOf(desc.array));

@@ -15,10 +15,13 @@
 #include "engine/error.h"
 #include "engine/pattern.h"
 #include "io/hdf5/analysis_writer.h"
+#include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
 #include "io/input/array_reader.h"
+#include "io/input/solve_circuit.h"
 #include "io/plot/plot.h"
+#include "io/text/coupling_text.h"
 #include "io/text/report_text.h"
 #include "io/text/summary_text.h"
 
@@ -45,8 +48,9 @@ std::string DefaultOutput(const std::string& input) {
 
 void RunCompute(const ComputeArgs& args) {
   const auto t0 = std::chrono::steady_clock::now();
-  const ArrayDescription desc = ReadArrayDescription(args.input);
+  ArrayDescription desc = ReadArrayDescription(args.input);
   for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+  const std::optional<CouplingResult> coupling = SolveArrayCircuit(desc, args.threads);
 
   ProgressBar bar(!args.quiet);
   PatternOptions options;
@@ -79,9 +83,10 @@ void RunCompute(const ComputeArgs& args) {
   meta.input_text = desc.source_text;
   meta.input_path = desc.source_path;
   ResultWriteOptions write_options;
-  if (analysis) {
+  if (analysis || coupling) {
     write_options.before_finish = [&](PatternFileWriter& w) {
-      WriteAnalysis(w, *analysis, analysis_options);
+      if (coupling) WriteCoupling(w, *coupling, desc.ports, result);
+      if (analysis) WriteAnalysis(w, *analysis, analysis_options);
     };
   }
   WriteResult(output, desc.array, result, meta, write_options);
@@ -95,6 +100,11 @@ void RunCompute(const ComputeArgs& args) {
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
     std::fputs(text::DescribeResult(desc, result, output, wall).c_str(), stdout);
+    if (coupling) {
+      std::fputs(
+          text::DescribeCoupling(*coupling, desc.ports, result.summary.peak_directivity).c_str(),
+          stdout);
+    }
     if (analysis) std::fputs(text::AnalysisBrief(*analysis).c_str(), stdout);
     std::fputs(text::SafetyNote().c_str(), stdout);
   }

@@ -269,7 +269,8 @@ TEST(ArrayReader, MessageFormat) {
       "arr.toml");
   EXPECT_EQ(m,
             "arr.toml:9:1: key 'dipole[1].postion': found unknown key, expected one of position, "
-            "orientation, length, distribution, current (did you mean 'position'?)");
+            "orientation, length, distribution, current, drive, load, radius, reactance, "
+            "conductivity (did you mean 'position'?)");
   EXPECT_EQ(ErrorOf("frequency = \"433.92 mHz\"\n", "arr.toml"),
             "arr.toml:1:13: key 'frequency': found string \"433.92 mHz\", expected a number "
             "followed by a unit, one of Hz, kHz, MHz, GHz, THz (e.g. \"433.92 MHz\")");

@@ -13,6 +13,7 @@
 #include "engine/pattern.h"
 #include "io/hdf5/result_reader.h"
 #include "io/input/array_reader.h"
+#include "io/input/solve_circuit.h"
 
 namespace fs = std::filesystem;
 using ::testing::HasSubstr;
@@ -49,7 +50,8 @@ TEST_P(SampleArray, ComputedResultMatchesTheEngine) {
   ASSERT_TRUE(fs::exists(out));
 
   const StoredResult stored = ReadResult(out.string());
-  const ArrayDescription desc = ReadArrayDescription(input);
+  ArrayDescription desc = ReadArrayDescription(input);
+  SolveArrayCircuit(desc, 0);  // driven and loaded dipoles: the solved currents
   const PatternResult direct = ComputePattern(desc.array, desc.grid);
 
   EXPECT_EQ(stored.format_version, 1);

@@ -364,20 +364,54 @@ void PatternFileWriter::WriteStringAttribute(const std::string& object_path,
   });
 }
 
+namespace {
+
+// "/group/name" -> ("/group", "name"); InvalidArgument for anything else.
+std::pair<std::string, std::string> SplitTablePath(const std::string& dataset_path) {
+  const std::size_t slash = dataset_path.rfind('/');
+  if (slash == std::string::npos || slash == 0 || slash + 1 == dataset_path.size()) {
+    throw InvalidArgument("result to write: table path '" + dataset_path + "' must be /group/name");
+  }
+  return {dataset_path.substr(0, slash), dataset_path.substr(slash + 1)};
+}
+
+}  // namespace
+
+template <typename T>
+void PatternFileWriter::WriteTableOf(const std::string& dataset_path,
+                                     const std::vector<std::size_t>& dims, const T* data,
+                                     std::string_view units) {
+  Impl& w = *impl_;
+  w.Step([&] {
+    const auto [group, name] = SplitTablePath(dataset_path);
+    w.Hook(dataset_path);
+    Handle g = w.Group(group);
+    std::vector<hsize_t> h5dims(dims.begin(), dims.end());
+    hdf5::WriteDataset(g, name, h5dims, data, units);
+  });
+}
+
 void PatternFileWriter::WriteTable(const std::string& dataset_path,
                                    const std::vector<std::size_t>& dims, const double* data,
                                    std::string_view units) {
+  WriteTableOf(dataset_path, dims, data, units);
+}
+
+void PatternFileWriter::WriteTable(const std::string& dataset_path,
+                                   const std::vector<std::size_t>& dims, const Complex* data,
+                                   std::string_view units) {
+  WriteTableOf(dataset_path, dims, data, units);
+}
+
+void PatternFileWriter::WriteStrings(const std::string& dataset_path,
+                                     const std::vector<std::string>& values,
+                                     std::string_view units) {
   Impl& w = *impl_;
   w.Step([&] {
-    const std::size_t slash = dataset_path.rfind('/');
-    if (slash == std::string::npos || slash == 0 || slash + 1 == dataset_path.size()) {
-      throw InvalidArgument("result to write: table path '" + dataset_path +
-                            "' must be /group/name");
-    }
+    const auto [group, name] = SplitTablePath(dataset_path);
     w.Hook(dataset_path);
-    Handle g = w.Group(dataset_path.substr(0, slash));
-    std::vector<hsize_t> h5dims(dims.begin(), dims.end());
-    hdf5::WriteDataset(g, dataset_path.substr(slash + 1), h5dims, data, units);
+    Handle g = w.Group(group);
+    hdf5::WriteStringDataset(g, name, values, units);
   });
 }
 

@@ -120,6 +120,11 @@ class PatternFileWriter {
   // A row-major double table, e.g. "/summary/beamwidths" with dims {n, 2}.
   void WriteTable(const std::string& dataset_path, const std::vector<std::size_t>& dims,
                   const double* data, std::string_view units);
+  void WriteTable(const std::string& dataset_path, const std::vector<std::size_t>& dims,
+                  const Complex* data, std::string_view units);
+  // A one-dimensional table of strings.
+  void WriteStrings(const std::string& dataset_path, const std::vector<std::string>& values,
+                    std::string_view units);
 
   // Checks that every theta row and the power were written, writes the root
   // attributes, closes the file and renames it onto the target.
@@ -131,6 +136,10 @@ class PatternFileWriter {
   const std::string& temporary_path() const;
 
  private:
+  template <typename T>
+  void WriteTableOf(const std::string& dataset_path, const std::vector<std::size_t>& dims,
+                    const T* data, std::string_view units);
+
   struct Impl;
   std::unique_ptr<Impl> impl_;
 };

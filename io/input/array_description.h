@@ -7,6 +7,8 @@
 #include <string>
 #include <vector>
 
+#include "engine/coupling/circuit.h"
+#include "engine/coupling/coupling.h"
 #include "engine/grid.h"
 #include "engine/types.h"
 #include "io/input_error.h"
@@ -33,6 +35,15 @@ struct ArrayDescription {
   std::string length_unit = "m";
 
   Array array;  // frequency, ground and dipoles, SI; orientations are unit vectors
+
+  // What drives each dipole (one per dipole): a forced current (its value is also in
+  // array.dipoles[i].current_a), a voltage source behind an impedance, or a load;
+  // and each dipole's wire (radius, self reactance, conductivity; all optional).
+  // Driven and loaded dipoles carry current 0 in `array` until the circuit is solved
+  // (engine/coupling/coupling.h). CSV rows are current-forced, with no wire.
+  std::vector<Port> ports;
+  std::vector<Wire> wires;
+  double reference_impedance_ohm = 50;  // `reference_impedance`: Z0 for reflection and VSWR
 
   AngleRange theta;  // degrees, as written (or the defaults)
   AngleRange phi;

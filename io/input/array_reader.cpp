@@ -107,7 +107,7 @@ class Reader {
 
     CheckKeys(root, "",
               {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
-               "dipole"});
+               "dipole", "reference_impedance"});
     if (const toml::node* n = root.get("name")) out.name = String(*n, "name");
     if (const toml::node* n = root.get("description")) out.description = String(*n, "description");
 
@@ -127,6 +127,10 @@ class Reader {
     scale_ = MetresPer(unit, out.array.wavelength_m());
 
     ReadGrid(root, out);
+    if (const toml::node* n = root.get("reference_impedance")) {
+      out.reference_impedance_ohm =
+          Positive(*n, "reference_impedance", "a resistance in ohm", "a resistance");
+    }
 
     if (const toml::node* n = root.get("dipole")) ReadDipoleTables(*n, out);
     if (const toml::node* n = root.get("dipoles_csv")) ReadCsv(*n, out);
@@ -136,12 +140,15 @@ class Reader {
                        "at least one [[dipole]] table or a dipoles_csv file with one row");
     }
     CheckDipoles(out);
-    bool any_current = false;
-    for (const Dipole& d : out.array.dipoles) any_current = any_current || d.current_a != 0.0;
-    if (!any_current) {
+    bool any_source = false;
+    for (const Port& p : out.ports) {
+      any_source = any_source || (p.kind == PortKind::kCurrent && p.current_a != 0.0) ||
+                   (p.kind == PortKind::kDrive && p.voltage_v != 0.0);
+    }
+    if (!any_source) {
       throw InputError(out.dipole_locations.front(), "dipole[*].current", "every magnitude is 0",
-                       "at least one non-zero current (with none, nothing radiates and "
-                       "directivity is undefined)");
+                       "at least one non-zero current or drive voltage (with none, nothing "
+                       "radiates and directivity is undefined)");
     }
 
     try {
@@ -350,7 +357,9 @@ class Reader {
       const std::string key = "dipole[" + std::to_string(i) + "]";
       const toml::table* t = e.as_table();
       if (!t) throw InputError(At(e), key, Describe(e), "a table ([[dipole]])");
-      CheckKeys(*t, key, {"position", "orientation", "length", "distribution", "current"});
+      CheckKeys(*t, key,
+                {"position", "orientation", "length", "distribution", "current", "drive", "load",
+                 "radius", "reactance", "conductivity"});
       auto require = [&](std::string_view name, std::string_view example) -> const toml::node& {
         const toml::node* v = t->get(name);
         if (!v) {
@@ -393,12 +402,126 @@ class Reader {
         d.distribution = *dist;
       }
 
-      d.current_a = Current(require("current", "{ magnitude = <A peak>, phase = <deg> }"),
-                            Join(key, "current"));
+      Port port = ReadPort(*t, key, out.reference_impedance_ohm);
+      d.current_a = port.current_a;  // 0 for drive and load until the circuit is solved
+      out.ports.push_back(port);
+      out.wires.push_back(ReadWire(*t, key, d, out.length_unit));
+      const Wire& w = out.wires.back();
+      if (port.kind != PortKind::kCurrent && std::isnan(w.reactance_ohm) &&
+          !(w.radius_m > 0 && d.distribution == Distribution::kTriangular)) {
+        const std::string kind(ToString(port.kind));
+        throw InputError(
+            At(*t->get(kind)), Join(key, kind), "a " + kind + " without a self reactance",
+            d.distribution == Distribution::kTriangular
+                ? "radius = <wire radius> (the self reactance follows from it) or reactance = "
+                  "<ohm>"
+                : "reactance = <ohm>: a uniform current's self reactance depends on its end "
+                  "loading (top hats, coils), which no wire formula covers");
+      }
       out.array.dipoles.push_back(d);
       out.dipole_locations.push_back(site.where);
       sites_.push_back(std::move(site));
     }
+  }
+
+  // Exactly one of current, drive, load (CONVENTIONS §3, coupling keys).
+  Port ReadPort(const toml::table& t, const std::string& key, double reference_ohm) const {
+    const toml::node* found = nullptr;
+    std::string_view found_name;
+    for (std::string_view name : {"current", "drive", "load"}) {
+      const toml::node* v = t.get(name);
+      if (!v) continue;
+      if (found) {
+        throw InputError(At(*v), Join(key, name),
+                         "both '" + std::string(found_name) + "' and '" + std::string(name) + "'",
+                         "one of current, drive or load per dipole");
+      }
+      found = v;
+      found_name = name;
+    }
+    if (!found) {
+      throw InputError(At(t), Join(key, "current"), "no current, drive or load key",
+                       "current = { magnitude = <A peak>, phase = <deg> }, or drive = { voltage = "
+                       "<V peak>, phase = <deg> }, or load = { reactance = <ohm> }");
+    }
+    Port p;
+    const std::string k = Join(key, found_name);
+    if (found_name == "current") {
+      p.current_a = Current(*found, k);
+      return p;
+    }
+    const toml::table* pt = found->as_table();
+    if (!pt) {
+      throw InputError(At(*found), k, Describe(*found),
+                       found_name == "drive" ? "{ voltage = <V peak>, phase = <deg>, resistance = "
+                                               "<ohm>, reactance = <ohm> }"
+                                             : "{ resistance = <ohm>, reactance = <ohm> }");
+    }
+    if (found_name == "drive") {
+      CheckKeys(*pt, k, {"voltage", "phase", "resistance", "reactance"});
+    } else {
+      CheckKeys(*pt, k, {"resistance", "reactance"});
+    }
+    const double r_default = found_name == "drive" ? reference_ohm : 0.0;
+    double r = r_default, x = 0;
+    if (const toml::node* v = pt->get("resistance")) {
+      r = Number(*v, Join(k, "resistance"), "a resistance in ohm");
+      if (r < 0) {
+        throw InputError(At(*v), Join(k, "resistance"), FormatNumber(r),
+                         "a resistance >= 0 ohm (sources and loads are passive)");
+      }
+    }
+    if (const toml::node* v = pt->get("reactance"))
+      x = Number(*v, Join(k, "reactance"), "a reactance in ohm");
+    p.impedance_ohm = Complex(r, x);
+    if (found_name == "drive") {
+      p.kind = PortKind::kDrive;
+      const toml::node* v = pt->get("voltage");
+      if (!v) {
+        throw InputError(At(*pt), Join(k, "voltage"), "no voltage key",
+                         "{ voltage = <V peak>, phase = <deg> } (phase default 0, resistance "
+                         "default the reference impedance, reactance default 0)");
+      }
+      const double volts = Number(*v, Join(k, "voltage"), "a voltage in V peak");
+      if (volts < 0) {
+        throw InputError(At(*v), Join(k, "voltage"), FormatNumber(volts),
+                         "a voltage >= 0 (V peak; reverse the sign with phase = 180)");
+      }
+      double phase_deg = 0;
+      if (const toml::node* ph = pt->get("phase"))
+        phase_deg = Number(*ph, Join(k, "phase"), "a phase in degrees");
+      p.voltage_v = std::polar(volts, phase_deg * kDegree);
+    } else {
+      p.kind = PortKind::kLoad;
+    }
+    return p;
+  }
+
+  // radius (length unit), reactance (ohm), conductivity (S/m): all optional.
+  Wire ReadWire(const toml::table& t, const std::string& key, const Dipole& d,
+                const std::string& unit) const {
+    Wire w;
+    if (const toml::node* v = t.get("radius")) {
+      w.radius_m = Positive(*v, Join(key, "radius"), "a number (the wire radius in " + unit + ")",
+                            "a radius") *
+                   scale_;
+      if (w.radius_m >= 0.5 * d.length_m) {
+        throw InputError(At(*v), Join(key, "radius"), FormatApprox(w.radius_m) + " m",
+                         "a radius below half the length (" + FormatApprox(0.5 * d.length_m) +
+                             " m): a thin wire");
+      }
+    }
+    if (const toml::node* v = t.get("reactance"))
+      w.reactance_ohm = Number(*v, Join(key, "reactance"), "a self reactance in ohm");
+    if (const toml::node* v = t.get("conductivity")) {
+      w.conductivity_s_m = Positive(*v, Join(key, "conductivity"),
+                                    "a conductivity in S/m (copper about 5.8e7)", "a conductivity");
+      if (!(w.radius_m > 0)) {
+        throw InputError(At(*v), Join(key, "conductivity"), "a conductivity without a radius",
+                         "radius = <wire radius> as well (the loss depends on it)");
+      }
+    }
+    return w;
   }
 
   Complex Current(const toml::node& n, const std::string& key) const {
@@ -437,6 +560,8 @@ class Reader {
     for (std::size_t i = 0; i < rows.size(); ++i) {
       const std::string key = "dipole[" + std::to_string(first + i) + "]";
       out.array.dipoles.push_back(rows[i].dipole);
+      out.ports.push_back(Port{PortKind::kCurrent, rows[i].dipole.current_a, 0.0, 0.0});
+      out.wires.emplace_back();
       out.dipole_locations.push_back(rows[i].row);
       sites_.push_back(DipoleSite{rows[i].row, rows[i].z_cell, key + ".z", rows[i].length_cell,
                                   key + ".length"});

@@ -1,0 +1,91 @@
+#include "io/text/coupling_text.h"
+
+#include <cmath>
+#include <sstream>
+
+#include "io/hdf5/coupling_writer.h"
+#include "io/text/summary_text.h"
+#include "io/text/text_format.h"
+
+namespace lobecast::text {
+namespace {
+
+constexpr std::size_t kFullTableUpTo = 16;
+
+std::string Impedance(Complex z) {
+  if (std::isnan(z.real()) || std::isnan(z.imag())) return "unknown";
+  // A part below 1e-12 of |Z| is rounding (a lossless load's resistance): print 0.
+  const double floor = 1e-12 * std::abs(z);
+  const double re = std::abs(z.real()) < floor ? 0.0 : z.real();
+  const double im = std::abs(z.imag()) < floor ? 0.0 : z.imag();
+  return Printf("%.6g %c j%.6g", re, im < 0 ? '-' : '+', std::abs(im));
+}
+
+std::string PortText(const Port& p) {
+  switch (p.kind) {
+    case PortKind::kCurrent:
+      return "current";
+    case PortKind::kDrive:
+      return Printf("drive %.3g V", std::abs(p.voltage_v));
+    case PortKind::kLoad:
+      return "load " + Impedance(p.impedance_ohm);
+  }
+  return "";
+}
+
+std::string Db(double linear) {
+  return linear > 0 ? Printf("%.2f", 10 * std::log10(linear)) : "-inf";
+}
+
+}  // namespace
+
+std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& ports,
+                             double peak_directivity) {
+  std::ostringstream s;
+  const Eigen::VectorXcd& i = c.circuit.current_a;
+  s << Printf("circuit      currents solved from the ports; reference impedance %g ohm\n",
+              c.reference_impedance_ohm);
+  if (ports.size() <= kFullTableUpTo) {
+    s << "     #  port                    |I| (A)  phase (deg)  X_self (ohm)  Z_in (ohm)         "
+         "  VSWR\n";
+    for (std::size_t m = 0; m < ports.size(); ++m) {
+      const auto e = static_cast<Eigen::Index>(m);
+      // VSWR describes a feed: a loaded element has none.
+      const bool fed = ports[m].kind != PortKind::kLoad && !std::isnan(c.vswr[e]);
+      const double xs = c.self_reactance_ohm[e];
+      s << Printf("  %4zu  %-22s %10.4g  %10.2f  %12s  %-20s %s\n", m, PortText(ports[m]).c_str(),
+                  std::abs(i[e]), std::arg(i[e]) / kDegree,
+                  std::isnan(xs) ? "unknown" : Printf("%.5g", xs).c_str(),
+                  Impedance(c.circuit.input_impedance_ohm[e]).c_str(),
+                  fed ? Printf("%.4g", c.vswr[e]).c_str() : "-");
+    }
+  } else {
+    Eigen::Index worst = -1;
+    for (Eigen::Index e = 0; e < c.vswr.size(); ++e) {
+      if (ports[static_cast<std::size_t>(e)].kind != PortKind::kDrive || std::isnan(c.vswr[e]))
+        continue;
+      if (worst < 0 || c.vswr[e] > c.vswr[worst]) worst = e;
+    }
+    if (worst >= 0) {
+      s << Printf("worst VSWR   %.4g at element %ld (Z_in %s ohm)\n", c.vswr[worst],
+                  static_cast<long>(worst),
+                  Impedance(c.circuit.input_impedance_ohm[worst]).c_str());
+    }
+  }
+  s << Printf(
+      "budget       supplied %.6g W; accepted %.6g W = radiated %.6g W + ohmic %.6g W "
+      "(efficiency %.4g %%); in source and load impedances %.6g W\n",
+      c.supplied_w, c.accepted_w, c.radiated_w, c.ohmic_w, 100 * c.efficiency, c.port_loss_w);
+  if (!(peak_directivity > 0)) return s.str();  // no pattern (lobecast check)
+  const RealizedGainReference ref = RealizedGainReferenceOf(c);
+  const double g = peak_directivity * c.radiated_w / ref.power_w;
+  s << "gain         " << (c.available_w > 0 ? "realized gain" : "gain") << " at the peak " << Db(g)
+    << " dBi (directivity " << Db(peak_directivity) << " dBi";
+  if (c.available_w > 0) {
+    s << Printf(", %.6g W available from the sources", c.available_w);
+  }
+  s << ")\n";
+  return s.str();
+}
+
+}  // namespace lobecast::text
