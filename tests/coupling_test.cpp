@@ -100,3 +100,29 @@ TEST(Coupling, WhatNeedsAWireAndWhatIsRefused) {
 
 }  // namespace
 }  // namespace lobecast
+
+namespace lobecast {
+namespace {
+
+TEST(Coupling, ClosePairsAndSizeLimit) {
+  Array a;
+  a.frequency_hz = 1e8;
+  a.dipoles = {testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitZ(), 0.1, 1.0),
+               testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitX(), 0.1, 1.0),  // crossed: fine
+               testing::MakeDipole(Vec3(0.05, 0, 0), Vec3::UnitZ(), 0.2, 1.0),
+               testing::MakeDipole(Vec3(5, 0, 0), Vec3::UnitZ(), 0.1, 1.0)};
+  const ClosePairs c = FindClosePairs(a);
+  // (0,2) and (1,2) are 0.05 m apart, less than the longer length 0.2 m.
+  EXPECT_EQ(c.count, 2u);
+  ASSERT_EQ(c.first.size(), 2u);
+  EXPECT_EQ(c.first[0], std::make_pair(std::size_t{0}, std::size_t{2}));
+  EXPECT_DOUBLE_EQ(c.closest_ratio, 0.25);
+  std::vector<Port> ports(4);
+  for (int m = 0; m < 4; ++m) ports[m].current_a = 1.0;
+  CouplingOptions small;
+  small.max_dipoles = 3;
+  EXPECT_THROW(SolveCoupling(a, ports, std::vector<Wire>(4), small), InvalidArgument);
+}
+
+}  // namespace
+}  // namespace lobecast

@@ -1,6 +1,7 @@
 // Impedances, currents and powers of a coupled array (coupling.h).
 #include "engine/coupling/coupling.h"
 
+#include <algorithm>
 #include <cmath>
 #include <sstream>
 
@@ -30,10 +31,39 @@ bool NeedsCoupling(const std::vector<Port>& ports, const std::vector<Wire>& wire
   return false;
 }
 
+ClosePairs FindClosePairs(const Array& array) {
+  ClosePairs out;
+  out.closest_ratio = std::numeric_limits<double>::infinity();
+  const std::size_t n = array.size();
+  for (std::size_t m = 0; m < n; ++m) {
+    const Dipole& a = array.dipoles[m];
+    for (std::size_t q = m + 1; q < n; ++q) {
+      const Dipole& b = array.dipoles[q];
+      // Crossed dipoles sharing a centre (a turnstile) do not couple at all.
+      const double dist = (a.position_m - b.position_m).norm();
+      if (dist == 0 && std::abs(a.orientation.dot(b.orientation)) <= 1e-12) continue;
+      const double ratio = dist / std::max(a.length_m, b.length_m);
+      if (ratio >= 1) continue;
+      ++out.count;
+      if (out.first.size() < 8) out.first.emplace_back(m, q);
+      out.closest_ratio = std::min(out.closest_ratio, ratio);
+    }
+  }
+  if (out.count == 0) out.closest_ratio = 0;
+  return out;
+}
+
 CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
                              const std::vector<Wire>& wires, const CouplingOptions& options) {
   Validate(array);
   const std::size_t n = array.size();
+  if (n > options.max_dipoles) {
+    std::ostringstream s;
+    s << "coupling: " << n << " dipoles with driven or loaded ports or wires; the circuit is "
+      << "solved with the whole impedance matrix (" << 16.0 * n * n / 1e9 << " GB), so at most "
+      << options.max_dipoles << " dipoles are supported";
+    throw InvalidArgument(s.str());
+  }
   if (ports.size() != n || wires.size() != n) {
     std::ostringstream s;
     s << "coupling: " << ports.size() << " ports and " << wires.size() << " wires for " << n
@@ -131,6 +161,7 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
       available += std::norm(p.voltage_v) / (8 * p.impedance_ohm.real());
   }
   r.available_w = all_sources && any_drive ? available : 0;
+  r.close_pairs = FindClosePairs(array);
   return r;
 }
 

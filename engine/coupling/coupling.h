@@ -13,7 +13,9 @@
 // and realized gain = 4 pi U / P_available (mismatch included).
 #pragma once
 
+#include <cstddef>
 #include <limits>
+#include <utility>
 #include <vector>
 
 #include <Eigen/Core>
@@ -35,7 +37,21 @@ struct Wire {
 struct CouplingOptions {
   double reference_impedance_ohm = 50;  // Z0 for Gamma and VSWR, real, > 0
   int num_threads = 0;
+  // The impedance matrix is built whole (16 N^2 bytes) and the driven and loaded
+  // ports are solved by LU (O(N^3)); beyond this many dipoles SolveCoupling refuses
+  // rather than run out of memory or time.
+  std::size_t max_dipoles = 4096;
 };
+
+// Pairs of dipoles closer than their longer length: the point-dipole mutual
+// impedance assumes each sees the other as a point, which holds for separations
+// of several lengths (common practice) and fails when they are comparable.
+struct ClosePairs {
+  std::size_t count = 0;                                   // all such pairs
+  std::vector<std::pair<std::size_t, std::size_t>> first;  // up to 8 of them, (m, n), m < n
+  double closest_ratio = 0;                                // min separation / longer length
+};
+ClosePairs FindClosePairs(const Array& array);
 
 struct CouplingResult {
   Eigen::MatrixXcd impedance_ohm;      // Z, self reactance and loss resistance on the diagonal
@@ -53,6 +69,7 @@ struct CouplingResult {
   double port_loss_w = 0;  // in source and load impedances
   double available_w = 0;  // sum |V_s|^2 / (8 R_s); 0 when not defined
   double efficiency = 1;   // radiated / accepted
+  ClosePairs close_pairs;  // where the coupling model is stretched
 };
 
 // True when the array needs a circuit solve: any port that is not a current

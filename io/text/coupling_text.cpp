@@ -72,6 +72,15 @@ std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& p
                   Impedance(c.circuit.input_impedance_ohm[worst]).c_str());
     }
   }
+  if (c.close_pairs.count > 0) {
+    const auto [m, q] = c.close_pairs.first.front();
+    s << Printf(
+        "caution      %zu pair%s of dipoles closer than their length (closest %.2g lengths, "
+        "e.g. %zu and %zu): the point-dipole coupling model wants several lengths (common "
+        "practice); treat their impedances as rough\n",
+        c.close_pairs.count, c.close_pairs.count == 1 ? "" : "s", c.close_pairs.closest_ratio, m,
+        q);
+  }
   s << Printf(
       "budget       supplied %.6g W; accepted %.6g W = radiated %.6g W + ohmic %.6g W "
       "(efficiency %.4g %%); in source and load impedances %.6g W\n",
