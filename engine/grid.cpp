@@ -4,6 +4,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "engine/check.h"
 #include "engine/error.h"
 
 namespace lobecast {
@@ -50,12 +51,7 @@ Directions Directions::FromGrid(const AngularGrid& grid) {
 
 Directions Directions::FromAngles(const std::vector<double>& theta_rad,
                                   const std::vector<double>& phi_rad) {
-  if (theta_rad.size() != phi_rad.size()) {
-    std::ostringstream s;
-    s << "direction list: " << theta_rad.size() << " theta values but " << phi_rad.size()
-      << " phi values";
-    throw InvalidArgument(s.str());
-  }
+  LOBECAST_CHECK_EQ(theta_rad.size(), phi_rad.size());
   Directions d;
   d.theta_rad_ = theta_rad;
   d.phi_rad_ = phi_rad;

@@ -8,6 +8,7 @@
 
 #include <omp.h>
 
+#include "engine/check.h"
 #include "engine/error.h"
 #include "engine/ground.h"
 
@@ -97,12 +98,9 @@ Eigen::MatrixXd ResistanceMatrix(const Array& array) {
 }
 
 double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a) {
-  if (resistance_ohm.rows() != currents_a.size() || resistance_ohm.cols() != currents_a.size()) {
-    std::ostringstream s;
-    s << "radiated power: resistance matrix is " << resistance_ohm.rows() << "x"
-      << resistance_ohm.cols() << " but there are " << currents_a.size() << " currents";
-    throw InvalidArgument(s.str());
-  }
+  // Both come from the same array (ResistanceMatrix, CurrentsOf).
+  LOBECAST_CHECK_EQ(resistance_ohm.rows(), currents_a.size());
+  LOBECAST_CHECK_EQ(resistance_ohm.cols(), currents_a.size());
   // R is real symmetric, so I^H R I = a^T R a + b^T R b with I = a + j b.
   const Eigen::VectorXd a = currents_a.real(), b = currents_a.imag();
   return 0.5 * (a.dot(resistance_ohm * a) + b.dot(resistance_ohm * b));

@@ -32,7 +32,7 @@ double MutualResistance(const Dipole& m, const Dipole& n, double k_rad_m);
 // semidefinite, including the ground plane. O(N^2) time and memory.
 Eigen::MatrixXd ResistanceMatrix(const Array& array);
 
-// P = 1/2 Re(I^H R I), W.
+// P = 1/2 Re(I^H R I), W. R and I belong to one array (same size: checked).
 double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a);
 
 // Throws InvalidArgument unless P is finite and > 0: currents so large the power
