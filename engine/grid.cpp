@@ -58,19 +58,20 @@ Directions Directions::FromAngles(const std::vector<double>& theta_rad,
   return d;
 }
 
-Vec3 Directions::r_hat(std::size_t i) const {
-  const double t = theta_rad_[i], p = phi_rad_[i];
+Vec3 UnitVectorAt(double t, double p) {
   return {std::sin(t) * std::cos(p), std::sin(t) * std::sin(p), std::cos(t)};
 }
 
-Vec3 Directions::theta_hat(std::size_t i) const {
-  const double t = theta_rad_[i], p = phi_rad_[i];
+Vec3 ThetaHatAt(double t, double p) {
   return {std::cos(t) * std::cos(p), std::cos(t) * std::sin(p), -std::sin(t)};
 }
 
-Vec3 Directions::phi_hat(std::size_t i) const {
-  const double p = phi_rad_[i];
-  return {-std::sin(p), std::cos(p), 0.0};
-}
+Vec3 PhiHatAt(double p) { return {-std::sin(p), std::cos(p), 0.0}; }
+
+Vec3 Directions::r_hat(std::size_t i) const { return UnitVectorAt(theta_rad_[i], phi_rad_[i]); }
+
+Vec3 Directions::theta_hat(std::size_t i) const { return ThetaHatAt(theta_rad_[i], phi_rad_[i]); }
+
+Vec3 Directions::phi_hat(std::size_t i) const { return PhiHatAt(phi_rad_[i]); }
 
 }  // namespace lobecast

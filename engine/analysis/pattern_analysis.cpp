@@ -13,6 +13,7 @@
 #include "engine/analysis/polarization_purity.h"
 #include "engine/analysis/side_lobes.h"
 #include "engine/check.h"
+#include "engine/decibels.h"
 #include "engine/error.h"
 #include "engine/text_case.h"
 
