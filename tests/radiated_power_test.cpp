@@ -293,5 +293,19 @@ TEST(ActiveResistance, UndefinedForAnUndrivenElement) {
   EXPECT_NEAR(ActiveResistance(r1, CurrentsOf(one))[0], r1(0, 0), 1e-14 * r1(0, 0));
 }
 
+// Each entry is one thread's fixed-order sum, so the thread count cannot change a bit
+// (with and without ground, where the image terms are added too).
+TEST(ResistanceMatrix, SameBitsOnAnyThreadCount) {
+  TestRng rng(71);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array a = testing::RandomArray(rng, 40, g);
+    const Eigen::MatrixXd one = ResistanceMatrix(a, 1);
+    for (int threads : {2, 3, 0}) {
+      const Eigen::MatrixXd r = ResistanceMatrix(a, threads);
+      EXPECT_TRUE((r.array() == one.array()).all()) << threads << " threads, " << ToString(g);
+    }
+  }
+}
+
 }  // namespace
 }  // namespace lobecast

@@ -1,6 +1,5 @@
 // Matrix-free closed-form power (power_large.h).
 #include "engine/power/power_large.h"
-#include "engine/threads.h"
 
 #include <cmath>
 #include <limits>
@@ -14,19 +13,17 @@
 #include "engine/field/sincos.h"
 #include "engine/ground.h"
 #include "engine/power/radiated_power.h"
+#include "engine/threads.h"
 
 namespace lobecast {
 namespace {
-
-// Below this x the closed forms cancel; radiated_power.cpp switches to the series there.
-constexpr double kSeriesBelow = 2.0;
 
 struct Sources {
   std::vector<double> x, y, z, ux, uy, uz, le, ir, ii;  // I of the driving dipole
 };
 
 // sum over sources s of Le_m Le_s [(u_m.u_s) f(x) + (u_m.d)(u_s.d)/d^2 j2(x)] I_s for
-// the sources with x = k |r_m - r_s| >= kSeriesBelow (the others contribute 0 here).
+// the sources with x = k |r_m - r_s| >= kKernelSeriesBelow (the others contribute 0 here).
 LOBECAST_KERNEL_CLONES
 void RowFar(const Sources& s, const Dipole& m, double k, double* out_r, double* out_i) {
   const double mx = m.position_m.x(), my = m.position_m.y(), mz = m.position_m.z();
@@ -41,8 +38,8 @@ void RowFar(const Sources& s, const Dipole& m, double k, double* out_r, double* 
     const double dx = mx - x[j], dy = my - y[j], dz = mz - z[j];
     const double d2 = dx * dx + dy * dy + dz * dz;
     const double xx = k * std::sqrt(d2);
-    const bool far = xx >= kSeriesBelow;
-    const double xs = far ? xx : kSeriesBelow;  // keep the masked lanes finite
+    const bool far = xx >= kKernelSeriesBelow;
+    const double xs = far ? xx : kKernelSeriesBelow;  // keep the masked lanes finite
     double sn, cs;
     SinCos(xs, sn, cs);
     const double inv = 1.0 / xs, inv2 = inv * inv;
@@ -77,7 +74,7 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   Sources s;
   for (std::size_t j = 0; j < src.size(); ++j) {
     const Dipole& d = src[j];
-    const Complex c = currents_a[static_cast<Eigen::Index>(j % array.size())];
+    const Complex c = currents_a[static_cast<Eigen::Index>(DipoleOfSource(j, array.size()))];
     s.x.push_back(d.position_m.x()), s.y.push_back(d.position_m.y()),
         s.z.push_back(d.position_m.z());
     s.ux.push_back(d.orientation.x()), s.uy.push_back(d.orientation.y()),
@@ -97,7 +94,7 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
     // Near pairs (x < 2, including m itself) through the series, in source order.
     for (std::size_t j = 0; j < src.size(); ++j) {
       const double x = k * (dm.position_m - src[j].position_m).norm();
-      if (x >= kSeriesBelow) continue;
+      if (x >= kKernelSeriesBelow) continue;
       const double r = MutualResistance(dm, src[j], k) / scale;
       vr += r * s.ir[j];
       vi += r * s.ii[j];
