@@ -13,10 +13,13 @@
 
 namespace lobecast::cli {
 
+std::vector<std::string> PolarizationReferenceNames() {
+  return NamesOf({PolarizationReference::kLinearX, PolarizationReference::kLinearY,
+                  PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular});
+}
+
 std::vector<std::string> ReferenceNames() {
-  std::vector<std::string> names =
-      NamesOf({PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-               PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular});
+  std::vector<std::string> names = PolarizationReferenceNames();
   names.emplace_back("auto");
   return names;
 }

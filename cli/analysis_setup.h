@@ -19,7 +19,9 @@ inline constexpr const char* kReferenceHelp =
     "rhcp or lhcp (circular), or auto: whichever of the four carries the most co-polar "
     "field at the grid peak";
 
-// What --reference accepts: the name of every PolarizationReference, then "auto".
+// The name of every PolarizationReference: x, y, rhcp, lhcp.
+std::vector<std::string> PolarizationReferenceNames();
+// What --reference accepts: those, then "auto".
 std::vector<std::string> ReferenceNames();
 
 // "auto" -> std::nullopt (resolve with AutoReference); throws InvalidArgument for an
