@@ -4,6 +4,7 @@
 #include <cstdio>
 
 #include "engine/analysis/pattern_probe.h"
+#include "engine/check.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/field/far_field.h"
@@ -83,6 +84,7 @@ void HalfPlane(const StoredResult& stored, double phi_deg, const std::vector<dou
   if (const auto ip = FindAngle(g.phi_deg, phi_deg, true)) {
     for (double t : thetas) {
       const auto it = FindAngle(g.theta_deg, t, false);
+      LOBECAST_CHECK(it.has_value());  // the thetas are stored ones
       half.push_back(GridSample(stored, *it, *ip));
     }
   } else {
