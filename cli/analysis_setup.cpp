@@ -4,6 +4,7 @@
 #include <complex>
 #include <string>
 
+#include "cli/enum_names.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/polarization.h"
@@ -12,12 +13,23 @@
 
 namespace lobecast::cli {
 
+std::vector<std::string> PolarizationReferenceNames() {
+  return NamesOf({PolarizationReference::kLinearX, PolarizationReference::kLinearY,
+                  PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular});
+}
+
+std::vector<std::string> ReferenceNames() {
+  std::vector<std::string> names = PolarizationReferenceNames();
+  names.emplace_back("auto");
+  return names;
+}
+
 std::optional<PolarizationReference> ParseReference(std::string_view text) {
   const std::string lower = Lower(text);
   if (lower == "auto") return std::nullopt;
   if (const auto r = PolarizationReferenceFromString(lower)) return r;
-  throw InvalidArgument("--reference '" + std::string(text) +
-                        "': expected x, y, rhcp, lhcp or auto");
+  throw InvalidArgument("--reference '" + std::string(text) + "': expected " +
+                        JoinAlternatives(ReferenceNames()));
 }
 
 std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,

@@ -6,6 +6,7 @@
 #include <string>
 #include <string_view>
 #include <utility>
+#include <vector>
 
 #include "engine/analysis/analysis_types.h"
 #include "engine/pattern.h"
@@ -17,6 +18,11 @@ inline constexpr const char* kReferenceHelp =
     "Polarization reference for co/cross-polar levels and XPD: x or y (Ludwig-3 linear), "
     "rhcp or lhcp (circular), or auto: whichever of the four carries the most co-polar "
     "field at the grid peak";
+
+// The name of every PolarizationReference: x, y, rhcp, lhcp.
+std::vector<std::string> PolarizationReferenceNames();
+// What --reference accepts: those, then "auto".
+std::vector<std::string> ReferenceNames();
 
 // "auto" -> std::nullopt (resolve with AutoReference); throws InvalidArgument for an
 // unknown name.

@@ -9,6 +9,7 @@
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
+#include "cli/enum_names.h"
 #include "cli/output_path.h"
 #include "cli/progress_bar.h"
 #include "engine/analysis/pattern_analysis.h"
@@ -134,7 +135,8 @@ void AddComputeCommand(CLI::App& app) {
                   "(non-uniform FFT, accurate to --tolerance of the pattern peak; a lattice "
                   "transform when the elements sit on a regular grid) or auto (fast only "
                   "where it is clearly cheaper)")
-      ->check(CLI::IsMember({"direct", "fast", "auto"}))
+      ->check(
+          CLI::IsMember(NamesOf({FieldMethod::kDirect, FieldMethod::kFast, FieldMethod::kAuto})))
       ->capture_default_str();
   cmd->add_option("--tolerance", args->tolerance,
                   "Fast method: error allowed in rE, relative to the pattern's peak |rE| (1)")
@@ -149,7 +151,7 @@ void AddComputeCommand(CLI::App& app) {
                   "and phi = 90 deg and a theta-phi directivity map (dBi)");
   cmd->add_option("--reference", args->reference,
                   std::string(kReferenceHelp) + "; for the analysis stored in the file")
-      ->check(CLI::IsMember({"x", "y", "rhcp", "lhcp", "auto"}, CLI::ignore_case));
+      ->check(CLI::IsMember(ReferenceNames(), CLI::ignore_case));
   cmd->add_flag("--no-analysis", args->no_analysis,
                 "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
                 "is otherwise stored under /summary/analysis");

@@ -12,6 +12,7 @@
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
+#include "cli/enum_names.h"
 #include "cli/output_path.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
@@ -41,11 +42,16 @@ struct ExportArgs {
 void RunExport(const ExportArgs& args) {
   PatternTableOptions table;
   const auto format = ExportFormatFromString(args.format);
-  if (!format) throw InvalidArgument("--format '" + args.format + "': expected csv or tsv");
+  if (!format) {
+    throw InvalidArgument("--format '" + args.format + "': expected " +
+                          JoinAlternatives(NamesOf({ExportFormat::kCsv, ExportFormat::kTsv})));
+  }
   table.format = *format;
   const auto coords = ExportCoordinatesFromString(args.coords);
   if (!coords) {
-    throw InvalidArgument("--coords '" + args.coords + "': expected theta-phi or az-el");
+    throw InvalidArgument("--coords '" + args.coords + "': expected " +
+                          JoinAlternatives(NamesOf({ExportCoordinates::kThetaPhi,
+                                                    ExportCoordinates::kAzimuthElevation})));
   }
   table.coordinates = *coords;
   const std::optional<PolarizationReference> fixed = ParseReference(args.reference);

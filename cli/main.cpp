@@ -3,24 +3,13 @@
 // decides exit codes.
 #include <cstdio>
 #include <exception>
-#include <new>
 #include <string>
 
 #include <CLI/CLI.hpp>
 
 #include "cli/commands.h"
-#include "engine/error.h"
-#include "io/input_error.h"
-#include "io/io_error.h"
+#include "cli/exit_code.h"
 #include "io/version.h"
-
-namespace {
-
-constexpr int kExitOk = 0;
-constexpr int kExitFailure = 1;
-constexpr int kExitBadInput = 2;
-
-}  // namespace
 
 int main(int argc, char** argv) {
   CLI::App app{
@@ -42,25 +31,11 @@ int main(int argc, char** argv) {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
     const int code = app.exit(e);  // prints help, version or the usage error
-    return code == 0 ? kExitOk : kExitBadInput;
-  } catch (const lobecast::InputError& e) {
-    std::fprintf(stderr, "lobecast: %s\n", e.what());
-    return kExitBadInput;
-  } catch (const lobecast::InvalidArgument& e) {
-    std::fprintf(stderr, "lobecast: invalid input: %s\n", e.what());
-    return kExitBadInput;
-  } catch (const lobecast::NotAResultError& e) {
-    std::fprintf(stderr, "lobecast: %s\n", e.what());
-    return kExitBadInput;
-  } catch (const lobecast::IoError& e) {
-    std::fprintf(stderr, "lobecast: %s\n", e.what());
-    return kExitFailure;
-  } catch (const std::bad_alloc&) {
-    std::fprintf(stderr, "lobecast: out of memory (try a coarser grid or fewer directions)\n");
-    return kExitFailure;
-  } catch (const std::exception& e) {
-    std::fprintf(stderr, "lobecast: error: %s\n", e.what());
-    return kExitFailure;
+    return code == 0 ? lobecast::cli::kExitOk : lobecast::cli::kExitBadInput;
+  } catch (...) {
+    const lobecast::cli::ExitReport r = lobecast::cli::ReportFor(std::current_exception());
+    std::fprintf(stderr, "%s\n", r.message.c_str());
+    return r.code;
   }
-  return kExitOk;
+  return lobecast::cli::kExitOk;
 }

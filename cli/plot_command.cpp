@@ -4,8 +4,11 @@
 #include <cstdio>
 #include <memory>
 #include <string>
+#include <vector>
 
+#include "cli/analysis_setup.h"
 #include "cli/commands.h"
+#include "cli/enum_names.h"
 #include "cli/output_path.h"
 #include "io/hdf5/result_reader.h"
 #include "io/input_error.h"
@@ -36,21 +39,38 @@ struct PlotArgs {
 plot::PlotOptions ToOptions(const PlotArgs& a) {
   plot::PlotOptions o;
   const auto kind = plot::PlotKindFromString(a.kind);
-  if (!kind) Bad("--kind", a.kind, "polar, cartesian, map or polarization");
+  if (!kind) {
+    Bad("--kind", a.kind,
+        JoinAlternatives(NamesOf({plot::PlotKind::kPolar, plot::PlotKind::kCartesian,
+                                  plot::PlotKind::kMap, plot::PlotKind::kPolarization})));
+  }
   o.kind = *kind;
   const auto cut = plot::CutSpecFromString(a.cut);
   if (!cut) Bad("--cut", a.cut, "phi=DEG (a plane through z) or theta=DEG (a cone, 0..180)");
   o.cut = *cut;
   if (!a.quantity.empty()) {
     const auto q = plot::QuantityFromString(a.quantity);
-    if (!q) Bad("--quantity", a.quantity, "directivity, co, cross, theta or phi");
+    if (!q) {
+      Bad("--quantity", a.quantity,
+          JoinAlternatives(
+              NamesOf({plot::Quantity::kDirectivity, plot::Quantity::kCo, plot::Quantity::kCross,
+                       plot::Quantity::kTheta, plot::Quantity::kPhi})));
+    }
     o.quantity = *q;
   }
   const auto ref = plot::ReferenceChoiceFromString(a.reference);
-  if (!ref) Bad("--reference", a.reference, "auto, x, y, rhcp or lhcp");
+  if (!ref) {
+    std::vector<std::string> names = {"auto"};
+    for (const std::string& n : PolarizationReferenceNames()) names.push_back(n);
+    Bad("--reference", a.reference, JoinAlternatives(names));
+  }
   o.reference = *ref;
   const auto proj = plot::MapProjectionFromString(a.projection);
-  if (!proj) Bad("--projection", a.projection, "theta-phi, az-el or uv");
+  if (!proj) {
+    Bad("--projection", a.projection,
+        JoinAlternatives(NamesOf({plot::MapProjection::kThetaPhi, plot::MapProjection::kAzEl,
+                                  plot::MapProjection::kUv})));
+  }
   o.projection = *proj;
   const auto size = plot::ImageSizeFromString(a.size);
   if (!size) Bad("--size", a.size, "WIDTHxHEIGHT in px, e.g. 800x600");

@@ -12,6 +12,7 @@
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
+#include "cli/enum_names.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "io/hdf5/analysis_reader.h"
@@ -55,7 +56,8 @@ void RunReport(const ReportArgs& args) {
   if (!args.null_field.empty()) {
     const auto f = NullFieldFromString(args.null_field);
     if (!f) {
-      throw InvalidArgument("--null-field '" + args.null_field + "': expected total or co");
+      throw InvalidArgument("--null-field '" + args.null_field + "': expected " +
+                            JoinAlternatives(NamesOf({NullField::kTotal, NullField::kCoPolar})));
     }
     set(options.null_field, *f);
   }

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "engine/check.h"
 #include "engine/error.h"
 
 namespace lobecast {
@@ -50,31 +51,27 @@ Directions Directions::FromGrid(const AngularGrid& grid) {
 
 Directions Directions::FromAngles(const std::vector<double>& theta_rad,
                                   const std::vector<double>& phi_rad) {
-  if (theta_rad.size() != phi_rad.size()) {
-    std::ostringstream s;
-    s << "direction list: " << theta_rad.size() << " theta values but " << phi_rad.size()
-      << " phi values";
-    throw InvalidArgument(s.str());
-  }
+  LOBECAST_CHECK_EQ(theta_rad.size(), phi_rad.size());
   Directions d;
   d.theta_rad_ = theta_rad;
   d.phi_rad_ = phi_rad;
   return d;
 }
 
-Vec3 Directions::r_hat(std::size_t i) const {
-  const double t = theta_rad_[i], p = phi_rad_[i];
+Vec3 UnitVectorAt(double t, double p) {
   return {std::sin(t) * std::cos(p), std::sin(t) * std::sin(p), std::cos(t)};
 }
 
-Vec3 Directions::theta_hat(std::size_t i) const {
-  const double t = theta_rad_[i], p = phi_rad_[i];
+Vec3 ThetaHatAt(double t, double p) {
   return {std::cos(t) * std::cos(p), std::cos(t) * std::sin(p), -std::sin(t)};
 }
 
-Vec3 Directions::phi_hat(std::size_t i) const {
-  const double p = phi_rad_[i];
-  return {-std::sin(p), std::cos(p), 0.0};
-}
+Vec3 PhiHatAt(double p) { return {-std::sin(p), std::cos(p), 0.0}; }
+
+Vec3 Directions::r_hat(std::size_t i) const { return UnitVectorAt(theta_rad_[i], phi_rad_[i]); }
+
+Vec3 Directions::theta_hat(std::size_t i) const { return ThetaHatAt(theta_rad_[i], phi_rad_[i]); }
+
+Vec3 Directions::phi_hat(std::size_t i) const { return PhiHatAt(phi_rad_[i]); }
 
 }  // namespace lobecast

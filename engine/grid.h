@@ -29,12 +29,22 @@ struct AngularGrid {
   std::size_t size() const { return theta_deg.size() * phi_deg.size(); }
 };
 
-// An ordered list of observation directions, with the unit vectors the field
-// needs precomputed once (plan once, execute many).
+// The spherical unit vectors at (theta, phi), radians: r_hat, theta_hat and phi_hat
+// of the right-handed frame (CONVENTIONS §1). On a pole theta_hat and phi_hat take
+// the given phi.
+Vec3 UnitVectorAt(double theta_rad, double phi_rad);
+Vec3 ThetaHatAt(double theta_rad, double phi_rad);
+Vec3 PhiHatAt(double phi_rad);
+
+// An ordered list of observation directions: (theta, phi) pairs in radians, with
+// their unit vectors computed on demand. What the field needs per direction (k r_hat
+// and the projection vectors) is precomputed once by the FieldPlan that takes them.
 class Directions {
  public:
   Directions() = default;
+  // Theta-major, the grid's flattened order.
   static Directions FromGrid(const AngularGrid& grid);
+  // theta_rad[i] with phi_rad[i]; the two lists have the same length (checked).
   static Directions FromAngles(const std::vector<double>& theta_rad,
                                const std::vector<double>& phi_rad);
 

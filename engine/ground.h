@@ -4,6 +4,7 @@
 // horizontal ones. Fields below the plane are exactly zero.
 #pragma once
 
+#include <cstddef>
 #include <vector>
 
 #include "engine/types.h"
@@ -15,6 +16,15 @@ Dipole ImageOf(const Dipole& d);
 // The sources that radiate in the upper half space: the dipoles themselves and,
 // with a PEC ground, their images after them (dipole i's image is at i + N).
 std::vector<Dipole> RadiatingSources(const Array& array);
+
+// In RadiatingSources of an array of num_dipoles: where dipole i's image stands,
+// and which dipole's current drives source s (itself, or the dipole it images).
+inline std::size_t ImageIndexOf(std::size_t dipole, std::size_t num_dipoles) {
+  return dipole + num_dipoles;
+}
+inline std::size_t DipoleOfSource(std::size_t source, std::size_t num_dipoles) {
+  return source % num_dipoles;
+}
 
 // True when the field in direction theta is forced to zero by the ground.
 inline bool BelowGround(Ground g, double theta_rad) {

@@ -50,7 +50,7 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   auto t0 = Clock::now();
   const Eigen::VectorXcd currents = CurrentsOf(array);
   if (array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix) {
-    r.resistance_ohm = ResistanceMatrix(array);
+    r.resistance_ohm = ResistanceMatrix(array, options.num_threads);
     r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
     // The active resistances need the mutual reactances too: summed row by row
     // (O(N) memory) rather than from a second, complex N x N matrix.

@@ -5,6 +5,7 @@
 #include <limits>
 #include <string>
 
+#include "engine/decibels.h"
 #include "engine/text_case.h"
 
 namespace lobecast {
@@ -36,7 +37,7 @@ Polarization PolarizationOf(Complex et, Complex ep) {
     p.axial_ratio_db = std::numeric_limits<double>::infinity();
     p.sense = 0;
   } else {
-    p.axial_ratio_db = 20.0 * std::log10((r + l) / diff);
+    p.axial_ratio_db = AmplitudeToDb((r + l) / diff);
     p.sense = r > l ? 1 : -1;
   }
   // tau = 1/2 atan2(S2, S1), folded into (-90, 90]. Undefined for circular

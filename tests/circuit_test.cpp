@@ -6,6 +6,7 @@
 
 #include <gtest/gtest.h>
 
+#include "engine/check.h"
 #include "engine/coupling/self_impedance.h"
 #include "engine/error.h"
 #include "engine/field/far_field.h"
@@ -134,7 +135,7 @@ TEST(Circuit, InductiveParasiteReflectsCapacitiveDirects) {
 
 TEST(Circuit, Refusals) {
   const Eigen::MatrixXcd z = Eigen::MatrixXcd::Identity(2, 2);
-  EXPECT_THROW(SolveCircuit(z, std::vector<Port>(3)), InvalidArgument);
+  EXPECT_THROW(SolveCircuit(z, std::vector<Port>(3)), InternalError);  // a caller bug
   std::vector<Port> open(2);
   open[0] = {PortKind::kLoad, 0.0, 0.0, Complex(-1.0, 0.0)};  // cancels Z11: singular
   open[1] = {PortKind::kDrive, 0.0, 1.0, 0.0};

@@ -6,6 +6,7 @@
 
 #include <gtest/gtest.h>
 
+#include "engine/check.h"
 #include "engine/coupling/self_impedance.h"
 #include "engine/error.h"
 #include "engine/power/radiated_power.h"
@@ -95,7 +96,7 @@ TEST(Coupling, WhatNeedsAWireAndWhatIsRefused) {
   wires[0].reactance_ohm = -1500;
   wires[0].conductivity_s_m = 5.8e7;  // without a radius
   EXPECT_THROW(SolveCoupling(a, ports, wires), InvalidArgument);
-  EXPECT_THROW(SolveCoupling(a, ports, {Wire{}, Wire{}}), InvalidArgument);
+  EXPECT_THROW(SolveCoupling(a, ports, {Wire{}, Wire{}}), InternalError);  // a caller bug
 }
 
 }  // namespace

@@ -48,6 +48,11 @@ TEST(Ground, RadiatingSourcesListsImagesAfterDipoles) {
     EXPECT_EQ(s[i + 4].position_m, ImageOf(pec.dipoles[i]).position_m);
     EXPECT_EQ(s[i + 4].orientation, ImageOf(pec.dipoles[i]).orientation);
   }
+  for (std::size_t i = 0; i < 4; ++i) {
+    EXPECT_EQ(s[ImageIndexOf(i, 4)].position_m, ImageOf(pec.dipoles[i]).position_m) << i;
+    EXPECT_EQ(DipoleOfSource(i, 4), i);
+    EXPECT_EQ(DipoleOfSource(ImageIndexOf(i, 4), 4), i);
+  }
   EXPECT_FALSE(BelowGround(Ground::kPec, 0.5 * kPi));
   EXPECT_TRUE(BelowGround(Ground::kPec, 0.5 * kPi + 1e-12));
   EXPECT_FALSE(BelowGround(Ground::kNone, kPi));

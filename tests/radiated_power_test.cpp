@@ -257,5 +257,19 @@ INSTANTIATE_TEST_SUITE_P(RandomArrays, ClosedFormVsQuadrature, ::testing::Values
                                   std::to_string(info.param.num_dipoles);
                          });
 
+// Each entry is one thread's fixed-order sum, so the thread count cannot change a bit
+// (with and without ground, where the image terms are added too).
+TEST(ResistanceMatrix, SameBitsOnAnyThreadCount) {
+  TestRng rng(71);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array a = testing::RandomArray(rng, 40, g);
+    const Eigen::MatrixXd one = ResistanceMatrix(a, 1);
+    for (int threads : {2, 3, 0}) {
+      const Eigen::MatrixXd r = ResistanceMatrix(a, threads);
+      EXPECT_TRUE((r.array() == one.array()).all()) << threads << " threads, " << ToString(g);
+    }
+  }
+}
+
 }  // namespace
 }  // namespace lobecast

@@ -13,6 +13,7 @@
 #include <map>
 #include <sstream>
 #include <string>
+#include <utility>
 #include <vector>
 
 #include <gmock/gmock.h>
@@ -464,6 +465,30 @@ TEST(ReportExport, BadOptionsExitWithTwo) {
     EXPECT_EQ(run.exit_code, 2) << args << "\n" << run.err;
     EXPECT_FALSE(run.err.empty()) << args;
     EXPECT_TRUE(run.out.empty() || run.out.find("Usage") != std::string::npos) << args;
+  }
+}
+
+// Enum options list the names they accept, the ones the engine's ToString gives
+// (cli/enum_names.h), in the order the help text documents them.
+TEST(ReportExport, BadEnumNamesListTheAcceptedOnes) {
+  const std::string result = Compute(Sample("single-dipole"));
+  const std::string r = " " + Quote(result);
+  const std::string plot = "plot -o " + Quote((WorkDir("io") / "names.png").string());
+  const std::pair<std::string, std::string> cases[] = {
+      {"export --reference z" + r, "expected x, y, rhcp, lhcp or auto"},
+      {"export --format xlsx" + r, "expected csv or tsv"},
+      {"export --coords polar" + r, "expected theta-phi or az-el"},
+      {"report --null-field cross" + r, "expected total or co"},
+      {"compute --method Fast " + Quote(Sample("single-dipole")), "{direct,fast,auto}"},
+      {"compute --reference q " + Quote(Sample("single-dipole")), "{x,y,rhcp,lhcp,auto}"},
+      {plot + " --kind pie" + r, "expected polar, cartesian, map or polarization"},
+      {plot + " --quantity x" + r, "expected directivity, co, cross, theta or phi"},
+      {plot + " --reference q" + r, "expected auto, x, y, rhcp or lhcp"},
+      {plot + " --kind map --projection merc" + r, "expected theta-phi, az-el or uv"}};
+  for (const auto& [args, names] : cases) {
+    const RunOutput run = Lobecast(args);
+    EXPECT_EQ(run.exit_code, 2) << args;
+    EXPECT_NE(run.err.find(names), std::string::npos) << args << "\n" << run.err;
   }
 }
 

@@ -115,7 +115,7 @@ struct BeamCut {
 struct FrontToBack {
   // Peak directivity over the directivity in the exactly opposite direction; +inf
   // when that is zero (an exact back null, or the no-field region below a ground), or
-  // zero up to rounding: below 1e-30 of the peak (300 dB; PowerRatioDb in beam.h).
+  // zero up to rounding: below 1e-30 of the peak (300 dB; PowerRatioDb in engine/decibels.h).
   double ratio_db = 0.0;
   DirectionDeg back_direction;
   // Same, toward the same theta at phi + 180 deg (the "behind, at the same elevation"
@@ -153,7 +153,7 @@ struct PolarizationPurity {
   double co_polar_dbi_at_peak = 0.0;
   double cross_polar_dbi_at_peak = 0.0;
   // XPD = |co|^2 / |cross|^2 in dB; +inf for a pure co-polar field, i.e. a cross field
-  // below ~1e-15 of the co-polar one (zero up to rounding; PowerRatioDb in beam.h).
+  // below ~1e-15 of the co-polar one (zero up to rounding; PowerRatioDb in engine/decibels.h).
   double xpd_at_peak_db = 0.0;
   double worst_xpd_in_beam_db = 0.0;  // lowest XPD inside the -3 dB main beam
   DirectionDeg worst_xpd_direction;

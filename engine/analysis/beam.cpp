@@ -10,6 +10,7 @@
 #include <Eigen/Eigenvalues>
 
 #include "engine/analysis/local_search.h"
+#include "engine/decibels.h"
 
 namespace lobecast {
 namespace {
@@ -90,19 +91,6 @@ void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
 }
 
 }  // namespace
-
-double ToDb(double ratio) {
-  if (ratio == kInf) return kInf;
-  if (ratio <= 0.0) return -kInf;
-  return 10.0 * std::log10(ratio);
-}
-
-double PowerRatioDb(double numerator, double denominator) {
-  if (numerator == 0.0 && denominator == 0.0) return std::numeric_limits<double>::quiet_NaN();
-  if (denominator <= kRoundingPowerRatio * numerator) return kInf;
-  if (numerator <= kRoundingPowerRatio * denominator) return -kInf;
-  return ToDb(numerator / denominator);
-}
 
 DirectionDeg ToDirectionDeg(const Vec3& r_hat) {
   const SphericalAngles s = AnglesOf(r_hat);

@@ -63,17 +63,4 @@ FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double pe
 // Direction in degrees, phi in [0, 360) (0 on a pole).
 DirectionDeg ToDirectionDeg(const Vec3& r_hat);
 
-// 10 log10(ratio), with +-inf at 0 and +inf.
-double ToDb(double ratio);
-
-// A power ratio below which the smaller of two powers is rounding noise of the larger:
-// 1e-30, i.e. a field below ~1e-15 of the other (a few ulps of double precision), 300 dB.
-inline constexpr double kRoundingPowerRatio = 1e-30;
-
-// 10 log10(numerator / denominator) for two powers (or directivities) >= 0 that are
-// compared as a ratio (XPD, F/B): +inf when the denominator is below kRoundingPowerRatio
-// of the numerator (zero up to rounding, not a finite ~320 dB of noise), -inf in the
-// opposite case, NaN when both are zero.
-double PowerRatioDb(double numerator, double denominator);
-
 }  // namespace lobecast

@@ -5,9 +5,8 @@
 #include <array>
 #include <cmath>
 #include <limits>
-#include <sstream>
 
-#include "engine/error.h"
+#include "engine/check.h"
 
 namespace lobecast {
 
@@ -15,12 +14,8 @@ double FindRoot(const std::function<double(double)>& f, double lo, double hi, do
                 double f_hi, double tolerance) {
   if (f_lo == 0.0) return lo;
   if (f_hi == 0.0) return hi;
-  if ((f_lo > 0.0) == (f_hi > 0.0)) {
-    std::ostringstream s;
-    s << "root search: f(" << lo << ") = " << f_lo << " and f(" << hi << ") = " << f_hi
-      << " have the same sign, expected a sign change";
-    throw InvalidArgument(s.str());
-  }
+  // The callers bracket a sign change before they ask for the root.
+  LOBECAST_CHECK_SHOWING((f_lo > 0.0) != (f_hi > 0.0), f_lo, f_hi);
   constexpr double kEps = std::numeric_limits<double>::epsilon();
   // b: best estimate, a: previous b, c: the end of the bracket opposite to b.
   double a = lo, b = hi, fa = f_lo, fb = f_hi;

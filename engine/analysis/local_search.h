@@ -13,7 +13,8 @@ namespace lobecast {
 // bisection (R. P. Brent, Algorithms for Minimization without Derivatives, 1973,
 // ch. 4). The bracket always holds a sign change, so a discontinuity (the edge of the
 // ground's no-field region) is found like a root. Stops once the bracket is narrower
-// than about tolerance. Throws InvalidArgument without a sign change.
+// than about tolerance. Without a sign change it throws InternalError (the callers
+// bracket one first, so that is a bug).
 double FindRoot(const std::function<double(double)>& f, double lo, double hi, double f_lo,
                 double f_hi, double tolerance);
 

@@ -9,6 +9,7 @@
 
 #include "engine/analysis/beam.h"
 #include "engine/analysis/local_search.h"
+#include "engine/decibels.h"
 
 namespace lobecast {
 namespace {
@@ -65,9 +66,8 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     s.directivity = grid_result.directivity[static_cast<Eigen::Index>(g)];
     return NullFieldDirectivity(probe, s, options) / peak_directivity;
   };
-  const double threshold = std::pow(10.0, options.null_threshold_db / 10.0);
-  const double screen =
-      std::min(0.5, std::pow(10.0, (options.null_threshold_db + kScreenMargin_db) / 10.0));
+  const double threshold = FromDb(options.null_threshold_db);
+  const double screen = std::min(0.5, FromDb(options.null_threshold_db + kScreenMargin_db));
   const auto components =
       neighbours.Components(neighbours.LocalMinima(grid_level, 1e-9 * threshold));
   struct Candidate {

@@ -12,6 +12,8 @@
 #include "engine/analysis/pattern_probe.h"
 #include "engine/analysis/polarization_purity.h"
 #include "engine/analysis/side_lobes.h"
+#include "engine/check.h"
+#include "engine/decibels.h"
 #include "engine/error.h"
 #include "engine/text_case.h"
 
@@ -99,14 +101,11 @@ PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_res
   if (!options.IsValid(&why)) throw InvalidArgument(why);
   Validate(array);
   const std::size_t n = grid_result.grid.size();
-  if (n == 0 || static_cast<std::size_t>(grid_result.directivity.size()) != n ||
-      grid_result.field.size() != n) {
-    std::ostringstream s;
-    s << "pattern analysis: grid result has " << grid_result.directivity.size()
-      << " directivity values and " << grid_result.field.size() << " field values for a grid of "
-      << n << " directions, expected one each per direction (at least one)";
-    throw InvalidArgument(s.str());
-  }
+  // An empty grid can come from a file; values that do not fit the grid cannot
+  // (ComputePattern makes one each per direction, ReadResult checks the shapes).
+  if (n == 0) throw InvalidArgument("pattern analysis: found an empty grid, expected directions");
+  LOBECAST_CHECK_EQ(static_cast<std::size_t>(grid_result.directivity.size()), n);
+  LOBECAST_CHECK_EQ(grid_result.field.size(), n);
   if (!(grid_result.radiated_power_w > 0)) {
     std::ostringstream s;
     s << "pattern analysis: radiated power found " << grid_result.radiated_power_w

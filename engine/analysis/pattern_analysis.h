@@ -18,15 +18,17 @@
 
 namespace lobecast {
 
-// grid_result must be ComputePattern(array, ...) for this array (checked at the grid
-// maximum). Throws InvalidArgument for invalid options (see IsValid), an invalid
-// array, or a grid result that does not fit the array.
 // The polarization reference (x, y, RHCP, LHCP) with the largest co-polar
 // part at the grid peak (PeakIndex, so the beam the summary and the analysis
 // name); ties, as for a 45 deg linear field, go to the first in that order.
 // What "auto" means for compute, report, export and plot.
 PolarizationReference AutoReference(const PatternResult& result);
 
+// grid_result must be ComputePattern(array, ...) for this array (checked at the grid
+// maximum). Throws InvalidArgument for invalid options (see IsValid), an invalid
+// array, an empty grid, a radiated power that is not > 0, or a grid result that
+// does not fit the array; InternalError when the result's values do not match its
+// own grid (ComputePattern and ReadResult never make one).
 PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_result,
                                const AnalysisOptions& options = {});
 

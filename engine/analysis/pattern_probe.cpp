@@ -6,13 +6,9 @@
 #include <Eigen/Geometry>
 
 #include "engine/ground.h"
+#include "engine/intensity.h"
 
 namespace lobecast {
-
-Vec3 UnitVectorAt(double theta_rad, double phi_rad) {
-  return {std::sin(theta_rad) * std::cos(phi_rad), std::sin(theta_rad) * std::sin(phi_rad),
-          std::cos(theta_rad)};
-}
 
 SphericalAngles AnglesOf(const Vec3& r) {
   SphericalAngles s;
@@ -30,16 +26,18 @@ double AngleBetween(const Vec3& a, const Vec3& b) {
   return std::atan2(a.cross(b).norm(), a.dot(b));
 }
 
+Vec3 GreatCirclePoint(const Vec3& from, const Vec3& tangent, double angle_rad) {
+  return std::cos(angle_rad) * from + std::sin(angle_rad) * tangent;
+}
+
 Vec3 AlongGreatCircle(const Vec3& from, const Vec3& tangent, double angle_rad) {
-  return (std::cos(angle_rad) * from + std::sin(angle_rad) * tangent).normalized();
+  return GreatCirclePoint(from, tangent, angle_rad).normalized();
 }
 
 LocalChart::LocalChart(const Vec3& origin) : origin_(origin.normalized()) {
   const SphericalAngles s = AnglesOf(origin_);
-  const double ct = std::cos(s.theta_rad), st = std::sin(s.theta_rad);
-  const double cp = std::cos(s.phi_rad), sp = std::sin(s.phi_rad);
-  e1_ = Vec3(ct * cp, ct * sp, -st);
-  e2_ = Vec3(-sp, cp, 0.0);
+  e1_ = ThetaHatAt(s.theta_rad, s.phi_rad);
+  e2_ = PhiHatAt(s.phi_rad);
 }
 
 Vec3 LocalChart::At(double a, double b) const {
@@ -49,10 +47,8 @@ Vec3 LocalChart::At(double a, double b) const {
 }
 
 Eigen::Vector3cd ProbeSample::FieldVector_v() const {
-  const Vec3 th(std::cos(theta_rad) * std::cos(phi_rad), std::cos(theta_rad) * std::sin(phi_rad),
-                -std::sin(theta_rad));
-  const Vec3 ph(-std::sin(phi_rad), std::cos(phi_rad), 0.0);
-  return e_theta * th.cast<Complex>() + e_phi * ph.cast<Complex>();
+  return e_theta * ThetaHatAt(theta_rad, phi_rad).cast<Complex>() +
+         e_phi * PhiHatAt(phi_rad).cast<Complex>();
 }
 
 CoCross ProbeSample::CoCrossFor(PolarizationReference reference) const {
@@ -65,7 +61,7 @@ PatternProbe::PatternProbe(const Array& array, double radiated_power_w)
       // Sources only: every At() call brings its own directions (direct sums).
       plan_(std::make_shared<const FieldPlan>(array, Directions::FromAngles({}, {}),
                                               FieldOptions{0, FieldMethod::kDirect})),
-      per_v2_(4.0 * kPi / (2.0 * kEta0_ohm * radiated_power_w)) {}
+      per_v2_(DirectivityPerSquaredField(radiated_power_w)) {}
 
 bool PatternProbe::NoFieldAt(const Vec3& r) const {
   return BelowGround(array_.ground, AnglesOf(r).theta_rad);

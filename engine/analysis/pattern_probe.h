@@ -15,9 +15,6 @@
 
 namespace lobecast {
 
-// r_hat for (theta, phi) in radians.
-Vec3 UnitVectorAt(double theta_rad, double phi_rad);
-
 struct SphericalAngles {
   double theta_rad = 0.0;  // [0, pi], from atan2 (accurate near the poles)
   double phi_rad = 0.0;    // [0, 2 pi); 0 on the poles, where phi is degenerate
@@ -27,8 +24,12 @@ SphericalAngles AnglesOf(const Vec3& r_hat);
 // Angle between two unit vectors (rad), accurate for small and near-pi angles.
 double AngleBetween(const Vec3& a, const Vec3& b);
 
-// The point reached from a unit vector `from` after angle_rad along the great circle
-// whose unit tangent at `from` is `tangent` (tangent . from = 0).
+// cos(angle) from + sin(angle) tangent: the point reached from a unit vector `from`
+// after angle_rad along the great circle whose unit tangent at `from` is `tangent`
+// (tangent . from = 0), unit up to rounding. GreatCirclePoint(tangent, -from, angle)
+// is the circle's direction of travel there.
+Vec3 GreatCirclePoint(const Vec3& from, const Vec3& tangent, double angle_rad);
+// The same point normalized.
 Vec3 AlongGreatCircle(const Vec3& from, const Vec3& tangent, double angle_rad);
 
 // Normal coordinates about a point: (a, b) -> exp_origin(a e1 + b e2), with e1 and e2

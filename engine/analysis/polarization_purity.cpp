@@ -6,6 +6,7 @@
 #include <limits>
 
 #include "engine/analysis/beam.h"
+#include "engine/decibels.h"
 
 namespace lobecast {
 namespace {

@@ -5,6 +5,7 @@
 #include <cmath>
 
 #include "engine/analysis/beam.h"
+#include "engine/decibels.h"
 
 namespace lobecast {
 namespace {
@@ -52,11 +53,10 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
   std::sort(cands.begin(), cands.end(),
             [](const Candidate& a, const Candidate& b) { return a.value > b.value; });
 
-  const double listing = std::pow(10.0, options.side_lobe_threshold_db / 10.0) * peak_directivity;
+  const double listing = FromDb(options.side_lobe_threshold_db) * peak_directivity;
   const double worth =
-      std::pow(10.0, (options.side_lobe_threshold_db - kCandidateMargin_db) / 10.0) *
-      peak_directivity;
-  const double major = std::pow(10.0, -options.major_lobe_tolerance_db / 10.0) * peak_directivity;
+      FromDb(options.side_lobe_threshold_db - kCandidateMargin_db) * peak_directivity;
+  const double major = FromDb(-options.major_lobe_tolerance_db) * peak_directivity;
   const std::size_t max_refined = 4 * options.max_side_lobes + 8;
   std::vector<Vec3> accepted;
   std::vector<Lobe> sides;

@@ -7,6 +7,7 @@
 
 #include <Eigen/LU>
 
+#include "engine/check.h"
 #include "engine/error.h"
 
 namespace lobecast {
@@ -30,12 +31,8 @@ std::string_view ToString(PortKind k) {
 
 CircuitSolution SolveCircuit(const Eigen::MatrixXcd& z, const std::vector<Port>& ports) {
   const auto n = static_cast<Eigen::Index>(ports.size());
-  if (z.rows() != n || z.cols() != n) {
-    std::ostringstream s;
-    s << "circuit: impedance matrix is " << z.rows() << "x" << z.cols() << " but there are " << n
-      << " ports";
-    throw InvalidArgument(s.str());
-  }
+  LOBECAST_CHECK_EQ(z.rows(), n);
+  LOBECAST_CHECK_EQ(z.cols(), n);
   if (!z.allFinite()) {
     throw InvalidArgument(
         "circuit: the impedance matrix is not finite (a self reactance is unknown, or two "

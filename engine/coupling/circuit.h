@@ -42,7 +42,8 @@ struct CircuitSolution {
   Eigen::VectorXd port_loss_w;           // in source and load impedances: 1/2 |I|^2 Re Z_p
 };
 
-// Throws InvalidArgument when the sizes differ, a port value is not finite, or the
+// Sizes must agree (a failed LOBECAST_CHECK otherwise). Throws InvalidArgument when a
+// port value is not finite, or the
 // circuit is singular (no unique currents: e.g. lossless resonant loads).
 CircuitSolution SolveCircuit(const Eigen::MatrixXcd& impedance_ohm, const std::vector<Port>& ports);
 

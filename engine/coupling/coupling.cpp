@@ -5,6 +5,7 @@
 #include <cmath>
 #include <sstream>
 
+#include "engine/check.h"
 #include "engine/coupling/self_impedance.h"
 #include "engine/error.h"
 #include "engine/power/impedance.h"
@@ -64,12 +65,8 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
       << options.max_dipoles << " dipoles are supported";
     throw InvalidArgument(s.str());
   }
-  if (ports.size() != n || wires.size() != n) {
-    std::ostringstream s;
-    s << "coupling: " << ports.size() << " ports and " << wires.size() << " wires for " << n
-      << " dipoles";
-    throw InvalidArgument(s.str());
-  }
+  LOBECAST_CHECK_EQ(ports.size(), n);
+  LOBECAST_CHECK_EQ(wires.size(), n);
   const double z0 = options.reference_impedance_ohm;
   if (!std::isfinite(z0) || z0 <= 0) {
     std::ostringstream s;

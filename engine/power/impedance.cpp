@@ -5,6 +5,7 @@
 #include <limits>
 #include <sstream>
 
+#include "engine/check.h"
 #include "engine/error.h"
 #include "engine/ground.h"
 #include "engine/power/radiated_power.h"
@@ -55,12 +56,7 @@ Complex MutualImpedance(const Dipole& m, const Dipole& n, double k_rad_m) {
 Eigen::MatrixXcd ImpedanceMatrix(const Array& array, const Eigen::VectorXd& self_reactance_ohm,
                                  int num_threads) {
   Validate(array);
-  if (static_cast<std::size_t>(self_reactance_ohm.size()) != array.size()) {
-    std::ostringstream s;
-    s << "self reactances: found " << self_reactance_ohm.size()
-      << " values, expected one per dipole (" << array.size() << ")";
-    throw InvalidArgument(s.str());
-  }
+  LOBECAST_CHECK_EQ(static_cast<std::size_t>(self_reactance_ohm.size()), array.size());
   const double k = array.wavenumber_rad_m();
   const double scale = k * k * kEta0_ohm / (4.0 * kPi);
   const auto n = static_cast<std::ptrdiff_t>(array.size());
@@ -92,12 +88,8 @@ Eigen::MatrixXcd ImpedanceMatrix(const Array& array, const Eigen::VectorXd& self
 Eigen::VectorXcd ActiveImpedance(const Eigen::MatrixXcd& impedance_ohm,
                                  const Eigen::VectorXcd& currents_a) {
   const Eigen::Index n = currents_a.size();
-  if (impedance_ohm.rows() != n || impedance_ohm.cols() != n) {
-    std::ostringstream s;
-    s << "active impedance: impedance matrix is " << impedance_ohm.rows() << "x"
-      << impedance_ohm.cols() << " but there are " << n << " currents";
-    throw InvalidArgument(s.str());
-  }
+  LOBECAST_CHECK_EQ(impedance_ohm.rows(), n);
+  LOBECAST_CHECK_EQ(impedance_ohm.cols(), n);
   Eigen::VectorXcd out(n);
   for (Eigen::Index m = 0; m < n; ++m) {
     if (currents_a[m] == Complex(0.0)) {

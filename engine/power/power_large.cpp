@@ -1,6 +1,5 @@
 // Matrix-free closed-form power (power_large.h).
 #include "engine/power/power_large.h"
-#include "engine/threads.h"
 
 #include <cmath>
 #include <limits>
@@ -15,19 +14,17 @@
 #include "engine/ground.h"
 #include "engine/power/impedance.h"
 #include "engine/power/radiated_power.h"
+#include "engine/threads.h"
 
 namespace lobecast {
 namespace {
-
-// Below this x the closed forms cancel; radiated_power.cpp switches to the series there.
-constexpr double kSeriesBelow = 2.0;
 
 struct Sources {
   std::vector<double> x, y, z, ux, uy, uz, le, ir, ii;  // I of the driving dipole
 };
 
 // Row m of R I and of X' I (X' the mutual reactances, no self term) over the
-// sources with x = k |r_m - r_s| >= kSeriesBelow (the others contribute 0 here),
+// sources with x = k |r_m - r_s| >= kKernelSeriesBelow (the others contribute 0 here),
 // without the factor k^2 eta0 / (4 pi): sum_s Le_m Le_s [(u_m.u_s) h(x) +
 // (u_m.d)(u_s.d)/d^2 h2(x)] I_s with the kernels of impedance.h.
 struct RowSums {
@@ -47,8 +44,8 @@ RowSums RowFar(const Sources& s, const Dipole& m, double k) {
     const double dx = mx - x[j], dy = my - y[j], dz = mz - z[j];
     const double d2 = dx * dx + dy * dy + dz * dz;
     const double xx = k * std::sqrt(d2);
-    const bool far = xx >= kSeriesBelow;
-    const double xs = far ? xx : kSeriesBelow;  // keep the masked lanes finite
+    const bool far = xx >= kKernelSeriesBelow;
+    const double xs = far ? xx : kKernelSeriesBelow;  // keep the masked lanes finite
     double sn, cs;
     SinCos(xs, sn, cs);
     const double inv = 1.0 / xs, inv2 = inv * inv;
@@ -89,7 +86,7 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   Sources s;
   for (std::size_t j = 0; j < src.size(); ++j) {
     const Dipole& d = src[j];
-    const Complex c = currents_a[static_cast<Eigen::Index>(j % array.size())];
+    const Complex c = currents_a[static_cast<Eigen::Index>(DipoleOfSource(j, array.size()))];
     s.x.push_back(d.position_m.x()), s.y.push_back(d.position_m.y()),
         s.z.push_back(d.position_m.z());
     s.ux.push_back(d.orientation.x()), s.uy.push_back(d.orientation.y()),
@@ -110,7 +107,7 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
     // current couples nothing (and may have no finite X_mn, impedance.h).
     for (std::size_t j = 0; j < src.size(); ++j) {
       const double x = k * (dm.position_m - src[j].position_m).norm();
-      if (x >= kSeriesBelow) continue;
+      if (x >= kKernelSeriesBelow) continue;
       const Complex c(s.ir[j], s.ii[j]);
       row.r_i += MutualResistance(dm, src[j], k) / scale * c;
       if (j == static_cast<std::size_t>(m) || c == Complex(0.0)) continue;

@@ -8,15 +8,13 @@
 
 #include <omp.h>
 
+#include "engine/check.h"
 #include "engine/error.h"
 #include "engine/ground.h"
+#include "engine/threads.h"
 
 namespace lobecast {
 namespace {
-
-// Below this x the closed forms of j0 - j1/x and j2 lose digits to cancellation
-// (j2 ~ x^2/15 comes out of terms of size 3/x^2); the series converges fast there.
-constexpr double kSeriesBelow = 2.0;
 
 RadiationKernel SeriesKernel(double x) {
   // Maclaurin series of the spherical Bessel functions (DLMF 10.53.1):
@@ -56,7 +54,7 @@ double KernelBetween(const Dipole& a, const Dipole& b, double k) {
 
 RadiationKernel RadiationKernelAt(double x) {
   x = std::abs(x);
-  if (x < kSeriesBelow) return SeriesKernel(x);
+  if (x < kKernelSeriesBelow) return SeriesKernel(x);
   const double s = std::sin(x), c = std::cos(x);
   const double j0 = s / x;
   const double j1 = s / (x * x) - c / x;
@@ -68,27 +66,25 @@ double MutualResistance(const Dipole& m, const Dipole& n, double k_rad_m) {
   return k_rad_m * k_rad_m * kEta0_ohm / (4.0 * kPi) * KernelBetween(m, n, k_rad_m);
 }
 
-Eigen::MatrixXd ResistanceMatrix(const Array& array) {
+Eigen::MatrixXd ResistanceMatrix(const Array& array, int num_threads) {
   Validate(array);
   const double k = array.wavenumber_rad_m();
   const double scale = k * k * kEta0_ohm / (4.0 * kPi);
   const auto n = static_cast<std::ptrdiff_t>(array.size());
   const bool pec = array.ground == Ground::kPec;
-  std::vector<Dipole> images;
-  if (pec) {
-    images.reserve(array.size());
-    for (const Dipole& d : array.dipoles) images.push_back(ImageOf(d));
-  }
+  const std::vector<Dipole> sources = RadiatingSources(array);
   Eigen::MatrixXd r(n, n);
+  const int threads = ResolveThreads(num_threads);
   // Rows have different lengths (lower triangle), so balance them dynamically.
-#pragma omp parallel for schedule(dynamic, 16)
+#pragma omp parallel for num_threads(threads) schedule(dynamic, 16)
   for (std::ptrdiff_t m = 0; m < n; ++m) {
     const Dipole& dm = array.dipoles[static_cast<std::size_t>(m)];
     for (std::ptrdiff_t q = 0; q <= m; ++q) {
-      double v = KernelBetween(dm, array.dipoles[static_cast<std::size_t>(q)], k);
+      const auto dq = static_cast<std::size_t>(q);
+      double v = KernelBetween(dm, array.dipoles[dq], k);
       // R_to_images is symmetric (reflection preserves u.u' and the d terms), so
       // one evaluation per pair suffices.
-      if (pec) v += KernelBetween(dm, images[static_cast<std::size_t>(q)], k);
+      if (pec) v += KernelBetween(dm, sources[ImageIndexOf(dq, array.size())], k);
       r(m, q) = scale * v;
       r(q, m) = scale * v;
     }
@@ -97,12 +93,9 @@ Eigen::MatrixXd ResistanceMatrix(const Array& array) {
 }
 
 double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a) {
-  if (resistance_ohm.rows() != currents_a.size() || resistance_ohm.cols() != currents_a.size()) {
-    std::ostringstream s;
-    s << "radiated power: resistance matrix is " << resistance_ohm.rows() << "x"
-      << resistance_ohm.cols() << " but there are " << currents_a.size() << " currents";
-    throw InvalidArgument(s.str());
-  }
+  // Both come from the same array (ResistanceMatrix, CurrentsOf).
+  LOBECAST_CHECK_EQ(resistance_ohm.rows(), currents_a.size());
+  LOBECAST_CHECK_EQ(resistance_ohm.cols(), currents_a.size());
   // R is real symmetric, so I^H R I = a^T R a + b^T R b with I = a + j b.
   const Eigen::VectorXd a = currents_a.real(), b = currents_a.imag();
   return 0.5 * (a.dot(resistance_ohm * a) + b.dot(resistance_ohm * b));

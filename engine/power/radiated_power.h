@@ -16,9 +16,14 @@
 
 namespace lobecast {
 
-// f(x) = j0(x) - j1(x)/x and j2(x), the two radial functions of R_mn. For x < 2
-// both come from their Maclaurin series (the closed forms cancel catastrophically
-// there), so they stay accurate to ~1e-15 relative down to x = 0.
+// Below this x = k |r_m - r_n| the closed forms of j0 - j1/x and j2 lose digits to
+// cancellation (j2 ~ x^2/15 comes out of terms of size 3/x^2); the series converges
+// fast there. RadiationKernelAt and the streamed power split at the same x.
+inline constexpr double kKernelSeriesBelow = 2.0;
+
+// f(x) = j0(x) - j1(x)/x and j2(x), the two radial functions of R_mn. For
+// x < kKernelSeriesBelow both come from their Maclaurin series (the closed forms
+// cancel catastrophically there), so they stay accurate to ~1e-15 relative down to x = 0.
 struct RadiationKernel {
   double f;
   double j2;
@@ -29,10 +34,12 @@ RadiationKernel RadiationKernelAt(double x);
 double MutualResistance(const Dipole& m, const Dipole& n, double k_rad_m);
 
 // The N x N mutual radiation resistance matrix (ohm), real symmetric positive
-// semidefinite, including the ground plane. O(N^2) time and memory.
-Eigen::MatrixXd ResistanceMatrix(const Array& array);
+// semidefinite, including the ground plane. O(N^2) time and memory. num_threads as
+// ResolveThreads (0: the OpenMP default); each entry is computed by one thread in
+// a fixed order, so the matrix does not depend on the thread count.
+Eigen::MatrixXd ResistanceMatrix(const Array& array, int num_threads = 0);
 
-// P = 1/2 Re(I^H R I), W.
+// P = 1/2 Re(I^H R I), W. R and I belong to one array (same size: checked).
 double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a);
 
 // Throws InvalidArgument unless P is finite and > 0: currents so large the power

@@ -6,6 +6,7 @@
 #include <cmath>
 #include <limits>
 
+#include "engine/decibels.h"
 #include "io/plot/colormap.h"
 #include "io/plot/frame.h"
 #include "io/plot/nulls.h"

@@ -118,8 +118,4 @@ std::string QuantityLabel(Quantity q, PolarizationReference ref) {
   return "?";
 }
 
-double ToDb(double linear) {
-  return linear > 0 ? 10.0 * std::log10(linear) : -std::numeric_limits<double>::infinity();
-}
-
 }  // namespace lobecast::plot

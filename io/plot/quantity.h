@@ -47,7 +47,4 @@ double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, Polarization
 // The quantity over the whole grid, linear, theta-major.
 std::vector<double> QuantityOnGrid(const StoredResult& r, Quantity q, PolarizationReference ref);
 
-// 10 log10(v); -inf for v <= 0.
-double ToDb(double linear);
-
 }  // namespace lobecast::plot

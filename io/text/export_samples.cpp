@@ -3,10 +3,13 @@
 #include <cmath>
 #include <cstdio>
 
+#include "engine/analysis/pattern_probe.h"
+#include "engine/check.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/field/far_field.h"
 #include "engine/grid.h"
+#include "engine/intensity.h"
 #include "engine/polarization.h"
 #include "io/text/number_text.h"
 
@@ -72,10 +75,6 @@ ExportSample GridSample(const StoredResult& stored, std::size_t it, std::size_t 
   return s;
 }
 
-Vec3 UnitAt(double theta, double phi) {
-  return {std::sin(theta) * std::cos(phi), std::sin(theta) * std::sin(phi), std::cos(theta)};
-}
-
 // Appends the half plane phi = phi_deg at the given thetas (stored ones), with
 // cut_angle_deg = sign * theta: from the grid when phi_deg is a stored phi, else exact.
 void HalfPlane(const StoredResult& stored, double phi_deg, const std::vector<double>& thetas,
@@ -85,6 +84,7 @@ void HalfPlane(const StoredResult& stored, double phi_deg, const std::vector<dou
   if (const auto ip = FindAngle(g.phi_deg, phi_deg, true)) {
     for (double t : thetas) {
       const auto it = FindAngle(g.theta_deg, t, false);
+      LOBECAST_CHECK(it.has_value());  // the thetas are stored ones
       half.push_back(GridSample(stored, *it, *ip));
     }
   } else {
@@ -187,8 +187,7 @@ std::vector<ExportSample> ExactSamples(const StoredResult& stored,
   fo.method = FieldMethod::kDirect;  // exact to rounding, whatever the array size
   const FieldPlan plan(stored.array, Directions::FromAngles(theta, phi), fo);
   const FarField f = plan.Execute(CurrentsOf(stored.array));
-  // The same expressions as ComputePattern: U = |rE|^2 / (2 eta0), D = 4 pi U / P.
-  const double to_d = 4.0 * kPi / stored.result.radiated_power_w;
+  const double to_d = DirectivityPerIntensity(stored.result.radiated_power_w);
   for (std::size_t i = 0; i < dirs.size(); ++i) {
     const auto e = static_cast<Eigen::Index>(i);
     ExportSample& s = out[i];
@@ -196,7 +195,7 @@ std::vector<ExportSample> ExactSamples(const StoredResult& stored,
     s.phi_deg = dirs[i].second;
     s.e_theta = f.e_theta[e];
     s.e_phi = f.e_phi[e];
-    s.directivity = to_d * ((std::norm(s.e_theta) + std::norm(s.e_phi)) / (2.0 * kEta0_ohm));
+    s.directivity = to_d * RadiationIntensity(s.e_theta, s.e_phi);
     const Polarization p = PolarizationOf(s.e_theta, s.e_phi);
     s.axial_ratio_db = p.axial_ratio_db;
     s.tilt_deg = p.tilt_deg;
@@ -242,22 +241,20 @@ std::vector<ExportSample> CutSamples(const StoredResult& stored, const CutSpec& 
   }
   const double t0 = cut.through_theta_deg * kDegree, p0 = cut.through_phi_deg * kDegree;
   const double h = cut.heading_deg * kDegree;
-  const Vec3 r0 = UnitAt(t0, p0);
-  const Vec3 theta_hat(std::cos(t0) * std::cos(p0), std::cos(t0) * std::sin(p0), -std::sin(t0));
-  const Vec3 phi_hat(-std::sin(p0), std::cos(p0), 0.0);
-  const Vec3 tangent = std::cos(h) * theta_hat + std::sin(h) * phi_hat;
+  const Vec3 r0 = UnitVectorAt(t0, p0);
+  const Vec3 tangent = std::cos(h) * ThetaHatAt(t0, p0) + std::sin(h) * PhiHatAt(p0);
   const auto n = static_cast<std::size_t>(std::ceil(360.0 / step_deg - 1e-9));
   std::vector<double> angle_deg;
   for (std::size_t k = 0; k < n; ++k) {
     const double s_deg = -180.0 + static_cast<double>(k) * step_deg;
     const double s = s_deg * kDegree;
-    const Vec3 r = std::cos(s) * r0 + std::sin(s) * tangent;
+    const Vec3 r = GreatCirclePoint(r0, tangent, s);
     const double rho = std::hypot(r.x(), r.y());
     double phi = std::atan2(r.y(), r.x());
     if (rho < 1e-12) {
       // On a pole phi is free: take the half plane the circle goes on into, so the
       // pole's theta and phi components match those of the next samples.
-      const Vec3 along = -std::sin(s) * r0 + std::cos(s) * tangent;
+      const Vec3 along = GreatCirclePoint(tangent, -r0, s);
       phi = std::atan2(along.y(), along.x());
     }
     double phi_deg = phi / kDegree;

@@ -4,15 +4,12 @@
 #include <cmath>
 
 #include "engine/constants.h"
+#include "engine/decibels.h"
+#include "engine/intensity.h"
 #include "engine/text_case.h"
 #include "io/text/number_text.h"
 
 namespace lobecast {
-namespace {
-
-double Db(double linear) { return linear > 0 ? 10.0 * std::log10(linear) : -HUGE_VAL; }
-
-}  // namespace
 
 std::string_view ToString(ExportFormat f) { return f == ExportFormat::kTsv ? "tsv" : "csv"; }
 
@@ -67,8 +64,7 @@ void WritePatternTable(std::ostream& out, const std::vector<ExportSample>& sampl
   }
   out << line << '\n';
 
-  // Directivity of one field component: 4 pi |c|^2 / (2 eta0 P), as for the total.
-  const double per_v2 = 4.0 * kPi / (2.0 * kEta0_ohm * o.radiated_power_w);
+  const double per_v2 = DirectivityPerSquaredField(o.radiated_power_w);
   for (const ExportSample& s : samples) {
     line.clear();
     auto field = [&](double v) {
@@ -84,9 +80,9 @@ void WritePatternTable(std::ostream& out, const std::vector<ExportSample>& sampl
       field(s.phi_deg);
     }
     const CoCross cc = CoCrossOf(s.e_theta, s.e_phi, s.phi_deg * kDegree, o.reference);
-    field(Db(s.directivity));
-    field(Db(per_v2 * std::norm(cc.co)));
-    field(Db(per_v2 * std::norm(cc.cross)));
+    field(ToDb(s.directivity));
+    field(ToDb(per_v2 * std::norm(cc.co)));
+    field(ToDb(per_v2 * std::norm(cc.cross)));
     field(s.axial_ratio_db);
     field(s.tilt_deg);
     line += sep;

@@ -1,0 +1,114 @@
+// Dipoles from a CSV table (io/input/csv_dipoles.h): the format described in the
+// header, located errors, and the RFC 4180 traits it keeps or leaves out.
+#include "io/input/csv_dipoles.h"
+
+#include <cmath>
+#include <complex>
+#include <string>
+
+#include <gtest/gtest.h>
+
+#include "engine/constants.h"
+#include "io/input_error.h"
+
+namespace lobecast {
+namespace {
+
+const char* kHeader = "x, y, z, ux, uy, uz, length, magnitude, phase, distribution\n";
+
+// The InputError a table raises (fails the test when it parses).
+InputError ErrorOf(const std::string& text, std::size_t first_index = 0) {
+  try {
+    ParseCsvDipoles(text, "t.csv", 1.0, first_index);
+  } catch (const InputError& e) {
+    return e;
+  }
+  ADD_FAILURE() << "parsed: " << text;
+  return InputError(SourceLocation{}, "");
+}
+
+TEST(CsvDipoles, ReadsRowsInAnyColumnOrder) {
+  const std::string text =
+      "# element table\n"
+      "\n"
+      "Phase, magnitude, x, y, z, ux, uy, uz, length\n"
+      "90, 2, 0.1, 0.2, 0.3, 0, 0, 2, 0.01\n"
+      "  # a comment between rows\n"
+      "0,1,1,2,3,3,4,0,0.5\n";
+  const std::vector<CsvDipole> d = ParseCsvDipoles(text, "t.csv", 0.01, 5);  // centimetres
+  ASSERT_EQ(d.size(), 2u);
+  EXPECT_EQ(d[0].dipole.position_m, Vec3(0.1, 0.2, 0.3) * 0.01);
+  EXPECT_EQ(d[0].dipole.orientation, Vec3(0, 0, 1));  // normalized on read
+  EXPECT_DOUBLE_EQ(d[0].dipole.length_m, 1e-4);
+  EXPECT_NEAR(std::abs(d[0].dipole.current_a - std::polar(2.0, 90 * kDegree)), 0.0, 1e-15);
+  EXPECT_EQ(d[0].dipole.distribution, Distribution::kUniform);  // no column: uniform
+  EXPECT_EQ(d[0].row.line, 4);
+  EXPECT_EQ(d[1].row.line, 6);
+  // (3, 4, 0) / 5, a 3-4-5 triangle.
+  EXPECT_DOUBLE_EQ(d[1].dipole.orientation.x(), 0.6);
+  EXPECT_DOUBLE_EQ(d[1].dipole.orientation.y(), 0.8);
+  EXPECT_EQ(d[1].z_cell.column, 9);  // "0,1,1,2,3": the fifth cell
+}
+
+TEST(CsvDipoles, Rfc4180LineEndingsAndByteOrderMark) {
+  // RFC 4180 sec. 2 ends records with CRLF; LF alone and a last record without a
+  // line break are accepted too, as is a UTF-8 byte order mark before the header.
+  const std::string rows =
+      "0,0,1,0,0,1,0.01,1,0,triangular\r\n"
+      "0,0,2,1,0,0,0.01,1,0,\r\n"
+      "0,0,3,0,1,0,0.01,1,0,UNIFORM";
+  const std::vector<CsvDipole> d =
+      ParseCsvDipoles("\xEF\xBB\xBF" + std::string(kHeader) + rows, "t.csv", 1.0, 0);
+  ASSERT_EQ(d.size(), 3u);
+  EXPECT_EQ(d[0].dipole.distribution, Distribution::kTriangular);
+  EXPECT_EQ(d[1].dipole.distribution, Distribution::kUniform);  // empty cell
+  EXPECT_EQ(d[2].dipole.distribution, Distribution::kUniform);  // case-insensitive
+  EXPECT_EQ(d[2].dipole.position_m.z(), 3.0);
+}
+
+TEST(CsvDipoles, QuotedFieldsAreNotPartOfTheFormat) {
+  // RFC 4180 allows "quoted" fields; this format has none (no cell needs a comma),
+  // so a quoted number is rejected rather than read.
+  const InputError e = ErrorOf(std::string(kHeader) + "\"0\",0,1,0,0,1,0.01,1,0,\n");
+  EXPECT_EQ(e.key, "dipole[0].x");
+  EXPECT_NE(std::string(e.what()).find("a number"), std::string::npos) << e.what();
+}
+
+TEST(CsvDipoles, HeaderErrorsAreLocated) {
+  InputError e = ErrorOf("x, y, z, ux, uy, uz, length, magnitude, phase, colour\n");
+  EXPECT_EQ(e.location.line, 1);
+  EXPECT_EQ(e.location.column, 48);  // where "colour" starts
+  EXPECT_NE(std::string(e.what()).find("unknown column"), std::string::npos) << e.what();
+  e = ErrorOf("x, y, z, ux, uy, uz, length, magnitude, phase, X\n");
+  EXPECT_NE(std::string(e.what()).find("a second 'x' column"), std::string::npos) << e.what();
+  e = ErrorOf("x, y, z, ux, uy, uz, length, magnitude\n");
+  EXPECT_EQ(e.key, "phase");
+  e = ErrorOf("# only a comment\n\n");
+  EXPECT_EQ(e.key, "header");
+}
+
+TEST(CsvDipoles, RowErrorsNameTheDipoleAndCell) {
+  const std::string h = kHeader;
+  InputError e = ErrorOf(h + "0,0,1,0,0,1,0.01,1\n", 7);
+  EXPECT_EQ(e.key, "dipole[7]");
+  EXPECT_NE(std::string(e.what()).find("8 cells"), std::string::npos) << e.what();
+  e = ErrorOf(h + "0,0,1,0,0,1,0.01,1,0,\n0,0,abc,0,0,1,0.01,1,0,\n", 3);
+  EXPECT_EQ(e.key, "dipole[4].z");
+  EXPECT_EQ(e.location.line, 3);
+  EXPECT_EQ(e.location.column, 5);
+  e = ErrorOf(h + "0,0,1,0,0,1,,1,0,\n");
+  EXPECT_NE(std::string(e.what()).find("an empty cell"), std::string::npos) << e.what();
+  e = ErrorOf(h + "0,0,inf,0,0,1,0.01,1,0,\n");
+  EXPECT_NE(std::string(e.what()).find("a finite number"), std::string::npos) << e.what();
+  e = ErrorOf(h + "0,0,1,0,0,0,0.01,1,0,\n");
+  EXPECT_EQ(e.key, "dipole[0].ux/uy/uz");
+  e = ErrorOf(h + "0,0,1,0,0,1,0,1,0,\n");
+  EXPECT_EQ(e.key, "dipole[0].length");
+  e = ErrorOf(h + "0,0,1,0,0,1,0.01,-1,0,\n");
+  EXPECT_EQ(e.key, "dipole[0].magnitude");
+  e = ErrorOf(h + "0,0,1,0,0,1,0.01,1,0,cosine\n");
+  EXPECT_EQ(e.key, "dipole[0].distribution");
+}
+
+}  // namespace
+}  // namespace lobecast

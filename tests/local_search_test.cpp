@@ -1,0 +1,108 @@
+// The generic searches of engine/analysis/local_search.h: Brent's root finder,
+// golden-section line minimum and the Nelder-Mead plane minimum, on functions whose
+// answers are known in closed form.
+#include "engine/analysis/local_search.h"
+
+#include <cmath>
+#include <limits>
+
+#include <gtest/gtest.h>
+
+#include "engine/check.h"
+#include "engine/constants.h"
+
+namespace lobecast {
+namespace {
+
+TEST(FindRoot, FindsClosedFormRoots) {
+  // cos x = x has its root at 0.7390851332151607 (the Dottie number, from memory;
+  // the check below confirms it as a root to rounding instead of trusting the digits).
+  auto g = [](double x) { return std::cos(x) - x; };
+  const double r = FindRoot(g, 0.0, 1.0, g(0.0), g(1.0), 1e-14);
+  EXPECT_NEAR(r, 0.7390851332151607, 1e-13);
+  EXPECT_LE(std::abs(g(r)), 1e-13);
+  // sqrt(2) from x^2 - 2, bracket in either order of signs.
+  auto h = [](double x) { return x * x - 2.0; };
+  EXPECT_NEAR(FindRoot(h, 1.0, 2.0, h(1.0), h(2.0), 1e-15), std::sqrt(2.0), 4e-15);
+  auto neg = [&](double x) { return -h(x); };
+  EXPECT_NEAR(FindRoot(neg, 1.0, 2.0, neg(1.0), neg(2.0), 1e-15), std::sqrt(2.0), 4e-15);
+}
+
+TEST(FindRoot, ZeroAtAnEndIsTheRootAndAJumpIsFoundLikeOne) {
+  auto f = [](double x) { return x - 3.0; };
+  EXPECT_EQ(FindRoot(f, 3.0, 5.0, 0.0, 2.0, 1e-12), 3.0);
+  EXPECT_EQ(FindRoot(f, 1.0, 3.0, -2.0, 0.0, 1e-12), 3.0);
+  // A step from -1 to +1 at 0.3 (like the edge of the no-field region over ground):
+  // the bracket closes on the jump to within the tolerance.
+  auto step = [](double x) { return x < 0.3 ? -1.0 : 1.0; };
+  EXPECT_NEAR(FindRoot(step, 0.0, 1.0, -1.0, 1.0, 1e-10), 0.3, 2e-10);
+}
+
+TEST(FindRoot, NoSignChangeIsAnInternalError) {
+  auto f = [](double x) { return x * x + 1.0; };
+  EXPECT_THROW(FindRoot(f, -1.0, 1.0, f(-1.0), f(1.0), 1e-9), InternalError);
+}
+
+TEST(MinimizeOnInterval, QuadraticQuarticAndEndpointMinima) {
+  const LineMinimum q =
+      MinimizeOnInterval([](double x) { return (x - 0.4) * (x - 0.4); }, 0.0, 1.0, 1e-10);
+  EXPECT_NEAR(q.x, 0.4, 1e-9);
+  EXPECT_NEAR(q.value, 0.0, 1e-18);
+  // A quartic minimum (flat to fourth order) is located by comparisons alone, to the
+  // tolerance when its value is 0 ...
+  const LineMinimum k =
+      MinimizeOnInterval([](double x) { return std::pow(x + 0.25, 4); }, -1.0, 1.0, 1e-8);
+  EXPECT_NEAR(k.x, -0.25, 1e-8);
+  // ... and only to where dx^4 drops below the rounding of its value when that is 1:
+  // dx ~ eps^(1/4) ~ 1.2e-4.
+  const LineMinimum k1 =
+      MinimizeOnInterval([](double x) { return std::pow(x + 0.25, 4) + 1.0; }, -1.0, 1.0, 1e-8);
+  EXPECT_NEAR(k1.x, -0.25, 2.5e-4);
+  // Monotonic: the minimum is the endpoint.
+  const LineMinimum e = MinimizeOnInterval([](double x) { return x; }, 2.0, 3.0, 1e-9);
+  EXPECT_NEAR(e.x, 2.0, 1e-8);
+  // An exact null |sin| at pi, bracket not centred on it.
+  const LineMinimum n =
+      MinimizeOnInterval([](double x) { return std::abs(std::sin(x)); }, 2.5, 3.5, 1e-12);
+  EXPECT_NEAR(n.x, kPi, 1e-11);
+}
+
+TEST(MinimizeOnPlane, RosenbrockValleyAndForbiddenRegion) {
+  // Rosenbrock's function, minimum 0 at (1, 1) (H. H. Rosenbrock, Computer Journal 3,
+  // 1960): a curved valley that a simplex must follow.
+  auto rosen = [](double a, double b) {
+    return 100.0 * (b - a * a) * (b - a * a) + (1.0 - a) * (1.0 - a);
+  };
+  PlaneSearchOptions o;
+  o.initial_step = 0.1;
+  o.tolerance = 1e-10;
+  o.max_evaluations = 5000;
+  const PlaneMinimum m = MinimizeOnPlane(rosen, -1.2, 1.0, o);
+  EXPECT_TRUE(m.converged);
+  EXPECT_NEAR(m.a, 1.0, 1e-6);
+  EXPECT_NEAR(m.b, 1.0, 1e-6);
+  EXPECT_LE(m.evaluations, o.max_evaluations);
+
+  // +inf marks points that are not allowed: the minimum of (a-1)^2 + b^2 with a <= 0.5
+  // lies on the boundary a = 0.5.
+  auto walled = [](double a, double b) {
+    return a > 0.5 ? std::numeric_limits<double>::infinity() : (a - 1) * (a - 1) + b * b;
+  };
+  o.initial_step = 0.05;
+  const PlaneMinimum w = MinimizeOnPlane(walled, 0.0, 0.3, o);
+  EXPECT_NEAR(w.a, 0.5, 1e-6);
+  EXPECT_NEAR(w.b, 0.0, 1e-6);
+}
+
+TEST(MinimizeOnPlane, StopsAtTheEvaluationLimit) {
+  PlaneSearchOptions o;
+  o.tolerance = 1e-300;  // never reached
+  o.max_evaluations = 50;
+  const PlaneMinimum m =
+      MinimizeOnPlane([](double a, double b) { return a * a + b * b; }, 1.0, 1.0, o);
+  EXPECT_FALSE(m.converged);
+  EXPECT_LE(m.evaluations, 50 + 2);  // a step may finish the simplex it started
+}
+
+}  // namespace
+}  // namespace lobecast
