@@ -39,7 +39,20 @@ std::string OptionalString(hid_t obj, const std::string& name) {
   return hdf5::HasAttribute(obj, name) ? hdf5::ReadStringAttribute(obj, name) : std::string();
 }
 
-void ReadSummary(hid_t file, ComputeSummary& s) {
+// An enum attribute, read through its FromString; an unknown name is an IoError.
+template <typename T, typename FromString>
+void ReadEnum(const std::string& path, hid_t g, const char* name, FromString from_string, T& out) {
+  if (!hdf5::HasAttribute(g, name)) return;
+  const std::string text = hdf5::ReadStringAttribute(g, name);
+  const auto value = from_string(text);
+  if (!value) {
+    throw IoError(path, std::string("/summary attribute ") + name + " is \"" + text +
+                            "\", which this lobecast does not know");
+  }
+  out = *value;
+}
+
+void ReadSummary(const std::string& path, hid_t file, ComputeSummary& s) {
   Handle g = hdf5::OpenGroup(file, "/summary");
   auto number = [&](const char* name, double& out) {
     if (hdf5::HasAttribute(g, name)) out = hdf5::ReadDoubleAttribute(g, name);
@@ -49,13 +62,10 @@ void ReadSummary(hid_t file, ComputeSummary& s) {
       out = static_cast<std::remove_reference_t<decltype(out)>>(hdf5::ReadIntAttribute(g, name));
     }
   };
-  auto text = [&](const char* name, std::string& out) {
-    if (hdf5::HasAttribute(g, name)) out = hdf5::ReadStringAttribute(g, name);
-  };
-  text("method", s.method);
-  text("method_requested", s.method_requested);
-  text("fast_transform", s.fast_transform);
-  text("power_method", s.power_method);
+  ReadEnum(path, g, "method", FieldMethodFromString, s.field_method_used);
+  ReadEnum(path, g, "method_requested", FieldMethodFromString, s.field_method_given);
+  ReadEnum(path, g, "fast_transform", FastTransformsFromString, s.fast_transforms_used);
+  ReadEnum(path, g, "power_method", PowerRouteFromString, s.power_route);
   number("field_error_bound_relative", s.field_error_bound_relative);
   count("threads_used", s.threads_used);
   count("num_dipoles", s.num_dipoles);
@@ -204,7 +214,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   ExpectShape(path, "/power/active_resistance_ohm", dims, {n});
 
   if (hdf5::Exists(file, "/summary")) {
-    ReadSummary(file, r.summary);
+    ReadSummary(path, file, r.summary);
     out.has_summary = true;
   }
   return out;

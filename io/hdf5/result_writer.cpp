@@ -316,10 +316,10 @@ void PatternFileWriter::WriteSummary(const ComputeSummary& s) {
   w.Step([&] {
     w.Hook("/summary");
     Handle g = w.Group("/summary");
-    hdf5::WriteStringAttribute(g, "method", s.method);
-    hdf5::WriteStringAttribute(g, "method_requested", s.method_requested);
-    hdf5::WriteStringAttribute(g, "fast_transform", s.fast_transform);
-    hdf5::WriteStringAttribute(g, "power_method", s.power_method);
+    hdf5::WriteStringAttribute(g, "method", ToString(s.field_method_used));
+    hdf5::WriteStringAttribute(g, "method_requested", ToString(s.field_method_given));
+    hdf5::WriteStringAttribute(g, "fast_transform", FastTransformsToString(s.fast_transforms_used));
+    hdf5::WriteStringAttribute(g, "power_method", ToString(s.power_route));
     hdf5::WriteScalarAttribute(g, "field_error_bound_relative", s.field_error_bound_relative);
     hdf5::WriteIntAttribute(g, "threads_used", s.threads_used);
     hdf5::WriteIntAttribute(g, "num_dipoles", static_cast<std::int64_t>(s.num_dipoles));
