@@ -48,14 +48,17 @@ class Random {
   std::mt19937 engine_;
 };
 
-Lobe RandomLobe(Random& r) {
-  Lobe l;
+// The fields a Lobe and a ProtectedDirectionField share.
+template <typename T>
+T RandomLevels(Random& r) {
+  T l;
   l.direction = r.Direction();
   l.directivity = r.Number();
   l.directivity_dbi = r.Number();
   l.level_db = r.Number();
   return l;
 }
+Lobe RandomLobe(Random& r) { return RandomLevels<Lobe>(r); }
 
 BeamCut RandomCut(Random& r) {
   BeamCut c;
@@ -101,11 +104,7 @@ PatternAnalysis RandomAnalysis(Random& r, bool empty_lists) {
   }
   a.nulls_truncated = r.Flag();
   for (int i = r.Int(lists, 4 * lists); i > 0; --i) {
-    ProtectedDirectionField f;
-    f.direction = r.Direction();
-    f.directivity = r.Number();
-    f.directivity_dbi = r.Number();
-    f.level_db = r.Number();
+    ProtectedDirectionField f = RandomLevels<ProtectedDirectionField>(r);
     f.co_polar_dbi = r.Number();
     f.cross_polar_dbi = r.Number();
     f.no_field = r.Flag();

@@ -223,6 +223,7 @@ void VisitRecordedOptions(Options& o, V& v) {
   v.Value(Field{"axial_ratio_limit_db", "dB"}, o.axial_ratio_limit_db);
 }
 
+// Also the first four fields of a ProtectedDirectionField, which has the same.
 template <typename L, typename V>  // L: Lobe, const or not
 void VisitLobe(L& l, V& v) {
   v.Value(Field{"", "deg"}, l.direction);
@@ -241,10 +242,7 @@ void VisitNull(N& n, V& v) {
 
 template <typename P, typename V>  // P: ProtectedDirectionField, const or not
 void VisitProtected(P& f, V& v) {
-  v.Value(Field{"", "deg"}, f.direction);
-  v.Value(Field{"directivity", "1"}, f.directivity);
-  v.Value(Field{"directivity_dbi", "dBi"}, f.directivity_dbi);
-  v.Value(Field{"level_db", "dB"}, f.level_db);
+  VisitLobe(f, v);  // direction, directivity, directivity_dbi, level_db
   v.Value(Field{"co_polar_dbi", "dBi"}, f.co_polar_dbi);
   v.Value(Field{"cross_polar_dbi", "dBi"}, f.cross_polar_dbi);
   v.Value(Field{"no_field", "1"}, f.no_field);
