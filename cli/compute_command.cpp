@@ -55,9 +55,9 @@ void RunCompute(const ComputeArgs& args) {
 
   ProgressBar bar(!args.quiet);
   PatternOptions options;
-  options.num_threads = args.threads;
-  options.method = *FieldMethodFromString(args.method);  // validated by CLI11
-  options.tolerance_relative = args.tolerance;
+  options.field.num_threads = args.threads;
+  options.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
+  options.field.tolerance_relative = args.tolerance;
   options.store_resistance_matrix = args.resistance_matrix;
   options.progress = [&bar](double f) { bar.Update(f); };
   const PatternResult result = ComputePattern(desc.array, desc.grid, options);

@@ -5,7 +5,8 @@
 #include <algorithm>
 #include <chrono>
 #include <cmath>
-#include <sstream>
+#include <cstdarg>
+#include <cstdio>
 
 #include <omp.h>
 
@@ -13,6 +14,7 @@
 #include "engine/polarization.h"
 #include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
+#include "engine/text_case.h"
 
 namespace lobecast {
 namespace {
@@ -22,7 +24,115 @@ double SecondsSince(Clock::time_point t0) {
   return std::chrono::duration<double>(Clock::now() - t0).count();
 }
 
+// printf into a string (the engine does not use io/text's Printf).
+std::string Format(const char* format, ...) {
+  va_list args;
+  va_start(args, format);
+  char buffer[256];
+  const int n = std::vsnprintf(buffer, sizeof buffer, format, args);
+  va_end(args);
+  return n < 0 ? std::string() : std::string(buffer, std::min<std::size_t>(n, sizeof buffer - 1));
+}
+
+// Why the routes came out as they did, for ComputeSummary::message.
+std::string RouteMessage(const ComputeSummary& s, std::size_t fast_blocks, std::size_t blocks,
+                         const PatternOptions& options) {
+  std::vector<std::string> notes;
+  if (s.field_method_given == FieldMethod::kAuto) {
+    if (fast_blocks == 0) {
+      notes.push_back(
+          "auto chose the direct sum: the fast path was not estimated below half "
+          "its cost");
+    } else {
+      notes.push_back("auto chose the fast path in " + std::to_string(fast_blocks) + " of " +
+                      std::to_string(blocks) + " block" + (blocks == 1 ? "" : "s") +
+                      ", where it was estimated below half the direct cost");
+    }
+  }
+  if (s.fast_transforms_used.size() > 1) {
+    notes.push_back("blocks differ in fast transform: " +
+                    FastTransformsToString(s.fast_transforms_used));
+  }
+  if (s.power_route == PowerRoute::kStreamed) {
+    notes.push_back(
+        "power streamed without the resistance matrix: " + std::to_string(s.num_dipoles) +
+        " dipoles exceed " + std::to_string(options.resistance_matrix_max_dipoles));
+  }
+  std::string out;
+  for (const std::string& n : notes) {
+    if (!out.empty()) out += "; ";
+    out += n;
+  }
+  return out;
+}
+
 }  // namespace
+
+std::string_view ToString(PowerRoute r) {
+  return r == PowerRoute::kStreamed ? "streamed" : "matrix";
+}
+
+std::optional<PowerRoute> PowerRouteFromString(std::string_view s) {
+  for (PowerRoute r : {PowerRoute::kMatrix, PowerRoute::kStreamed}) {
+    if (EqualsIgnoreCase(s, ToString(r))) return r;
+  }
+  return std::nullopt;
+}
+
+std::string FastTransformsToString(const std::vector<FastTransform>& transforms) {
+  if (transforms.empty()) return std::string(ToString(FastTransform::kNone));
+  std::string out;
+  for (FastTransform t : transforms) {
+    if (!out.empty()) out += '+';
+    out += ToString(t);
+  }
+  return out;
+}
+
+std::optional<std::vector<FastTransform>> FastTransformsFromString(std::string_view s) {
+  if (EqualsIgnoreCase(s, ToString(FastTransform::kNone))) return std::vector<FastTransform>{};
+  std::vector<FastTransform> out;
+  std::size_t begin = 0;
+  while (begin <= s.size()) {
+    const std::size_t plus = std::min(s.find('+', begin), s.size());
+    const std::string_view name = s.substr(begin, plus - begin);
+    bool known = false;
+    for (FastTransform t : {FastTransform::kType3, FastTransform::kLattice}) {
+      if (EqualsIgnoreCase(name, ToString(t))) out.push_back(t), known = true;
+    }
+    if (!known) return std::nullopt;
+    begin = plus + 1;
+  }
+  return out;
+}
+
+std::string ComputeSummary::BriefReport() const {
+  std::string s = "field " + std::string(ToString(field_method_used)) + " (asked " +
+                  std::string(ToString(field_method_given)) + ")";
+  if (field_method_used == FieldMethod::kFast) {
+    s += Format(", %s transform, error bound %.2g of the peak |rE|",
+                FastTransformsToString(fast_transforms_used).c_str(), field_error_bound_relative);
+  }
+  s += "; power " + std::string(ToString(power_route)) +
+       (power_route == PowerRoute::kStreamed ? " (no resistance matrix stored)" : " (closed form)");
+  return s;
+}
+
+std::string ComputeSummary::FullReport() const {
+  std::string s = BriefReport() + "\n";
+  s += Format("size         %zu dipoles, %zu sources, %zu directions, %.3g pairs\n", num_dipoles,
+              num_sources, num_directions, pairs);
+  s += Format(
+      "time         plan %.3f s, field %.3f s, power %.3f s, polarization %.3f s, %d "
+      "thread%s\n",
+      seconds_plan, seconds_field, seconds_power, seconds_polarization, threads_used,
+      threads_used == 1 ? "" : "s");
+  s += Format("power        %.6g W radiated\n", radiated_power_w);
+  s += Format("peak         D = %.6g (%.2f dBi) at theta %g deg, phi %g deg (grid maximum)\n",
+              peak_directivity, 10.0 * std::log10(peak_directivity), peak_theta_deg, peak_phi_deg);
+  if (!message.empty()) s += "message      " + message + "\n";
+  return s;
+}
 
 Eigen::Index PeakIndex(const Eigen::VectorXd& directivity) {
   const double max = directivity.maxCoeff();
@@ -34,34 +144,30 @@ Eigen::Index PeakIndex(const Eigen::VectorXd& directivity) {
 PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
                              const PatternOptions& options) {
   Validate(array);
-  FieldOptions field_options;
-  field_options.num_threads = options.num_threads;
-  field_options.method = options.method;
-  field_options.tolerance_relative = options.tolerance_relative;
   std::string why;
-  if (!field_options.IsValid(&why)) throw InvalidArgument(why);
+  if (!options.field.IsValid(&why)) throw InvalidArgument(why);
   if (grid.size() == 0) throw InvalidArgument("grid: found no directions, expected at least one");
   PatternResult r;
   r.grid = grid;
   ComputeSummary& s = r.summary;
-  s.threads_used = ResolveThreads(options.num_threads);
+  s.threads_used = ResolveThreads(options.field.num_threads);
   s.num_dipoles = array.size();
 
   auto t0 = Clock::now();
   const Eigen::VectorXcd currents = CurrentsOf(array);
   if (array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix) {
-    r.resistance_ohm = ResistanceMatrix(array, options.num_threads);
+    r.resistance_ohm = ResistanceMatrix(array, options.field.num_threads);
     r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
     // The active resistances need the mutual reactances too: summed row by row
     // (O(N) memory) rather than from a second, complex N x N matrix.
     r.active_resistance_ohm =
-        RadiatedPowerStreamed(array, currents, options.num_threads).active_resistance_ohm;
-    s.power_method = "matrix";
+        RadiatedPowerStreamed(array, currents, options.field.num_threads).active_resistance_ohm;
+    s.power_route = PowerRoute::kMatrix;
   } else {
-    const StreamedPower sp = RadiatedPowerStreamed(array, currents, options.num_threads);
+    const StreamedPower sp = RadiatedPowerStreamed(array, currents, options.field.num_threads);
     r.radiated_power_w = sp.radiated_power_w;
     r.active_resistance_ohm = sp.active_resistance_ohm;
-    s.power_method = "streamed";
+    s.power_route = PowerRoute::kStreamed;
   }
   s.radiated_power_w = r.radiated_power_w;
   s.seconds_power = SecondsSince(t0);
@@ -76,8 +182,8 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   const std::size_t rows_per_block = std::max<std::size_t>(1, options.block_directions / np);
   r.field.e_theta.resize(static_cast<Eigen::Index>(n));
   r.field.e_phi.resize(static_cast<Eigen::Index>(n));
-  s.method_requested = std::string(ToString(options.method));
-  bool any_fast = false;
+  s.field_method_given = options.field.method;
+  std::size_t blocks = 0, fast_blocks = 0;
   FarField part;
   for (std::size_t row = 0; row < grid.theta_deg.size(); row += rows_per_block) {
     auto tb = Clock::now();
@@ -86,17 +192,18 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
     block.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
                            grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
     block.phi_deg = grid.phi_deg;
-    const FieldPlan plan(array, Directions::FromGrid(block), field_options);
+    const FieldPlan plan(array, Directions::FromGrid(block), options.field);
     s.seconds_plan += SecondsSince(tb);
     tb = Clock::now();
     s.num_sources = plan.num_sources();
     const bool fast = plan.method_used() == FieldMethod::kFast;
-    any_fast = any_fast || fast;
-    const std::string transform(ToString(plan.fast_transform()));
-    if (s.fast_transform == "none") {
-      s.fast_transform = transform;
-    } else if (transform != "none" && s.fast_transform.find(transform) == std::string::npos) {
-      s.fast_transform += "+" + transform;
+    ++blocks;
+    if (fast) ++fast_blocks;
+    std::vector<FastTransform>& used = s.fast_transforms_used;
+    const FastTransform transform = plan.fast_transform();
+    if (transform != FastTransform::kNone &&
+        std::find(used.begin(), used.end(), transform) == used.end()) {
+      used.push_back(transform);
     }
     // Sub-chunks only so progress can be reported; the fast path transforms the
     // whole block at once, so it runs as one.
@@ -120,7 +227,8 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
         std::max(s.field_error_bound_relative, plan.error_bound_relative());
     s.seconds_field += SecondsSince(tb);
   }
-  s.method = any_fast ? "fast" : "direct";
+  s.field_method_used = fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
+  s.message = RouteMessage(s, fast_blocks, blocks, options);
   s.num_directions = n;
   s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
 

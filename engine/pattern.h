@@ -5,7 +5,9 @@
 #include <cstddef>
 #include <cstdint>
 #include <functional>
+#include <optional>
 #include <string>
+#include <string_view>
 #include <vector>
 
 #include <Eigen/Core>
@@ -17,11 +19,11 @@
 namespace lobecast {
 
 struct PatternOptions {
-  int num_threads = 0;  // 0: OpenMP default
-  // Field method: direct sum, fast (NUFFT) to tolerance_relative of the pattern
-  // peak, or auto (fast only when its estimated cost is well below direct).
-  FieldMethod method = FieldMethod::kAuto;
-  double tolerance_relative = 1e-9;
+  // The field plan's options, passed to every block's FieldPlan as they are:
+  // threads (also used for the power and polarization stages), the method (direct,
+  // fast to tolerance_relative of the pattern peak, or auto: fast only when its
+  // estimated cost is well below direct) and the fast path's tolerance.
+  FieldOptions field;
   // The N x N resistance matrix costs 8 N^2 bytes. Up to this many dipoles it is
   // built (and stored in results); beyond, power and active resistances are
   // streamed row by row in O(N) memory and PatternResult::resistance_ohm is
@@ -38,15 +40,32 @@ struct PatternOptions {
   std::function<void(double)> progress;
 };
 
+// How the radiated power and the active resistances were obtained.
+enum class PowerRoute {
+  kMatrix,    // the closed-form N x N resistance matrix, built (and stored)
+  kStreamed,  // row by row in O(N) memory; no matrix stored
+};
+std::string_view ToString(PowerRoute r);  // "matrix", "streamed"
+// Case-insensitive; std::nullopt for an unknown name.
+std::optional<PowerRoute> PowerRouteFromString(std::string_view s);
+
+// ComputeSummary::fast_transforms_used as one name: "none" when empty, else the
+// transforms' names joined with "+" ("lattice", "lattice+type-3"). The result
+// file stores this form (attribute /summary/fast_transform).
+std::string FastTransformsToString(const std::vector<FastTransform>& transforms);
+// The inverse, case-insensitive; std::nullopt for an unknown name in the list.
+std::optional<std::vector<FastTransform>> FastTransformsFromString(std::string_view s);
+
 // What was asked, what was used, and how long each stage took.
 struct ComputeSummary {
-  std::string method = "direct";  // field method used: "direct" or "fast"
-  std::string method_requested = "auto";
-  // Fast path: "type-3" (any positions) or "lattice" (type 2 over the sites);
-  // "none" for the direct path; blocks that differ are joined with "+".
-  std::string fast_transform = "none";
+  FieldMethod field_method_given = FieldMethod::kAuto;  // PatternOptions::field.method
+  // kFast when any block took the fast path, else kDirect.
+  FieldMethod field_method_used = FieldMethod::kDirect;
+  // The fast transforms the blocks ran, each once, in the order first used; empty
+  // when every block summed directly. Blocks may differ (auto decides per block).
+  std::vector<FastTransform> fast_transforms_used;
   double field_error_bound_relative = 0;  // fast path: bound met, relative to the peak
-  std::string power_method = "matrix";    // "matrix" or "streamed" (no R stored)
+  PowerRoute power_route = PowerRoute::kMatrix;
   int threads_used = 0;
   std::size_t num_dipoles = 0;
   std::size_t num_sources = 0;  // dipoles plus images
@@ -60,6 +79,17 @@ struct ComputeSummary {
   double peak_directivity = 0;  // linear, grid maximum
   double peak_theta_deg = 0;
   double peak_phi_deg = 0;
+  // Why the routes are what they are (auto's choice, blocks that differ, a matrix
+  // left out); may be empty. For people: the result file does not store it.
+  std::string message;
+
+  // One line: the field method used and asked, the fast transforms and their error
+  // bound, and the power route, e.g. "field fast (asked auto), lattice transform,
+  // error bound 1e-10 of the peak |rE|; power matrix (closed form)".
+  std::string BriefReport() const;
+  // Several lines: the brief report, then sizes, threads, time per stage, power,
+  // the peak and the message.
+  std::string FullReport() const;
 };
 
 struct PatternResult {

@@ -40,16 +40,17 @@ TEST(PatternOptions, FastFieldMatchesDirectWithinTolerance) {
   const Array a = Panel();
   const AngularGrid g = AngularGrid::FromRanges({0, 180, 1}, {0, 360, 2});
   PatternOptions direct, fast;
-  direct.method = FieldMethod::kDirect;
-  fast.method = FieldMethod::kFast;
-  fast.tolerance_relative = 1e-9;
+  direct.field.method = FieldMethod::kDirect;
+  fast.field.method = FieldMethod::kFast;
+  fast.field.tolerance_relative = 1e-9;
   const PatternResult rd = ComputePattern(a, g, direct);
   const PatternResult rf = ComputePattern(a, g, fast);
-  EXPECT_EQ(rd.summary.method, "direct");
-  EXPECT_EQ(rf.summary.method, "fast");
-  EXPECT_EQ(rf.summary.method_requested, "fast");
-  EXPECT_EQ(rd.summary.fast_transform, "none");
-  EXPECT_EQ(rf.summary.fast_transform, "lattice");  // a 12 x 12 grid over ground
+  EXPECT_EQ(rd.summary.field_method_used, FieldMethod::kDirect);
+  EXPECT_EQ(rf.summary.field_method_used, FieldMethod::kFast);
+  EXPECT_EQ(rf.summary.field_method_given, FieldMethod::kFast);
+  EXPECT_TRUE(rd.summary.fast_transforms_used.empty());
+  EXPECT_EQ(rf.summary.fast_transforms_used,
+            std::vector<FastTransform>{FastTransform::kLattice});  // a 12 x 12 grid over ground
   const double peak =
       std::sqrt((rd.field.e_theta.cwiseAbs2() + rd.field.e_phi.cwiseAbs2()).maxCoeff());
   const double err = std::max((rf.field.e_theta - rd.field.e_theta).cwiseAbs().maxCoeff(),
@@ -66,8 +67,8 @@ TEST(PatternOptions, StreamedPowerMatchesMatrixAndStoresNoMatrix) {
   streamed.resistance_matrix_max_dipoles = 10;  // below N = 144
   const PatternResult rm = ComputePattern(a, g, matrix);
   const PatternResult rs = ComputePattern(a, g, streamed);
-  EXPECT_EQ(rm.summary.power_method, "matrix");
-  EXPECT_EQ(rs.summary.power_method, "streamed");
+  EXPECT_EQ(rm.summary.power_route, PowerRoute::kMatrix);
+  EXPECT_EQ(rs.summary.power_route, PowerRoute::kStreamed);
   EXPECT_EQ(rm.resistance_ohm.rows(), 144);
   EXPECT_EQ(rs.resistance_ohm.size(), 0);
   EXPECT_NEAR(rs.radiated_power_w, rm.radiated_power_w, 1e-12 * rm.radiated_power_w);
@@ -86,7 +87,7 @@ TEST(PatternOptions, StreamedPowerMatchesMatrixAndStoresNoMatrix) {
   const StoredResult back = ReadResult(path);
   EXPECT_EQ(back.result.resistance_ohm.size(), 0);
   EXPECT_DOUBLE_EQ(back.result.radiated_power_w, rs.radiated_power_w);
-  EXPECT_EQ(back.result.summary.power_method, "streamed");
+  EXPECT_EQ(back.result.summary.power_route, PowerRoute::kStreamed);
   std::filesystem::remove(path);
 }
 
@@ -97,10 +98,10 @@ TEST(PatternOptions, BlocksOfThetaRowsGiveTheSameResult) {
   const Array a = Panel();
   const AngularGrid g = AngularGrid::FromRanges({0, 180, 5}, {0, 360, 5});
   PatternOptions whole, blocked, blocked_fast;
-  whole.method = blocked.method = FieldMethod::kDirect;
+  whole.field.method = blocked.field.method = FieldMethod::kDirect;
   blocked.block_directions = 500;  // 73 phi values: 6 theta rows per block, 7 blocks
   blocked_fast.block_directions = 500;
-  blocked_fast.method = FieldMethod::kFast;
+  blocked_fast.field.method = FieldMethod::kFast;
   const PatternResult rw = ComputePattern(a, g, whole);
   const PatternResult rb = ComputePattern(a, g, blocked);
   const PatternResult rf = ComputePattern(a, g, blocked_fast);
@@ -110,14 +111,59 @@ TEST(PatternOptions, BlocksOfThetaRowsGiveTheSameResult) {
   EXPECT_LE((rb.field.e_phi - rw.field.e_phi).cwiseAbs().maxCoeff(), 1e-13 * peak);
   EXPECT_LE((rf.field.e_theta - rw.field.e_theta).cwiseAbs().maxCoeff(), 1e-9 * peak);
   EXPECT_LE((rf.field.e_phi - rw.field.e_phi).cwiseAbs().maxCoeff(), 1e-9 * peak);
-  EXPECT_EQ(rf.summary.method, "fast");
+  EXPECT_EQ(rf.summary.field_method_used, FieldMethod::kFast);
   EXPECT_EQ(rb.summary.num_directions, g.size());
   EXPECT_DOUBLE_EQ(rb.summary.peak_directivity, rw.summary.peak_directivity);
 }
 
+TEST(ComputeSummary, FastTransformNamesRoundTrip) {
+  // The result file stores the transforms as one "+"-joined name; every list the
+  // blocks can produce must read back as itself.
+  using T = FastTransform;
+  const std::vector<std::vector<T>> lists = {
+      {}, {T::kLattice}, {T::kType3}, {T::kLattice, T::kType3}, {T::kType3, T::kLattice}};
+  for (const std::vector<T>& list : lists) {
+    const std::string name = FastTransformsToString(list);
+    EXPECT_EQ(FastTransformsFromString(name), list) << name;
+  }
+  EXPECT_EQ(FastTransformsToString({}), "none");
+  EXPECT_EQ(FastTransformsToString({T::kLattice, T::kType3}), "lattice+type-3");
+  EXPECT_EQ(FastTransformsFromString("LATTICE"), std::vector<T>{T::kLattice});
+  for (const char* bad : {"", "type-2", "lattice+", "+lattice", "none+lattice"}) {
+    EXPECT_FALSE(FastTransformsFromString(bad).has_value()) << bad;
+  }
+  EXPECT_EQ(PowerRouteFromString("Streamed"), PowerRoute::kStreamed);
+  EXPECT_FALSE(PowerRouteFromString("stream").has_value());
+}
+
+TEST(ComputeSummary, ReportsSayWhatWasAskedAndUsed) {
+  const Array a = Panel();
+  const AngularGrid g = AngularGrid::FromRanges({0, 90, 5}, {0, 360, 10});
+  PatternOptions o;
+  o.field.method = FieldMethod::kFast;
+  o.resistance_matrix_max_dipoles = 10;  // below N = 144: streamed
+  const ComputeSummary s = ComputePattern(a, g, o).summary;
+  const std::string brief = s.BriefReport();
+  EXPECT_EQ(brief.find('\n'), std::string::npos) << brief;
+  EXPECT_EQ(brief.rfind("field fast (asked fast), lattice transform, error bound ", 0), 0) << brief;
+  EXPECT_NE(brief.find("; power streamed (no resistance matrix stored)"), std::string::npos)
+      << brief;
+  EXPECT_NE(s.message.find("144 dipoles exceed 10"), std::string::npos) << s.message;
+  const std::string full = s.FullReport();
+  EXPECT_EQ(full.rfind(brief + "\n", 0), 0) << full;
+  EXPECT_NE(full.find("144 dipoles, 288 sources, 703 directions"), std::string::npos) << full;
+  EXPECT_NE(full.find("message      " + s.message), std::string::npos) << full;
+
+  o.field.method = FieldMethod::kDirect;
+  o.resistance_matrix_max_dipoles = 4096;
+  const ComputeSummary d = ComputePattern(a, g, o).summary;
+  EXPECT_EQ(d.BriefReport(), "field direct (asked direct); power matrix (closed form)");
+  EXPECT_TRUE(d.message.empty()) << d.message;
+}
+
 TEST(PatternOptions, InvalidToleranceIsRejected) {
   PatternOptions o;
-  o.tolerance_relative = 0.5;
+  o.field.tolerance_relative = 0.5;
   EXPECT_THROW(ComputePattern(Panel(), AngularGrid::FromRanges({0, 90, 10}, {0, 360, 30}), o),
                InvalidArgument);
 }

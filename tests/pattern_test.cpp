@@ -124,8 +124,8 @@ TEST(Pattern, ThreadCountDoesNotChangeTheResult) {
   const Array a = testing::RandomArray(rng, 20, Ground::kNone);
   const AngularGrid grid = AngularGrid::FromRanges({0, 180, 3}, {0, 357, 3});
   PatternOptions one, two;
-  one.num_threads = 1;
-  two.num_threads = 2;
+  one.field.num_threads = 1;
+  two.field.num_threads = 2;
   const PatternResult p1 = ComputePattern(a, grid, one);
   const PatternResult p2 = ComputePattern(a, grid, two);
   EXPECT_LE(testing::MaxFieldDifference(p1.field, p2.field),

@@ -95,8 +95,8 @@ PatternResult MakeResult() {
   r.active_resistance_ohm.resize(2);
   r.active_resistance_ohm << 0.08, kNaN;
   r.radiated_power_w = 0.125;
-  r.summary.method = "fast";
-  r.summary.fast_transform = "lattice";
+  r.summary.field_method_used = FieldMethod::kFast;
+  r.summary.fast_transforms_used = {FastTransform::kLattice};
   r.summary.threads_used = 3;
   r.summary.num_dipoles = 2;
   r.summary.num_sources = 4;
@@ -191,8 +191,8 @@ TEST(ResultIo, RoundTripKeepsEverything) {
   ASSERT_TRUE(s.has_summary);
   const ComputeSummary& f = s.result.summary;
   const ComputeSummary& e = r.summary;
-  EXPECT_EQ(f.method, e.method);
-  EXPECT_EQ(f.fast_transform, e.fast_transform);
+  EXPECT_EQ(f.field_method_used, e.field_method_used);
+  EXPECT_EQ(f.fast_transforms_used, e.fast_transforms_used);
   EXPECT_EQ(f.threads_used, e.threads_used);
   EXPECT_EQ(f.num_dipoles, e.num_dipoles);
   EXPECT_EQ(f.num_sources, e.num_sources);

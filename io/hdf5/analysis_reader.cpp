@@ -6,43 +6,13 @@
 
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/hdf5_file.h"
+#include "io/hdf5/schema.h"
 
 namespace lobecast {
 namespace {
 
 using hdf5::Handle;
-
-class GroupReader {
- public:
-  GroupReader(const std::string& file_path, hid_t file, const std::string& group)
-      : file_path_(file_path), name_(group), g_(hdf5::OpenGroup(file, group)) {}
-  double Number(const std::string& name) const {
-    Require(name);
-    return hdf5::ReadDoubleAttribute(g_, name);
-  }
-  std::int64_t Int(const std::string& name) const {
-    Require(name);
-    return hdf5::ReadIntAttribute(g_, name);
-  }
-  bool Flag(const std::string& name) const { return Int(name) != 0; }
-  std::string Text(const std::string& name) const {
-    Require(name);
-    return hdf5::ReadStringAttribute(g_, name);
-  }
-  DirectionDeg Direction(const std::string& theta, const std::string& phi) const {
-    return {Number(theta), Number(phi)};
-  }
-
- private:
-  void Require(const std::string& name) const {
-    if (!hdf5::HasAttribute(g_, name)) {
-      throw IoError(file_path_, "group '" + name_ + "' lacks the attribute '" + name + "'");
-    }
-  }
-  std::string file_path_;
-  std::string name_;
-  Handle g_;
-};
+using schema::Field;
 
 // A (count, columns) table, or no rows when count is 0 (such tables are not written).
 std::vector<double> ReadTable(const std::string& path, hid_t file, const std::string& name,
@@ -62,129 +32,118 @@ std::vector<double> ReadTable(const std::string& path, hid_t file, const std::st
   return t;
 }
 
-Lobe LobeRow(const double* r) {
-  Lobe l;
-  l.direction = {r[0], r[1]};
-  l.directivity = r[2];
-  l.directivity_dbi = r[3];
-  l.level_db = r[4];
-  return l;
-}
+// The schema's visitor that reads: scalars from the attributes of the current
+// group (every one required), list elements from the rows of their table.
+class FileVisitor {
+ public:
+  FileVisitor(const std::string& file_path, hid_t file, std::string root)
+      : file_path_(file_path),
+        file_(file),
+        name_(std::move(root)),
+        g_(hdf5::OpenGroup(file, name_)) {}
 
-BeamCut ReadCut(const GroupReader& g) {
-  BeamCut c;
-  c.half_power_found = g.Flag("half_power_found");
-  c.half_power_width_deg = g.Number("half_power_width_deg");
-  c.half_power_lower_deg = g.Number("half_power_lower_deg");
-  c.half_power_upper_deg = g.Number("half_power_upper_deg");
-  c.first_nulls_found = g.Flag("first_nulls_found");
-  c.first_null_width_deg = g.Number("first_null_width_deg");
-  c.first_null_lower_deg = g.Number("first_null_lower_deg");
-  c.first_null_upper_deg = g.Number("first_null_upper_deg");
-  c.clipped_by_ground = g.Flag("clipped_by_ground");
-  return c;
-}
+  void Value(const Field& f, double& v) {
+    v = row_ ? row_[column_++] : hdf5::ReadDoubleAttribute(g_, Require(f));
+  }
+  void Value(const Field& f, bool& v) { v = row_ ? row_[column_++] != 0.0 : Int(f) != 0; }
+  void Value(const Field& f, int& v) { v = static_cast<int>(Int(f)); }
+  void Value(const Field& f, std::size_t& v) { v = static_cast<std::size_t>(Int(f)); }
+  void Value(const Field& f, DirectionDeg& d) {
+    Value(Field{schema::ThetaName(f.name), f.unit}, d.theta_deg);
+    Value(Field{schema::PhiName(f.name), f.unit}, d.phi_deg);
+  }
+  void Value(const Field& f, PolarizationReference& v) {
+    const std::string s = Text(f);
+    const auto r = PolarizationReferenceFromString(s);
+    if (!r)
+      throw IoError(file_path_, "unknown polarization reference \"" + s + "\" in the analysis");
+    v = *r;
+  }
+  void Value(const Field& f, NullField& v) {
+    const std::string s = Text(f);
+    const auto r = NullFieldFromString(s);
+    if (!r) {
+      throw IoError(file_path_,
+                    "unknown " + std::string(f.name) + " \"" + s + "\" in the analysis");
+    }
+    v = *r;
+  }
 
-PolarizationReference ReferenceFrom(const std::string& path, const std::string& s) {
-  const auto r = PolarizationReferenceFromString(s);
-  if (!r) throw IoError(path, "unknown polarization reference \"" + s + "\" in the analysis");
-  return *r;
-}
+  template <typename Body>
+  void Object(const schema::ObjectSpec& o, Body&& body) {
+    if (o.file_name.empty()) return body();
+    FileVisitor inner(file_path_, file_, schema::Concat(name_ + "/", o.file_name));
+    Swap(inner);
+    body();
+    Swap(inner);
+  }
+  template <typename T, typename Body>
+  void Optional(const schema::ObjectSpec& o, std::optional<T>& v, Body&& body) {
+    v.reset();
+    if (!hdf5::Exists(file_, schema::Concat(name_ + "/", o.file_name))) return;
+    T value;
+    Object(o, [&] { body(value, *this); });
+    v = value;
+  }
+  template <typename T, typename Body>
+  void List(const schema::ListSpec& l, std::vector<T>& items, bool* truncated, Body&& body) {
+    const std::int64_t count = Int(Field{schema::CountAttribute(l.name), "1"});
+    if (truncated) Value(Field{l.truncated, "1"}, *truncated);
+    const std::size_t columns = schema::ColumnsOf<T>(body).size();
+    const std::vector<double> t =
+        ReadTable(file_path_, file_, schema::Concat(name_ + "/", l.name), count, columns);
+    items.clear();
+    for (std::size_t i = 0; i < t.size(); i += columns) {
+      T e;
+      row_ = &t[i];
+      column_ = 0;
+      body(e, *this);
+      items.push_back(e);
+    }
+    row_ = nullptr;
+  }
+
+  std::int64_t Int(const Field& f) { return hdf5::ReadIntAttribute(g_, Require(f)); }
+  std::string Text(const Field& f) { return hdf5::ReadStringAttribute(g_, Require(f)); }
+
+ private:
+  std::string Require(const Field& f) const {
+    std::string name(f.name);
+    if (!hdf5::HasAttribute(g_, name)) {
+      throw IoError(file_path_, "group '" + name_ + "' lacks the attribute '" + name + "'");
+    }
+    return name;
+  }
+  void Swap(FileVisitor& other) {
+    std::swap(name_, other.name_);
+    std::swap(g_, other.g_);
+  }
+
+  std::string file_path_;
+  hid_t file_;
+  std::string name_;  // the current group
+  Handle g_;
+  const double* row_ = nullptr;  // inside a list element: its row
+  std::size_t column_ = 0;
+};
 
 }  // namespace
 
 std::optional<StoredAnalysis> ReadAnalysis(const std::string& path) {
   hdf5::ErrorSilencer silencer;
   Handle file = hdf5::OpenFileReadOnly(path);
-  const std::string root(kAnalysisGroup);
+  const std::string root(schema::kAnalysisGroup);
   if (!hdf5::Exists(file, root)) return std::nullopt;
   try {
-    const GroupReader g(path, file, root);
-    if (g.Int("analysis_version") > kAnalysisVersion) return std::nullopt;
-
+    FileVisitor v(path, file, root);
+    if (v.Int(Field{schema::kAnalysisVersionAttribute, "1"}) > schema::kAnalysisVersion) {
+      return std::nullopt;
+    }
     StoredAnalysis out;
-    AnalysisOptions& o = out.options;
-    o.reference = ReferenceFrom(path, g.Text("reference"));
-    const std::string null_field = g.Text("null_field");
-    const auto nf = NullFieldFromString(null_field);
-    if (!nf) throw IoError(path, "unknown null_field \"" + null_field + "\" in the analysis");
-    o.null_field = *nf;
-    o.null_threshold_db = g.Number("null_threshold_db");
-    o.side_lobe_threshold_db = g.Number("side_lobe_threshold_db");
-    o.major_lobe_tolerance_db = g.Number("major_lobe_tolerance_db");
-    o.axial_ratio_limit_db = g.Number("axial_ratio_limit_db");
-
-    PatternAnalysis& a = out.analysis;
-    a.field_evaluations = static_cast<std::size_t>(g.Int("field_evaluations"));
-    a.seconds = g.Number("seconds");
-    a.side_lobes_truncated = g.Flag("side_lobes_truncated");
-    a.nulls_truncated = g.Flag("nulls_truncated");
-
-    const GroupReader peak(path, file, root + "/peak");
-    a.peak.direction = peak.Direction("theta_deg", "phi_deg");
-    a.peak.directivity = peak.Number("directivity");
-    a.peak.directivity_dbi = peak.Number("directivity_dbi");
-    a.peak.grid_direction = peak.Direction("grid_theta_deg", "grid_phi_deg");
-    a.peak.grid_directivity = peak.Number("grid_directivity");
-    a.peak.refined = peak.Flag("refined");
-
-    a.elevation_cut = ReadCut(GroupReader(path, file, root + "/elevation_cut"));
-    a.orthogonal_cut = ReadCut(GroupReader(path, file, root + "/orthogonal_cut"));
-
-    const GroupReader fb(path, file, root + "/front_to_back");
-    a.front_to_back.ratio_db = fb.Number("ratio_db");
-    a.front_to_back.back_direction = fb.Direction("back_theta_deg", "back_phi_deg");
-    a.front_to_back.same_elevation_ratio_db = fb.Number("same_elevation_ratio_db");
-    a.front_to_back.same_elevation_back_direction =
-        fb.Direction("same_elevation_back_theta_deg", "same_elevation_back_phi_deg");
-
-    if (hdf5::Exists(file, root + "/highest_side_lobe")) {
-      const GroupReader h(path, file, root + "/highest_side_lobe");
-      const double row[5] = {h.Number("theta_deg"), h.Number("phi_deg"), h.Number("directivity"),
-                             h.Number("directivity_dbi"), h.Number("level_db")};
-      a.highest_side_lobe = LobeRow(row);
-    }
-
-    const GroupReader pol(path, file, root + "/polarization");
-    PolarizationPurity& p = a.polarization;
-    p.reference = ReferenceFrom(path, pol.Text("reference"));
-    p.co_polar_dbi_at_peak = pol.Number("co_polar_dbi_at_peak");
-    p.cross_polar_dbi_at_peak = pol.Number("cross_polar_dbi_at_peak");
-    p.xpd_at_peak_db = pol.Number("xpd_at_peak_db");
-    p.worst_xpd_in_beam_db = pol.Number("worst_xpd_in_beam_db");
-    p.worst_xpd_direction = pol.Direction("worst_xpd_theta_deg", "worst_xpd_phi_deg");
-    p.axial_ratio_at_peak_db = pol.Number("axial_ratio_at_peak_db");
-    p.tilt_at_peak_deg = pol.Number("tilt_at_peak_deg");
-    p.sense_at_peak = static_cast<int>(pol.Int("sense_at_peak"));
-    p.axial_ratio_limit_db = pol.Number("axial_ratio_limit_db");
-    p.axial_ratio_solid_angle_sr = pol.Number("axial_ratio_solid_angle_sr");
-
-    std::vector<double> t =
-        ReadTable(path, file, root + "/major_lobes", g.Int("num_major_lobes"), 5);
-    for (std::size_t i = 0; i < t.size(); i += 5) a.major_lobes.push_back(LobeRow(&t[i]));
-    t = ReadTable(path, file, root + "/side_lobes", g.Int("num_side_lobes"), 5);
-    for (std::size_t i = 0; i < t.size(); i += 5) a.side_lobes.push_back(LobeRow(&t[i]));
-    t = ReadTable(path, file, root + "/nulls", g.Int("num_nulls"), 5);
-    for (std::size_t i = 0; i < t.size(); i += 5) {
-      Null n;
-      n.direction = {t[i], t[i + 1]};
-      n.directivity = t[i + 2];
-      n.level_db = t[i + 3];
-      n.exact = t[i + 4] != 0.0;
-      a.nulls.push_back(n);
-    }
-    t = ReadTable(path, file, root + "/protected_directions", g.Int("num_protected_directions"), 8);
-    for (std::size_t i = 0; i < t.size(); i += 8) {
-      ProtectedDirectionField f;
-      f.direction = {t[i], t[i + 1]};
-      f.directivity = t[i + 2];
-      f.directivity_dbi = t[i + 3];
-      f.level_db = t[i + 4];
-      f.co_polar_dbi = t[i + 5];
-      f.cross_polar_dbi = t[i + 6];
-      f.no_field = t[i + 7] != 0.0;
-      a.protected_directions.push_back(f);
-      o.protected_directions_deg.emplace_back(t[i], t[i + 1]);
+    v.Object(schema::kRecordedOptions, [&] { schema::VisitRecordedOptions(out.options, v); });
+    schema::VisitAnalysis(out.analysis, v);
+    for (const ProtectedDirectionField& f : out.analysis.protected_directions) {
+      out.options.protected_directions_deg.emplace_back(f.direction.theta_deg, f.direction.phi_deg);
     }
     return out;
   } catch (const IoError& e) {

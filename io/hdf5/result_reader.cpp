@@ -2,8 +2,10 @@
 
 #include <algorithm>
 #include <cmath>
+#include <type_traits>
 
 #include "io/hdf5/hdf5_file.h"
+#include "io/hdf5/schema.h"
 
 namespace lobecast {
 namespace {
@@ -39,51 +41,52 @@ std::string OptionalString(hid_t obj, const std::string& name) {
   return hdf5::HasAttribute(obj, name) ? hdf5::ReadStringAttribute(obj, name) : std::string();
 }
 
-void ReadSummary(hid_t file, ComputeSummary& s) {
-  Handle g = hdf5::OpenGroup(file, "/summary");
-  auto number = [&](const char* name, double& out) {
-    if (hdf5::HasAttribute(g, name)) out = hdf5::ReadDoubleAttribute(g, name);
-  };
-  auto count = [&](const char* name, auto& out) {
-    if (hdf5::HasAttribute(g, name)) {
-      out = static_cast<std::remove_reference_t<decltype(out)>>(hdf5::ReadIntAttribute(g, name));
+std::string S(std::string_view s) { return std::string(s); }
+
+// The schema's visitor that reads /summary: attributes that are missing keep their
+// defaults (files from before they were added); an unknown enum name is an IoError.
+struct SummaryReader {
+  const std::string& path;
+  Handle g;
+
+  bool Has(const schema::Field& f) const { return hdf5::HasAttribute(g, S(f.name)); }
+  void Value(const schema::Field& f, double& v) {
+    if (Has(f)) v = hdf5::ReadDoubleAttribute(g, S(f.name));
+  }
+  template <typename Int>
+  requires std::is_integral_v<Int>
+  void Value(const schema::Field& f, Int& v) {
+    if (Has(f)) v = static_cast<Int>(hdf5::ReadIntAttribute(g, S(f.name)));
+  }
+  void Value(const schema::Field& f, FieldMethod& v) { Enum(f, FieldMethodFromString, v); }
+  void Value(const schema::Field& f, PowerRoute& v) { Enum(f, PowerRouteFromString, v); }
+  void Value(const schema::Field& f, std::vector<FastTransform>& v) {
+    Enum(f, FastTransformsFromString, v);
+  }
+  template <typename T, typename FromString>
+  void Enum(const schema::Field& f, FromString from_string, T& out) {
+    if (!Has(f)) return;
+    const std::string text = hdf5::ReadStringAttribute(g, S(f.name));
+    const auto value = from_string(text);
+    if (!value) {
+      throw IoError(path, S(schema::kSummaryGroup) + " attribute " + S(f.name) + " is \"" + text +
+                              "\", which this lobecast does not know");
     }
-  };
-  auto text = [&](const char* name, std::string& out) {
-    if (hdf5::HasAttribute(g, name)) out = hdf5::ReadStringAttribute(g, name);
-  };
-  text("method", s.method);
-  text("method_requested", s.method_requested);
-  text("fast_transform", s.fast_transform);
-  text("power_method", s.power_method);
-  number("field_error_bound_relative", s.field_error_bound_relative);
-  count("threads_used", s.threads_used);
-  count("num_dipoles", s.num_dipoles);
-  count("num_sources", s.num_sources);
-  count("num_directions", s.num_directions);
-  number("pairs", s.pairs);
-  number("seconds_plan", s.seconds_plan);
-  number("seconds_field", s.seconds_field);
-  number("seconds_power", s.seconds_power);
-  number("seconds_polarization", s.seconds_polarization);
-  number("radiated_power_w", s.radiated_power_w);
-  number("peak_directivity", s.peak_directivity);
-  number("peak_theta_deg", s.peak_theta_deg);
-  number("peak_phi_deg", s.peak_phi_deg);
-}
+    out = *value;
+  }
+};
 
 StoredResult ReadOpen(const std::string& path, hid_t file) {
   StoredResult out;
   Handle root = hdf5::OpenGroup(file, "/");
-  const std::string format =
-      hdf5::HasAttribute(root, "format") ? hdf5::ReadStringAttribute(root, "format") : "";
+  const std::string format = OptionalString(root, S(schema::kFormatAttribute));
   if (format != kResultFormat) {
     throw NotAResultError(path,
                           "not a lobecast result file (root attribute format is " +
                               (format.empty() ? std::string("missing") : "\"" + format + "\"") +
                               ", expected \"" + std::string(kResultFormat) + "\")");
   }
-  const std::int64_t version = hdf5::ReadIntAttribute(root, "format_version");
+  const std::int64_t version = hdf5::ReadIntAttribute(root, S(schema::kFormatVersionAttribute));
   if (version > kResultFormatVersion) {
     throw NotAResultError(path, "format_version " + std::to_string(version) +
                                     " is newer than this lobecast (reads " +
@@ -93,43 +96,47 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     throw IoError(path, "format_version " + std::to_string(version) + " is not valid");
   }
   out.format_version = static_cast<int>(version);
-  out.software_version = OptionalString(root, "software_version");
-  out.time_convention = OptionalString(root, "time_convention");
-  out.metadata.created = OptionalString(root, "created");
-  out.metadata.input_text = OptionalString(root, "input");
-  out.metadata.input_path = OptionalString(root, "input_path");
+  out.software_version = OptionalString(root, S(schema::kSoftwareVersionAttribute));
+  out.time_convention = OptionalString(root, S(schema::kTimeConventionAttribute));
+  out.metadata.created = OptionalString(root, S(schema::kCreatedAttribute));
+  out.metadata.input_text = OptionalString(root, S(schema::kInputAttribute));
+  out.metadata.input_path = OptionalString(root, S(schema::kInputPathAttribute));
 
   // /array
-  Handle array_group = hdf5::OpenGroup(file, "/array");
-  out.metadata.name = OptionalString(array_group, "name");
-  out.metadata.description = OptionalString(array_group, "description");
-  out.array.frequency_hz = hdf5::ReadDoubleAttribute(array_group, "frequency_hz");
-  const std::string ground = hdf5::ReadStringAttribute(array_group, "ground");
+  Handle array_group = hdf5::OpenGroup(file, S(schema::kArrayGroup));
+  out.metadata.name = OptionalString(array_group, S(schema::kNameAttribute));
+  out.metadata.description = OptionalString(array_group, S(schema::kDescriptionAttribute));
+  out.array.frequency_hz = hdf5::ReadDoubleAttribute(array_group, S(schema::kFrequencyAttribute));
+  const std::string ground = hdf5::ReadStringAttribute(array_group, S(schema::kGroundAttribute));
   const auto g = GroundFromString(ground);
   if (!g)
-    throw IoError(path, "/array attribute ground is \"" + ground + "\", expected none or pec");
+    throw IoError(path, S(schema::kArrayGroup) + " attribute " + S(schema::kGroundAttribute) +
+                            " is \"" + ground + "\", expected none or pec");
   out.array.ground = *g;
 
   std::vector<hsize_t> dims;
-  const std::vector<double> position = hdf5::ReadDoubles(file, "/array/position", &dims);
+  const std::vector<double> position = hdf5::ReadDoubles(file, S(schema::kPosition.path), &dims);
   if (dims.size() != 2 || dims[1] != 3) {
-    throw IoError(path,
-                  "dataset '/array/position' has shape " + ShapeText(dims) + ", expected (N, 3)");
+    throw IoError(path, "dataset '" + S(schema::kPosition.path) + "' has shape " + ShapeText(dims) +
+                            ", expected (N, 3)");
   }
   const hsize_t n = dims[0];
-  const std::vector<double> orientation = hdf5::ReadDoubles(file, "/array/orientation", &dims);
-  ExpectShape(path, "/array/orientation", dims, {n, 3});
-  const std::vector<double> effective = hdf5::ReadDoubles(file, "/array/effective_length", &dims);
-  ExpectShape(path, "/array/effective_length", dims, {n});
-  const std::vector<Complex> current = hdf5::ReadComplex(file, "/array/current", &dims);
-  ExpectShape(path, "/array/current", dims, {n});
+  const std::vector<double> orientation =
+      hdf5::ReadDoubles(file, S(schema::kOrientation.path), &dims);
+  ExpectShape(path, S(schema::kOrientation.path), dims, {n, 3});
+  const std::vector<double> effective =
+      hdf5::ReadDoubles(file, S(schema::kEffectiveLength.path), &dims);
+  ExpectShape(path, S(schema::kEffectiveLength.path), dims, {n});
+  const std::vector<Complex> current = hdf5::ReadComplex(file, S(schema::kCurrent.path), &dims);
+  ExpectShape(path, S(schema::kCurrent.path), dims, {n});
   std::vector<double> length;
   std::vector<std::string> distribution;
-  if (hdf5::Exists(file, "/array/length_m") && hdf5::Exists(file, "/array/distribution")) {
-    length = hdf5::ReadDoubles(file, "/array/length_m", &dims);
-    ExpectShape(path, "/array/length_m", dims, {n});
-    distribution = hdf5::ReadStrings(file, "/array/distribution");
-    ExpectShape(path, "/array/distribution", {distribution.size()}, {n});
+  if (hdf5::Exists(file, S(schema::kLength.path)) &&
+      hdf5::Exists(file, S(schema::kDistribution.path))) {
+    length = hdf5::ReadDoubles(file, S(schema::kLength.path), &dims);
+    ExpectShape(path, S(schema::kLength.path), dims, {n});
+    distribution = hdf5::ReadStrings(file, S(schema::kDistribution.path));
+    ExpectShape(path, S(schema::kDistribution.path), {distribution.size()}, {n});
   }
   out.array.dipoles.resize(n);
   for (std::size_t k = 0; k < n; ++k) {
@@ -140,7 +147,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     if (!length.empty()) {
       const auto dist = DistributionFromString(distribution[k]);
       if (!dist) {
-        throw IoError(path, "/array/distribution[" + std::to_string(k) + "] is \"" +
+        throw IoError(path, S(schema::kDistribution.path) + "[" + std::to_string(k) + "] is \"" +
                                 distribution[k] + "\", expected uniform or triangular");
       }
       d.distribution = *dist;
@@ -155,42 +162,43 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
 
   // /grid
   PatternResult& r = out.result;
-  r.grid.theta_deg = hdf5::ReadDoubles(file, "/grid/theta_deg", &dims);
-  ExpectShape(path, "/grid/theta_deg", dims, {r.grid.theta_deg.size()});
-  r.grid.phi_deg = hdf5::ReadDoubles(file, "/grid/phi_deg", &dims);
-  ExpectShape(path, "/grid/phi_deg", dims, {r.grid.phi_deg.size()});
+  r.grid.theta_deg = hdf5::ReadDoubles(file, S(schema::kTheta.path), &dims);
+  ExpectShape(path, S(schema::kTheta.path), dims, {r.grid.theta_deg.size()});
+  r.grid.phi_deg = hdf5::ReadDoubles(file, S(schema::kPhi.path), &dims);
+  ExpectShape(path, S(schema::kPhi.path), dims, {r.grid.phi_deg.size()});
   const std::vector<hsize_t> grid_shape = {r.grid.theta_deg.size(), r.grid.phi_deg.size()};
 
-  auto complex2d = [&](const char* name) {
-    std::vector<Complex> v = hdf5::ReadComplex(file, name, &dims);
-    ExpectShape(path, name, dims, grid_shape);
+  auto complex2d = [&](const schema::Dataset& d) {
+    std::vector<Complex> v = hdf5::ReadComplex(file, S(d.path), &dims);
+    ExpectShape(path, S(d.path), dims, grid_shape);
     return ToVector(v);
   };
-  auto real2d = [&](const char* name) {
-    std::vector<double> v = hdf5::ReadDoubles(file, name, &dims);
-    ExpectShape(path, name, dims, grid_shape);
+  auto real2d = [&](const schema::Dataset& d) {
+    std::vector<double> v = hdf5::ReadDoubles(file, S(d.path), &dims);
+    ExpectShape(path, S(d.path), dims, grid_shape);
     return ToVector(v);
   };
-  r.field.e_theta = complex2d("/field/rE_theta");
-  r.field.e_phi = complex2d("/field/rE_phi");
-  r.intensity_w_sr = real2d("/pattern/intensity");
-  r.directivity = real2d("/pattern/directivity");
-  r.axial_ratio_db = real2d("/polarization/axial_ratio_db");
-  r.tilt_deg = real2d("/polarization/tilt_deg");
-  r.sense = hdf5::ReadInt8(file, "/polarization/sense", &dims);
-  ExpectShape(path, "/polarization/sense", dims, grid_shape);
+  r.field.e_theta = complex2d(schema::kETheta);
+  r.field.e_phi = complex2d(schema::kEPhi);
+  r.intensity_w_sr = real2d(schema::kIntensity);
+  r.directivity = real2d(schema::kDirectivity);
+  r.axial_ratio_db = real2d(schema::kAxialRatio);
+  r.tilt_deg = real2d(schema::kTilt);
+  r.sense = hdf5::ReadInt8(file, S(schema::kSense.path), &dims);
+  ExpectShape(path, S(schema::kSense.path), dims, grid_shape);
 
   // /power
-  const std::vector<double> power = hdf5::ReadDoubles(file, "/power/radiated_w", &dims);
+  const std::vector<double> power = hdf5::ReadDoubles(file, S(schema::kRadiatedPower.path), &dims);
   if (power.size() != 1) {
-    throw IoError(
-        path, "dataset '/power/radiated_w' has shape " + ShapeText(dims) + ", expected a scalar");
+    throw IoError(path, "dataset '" + S(schema::kRadiatedPower.path) + "' has shape " +
+                            ShapeText(dims) + ", expected a scalar");
   }
   r.radiated_power_w = power[0];
   // Large arrays may be stored without the matrix (resistance_ohm stays 0 x 0).
-  if (hdf5::Exists(file, "/power/resistance_ohm")) {
-    const std::vector<double> resistance = hdf5::ReadDoubles(file, "/power/resistance_ohm", &dims);
-    ExpectShape(path, "/power/resistance_ohm", dims, {n, n});
+  if (hdf5::Exists(file, S(schema::kResistance.path))) {
+    const std::vector<double> resistance =
+        hdf5::ReadDoubles(file, S(schema::kResistance.path), &dims);
+    ExpectShape(path, S(schema::kResistance.path), dims, {n, n});
     r.resistance_ohm.resize(static_cast<Eigen::Index>(n), static_cast<Eigen::Index>(n));
     for (std::size_t i = 0; i < n; ++i) {
       for (std::size_t j = 0; j < n; ++j) {
@@ -200,11 +208,12 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     }
   }
   r.active_resistance_ohm =
-      ToVector(hdf5::ReadDoubles(file, "/power/active_resistance_ohm", &dims));
-  ExpectShape(path, "/power/active_resistance_ohm", dims, {n});
+      ToVector(hdf5::ReadDoubles(file, S(schema::kActiveResistance.path), &dims));
+  ExpectShape(path, S(schema::kActiveResistance.path), dims, {n});
 
-  if (hdf5::Exists(file, "/summary")) {
-    ReadSummary(file, r.summary);
+  if (hdf5::Exists(file, S(schema::kSummaryGroup))) {
+    SummaryReader v{path, hdf5::OpenGroup(file, S(schema::kSummaryGroup))};
+    schema::VisitSummary(r.summary, v);
     out.has_summary = true;
   }
   return out;

@@ -13,6 +13,7 @@
 
 #include "engine/error.h"
 #include "io/hdf5/hdf5_file.h"
+#include "io/hdf5/schema.h"
 #include "io/output_file.h"
 #include "io/safety_note.h"
 #include "io/version.h"
@@ -42,6 +43,32 @@ std::vector<double> RowMajor(const Eigen::MatrixXd& m) {
   }
   return out;
 }
+
+std::string S(std::string_view s) { return std::string(s); }
+
+// A dataset of the schema, written into its group `g`.
+template <typename T>
+void Write(hid_t g, const schema::Dataset& d, const std::vector<hsize_t>& dims, const T* data) {
+  hdf5::WriteDataset(g, S(d.name()), dims, data, d.units);
+}
+
+// The schema's visitor that writes the /summary attributes; enums as their names.
+struct SummaryWriter {
+  Handle g;
+  void Value(const schema::Field& f, double v) { hdf5::WriteScalarAttribute(g, S(f.name), v); }
+  void Value(const schema::Field& f, int v) { hdf5::WriteIntAttribute(g, S(f.name), v); }
+  void Value(const schema::Field& f, std::size_t v) {
+    hdf5::WriteIntAttribute(g, S(f.name), static_cast<std::int64_t>(v));
+  }
+  void Value(const schema::Field& f, FieldMethod v) { Text(f, ToString(v)); }
+  void Value(const schema::Field& f, PowerRoute v) { Text(f, ToString(v)); }
+  void Value(const schema::Field& f, const std::vector<FastTransform>& v) {
+    Text(f, FastTransformsToString(v));
+  }
+  void Text(const schema::Field& f, std::string_view v) {
+    hdf5::WriteStringAttribute(g, S(f.name), v);
+  }
+};
 
 void CheckSize(const char* what, std::size_t found, std::size_t expected) {
   if (found != expected) {
@@ -133,12 +160,12 @@ struct PatternFileWriter::Impl {
     return hdf5::CreateGroup(file, group_path);
   }
 
-  Handle Create2D(const std::string& name, hid_t type, std::string_view units) {
-    Hook(name);
+  Handle Create2D(const schema::Dataset& d, hid_t type) {
+    Hook(d.path);
     hdf5::DatasetLayout layout;
     layout.chunk_rows = ChunkRows(options, nt, np);
     layout.deflate_level = options.deflate_level;
-    return hdf5::CreateDataset(file, name, type, {nt, np}, units, layout);
+    return hdf5::CreateDataset(file, S(d.path), type, {nt, np}, d.units, layout);
   }
 
   void WriteHeader(const Array& array, const AngularGrid& grid) {
@@ -159,39 +186,40 @@ struct PatternFileWriter::Impl {
     }
     const auto N = static_cast<hsize_t>(n);
 
-    Hook("/array");
-    Handle g = hdf5::CreateGroup(file, "/array");
-    hdf5::WriteScalarAttribute(g, "frequency_hz", array.frequency_hz);
-    hdf5::WriteScalarAttribute(g, "wavelength_m", array.wavelength_m());
-    hdf5::WriteStringAttribute(g, "ground", ToString(array.ground));
-    if (!meta.name.empty()) hdf5::WriteStringAttribute(g, "name", meta.name);
-    if (!meta.description.empty()) hdf5::WriteStringAttribute(g, "description", meta.description);
-    Hook("/array/position");
-    hdf5::WriteDataset(g, "position", {N, 3}, position.data(), "m");
-    hdf5::WriteDataset(g, "orientation", {N, 3}, orientation.data(), "1");
-    hdf5::WriteDataset(g, "effective_length", {N}, effective_length.data(), "m");
-    hdf5::WriteDataset(g, "length_m", {N}, length.data(), "m");
-    hdf5::WriteStringDataset(g, "distribution", distribution, "1");
-    hdf5::WriteDataset(g, "current", {N}, current.data(), "A");
+    Hook(schema::kArrayGroup);
+    Handle g = hdf5::CreateGroup(file, S(schema::kArrayGroup));
+    hdf5::WriteScalarAttribute(g, S(schema::kFrequencyAttribute), array.frequency_hz);
+    hdf5::WriteScalarAttribute(g, S(schema::kWavelengthAttribute), array.wavelength_m());
+    hdf5::WriteStringAttribute(g, S(schema::kGroundAttribute), ToString(array.ground));
+    if (!meta.name.empty()) hdf5::WriteStringAttribute(g, S(schema::kNameAttribute), meta.name);
+    if (!meta.description.empty()) {
+      hdf5::WriteStringAttribute(g, S(schema::kDescriptionAttribute), meta.description);
+    }
+    Hook(schema::kPosition.path);
+    Write(g, schema::kPosition, {N, 3}, position.data());
+    Write(g, schema::kOrientation, {N, 3}, orientation.data());
+    Write(g, schema::kEffectiveLength, {N}, effective_length.data());
+    Write(g, schema::kLength, {N}, length.data());
+    hdf5::WriteStringDataset(g, S(schema::kDistribution.name()), distribution,
+                             schema::kDistribution.units);
+    Write(g, schema::kCurrent, {N}, current.data());
 
-    Hook("/grid");
-    Handle gg = hdf5::CreateGroup(file, "/grid");
-    hdf5::WriteDataset(gg, "theta_deg", {nt}, grid.theta_deg.data(), "deg");
-    hdf5::WriteDataset(gg, "phi_deg", {np}, grid.phi_deg.data(), "deg");
+    Hook(schema::kGridGroup);
+    Handle gg = hdf5::CreateGroup(file, S(schema::kGridGroup));
+    Write(gg, schema::kTheta, {nt}, grid.theta_deg.data());
+    Write(gg, schema::kPhi, {np}, grid.phi_deg.data());
 
-    hdf5::CreateGroup(file, "/field");
-    hdf5::CreateGroup(file, "/pattern");
-    hdf5::CreateGroup(file, "/polarization");
-    e_theta = Create2D("/field/rE_theta", complex_file_type, "V");
-    e_phi = Create2D("/field/rE_phi", complex_file_type, "V");
-    intensity = Create2D("/pattern/intensity", H5T_IEEE_F64LE, "W/sr");
-    directivity = Create2D("/pattern/directivity", H5T_IEEE_F64LE, "1");
-    axial_ratio = Create2D("/polarization/axial_ratio_db", H5T_IEEE_F64LE, "dB");
-    tilt = Create2D("/polarization/tilt_deg", H5T_IEEE_F64LE, "deg");
-    sense = Create2D("/polarization/sense", H5T_STD_I8LE, "1");
-    hdf5::WriteStringAttribute(sense, "values",
-                               "+1 right-hand, -1 left-hand, 0 linear or no field "
-                               "(IEEE Std 145-2013)");
+    hdf5::CreateGroup(file, S(schema::kFieldGroup));
+    hdf5::CreateGroup(file, S(schema::kPatternGroup));
+    hdf5::CreateGroup(file, S(schema::kPolarizationGroup));
+    e_theta = Create2D(schema::kETheta, complex_file_type);
+    e_phi = Create2D(schema::kEPhi, complex_file_type);
+    intensity = Create2D(schema::kIntensity, H5T_IEEE_F64LE);
+    directivity = Create2D(schema::kDirectivity, H5T_IEEE_F64LE);
+    axial_ratio = Create2D(schema::kAxialRatio, H5T_IEEE_F64LE);
+    tilt = Create2D(schema::kTilt, H5T_IEEE_F64LE);
+    sense = Create2D(schema::kSense, H5T_STD_I8LE);
+    hdf5::WriteStringAttribute(sense, S(schema::kSenseValuesAttribute), schema::kSenseValues);
   }
 };
 
@@ -262,19 +290,19 @@ void PatternFileWriter::WriteRows(std::size_t first_theta_row, const PatternRows
     const auto first = static_cast<hsize_t>(first_theta_row);
     const auto count = static_cast<hsize_t>(rows.num_rows);
     Handle complex_mem = hdf5::ComplexType();
-    w.Hook("/field/rE_theta");
+    w.Hook(schema::kETheta.path);
     hdf5::WriteRows(w.e_theta, complex_mem, first, count, rows.e_theta);
-    w.Hook("/field/rE_phi");
+    w.Hook(schema::kEPhi.path);
     hdf5::WriteRows(w.e_phi, complex_mem, first, count, rows.e_phi);
-    w.Hook("/pattern/intensity");
+    w.Hook(schema::kIntensity.path);
     hdf5::WriteRows(w.intensity, H5T_NATIVE_DOUBLE, first, count, rows.intensity_w_sr);
-    w.Hook("/pattern/directivity");
+    w.Hook(schema::kDirectivity.path);
     hdf5::WriteRows(w.directivity, H5T_NATIVE_DOUBLE, first, count, rows.directivity);
-    w.Hook("/polarization/axial_ratio_db");
+    w.Hook(schema::kAxialRatio.path);
     hdf5::WriteRows(w.axial_ratio, H5T_NATIVE_DOUBLE, first, count, rows.axial_ratio_db);
-    w.Hook("/polarization/tilt_deg");
+    w.Hook(schema::kTilt.path);
     hdf5::WriteRows(w.tilt, H5T_NATIVE_DOUBLE, first, count, rows.tilt_deg);
-    w.Hook("/polarization/sense");
+    w.Hook(schema::kSense.path);
     hdf5::WriteRows(w.sense, H5T_NATIVE_INT8, first, count, rows.sense);
     std::fill_n(w.rows_written.begin() + static_cast<std::ptrdiff_t>(first_theta_row),
                 rows.num_rows, true);
@@ -294,19 +322,20 @@ void PatternFileWriter::WritePower(double radiated_power_w, const Eigen::MatrixX
       CheckSize("resistance_ohm columns", static_cast<std::size_t>(resistance_ohm.cols()), n);
     }
     CheckSize("active_resistance_ohm", static_cast<std::size_t>(active_resistance_ohm.size()), n);
-    w.Hook("/power");
-    Handle g = w.Group("/power");
-    hdf5::WriteScalarDataset(g, "radiated_w", radiated_power_w, "W");
+    w.Hook(schema::kPowerGroup);
+    Handle g = w.Group(S(schema::kPowerGroup));
+    hdf5::WriteScalarDataset(g, S(schema::kRadiatedPower.name()), radiated_power_w,
+                             schema::kRadiatedPower.units);
     if (with_matrix) {
       const std::vector<double> r = RowMajor(resistance_ohm);
-      hdf5::WriteDataset(g, "resistance_ohm", {n, n}, r.data(), "ohm");
+      Write(g, schema::kResistance, {n, n}, r.data());
     } else {
-      hdf5::WriteStringAttribute(g, "resistance_ohm_omitted",
+      hdf5::WriteStringAttribute(g, S(schema::kResistanceOmittedAttribute),
                                  "the N x N matrix was not stored for this array size; "
                                  "power and active resistances were streamed without it "
                                  "(lobecast compute --resistance-matrix stores it)");
     }
-    hdf5::WriteDataset(g, "active_resistance_ohm", {n}, active_resistance_ohm.data(), "ohm");
+    Write(g, schema::kActiveResistance, {n}, active_resistance_ohm.data());
     w.power_written = true;
   });
 }
@@ -314,26 +343,9 @@ void PatternFileWriter::WritePower(double radiated_power_w, const Eigen::MatrixX
 void PatternFileWriter::WriteSummary(const ComputeSummary& s) {
   Impl& w = *impl_;
   w.Step([&] {
-    w.Hook("/summary");
-    Handle g = w.Group("/summary");
-    hdf5::WriteStringAttribute(g, "method", s.method);
-    hdf5::WriteStringAttribute(g, "method_requested", s.method_requested);
-    hdf5::WriteStringAttribute(g, "fast_transform", s.fast_transform);
-    hdf5::WriteStringAttribute(g, "power_method", s.power_method);
-    hdf5::WriteScalarAttribute(g, "field_error_bound_relative", s.field_error_bound_relative);
-    hdf5::WriteIntAttribute(g, "threads_used", s.threads_used);
-    hdf5::WriteIntAttribute(g, "num_dipoles", static_cast<std::int64_t>(s.num_dipoles));
-    hdf5::WriteIntAttribute(g, "num_sources", static_cast<std::int64_t>(s.num_sources));
-    hdf5::WriteIntAttribute(g, "num_directions", static_cast<std::int64_t>(s.num_directions));
-    hdf5::WriteScalarAttribute(g, "pairs", s.pairs);
-    hdf5::WriteScalarAttribute(g, "seconds_plan", s.seconds_plan);
-    hdf5::WriteScalarAttribute(g, "seconds_field", s.seconds_field);
-    hdf5::WriteScalarAttribute(g, "seconds_power", s.seconds_power);
-    hdf5::WriteScalarAttribute(g, "seconds_polarization", s.seconds_polarization);
-    hdf5::WriteScalarAttribute(g, "radiated_power_w", s.radiated_power_w);
-    hdf5::WriteScalarAttribute(g, "peak_directivity", s.peak_directivity);
-    hdf5::WriteScalarAttribute(g, "peak_theta_deg", s.peak_theta_deg);
-    hdf5::WriteScalarAttribute(g, "peak_phi_deg", s.peak_phi_deg);
+    w.Hook(schema::kSummaryGroup);
+    SummaryWriter v{w.Group(S(schema::kSummaryGroup))};
+    schema::VisitSummary(s, v);
   });
 }
 
@@ -427,17 +439,17 @@ void PatternFileWriter::Finish() {
 
     w.Hook("/");
     Handle root = hdf5::OpenGroup(w.file, "/");
-    hdf5::WriteStringAttribute(root, "software_version", SoftwareVersion());
-    hdf5::WriteStringAttribute(root, "time_convention", "exp(+jwt)");
-    hdf5::WriteStringAttribute(root, "safety_note", kSafetyNote);
-    hdf5::WriteStringAttribute(root, "created", w.meta.created);
-    hdf5::WriteStringAttribute(root, "input", w.meta.input_text);
+    hdf5::WriteStringAttribute(root, S(schema::kSoftwareVersionAttribute), SoftwareVersion());
+    hdf5::WriteStringAttribute(root, S(schema::kTimeConventionAttribute), schema::kTimeConvention);
+    hdf5::WriteStringAttribute(root, S(schema::kSafetyNoteAttribute), kSafetyNote);
+    hdf5::WriteStringAttribute(root, S(schema::kCreatedAttribute), w.meta.created);
+    hdf5::WriteStringAttribute(root, S(schema::kInputAttribute), w.meta.input_text);
     if (!w.meta.input_path.empty()) {
-      hdf5::WriteStringAttribute(root, "input_path", w.meta.input_path);
+      hdf5::WriteStringAttribute(root, S(schema::kInputPathAttribute), w.meta.input_path);
     }
     // Last: only a complete file says what it is.
-    hdf5::WriteIntAttribute(root, "format_version", kResultFormatVersion);
-    hdf5::WriteStringAttribute(root, "format", kResultFormat);
+    hdf5::WriteIntAttribute(root, S(schema::kFormatVersionAttribute), kResultFormatVersion);
+    hdf5::WriteStringAttribute(root, S(schema::kFormatAttribute), kResultFormat);
     root.Reset();
 
     w.e_theta.Reset(), w.e_phi.Reset(), w.intensity.Reset(), w.directivity.Reset();

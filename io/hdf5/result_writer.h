@@ -6,8 +6,8 @@
 // one. The root attributes `format` / `format_version` are written last of all,
 // so even a stray temporary is not recognized as a lobecast result.
 //
-// Layout (units attribute on every dataset; (Nt, Np) datasets are theta-major,
-// chunked by theta rows and deflate-compressed):
+// Layout (names and units from io/hdf5/schema.h; units attribute on every dataset;
+// (Nt, Np) datasets are theta-major, chunked by theta rows and deflate-compressed):
 //   /                      format, format_version, software_version, time_convention,
 //                          created, input, input_path (when known)
 //   /array                 frequency_hz, wavelength_m, ground, name, description
@@ -36,12 +36,13 @@
 #include "engine/grid.h"
 #include "engine/pattern.h"
 #include "engine/types.h"
+#include "io/hdf5/schema.h"
 #include "io/io_error.h"
 
 namespace lobecast {
 
-inline constexpr std::string_view kResultFormat = "lobecast.pattern";
-inline constexpr int kResultFormatVersion = 1;
+inline constexpr std::string_view kResultFormat = schema::kFormat;
+inline constexpr int kResultFormatVersion = schema::kFormatVersion;
 
 // What the file records about where the result came from.
 struct ResultMetadata {

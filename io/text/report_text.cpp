@@ -2,11 +2,14 @@
 
 #include <cmath>
 #include <cstdio>
+#include <optional>
 #include <sstream>
 #include <string>
+#include <vector>
 
 #include "engine/constants.h"
 #include "engine/polarization.h"
+#include "io/hdf5/schema.h"
 #include "io/safety_note.h"
 #include "io/text/json_writer.h"
 #include "io/text/summary_text.h"
@@ -48,6 +51,71 @@ constexpr double kSphereSr = 4.0 * kPi;
 void Row(std::ostringstream& s, const char* label, const std::string& value) {
   s << Printf("  %-30s ", label) << value << "\n";
 }
+
+// The schema's visitor that writes the report's JSON: objects for groups and
+// directions, arrays of objects for lists, null for a missing optional.
+class JsonVisitor {
+ public:
+  explicit JsonVisitor(JsonWriter& j) : j_(j) {}
+
+  void Value(const schema::Field& f, double v) {
+    if (f.extra == schema::Extra::kFileOnly) return;
+    // The safety note has always come just before the analysis' seconds.
+    if (depth_ == 0 && f.name == schema::kSecondsKey) j_.Member("safety_note", kSafetyNote);
+    j_.Member(f.name, v);
+    if (f.extra == schema::Extra::kInfiniteFlag) {
+      j_.MemberBool(schema::InfiniteFlagName(f.name), std::isinf(v));
+    }
+  }
+  void Value(const schema::Field& f, bool v) { j_.MemberBool(f.name, v); }
+  void Value(const schema::Field& f, int v) { j_.MemberInt(f.name, v); }
+  void Value(const schema::Field& f, std::size_t v) {
+    j_.MemberInt(f.name, static_cast<long long>(v));
+  }
+  void Value(const schema::Field& f, const DirectionDeg& d) {
+    j_.Key(schema::DirectionKey(f.name));
+    j_.BeginObject();
+    j_.Member(schema::kThetaKey, d.theta_deg);
+    j_.Member(schema::kPhiKey, d.phi_deg);
+    j_.EndObject();
+  }
+  void Value(const schema::Field& f, PolarizationReference v) { j_.Member(f.name, ToString(v)); }
+  void Value(const schema::Field& f, NullField v) { j_.Member(f.name, ToString(v)); }
+
+  template <typename Body>
+  void Object(const schema::ObjectSpec& o, Body&& body) {
+    j_.Key(o.json_name);
+    Nested([&] { body(); });
+  }
+  template <typename T, typename Body>
+  void Optional(const schema::ObjectSpec& o, const std::optional<T>& v, Body&& body) {
+    j_.Key(o.json_name);
+    if (!v) return j_.Null();
+    Nested([&] { body(*v, *this); });
+  }
+  template <typename T, typename Body>
+  void List(const schema::ListSpec& l, const std::vector<T>& items, const bool* truncated,
+            Body&& body) {
+    j_.Key(l.name);
+    j_.BeginArray();
+    for (const T& e : items) Nested([&] { body(e, *this); });
+    j_.EndArray();
+    if (truncated) j_.MemberBool(l.truncated, *truncated);
+  }
+
+ private:
+  template <typename Body>
+  void Nested(Body&& body) {
+    j_.BeginObject();
+    ++depth_;
+    body();
+    --depth_;
+    j_.EndObject();
+  }
+
+  JsonWriter& j_;
+  int depth_ = 0;  // objects opened by the walk
+};
 
 }  // namespace
 
@@ -177,36 +245,6 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
 
 std::string ReportJson(const ReportContext& c, const PatternAnalysis& a, const AnalysisOptions& o) {
   JsonWriter j;
-  auto direction = [&j](std::string_view key, const DirectionDeg& d) {
-    j.Key(key);
-    j.BeginObject();
-    j.Member("theta_deg", d.theta_deg);
-    j.Member("phi_deg", d.phi_deg);
-    j.EndObject();
-  };
-  auto lobe = [&](const Lobe& l) {
-    j.BeginObject();
-    direction("direction", l.direction);
-    j.Member("directivity", l.directivity);
-    j.Member("directivity_dbi", l.directivity_dbi);
-    j.Member("level_db", l.level_db);
-    j.EndObject();
-  };
-  auto cut = [&](std::string_view key, const BeamCut& b) {
-    j.Key(key);
-    j.BeginObject();
-    j.MemberBool("half_power_found", b.half_power_found);
-    j.Member("half_power_width_deg", b.half_power_width_deg);
-    j.Member("half_power_lower_deg", b.half_power_lower_deg);
-    j.Member("half_power_upper_deg", b.half_power_upper_deg);
-    j.MemberBool("first_nulls_found", b.first_nulls_found);
-    j.Member("first_null_width_deg", b.first_null_width_deg);
-    j.Member("first_null_lower_deg", b.first_null_lower_deg);
-    j.Member("first_null_upper_deg", b.first_null_upper_deg);
-    j.MemberBool("clipped_by_ground", b.clipped_by_ground);
-    j.EndObject();
-  };
-
   j.BeginObject();
   j.Member("format", "lobecast.report");
   j.MemberInt("format_version", 1);
@@ -217,104 +255,9 @@ std::string ReportJson(const ReportContext& c, const PatternAnalysis& a, const A
   j.MemberInt("num_dipoles", static_cast<long long>(c.num_dipoles));
   j.Member("source", c.recomputed ? "recomputed" : "stored");
   j.Member("null_means", "an infinite or undefined value; see the flags beside it");
-  j.Key("options");
-  j.BeginObject();
-  j.Member("reference", ToString(o.reference));
-  j.Member("null_field", ToString(o.null_field));
-  j.Member("null_threshold_db", o.null_threshold_db);
-  j.Member("side_lobe_threshold_db", o.side_lobe_threshold_db);
-  j.Member("axial_ratio_limit_db", o.axial_ratio_limit_db);
-  j.EndObject();
-
-  j.Key("peak");
-  j.BeginObject();
-  direction("direction", a.peak.direction);
-  j.Member("directivity", a.peak.directivity);
-  j.Member("directivity_dbi", a.peak.directivity_dbi);
-  direction("grid_direction", a.peak.grid_direction);
-  j.Member("grid_directivity", a.peak.grid_directivity);
-  j.MemberBool("refined", a.peak.refined);
-  j.EndObject();
-  cut("elevation_plane", a.elevation_cut);
-  cut("orthogonal_plane", a.orthogonal_cut);
-
-  j.Key("front_to_back");
-  j.BeginObject();
-  j.Member("ratio_db", a.front_to_back.ratio_db);
-  j.MemberBool("ratio_infinite", std::isinf(a.front_to_back.ratio_db));
-  direction("back_direction", a.front_to_back.back_direction);
-  j.Member("same_elevation_ratio_db", a.front_to_back.same_elevation_ratio_db);
-  j.MemberBool("same_elevation_ratio_infinite",
-               std::isinf(a.front_to_back.same_elevation_ratio_db));
-  direction("same_elevation_back_direction", a.front_to_back.same_elevation_back_direction);
-  j.EndObject();
-
-  j.Key("major_lobes");
-  j.BeginArray();
-  for (const Lobe& l : a.major_lobes) lobe(l);
-  j.EndArray();
-  j.Key("highest_side_lobe");
-  if (a.highest_side_lobe) {
-    lobe(*a.highest_side_lobe);
-  } else {
-    j.Null();
-  }
-  j.Key("side_lobes");
-  j.BeginArray();
-  for (const Lobe& l : a.side_lobes) lobe(l);
-  j.EndArray();
-  j.MemberBool("side_lobes_truncated", a.side_lobes_truncated);
-
-  j.Key("nulls");
-  j.BeginArray();
-  for (const Null& n : a.nulls) {
-    j.BeginObject();
-    direction("direction", n.direction);
-    j.Member("directivity", n.directivity);
-    j.Member("level_db", n.level_db);
-    j.MemberBool("exact", n.exact);
-    j.EndObject();
-  }
-  j.EndArray();
-  j.MemberBool("nulls_truncated", a.nulls_truncated);
-
-  j.Key("protected_directions");
-  j.BeginArray();
-  for (const ProtectedDirectionField& f : a.protected_directions) {
-    j.BeginObject();
-    direction("direction", f.direction);
-    j.Member("directivity", f.directivity);
-    j.Member("directivity_dbi", f.directivity_dbi);
-    j.Member("level_db", f.level_db);
-    j.Member("co_polar_dbi", f.co_polar_dbi);
-    j.Member("cross_polar_dbi", f.cross_polar_dbi);
-    j.MemberBool("no_field", f.no_field);
-    j.EndObject();
-  }
-  j.EndArray();
-
-  const PolarizationPurity& p = a.polarization;
-  j.Key("polarization");
-  j.BeginObject();
-  j.Member("reference", ToString(p.reference));
-  j.Member("co_polar_dbi_at_peak", p.co_polar_dbi_at_peak);
-  j.Member("cross_polar_dbi_at_peak", p.cross_polar_dbi_at_peak);
-  j.Member("xpd_at_peak_db", p.xpd_at_peak_db);
-  j.MemberBool("xpd_at_peak_infinite", std::isinf(p.xpd_at_peak_db));
-  j.Member("worst_xpd_in_beam_db", p.worst_xpd_in_beam_db);
-  j.MemberBool("worst_xpd_in_beam_infinite", std::isinf(p.worst_xpd_in_beam_db));
-  direction("worst_xpd_direction", p.worst_xpd_direction);
-  j.Member("axial_ratio_at_peak_db", p.axial_ratio_at_peak_db);
-  j.MemberBool("axial_ratio_at_peak_infinite", std::isinf(p.axial_ratio_at_peak_db));
-  j.Member("tilt_at_peak_deg", p.tilt_at_peak_deg);
-  j.MemberInt("sense_at_peak", p.sense_at_peak);
-  j.Member("axial_ratio_limit_db", p.axial_ratio_limit_db);
-  j.Member("axial_ratio_solid_angle_sr", p.axial_ratio_solid_angle_sr);
-  j.EndObject();
-
-  j.MemberInt("field_evaluations", static_cast<long long>(a.field_evaluations));
-  j.Member("safety_note", kSafetyNote);
-  j.Member("seconds", a.seconds);
+  JsonVisitor v(j);
+  v.Object(schema::kRecordedOptions, [&] { schema::VisitRecordedOptions(o, v); });
+  schema::VisitAnalysis(a, v);
   j.EndObject();
   return j.text();
 }

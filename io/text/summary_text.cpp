@@ -131,14 +131,7 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
                   ra[lo], static_cast<long>(lo), ra[hi], static_cast<long>(hi));
     }
   }
-  s << "method       field " << sm.method << " (asked " << sm.method_requested << ")";
-  if (sm.method == "fast") {
-    s << Printf(", %s transform, error bound %.2g of the peak |rE|", sm.fast_transform.c_str(),
-                sm.field_error_bound_relative);
-  }
-  s << "; power " << sm.power_method
-    << (sm.power_method == "streamed" ? " (no resistance matrix stored)" : " (closed form)")
-    << "\n";
+  s << "method       " << sm.BriefReport() << "\n";
   s << Printf("time         %.3f s wall (field %.3f s, power %.3f s), %d thread%s, %.3g pairs\n",
               wall_seconds, sm.seconds_field, sm.seconds_power, sm.threads_used,
               sm.threads_used == 1 ? "" : "s", sm.pairs);
