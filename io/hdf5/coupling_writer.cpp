@@ -1,7 +1,10 @@
 // The circuit of a coupled array in a result file (coupling_writer.h).
 #include "io/hdf5/coupling_writer.h"
 
+#include <iterator>
 #include <string>
+
+#include "io/hdf5/schema.h"
 
 namespace lobecast {
 
@@ -18,26 +21,34 @@ RealizedGainReference RealizedGainReferenceOf(const CouplingResult& c) {
 
 void WriteCoupling(PatternFileWriter& w, const CouplingResult& c, const std::vector<Port>& ports,
                    const PatternResult& result) {
+  namespace s = schema;
   const std::size_t n = ports.size();
-  w.WriteTable("/power/impedance_ohm", {n, n}, c.impedance_ohm.data(), "ohm");
+  auto table = [&](const s::Dataset& d, std::vector<std::size_t> dims, const auto* data) {
+    w.WriteTable(std::string(d.path), dims, data, d.units);
+  };
   // Eigen is column-major; Z is symmetric, so the row-major file layout is the same.
-  w.WriteTable("/power/active_impedance_ohm", {n}, c.circuit.input_impedance_ohm.data(), "ohm");
+  table(s::kImpedance, {n, n}, c.impedance_ohm.data());
+  table(s::kActiveImpedance, {n}, c.circuit.input_impedance_ohm.data());
 
   const RealizedGainReference ref = RealizedGainReferenceOf(c);
   const Eigen::VectorXd gain = result.directivity * (c.radiated_w / ref.power_w);
-  w.WriteTable("/pattern/realized_gain", {result.grid.theta_deg.size(), result.grid.phi_deg.size()},
-               gain.data(), "1");
-  w.WriteStringAttribute("/pattern", "realized_gain_definition", ref.definition);
+  table(s::kRealizedGain, {result.grid.theta_deg.size(), result.grid.phi_deg.size()}, gain.data());
+  w.WriteStringAttribute(std::string(s::kPatternGroup),
+                         std::string(s::kRealizedGainDefinitionAttribute), ref.definition);
 
-  const std::string g = "/coupling";
-  w.WriteAttribute(g, "reference_impedance_ohm", c.reference_impedance_ohm);
-  w.WriteAttribute(g, "supplied_w", c.supplied_w);
-  w.WriteAttribute(g, "accepted_w", c.accepted_w);
-  w.WriteAttribute(g, "radiated_w", c.radiated_w);
-  w.WriteAttribute(g, "ohmic_w", c.ohmic_w);
-  w.WriteAttribute(g, "port_loss_w", c.port_loss_w);
-  w.WriteAttribute(g, "available_w", c.available_w);
-  w.WriteAttribute(g, "efficiency", c.efficiency);
+  const double totals[] = {c.reference_impedance_ohm,
+                           c.supplied_w,
+                           c.accepted_w,
+                           c.radiated_w,
+                           c.ohmic_w,
+                           c.port_loss_w,
+                           c.available_w,
+                           c.efficiency};
+  static_assert(std::size(totals) == std::size(s::kCouplingPowerAttributes));
+  for (std::size_t a = 0; a < std::size(totals); ++a) {
+    w.WriteAttribute(std::string(s::kCouplingGroup), std::string(s::kCouplingPowerAttributes[a]),
+                     totals[a]);
+  }
   std::vector<std::string> kinds;
   Eigen::VectorXcd source(static_cast<Eigen::Index>(n)), port_z(static_cast<Eigen::Index>(n));
   for (std::size_t m = 0; m < n; ++m) {
@@ -46,16 +57,16 @@ void WriteCoupling(PatternFileWriter& w, const CouplingResult& c, const std::vec
     source[e] = ports[m].kind == PortKind::kDrive ? ports[m].voltage_v : Complex(0.0);
     port_z[e] = ports[m].kind == PortKind::kCurrent ? Complex(0.0) : ports[m].impedance_ohm;
   }
-  w.WriteStrings(g + "/port_kind", kinds, "1");
-  w.WriteTable(g + "/source_voltage_v", {n}, source.data(), "V");
-  w.WriteTable(g + "/port_impedance_ohm", {n}, port_z.data(), "ohm");
-  w.WriteTable(g + "/terminal_voltage_v", {n}, c.circuit.terminal_voltage_v.data(), "V");
-  w.WriteTable(g + "/self_reactance_ohm", {n}, c.self_reactance_ohm.data(), "ohm");
-  w.WriteTable(g + "/loss_resistance_ohm", {n}, c.loss_resistance_ohm.data(), "ohm");
-  w.WriteTable(g + "/reflection", {n}, c.reflection.data(), "1");
-  w.WriteTable(g + "/vswr", {n}, c.vswr.data(), "1");
-  w.WriteTable(g + "/accepted_w", {n}, c.circuit.accepted_w.data(), "W");
-  w.WriteTable(g + "/supplied_w", {n}, c.circuit.supplied_w.data(), "W");
+  w.WriteStrings(std::string(s::kPortKind.path), kinds, s::kPortKind.units);
+  table(s::kSourceVoltage, {n}, source.data());
+  table(s::kPortImpedance, {n}, port_z.data());
+  table(s::kTerminalVoltage, {n}, c.circuit.terminal_voltage_v.data());
+  table(s::kSelfReactance, {n}, c.self_reactance_ohm.data());
+  table(s::kLossResistance, {n}, c.loss_resistance_ohm.data());
+  table(s::kReflection, {n}, c.reflection.data());
+  table(s::kVswr, {n}, c.vswr.data());
+  table(s::kElementAccepted, {n}, c.circuit.accepted_w.data());
+  table(s::kElementSupplied, {n}, c.circuit.supplied_w.data());
 }
 
 }  // namespace lobecast

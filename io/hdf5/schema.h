@@ -98,6 +98,31 @@ inline constexpr Dataset kResistance{"/power/resistance_ohm", "ohm"};  // (N, N)
 inline constexpr Dataset kActiveResistance{"/power/active_resistance_ohm", "ohm"};
 inline constexpr std::string_view kResistanceOmittedAttribute = "resistance_ohm_omitted";
 
+// A coupled array (driven or loaded dipoles, wires): io/hdf5/coupling_writer.h.
+inline constexpr Dataset kImpedance{"/power/impedance_ohm", "ohm"};               // (N, N) complex
+inline constexpr Dataset kActiveImpedance{"/power/active_impedance_ohm", "ohm"};  // complex
+inline constexpr Dataset kRealizedGain{"/pattern/realized_gain", "1"};            // (Nt, Np)
+inline constexpr std::string_view kRealizedGainDefinitionAttribute = "realized_gain_definition";
+inline constexpr std::string_view kCouplingGroup = "/coupling";
+inline constexpr std::string_view kCouplingPowerAttributes[] = {"reference_impedance_ohm",
+                                                                "supplied_w",
+                                                                "accepted_w",
+                                                                "radiated_w",
+                                                                "ohmic_w",
+                                                                "port_loss_w",
+                                                                "available_w",
+                                                                "efficiency"};
+inline constexpr Dataset kPortKind{"/coupling/port_kind", "1"};  // strings
+inline constexpr Dataset kSourceVoltage{"/coupling/source_voltage_v", "V"};
+inline constexpr Dataset kPortImpedance{"/coupling/port_impedance_ohm", "ohm"};
+inline constexpr Dataset kTerminalVoltage{"/coupling/terminal_voltage_v", "V"};
+inline constexpr Dataset kSelfReactance{"/coupling/self_reactance_ohm", "ohm"};
+inline constexpr Dataset kLossResistance{"/coupling/loss_resistance_ohm", "ohm"};
+inline constexpr Dataset kReflection{"/coupling/reflection", "1"};  // complex
+inline constexpr Dataset kVswr{"/coupling/vswr", "1"};
+inline constexpr Dataset kElementAccepted{"/coupling/accepted_w", "W"};
+inline constexpr Dataset kElementSupplied{"/coupling/supplied_w", "W"};
+
 // ---- Fields of the walks ----------------------------------------------------------
 
 enum class Extra {
