@@ -56,7 +56,8 @@ TEST(ScanImpedance, TwoElementsByHand) {
   Eigen::MatrixXcd z = ImpedanceMatrix(a, xs);
   const Eigen::VectorXcd amp = Eigen::VectorXcd::Ones(2);
   const std::vector<double> th = {0.5 * kPi, 0.5 * kPi, 0.5 * kPi}, ph = {0.0, 0.5 * kPi, 2.0};
-  const ScanImpedanceTable t = ScanImpedance(a, z, amp, th, ph, 50);
+  const ScanImpedanceTable t =
+      ScanImpedance(a, z, amp, th, ph, Eigen::VectorXcd::Constant(a.size(), 50.0));
   for (int s = 0; s < 3; ++s) {
     const double kx = 2 * kPi * 0.3 * std::cos(ph[s]);  // k r_hat0 . (r1 - r0)
     const Complex z0 = z(0, 0) + z(0, 1) * std::polar(1.0, -kx);
@@ -77,7 +78,8 @@ TEST(ScanImpedance, MirrorSymmetryAndPower) {
   z.diagonal().array() += 0.2;  // a loss resistance
   const Eigen::VectorXcd amp = Eigen::VectorXd::LinSpaced(7, 1, 1).cast<Complex>();
   const std::vector<double> th = {0.5 * kPi - 0.4, 0.5 * kPi - 0.4}, ph = {0.0, kPi};
-  const ScanImpedanceTable t = ScanImpedance(a, z, amp, th, ph, 50);
+  const ScanImpedanceTable t =
+      ScanImpedance(a, z, amp, th, ph, Eigen::VectorXcd::Constant(a.size(), 50.0));
   for (int m = 0; m < 7; ++m) {
     EXPECT_LT(std::abs(t.active_impedance_ohm(0, m) - t.active_impedance_ohm(1, 6 - m)),
               1e-11 * std::abs(t.active_impedance_ohm(0, m)))
@@ -88,6 +90,27 @@ TEST(ScanImpedance, MirrorSymmetryAndPower) {
     for (int m = 0; m < 7; ++m)
       sum += 0.5 * std::norm(amp[m]) * t.active_impedance_ohm(s, m).real();
     EXPECT_NEAR(sum, t.accepted_w[s], 1e-11 * t.accepted_w[s]);
+  }
+}
+
+TEST(ScanImpedance, ConjugateMatchAtTheFirstAngle) {
+  // Z_r = conj(Z_act) at the first scan angle: Gamma = 0 there (Kurokawa 1965), and
+  // |Gamma| <= 1 elsewhere for a passive element (Re Z > 0).
+  const Array a = Line(5, 0.5);
+  const Eigen::MatrixXcd z = ImpedanceMatrix(a, Eigen::VectorXd::Constant(5, -1300.0));
+  const Eigen::VectorXcd amp = Eigen::VectorXcd::Ones(5);
+  const std::vector<double> th = {0.5 * kPi, 0.5 * kPi - 0.5, 0.5 * kPi - 1.0},
+                            ph = {0.0, 0.0, 0.0};
+  const Eigen::VectorXcd zr =
+      ScanImpedance(a, z, amp, {th[0]}, {ph[0]}, Eigen::VectorXcd::Constant(5, 50.0))
+          .active_impedance_ohm.row(0)
+          .transpose()
+          .conjugate();  // a source conjugate-matched at the first angle
+  const ScanImpedanceTable t = ScanImpedance(a, z, amp, th, ph, zr);
+  for (int m = 0; m < 5; ++m) {
+    EXPECT_LT(std::abs(t.reflection(0, m)), 1e-12) << m;
+    EXPECT_GT(std::abs(t.reflection(2, m)), 1e-3) << m;  // scanning detunes
+    EXPECT_LE(std::abs(t.reflection(2, m)), 1.0) << m;
   }
 }
 

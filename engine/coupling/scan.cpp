@@ -11,20 +11,21 @@
 
 namespace lobecast {
 
+Complex PowerWaveReflection(Complex z, Complex reference) {
+  return (z - std::conj(reference)) / (z + reference);
+}
+
 ScanImpedanceTable ScanImpedance(const Array& array, const Eigen::MatrixXcd& z,
                                  const Eigen::VectorXcd& amplitudes,
                                  const std::vector<double>& theta_rad,
-                                 const std::vector<double>& phi_rad, double z0) {
+                                 const std::vector<double>& phi_rad,
+                                 const Eigen::VectorXcd& reference) {
   const auto n = static_cast<Eigen::Index>(array.size());
   LOBECAST_CHECK_EQ(z.rows(), n);
   LOBECAST_CHECK_EQ(z.cols(), n);
   LOBECAST_CHECK_EQ(amplitudes.size(), n);
   LOBECAST_CHECK_EQ(theta_rad.size(), phi_rad.size());
-  if (!std::isfinite(z0) || z0 <= 0) {
-    std::ostringstream s;
-    s << "reference impedance: found " << z0 << " ohm, expected a finite number > 0";
-    throw InvalidArgument(s.str());
-  }
+  LOBECAST_CHECK_EQ(reference.size(), n);
   const auto ns = static_cast<Eigen::Index>(theta_rad.size());
   ScanImpedanceTable t;
   t.theta_rad = theta_rad;
@@ -39,7 +40,8 @@ ScanImpedanceTable ScanImpedance(const Array& array, const Eigen::MatrixXcd& z,
         amplitudes.cwiseProduct(SteeringPhasors(array, theta_rad[si], phi_rad[si]));
     const Eigen::VectorXcd zact = ActiveImpedance(z, i);
     t.active_impedance_ohm.row(s) = zact.transpose();
-    t.reflection.row(s) = ((zact.array() - z0) / (zact.array() + z0)).matrix().transpose();
+    for (Eigen::Index m = 0; m < n; ++m)
+      t.reflection(s, m) = PowerWaveReflection(zact[m], reference[m]);
     const Eigen::VectorXd a = i.real(), b = i.imag();
     t.accepted_w[s] = 0.5 * (a.dot(r * a) + b.dot(r * b));
   }
