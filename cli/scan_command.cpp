@@ -50,7 +50,6 @@ void RunScan(const ScanArgs& args) {
   const CouplingResult ref = [&] {
     CouplingOptions o;
     o.reference_impedance_ohm = desc.reference_impedance_ohm;
-    // A wire given on no element still asks for the matrix: force it.
     return SolveCoupling(desc.array, ports, wires, o);
   }();
   for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size(); ++m) {
