@@ -54,10 +54,11 @@ void RunScan(const ScanArgs& args) {
   }();
   for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size(); ++m) {
     if (std::isnan(ref.self_reactance_ohm[m])) {
-      throw InputError(desc.dipole_locations[static_cast<std::size_t>(m)],
-                       "dipole[" + std::to_string(m) + "]", "no self reactance",
-                       "radius = <wire radius> (triangular current) or reactance = <ohm> on every "
-                       "dipole: the scan impedance is each element's input impedance");
+      throw InputError(
+          desc.dipole_locations[static_cast<std::size_t>(m)], "dipole[" + std::to_string(m) + "]",
+          "no self reactance",
+          "radius = <wire radius> (triangular current) or self_reactance = <ohm> on every "
+          "dipole: the scan impedance is each element's input impedance");
     }
   }
   // The taper: the magnitudes of the currents the file gives (or its circuit

@@ -269,7 +269,7 @@ TEST(ArrayReader, MessageFormat) {
       "arr.toml");
   EXPECT_EQ(m,
             "arr.toml:9:1: key 'dipole[1].postion': found unknown key, expected one of position, "
-            "orientation, length, distribution, current, drive, load, radius, reactance, "
+            "orientation, length, distribution, current, drive, load, radius, self_reactance, "
             "conductivity (did you mean 'position'?)");
   EXPECT_EQ(ErrorOf("frequency = \"433.92 mHz\"\n", "arr.toml"),
             "arr.toml:1:13: key 'frequency': found string \"433.92 mHz\", expected a number "

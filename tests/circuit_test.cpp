@@ -142,7 +142,10 @@ TEST(Circuit, Refusals) {
   EXPECT_THROW(SolveCircuit(z, open), InvalidArgument);
   Eigen::MatrixXcd bad = z;
   bad(0, 0) = Complex(1.0, std::nan(""));
-  EXPECT_THROW(SolveCircuit(bad, std::vector<Port>(2)), InvalidArgument);
+  std::vector<Port> driven(2);
+  driven[0] = {PortKind::kDrive, 0.0, 1.0, 50.0};
+  EXPECT_THROW(SolveCircuit(bad, driven), InvalidArgument);  // the NaN is in a solved row
+  EXPECT_NO_THROW(SolveCircuit(bad, std::vector<Port>(2)));  // forced currents only
 }
 
 }  // namespace

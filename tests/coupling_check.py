@@ -131,8 +131,13 @@ def main():
         e = float(np.max(np.abs(rloss - r_ref)) / r_ref)
         check(e < 1e-12, f"loss resistance {rloss[0]:.6g} vs skin-effect formula: rel err {e:.1e}")
 
+        # Re Z is the radiation resistance exactly (CONVENTIONS §1): compare with
+        # the stored resistance matrix; the circuit adds the loss resistances.
+        r_mat = f["/power/resistance_ohm"][...]
+        e = float(np.max(np.abs(z.real - r_mat)) / np.max(np.abs(r_mat)))
+        check(e < 1e-15, f"Re Z equals /power/resistance_ohm to rounding: rel diff {e:.1e}")
         # Port equations: rows of drive/load ports, forced currents elsewhere.
-        a_mat = z.astype(complex).copy()
+        a_mat = z.astype(complex).copy() + np.diag(rloss)
         b = np.zeros(n, complex)
         for m in range(n):
             if kinds[m] == "current":
@@ -155,6 +160,12 @@ def main():
               f"energy: supplied {supplied:.12g} W = radiated + ohmic + ports "
               f"{p_rad + ohmic + port:.12g} W")
         check(abs(g.attrs["supplied_w"] - supplied) < 1e-10 * supplied, "stored supplied_w")
+        loads = 0.5 * np.sum(np.where(np.array(kinds) == "load", zp.real, 0) * np.abs(cur) ** 2)
+        accepted = p_rad + ohmic + loads
+        check(abs(g.attrs["accepted_w"] - accepted) < 1e-10 * accepted,
+              "accepted_w = radiated + ohmic + parasitic loads")
+        check(abs(g.attrs["efficiency"] - p_rad / accepted) < 1e-12,
+              "efficiency = radiated / accepted (IEEE Std 145-2013)")
         drive = np.array(kinds) == "drive"
         p_avail = np.sum(np.abs(vs[drive]) ** 2 / (8 * zp[drive].real))
         d = f["/pattern/directivity"][...]

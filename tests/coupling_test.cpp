@@ -66,8 +66,10 @@ TEST(Coupling, PowerBalanceOfAMixedArray) {
       ports[m].impedance_ohm = Complex(rng.Uniform(1, 75), rng.Uniform(-100, 3000));
     }
     const CouplingResult r = SolveCoupling(a, ports, wires);
-    EXPECT_NEAR(r.supplied_w, r.radiated_w + r.ohmic_w + r.port_loss_w, 1e-10 * r.supplied_w);
-    EXPECT_NEAR(r.circuit.accepted_w.sum(), r.accepted_w, 1e-10 * r.accepted_w);
+    EXPECT_NEAR(r.supplied_w, r.radiated_w + r.ohmic_w + r.load_loss_w + r.source_loss_w,
+                1e-10 * r.supplied_w);
+    // Accepted at the fed ports: radiated + ohmic + in the parasitic loads.
+    EXPECT_NEAR(r.accepted_w, r.radiated_w + r.ohmic_w + r.load_loss_w, 1e-10 * r.accepted_w);
     EXPECT_GT(r.efficiency, 0);
     EXPECT_LT(r.efficiency, 1);
     EXPECT_EQ(r.available_w, 0);  // current-forced ports: no available power
@@ -123,6 +125,72 @@ TEST(Coupling, ClosePairsAndSizeLimit) {
   CouplingOptions small;
   small.max_dipoles = 3;
   EXPECT_THROW(SolveCoupling(a, ports, std::vector<Wire>(4), small), InvalidArgument);
+}
+
+}  // namespace
+}  // namespace lobecast
+
+namespace lobecast {
+namespace {
+
+TEST(Coupling, LossesInParasiticLoadsLowerTheEfficiency) {
+  // IEEE Std 145-2013: radiation efficiency against the net power the antenna accepts
+  // from its sources, so power burnt in a parasite's resistive load counts as loss.
+  Array a;
+  a.frequency_hz = kSpeedOfLight_m_s;  // lambda = 1 m
+  a.dipoles = {
+      testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular),
+      testing::MakeDipole(Vec3(0.1, 0, 0), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular)};
+  std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0},
+                             {PortKind::kLoad, 0.0, 0.0, Complex(50.0, 1400.0)}};
+  std::vector<Wire> wires(2);
+  for (Wire& w : wires) w.radius_m = 1e-3, w.conductivity_s_m = 5.8e7;
+  const CouplingResult r = SolveCoupling(a, ports, wires);
+  EXPECT_GT(r.load_loss_w, 0);
+  EXPECT_NEAR(r.efficiency, r.radiated_w / (r.radiated_w + r.ohmic_w + r.load_loss_w), 1e-12);
+  EXPECT_LT(r.efficiency, r.radiated_w / (r.radiated_w + r.ohmic_w));
+  // A load has no feed: no reflection, no VSWR.
+  EXPECT_TRUE(std::isnan(std::abs(r.reflection[1])));
+  EXPECT_TRUE(std::isnan(r.vswr[1]));
+  EXPECT_FALSE(std::isnan(r.vswr[0]));
+}
+
+TEST(Coupling, OwnImageDoublesTheResistanceOfALowVerticalDipole) {
+  // A vertical short dipole at h -> 0 over PEC has twice its free-space radiation
+  // resistance (Balanis 4th ed. sec. 4.7.2, from memory): the own-image term of Z.
+  const double h = 1e-5;  // wavelengths
+  Array a;
+  a.frequency_hz = kSpeedOfLight_m_s;
+  a.ground = Ground::kPec;
+  a.dipoles = {
+      testing::MakeDipole(Vec3(0, 0, h), Vec3::UnitZ(), 1e-3, 0.0, Distribution::kTriangular)};
+  std::vector<Wire> wires(1);
+  wires[0].reactance_ohm = -5000;  // given: no wire formula at this length
+  const CouplingResult r = SolveCoupling(a, {{PortKind::kDrive, 0.0, 1.0, 50.0}}, wires);
+  Array free = a;
+  free.ground = Ground::kNone;
+  const double r_free = 2 * kPi / 3 * kEta0_ohm * std::pow(0.5e-3, 2);  // Le = l/2
+  EXPECT_NEAR(r.circuit.input_impedance_ohm[0].real(), 2 * r_free, 1e-6 * r_free);
+  // ... and the closeness caution sees the image 2h away.
+  EXPECT_EQ(r.close_pairs.count, 1u);
+  EXPECT_EQ(r.close_pairs.first[0], std::make_pair(std::size_t{0}, std::size_t{0}));
+}
+
+TEST(Coupling, CoincidentDipolesAreNamed) {
+  Array a;
+  a.frequency_hz = kSpeedOfLight_m_s;
+  a.dipoles = {
+      testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular),
+      testing::MakeDipole(Vec3::Zero(), Vec3(0, 1, 1), 0.05, 0.0, Distribution::kTriangular)};
+  std::vector<Wire> wires(2);
+  for (Wire& w : wires) w.radius_m = 1e-3;
+  try {
+    SolveCoupling(a, {{PortKind::kDrive, 0.0, 1.0, 50.0}, {PortKind::kLoad, 0.0, 0.0, 0.0}}, wires);
+    ADD_FAILURE() << "expected a refusal";
+  } catch (const InvalidArgument& e) {
+    EXPECT_NE(std::string(e.what()).find("dipoles 0 and 1 share a point"), std::string::npos)
+        << e.what();
+  }
 }
 
 }  // namespace

@@ -8,6 +8,7 @@
 #include "engine/check.h"
 #include "engine/coupling/self_impedance.h"
 #include "engine/error.h"
+#include "engine/ground.h"
 #include "engine/power/impedance.h"
 #include "engine/power/radiated_power.h"
 
@@ -36,9 +37,22 @@ ClosePairs FindClosePairs(const Array& array) {
   ClosePairs out;
   out.closest_ratio = std::numeric_limits<double>::infinity();
   const std::size_t n = array.size();
+  const bool pec = array.ground == Ground::kPec;
   for (std::size_t m = 0; m < n; ++m) {
     const Dipole& a = array.dipoles[m];
-    for (std::size_t q = m + 1; q < n; ++q) {
+    // Over PEC each dipole also couples to every image, its own at twice its height.
+    for (std::size_t q = pec ? m : m + 1; q < n; ++q) {
+      if (pec) {
+        const Dipole image = ImageOf(array.dipoles[q]);
+        const double ratio =
+            (a.position_m - image.position_m).norm() / std::max(a.length_m, image.length_m);
+        if (ratio < 1) {
+          ++out.count;
+          if (out.first.size() < 8) out.first.emplace_back(m, q);
+          out.closest_ratio = std::min(out.closest_ratio, ratio);
+        }
+      }
+      if (q == m) continue;
       const Dipole& b = array.dipoles[q];
       // Crossed dipoles sharing a centre (a turnstile) do not couple at all.
       const double dist = (a.position_m - b.position_m).norm();
@@ -52,6 +66,27 @@ ClosePairs FindClosePairs(const Array& array) {
   }
   if (out.count == 0) out.closest_ratio = 0;
   return out;
+}
+
+// Dipoles at one point that are not orthogonal have no finite mutual reactance in
+// the point-dipole model (impedance.h): refuse when either one's current must be
+// solved for; two current-forced ones only lose their terminal voltages.
+void CheckCoincident(const Array& array, const std::vector<Port>& ports) {
+  for (std::size_t m = 0; m < array.size(); ++m) {
+    for (std::size_t q = m + 1; q < array.size(); ++q) {
+      const Dipole& a = array.dipoles[m];
+      const Dipole& b = array.dipoles[q];
+      if (a.position_m != b.position_m || std::abs(a.orientation.dot(b.orientation)) <= 1e-12)
+        continue;
+      if (ports[m].kind == PortKind::kCurrent && ports[q].kind == PortKind::kCurrent) continue;
+      std::ostringstream s;
+      s << "dipoles " << m << " and " << q
+        << " share a point and are not orthogonal: the point-dipole model gives them no "
+           "finite mutual reactance, so the circuit cannot be solved; expected them apart "
+           "(several lengths) or crossed at right angles";
+      throw InvalidArgument(s.str());
+    }
+  }
 }
 
 CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
@@ -99,8 +134,8 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
     }
     if (ports[m].kind != PortKind::kCurrent && std::isnan(r.self_reactance_ohm[e])) {
       Fail(m, std::string(ToString(ports[m].kind)) +
-                  " needs the self reactance: give the wire radius (triangular current) or a "
-                  "reactance" +
+                  " needs the self reactance: give the wire radius (triangular current) or "
+                  "self_reactance" +
                   (d.distribution == Distribution::kUniform
                        ? " (a uniform current's reactance depends on its end loading)"
                        : ""));
@@ -113,15 +148,20 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
   Eigen::VectorXd xs = r.self_reactance_ohm;
   for (Eigen::Index e = 0; e < xs.size(); ++e)
     if (std::isnan(xs[e])) xs[e] = 0;
+  CheckCoincident(array, ports);
   Eigen::MatrixXcd z = ImpedanceMatrix(array, xs, options.num_threads);
-  z.diagonal().real() += r.loss_resistance_ohm;
-  r.circuit = SolveCircuit(z, ports);
+  Eigen::MatrixXcd z_loss = z;
+  z_loss.diagonal().real() += r.loss_resistance_ohm;
+  r.circuit = SolveCircuit(z_loss, ports);
+  const double nan = std::numeric_limits<double>::quiet_NaN();
+  r.active_impedance_ohm = r.circuit.input_impedance_ohm;
+  r.active_impedance_ohm.real() -= r.loss_resistance_ohm;
   for (Eigen::Index e = 0; e < xs.size(); ++e) {
     if (!std::isnan(r.self_reactance_ohm[e])) continue;
-    z(e, e) = Complex(z(e, e).real(), std::numeric_limits<double>::quiet_NaN());
-    const double nan = std::numeric_limits<double>::quiet_NaN();
+    z(e, e) = Complex(z(e, e).real(), nan);
     r.circuit.terminal_voltage_v[e] = Complex(nan, nan);
     r.circuit.input_impedance_ohm[e] = Complex(nan, nan);
+    r.active_impedance_ohm[e] = Complex(nan, nan);
     // Accepted power needs only Re V I*, which X_mm does not change.
   }
   r.impedance_ohm = std::move(z);
@@ -131,6 +171,11 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
   r.reflection.resize(ne);
   r.vswr.resize(ne);
   for (Eigen::Index e = 0; e < ne; ++e) {
+    if (ports[static_cast<std::size_t>(e)].kind == PortKind::kLoad) {  // no feed
+      r.reflection[e] = Complex(nan, nan);
+      r.vswr[e] = nan;
+      continue;
+    }
     const Complex zin = r.circuit.input_impedance_ohm[e];
     const Complex g = (zin - z0) / (zin + z0);
     r.reflection[e] = g;
@@ -140,9 +185,16 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
   }
   r.radiated_w = RadiatedPower(ResistanceMatrix(array), i);
   r.ohmic_w = 0.5 * (r.loss_resistance_ohm.array() * i.cwiseAbs2().array()).sum();
-  r.accepted_w = r.radiated_w + r.ohmic_w;
   r.supplied_w = r.circuit.supplied_w.sum();
-  r.port_loss_w = r.circuit.port_loss_w.sum();
+  for (std::size_t m = 0; m < n; ++m) {
+    const auto e = static_cast<Eigen::Index>(m);
+    if (ports[m].kind == PortKind::kLoad) {
+      r.load_loss_w += r.circuit.port_loss_w[e];
+    } else {
+      r.source_loss_w += r.circuit.port_loss_w[e];
+      r.accepted_w += r.circuit.accepted_w[e];  // 1/2 Re(V I*) at the fed terminals
+    }
+  }
   r.efficiency = r.accepted_w > 0 ? r.radiated_w / r.accepted_w : 0;
   bool all_sources = true, any_drive = false;
   double available = 0;

@@ -5,12 +5,14 @@
 // Per element: Z_in = V / I (the active impedance, self reactance and loss
 // included), the reflection coefficient against a real reference impedance Z0,
 // Gamma = (Z_in - Z0) / (Z_in + Z0), and VSWR = (1 + |Gamma|) / (1 - |Gamma|)
-// (IEEE Std 145-2013 terms). For the array: the power supplied by the sources,
-// accepted at the terminals, radiated (closed form) and lost in the wires, the
-// radiation efficiency e = P_rad / P_accepted, so that gain = e D (IEEE Std
-// 145-2013: gain referred to the accepted power); and, when every driven port is a
-// voltage source with a resistive part, the available power sum |V_s|^2 / (8 R_s)
-// and realized gain = 4 pi U / P_available (mismatch included).
+// (IEEE Std 145-2013 terms). For the array: the power supplied by the sources; the
+// power the antenna accepts from them (at the driven and current-forced ports:
+// radiated + lost in the wires + lost in the loads of parasitic elements, which
+// belong to the antenna); the radiation efficiency e = P_rad / P_accepted, so that
+// gain = e D (IEEE Std 145-2013: gain referred to the net accepted power); and,
+// when every driven port is a voltage source with a resistive part, the available
+// power sum |V_s|^2 / (8 R_s) and realized gain = 4 pi U / P_available (mismatch
+// included). Reflection and VSWR describe a feed: NaN for loaded elements.
 #pragma once
 
 #include <cstddef>
@@ -45,7 +47,8 @@ struct CouplingOptions {
 
 // Pairs of dipoles closer than their longer length: the point-dipole mutual
 // impedance assumes each sees the other as a point, which holds for separations
-// of several lengths (common practice) and fails when they are comparable.
+// of several lengths (common practice) and fails when they are comparable. Over
+// PEC a dipole and an image count too ((m, m): m's own image, at twice its height).
 struct ClosePairs {
   std::size_t count = 0;                                   // all such pairs
   std::vector<std::pair<std::size_t, std::size_t>> first;  // up to 8 of them, (m, n), m < n
@@ -54,22 +57,26 @@ struct ClosePairs {
 ClosePairs FindClosePairs(const Array& array);
 
 struct CouplingResult {
-  Eigen::MatrixXcd impedance_ohm;      // Z, self reactance and loss resistance on the diagonal
+  // Z (CONVENTIONS §1: Re Z = R exactly), self reactances on the diagonal (NaN
+  // where unknown); the loss resistances are apart, the circuit adds them.
+  Eigen::MatrixXcd impedance_ohm;
   Eigen::VectorXd self_reactance_ohm;  // X_self per dipole (NaN where unknown)
   Eigen::VectorXd loss_resistance_ohm;
   Eigen::VectorXd skin_depth_m;  // 0 where lossless
-  CircuitSolution circuit;       // currents, voltages, input impedances, powers
-  Eigen::VectorXcd reflection;   // Gamma against Z0 (NaN where I = 0)
+  CircuitSolution circuit;       // currents, voltages, input impedances V/I (loss included)
+  Eigen::VectorXcd active_impedance_ohm;  // sum_n Z_mn I_n / I_m (CONVENTIONS §1, no loss)
+  Eigen::VectorXcd reflection;            // Gamma against Z0 (NaN where I = 0)
   Eigen::VectorXd vswr;
   double reference_impedance_ohm = 50;
-  double supplied_w = 0;   // by all sources (drive and current ports)
-  double accepted_w = 0;   // at the terminals: radiated + ohmic
-  double radiated_w = 0;   // 1/2 I^H R I
-  double ohmic_w = 0;      // in the wires
-  double port_loss_w = 0;  // in source and load impedances
-  double available_w = 0;  // sum |V_s|^2 / (8 R_s); 0 when not defined
-  double efficiency = 1;   // radiated / accepted
-  ClosePairs close_pairs;  // where the coupling model is stretched
+  double supplied_w = 0;     // by all sources (drive and current ports)
+  double accepted_w = 0;     // from the sources: radiated + ohmic + load_loss
+  double radiated_w = 0;     // 1/2 I^H R I
+  double ohmic_w = 0;        // in the wires
+  double load_loss_w = 0;    // in the loads of parasitic elements
+  double source_loss_w = 0;  // in the sources' own impedances
+  double available_w = 0;    // sum |V_s|^2 / (8 R_s); 0 when not defined
+  double efficiency = 1;     // radiated / accepted
+  ClosePairs close_pairs;    // where the coupling model is stretched
 };
 
 // True when the array needs a circuit solve: any port that is not a current

@@ -15,8 +15,9 @@ RealizedGainReference RealizedGainReferenceOf(const CouplingResult& c) {
             "sources (realized gain: mismatch, port and ohmic losses included)"};
   }
   return {c.accepted_w,
-          "4 pi U / P_accepted (current-forced ports have no available power: this is the "
-          "gain, ohmic loss included, IEEE Std 145-2013)"};
+          "4 pi U / P_accepted, P_accepted the net power the antenna accepts from its sources "
+          "(ohmic and parasitic-load losses included; IEEE Std 145-2013 gain: current-forced "
+          "ports have no available power, so no realized gain)"};
 }
 
 void WriteCoupling(PatternFileWriter& w, const CouplingResult& c, const std::vector<Port>& ports,
@@ -28,20 +29,23 @@ void WriteCoupling(PatternFileWriter& w, const CouplingResult& c, const std::vec
   };
   // Eigen is column-major; Z is symmetric, so the row-major file layout is the same.
   table(s::kImpedance, {n, n}, c.impedance_ohm.data());
-  table(s::kActiveImpedance, {n}, c.circuit.input_impedance_ohm.data());
+  table(s::kActiveImpedance, {n}, c.active_impedance_ohm.data());
 
+  // Realized gain where the sources have an available power, else the gain.
   const RealizedGainReference ref = RealizedGainReferenceOf(c);
   const Eigen::VectorXd gain = result.directivity * (c.radiated_w / ref.power_w);
-  table(s::kRealizedGain, {result.grid.theta_deg.size(), result.grid.phi_deg.size()}, gain.data());
-  w.WriteStringAttribute(std::string(s::kPatternGroup),
-                         std::string(s::kRealizedGainDefinitionAttribute), ref.definition);
+  table(c.available_w > 0 ? s::kRealizedGain : s::kGain,
+        {result.grid.theta_deg.size(), result.grid.phi_deg.size()}, gain.data());
+  w.WriteStringAttribute(std::string(s::kPatternGroup), std::string(s::kGainDefinitionAttribute),
+                         ref.definition);
 
   const double totals[] = {c.reference_impedance_ohm,
                            c.supplied_w,
                            c.accepted_w,
                            c.radiated_w,
                            c.ohmic_w,
-                           c.port_loss_w,
+                           c.load_loss_w,
+                           c.source_loss_w,
                            c.available_w,
                            c.efficiency};
   static_assert(std::size(totals) == std::size(s::kCouplingPowerAttributes));
@@ -61,6 +65,7 @@ void WriteCoupling(PatternFileWriter& w, const CouplingResult& c, const std::vec
   table(s::kSourceVoltage, {n}, source.data());
   table(s::kPortImpedance, {n}, port_z.data());
   table(s::kTerminalVoltage, {n}, c.circuit.terminal_voltage_v.data());
+  table(s::kInputImpedance, {n}, c.circuit.input_impedance_ohm.data());
   table(s::kSelfReactance, {n}, c.self_reactance_ohm.data());
   table(s::kLossResistance, {n}, c.loss_resistance_ohm.data());
   table(s::kReflection, {n}, c.reflection.data());

@@ -102,20 +102,17 @@ inline constexpr std::string_view kResistanceOmittedAttribute = "resistance_ohm_
 inline constexpr Dataset kImpedance{"/power/impedance_ohm", "ohm"};               // (N, N) complex
 inline constexpr Dataset kActiveImpedance{"/power/active_impedance_ohm", "ohm"};  // complex
 inline constexpr Dataset kRealizedGain{"/pattern/realized_gain", "1"};            // (Nt, Np)
-inline constexpr std::string_view kRealizedGainDefinitionAttribute = "realized_gain_definition";
+inline constexpr Dataset kGain{"/pattern/gain", "1"};                             // (Nt, Np)
+inline constexpr std::string_view kGainDefinitionAttribute = "gain_definition";
 inline constexpr std::string_view kCouplingGroup = "/coupling";
-inline constexpr std::string_view kCouplingPowerAttributes[] = {"reference_impedance_ohm",
-                                                                "supplied_w",
-                                                                "accepted_w",
-                                                                "radiated_w",
-                                                                "ohmic_w",
-                                                                "port_loss_w",
-                                                                "available_w",
-                                                                "efficiency"};
+inline constexpr std::string_view kCouplingPowerAttributes[] = {
+    "reference_impedance_ohm", "supplied_w",  "accepted_w", "radiated_w", "ohmic_w", "load_loss_w",
+    "source_loss_w",           "available_w", "efficiency"};
 inline constexpr Dataset kPortKind{"/coupling/port_kind", "1"};  // strings
 inline constexpr Dataset kSourceVoltage{"/coupling/source_voltage_v", "V"};
 inline constexpr Dataset kPortImpedance{"/coupling/port_impedance_ohm", "ohm"};
 inline constexpr Dataset kTerminalVoltage{"/coupling/terminal_voltage_v", "V"};
+inline constexpr Dataset kInputImpedance{"/coupling/input_impedance_ohm", "ohm"};  // V / I
 inline constexpr Dataset kSelfReactance{"/coupling/self_reactance_ohm", "ohm"};
 inline constexpr Dataset kLossResistance{"/coupling/loss_resistance_ohm", "ohm"};
 inline constexpr Dataset kReflection{"/coupling/reflection", "1"};  // complex

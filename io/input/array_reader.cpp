@@ -364,7 +364,7 @@ class Reader {
       if (!t) throw InputError(At(e), key, Describe(e), "a table ([[dipole]])");
       CheckKeys(*t, key,
                 {"position", "orientation", "length", "distribution", "current", "drive", "load",
-                 "radius", "reactance", "conductivity"});
+                 "radius", "self_reactance", "conductivity"});
       auto require = [&](std::string_view name, std::string_view example) -> const toml::node& {
         const toml::node* v = t->get(name);
         if (!v) {
@@ -418,9 +418,9 @@ class Reader {
         throw InputError(
             At(*t->get(kind)), Join(key, kind), "a " + kind + " without a self reactance",
             d.distribution == Distribution::kTriangular
-                ? "radius = <wire radius> (the self reactance follows from it) or reactance = "
+                ? "radius = <wire radius> (the self reactance follows from it) or self_reactance = "
                   "<ohm>"
-                : "reactance = <ohm>: a uniform current's self reactance depends on its end "
+                : "self_reactance = <ohm>: a uniform current's self reactance depends on its end "
                   "loading (top hats, coils), which no wire formula covers");
       }
       out.array.dipoles.push_back(d);
@@ -516,8 +516,8 @@ class Reader {
                              " m): a thin wire");
       }
     }
-    if (const toml::node* v = t.get("reactance"))
-      w.reactance_ohm = Number(*v, Join(key, "reactance"), "a self reactance in ohm");
+    if (const toml::node* v = t.get("self_reactance"))
+      w.reactance_ohm = Number(*v, Join(key, "self_reactance"), "a self reactance in ohm");
     if (const toml::node* v = t.get("conductivity")) {
       w.conductivity_s_m = Positive(*v, Join(key, "conductivity"),
                                     "a conductivity in S/m (copper about 5.8e7)", "a conductivity");

@@ -57,7 +57,9 @@ std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& p
       s << Printf("  %4zu  %-22s %10.4g  %10.2f  %12s  %-20s %s\n", m, PortText(ports[m]).c_str(),
                   std::abs(i[e]), std::arg(i[e]) / kDegree,
                   std::isnan(xs) ? "unknown" : Printf("%.5g", xs).c_str(),
-                  Impedance(c.circuit.input_impedance_ohm[e]).c_str(),
+                  ports[m].kind == PortKind::kLoad
+                      ? "-"
+                      : Impedance(c.circuit.input_impedance_ohm[e]).c_str(),
                   fed ? Printf("%.4g", c.vswr[e]).c_str() : "-");
     }
   } else {
@@ -83,9 +85,11 @@ std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& p
         q);
   }
   s << Printf(
-      "budget       supplied %.6g W; accepted %.6g W = radiated %.6g W + ohmic %.6g W "
-      "(efficiency %.4g %%); in source and load impedances %.6g W\n",
-      c.supplied_w, c.accepted_w, c.radiated_w, c.ohmic_w, 100 * c.efficiency, c.port_loss_w);
+      "budget       supplied %.6g W = accepted %.6g W + in the sources' impedances %.6g W; "
+      "accepted = radiated %.6g W + ohmic %.6g W + in parasitic loads %.6g W (efficiency "
+      "%.4g %%)\n",
+      c.supplied_w, c.accepted_w, c.source_loss_w, c.radiated_w, c.ohmic_w, c.load_loss_w,
+      100 * c.efficiency);
   if (!(peak_directivity > 0)) return s.str();  // no pattern (lobecast check)
   const RealizedGainReference ref = RealizedGainReferenceOf(c);
   const double g = peak_directivity * c.radiated_w / ref.power_w;
