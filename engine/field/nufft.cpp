@@ -5,8 +5,11 @@
 #include <algorithm>
 #include <cmath>
 #include <complex>
+#include <memory>
 #include <mutex>
+#include <new>
 #include <sstream>
+#include <type_traits>
 #include <utility>
 
 #include <fftw3.h>
@@ -26,11 +29,36 @@ using Complex = std::complex<double>;
 constexpr double kUpsampling = 2.0;  // sigma, for both the spread and the FFT grid
 constexpr int kMaxWidth = 16;
 
-// FFTW's planner is not thread-safe; execution is.
+// FFTW's planner (fftw_plan_* and fftw_destroy_plan) is not thread-safe;
+// execution is, also of one plan on several arrays at once (FFTW 3 manual,
+// sec. 5.4 "Thread safety" and 4.6 "New-array Execute Functions").
 std::mutex& FftwPlannerMutex() {
   static std::mutex m;
   return m;
 }
+
+// An fftw_malloc'd array (SIMD-aligned, so every buffer has the alignment the
+// plans were made for), freed by fftw_free.
+struct FftwFree {
+  void operator()(Complex* p) const { fftw_free(p); }
+};
+using FftwBuffer = std::unique_ptr<Complex[], FftwFree>;
+
+FftwBuffer AllocateFftw(std::size_t n) {
+  auto* p = static_cast<Complex*>(fftw_malloc(sizeof(Complex) * n));
+  if (!p) throw std::bad_alloc();
+  return FftwBuffer(p);
+}
+
+fftw_complex* AsFftw(Complex* p) { return reinterpret_cast<fftw_complex*>(p); }
+
+struct FftwPlanDestroy {
+  void operator()(fftw_plan p) const {
+    const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+    fftw_destroy_plan(p);
+  }
+};
+using FftwPlan = std::unique_ptr<std::remove_pointer_t<fftw_plan>, FftwPlanDestroy>;
 
 int WidthFor(double tolerance) {
   // Barnett et al. 2019, sec. 4.1: w = ceil(log10(1/eps)) + 1 at sigma = 2.
@@ -245,6 +273,30 @@ NufftGeometry Nufft2::GeometryFor(const std::array<int, 3>& modes, double tolera
   return g;
 }
 
+// The FFT of the zero-padded grid: one plan per component count (1 to 3), run
+// on every execution's own buffer.
+struct Nufft2::Plans {
+  // The plan for nc components of the grid n2, made on first use (FFTW_ESTIMATE
+  // neither reads nor writes the array it plans on); later calls return it.
+  fftw_plan Get(const std::array<int, 3>& n2, int nc, Complex* grid) {
+    const auto i = static_cast<std::size_t>(nc - 1);
+    std::call_once(once[i], [&] {
+      const int cells = n2[0] * n2[1] * n2[2];
+      const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+      fftw_plan p =
+          fftw_plan_many_dft(3, n2.data(), nc, AsFftw(grid), nullptr, 1, cells, AsFftw(grid),
+                             nullptr, 1, cells, FFTW_BACKWARD, FFTW_ESTIMATE);
+      if (!p) throw std::bad_alloc();
+      plan[i].reset(p);
+    });
+    return plan[i].get();
+  }
+  std::array<std::once_flag, 3> once;
+  std::array<FftwPlan, 3> plan;
+};
+
+Nufft2::~Nufft2() = default;
+
 std::size_t Nufft2::num_modes() const {
   return static_cast<std::size_t>(modes_[0]) * static_cast<std::size_t>(modes_[1]) *
          static_cast<std::size_t>(modes_[2]);
@@ -254,7 +306,8 @@ Nufft2::Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
                const NufftOptions& options)
     : geometry_(GeometryFor(modes, options.tolerance)),
       modes_(modes),
-      num_threads_(options.num_threads) {
+      num_threads_(options.num_threads),
+      plans_(std::make_unique<Plans>()) {
   const int w = geometry_.kernel_width;
   // Barnett et al. 2019, sec. 4.1: beta = 2.30 w at sigma = 2.
   beta_ = 2.30 * w;
@@ -294,9 +347,9 @@ Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
   const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
   const int threads = ResolveThreads(num_threads_);
 
-  auto* grid =
-      static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
-  if (!grid) throw std::bad_alloc();
+  const FftwBuffer buffer = AllocateFftw(cells * static_cast<std::size_t>(nc));
+  Complex* const grid = buffer.get();
+  const fftw_plan plan = plans_->Get(n2, nc, grid);
   std::fill(grid, grid + cells * static_cast<std::size_t>(nc), Complex(0.0));
 
   // 1. Deconvolved modes into the zero-padded grid (mode l at cell l mod n2).
@@ -318,18 +371,7 @@ Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
     }
   }
   // 2. g_m = sum_l b_l exp(+i 2 pi l m / n2): FFTW's backward transform.
-  {
-    fftw_plan plan;
-    {
-      const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
-      plan = fftw_plan_many_dft(3, n2.data(), nc, reinterpret_cast<fftw_complex*>(grid), nullptr, 1,
-                                static_cast<int>(cells), reinterpret_cast<fftw_complex*>(grid),
-                                nullptr, 1, static_cast<int>(cells), FFTW_BACKWARD, FFTW_ESTIMATE);
-    }
-    fftw_execute(plan);
-    const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
-    fftw_destroy_plan(plan);
-  }
+  fftw_execute_dft(plan, AsFftw(grid), AsFftw(grid));
   // 3. Interpolate at each target with the kernel, in blocks of targets.
   Eigen::MatrixXcd out(targets_.cols(), nc);
   const GridView view{grid, n2, plane, cells, nc, beta_, w};
@@ -340,7 +382,6 @@ Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
   for (std::ptrdiff_t b = 0; b < blocks; ++b) {
     InterpolateTargets(view, targets_, b * kBlock, std::min(m, (b + 1) * kBlock), out);
   }
-  fftw_free(grid);
   return out;
 }
 

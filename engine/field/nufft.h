@@ -81,22 +81,27 @@ class Nufft2 {
   // modes: M_d >= 1 per dimension; targets: 3 x K.
   Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
          const NufftOptions& options = {});
+  ~Nufft2();
   static NufftGeometry GeometryFor(const std::array<int, 3>& modes, double tolerance);
 
   // coefficients: (M_0 M_1 M_2) x C, C = 1 to 3, mode (l_0, l_1, l_2) in row
   // ((i_0 M_1) + i_1) M_2 + i_2 with i_d = l_d + floor(M_d / 2); returns K x C.
+  // Thread-safe: concurrent calls share the FFTW plans, each with its own grid.
   Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& coefficients) const;
 
   const NufftGeometry& geometry() const { return geometry_; }
   std::size_t num_modes() const;
 
  private:
+  struct Plans;  // FFTW plans, made once per component count (nufft.cpp)
+
   NufftGeometry geometry_;
   std::array<int, 3> modes_{1, 1, 1};
   double beta_ = 0;
   int num_threads_ = 0;
   Eigen::Matrix3Xd targets_;  // in grid units, t n2 / (2 pi), t reduced to [-pi, pi]
   std::array<std::vector<double>, 3> deconvolution_;  // h2 / psi2_hat(l), per mode
+  std::unique_ptr<Plans> plans_;
 };
 
 class Nufft3 : public PointSum {
