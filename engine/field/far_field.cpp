@@ -6,6 +6,7 @@
 #include <algorithm>
 #include <array>
 #include <cmath>
+#include <functional>
 #include <iterator>
 #include <map>
 #include <mutex>
@@ -156,6 +157,83 @@ void SumGeneralTile(const SourceArrays& src, std::size_t begin, std::size_t end,
   acc[6] += xr1, acc[7] += xi1, acc[8] += yr1, acc[9] += yi1, acc[10] += zr1, acc[11] += zi1;
 }
 
+// The general adjoint's stream: per direction its k vector and a complex
+// 3-vector weight, structure of arrays.
+struct VectorStream {
+  const double* x;
+  const double* y;
+  const double* z;
+  std::array<const double*, 3> vr, vi;  // weight per axis, real and imaginary parts
+};
+
+// acc[6t + 2a], acc[6t + 2a + 1] += sum_i v_i[a] exp(j q_t . x_i), a = x, y, z, for 2
+// targets q_t = q[3t..3t+2] (the adjoint: q = -r_s, x_i = k r_hat_i).
+LOBECAST_KERNEL_CLONES
+void SumVectorTile(const VectorStream& src, std::size_t begin, std::size_t end, const double* q,
+                   double* acc) {
+  const double q0x = q[0], q0y = q[1], q0z = q[2], q1x = q[3], q1y = q[4], q1z = q[5];
+  const double* x = src.x;
+  const double* y = src.y;
+  const double* z = src.z;
+  const double *vxr = src.vr[0], *vyr = src.vr[1], *vzr = src.vr[2];
+  const double *vxi = src.vi[0], *vyi = src.vi[1], *vzi = src.vi[2];
+  double xr0 = 0, xi0 = 0, yr0 = 0, yi0 = 0, zr0 = 0, zi0 = 0;
+  double xr1 = 0, xi1 = 0, yr1 = 0, yi1 = 0, zr1 = 0, zi1 = 0;
+#pragma omp simd reduction(+ : xr0, xi0, yr0, yi0, zr0, zi0, xr1, xi1, yr1, yi1, zr1, zi1)
+  for (std::size_t s = begin; s < end; ++s) {
+    const double xs = x[s], ys = y[s], zs = z[s];
+    const double ax = vxr[s], bx = vxi[s], ay = vyr[s], by = vyi[s], az = vzr[s], bz = vzi[s];
+    double sn, cs;
+    SinCos(q0x * xs + q0y * ys + q0z * zs, sn, cs);
+    xr0 += ax * cs - bx * sn, xi0 += ax * sn + bx * cs;
+    yr0 += ay * cs - by * sn, yi0 += ay * sn + by * cs;
+    zr0 += az * cs - bz * sn, zi0 += az * sn + bz * cs;
+    SinCos(q1x * xs + q1y * ys + q1z * zs, sn, cs);
+    xr1 += ax * cs - bx * sn, xi1 += ax * sn + bx * cs;
+    yr1 += ay * cs - by * sn, yi1 += ay * sn + by * cs;
+    zr1 += az * cs - bz * sn, zi1 += az * sn + bz * cs;
+  }
+  acc[0] += xr0, acc[1] += xi0, acc[2] += yr0, acc[3] += yi0, acc[4] += zr0, acc[5] += zi0;
+  acc[6] += xr1, acc[7] += xi1, acc[8] += yr1, acc[9] += yi1, acc[10] += zr1, acc[11] += zi1;
+}
+
+// The direct sums' loop: for each of `targets` targets (load(t, q) writes its 3
+// coordinates), sums over the whole stream by a tile kernel (tile targets at a
+// time, per accumulators each) and hands the accumulators to store(t, acc).
+// Threads take chunks of kChunkDirections targets; each target's sum runs over
+// the stream in blocks of kBlockSources in a fixed order, so the result does not
+// depend on the thread count.
+template <auto kernel, class Stream, class Load, class Store>
+void TiledSums(const Stream& stream, std::size_t stream_size, std::size_t targets, int tile,
+               int per, int threads, Load load, Store store) {
+  const auto num_chunks =
+      static_cast<std::ptrdiff_t>((targets + kChunkDirections - 1) / kChunkDirections);
+  // No more threads than chunks: a probe of a few directions runs on one.
+  threads = static_cast<int>(
+      std::clamp<std::ptrdiff_t>(threads, 1, std::max<std::ptrdiff_t>(1, num_chunks)));
+#pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
+  for (std::ptrdiff_t c = 0; c < num_chunks; ++c) {
+    const std::size_t d0 = static_cast<std::size_t>(c) * kChunkDirections;
+    const std::size_t nd = std::min(kChunkDirections, targets - d0);
+    const std::size_t ntiles =
+        (nd + static_cast<std::size_t>(tile) - 1) / static_cast<std::size_t>(tile);
+    // Coordinates of the chunk, padded to whole tiles by repeating the last one.
+    std::array<double, 3 * (kChunkDirections + kTileCollinear)> q{};
+    std::array<double, 6 * (kChunkDirections + kTileCollinear)> acc{};
+    for (std::size_t t = 0; t < ntiles * static_cast<std::size_t>(tile); ++t) {
+      load(d0 + std::min(t, nd - 1), &q[3 * t]);
+    }
+    for (std::size_t b = 0; b < stream_size; b += kBlockSources) {
+      const std::size_t e = std::min(stream_size, b + kBlockSources);
+      for (std::size_t t = 0; t < ntiles; ++t) {
+        const std::size_t o = t * static_cast<std::size_t>(tile);
+        kernel(stream, b, e, &q[3 * o], &acc[static_cast<std::size_t>(per) * o]);
+      }
+    }
+    for (std::size_t t = 0; t < nd; ++t) store(d0 + t, &acc[static_cast<std::size_t>(per) * t]);
+  }
+}
+
 // Fast path error model: each component of the NUFFT output is within
 // kErrorModel * eps * sum_j |c_j| of the exact sum, eps a power of ten. Barnett
 // et al. 2019 observe errors near eps * sum |c| for one stage; with the two stages
@@ -273,6 +351,56 @@ double FieldPlan::EstimatedLatticeSeconds() const {
   return total;
 }
 
+namespace {
+
+// The fast path's tolerance search, shared by Execute and ExecuteAdjoint.
+// pass(eps) runs the transform at tolerance eps and returns the peak |output|;
+// at eps the error of every output is at most unit * (kErrorModel * eps +
+// placement). A scout pass (cheap, it finds the peak), then, when that does not
+// meet the tolerance relative to the peak, one pass tight enough for it.
+// Tolerances are rounded down to a power of ten: the kernel width depends only on
+// the exponent, so nothing is lost and plans can be reused. Returns the bound
+// met relative to the peak, or std::nullopt when the peak is so far below unit
+// (near-total cancellation) that double precision cannot reach the tolerance:
+// then the caller sums directly.
+std::optional<double> SearchTolerance(double tolerance, double unit, double placement,
+                                      const std::function<double(double)>& pass) {
+  const auto bound = [&](double eps) { return unit * (kErrorModel * eps + placement); };
+  const auto round_down = [](double e) { return std::pow(10.0, std::floor(std::log10(e))); };
+  double eps = round_down(std::max(tolerance, kScoutTolerance));
+  double peak = pass(eps);
+  if (bound(eps) > tolerance * peak) {
+    const double peak_low = peak - bound(eps);
+    const double room = peak_low > 0 ? tolerance * peak_low / unit - placement : 0.0;
+    eps = room > 0 ? round_down(room / kErrorModel) : 0.0;
+    if (eps >= 1e-14) peak = pass(eps);
+  }
+  if (eps >= 1e-14 && peak > 0 && bound(eps) <= tolerance * peak) return bound(eps) / peak;
+  return std::nullopt;
+}
+
+}  // namespace
+
+std::shared_ptr<const PointSum> FieldPlan::FastPlanLocked(FastCache& cache, double eps) const {
+  const int exponent = static_cast<int>(std::floor(std::log10(eps)));
+  const int scout = static_cast<int>(std::floor(std::log10(kScoutTolerance)));
+  auto it = cache.plans.find(exponent);
+  if (it == cache.plans.end()) {
+    for (auto j = cache.plans.begin(); j != cache.plans.end();) {
+      j = j->first == scout ? std::next(j) : cache.plans.erase(j);
+    }
+    const NufftOptions nufft_options{eps, num_threads_};
+    std::shared_ptr<const PointSum> sum;
+    if (fast_transform_ == FastTransform::kLattice) {
+      sum = std::make_shared<const LatticeSum>(*lattice_, dirs_.k_r_hat, nufft_options);
+    } else {
+      sum = std::make_shared<const Nufft3>(source_pos_, dirs_.k_r_hat, nufft_options);
+    }
+    it = cache.plans.emplace(exponent, std::move(sum)).first;
+  }
+  return it->second;
+}
+
 void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first,
                             std::size_t count, FarField& out) const {
   const std::lock_guard<std::mutex> lock(fast_->mutex);
@@ -297,24 +425,7 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
     cache.field.e_phi.resize(nd);
     // One NUFFT pass at tolerance eps; returns the peak |rE| over live directions.
     auto pass = [&](double eps) {
-      const int exponent = static_cast<int>(std::floor(std::log10(eps)));
-      const int scout = static_cast<int>(std::floor(std::log10(kScoutTolerance)));
-      auto it = cache.plans.find(exponent);
-      if (it == cache.plans.end()) {
-        for (auto j = cache.plans.begin(); j != cache.plans.end();) {
-          j = j->first == scout ? std::next(j) : cache.plans.erase(j);
-        }
-        const NufftOptions nufft_options{eps, num_threads_};
-        std::shared_ptr<const PointSum> sum;
-        if (fast_transform_ == FastTransform::kLattice) {
-          sum = std::make_shared<const LatticeSum>(*lattice_, dirs_.k_r_hat, nufft_options);
-        } else {
-          sum = std::make_shared<const Nufft3>(source_pos_, dirs_.k_r_hat, nufft_options);
-        }
-        it = cache.plans.emplace(exponent, std::move(sum)).first;
-      }
-      const PointSum* plan = it->second.get();
-      const Eigen::MatrixXcd m = plan->Execute(strengths);
+      const Eigen::MatrixXcd m = FastPlanLocked(cache, eps)->Execute(strengths);
       double peak = 0;
       for (Eigen::Index i = 0; i < nd; ++i) {
         if (dirs_.zeroed[static_cast<std::size_t>(i)]) {
@@ -336,22 +447,10 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
     };
     // Error in |rE| at tolerance eps, by the error model (same for every
     // direction), plus the lattice's placement error when it has one.
-    const double unit = prefactor_ * std::sqrt(comps) * l1;
-    const double placement = lattice_phase_error_;
-    const auto bound = [&](double eps) { return unit * (kErrorModel * eps + placement); };
-    // Tolerances are rounded down to a power of ten: the kernel width depends only
-    // on the exponent, so nothing is lost and plans can be reused.
-    const auto round_down = [](double e) { return std::pow(10.0, std::floor(std::log10(e))); };
-    double eps = round_down(std::max(tolerance_relative_, kScoutTolerance));
-    double peak = pass(eps);
-    if (bound(eps) > tolerance_relative_ * peak) {
-      const double peak_low = peak - bound(eps);
-      const double room = peak_low > 0 ? tolerance_relative_ * peak_low / unit - placement : 0.0;
-      eps = room > 0 ? round_down(room / kErrorModel) : 0.0;
-      if (eps >= 1e-14) peak = pass(eps);
-    }
-    if (eps >= 1e-14 && peak > 0 && bound(eps) <= tolerance_relative_ * peak) {
-      cache.error_bound = bound(eps) / peak;
+    const std::optional<double> met = SearchTolerance(
+        tolerance_relative_, prefactor_ * std::sqrt(comps) * l1, lattice_phase_error_, pass);
+    if (met) {
+      cache.error_bound = *met;
     } else {
       // The peak is too far below sum |c| (near-total cancellation) for the NUFFT
       // to reach the tolerance in double precision: sum directly.
@@ -530,60 +629,189 @@ void FieldPlan::SumDirect(const Eigen::VectorXcd& currents_a, const DirectionDat
       live.push_back(j);
     }
   }
-  const int tile = collinear_ ? kTileCollinear : kTileGeneral;
-  const int acc_per_dir = collinear_ ? 2 : 6;
-  const auto num_chunks =
-      static_cast<std::ptrdiff_t>((live.size() + kChunkDirections - 1) / kChunkDirections);
-  // No more threads than chunks: a probe of a few directions runs on one.
-  const int threads = static_cast<int>(std::clamp<std::ptrdiff_t>(
-      ResolveThreads(num_threads_), 1, std::max<std::ptrdiff_t>(1, num_chunks)));
   const Complex minus_j_pref(0.0, -prefactor_);
+  const auto load = [&](std::size_t t, double* k) {
+    const auto i = static_cast<Eigen::Index>(first + live[t]);
+    for (int a = 0; a < 3; ++a) k[a] = dirs.k_r_hat(a, i);
+  };
+  const auto store = [&](std::size_t t, const double* a) {
+    const auto j = static_cast<Eigen::Index>(live[t]);
+    const Eigen::Index i = static_cast<Eigen::Index>(first) + j;
+    // M = sum_s I_s Le_s u_s exp(+j k r_hat . r_s).
+    Eigen::Vector3d mr, mi;
+    if (collinear_) {
+      mr = a[0] * common_axis_;
+      mi = a[1] * common_axis_;
+    } else {
+      mr << a[0], a[2], a[4];
+      mi << a[1], a[3], a[5];
+    }
+    // r_hat x (r_hat x M) = -M_perp, so rE_theta = -j (w mu0 / 4 pi) theta_hat . M.
+    const Complex m_theta(dirs.theta_hat.col(i).dot(mr), dirs.theta_hat.col(i).dot(mi));
+    const Complex m_phi(dirs.phi_hat.col(i).dot(mr), dirs.phi_hat.col(i).dot(mi));
+    out.e_theta[j] = minus_j_pref * m_theta;
+    out.e_phi[j] = minus_j_pref * m_phi;
+  };
+  const int threads = ResolveThreads(num_threads_);
+  if (collinear_) {
+    TiledSums<SumCollinearTile>(src, ns, live.size(), kTileCollinear, 2, threads, load, store);
+  } else {
+    TiledSums<SumGeneralTile>(src, ns, live.size(), kTileGeneral, 6, threads, load, store);
+  }
+}
 
-#pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
-  for (std::ptrdiff_t c = 0; c < num_chunks; ++c) {
-    const std::size_t d0 = static_cast<std::size_t>(c) * kChunkDirections;
-    const std::size_t nd = std::min(kChunkDirections, live.size() - d0);
-    const std::size_t ntiles =
-        (nd + static_cast<std::size_t>(tile) - 1) / static_cast<std::size_t>(tile);
-    // k vectors of the chunk, padded to whole tiles by repeating the last one.
-    std::array<double, 3 * (kChunkDirections + kTileCollinear)> k{};
-    std::array<double, 6 * (kChunkDirections + kTileCollinear)> acc{};
-    for (std::size_t t = 0; t < ntiles * static_cast<std::size_t>(tile); ++t) {
-      const auto i = static_cast<Eigen::Index>(first + live[d0 + std::min(t, nd - 1)]);
-      for (int a = 0; a < 3; ++a) k[3 * t + static_cast<std::size_t>(a)] = dirs.k_r_hat(a, i);
+DipoleSums FieldPlan::ExecuteAdjoint(const Eigen::Matrix3Xcd& field,
+                                     const Eigen::VectorXd& weights) const {
+  if (static_cast<std::size_t>(field.cols()) != num_directions()) {
+    std::ostringstream s;
+    s << "adjoint field: found " << field.cols() << " vectors, expected one per plan direction ("
+      << num_directions() << ")";
+    throw InvalidArgument(s.str());
+  }
+  FarField f;
+  f.e_theta = (dirs_.theta_hat.cast<Complex>().cwiseProduct(field)).colwise().sum().transpose();
+  f.e_phi = (dirs_.phi_hat.cast<Complex>().cwiseProduct(field)).colwise().sum().transpose();
+  return ExecuteAdjoint(f, weights);
+}
+
+DipoleSums FieldPlan::ExecuteAdjoint(const FarField& field, const Eigen::VectorXd& weights) const {
+  const auto nd = static_cast<Eigen::Index>(num_directions());
+  if (field.e_theta.size() != nd || field.e_phi.size() != nd ||
+      (weights.size() != 0 && weights.size() != nd)) {
+    std::ostringstream s;
+    s << "adjoint field: found " << field.e_theta.size() << " e_theta, " << field.e_phi.size()
+      << " e_phi and " << weights.size() << " weights, expected " << nd
+      << " each (weights may be empty)";
+    throw InvalidArgument(s.str());
+  }
+  Eigen::Matrix3Xcd v(3, nd);
+  for (Eigen::Index i = 0; i < nd; ++i) {
+    if (dirs_.zeroed[static_cast<std::size_t>(i)]) {
+      v.col(i).setZero();
+      continue;
     }
-    // Blocks of sources in a fixed order, so the sum does not depend on threads.
-    for (std::size_t b = 0; b < ns; b += kBlockSources) {
-      const std::size_t e = std::min(ns, b + kBlockSources);
-      for (std::size_t t = 0; t < ntiles; ++t) {
-        const std::size_t o = t * static_cast<std::size_t>(tile);
-        if (collinear_) {
-          SumCollinearTile(src, b, e, &k[3 * o], &acc[2 * o]);
-        } else {
-          SumGeneralTile(src, b, e, &k[3 * o], &acc[6 * o]);
-        }
+    const double w = weights.size() ? weights[i] : 1.0;
+    v.col(i) = dirs_.theta_hat.col(i).cast<Complex>() * (w * field.e_theta[i]) +
+               dirs_.phi_hat.col(i).cast<Complex>() * (w * field.e_phi[i]);
+  }
+  if (method_used_ == FieldMethod::kFast) return AdjointFast(v);
+  return DipoleSums{AdjointDirect(v), 0.0};
+}
+
+Eigen::VectorXcd FieldPlan::AdjointDirect(const Eigen::Matrix3Xcd& v) const {
+  // The stream: the live directions' k vectors and weights (axis . v_i for one
+  // moment axis, else v_i); the targets: the sources, at q = -r_s, so that the
+  // kernels' exp(j q . x) is exp(-j k_i . r_s).
+  std::vector<Eigen::Index> live;
+  for (Eigen::Index i = 0; i < v.cols(); ++i) {
+    if (!dirs_.zeroed[static_cast<std::size_t>(i)]) live.push_back(i);
+  }
+  const std::size_t nl = live.size(), ns = num_sources();
+  std::array<std::vector<double>, 9> soa;  // kx, ky, kz, then real and imaginary parts
+  for (auto& a : soa) a.resize(nl);
+  for (std::size_t t = 0; t < nl; ++t) {
+    const Eigen::Index i = live[t];
+    for (int a = 0; a < 3; ++a) soa[static_cast<std::size_t>(a)][t] = dirs_.k_r_hat(a, i);
+    if (collinear_) {
+      const Complex u = common_axis_.cast<Complex>().dot(v.col(i));  // axis real: no conjugate
+      soa[3][t] = u.real(), soa[4][t] = u.imag();
+    } else {
+      for (std::size_t a = 0; a < 3; ++a) {
+        soa[3 + 2 * a][t] = v(static_cast<Eigen::Index>(a), i).real();
+        soa[4 + 2 * a][t] = v(static_cast<Eigen::Index>(a), i).imag();
       }
-    }
-    for (std::size_t t = 0; t < nd; ++t) {
-      const auto j = static_cast<Eigen::Index>(live[d0 + t]);
-      const Eigen::Index i = static_cast<Eigen::Index>(first) + j;
-      const double* a = &acc[static_cast<std::size_t>(acc_per_dir) * t];
-      // M = sum_s I_s Le_s u_s exp(+j k r_hat . r_s).
-      Eigen::Vector3d mr, mi;
-      if (collinear_) {
-        mr = a[0] * common_axis_;
-        mi = a[1] * common_axis_;
-      } else {
-        mr << a[0], a[2], a[4];
-        mi << a[1], a[3], a[5];
-      }
-      // r_hat x (r_hat x M) = -M_perp, so rE_theta = -j (w mu0 / 4 pi) theta_hat . M.
-      const Complex m_theta(dirs.theta_hat.col(i).dot(mr), dirs.theta_hat.col(i).dot(mi));
-      const Complex m_phi(dirs.phi_hat.col(i).dot(mr), dirs.phi_hat.col(i).dot(mi));
-      out.e_theta[j] = minus_j_pref * m_theta;
-      out.e_phi[j] = minus_j_pref * m_phi;
     }
   }
+  const int per = collinear_ ? 2 : 6;
+  std::vector<double> acc(static_cast<std::size_t>(per) * ns);
+  const auto load = [&](std::size_t s, double* q) {
+    for (int a = 0; a < 3; ++a) q[a] = -source_pos_(a, static_cast<Eigen::Index>(s));
+  };
+  const auto store = [&](std::size_t s, const double* a) {
+    std::copy(a, a + per, acc.begin() + static_cast<std::ptrdiff_t>(per * s));
+  };
+  const int threads = ResolveThreads(num_threads_);
+  if (collinear_) {
+    const SourceArrays stream{soa[0].data(), soa[1].data(), soa[2].data(), soa[3].data(),
+                              soa[4].data(), nullptr,       nullptr,       nullptr};
+    TiledSums<SumCollinearTile>(stream, nl, ns, kTileCollinear, 2, threads, load, store);
+  } else {
+    const VectorStream stream{soa[0].data(),
+                              soa[1].data(),
+                              soa[2].data(),
+                              {soa[3].data(), soa[5].data(), soa[7].data()},
+                              {soa[4].data(), soa[6].data(), soa[8].data()}};
+    TiledSums<SumVectorTile>(stream, nl, ns, kTileGeneral, 6, threads, load, store);
+  }
+  // Images fold onto their dipoles, in source order.
+  Eigen::VectorXcd y = Eigen::VectorXcd::Zero(static_cast<Eigen::Index>(num_dipoles_));
+  for (std::size_t s = 0; s < ns; ++s) {
+    const double* a = &acc[static_cast<std::size_t>(per) * s];
+    Complex m;
+    if (collinear_) {
+      m = signed_moment_m_[s] * Complex(a[0], a[1]);
+    } else {
+      const auto c = static_cast<Eigen::Index>(s);
+      m = source_moment_(0, c) * Complex(a[0], a[1]) + source_moment_(1, c) * Complex(a[2], a[3]) +
+          source_moment_(2, c) * Complex(a[4], a[5]);
+    }
+    y[source_dipole_[s]] += m;
+  }
+  return Complex(0.0, prefactor_) * y;
+}
+
+DipoleSums FieldPlan::AdjointFast(const Eigen::Matrix3Xcd& v) const {
+  // The transform's values: axis . v_i for one moment axis, else v_i.
+  const int comps = collinear_ ? 1 : 3;
+  const Eigen::Index nd = v.cols(), ns = source_pos_.cols();
+  Eigen::MatrixXcd values(nd, comps);
+  if (collinear_) {
+    values.col(0) = (common_axis_.cast<Complex>().transpose() * v).transpose();
+  } else {
+    values = v.transpose();
+  }
+  // |error of y_n| <= (w mu0 / 4 pi) sum over n's sources s and axes a of
+  // |m_s[a]| err(g(s, a)), each err(g(s, a)) within (kErrorModel eps + placement)
+  // sum_i |values(i, a)| (PointSum::Adjoint); unit is the largest such sum.
+  const Eigen::VectorXd l1 = values.cwiseAbs().colwise().sum().transpose();
+  Eigen::VectorXd per_dipole = Eigen::VectorXd::Zero(static_cast<Eigen::Index>(num_dipoles_));
+  for (Eigen::Index s = 0; s < ns; ++s) {
+    double u = 0;
+    for (int a = 0; a < comps; ++a) {
+      u += (collinear_ ? std::abs(signed_moment_m_[static_cast<std::size_t>(s)])
+                       : std::abs(source_moment_(a, s))) *
+           l1[a];
+    }
+    per_dipole[source_dipole_[static_cast<std::size_t>(s)]] += u;
+  }
+  const double unit = prefactor_ * (per_dipole.size() ? per_dipole.maxCoeff() : 0.0);
+  const Complex j_pref(0.0, prefactor_);
+  Eigen::VectorXcd y;
+  auto pass = [&](double eps) {
+    std::shared_ptr<const PointSum> plan;
+    {
+      const std::lock_guard<std::mutex> lock(fast_->mutex);
+      plan = FastPlanLocked(*fast_, eps);
+    }
+    const Eigen::MatrixXcd g = plan->Adjoint(values);
+    y = Eigen::VectorXcd::Zero(static_cast<Eigen::Index>(num_dipoles_));
+    for (Eigen::Index s = 0; s < ns; ++s) {
+      const auto u = static_cast<std::size_t>(s);
+      Complex m = 0.0;
+      if (collinear_) {
+        m = signed_moment_m_[u] * g(s, 0);
+      } else {
+        for (int a = 0; a < 3; ++a) m += source_moment_(a, s) * g(s, a);
+      }
+      y[source_dipole_[u]] += m;
+    }
+    y *= j_pref;
+    return y.size() ? y.cwiseAbs().maxCoeff() : 0.0;
+  };
+  const std::optional<double> met =
+      SearchTolerance(tolerance_relative_, unit, lattice_phase_error_, pass);
+  if (met) return DipoleSums{y, *met};
+  return DipoleSums{AdjointDirect(v), 0.0};
 }
 
 }  // namespace lobecast
