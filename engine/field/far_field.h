@@ -41,6 +41,10 @@ class PointSum;      // engine/field/nufft.h
 struct FarField {
   Eigen::VectorXcd e_theta;  // rE_theta per direction, V
   Eigen::VectorXcd e_phi;    // rE_phi per direction, V
+  // The error bound the field met, relative to its peak over the plan's
+  // directions (<= FieldOptions::tolerance_relative): the fast path's; 0 for an
+  // exact (direct) sum.
+  double error_bound_relative = 0;
   std::size_t size() const { return static_cast<std::size_t>(e_theta.size()); }
 };
 
@@ -138,12 +142,9 @@ class FieldPlan {
   // The fast path's transform (kNone for the direct path): the lattice one when
   // the sources sit on a lattice and it is estimated cheaper than type 3.
   FastTransform fast_transform() const { return fast_transform_; }
-  // Fast path: the error bound it met for the last current vector, relative to
-  // that pattern's peak (<= tolerance_relative); 0 for the direct path.
-  double error_bound_relative() const;
 
  private:
-  struct FastCache;  // defined in far_field.cpp
+  struct FastCache;  // engine/field/fast_path.h
 
   // Per-direction data the direct sum reads: k r_hat, theta_hat, phi_hat, zeroed.
   struct DirectionData {
@@ -151,20 +152,26 @@ class FieldPlan {
     std::vector<unsigned char> zeroed;  // 1 where the ground forces E = 0
   };
   DirectionData MakeDirectionData(const Directions& directions) const;
+
+  // The exact sums (direct_sum.cpp).
   void ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                      FarField& out) const;
   void SumDirect(const Eigen::VectorXcd& currents_a, const DirectionData& dirs, std::size_t first,
                  std::size_t count, FarField& out) const;
+  // y = A^H W x from v_i = w_i (theta_hat_i x_theta_i + phi_hat_i x_phi_i)
+  // (3 x directions, zero where the ground zeroes the field):
+  // y_n = j (w mu0 / 4 pi) sum over n's sources s of m_s . sum_i v_i exp(-j k_i . r_s).
+  Eigen::VectorXcd AdjointDirect(const Eigen::Matrix3Xcd& v) const;
+
+  // The fast path (fast_path.cpp).
   void ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                    FarField& out) const;
   // The fast path's transform at tolerance eps (cached by its exponent); the
   // caller holds cache.mutex.
   std::shared_ptr<const PointSum> FastPlanLocked(FastCache& cache, double eps) const;
-  // y = A^H W x from v_i = w_i (theta_hat_i x_theta_i + phi_hat_i x_phi_i)
-  // (3 x directions, zero where the ground zeroes the field):
-  // y_n = j (w mu0 / 4 pi) sum over n's sources s of m_s . sum_i v_i exp(-j k_i . r_s).
-  Eigen::VectorXcd AdjointDirect(const Eigen::Matrix3Xcd& v) const;
   DipoleSums AdjointFast(const Eigen::Matrix3Xcd& v) const;
+
+  // The cost model behind kAuto and the transform choice (method_cost.cpp).
   double EstimatedDirectSeconds() const;
   double EstimatedType3Seconds() const;
   double EstimatedLatticeSeconds() const;
