@@ -215,6 +215,8 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
     for (std::size_t first = 0; first < nb; first += chunk) {
       const std::size_t count = std::min(chunk, nb - first);
       plan.ExecuteRange(currents, first, count, part);
+      s.field_error_bound_relative =
+          std::max(s.field_error_bound_relative, part.error_bound_relative);
       const auto at = static_cast<Eigen::Index>(offset + first);
       const auto len = static_cast<Eigen::Index>(count);
       r.field.e_theta.segment(at, len) = part.e_theta;
@@ -223,8 +225,6 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
         options.progress(static_cast<double>(offset + first + count) / static_cast<double>(n));
       }
     }
-    s.field_error_bound_relative =
-        std::max(s.field_error_bound_relative, plan.error_bound_relative());
     s.seconds_field += SecondsSince(tb);
   }
   s.field_method_used = fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;

@@ -1,5 +1,6 @@
 // The reference for the NUFFT and lattice tests: the exponential sum
-// f_k = sum_j c_j exp(+i s_k . x_j), evaluated in long double.
+// f_k = sum_j c_j exp(+i s_k . x_j), evaluated in long double, and the
+// dot-product test of their adjoints.
 #pragma once
 
 #include <algorithm>
@@ -30,6 +31,16 @@ inline double SumRelativeError(const Eigen::Matrix3Xd& x, const Eigen::Matrix3Xd
     }
   }
   return worst;
+}
+
+// The dot-product test of an adjoint: with f = A c and g = A^H v,
+// |<f, v> - <c, g>| / (|f| |v|) (2-norms, all columns at once; <a, b> = a^H b).
+// Zero up to rounding when g is the exact adjoint of the map that made f.
+inline double AdjointMismatch(const Eigen::MatrixXcd& c, const Eigen::MatrixXcd& f,
+                              const Eigen::MatrixXcd& v, const Eigen::MatrixXcd& g) {
+  const std::complex<double> fv = (f.conjugate().cwiseProduct(v)).sum();
+  const std::complex<double> cg = (c.conjugate().cwiseProduct(g)).sum();
+  return std::abs(fv - cg) / (f.norm() * v.norm());
 }
 
 }  // namespace lobecast::testing

@@ -149,9 +149,19 @@ TEST_P(LatticeSumAccuracy, MatchesTheExponentialSum) {
       for (int a = 0; a < 3; ++a) str(j, a) = Complex(rng.Uniform(-1, 1), rng.Uniform(-1, 1));
     }
     const LatticeSum sum(*lat, s, NufftOptions{tol, 0});
-    const double err = testing::SumRelativeError(x, s, str, sum.Execute(str));
+    const Eigen::MatrixXcd f = sum.Execute(str);
+    const double err = testing::SumRelativeError(x, s, str, f);
     EXPECT_LT(err, 3.0 * tol + sum.representation_error()) << c.name << ", tolerance " << tol;
     EXPECT_GT(err, 1e-4 * tol) << c.name << ", tolerance " << tol;
+    // The adjoint, sum_k v_k exp(-i s_k . x_j): the transpose of Execute to
+    // rounding, and the exact sum (roles swapped, conjugated) to the same bound.
+    const Eigen::MatrixXcd v = Eigen::MatrixXcd::Random(s.cols(), 3);
+    const Eigen::MatrixXcd g = sum.Adjoint(v);
+    EXPECT_LT(testing::AdjointMismatch(str, f, v, g), 1e-14) << c.name << ", tolerance " << tol;
+    const double adjoint_err = testing::SumRelativeError(s, x, v.conjugate(), g.conjugate());
+    EXPECT_LT(adjoint_err, 3.0 * tol + sum.representation_error())
+        << c.name << ", tolerance " << tol;
+    EXPECT_GT(adjoint_err, 1e-4 * tol) << c.name << ", tolerance " << tol;
   }
 }
 
@@ -192,7 +202,7 @@ TEST(FindAxisLattice, RejectsNonFiniteCoordinates) {
   EXPECT_FALSE(FindAxisLattice(x, 1e-12, 1e6).has_value());
 }
 
-TEST(LatticeSum, ResultDoesNotDependOnThreadsAndRejectsBadStrengths) {
+TEST(LatticeSum, ResultAndAdjointDoNotDependOnThreadsAndRejectBadSizes) {
   TestRng rng(36);
   const Eigen::Matrix3Xd x =
       LatticePoints(rng, {20, 20, 2}, {0.5, 0.5, 0.5}, Eigen::Vector3d::Zero());
@@ -205,6 +215,10 @@ TEST(LatticeSum, ResultDoesNotDependOnThreadsAndRejectsBadStrengths) {
   EXPECT_EQ((f1 - two.Execute(c)).cwiseAbs().maxCoeff(), 0.0);
   EXPECT_THROW(two.Execute(Eigen::MatrixXcd::Ones(3, 1)), InvalidArgument);
   EXPECT_THROW(two.Execute(Eigen::MatrixXcd::Ones(x.cols(), 4)), InvalidArgument);
+  const Eigen::MatrixXcd v = Eigen::MatrixXcd::Random(s.cols(), 2);
+  const Eigen::MatrixXcd g1 = LatticeSum(*lat, s, NufftOptions{1e-9, 1}).Adjoint(v);
+  EXPECT_EQ((g1 - two.Adjoint(v)).cwiseAbs().maxCoeff(), 0.0);
+  EXPECT_THROW(two.Adjoint(Eigen::MatrixXcd::Ones(3, 1)), InvalidArgument);
 }
 
 }  // namespace

@@ -8,6 +8,8 @@
 #include <cmath>
 #include <complex>
 #include <string>
+#include <thread>
+#include <vector>
 
 #include <gtest/gtest.h>
 
@@ -102,6 +104,102 @@ TEST(Nufft, ResultDoesNotDependOnThreads) {
   EXPECT_EQ((f1 - f2).cwiseAbs().maxCoeff(), 0.0);
 }
 
+// The adjoint, g_j = sum_k v_k exp(-i s_k . x_j): the exact transpose of the
+// forward transform as computed (dot-product test to rounding), and within the
+// forward bound of the exact sum with the roles of points and targets swapped:
+// g = conj(sum_k conj(v_k) exp(+i x_j . s_k)).
+class NufftAdjoint : public ::testing::TestWithParam<double> {};
+
+TEST_P(NufftAdjoint, IsTheTransposeAndMatchesDirectSum) {
+  const double tol = GetParam();
+  const Case cases[] = {
+      {"3-D cloud", {3.0, 2.0, 1.5}, {8.0, 6.0, 7.0}},
+      {"planar (z exact)", {4.0, 5.0, 0.0}, {6.0, 6.0, 6.0}},
+      {"linear (y, z exact)", {20.0, 0.0, 0.0}, {3.0, 3.0, 3.0}},
+  };
+  TestRng rng(18);
+  for (const Case& c : cases) {
+    for (int cols = 1; cols <= 3; ++cols) {
+      const Eigen::Matrix3Xd x = RandomCloud(rng, 200, c.x_half, Eigen::Vector3d(0.7, -1.2, 2.0));
+      const Eigen::Matrix3Xd s = RandomCloud(rng, 300, c.s_half, Eigen::Vector3d(-0.3, 0.5, 1.1));
+      const Eigen::MatrixXcd str = RandomStrengths(rng, 200, cols);
+      const Eigen::MatrixXcd v = RandomStrengths(rng, 300, cols);
+      const Nufft3 nufft(x, s, NufftOptions{tol, 0});
+      const Eigen::MatrixXcd g = nufft.Adjoint(v);
+      const double mismatch = testing::AdjointMismatch(str, nufft.Execute(str), v, g);
+      EXPECT_LT(mismatch, 1e-14) << c.name << ", " << cols << " columns, tolerance " << tol;
+      const double err = testing::SumRelativeError(s, x, v.conjugate(), g.conjugate());
+      EXPECT_LT(err, 3.0 * tol) << c.name << ", tolerance " << tol;
+      EXPECT_GT(err, 1e-4 * tol) << c.name << ", tolerance " << tol;
+    }
+  }
+}
+
+INSTANTIATE_TEST_SUITE_P(Tolerances, NufftAdjoint, ::testing::Values(1e-3, 1e-9, 1e-12));
+
+TEST(Nufft2, AdjointIsTheTranspose) {
+  const std::array<int, 3> shapes[] = {{7, 12, 5}, {1, 40, 1}, {1, 16, 17}, {3, 1, 2}};
+  TestRng rng(19);
+  for (const auto& modes : shapes) {
+    const int nm = modes[0] * modes[1] * modes[2];
+    const Eigen::Matrix3Xd t = RandomCloud(rng, 300, {40.0, 40.0, 40.0}, Eigen::Vector3d::Zero());
+    const Eigen::MatrixXcd c = RandomStrengths(rng, nm, 2);
+    const Eigen::MatrixXcd v = RandomStrengths(rng, 300, 2);
+    const Nufft2 nufft(modes, t, NufftOptions{1e-9, 0});
+    EXPECT_LT(testing::AdjointMismatch(c, nufft.Execute(c), v, nufft.Adjoint(v)), 1e-14)
+        << modes[0] << "x" << modes[1] << "x" << modes[2];
+  }
+}
+
+TEST(Nufft, AdjointDoesNotDependOnThreads) {
+  TestRng rng(20);
+  const Eigen::Matrix3Xd x = RandomCloud(rng, 500, {3, 3, 3}, Eigen::Vector3d::Zero());
+  const Eigen::Matrix3Xd s = RandomCloud(rng, 2000, {5, 5, 5}, Eigen::Vector3d::Zero());
+  const Eigen::MatrixXcd v = RandomStrengths(rng, 2000, 2);
+  const Eigen::MatrixXcd g1 = Nufft3(x, s, NufftOptions{1e-9, 1}).Adjoint(v);
+  const Eigen::MatrixXcd g2 = Nufft3(x, s, NufftOptions{1e-9, 2}).Adjoint(v);
+  const Eigen::MatrixXcd g3 = Nufft3(x, s, NufftOptions{1e-9, 3}).Adjoint(v);
+  EXPECT_EQ((g1 - g2).cwiseAbs().maxCoeff(), 0.0);
+  EXPECT_EQ((g1 - g3).cwiseAbs().maxCoeff(), 0.0);
+}
+
+// One const transform executed from several threads at once (the FFTW plans are
+// made once and shared; each execution has its own grid): every result equals
+// the serial one bit for bit, for each component count (one plan each).
+TEST(Nufft, ConcurrentExecutesOfOneTransformAgree) {
+  TestRng rng(17);
+  const Eigen::Matrix3Xd x = RandomCloud(rng, 200, {3, 2, 1}, Eigen::Vector3d::Zero());
+  const Eigen::Matrix3Xd s = RandomCloud(rng, 300, {5, 5, 5}, Eigen::Vector3d::Zero());
+  const Nufft3 nufft(x, s, NufftOptions{1e-9, 1});
+  std::vector<Eigen::MatrixXcd> in, serial;
+  for (int cols = 1; cols <= 3; ++cols) {
+    in.push_back(RandomStrengths(rng, 200, cols));
+    serial.push_back(Nufft3(x, s, NufftOptions{1e-9, 1}).Execute(in.back()));
+  }
+  constexpr int kThreads = 4, kRepeats = 5;
+  std::vector<std::vector<Eigen::MatrixXcd>> got(kThreads);
+  std::vector<std::thread> threads;
+  for (int t = 0; t < kThreads; ++t) {
+    threads.emplace_back([&, t] {
+      for (int r = 0; r < kRepeats; ++r) {
+        for (std::size_t i = 0; i < in.size(); ++i) {
+          got[static_cast<std::size_t>(t)].push_back(nufft.Execute(in[(i + t) % in.size()]));
+        }
+      }
+    });
+  }
+  for (std::thread& t : threads) t.join();
+  for (int t = 0; t < kThreads; ++t) {
+    const auto& g = got[static_cast<std::size_t>(t)];
+    ASSERT_EQ(g.size(), in.size() * kRepeats);
+    for (std::size_t k = 0; k < g.size(); ++k) {
+      const Eigen::MatrixXcd& want = serial[(k + static_cast<std::size_t>(t)) % in.size()];
+      ASSERT_EQ(g[k].cols(), want.cols());
+      EXPECT_EQ((g[k] - want).cwiseAbs().maxCoeff(), 0.0) << "thread " << t << ", call " << k;
+    }
+  }
+}
+
 // The type-2 stage on its own: modes l_d = i_d - floor(M_d / 2) against the
 // direct sum sum_l c_l exp(+i l . t_k), in long double. Odd and even mode counts,
 // one to three active dimensions, and targets far outside one period (the sum
@@ -165,6 +263,8 @@ TEST(Nufft, RejectsBadArguments) {
   const Nufft3 nufft(x, x, NufftOptions{1e-6, 0});
   EXPECT_THROW(nufft.Execute(Eigen::MatrixXcd::Ones(4, 1)), InvalidArgument);
   EXPECT_THROW(nufft.Execute(Eigen::MatrixXcd::Ones(5, 4)), InvalidArgument);
+  EXPECT_THROW(nufft.Adjoint(Eigen::MatrixXcd::Ones(4, 1)), InvalidArgument);
+  EXPECT_THROW(nufft.Adjoint(Eigen::MatrixXcd::Ones(5, 0)), InvalidArgument);
 }
 
 }  // namespace

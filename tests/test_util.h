@@ -32,6 +32,20 @@ inline FieldOptions DirectMethod(int num_threads = 0) {
   return o;
 }
 
+// Full-sphere grid of the given step (theta 0 to 180, phi 0 to 360 deg).
+inline Directions SphereGrid(double step_deg) {
+  return Directions::FromGrid(AngularGrid::FromRanges({0, 180, step_deg}, {0, 360, step_deg}));
+}
+
+// Field options with the given method, tolerance and threads.
+inline FieldOptions MethodOptions(FieldMethod m, double tol = 1e-9, int threads = 0) {
+  FieldOptions o;
+  o.method = m;
+  o.tolerance_relative = tol;
+  o.num_threads = threads;
+  return o;
+}
+
 // mt19937_64's output sequence is fixed by the C++ standard; the mapping to [0, 1)
 // below is ours, so the same seed gives the same arrays on every platform.
 class TestRng {
@@ -106,6 +120,22 @@ inline Array RandomArray(TestRng& rng, int n, Ground ground, double extent_wavel
         rng.Uniform() < 0.5 ? Distribution::kUniform : Distribution::kTriangular;
     a.dipoles.push_back(MakeDipole(p, rng.UnitVector(), rng.Uniform(1e-3, 0.05) * lambda,
                                    rng.Phasor(0.1, 2.0), dist));
+  }
+  return a;
+}
+
+// side x side z-directed dipoles on a planar half-wavelength lattice (a quarter
+// wavelength up over PEC), random currents: one moment axis (the collinear
+// kernels) and, on the fast path, the lattice transform.
+inline Array ZLattice(TestRng& rng, int side, Ground ground = Ground::kNone) {
+  Array a;
+  a.frequency_hz = kTestFrequency_hz;
+  a.ground = ground;
+  const double lambda = a.wavelength_m();
+  for (int i = 0; i < side * side; ++i) {
+    const Vec3 p(0.5 * lambda * (i % side), 0.5 * lambda * (i / side),
+                 ground == Ground::kPec ? 0.25 * lambda : 0.0);
+    a.dipoles.push_back(MakeDipole(p, Vec3::UnitZ(), 0.02 * lambda, rng.Phasor(0.1, 2.0)));
   }
   return a;
 }

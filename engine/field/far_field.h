@@ -36,11 +36,25 @@
 namespace lobecast {
 
 struct AxisLattice;  // engine/field/lattice.h
+class PointSum;      // engine/field/nufft.h
 
 struct FarField {
   Eigen::VectorXcd e_theta;  // rE_theta per direction, V
   Eigen::VectorXcd e_phi;    // rE_phi per direction, V
+  // The error bound the field met, relative to its peak over the plan's
+  // directions (<= FieldOptions::tolerance_relative): the fast path's; 0 for an
+  // exact (direct) sum.
+  double error_bound_relative = 0;
   std::size_t size() const { return static_cast<std::size_t>(e_theta.size()); }
+};
+
+// y = A^H W x per dipole: FieldPlan::ExecuteAdjoint's result.
+struct DipoleSums {
+  // One per dipole, in the units of the field times ohms (A's entries are V per A).
+  Eigen::VectorXcd values;
+  // Fast path: the error bound met, relative to max_n |y_n| (<= the plan's
+  // tolerance_relative); 0 for an exact (direct) sum.
+  double error_bound_relative = 0;
 };
 
 enum class FieldMethod { kDirect, kFast, kAuto };
@@ -98,6 +112,27 @@ class FieldPlan {
   // on no directions too. Thread-safe.
   FarField ExecuteAt(const Eigen::VectorXcd& currents_a, const Directions& directions) const;
 
+  // The adjoint of Execute. A is the linear map currents -> (rE_theta, rE_phi) at
+  // the plan's directions that Execute applies (images fold back onto their
+  // dipoles; directions the ground zeroes are zero rows); with x = field (one
+  // value per plan direction) and W = diag(weights) (the identity when weights
+  // is empty), this returns y = A^H W x:
+  //
+  //   y_n = sum_i w_i [conj(A_theta(i, n)) x_theta_i + conj(A_phi(i, n)) x_phi_i].
+  //
+  // For least squares (the gradient A^H W (A I - target)) and for quadratic forms
+  // by quadrature, e.g. P = (1 / 2 eta0) sum_i w_i |rE_i|^2 = 1/2 I^H R I with
+  // R ~ A^H W A / eta0 (w_i the solid-angle weights). Direct path: exact to
+  // rounding, vectorized like Execute, threaded over sources; the result does not
+  // depend on the thread count. Fast path: the transforms' exact adjoints, the
+  // same tolerance search and error bound as Execute (relative to max_n |y_n|),
+  // and the same fallback to the direct sum. Thread-safe.
+  DipoleSums ExecuteAdjoint(const FarField& field, const Eigen::VectorXd& weights = {}) const;
+  // The same for Cartesian field vectors rE (3 x directions): x_theta = theta_hat . rE,
+  // x_phi = phi_hat . rE (A's values are transverse, so a radial part adds nothing).
+  DipoleSums ExecuteAdjoint(const Eigen::Matrix3Xcd& field,
+                            const Eigen::VectorXd& weights = {}) const;
+
   std::size_t num_dipoles() const { return num_dipoles_; }
   std::size_t num_sources() const { return static_cast<std::size_t>(source_pos_.cols()); }
   std::size_t num_directions() const { return static_cast<std::size_t>(dirs_.k_r_hat.cols()); }
@@ -107,12 +142,9 @@ class FieldPlan {
   // The fast path's transform (kNone for the direct path): the lattice one when
   // the sources sit on a lattice and it is estimated cheaper than type 3.
   FastTransform fast_transform() const { return fast_transform_; }
-  // Fast path: the error bound it met for the last current vector, relative to
-  // that pattern's peak (<= tolerance_relative); 0 for the direct path.
-  double error_bound_relative() const;
 
  private:
-  struct FastCache;  // defined in far_field.cpp
+  struct FastCache;  // engine/field/fast_path.h
 
   // Per-direction data the direct sum reads: k r_hat, theta_hat, phi_hat, zeroed.
   struct DirectionData {
@@ -120,12 +152,26 @@ class FieldPlan {
     std::vector<unsigned char> zeroed;  // 1 where the ground forces E = 0
   };
   DirectionData MakeDirectionData(const Directions& directions) const;
+
+  // The exact sums (direct_sum.cpp).
   void ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                      FarField& out) const;
   void SumDirect(const Eigen::VectorXcd& currents_a, const DirectionData& dirs, std::size_t first,
                  std::size_t count, FarField& out) const;
+  // y = A^H W x from v_i = w_i (theta_hat_i x_theta_i + phi_hat_i x_phi_i)
+  // (3 x directions, zero where the ground zeroes the field):
+  // y_n = j (w mu0 / 4 pi) sum over n's sources s of m_s . sum_i v_i exp(-j k_i . r_s).
+  Eigen::VectorXcd AdjointDirect(const Eigen::Matrix3Xcd& v) const;
+
+  // The fast path (fast_path.cpp).
   void ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                    FarField& out) const;
+  // The fast path's transform at tolerance eps (cached by its exponent); the
+  // caller holds cache.mutex.
+  std::shared_ptr<const PointSum> FastPlanLocked(FastCache& cache, double eps) const;
+  DipoleSums AdjointFast(const Eigen::Matrix3Xcd& v) const;
+
+  // The cost model behind kAuto and the transform choice (method_cost.cpp).
   double EstimatedDirectSeconds() const;
   double EstimatedType3Seconds() const;
   double EstimatedLatticeSeconds() const;

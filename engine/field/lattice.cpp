@@ -223,14 +223,40 @@ LatticeSum::LatticeSum(const AxisLattice& lattice, const Eigen::Matrix3Xd& targe
   layer_sum_ = std::make_unique<const Nufft2>(modes, std::move(t), options);
 }
 
-Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
-  if (static_cast<std::size_t>(strengths.rows()) != num_points_ || strengths.cols() < 1 ||
-      strengths.cols() > 3) {
-    std::ostringstream m;
-    m << "lattice sum strengths: found " << strengths.rows() << " x " << strengths.cols()
-      << ", expected " << num_points_ << " x 1 to 3";
-    throw InvalidArgument(m.str());
+void LatticeSum::CheckRows(const Eigen::MatrixXcd& m, std::size_t rows, const char* what) const {
+  if (static_cast<std::size_t>(m.rows()) != rows || m.cols() < 1 || m.cols() > 3) {
+    std::ostringstream s;
+    s << "lattice sum " << what << ": found " << m.rows() << " x " << m.cols() << ", expected "
+      << rows << " x 1 to 3";
+    throw InvalidArgument(s.str());
   }
+}
+
+Eigen::VectorXcd LatticeSum::LayerPhases(int layer) const {
+  // The layer's site along each layered dimension: mixed-radix digits, the last
+  // layered dimension fastest (as point_layer_ counts them).
+  const auto nl = static_cast<Eigen::Index>(layered_.size());
+  Eigen::VectorXd n(nl);
+  for (Eigen::Index l = nl - 1, r = layer; l >= 0; --l) {
+    const int m = layered_sites_[static_cast<std::size_t>(l)];
+    n[l] = static_cast<double>(r % m);
+    r /= m;
+  }
+  const Eigen::Index nk = target_factor_.size();
+  Eigen::VectorXcd phases(nk);
+#pragma omp parallel for num_threads(ResolveThreads(num_threads_)) schedule(static)
+  for (Eigen::Index k = 0; k < nk; ++k) {
+    double phase = 0;
+    for (Eigen::Index l = 0; l < nl; ++l) phase += layer_targets_(l, k) * n[l];
+    double sn = 0, cs = 1;
+    if (nl > 0) SinCos(phase, sn, cs);
+    phases[k] = Complex(cs, sn);
+  }
+  return phases;
+}
+
+Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
+  CheckRows(strengths, num_points_, "strengths");
   const Eigen::Index nc = strengths.cols();
   const auto rows = static_cast<Eigen::Index>(layer_sum_->num_modes());
   // Strengths summed per site, layer by layer (in point order: deterministic).
@@ -241,28 +267,40 @@ Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
         strengths.row(static_cast<Eigen::Index>(j));
   }
   const Eigen::Index nk = target_factor_.size();
-  const auto nl = static_cast<Eigen::Index>(layered_.size());
   Eigen::MatrixXcd out = Eigen::MatrixXcd::Zero(nk, nc);
   for (int layer = 0; layer < shape_.layers; ++layer) {
     const Eigen::MatrixXcd f = layer_sum_->Execute(coefficients[static_cast<std::size_t>(layer)]);
-    // The layer's site along each layered dimension: mixed-radix digits, the
-    // last layered dimension fastest (as point_layer_ counts them).
-    Eigen::VectorXd n(nl);
-    for (Eigen::Index l = nl - 1, r = layer; l >= 0; --l) {
-      const int m = layered_sites_[static_cast<std::size_t>(l)];
-      n[l] = static_cast<double>(r % m);
-      r /= m;
-    }
+    const Eigen::VectorXcd phases = LayerPhases(layer);
 #pragma omp parallel for num_threads(ResolveThreads(num_threads_)) schedule(static)
     for (Eigen::Index k = 0; k < nk; ++k) {
-      double phase = 0;
-      for (Eigen::Index l = 0; l < nl; ++l) phase += layer_targets_(l, k) * n[l];
-      double sn = 0, cs = 1;
-      if (nl > 0) SinCos(phase, sn, cs);
-      for (Eigen::Index a = 0; a < nc; ++a) out(k, a) += Complex(cs, sn) * f(k, a);
+      for (Eigen::Index a = 0; a < nc; ++a) out(k, a) += phases[k] * f(k, a);
     }
   }
   for (Eigen::Index a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(target_factor_);
+  return out;
+}
+
+Eigen::MatrixXcd LatticeSum::Adjoint(const Eigen::MatrixXcd& values) const {
+  const Eigen::Index nk = target_factor_.size();
+  CheckRows(values, static_cast<std::size_t>(nk), "values");
+  const Eigen::Index nc = values.cols();
+  // Execute's steps transposed, in reverse: target factors, then per layer its
+  // phases and the layer transform's adjoint, then each point reads its site.
+  Eigen::MatrixXcd v(nk, nc);
+  for (Eigen::Index a = 0; a < nc; ++a)
+    v.col(a) = values.col(a).cwiseProduct(target_factor_.conjugate());
+  std::vector<Eigen::MatrixXcd> coefficients;
+  for (int layer = 0; layer < shape_.layers; ++layer) {
+    const Eigen::VectorXcd phases = LayerPhases(layer);
+    Eigen::MatrixXcd vl(nk, nc);
+    for (Eigen::Index a = 0; a < nc; ++a) vl.col(a) = v.col(a).cwiseProduct(phases.conjugate());
+    coefficients.push_back(layer_sum_->Adjoint(vl));
+  }
+  Eigen::MatrixXcd out(static_cast<Eigen::Index>(num_points_), nc);
+  for (std::size_t j = 0; j < num_points_; ++j) {
+    out.row(static_cast<Eigen::Index>(j)) =
+        coefficients[static_cast<std::size_t>(point_layer_[j])].row(point_row_[j]);
+  }
   return out;
 }
 

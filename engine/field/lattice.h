@@ -60,12 +60,20 @@ class LatticeSum : public PointSum {
 
   // strengths: N x C (one row per point of the lattice), C = 1 to 3; K x C.
   Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& strengths) const override;
+  // values: K x C; returns N x C (PointSum::Adjoint; points on one site get the
+  // same value).
+  Eigen::MatrixXcd Adjoint(const Eigen::MatrixXcd& values) const override;
   // max_k |s_k| * max_offset: the phase error of placing points on their sites.
   double representation_error() const override { return representation_error_; }
 
   const LatticeShape& shape() const { return shape_; }
 
  private:
+  // Throws unless m is rows x 1 to 3.
+  void CheckRows(const Eigen::MatrixXcd& m, std::size_t rows, const char* what) const;
+  // exp(i sum over layered dimensions of t_d n_d) per target, n the layer's site.
+  Eigen::VectorXcd LayerPhases(int layer) const;
+
   LatticeShape shape_;
   std::size_t num_points_ = 0;
   std::array<int, 3> order_{0, 1, 2};    // dimension d of the lattice in mode slot i

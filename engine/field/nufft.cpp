@@ -5,8 +5,11 @@
 #include <algorithm>
 #include <cmath>
 #include <complex>
+#include <memory>
 #include <mutex>
+#include <new>
 #include <sstream>
+#include <type_traits>
 #include <utility>
 
 #include <fftw3.h>
@@ -26,11 +29,36 @@ using Complex = std::complex<double>;
 constexpr double kUpsampling = 2.0;  // sigma, for both the spread and the FFT grid
 constexpr int kMaxWidth = 16;
 
-// FFTW's planner is not thread-safe; execution is.
+// FFTW's planner (fftw_plan_* and fftw_destroy_plan) is not thread-safe;
+// execution is, also of one plan on several arrays at once (FFTW 3 manual,
+// sec. 5.4 "Thread safety" and 4.6 "New-array Execute Functions").
 std::mutex& FftwPlannerMutex() {
   static std::mutex m;
   return m;
 }
+
+// An fftw_malloc'd array (SIMD-aligned, so every buffer has the alignment the
+// plans were made for), freed by fftw_free.
+struct FftwFree {
+  void operator()(Complex* p) const { fftw_free(p); }
+};
+using FftwBuffer = std::unique_ptr<Complex[], FftwFree>;
+
+FftwBuffer AllocateFftw(std::size_t n) {
+  auto* p = static_cast<Complex*>(fftw_malloc(sizeof(Complex) * n));
+  if (!p) throw std::bad_alloc();
+  return FftwBuffer(p);
+}
+
+fftw_complex* AsFftw(Complex* p) { return reinterpret_cast<fftw_complex*>(p); }
+
+struct FftwPlanDestroy {
+  void operator()(fftw_plan p) const {
+    const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+    fftw_destroy_plan(p);
+  }
+};
+using FftwPlan = std::unique_ptr<std::remove_pointer_t<fftw_plan>, FftwPlanDestroy>;
 
 int WidthFor(double tolerance) {
   // Barnett et al. 2019, sec. 4.1: w = ceil(log10(1/eps)) + 1 at sigma = 2.
@@ -214,6 +242,68 @@ void InterpolateTargets(const GridView& g, const Eigen::Matrix3Xd& targets, std:
   }
 }
 
+// The transpose of InterpolateTargets: grid(cells around point j) += kernel
+// weights * values(j, :) for every point j (grid units in coords), threaded
+// without races or thread-dependent sums: threads own slabs of the grid along its
+// first dimension of more than one cell, and every thread visits the points in
+// order, so each cell's sum runs in point order whatever the thread count.
+void SpreadPoints(Complex* grid, const GridView& g, const Eigen::Matrix3Xd& coords,
+                  const Eigen::MatrixXcd& values, int threads) {
+  int slab_dim = 0;
+  while (slab_dim < 2 && g.n2[static_cast<std::size_t>(slab_dim)] == 1) ++slab_dim;
+#pragma omp parallel num_threads(threads)
+  {
+    const int t = omp_get_thread_num(), nt = omp_get_num_threads();
+    const long slab_n = g.n2[static_cast<std::size_t>(slab_dim)];
+    const int lo = static_cast<int>(slab_n * t / nt), hi = static_cast<int>(slab_n * (t + 1) / nt);
+    double wt[3][kMaxWidth];
+    int idx[3][kMaxWidth];
+    for (Eigen::Index j = 0; j < coords.cols(); ++j) {
+      int len[3];
+      for (int i = 0; i < 3; ++i) {
+        const int d = (slab_dim + i) % 3;  // this thread's slab first
+        const auto u = static_cast<std::size_t>(d);
+        len[d] = KernelWeights(g.n2[u] > 1, g.beta, g.w, coords(d, j), g.n2[u], wt[d], idx[d]);
+        if (d == slab_dim) {  // keep only this thread's slab
+          int k = 0;
+          for (int l = 0; l < len[d]; ++l) {
+            if (idx[d][l] >= lo && idx[d][l] < hi) wt[d][k] = wt[d][l], idx[d][k] = idx[d][l], ++k;
+          }
+          len[d] = k;
+          if (k == 0) break;
+        }
+      }
+      if (len[slab_dim] == 0) continue;
+      for (int i0 = 0; i0 < len[0]; ++i0) {
+        for (int i1 = 0; i1 < len[1]; ++i1) {
+          const std::size_t base =
+              static_cast<std::size_t>(idx[0][i0]) * g.plane +
+              static_cast<std::size_t>(idx[1][i1]) * static_cast<std::size_t>(g.n2[2]);
+          const double w01 = wt[0][i0] * wt[1][i1];
+          for (int a = 0; a < g.nc; ++a) {
+            Complex* row = grid + static_cast<std::size_t>(a) * g.cells + base;
+            const Complex c = values(j, a);
+            for (int i2 = 0; i2 < len[2]; ++i2) row[idx[2][i2]] += (w01 * wt[2][i2]) * c;
+          }
+        }
+      }
+    }
+  }
+}
+
+// Interpolation at every column of coords (grid units), in parallel blocks.
+Eigen::MatrixXcd Interpolate(const GridView& g, const Eigen::Matrix3Xd& coords, int threads) {
+  Eigen::MatrixXcd out(coords.cols(), g.nc);
+  constexpr std::ptrdiff_t kBlock = 512;
+  const auto m = static_cast<std::ptrdiff_t>(coords.cols());
+  const std::ptrdiff_t blocks = (m + kBlock - 1) / kBlock;
+#pragma omp parallel for num_threads(threads) schedule(static)
+  for (std::ptrdiff_t b = 0; b < blocks; ++b) {
+    InterpolateTargets(g, coords, b * kBlock, std::min(m, (b + 1) * kBlock), out);
+  }
+  return out;
+}
+
 }  // namespace
 
 double NufftGeometry::kernel_points() const {
@@ -245,6 +335,55 @@ NufftGeometry Nufft2::GeometryFor(const std::array<int, 3>& modes, double tolera
   return g;
 }
 
+// The FFT of the zero-padded grid: one plan per component count (1 to 3) and
+// sign (backward for Execute, forward for Adjoint), run on every execution's own
+// buffer.
+namespace {
+
+// One execution's zeroed FFT grid and the plan to run on it.
+struct PaddedGrid {
+  FftwBuffer buffer;
+  fftw_plan plan;
+  GridView view;
+};
+
+}  // namespace
+
+struct Nufft2::Plans {
+  // A zeroed grid for nc components of the FFT grid of g, with the plan of the
+  // given sign for it.
+  PaddedGrid NewGrid(const NufftGeometry& g, double beta, int nc, int sign) {
+    const std::array<int, 3>& n2 = g.fft_size;
+    const std::size_t plane = static_cast<std::size_t>(n2[1]) * static_cast<std::size_t>(n2[2]);
+    const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
+    FftwBuffer buffer = AllocateFftw(cells * static_cast<std::size_t>(nc));
+    Complex* const grid = buffer.get();
+    const fftw_plan plan = Get(n2, nc, sign, grid);
+    std::fill(grid, grid + cells * static_cast<std::size_t>(nc), Complex(0.0));
+    return PaddedGrid{std::move(buffer), plan,
+                      GridView{grid, n2, plane, cells, nc, beta, g.kernel_width}};
+  }
+
+  // The plan for nc components of the grid n2, made on first use (FFTW_ESTIMATE
+  // neither reads nor writes the array it plans on); later calls return it.
+  fftw_plan Get(const std::array<int, 3>& n2, int nc, int sign, Complex* grid) {
+    const auto i = static_cast<std::size_t>(nc - 1 + (sign == FFTW_FORWARD ? 3 : 0));
+    std::call_once(once[i], [&] {
+      const int cells = n2[0] * n2[1] * n2[2];
+      const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
+      fftw_plan p = fftw_plan_many_dft(3, n2.data(), nc, AsFftw(grid), nullptr, 1, cells,
+                                       AsFftw(grid), nullptr, 1, cells, sign, FFTW_ESTIMATE);
+      if (!p) throw std::bad_alloc();
+      plan[i].reset(p);
+    });
+    return plan[i].get();
+  }
+  std::array<std::once_flag, 6> once;
+  std::array<FftwPlan, 6> plan;
+};
+
+Nufft2::~Nufft2() = default;
+
 std::size_t Nufft2::num_modes() const {
   return static_cast<std::size_t>(modes_[0]) * static_cast<std::size_t>(modes_[1]) *
          static_cast<std::size_t>(modes_[2]);
@@ -254,7 +393,8 @@ Nufft2::Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
                const NufftOptions& options)
     : geometry_(GeometryFor(modes, options.tolerance)),
       modes_(modes),
-      num_threads_(options.num_threads) {
+      num_threads_(options.num_threads),
+      plans_(std::make_unique<Plans>()) {
   const int w = geometry_.kernel_width;
   // Barnett et al. 2019, sec. 4.1: beta = 2.30 w at sigma = 2.
   beta_ = 2.30 * w;
@@ -285,62 +425,66 @@ Nufft2::Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
   targets_ = std::move(targets);
 }
 
-Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
-  CheckStrengths(coefficients, static_cast<Eigen::Index>(num_modes()), "coefficients");
-  const int w = geometry_.kernel_width;
-  const auto nc = static_cast<int>(coefficients.cols());
-  const std::array<int, 3>& n2 = geometry_.fft_size;
-  const std::size_t plane = static_cast<std::size_t>(n2[1]) * static_cast<std::size_t>(n2[2]);
-  const std::size_t cells = static_cast<std::size_t>(n2[0]) * plane;
-  const int threads = ResolveThreads(num_threads_);
+namespace {
 
-  auto* grid =
-      static_cast<Complex*>(fftw_malloc(sizeof(Complex) * cells * static_cast<std::size_t>(nc)));
-  if (!grid) throw std::bad_alloc();
-  std::fill(grid, grid + cells * static_cast<std::size_t>(nc), Complex(0.0));
-
-  // 1. Deconvolved modes into the zero-padded grid (mode l at cell l mod n2).
-  for (int i0 = 0; i0 < modes_[0]; ++i0) {
-    const std::size_t r0 = static_cast<std::size_t>((i0 - modes_[0] / 2 + n2[0]) % n2[0]);
-    for (int i1 = 0; i1 < modes_[1]; ++i1) {
-      const std::size_t r1 = static_cast<std::size_t>((i1 - modes_[1] / 2 + n2[1]) % n2[1]);
-      const double d01 = deconvolution_[0][static_cast<std::size_t>(i0)] *
-                         deconvolution_[1][static_cast<std::size_t>(i1)];
-      const auto row0 = (static_cast<Eigen::Index>(i0) * modes_[1] + i1) * modes_[2];
-      for (int i2 = 0; i2 < modes_[2]; ++i2) {
+// Calls f(row, cell, factor) for every mode of a Nufft2: its row in the
+// coefficient matrix, its cell (l mod n2) in the zero-padded grid of plane
+// n2[1] n2[2] cells, and its deconvolution factor.
+template <class F>
+void ForEachMode(const std::array<int, 3>& modes, const std::array<int, 3>& n2, std::size_t plane,
+                 const std::array<std::vector<double>, 3>& deconvolution, F f) {
+  for (int i0 = 0; i0 < modes[0]; ++i0) {
+    const std::size_t r0 = static_cast<std::size_t>((i0 - modes[0] / 2 + n2[0]) % n2[0]);
+    for (int i1 = 0; i1 < modes[1]; ++i1) {
+      const std::size_t r1 = static_cast<std::size_t>((i1 - modes[1] / 2 + n2[1]) % n2[1]);
+      const double d01 = deconvolution[0][static_cast<std::size_t>(i0)] *
+                         deconvolution[1][static_cast<std::size_t>(i1)];
+      const auto row0 = (static_cast<Eigen::Index>(i0) * modes[1] + i1) * modes[2];
+      for (int i2 = 0; i2 < modes[2]; ++i2) {
         const std::size_t cell = r0 * plane + r1 * static_cast<std::size_t>(n2[2]) +
-                                 static_cast<std::size_t>((i2 - modes_[2] / 2 + n2[2]) % n2[2]);
-        const double f = d01 * deconvolution_[2][static_cast<std::size_t>(i2)];
-        for (int a = 0; a < nc; ++a) {
-          grid[static_cast<std::size_t>(a) * cells + cell] = f * coefficients(row0 + i2, a);
-        }
+                                 static_cast<std::size_t>((i2 - modes[2] / 2 + n2[2]) % n2[2]);
+        f(row0 + i2, cell, d01 * deconvolution[2][static_cast<std::size_t>(i2)]);
       }
     }
   }
+}
+
+}  // namespace
+
+Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
+  CheckStrengths(coefficients, static_cast<Eigen::Index>(num_modes()), "coefficients");
+  const auto nc = static_cast<int>(coefficients.cols());
+  const PaddedGrid g = plans_->NewGrid(geometry_, beta_, nc, FFTW_BACKWARD);
+  Complex* const grid = g.buffer.get();
+  // 1. Deconvolved modes into the zero-padded grid (mode l at cell l mod n2).
+  ForEachMode(modes_, g.view.n2, g.view.plane, deconvolution_,
+              [&](Eigen::Index row, std::size_t cell, double f) {
+                for (int a = 0; a < nc; ++a)
+                  grid[static_cast<std::size_t>(a) * g.view.cells + cell] =
+                      f * coefficients(row, a);
+              });
   // 2. g_m = sum_l b_l exp(+i 2 pi l m / n2): FFTW's backward transform.
-  {
-    fftw_plan plan;
-    {
-      const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
-      plan = fftw_plan_many_dft(3, n2.data(), nc, reinterpret_cast<fftw_complex*>(grid), nullptr, 1,
-                                static_cast<int>(cells), reinterpret_cast<fftw_complex*>(grid),
-                                nullptr, 1, static_cast<int>(cells), FFTW_BACKWARD, FFTW_ESTIMATE);
-    }
-    fftw_execute(plan);
-    const std::lock_guard<std::mutex> lock(FftwPlannerMutex());
-    fftw_destroy_plan(plan);
-  }
+  fftw_execute_dft(g.plan, AsFftw(grid), AsFftw(grid));
   // 3. Interpolate at each target with the kernel, in blocks of targets.
-  Eigen::MatrixXcd out(targets_.cols(), nc);
-  const GridView view{grid, n2, plane, cells, nc, beta_, w};
-  constexpr std::ptrdiff_t kBlock = 512;
-  const auto m = static_cast<std::ptrdiff_t>(targets_.cols());
-  const std::ptrdiff_t blocks = (m + kBlock - 1) / kBlock;
-#pragma omp parallel for num_threads(threads) schedule(static)
-  for (std::ptrdiff_t b = 0; b < blocks; ++b) {
-    InterpolateTargets(view, targets_, b * kBlock, std::min(m, (b + 1) * kBlock), out);
-  }
-  fftw_free(grid);
+  return Interpolate(g.view, targets_, ResolveThreads(num_threads_));
+}
+
+Eigen::MatrixXcd Nufft2::Adjoint(const Eigen::MatrixXcd& values) const {
+  CheckStrengths(values, targets_.cols(), "values (one row per target)");
+  const auto nc = static_cast<int>(values.cols());
+  const PaddedGrid g = plans_->NewGrid(geometry_, beta_, nc, FFTW_FORWARD);
+  Complex* const grid = g.buffer.get();
+  // Execute's steps transposed, in reverse: 3. spread each target's values with
+  // the kernel; 2. b_l = sum_m g_m exp(-i 2 pi l m / n2), FFTW's forward
+  // transform; 1. read the modes' cells, times the (real) deconvolution.
+  SpreadPoints(grid, g.view, targets_, values, ResolveThreads(num_threads_));
+  fftw_execute_dft(g.plan, AsFftw(grid), AsFftw(grid));
+  Eigen::MatrixXcd out(static_cast<Eigen::Index>(num_modes()), nc);
+  ForEachMode(modes_, g.view.n2, g.view.plane, deconvolution_,
+              [&](Eigen::Index row, std::size_t cell, double f) {
+                for (int a = 0; a < nc; ++a)
+                  out(row, a) = f * grid[static_cast<std::size_t>(a) * g.view.cells + cell];
+              });
   return out;
 }
 
@@ -438,61 +582,47 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
   grid_sum_ = std::make_unique<const Nufft2>(modes, std::move(centred), options);
 }
 
+Eigen::Matrix3Xd Nufft3::GridCoordinates() const {
+  // Cell l + n/2 in each dimension: the grid was sized so that no kernel reaches
+  // past its edge (the modulo in KernelWeights never wraps).
+  Eigen::Matrix3Xd u(3, points_.cols());
+  for (int d = 0; d < 3; ++d) {
+    const Dim& dim = dims_[static_cast<std::size_t>(d)];
+    for (Eigen::Index j = 0; j < points_.cols(); ++j) u(d, j) = points_(d, j) / dim.h + dim.n / 2;
+  }
+  return u;
+}
+
 Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
   CheckStrengths(strengths, points_.cols(), "strengths (one row per point)");
-  const int w = geometry_.kernel_width;
   const auto nc = static_cast<int>(strengths.cols());
   const std::array<int, 3> n{dims_[0].n, dims_[1].n, dims_[2].n};
-  const auto plane = static_cast<Eigen::Index>(n[1]) * n[2];
-  Eigen::MatrixXcd grid = Eigen::MatrixXcd::Zero(static_cast<Eigen::Index>(n[0]) * plane, nc);
-
-  // Spread c_j exp(i D . x'_j) onto the grid (cell l + n/2: the grid was sized so
-  // that no kernel reaches past its edge). Threads own slabs of the grid along its
-  // first non-trivial dimension and every thread visits the points in order, so
-  // each cell's sum runs in point order whatever the thread count.
-  int slab_dim = 0;
-  while (slab_dim < 2 && n[static_cast<std::size_t>(slab_dim)] == 1) ++slab_dim;
+  const auto plane = static_cast<std::size_t>(n[1]) * static_cast<std::size_t>(n[2]);
+  const std::size_t cells = static_cast<std::size_t>(n[0]) * plane;
+  Eigen::MatrixXcd grid = Eigen::MatrixXcd::Zero(static_cast<Eigen::Index>(cells), nc);
+  // Spread c_j exp(i D . x'_j) onto the grid.
   Eigen::MatrixXcd phased(points_.cols(), nc);
   for (int c = 0; c < nc; ++c) phased.col(c) = strengths.col(c).cwiseProduct(point_phase_);
-#pragma omp parallel num_threads(ResolveThreads(num_threads_))
-  {
-    const int t = omp_get_thread_num(), nt = omp_get_num_threads();
-    const long slab_n = n[static_cast<std::size_t>(slab_dim)];
-    const int lo = static_cast<int>(slab_n * t / nt), hi = static_cast<int>(slab_n * (t + 1) / nt);
-    double wt[3][kMaxWidth];
-    int idx[3][kMaxWidth];
-    for (Eigen::Index j = 0; j < points_.cols(); ++j) {
-      int len[3];
-      for (int d = 0; d < 3; ++d) {
-        const Dim& dim = dims_[static_cast<std::size_t>(d)];
-        // In-range cells: the modulo in KernelWeights never wraps here.
-        len[d] = KernelWeights(dim.active, beta_, w, points_(d, j) / dim.h + dim.n / 2, dim.n,
-                               wt[d], idx[d]);
-        if (d == slab_dim) {  // keep only this thread's slab
-          int k = 0;
-          for (int i = 0; i < len[d]; ++i) {
-            if (idx[d][i] >= lo && idx[d][i] < hi) wt[d][k] = wt[d][i], idx[d][k] = idx[d][i], ++k;
-          }
-          len[d] = k;
-        }
-      }
-      if (len[slab_dim] == 0) continue;
-      for (int i0 = 0; i0 < len[0]; ++i0) {
-        for (int i1 = 0; i1 < len[1]; ++i1) {
-          const Eigen::Index base =
-              idx[0][i0] * plane + static_cast<Eigen::Index>(idx[1][i1]) * n[2];
-          const double w01 = wt[0][i0] * wt[1][i1];
-          for (int a = 0; a < nc; ++a) {
-            Complex* row = grid.col(a).data() + base;
-            const Complex c = phased(j, a);
-            for (int i2 = 0; i2 < len[2]; ++i2) row[idx[2][i2]] += (w01 * wt[2][i2]) * c;
-          }
-        }
-      }
-    }
-  }
+  const GridView view{grid.data(), n, plane, cells, nc, beta_, geometry_.kernel_width};
+  SpreadPoints(grid.data(), view, GridCoordinates(), phased, ResolveThreads(num_threads_));
   Eigen::MatrixXcd out = grid_sum_->Execute(grid);
   for (int a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(target_factor_);
+  return out;
+}
+
+Eigen::MatrixXcd Nufft3::Adjoint(const Eigen::MatrixXcd& values) const {
+  CheckStrengths(values, target_factor_.size(), "values (one row per target)");
+  const auto nc = static_cast<int>(values.cols());
+  const std::array<int, 3> n{dims_[0].n, dims_[1].n, dims_[2].n};
+  const auto plane = static_cast<std::size_t>(n[1]) * static_cast<std::size_t>(n[2]);
+  const std::size_t cells = static_cast<std::size_t>(n[0]) * plane;
+  // Execute's steps transposed, in reverse.
+  Eigen::MatrixXcd v(values.rows(), nc);
+  for (int a = 0; a < nc; ++a) v.col(a) = values.col(a).cwiseProduct(target_factor_.conjugate());
+  const Eigen::MatrixXcd grid = grid_sum_->Adjoint(v);
+  const GridView view{grid.data(), n, plane, cells, nc, beta_, geometry_.kernel_width};
+  Eigen::MatrixXcd out = Interpolate(view, GridCoordinates(), ResolveThreads(num_threads_));
+  for (int a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(point_phase_.conjugate());
   return out;
 }
 

@@ -42,19 +42,27 @@ struct NufftOptions {
   int num_threads = 0;
 };
 
-// The sizes a transform will use, computable without building it (cost models).
 // f_k = sum_j c_j exp(+i s_k . x_j) for points and targets fixed at construction:
-// Nufft3 for any points, LatticeSum (lattice.h) for points on a lattice.
+// Nufft3 for any points, LatticeSum (lattice.h) for points on a lattice. Both
+// calls are const and thread-safe.
 class PointSum {
  public:
   virtual ~PointSum() = default;
   // strengths: N x C (C = 1 to 3); returns K x C, each within about
   // tolerance * sum_j |c_j| (plus representation_error() * sum_j |c_j|).
   virtual Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& strengths) const = 0;
+  // The adjoint, g_j = sum_k v_k exp(-i s_k . x_j): values K x C (C = 1 to 3),
+  // returns N x C. It is the exact adjoint of Execute as computed (the same
+  // kernel, grids and factors, transposed and in reverse order), so
+  // <Execute(c), v> = <c, Adjoint(v)> to rounding; against the exact sum each
+  // output is within about tolerance * sum_k |v_k| (plus representation_error()
+  // * sum_k |v_k|), the forward bound with the roles swapped.
+  virtual Eigen::MatrixXcd Adjoint(const Eigen::MatrixXcd& values) const = 0;
   // An error beyond the kernel's, relative to sum_j |c_j| (0: none).
   virtual double representation_error() const { return 0.0; }
 };
 
+// The sizes a transform will use, computable without building it (cost models).
 struct NufftGeometry {
   int kernel_width = 0;                     // w, grid points per active dimension
   int active_dims = 0;                      // dimensions that need a grid
@@ -81,22 +89,31 @@ class Nufft2 {
   // modes: M_d >= 1 per dimension; targets: 3 x K.
   Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
          const NufftOptions& options = {});
+  ~Nufft2();
   static NufftGeometry GeometryFor(const std::array<int, 3>& modes, double tolerance);
 
   // coefficients: (M_0 M_1 M_2) x C, C = 1 to 3, mode (l_0, l_1, l_2) in row
   // ((i_0 M_1) + i_1) M_2 + i_2 with i_d = l_d + floor(M_d / 2); returns K x C.
+  // Thread-safe: concurrent calls share the FFTW plans, each with its own grid.
   Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& coefficients) const;
+  // The adjoint, a type-1 sum c_l = sum_k v_k exp(-i l . t_k) computed as the
+  // transpose of Execute (spread, FFTW's forward transform, deconvolve): values
+  // K x C, returns (M_0 M_1 M_2) x C in Execute's row order. Thread-safe.
+  Eigen::MatrixXcd Adjoint(const Eigen::MatrixXcd& values) const;
 
   const NufftGeometry& geometry() const { return geometry_; }
   std::size_t num_modes() const;
 
  private:
+  struct Plans;  // FFTW plans, made once per component count (nufft.cpp)
+
   NufftGeometry geometry_;
   std::array<int, 3> modes_{1, 1, 1};
   double beta_ = 0;
   int num_threads_ = 0;
   Eigen::Matrix3Xd targets_;  // in grid units, t n2 / (2 pi), t reduced to [-pi, pi]
   std::array<std::vector<double>, 3> deconvolution_;  // h2 / psi2_hat(l), per mode
+  std::unique_ptr<Plans> plans_;
 };
 
 class Nufft3 : public PointSum {
@@ -109,6 +126,8 @@ class Nufft3 : public PointSum {
 
   // strengths: N x C with C = 1, 2 or 3; returns M x C.
   Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& strengths) const override;
+  // values: M x C; returns N x C (PointSum::Adjoint).
+  Eigen::MatrixXcd Adjoint(const Eigen::MatrixXcd& values) const override;
 
   const NufftGeometry& geometry() const { return geometry_; }
 
@@ -119,6 +138,8 @@ class Nufft3 : public PointSum {
     double h = 1;  // spread grid spacing (units of x)
     int n = 1;     // spread grid size
   };
+  Eigen::Matrix3Xd GridCoordinates() const;  // the points on the spread grid, cell units
+
   NufftGeometry geometry_;
   std::array<Dim, 3> dims_;
   double beta_ = 0;

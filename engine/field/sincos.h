@@ -1,6 +1,6 @@
 // sin and cos of one double, inlined and branch-free so that a loop calling it
 // under `#pragma omp simd` vectorizes (glibc's sin/cos/sincos are opaque calls
-// that GCC leaves scalar). Used by the direct far-field kernel (far_field.cpp)
+// that GCC leaves scalar). Used by the direct far-field kernels (direct_sum.cpp)
 // and the NUFFT (nufft.cpp).
 //
 // Method, two textbook steps:

@@ -21,6 +21,10 @@ LOBECAST="${LOBECAST:-$build/cli/lobecast}"
 
 work="$(mktemp -d)"
 trap 'rm -rf "$work"' EXIT
+# Everything from the line "## Measurements kept across runs" on (hand-written
+# before/after figures of past changes) is kept at the end of the new file.
+kept="$work/kept.md"
+if [[ -f "$out" ]]; then sed -n '/^## Measurements kept across runs/,$p' "$out" >"$kept"; fi
 load_before="$(cut -d' ' -f1-3 /proc/loadavg)"
 
 # N/step/layout (field_bench.cpp): 0 jittered lattice, 1 general, 2 exact lattice,
@@ -136,3 +140,6 @@ PY
   done
 } >>"$out"
 echo "appended the whole-job timing to $out" >&2
+if [[ -s "$kept" ]]; then
+  { echo; cat "$kept"; } >>"$out"
+fi

@@ -1,0 +1,83 @@
+// The cost model behind FieldMethod::kAuto and the choice of fast transform
+// (far_field.h): estimated seconds of the direct sum, type 3 and the lattice
+// transform for a plan.
+#include <algorithm>
+#include <array>
+#include <cmath>
+
+#include "engine/field/far_field.h"
+#include "engine/field/fast_path.h"
+#include "engine/field/lattice.h"
+#include "engine/field/nufft.h"
+#include "engine/threads.h"
+
+namespace lobecast {
+namespace {
+
+// Cost model for kAuto: CPU seconds per unit on one core of the development
+// machine (AMD EPYC at 2.1 GHz, AVX-512 clone), from tests/bench/field_bench.cpp
+// process CPU times. Only their ratios matter; the 0.5 margin in the choice
+// absorbs the model's roughness.
+constexpr double kSecondsPerPairCollinear = 1.0 / 6.5e8;
+constexpr double kSecondsPerPairGeneral = 1.0 / 4.5e8;
+constexpr double kSecondsPerKernelPoint = 2.0e-9;    // spread or interpolate, per component
+constexpr double kSecondsPerFftPointLog = 1.0e-9;    // per grid point and log2(size), per component
+constexpr double kSecondsPerTargetPass = 1.0e-6;     // kernel transforms, phases, copies
+constexpr double kSecondsPerLatticeTarget = 6.0e-7;  // lattice: phases, projection, copies
+constexpr double kSecondsPerLayerTarget = 8.0e-8;    // lattice: one layer's phase and sum
+constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
+
+}  // namespace
+
+double FieldPlan::EstimatedDirectSeconds() const {
+  std::size_t live = 0;
+  for (unsigned char z : dirs_.zeroed) live += z ? 0 : 1;
+  const double per = collinear_ ? kSecondsPerPairCollinear : kSecondsPerPairGeneral;
+  const int threads = ResolveThreads(num_threads_);
+  return static_cast<double>(live) * static_cast<double>(num_sources()) * per / threads;
+}
+
+// A scout pass, then one about three digits tighter than asked (the peak is
+// below sum |c|, often well below for irregular currents, and the error model
+// carries a factor 10): the tolerances both fast estimates cost.
+std::array<double, 2> PassTolerances(double tolerance_relative) {
+  return {kScoutTolerance, std::max(1e-14, 1e-3 * tolerance_relative)};
+}
+
+double FieldPlan::EstimatedType3Seconds() const {
+  const double comps = collinear_ ? 1.0 : 3.0;
+  const int threads = ResolveThreads(num_threads_);
+  double total = 0;
+  for (double eps : PassTolerances(tolerance_relative_)) {
+    const NufftGeometry g = Nufft3::GeometryFor(source_pos_, dirs_.k_r_hat, eps);
+    if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
+    const double spread = static_cast<double>(num_sources()) * g.kernel_points() * comps;
+    const double interp =
+        static_cast<double>(num_directions()) * g.kernel_points() * comps / threads;
+    const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
+    total += (spread + interp) * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog +
+             static_cast<double>(num_directions()) * kSecondsPerTargetPass / threads;
+  }
+  return total;
+}
+
+double FieldPlan::EstimatedLatticeSeconds() const {
+  if (!lattice_) return 1e300;
+  const double comps = collinear_ ? 1.0 : 3.0;
+  const int threads = ResolveThreads(num_threads_);
+  const auto nd = static_cast<double>(num_directions());
+  double total = 0;
+  for (double eps : PassTolerances(tolerance_relative_)) {
+    const LatticeShape shape = LatticeSum::ShapeFor(*lattice_, eps);
+    const NufftGeometry& g = shape.per_layer;
+    if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
+    const double interp = nd * g.kernel_points() * comps / threads;
+    const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
+    total += shape.layers * (interp * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog +
+                             nd * comps * kSecondsPerLayerTarget / threads) +
+             nd * kSecondsPerLatticeTarget / threads;
+  }
+  return total;
+}
+
+}  // namespace lobecast
