@@ -26,8 +26,8 @@ TEST(Coupling, OneDrivenDipoleMatchesTheLineFormulas) {
   // Gamma = (Z_in - Z0) / (Z_in + Z0), VSWR = (1 + |Gamma|) / (1 - |Gamma|) (the
   // transmission-line definitions, IEEE Std 145-2013 terms); efficiency
   // R_rad / (R_rad + R_loss).
-  Array a =
-      OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.0, 0.0, Distribution::kTriangular),
+  testing::TestArray a =
+      OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.0, Distribution::kTriangular), 0.0,
                      Ground::kNone, 100e6);
   a.dipoles[0].length_m = a.wavelength_m() / 20;
   std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0}};
@@ -53,7 +53,7 @@ TEST(Coupling, PowerBalanceOfAMixedArray) {
   // Supplied = radiated + ohmic + in source and load impedances (energy conservation).
   TestRng rng(90);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    Array a = RandomArray(rng, 10, g, 0.6);
+    testing::TestArray a = RandomArray(rng, 10, g, 0.6);
     std::vector<Port> ports(a.size());
     std::vector<Wire> wires(a.size());
     for (std::size_t m = 0; m < a.size(); ++m) {
@@ -61,7 +61,7 @@ TEST(Coupling, PowerBalanceOfAMixedArray) {
       wires[m].radius_m = a.dipoles[m].length_m / 300;
       wires[m].conductivity_s_m = 3.5e7;
       ports[m].kind = static_cast<PortKind>(m % 3);
-      ports[m].current_a = a.dipoles[m].current_a;
+      ports[m].current_a = a.currents[static_cast<Eigen::Index>(m)];
       ports[m].voltage_v = rng.Phasor(0.5, 5.0);
       ports[m].impedance_ohm = Complex(rng.Uniform(1, 75), rng.Uniform(-100, 3000));
     }
@@ -75,7 +75,7 @@ TEST(Coupling, PowerBalanceOfAMixedArray) {
 }
 
 TEST(Coupling, WhatNeedsAWireAndWhatIsRefused) {
-  Array a = OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.05, 0.0));
+  testing::TestArray a = OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.05), 0.0);
   std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0}};
   std::vector<Wire> wires(1);
   EXPECT_FALSE(NeedsCoupling({Port{}}, wires));
@@ -108,10 +108,10 @@ namespace {
 TEST(Coupling, ClosePairsAndSizeLimit) {
   Array a;
   a.frequency_hz = 1e8;
-  a.dipoles = {testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitZ(), 0.1, 1.0),
-               testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitX(), 0.1, 1.0),  // crossed: fine
-               testing::MakeDipole(Vec3(0.05, 0, 0), Vec3::UnitZ(), 0.2, 1.0),
-               testing::MakeDipole(Vec3(5, 0, 0), Vec3::UnitZ(), 0.1, 1.0)};
+  a.dipoles = {testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitZ(), 0.1),
+               testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitX(), 0.1),  // crossed: fine
+               testing::MakeDipole(Vec3(0.05, 0, 0), Vec3::UnitZ(), 0.2),
+               testing::MakeDipole(Vec3(5, 0, 0), Vec3::UnitZ(), 0.1)};
   const ClosePairs c = FindClosePairs(a);
   // (0,2) and (1,2) are 0.05 m apart, less than the longer length 0.2 m.
   EXPECT_EQ(c.count, 2u);
