@@ -119,6 +119,36 @@ TEST(Pattern, ActiveResistancesSumToThePower) {
   }
 }
 
+TEST(Pattern, OneGeometryServesManyExcitations) {
+  // Synthesis and tolerance studies change the currents many times on one geometry:
+  // one FieldPlan and one resistance matrix of the geometry, reused for several
+  // current vectors, give what a separate ComputePattern gives for each. (FieldPlan
+  // alone, with fresh plans and linearity: FarField.PlanReuseEqualsFreshPlansAndIsLinear.)
+  TestRng rng(86);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array geometry = testing::RandomArray(rng, 10, g);  // geometry only
+    const AngularGrid grid = AngularGrid::FromRanges({0, 180, 6}, {0, 354, 6});
+    PatternOptions o;
+    o.field = testing::DirectMethod();
+    const FieldPlan plan(geometry, Directions::FromGrid(grid), o.field);
+    const Eigen::MatrixXd r = ResistanceMatrix(geometry);
+    FarField previous;
+    for (int k = 0; k < 3; ++k) {
+      const Eigen::VectorXcd currents = testing::RandomCurrents(rng, 10);
+      const PatternResult p = ComputePattern(geometry, currents, grid, o);
+      const FarField f = plan.Execute(currents);
+      const double scale = testing::Magnitude(p.field).maxCoeff();
+      EXPECT_LE(testing::MaxFieldDifference(f, p.field), 1e-14 * scale) << ToString(g) << " " << k;
+      EXPECT_NEAR(RadiatedPower(r, currents), p.radiated_power_w, 1e-14 * p.radiated_power_w);
+      // Each excitation is its own: the reused plan does not keep an earlier one.
+      if (k > 0) {
+        EXPECT_GT(testing::MaxFieldDifference(f, previous), 1e-3 * scale);
+      }
+      previous = f;
+    }
+  }
+}
+
 TEST(Pattern, ThreadCountDoesNotChangeTheResult) {
   TestRng rng(83);
   const testing::TestArray a = testing::RandomArray(rng, 20, Ground::kNone);
