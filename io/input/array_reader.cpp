@@ -140,12 +140,8 @@ class Reader {
                        "at least one [[dipole]] table or a dipoles_csv file with one row");
     }
     CheckDipoles(out);
-    // The given currents; 0 for drive and load until the circuit is solved.
-    out.currents = Eigen::VectorXcd::Zero(static_cast<Eigen::Index>(out.ports.size()));
     bool any_source = false;
-    for (std::size_t m = 0; m < out.ports.size(); ++m) {
-      const Port& p = out.ports[m];
-      if (p.kind == PortKind::kCurrent) out.currents[static_cast<Eigen::Index>(m)] = p.current_a;
+    for (const Port& p : out.ports) {
       any_source = any_source || (p.kind == PortKind::kCurrent && p.current_a != 0.0) ||
                    (p.kind == PortKind::kDrive && p.voltage_v != 0.0);
     }
@@ -155,6 +151,12 @@ class Reader {
                        "radiates and directivity is undefined)");
     }
 
+    // The given currents; 0 for drive and load until the circuit is solved.
+    out.currents = Eigen::VectorXcd::Zero(static_cast<Eigen::Index>(out.ports.size()));
+    for (std::size_t m = 0; m < out.ports.size(); ++m) {
+      const Port& p = out.ports[m];
+      if (p.kind == PortKind::kCurrent) out.currents[static_cast<Eigen::Index>(m)] = p.current_a;
+    }
     try {
       Validate(out.array);
       ValidateCurrents(out.array, out.currents);
