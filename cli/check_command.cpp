@@ -26,10 +26,10 @@ void AddCheckCommand(CLI::App& app) {
   cmd->callback([input] {
     ArrayDescription desc = ReadArrayDescription(*input);
     for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+    // Driven and loaded dipoles: the table shows the currents the circuit gives.
+    const auto coupling = SolveArrayCircuit(desc, 0);
     std::fputs(text::DescribeArray(desc).c_str(), stdout);
-    if (const auto coupling = SolveArrayCircuit(desc, 0)) {
-      std::fputs(text::DescribeCoupling(*coupling, desc.ports, 0.0).c_str(), stdout);
-    }
+    if (coupling) std::fputs(text::DescribeCoupling(*coupling, desc.ports, 0.0).c_str(), stdout);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
     // currents that cancel or overflow before anyone waits for a compute.
     const StreamedPower p = RadiatedPowerStreamed(desc.array, desc.currents);

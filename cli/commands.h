@@ -12,5 +12,6 @@ void AddCheckCommand(CLI::App& app);
 void AddPlotCommand(CLI::App& app);
 void AddReportCommand(CLI::App& app);
 void AddExportCommand(CLI::App& app);
+void AddScanCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

@@ -26,6 +26,7 @@ int main(int argc, char** argv) {
   lobecast::cli::AddPlotCommand(app);
   lobecast::cli::AddReportCommand(app);
   lobecast::cli::AddExportCommand(app);
+  lobecast::cli::AddScanCommand(app);
 
   try {
     app.parse(argc, argv);

@@ -105,6 +105,20 @@ TEST(Samples, CheckDescribesWithoutWriting) {
   EXPECT_TRUE(fs::is_empty(dir));
 }
 
+TEST(Samples, CheckShowsTheSolvedCurrentsOfDrivenAndLoadedDipoles) {
+  // The dipole table comes after the circuit solve: no "0 A" for a driven element.
+  const fs::path dir = WorkDir("check-coupled");
+  const std::string input = std::string(LOBECAST_SAMPLES) + "/parasitic-beacon.toml";
+  const RunOutput run =
+      RunCommand("cd " + Quote(dir.string()) + " && " + LOBECAST_EXE + " check " + Quote(input));
+  ASSERT_EQ(run.exit_code, 0) << run.out;
+  const std::size_t table = run.out.find("dipoles ");
+  const std::size_t circuit = run.out.find("circuit ");
+  ASSERT_NE(table, std::string::npos) << run.out;
+  ASSERT_NE(circuit, std::string::npos) << run.out;
+  EXPECT_EQ(run.out.substr(table, circuit - table).find(" 0 A "), std::string::npos) << run.out;
+}
+
 TEST(Cli, DefaultOutputNameComesFromTheInput) {
   const fs::path dir = WorkDir("default-name");
   const std::string input = std::string(LOBECAST_SAMPLES) + "/single-dipole.toml";

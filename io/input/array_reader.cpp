@@ -140,13 +140,18 @@ class Reader {
                        "at least one [[dipole]] table or a dipoles_csv file with one row");
     }
     CheckDipoles(out);
-    bool any_source = false;
+    bool any_source = false, any_circuit = false;
     for (const Port& p : out.ports) {
       any_source = any_source || (p.kind == PortKind::kCurrent && p.current_a != 0.0) ||
                    (p.kind == PortKind::kDrive && p.voltage_v != 0.0);
+      any_circuit = any_circuit || p.kind != PortKind::kCurrent;
     }
     if (!any_source) {
-      throw InputError(out.dipole_locations.front(), "dipole[*].current", "every magnitude is 0",
+      // With drives or loads, "magnitude" alone would name only the current key.
+      throw InputError(out.dipole_locations.front(), "dipole[*].current",
+                       any_circuit ? "every current magnitude and drive voltage is 0 (loads "
+                                     "only re-radiate)"
+                                   : "every magnitude is 0",
                        "at least one non-zero current or drive voltage (with none, nothing "
                        "radiates and directivity is undefined)");
     }

@@ -16,8 +16,9 @@ std::string Impedance(Complex z) {
   if (std::isnan(z.real()) || std::isnan(z.imag())) return "unknown";
   // A part below 1e-12 of |Z| is rounding (a lossless load's resistance): print 0.
   const double floor = 1e-12 * std::abs(z);
-  const double re = std::abs(z.real()) < floor ? 0.0 : z.real();
-  const double im = std::abs(z.imag()) < floor ? 0.0 : z.imag();
+  // + 0.0 turns a signed zero (a short circuit's -0) into 0.
+  const double re = std::abs(z.real()) < floor ? 0.0 : z.real() + 0.0;
+  const double im = std::abs(z.imag()) < floor ? 0.0 : z.imag() + 0.0;
   return Printf("%.6g %c j%.6g", re, im < 0 ? '-' : '+', std::abs(im));
 }
 

@@ -1,0 +1,156 @@
+// `lobecast scan ARRAY.toml`: the scan impedance of a phased array, element by
+// element, as the beam is steered along a plane.
+#include <cmath>
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <memory>
+#include <string>
+#include <vector>
+
+#include <unistd.h>
+
+#include "cli/commands.h"
+#include "cli/output_path.h"
+#include "engine/coupling/scan.h"
+#include "engine/error.h"
+#include "io/input/array_reader.h"
+#include "io/input/solve_circuit.h"
+#include "io/input_error.h"
+#include "io/io_error.h"
+#include "io/text/scan_text.h"
+#include "io/text/text_format.h"
+
+namespace lobecast::cli {
+namespace {
+
+struct ScanArgs {
+  std::string input;
+  std::string output;  // CSV; empty: none
+  double phi_deg = 0;
+  double theta_start_deg = 0;
+  double theta_stop_deg = 60;
+  double step_deg = 5;
+  std::string match = "first";
+  bool quiet = false;
+};
+
+void RunScan(const ScanArgs& args) {
+  ArrayDescription desc = ReadArrayDescription(args.input);
+  for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+  if (!(args.step_deg > 0) || args.theta_stop_deg < args.theta_start_deg) {
+    throw InvalidArgument(
+        "--theta-start, --theta-stop, --step: expected start <= stop and a step > 0 (deg)");
+  }
+  // Z with every element's self reactance: the scan impedance is each element's
+  // input impedance, so none may be unknown.
+  std::vector<Port> ports(desc.array.size());
+  for (std::size_t m = 0; m < ports.size(); ++m) ports[m].current_a = 1.0;
+  std::vector<Wire> wires = desc.wires;
+  const CouplingResult ref = [&] {
+    CouplingOptions o;
+    o.reference_impedance_ohm = desc.reference_impedance_ohm;
+    return SolveCoupling(desc.array, ports, wires, o);
+  }();
+  for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size(); ++m) {
+    if (std::isnan(ref.self_reactance_ohm[m])) {
+      throw InputError(desc.dipole_locations[static_cast<std::size_t>(m)],
+                       "dipole[" + std::to_string(m) + "]", "no self reactance",
+                       "radius = <wire radius> (triangular current) or reactance = <ohm> on every "
+                       "dipole: the scan impedance is each element's input impedance");
+    }
+  }
+  // The taper: the magnitudes of the currents the file gives (or its circuit
+  // solves); their phases are replaced by the steering.
+  SolveArrayCircuit(desc, 0);
+  Eigen::VectorXcd amplitudes(static_cast<Eigen::Index>(desc.array.size()));
+  for (std::size_t m = 0; m < desc.array.size(); ++m)
+    amplitudes[static_cast<Eigen::Index>(m)] = std::abs(desc.array.dipoles[m].current_a);
+  std::vector<double> theta, phi;
+  for (double t = args.theta_start_deg; t <= args.theta_stop_deg + 1e-9 * args.step_deg;
+       t += args.step_deg) {
+    theta.push_back(t * kDegree);
+    phi.push_back(args.phi_deg * kDegree);
+  }
+  const auto n = static_cast<Eigen::Index>(desc.array.size());
+  Eigen::VectorXcd reference = Eigen::VectorXcd::Constant(n, desc.reference_impedance_ohm);
+  std::string reference_text =
+      text::Printf("%g ohm (reference_impedance)", desc.reference_impedance_ohm);
+  if (args.match == "first") {
+    // Each element conjugate-matched to its own impedance at the first scan angle.
+    reference = ScanImpedance(desc.array, ref.impedance_ohm, amplitudes, {theta.front()},
+                              {phi.front()}, reference)
+                    .active_impedance_ohm.row(0)
+                    .transpose()
+                    .conjugate();
+    reference_text =
+        text::Printf("each element's conjugate match at theta %g deg (power waves, Kurokawa 1965)",
+                     args.theta_start_deg);
+  }
+  const ScanImpedanceTable table =
+      ScanImpedance(desc.array, ref.impedance_ohm, amplitudes, theta, phi, reference);
+  if (!args.quiet) {
+    std::printf("array        %s, %zu dipoles; taper |I| from the file, phases from steering\n",
+                desc.name.empty() ? args.input.c_str() : desc.name.c_str(), desc.array.size());
+    std::fputs(text::ScanTable(table, reference_text).c_str(), stdout);
+  }
+  if (!args.output.empty()) {
+    const std::string tmp = args.output + ".tmp-" + std::to_string(::getpid());
+    {
+      std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
+      out << text::ScanCsv(table);
+      out.close();
+      if (!out) {
+        std::error_code ec;
+        std::filesystem::remove(tmp, ec);
+        throw IoError(args.output, "could not write the scan table");
+      }
+    }
+    std::error_code ec;
+    std::filesystem::rename(tmp, args.output, ec);
+    if (ec) {
+      std::filesystem::remove(tmp, ec);
+      throw IoError(args.output, "could not write the scan table: " + ec.message());
+    }
+    if (!args.quiet) std::printf("wrote        %s\n", args.output.c_str());
+  }
+}
+
+}  // namespace
+
+void AddScanCommand(CLI::App& app) {
+  auto args = std::make_shared<ScanArgs>();
+  CLI::App* cmd = app.add_subcommand(
+      "scan",
+      "Scan impedance: steer the array's beam (phase steering, the file's current magnitudes "
+      "as taper) along the plane phi = --phi from --theta-start to --theta-stop, and print "
+      "each element's active reflection coefficient |Gamma| against the reference impedance "
+      "(every dipole needs a radius or a reactance).");
+  cmd->add_option("ARRAY", args->input, "Array description (TOML)")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("-o,--output", args->output,
+                  "CSV table (theta_deg, phi_deg, element, active impedance in ohm, |Gamma|, "
+                  "phase, VSWR), written atomically")
+      ->check(OutputFileInExistingFolder());
+  cmd->add_option("--phi", args->phi_deg, "Scan plane: azimuth phi (deg)")->capture_default_str();
+  cmd->add_option("--theta-start", args->theta_start_deg, "First scan angle theta (deg)")
+      ->check(CLI::Range(0.0, 180.0))
+      ->capture_default_str();
+  cmd->add_option("--theta-stop", args->theta_stop_deg, "Last scan angle theta (deg)")
+      ->check(CLI::Range(0.0, 180.0))
+      ->capture_default_str();
+  cmd->add_option("--step", args->step_deg, "Scan step (deg)")
+      ->check(CLI::Range(1e-3, 180.0))
+      ->capture_default_str();
+  cmd->add_option("--match", args->match,
+                  "What Gamma is measured against: first (each element conjugate-matched at "
+                  "the first scan angle: shows the mismatch scanning adds) or reference (the "
+                  "file's real reference_impedance)")
+      ->check(CLI::IsMember({"first", "reference"}))
+      ->capture_default_str();
+  cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
+  cmd->callback([args] { RunScan(*args); });
+}
+
+}  // namespace lobecast::cli
