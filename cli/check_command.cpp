@@ -32,7 +32,7 @@ void AddCheckCommand(CLI::App& app) {
     if (coupling) std::fputs(text::DescribeCoupling(*coupling, desc.ports, 0.0).c_str(), stdout);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
     // currents that cancel or overflow before anyone waits for a compute.
-    const StreamedPower p = RadiatedPowerStreamed(desc.array, CurrentsOf(desc.array));
+    const StreamedPower p = RadiatedPowerStreamed(desc.array, desc.currents);
     CheckRadiatedPower(p.radiated_power_w);
     std::printf("power        %.6g W radiated for the given currents (closed form)\n",
                 p.radiated_power_w);

@@ -60,7 +60,7 @@ void RunCompute(const ComputeArgs& args) {
   options.field.tolerance_relative = args.tolerance;
   options.store_resistance_matrix = args.resistance_matrix;
   options.progress = [&bar](double f) { bar.Update(f); };
-  const PatternResult result = ComputePattern(desc.array, desc.grid, options);
+  const PatternResult result = ComputePattern(desc.array, desc.currents, desc.grid, options);
   bar.Finish();
 
   // The pattern analysis goes into the file (/summary/analysis), so `report` needs
@@ -71,7 +71,7 @@ void RunCompute(const ComputeArgs& args) {
     const auto ref = ParseReference(args.reference);
     analysis_options.reference = ref ? *ref : AutoReference(result);
     try {
-      analysis = AnalyzePattern(desc.array, result, analysis_options);
+      analysis = AnalyzePattern(desc.array, desc.currents, result, analysis_options);
     } catch (const InvalidArgument& e) {
       std::fprintf(stderr, "pattern analysis skipped: %s\n", e.what());
     }
@@ -90,7 +90,7 @@ void RunCompute(const ComputeArgs& args) {
       if (analysis) WriteAnalysis(w, *analysis, analysis_options);
     };
   }
-  WriteResult(output, desc.array, result, meta, write_options);
+  WriteResult(output, desc.array, desc.currents, result, meta, write_options);
   if (!args.plots_dir.empty()) {
     // Drawn from the file just written, so the plots show exactly what it holds.
     std::vector<std::string> skipped;

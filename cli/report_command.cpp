@@ -76,7 +76,8 @@ void RunReport(const ReportArgs& args) {
   if (!options.IsValid(&why)) throw InvalidArgument(why);
 
   const PatternAnalysis analysis =
-      recompute ? AnalyzePattern(stored.array, stored.result, options) : saved->analysis;
+      recompute ? AnalyzePattern(stored.array, stored.currents, stored.result, options)
+                : saved->analysis;
   text::ReportContext context;
   context.result_path = args.input;
   context.array_name = stored.metadata.name;

@@ -66,7 +66,8 @@ void RunScan(const ScanArgs& args) {
   SolveArrayCircuit(desc, 0);
   Eigen::VectorXcd amplitudes(static_cast<Eigen::Index>(desc.array.size()));
   for (std::size_t m = 0; m < desc.array.size(); ++m)
-    amplitudes[static_cast<Eigen::Index>(m)] = std::abs(desc.array.dipoles[m].current_a);
+    amplitudes[static_cast<Eigen::Index>(m)] =
+        std::abs(desc.currents[static_cast<Eigen::Index>(m)]);
   std::vector<double> theta, phi;
   for (double t = args.theta_start_deg; t <= args.theta_stop_deg + 1e-9 * args.step_deg;
        t += args.step_deg) {

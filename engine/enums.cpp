@@ -1,4 +1,4 @@
-// Enum names, current vectors and array validation (types.h).
+// Enum names and the validation of arrays and their currents (types.h).
 #include <cmath>
 #include <sstream>
 
@@ -11,6 +11,12 @@ namespace lobecast {
 namespace {
 
 bool AllFinite(const Vec3& v) { return v.allFinite(); }
+
+[[noreturn]] void FailDipole(std::size_t n, const std::string& what) {
+  std::ostringstream s;
+  s << "dipole " << n << ": " << what;
+  throw InvalidArgument(s.str());
+}
 
 }  // namespace
 
@@ -32,19 +38,7 @@ std::optional<Ground> GroundFromString(std::string_view s) {
   return std::nullopt;
 }
 
-Eigen::VectorXcd CurrentsOf(const Array& array) {
-  Eigen::VectorXcd i(static_cast<Eigen::Index>(array.size()));
-  for (std::size_t n = 0; n < array.size(); ++n)
-    i[static_cast<Eigen::Index>(n)] = array.dipoles[n].current_a;
-  return i;
-}
-
 void Validate(const Array& array) {
-  auto fail = [](std::size_t n, const std::string& what) {
-    std::ostringstream s;
-    s << "dipole " << n << ": " << what;
-    throw InvalidArgument(s.str());
-  };
   if (!std::isfinite(array.frequency_hz) || array.frequency_hz <= 0) {
     std::ostringstream s;
     s << "frequency_hz: found " << array.frequency_hz << ", expected a finite number > 0";
@@ -54,24 +48,35 @@ void Validate(const Array& array) {
     throw InvalidArgument("array: found no dipoles, expected at least one");
   for (std::size_t n = 0; n < array.size(); ++n) {
     const Dipole& d = array.dipoles[n];
-    if (!AllFinite(d.position_m)) fail(n, "position is not finite");
+    if (!AllFinite(d.position_m)) FailDipole(n, "position is not finite");
     if (!AllFinite(d.orientation) || std::abs(d.orientation.norm() - 1.0) > 1e-9) {
       std::ostringstream s;
       s << "orientation has length " << d.orientation.norm() << ", expected a unit vector";
-      fail(n, s.str());
+      FailDipole(n, s.str());
     }
     if (!std::isfinite(d.length_m) || d.length_m <= 0) {
       std::ostringstream s;
       s << "length_m: found " << d.length_m << ", expected a finite number > 0";
-      fail(n, s.str());
+      FailDipole(n, s.str());
     }
-    if (!std::isfinite(d.current_a.real()) || !std::isfinite(d.current_a.imag()))
-      fail(n, "current is not finite");
     if (array.ground == Ground::kPec && !(d.position_m.z() > 0)) {
       std::ostringstream s;
       s << "z = " << d.position_m.z() << " m with a PEC ground plane at z = 0, expected z > 0";
-      fail(n, s.str());
+      FailDipole(n, s.str());
     }
+  }
+}
+
+void ValidateCurrents(const Array& array, const Eigen::VectorXcd& currents_a) {
+  if (static_cast<std::size_t>(currents_a.size()) != array.size()) {
+    std::ostringstream s;
+    s << "currents: found " << currents_a.size() << " values, expected one per dipole ("
+      << array.size() << ")";
+    throw InvalidArgument(s.str());
+  }
+  for (Eigen::Index n = 0; n < currents_a.size(); ++n) {
+    if (!std::isfinite(currents_a[n].real()) || !std::isfinite(currents_a[n].imag()))
+      FailDipole(static_cast<std::size_t>(n), "current is not finite");
   }
 }
 

@@ -141,9 +141,10 @@ Eigen::Index PeakIndex(const Eigen::VectorXd& directivity) {
   return i;
 }
 
-PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
-                             const PatternOptions& options) {
+PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
+                             const AngularGrid& grid, const PatternOptions& options) {
   Validate(array);
+  ValidateCurrents(array, currents);
   std::string why;
   if (!options.field.IsValid(&why)) throw InvalidArgument(why);
   if (grid.size() == 0) throw InvalidArgument("grid: found no directions, expected at least one");
@@ -154,7 +155,6 @@ PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
   s.num_dipoles = array.size();
 
   auto t0 = Clock::now();
-  const Eigen::VectorXcd currents = CurrentsOf(array);
   if (array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix) {
     r.resistance_ohm = ResistanceMatrix(array, options.field.num_threads);
     r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);

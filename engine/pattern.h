@@ -113,9 +113,10 @@ struct PatternResult {
 // summary and by the pattern analysis, so both name the same beam.
 Eigen::Index PeakIndex(const Eigen::VectorXd& directivity);
 
-// Throws InvalidArgument for an invalid array or grid, or when the currents
-// radiate no power (directivity undefined).
-PatternResult ComputePattern(const Array& array, const AngularGrid& grid,
-                             const PatternOptions& options = {});
+// currents_a: the terminal currents (A peak), one per dipole (ValidateCurrents).
+// Throws InvalidArgument for an invalid array, currents or grid, or when the
+// currents radiate no power (directivity undefined).
+PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents_a,
+                             const AngularGrid& grid, const PatternOptions& options = {});
 
 }  // namespace lobecast

@@ -39,7 +39,6 @@ struct Dipole {
   Vec3 orientation = Vec3::UnitZ();  // unit vector along positive current
   double length_m = 0.0;             // physical length l
   Distribution distribution = Distribution::kUniform;
-  Complex current_a = 0.0;  // terminal current, complex peak (A)
 
   double effective_length_m() const {
     return distribution == Distribution::kTriangular ? 0.5 * length_m : length_m;
@@ -57,13 +56,18 @@ struct Array {
   std::size_t size() const { return dipoles.size(); }
 };
 
-// The drive currents of an array as one vector (A, complex peak), in dipole order.
-Eigen::VectorXcd CurrentsOf(const Array& array);
-
 // Throws InvalidArgument unless: frequency finite and > 0, at least one dipole,
 // every position finite, every orientation a finite unit vector (|u| = 1 within
-// 1e-9), every length finite and > 0, every current finite, and with a PEC ground
-// every dipole strictly above z = 0. The message names the dipole (0-based index).
+// 1e-9), every length finite and > 0, and with a PEC ground every dipole strictly
+// above z = 0. The message names the dipole (0-based index). Geometry only: the
+// excitation is checked by ValidateCurrents.
 void Validate(const Array& array);
+
+// The excitation of an array is kept apart from its geometry: one terminal current
+// per dipole (A, complex peak), in dipole order, so that one geometry (and one
+// FieldPlan) serves many current vectors. Throws InvalidArgument unless there is
+// exactly one current per dipole and every current is finite; the message names
+// the dipole (0-based index) as Validate does.
+void ValidateCurrents(const Array& array, const Eigen::VectorXcd& currents_a);
 
 }  // namespace lobecast

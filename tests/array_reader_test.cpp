@@ -107,8 +107,8 @@ TEST(ArrayReader, ConventionsMinimum) {
   EXPECT_EQ(p.orientation, Vec3(0, 0, 1));
   ExpectNear(0.01, p.length_m);
   EXPECT_EQ(p.distribution, Distribution::kUniform);
-  ExpectNear(1.0, p.current_a.real());
-  ExpectNear(0.0, p.current_a.imag());
+  ExpectNear(1.0, d.currents[0].real());
+  ExpectNear(0.0, d.currents[0].imag());
   EXPECT_EQ(d.theta.start_deg, 0.0);
   EXPECT_EQ(d.theta.stop_deg, 180.0);
   EXPECT_EQ(d.phi.stop_deg, 360.0);
@@ -134,7 +134,7 @@ TEST(ArrayReader, DefaultsWhenOptionalKeysAreOmitted) {
   EXPECT_EQ(d.phi.stop_deg, 360.0);
   EXPECT_EQ(d.grid.size(), 181u * 361u);
   EXPECT_EQ(d.array.dipoles[0].distribution, Distribution::kUniform);
-  EXPECT_EQ(d.array.dipoles[0].current_a, Complex(2.0, 0.0));  // phase defaults to 0
+  EXPECT_EQ(d.currents[0], Complex(2.0, 0.0));  // phase defaults to 0
   EXPECT_TRUE(d.name.empty());
 }
 
@@ -156,13 +156,13 @@ TEST(ArrayReader, CentimetresUnitStringsAndNormalization) {
   ExpectNear(0.005, a.length_m);
   EXPECT_EQ(a.distribution, Distribution::kTriangular);
   ExpectNear(0.0025, a.effective_length_m());
-  ExpectNear(0.0, a.current_a.real() / 2.0);  // 2 A at 90 degrees = 2j
-  ExpectNear(2.0, a.current_a.imag());
+  ExpectNear(0.0, d.currents[0].real() / 2.0);  // 2 A at 90 degrees = 2j
+  ExpectNear(2.0, d.currents[0].imag());
   const Dipole& b = d.array.dipoles[1];
   ExpectNear(0.10, b.position_m.z());
   EXPECT_EQ(b.orientation, Vec3(0, 0, -1));
   ExpectNear(0.0025, b.length_m);
-  EXPECT_EQ(b.current_a, Complex(0.5, 0.0));
+  EXPECT_EQ(d.currents[1], Complex(0.5, 0.0));
   // theta 0..90 step 2.5 -> 37 angles; phi = 45 is a single cut.
   EXPECT_EQ(d.grid.theta_deg.size(), 37u);
   ASSERT_EQ(d.grid.phi_deg.size(), 1u);
@@ -178,8 +178,8 @@ TEST(ArrayReader, WavelengthUnitAndLengthWarning) {
   ExpectNear(0.25 * lambda, d.array.dipoles[1].position_m.x());
   ExpectNear(0.05 * lambda, d.array.dipoles[0].length_m);
   ExpectNear(0.15 * lambda, d.array.dipoles[1].length_m);
-  ExpectNear(0.0, d.array.dipoles[1].current_a.real());
-  ExpectNear(-1.0, d.array.dipoles[1].current_a.imag());
+  ExpectNear(0.0, d.currents[1].real());
+  ExpectNear(-1.0, d.currents[1].imag());
   // 0.15 lambda is accepted with a warning (beyond lambda/10), pointing at line 12.
   ASSERT_EQ(d.warnings.size(), 1u);
   EXPECT_THAT(d.warnings[0], HasSubstr("wavelength.toml:12:10: warning: key 'dipole[1].length'"));
@@ -202,14 +202,14 @@ TEST(ArrayReader, CsvRowsFollowTableDipoles) {
   EXPECT_EQ(c1.orientation, Vec3(0, 0, 1));
   ExpectNear(0.01, c1.length_m);
   EXPECT_EQ(c1.distribution, Distribution::kTriangular);
-  ExpectNear(0.0, c1.current_a.real());
-  ExpectNear(0.5, c1.current_a.imag());
+  ExpectNear(0.0, d.currents[1].real());
+  ExpectNear(0.5, d.currents[1].imag());
   // dipole 2: switched off (magnitude 0), empty distribution cell -> uniform, (0,2,0) normalized.
   const Dipole& c2 = d.array.dipoles[2];
   ExpectNear(-0.1, c2.position_m.y());
   ExpectNear(0.005, c2.position_m.z());
   EXPECT_EQ(c2.orientation, Vec3(0, 1, 0));
-  EXPECT_EQ(c2.current_a, Complex(0.0, 0.0));
+  EXPECT_EQ(d.currents[2], Complex(0.0, 0.0));
   EXPECT_EQ(c2.distribution, Distribution::kUniform);
   // dipole 3: no blanks around cells, (ux, uy, uz) = (0, 1, 1), phase -45 degrees.
   const Dipole& c3 = d.array.dipoles[3];
@@ -218,8 +218,8 @@ TEST(ArrayReader, CsvRowsFollowTableDipoles) {
   ExpectNear(0.0, c3.orientation.x());
   ExpectNear(std::sqrt(0.5), c3.orientation.y());
   ExpectNear(std::sqrt(0.5), c3.orientation.z());
-  ExpectNear(1.5 * std::cos(-45 * kDegree), c3.current_a.real());
-  ExpectNear(1.5 * std::sin(-45 * kDegree), c3.current_a.imag());
+  ExpectNear(1.5 * std::cos(-45 * kDegree), d.currents[3].real());
+  ExpectNear(1.5 * std::sin(-45 * kDegree), d.currents[3].imag());
   // Where each dipole came from: the TOML table, then CSV lines 4, 6 and 7.
   ASSERT_EQ(d.dipole_locations.size(), 4u);
   EXPECT_THAT(d.dipole_locations[0].file, HasSubstr("with_csv.toml"));
@@ -284,7 +284,7 @@ TEST(ArrayReader, InlineDipoleArrayAndHugeOrientation) {
   ASSERT_EQ(d.array.size(), 1u);
   ExpectNear(std::sqrt(0.5), d.array.dipoles[0].orientation.x());  // no overflow in the norm
   ExpectNear(std::sqrt(0.5), d.array.dipoles[0].orientation.y());
-  ExpectNear(-1.0, d.array.dipoles[0].current_a.real());
+  ExpectNear(-1.0, d.currents[0].real());
 }
 
 TEST(ArrayReader, CsvEdgeCases) {

@@ -40,7 +40,7 @@ TEST(Circuit, PowerBalance) {
   // Supplied = radiated (closed form, 1/2 I^H R I) + ohmic + source and load losses.
   TestRng rng(80);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    const Array a = RandomArray(rng, 12, g, 0.5);
+    const testing::TestArray a = RandomArray(rng, 12, g, 0.5);
     const double loss = 0.05;
     const Eigen::MatrixXcd z = ZOf(a, loss);
     std::vector<Port> ports(a.size());
@@ -71,13 +71,14 @@ TEST(Circuit, PowerBalance) {
 
 TEST(Circuit, ForcedCurrentsGiveTheActiveImpedance) {
   TestRng rng(81);
-  const Array a = RandomArray(rng, 7, Ground::kPec);
+  const testing::TestArray a = RandomArray(rng, 7, Ground::kPec);
   const Eigen::MatrixXcd z = ZOf(a, 0.0);
   std::vector<Port> ports(a.size());
-  for (std::size_t m = 0; m < ports.size(); ++m) ports[m].current_a = a.dipoles[m].current_a;
+  for (std::size_t m = 0; m < ports.size(); ++m)
+    ports[m].current_a = a.currents[static_cast<Eigen::Index>(m)];
   const CircuitSolution s = SolveCircuit(z, ports);
-  EXPECT_EQ(s.current_a, CurrentsOf(a));
-  const Eigen::VectorXcd act = ActiveImpedance(z, CurrentsOf(a));
+  EXPECT_EQ(s.current_a, a.currents);
+  const Eigen::VectorXcd act = ActiveImpedance(z, a.currents);
   EXPECT_LT((s.input_impedance_ohm - act).cwiseAbs().maxCoeff(), 1e-12 * act.cwiseAbs().maxCoeff());
 }
 
@@ -86,8 +87,8 @@ TEST(Circuit, DrivenAndParasiticPairMatchesAnIndependentSolve) {
   const double lambda = 1.0, k = 2 * kPi / lambda;
   Array a;
   a.frequency_hz = kSpeedOfLight_m_s / lambda;
-  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular),
-               MakeDipole(Vec3(0.1, 0, 0), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular)};
+  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, Distribution::kTriangular),
+               MakeDipole(Vec3(0.1, 0, 0), Vec3::UnitZ(), 0.05, Distribution::kTriangular)};
   const Eigen::MatrixXcd z = ZOf(a, 0.01);
   const Complex vs(2.0, 0.5), zs(50, 0), zl(1.0, 1200.0);
   std::vector<Port> ports(2);
@@ -109,8 +110,8 @@ TEST(Circuit, InductiveParasiteReflectsCapacitiveDirects) {
   const double lambda = 1.0;
   Array a;
   a.frequency_hz = kSpeedOfLight_m_s / lambda;
-  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular),
-               MakeDipole(Vec3(-0.1, 0, 0), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular)};
+  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, Distribution::kTriangular),
+               MakeDipole(Vec3(-0.1, 0, 0), Vec3::UnitZ(), 0.05, Distribution::kTriangular)};
   const Eigen::MatrixXcd z = ZOf(a, 0.0);
   const double x_self = z(1, 1).imag();
   const Directions dirs =
@@ -120,10 +121,7 @@ TEST(Circuit, InductiveParasiteReflectsCapacitiveDirects) {
     ports[0] = {PortKind::kDrive, 0.0, 1.0, 50.0};
     ports[1] = {PortKind::kLoad, 0.0, 0.0, Complex(0.0, -x_self + detune)};
     const CircuitSolution s = SolveCircuit(z, ports);
-    Array driven = a;
-    driven.dipoles[0].current_a = s.current_a[0];
-    driven.dipoles[1].current_a = s.current_a[1];
-    const FarField f = FieldPlan(driven, dirs).Execute(CurrentsOf(driven));
+    const FarField f = FieldPlan(a, dirs).Execute(s.current_a);
     const double front = std::abs(f.e_theta[0]), back = std::abs(f.e_theta[1]);
     if (detune > 0) {
       EXPECT_GT(front, back) << "inductive parasite should reflect";

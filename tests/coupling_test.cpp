@@ -26,8 +26,8 @@ TEST(Coupling, OneDrivenDipoleMatchesTheLineFormulas) {
   // Gamma = (Z_in - Z0) / (Z_in + Z0), VSWR = (1 + |Gamma|) / (1 - |Gamma|) (the
   // transmission-line definitions, IEEE Std 145-2013 terms); efficiency
   // R_rad / (R_rad + R_loss).
-  Array a =
-      OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.0, 0.0, Distribution::kTriangular),
+  testing::TestArray a =
+      OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.0, Distribution::kTriangular), 0.0,
                      Ground::kNone, 100e6);
   a.dipoles[0].length_m = a.wavelength_m() / 20;
   std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0}};
@@ -53,7 +53,7 @@ TEST(Coupling, PowerBalanceOfAMixedArray) {
   // Supplied = radiated + ohmic + in source and load impedances (energy conservation).
   TestRng rng(90);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    Array a = RandomArray(rng, 10, g, 0.6);
+    testing::TestArray a = RandomArray(rng, 10, g, 0.6);
     std::vector<Port> ports(a.size());
     std::vector<Wire> wires(a.size());
     for (std::size_t m = 0; m < a.size(); ++m) {
@@ -61,7 +61,7 @@ TEST(Coupling, PowerBalanceOfAMixedArray) {
       wires[m].radius_m = a.dipoles[m].length_m / 300;
       wires[m].conductivity_s_m = 3.5e7;
       ports[m].kind = static_cast<PortKind>(m % 3);
-      ports[m].current_a = a.dipoles[m].current_a;
+      ports[m].current_a = a.currents[static_cast<Eigen::Index>(m)];
       ports[m].voltage_v = rng.Phasor(0.5, 5.0);
       ports[m].impedance_ohm = Complex(rng.Uniform(1, 75), rng.Uniform(-100, 3000));
     }
@@ -77,7 +77,7 @@ TEST(Coupling, PowerBalanceOfAMixedArray) {
 }
 
 TEST(Coupling, WhatNeedsAWireAndWhatIsRefused) {
-  Array a = OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.05, 0.0));
+  testing::TestArray a = OneDipoleArray(MakeDipole(Vec3(0, 0, 1), Vec3::UnitZ(), 0.05), 0.0);
   std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0}};
   std::vector<Wire> wires(1);
   EXPECT_FALSE(NeedsCoupling({Port{}}, wires));
@@ -110,10 +110,10 @@ namespace {
 TEST(Coupling, ClosePairsAndSizeLimit) {
   Array a;
   a.frequency_hz = 1e8;
-  a.dipoles = {testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitZ(), 0.1, 1.0),
-               testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitX(), 0.1, 1.0),  // crossed: fine
-               testing::MakeDipole(Vec3(0.05, 0, 0), Vec3::UnitZ(), 0.2, 1.0),
-               testing::MakeDipole(Vec3(5, 0, 0), Vec3::UnitZ(), 0.1, 1.0)};
+  a.dipoles = {testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitZ(), 0.1),
+               testing::MakeDipole(Vec3(0, 0, 0), Vec3::UnitX(), 0.1),  // crossed: fine
+               testing::MakeDipole(Vec3(0.05, 0, 0), Vec3::UnitZ(), 0.2),
+               testing::MakeDipole(Vec3(5, 0, 0), Vec3::UnitZ(), 0.1)};
   const ClosePairs c = FindClosePairs(a);
   // (0,2) and (1,2) are 0.05 m apart, less than the longer length 0.2 m.
   EXPECT_EQ(c.count, 2u);
@@ -139,8 +139,8 @@ TEST(Coupling, LossesInParasiticLoadsLowerTheEfficiency) {
   Array a;
   a.frequency_hz = kSpeedOfLight_m_s;  // lambda = 1 m
   a.dipoles = {
-      testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular),
-      testing::MakeDipole(Vec3(0.1, 0, 0), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular)};
+      testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, Distribution::kTriangular),
+      testing::MakeDipole(Vec3(0.1, 0, 0), Vec3::UnitZ(), 0.05, Distribution::kTriangular)};
   std::vector<Port> ports = {{PortKind::kDrive, 0.0, 1.0, 50.0},
                              {PortKind::kLoad, 0.0, 0.0, Complex(50.0, 1400.0)}};
   std::vector<Wire> wires(2);
@@ -162,8 +162,7 @@ TEST(Coupling, OwnImageDoublesTheResistanceOfALowVerticalDipole) {
   Array a;
   a.frequency_hz = kSpeedOfLight_m_s;
   a.ground = Ground::kPec;
-  a.dipoles = {
-      testing::MakeDipole(Vec3(0, 0, h), Vec3::UnitZ(), 1e-3, 0.0, Distribution::kTriangular)};
+  a.dipoles = {testing::MakeDipole(Vec3(0, 0, h), Vec3::UnitZ(), 1e-3, Distribution::kTriangular)};
   std::vector<Wire> wires(1);
   wires[0].reactance_ohm = -5000;  // given: no wire formula at this length
   const CouplingResult r = SolveCoupling(a, {{PortKind::kDrive, 0.0, 1.0, 50.0}}, wires);
@@ -179,9 +178,8 @@ TEST(Coupling, OwnImageDoublesTheResistanceOfALowVerticalDipole) {
 TEST(Coupling, CoincidentDipolesAreNamed) {
   Array a;
   a.frequency_hz = kSpeedOfLight_m_s;
-  a.dipoles = {
-      testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, 0.0, Distribution::kTriangular),
-      testing::MakeDipole(Vec3::Zero(), Vec3(0, 1, 1), 0.05, 0.0, Distribution::kTriangular)};
+  a.dipoles = {testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.05, Distribution::kTriangular),
+               testing::MakeDipole(Vec3::Zero(), Vec3(0, 1, 1), 0.05, Distribution::kTriangular)};
   std::vector<Wire> wires(2);
   for (Wire& w : wires) w.radius_m = 1e-3;
   try {

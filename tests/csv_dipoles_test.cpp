@@ -40,7 +40,7 @@ TEST(CsvDipoles, ReadsRowsInAnyColumnOrder) {
   EXPECT_EQ(d[0].dipole.position_m, Vec3(0.1, 0.2, 0.3) * 0.01);
   EXPECT_EQ(d[0].dipole.orientation, Vec3(0, 0, 1));  // normalized on read
   EXPECT_DOUBLE_EQ(d[0].dipole.length_m, 1e-4);
-  EXPECT_NEAR(std::abs(d[0].dipole.current_a - std::polar(2.0, 90 * kDegree)), 0.0, 1e-15);
+  EXPECT_NEAR(std::abs(d[0].current_a - std::polar(2.0, 90 * kDegree)), 0.0, 1e-15);
   EXPECT_EQ(d[0].dipole.distribution, Distribution::kUniform);  // no column: uniform
   EXPECT_EQ(d[0].row.line, 4);
   EXPECT_EQ(d[1].row.line, 6);

@@ -31,17 +31,19 @@ Directions CoarseGrid() {
 }
 
 // j eta0 k I Le / (4 pi): the amplitude of a z dipole's rE_theta at broadside.
-Complex DipoleAmplitude(const Array& a, const Dipole& d) {
-  return kJ * kEta0_ohm * a.wavenumber_rad_m() * d.current_a * d.effective_length_m() / (4 * kPi);
+Complex DipoleAmplitude(const testing::TestArray& a) {
+  return kJ * kEta0_ohm * a.wavenumber_rad_m() * a.currents[0] * a.dipoles[0].effective_length_m() /
+         (4 * kPi);
 }
 
 TEST(FarField, HertzianZDipoleMatchesHandbook) {
-  Array a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.0, std::polar(0.7, 0.5)));
+  testing::TestArray a =
+      OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.0), std::polar(0.7, 0.5));
   a.dipoles[0].length_m = a.wavelength_m() / 50;
   const Directions dirs = CoarseGrid();
-  const FarField f = FieldPlan(a, dirs, DirectMethod()).Execute(CurrentsOf(a));
+  const FarField f = FieldPlan(a, dirs, DirectMethod()).Execute(a.currents);
   ASSERT_EQ(f.size(), dirs.size());
-  const Complex c = DipoleAmplitude(a, a.dipoles[0]);
+  const Complex c = DipoleAmplitude(a);
   for (std::size_t i = 0; i < dirs.size(); ++i) {
     // Infinitesimal dipole: rE_theta = j eta0 k I l sin(theta) / (4 pi), rE_phi = 0
     // (Balanis, Antenna Theory: Analysis and Design, 4th ed., 2016, sec. 4.2; section
@@ -56,12 +58,13 @@ TEST(FarField, HertzianZDipoleMatchesHandbook) {
 TEST(FarField, TriangularDistributionHalvesTheField) {
   // Short centre-fed dipole with a triangular current: effective length l/2 (Balanis
   // 4th ed. sec. 4.3, from memory).
-  Array u = OneDipoleArray(MakeDipole(Vec3(0.01, -0.02, 0.03), Vec3(1, 2, 3), 0.004, 1.3));
-  Array t = u;
+  testing::TestArray u =
+      OneDipoleArray(MakeDipole(Vec3(0.01, -0.02, 0.03), Vec3(1, 2, 3), 0.004), 1.3);
+  testing::TestArray t = u;
   t.dipoles[0].distribution = Distribution::kTriangular;
   const Directions dirs = CoarseGrid();
-  const FarField fu = FieldPlan(u, dirs, DirectMethod()).Execute(CurrentsOf(u));
-  const FarField ft = FieldPlan(t, dirs, DirectMethod()).Execute(CurrentsOf(t));
+  const FarField fu = FieldPlan(u, dirs, DirectMethod()).Execute(u.currents);
+  const FarField ft = FieldPlan(t, dirs, DirectMethod()).Execute(t.currents);
   const double scale = testing::Magnitude(fu).maxCoeff();
   for (std::size_t i = 0; i < dirs.size(); ++i) {
     EXPECT_LE(std::abs(ft.e_theta[i] - 0.5 * fu.e_theta[i]), 1e-14 * scale);
@@ -78,9 +81,9 @@ TEST(FarField, HorizontalDipolesAndPhaseReference) {
   const Directions dirs = CoarseGrid();
   for (const Vec3& u : {Vec3(Vec3::UnitX()), Vec3(Vec3::UnitY())}) {
     const Vec3 r0(0.3, -0.1, 0.25);
-    Array a = OneDipoleArray(MakeDipole(r0, u, 0.005, rng.Phasor(0.5, 1.5)));
-    const FarField f = FieldPlan(a, dirs, DirectMethod()).Execute(CurrentsOf(a));
-    const Complex c = DipoleAmplitude(a, a.dipoles[0]);
+    testing::TestArray a = OneDipoleArray(MakeDipole(r0, u, 0.005), rng.Phasor(0.5, 1.5));
+    const FarField f = FieldPlan(a, dirs, DirectMethod()).Execute(a.currents);
+    const Complex c = DipoleAmplitude(a);
     for (std::size_t i = 0; i < dirs.size(); ++i) {
       const double th = dirs.theta_rad(i), ph = dirs.phi_rad(i);
       const Complex phase = std::exp(kJ * a.wavenumber_rad_m() * dirs.r_hat(i).dot(r0));
@@ -99,7 +102,7 @@ TEST(FarField, HorizontalDipolesAndPhaseReference) {
 }
 
 TEST(FarField, HertzianDirectivityNullsAndBeamwidth) {
-  Array a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.002, 1.0));
+  testing::TestArray a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.002), 1.0);
   const std::vector<double> theta = {0.0,
                                      45 * kDegree,
                                      90 * kDegree,
@@ -111,10 +114,10 @@ TEST(FarField, HertzianDirectivityNullsAndBeamwidth) {
                                      135.1 * kDegree};
   const std::vector<double> phi(theta.size(), 0.3);
   const FarField f =
-      FieldPlan(a, Directions::FromAngles(theta, phi), DirectMethod()).Execute(CurrentsOf(a));
+      FieldPlan(a, Directions::FromAngles(theta, phi), DirectMethod()).Execute(a.currents);
   const Eigen::VectorXd m = testing::Magnitude(f);
   const Eigen::VectorXd u = m.cwiseAbs2() / (2 * kEta0_ohm);
-  const double p = RadiatedPower(ResistanceMatrix(a), CurrentsOf(a));
+  const double p = RadiatedPower(ResistanceMatrix(a), a.currents);
   // D = 1.5 at broadside (Balanis 4th ed. sec. 4.2, from memory).
   EXPECT_NEAR(4 * kPi * u[2] / p, 1.5, 1.5e-12);
   // Nulls on the axis, theta = 0 and 180 deg (same source).
@@ -133,9 +136,9 @@ TEST(FarField, HertzianDirectivityNullsAndBeamwidth) {
 TEST(FarField, RotatingArrayAndDirectionsTogetherKeepsMagnitude) {
   TestRng rng(2024);
   for (int trial = 0; trial < 5; ++trial) {
-    const Array a = testing::RandomArray(rng, 1 + 15 * trial, Ground::kNone);
+    const testing::TestArray a = testing::RandomArray(rng, 1 + 15 * trial, Ground::kNone);
     const Eigen::Matrix3d q = rng.Rotation();
-    Array b = a;
+    testing::TestArray b = a;
     for (Dipole& d : b.dipoles) {
       d.position_m = q * d.position_m;
       d.orientation = (q * d.orientation).normalized();
@@ -152,9 +155,9 @@ TEST(FarField, RotatingArrayAndDirectionsTogetherKeepsMagnitude) {
       ph_q.push_back(p);
     }
     const Eigen::VectorXd m = testing::Magnitude(
-        FieldPlan(a, Directions::FromAngles(th, ph), DirectMethod()).Execute(CurrentsOf(a)));
+        FieldPlan(a, Directions::FromAngles(th, ph), DirectMethod()).Execute(a.currents));
     const Eigen::VectorXd mq = testing::Magnitude(
-        FieldPlan(b, Directions::FromAngles(th_q, ph_q), DirectMethod()).Execute(CurrentsOf(b)));
+        FieldPlan(b, Directions::FromAngles(th_q, ph_q), DirectMethod()).Execute(b.currents));
     const double scale = m.maxCoeff();
     for (int i = 0; i < m.size(); ++i) EXPECT_NEAR(mq[i], m[i], 1e-12 * scale) << "trial " << trial;
   }
@@ -162,7 +165,7 @@ TEST(FarField, RotatingArrayAndDirectionsTogetherKeepsMagnitude) {
 
 TEST(FarField, PlanReuseEqualsFreshPlansAndIsLinear) {
   TestRng rng(7);
-  Array a = testing::RandomArray(rng, 12, Ground::kNone);
+  testing::TestArray a = testing::RandomArray(rng, 12, Ground::kNone);
   const Directions dirs = CoarseGrid();
   Eigen::VectorXcd i1(12), i2(12);
   for (int n = 0; n < 12; ++n) {
@@ -174,10 +177,10 @@ TEST(FarField, PlanReuseEqualsFreshPlansAndIsLinear) {
   const FarField f2 = plan.Execute(i2);
   const double scale = testing::Magnitude(f1).maxCoeff();
   // A fresh plan for each current vector gives the same answer.
-  Array a2 = a;
-  for (int n = 0; n < 12; ++n) a2.dipoles[n].current_a = i2[n];
+  testing::TestArray a2 = a;
+  for (int n = 0; n < 12; ++n) a2.currents[n] = i2[n];
   EXPECT_LE(
-      testing::MaxFieldDifference(FieldPlan(a2, dirs, DirectMethod()).Execute(CurrentsOf(a2)), f2),
+      testing::MaxFieldDifference(FieldPlan(a2, dirs, DirectMethod()).Execute(a2.currents), f2),
       1e-15 * scale);
   EXPECT_LE(testing::MaxFieldDifference(FieldPlan(a, dirs, DirectMethod()).Execute(i1), f1),
             1e-15 * scale);
@@ -192,15 +195,15 @@ TEST(FarField, PlanReuseEqualsFreshPlansAndIsLinear) {
 
 TEST(FarField, ExecuteRangeMatchesExecute) {
   TestRng rng(8);
-  const Array a = testing::RandomArray(rng, 9, Ground::kPec);
+  const testing::TestArray a = testing::RandomArray(rng, 9, Ground::kPec);
   const Directions dirs = CoarseGrid();
   const FieldPlan plan(a, dirs, DirectMethod());
-  const FarField all = plan.Execute(CurrentsOf(a));
+  const FarField all = plan.Execute(a.currents);
   const std::size_t chunk = 37;  // does not divide the direction count
   FarField part;
   for (std::size_t first = 0; first < dirs.size(); first += chunk) {
     const std::size_t count = std::min(chunk, dirs.size() - first);
-    plan.ExecuteRange(CurrentsOf(a), first, count, part);
+    plan.ExecuteRange(a.currents, first, count, part);
     ASSERT_EQ(part.size(), count);
     for (std::size_t i = 0; i < count; ++i) {
       EXPECT_EQ(part.e_theta[i], all.e_theta[first + i]) << "direction " << first + i;
@@ -214,15 +217,15 @@ TEST(FarField, ThreadCountDoesNotChangeTheResult) {
   TestRng rng(9);
   for (FieldMethod method : {FieldMethod::kDirect, FieldMethod::kFast}) {
     for (Ground g : {Ground::kNone, Ground::kPec}) {
-      const Array a = testing::RandomArray(rng, 40, g);
+      const testing::TestArray a = testing::RandomArray(rng, 40, g);
       const Directions dirs =
           Directions::FromGrid(AngularGrid::FromRanges({0, 180, 2}, {0, 358, 2}));
       FieldOptions one, two;
       one.method = two.method = method;
       one.num_threads = 1;
       two.num_threads = 2;
-      const FarField f1 = FieldPlan(a, dirs, one).Execute(CurrentsOf(a));
-      const FarField f2 = FieldPlan(a, dirs, two).Execute(CurrentsOf(a));
+      const FarField f1 = FieldPlan(a, dirs, one).Execute(a.currents);
+      const FarField f2 = FieldPlan(a, dirs, two).Execute(a.currents);
       EXPECT_LE(testing::MaxFieldDifference(f1, f2), 1e-13 * testing::Magnitude(f1).maxCoeff())
           << ToString(method);
     }
@@ -235,7 +238,7 @@ TEST(FarField, FastPathMeetsItsTolerance) {
   TestRng rng(12);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
     for (double tol : {1e-6, 1e-9, 1e-12}) {
-      const Array a = testing::RandomArray(rng, 50, g, 3.0);
+      const testing::TestArray a = testing::RandomArray(rng, 50, g, 3.0);
       const Directions dirs =
           Directions::FromGrid(AngularGrid::FromRanges({0, 180, 1.5}, {0, 358.5, 1.5}));
       FieldOptions fast;
@@ -243,8 +246,8 @@ TEST(FarField, FastPathMeetsItsTolerance) {
       fast.tolerance_relative = tol;
       const FieldPlan plan(a, dirs, fast);
       EXPECT_EQ(plan.method_used(), FieldMethod::kFast);
-      const FarField ff = plan.Execute(CurrentsOf(a));
-      const FarField fd = FieldPlan(a, dirs, DirectMethod()).Execute(CurrentsOf(a));
+      const FarField ff = plan.Execute(a.currents);
+      const FarField fd = FieldPlan(a, dirs, DirectMethod()).Execute(a.currents);
       const double peak = testing::Magnitude(fd).maxCoeff();
       double err = 0;
       for (std::size_t i = 0; i < fd.size(); ++i)
@@ -267,7 +270,7 @@ TEST(FarField, FastPlanReuseAndCopiesFollowTheCurrents) {
   // alternating current vectors, chunked execution and a copied plan must all give the
   // field of the currents actually passed, within the tolerance, and be linear.
   TestRng rng(13);
-  const Array a = testing::RandomArray(rng, 30, Ground::kNone, 3.0);
+  const testing::TestArray a = testing::RandomArray(rng, 30, Ground::kNone, 3.0);
   const Directions dirs = Directions::FromGrid(AngularGrid::FromRanges({0, 180, 2}, {0, 358, 2}));
   Eigen::VectorXcd i1(30), i2(30);
   for (int n = 0; n < 30; ++n) {
@@ -304,17 +307,17 @@ TEST(FarField, FastPlanReuseAndCopiesFollowTheCurrents) {
 }
 
 TEST(FarField, AutoTakesTheDirectSumForSmallJobs) {
-  const Array a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.01, 1.0));
+  const testing::TestArray a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.01), 1.0);
   const FieldPlan plan(a, CoarseGrid());
   EXPECT_EQ(plan.method_used(), FieldMethod::kDirect);
-  EXPECT_EQ(plan.Execute(CurrentsOf(a)).error_bound_relative, 0.0);
+  EXPECT_EQ(plan.Execute(a.currents).error_bound_relative, 0.0);
 }
 
 TEST(FarField, PlanCountsSourcesAndDirections) {
   TestRng rng(10);
   const Directions dirs = CoarseGrid();
-  const Array free = testing::RandomArray(rng, 5, Ground::kNone);
-  const Array pec = testing::RandomArray(rng, 5, Ground::kPec);
+  const testing::TestArray free = testing::RandomArray(rng, 5, Ground::kNone);
+  const testing::TestArray pec = testing::RandomArray(rng, 5, Ground::kPec);
   const FieldPlan pf(free, dirs), pp(pec, dirs);
   EXPECT_EQ(pf.num_dipoles(), 5u);
   EXPECT_EQ(pf.num_sources(), 5u);
@@ -325,7 +328,8 @@ TEST(FarField, PlanCountsSourcesAndDirections) {
 
 TEST(FarField, RejectsInvalidInput) {
   const Directions dirs = CoarseGrid();
-  const Array good = OneDipoleArray(MakeDipole(Vec3(0, 0, 0.1), Vec3::UnitZ(), 0.01, 1.0));
+  const testing::TestArray good =
+      OneDipoleArray(MakeDipole(Vec3(0, 0, 0.1), Vec3::UnitZ(), 0.01), 1.0);
   EXPECT_NO_THROW(FieldPlan(good, dirs, DirectMethod()));
   EXPECT_NO_THROW(Validate(good));
   // A current vector of the wrong length (error.h names this case).
@@ -336,7 +340,7 @@ TEST(FarField, RejectsInvalidInput) {
     EXPECT_THROW(Validate(a), InvalidArgument) << what;
     EXPECT_THROW(FieldPlan(a, dirs, DirectMethod()), InvalidArgument) << what;
   };
-  Array a = good;
+  testing::TestArray a = good;
   a.frequency_hz = 0;
   expect_rejected(a, "zero frequency");
   a = good;
@@ -360,9 +364,14 @@ TEST(FarField, RejectsInvalidInput) {
   a = good;
   a.dipoles[0].position_m.x() = std::numeric_limits<double>::infinity();
   expect_rejected(a, "infinite position");
-  a = good;
-  a.dipoles[0].current_a = Complex(std::nan(""), 0);
-  expect_rejected(a, "NaN current");
+  // The currents are the excitation, apart from the geometry: FieldPlan never sees
+  // them, ValidateCurrents (and every computation that takes them) rejects them.
+  EXPECT_NO_THROW(ValidateCurrents(good, good.currents));
+  Eigen::VectorXcd nan_current = good.currents;
+  nan_current[0] = Complex(std::nan(""), 0);
+  EXPECT_THROW(ValidateCurrents(good, nan_current), InvalidArgument) << "NaN current";
+  EXPECT_THROW(ValidateCurrents(good, Eigen::VectorXcd::Ones(2)), InvalidArgument)
+      << "two currents for one dipole";
 }
 
 }  // namespace

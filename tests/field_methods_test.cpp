@@ -50,7 +50,7 @@ double RelativeDifference(const FarField& a, const FarField& b) {
 
 // rE = -j (w mu0 / 4 pi) sum_n I_n Le_n M_perp exp(+j k r_hat . r_n) (CONVENTIONS §1),
 // with sources and images from ground.h, in long double with std::exp.
-FarField Reference(const Array& a, const Directions& dirs) {
+FarField Reference(const testing::TestArray& a, const Directions& dirs) {
   const std::vector<Dipole> src = RadiatingSources(a);
   const long double k = a.wavenumber_rad_m();
   const long double pref = a.angular_frequency_rad_s() * kMu0_H_m / (4 * kPi);
@@ -62,7 +62,7 @@ FarField Reference(const Array& a, const Directions& dirs) {
     const Vec3 r = dirs.r_hat(i);
     for (std::size_t s = 0; s < src.size(); ++s) {
       const Dipole& d = src[s];
-      const Complex cur = a.dipoles[s % a.size()].current_a;
+      const Complex cur = a.currents[static_cast<Eigen::Index>(DipoleOfSource(s, a.size()))];
       const long double ph = k * (static_cast<long double>(r.x()) * d.position_m.x() +
                                   static_cast<long double>(r.y()) * d.position_m.y() +
                                   static_cast<long double>(r.z()) * d.position_m.z());
@@ -91,15 +91,15 @@ TEST(DirectPath, MatchesLongDoubleReference) {
   const Directions dirs = SphereGrid(7.5);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
     for (int n : {1, 5, 37, 300}) {  // below, at and past a kernel tile and block
-      const Array a = RandomArray(rng, n, g, 6.0);
+      const testing::TestArray a = RandomArray(rng, n, g, 6.0);
       const FarField f =
-          FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect)).Execute(CurrentsOf(a));
+          FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect)).Execute(a.currents);
       EXPECT_LT(RelativeDifference(f, Reference(a, dirs)), 1e-13)
           << n << " dipoles, " << ToString(g);
     }
-    const Array lattice = ZLattice(rng, 9, g);
+    const testing::TestArray lattice = ZLattice(rng, 9, g);
     const FarField f =
-        FieldPlan(lattice, dirs, MethodOptions(FieldMethod::kDirect)).Execute(CurrentsOf(lattice));
+        FieldPlan(lattice, dirs, MethodOptions(FieldMethod::kDirect)).Execute(lattice.currents);
     EXPECT_LT(RelativeDifference(f, Reference(lattice, dirs)), 1e-13) << "lattice, " << ToString(g);
   }
 }
@@ -107,32 +107,32 @@ TEST(DirectPath, MatchesLongDoubleReference) {
 TEST(DirectPath, LargePhasesStayAccurate) {
   // 300 wavelengths across: phases to ~1e3 rad.
   TestRng rng(22);
-  const Array a = RandomArray(rng, 200, Ground::kNone, 300.0);
+  const testing::TestArray a = RandomArray(rng, 200, Ground::kNone, 300.0);
   const Directions dirs = SphereGrid(10);
-  const FarField f = FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect)).Execute(CurrentsOf(a));
+  const FarField f = FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect)).Execute(a.currents);
   EXPECT_LT(RelativeDifference(f, Reference(a, dirs)), 1e-12);
 }
 
 TEST(DirectPath, ThreadCountDoesNotChangeTheResult) {
   TestRng rng(23);
-  const Array a = RandomArray(rng, 2500, Ground::kPec, 10.0);
+  const testing::TestArray a = RandomArray(rng, 2500, Ground::kPec, 10.0);
   const Directions dirs = SphereGrid(3);
   const FarField f1 =
-      FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect, 1e-9, 1)).Execute(CurrentsOf(a));
+      FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect, 1e-9, 1)).Execute(a.currents);
   const FarField f2 =
-      FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect, 1e-9, 2)).Execute(CurrentsOf(a));
+      FieldPlan(a, dirs, MethodOptions(FieldMethod::kDirect, 1e-9, 2)).Execute(a.currents);
   EXPECT_LE(RelativeDifference(f1, f2), 1e-13);
 }
 
 struct FastCase {
   std::string name;
-  Array array;
+  testing::TestArray array;
 };
 
 // An x-directed lattice with rows offset by half the pitch (a triangular grid),
 // pitch in wavelengths, height h over the ground (images are antiparallel).
-Array OffsetRowLattice(TestRng& rng, int side, double pitch, Ground ground) {
-  Array a;
+testing::TestArray OffsetRowLattice(TestRng& rng, int side, double pitch, Ground ground) {
+  testing::TestArray a;
   a.frequency_hz = testing::kTestFrequency_hz;
   a.ground = ground;
   const double lambda = a.wavelength_m();
@@ -140,7 +140,7 @@ Array OffsetRowLattice(TestRng& rng, int side, double pitch, Ground ground) {
     const int row = i / side;
     const Vec3 p(pitch * lambda * ((i % side) + 0.5 * (row % 2)), pitch * lambda * 0.866 * row,
                  0.3 * lambda);
-    a.dipoles.push_back(MakeDipole(p, Vec3::UnitX(), 0.02 * lambda, rng.Phasor(0.1, 2.0)));
+    a.Add(p, Vec3::UnitX(), 0.02 * lambda, rng.Phasor(0.1, 2.0));
   }
   return a;
 }
@@ -158,24 +158,23 @@ TEST_P(FastPath, AgreesWithDirectWithinTolerance) {
   cases.push_back({"random 3-D, PEC ground", RandomArray(rng, 300, Ground::kPec, 6.0)});
   cases.push_back({"z lattice 24x24", ZLattice(rng, 24)});
   cases.push_back({"z lattice 16x16 over PEC", ZLattice(rng, 16, Ground::kPec)});
-  Array line = ZLattice(rng, 1);
+  testing::TestArray line = ZLattice(rng, 1);
   for (int i = 1; i < 200; ++i) {
     Dipole d = line.dipoles[0];
     d.position_m.x() = 0.7 * line.wavelength_m() * i;
     d.orientation = Vec3(1, 1, 0).normalized();
-    d.current_a = rng.Phasor(0.1, 2.0);
-    line.dipoles.push_back(d);
+    line.Add(d, rng.Phasor(0.1, 2.0));
   }
   line.dipoles[0].orientation = Vec3(1, 1, 0).normalized();
   cases.push_back({"linear, tilted", line});
   cases.push_back({"offset-row x lattice, 2-wavelength pitch, over PEC",
                    OffsetRowLattice(rng, 12, 2.0, Ground::kPec)});
-  Array general = ZLattice(rng, 10);
+  testing::TestArray general = ZLattice(rng, 10);
   for (Dipole& d : general.dipoles) d.orientation = rng.UnitVector();
   cases.push_back({"lattice of random orientations", general});
   const Directions dirs = SphereGrid(2);
   for (const FastCase& c : cases) {
-    const Eigen::VectorXcd cur = CurrentsOf(c.array);
+    const Eigen::VectorXcd cur = c.array.currents;
     const FieldPlan fast(c.array, dirs, MethodOptions(FieldMethod::kFast, tol));
     ASSERT_EQ(fast.method_used(), FieldMethod::kFast);
     const FarField ff = fast.Execute(cur);
@@ -204,7 +203,7 @@ TEST(FastPath, LatticesTakeTheLatticeTransformAndOthersTypeThree) {
   EXPECT_EQ(transform(RandomArray(rng, 300, Ground::kNone, 6.0)), FastTransform::kType3);
   // One dipole 1 um off its site: a phase error of 9e-6 rad at 433.92 MHz,
   // far above what the 1e-9 tolerance allows, so the points are not a lattice.
-  Array jittered = ZLattice(rng, 24);
+  testing::TestArray jittered = ZLattice(rng, 24);
   jittered.dipoles[100].position_m.x() += 1e-6;
   EXPECT_EQ(transform(jittered), FastTransform::kType3);
   EXPECT_EQ(FieldPlan(jittered, dirs, MethodOptions(FieldMethod::kDirect)).fast_transform(),
@@ -215,8 +214,8 @@ TEST(FastPath, LatticesTakeTheLatticeTransformAndOthersTypeThree) {
 TEST(DirectPath, ExecuteAtMatchesAPlanOnThoseDirections) {
   TestRng rng(28);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    const Array a = RandomArray(rng, 150, g, 3.0);
-    const Eigen::VectorXcd cur = CurrentsOf(a);
+    const testing::TestArray a = RandomArray(rng, 150, g, 3.0);
+    const Eigen::VectorXcd cur = a.currents;
     std::vector<double> th, ph;
     for (int i = 0; i < 300; ++i)
       th.push_back(rng.Uniform(0, kPi)), ph.push_back(rng.Uniform(0, 2 * kPi));
@@ -240,11 +239,11 @@ TEST(DirectPath, ExecuteAtMatchesAPlanOnThoseDirections) {
 
 TEST(FastPath, ChunkedExecutionMatchesWhole) {
   TestRng rng(25);
-  const Array a = RandomArray(rng, 100, Ground::kNone, 4.0);
+  const testing::TestArray a = RandomArray(rng, 100, Ground::kNone, 4.0);
   const Directions dirs = SphereGrid(5);
   for (FieldMethod m : {FieldMethod::kDirect, FieldMethod::kFast}) {
     const FieldPlan plan(a, dirs, MethodOptions(m));
-    const Eigen::VectorXcd cur = CurrentsOf(a);
+    const Eigen::VectorXcd cur = a.currents;
     const FarField whole = plan.Execute(cur);
     FarField part;
     for (std::size_t first = 0; first < plan.num_directions(); first += 77) {
@@ -268,21 +267,21 @@ TEST(FastPath, ChunkedExecutionMatchesWhole) {
 TEST(FastPath, TotalCancellationFallsBackToTheExactSum) {
   // Two coincident dipoles with opposite currents radiate nothing: no tolerance
   // relative to a zero peak can be met by the NUFFT, so the plan sums directly.
-  Array a =
-      testing::OneDipoleArray(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(1, 0)));
-  a.dipoles.push_back(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(-1, 0)));
+  testing::TestArray a =
+      testing::OneDipoleArray(MakeDipole(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01), Complex(1, 0));
+  a.Add(Vec3(0.1, 0.2, 0.3), Vec3::UnitZ(), 0.01, Complex(-1, 0));
   const FieldPlan plan(a, SphereGrid(10), MethodOptions(FieldMethod::kFast));
-  const FarField f = plan.Execute(CurrentsOf(a));
+  const FarField f = plan.Execute(a.currents);
   EXPECT_EQ(Peak(f), 0.0);
   EXPECT_EQ(f.error_bound_relative, 0.0);
 }
 
 TEST(MethodChoice, AutoIsDirectForSmallAndFastForLargeJobs) {
   TestRng rng(26);
-  const Array small = RandomArray(rng, 16, Ground::kNone, 2.0);
+  const testing::TestArray small = RandomArray(rng, 16, Ground::kNone, 2.0);
   EXPECT_EQ(FieldPlan(small, SphereGrid(1), FieldOptions{}).method_used(), FieldMethod::kDirect);
   // 128 x 128 lattice on a 0.25 deg grid: 1.7e10 pairs directly.
-  const Array big = ZLattice(rng, 128);
+  const testing::TestArray big = ZLattice(rng, 128);
   const Directions fine =
       Directions::FromGrid(AngularGrid::FromRanges({0, 180, 0.25}, {0, 360, 0.25}));
   EXPECT_EQ(FieldPlan(big, fine, FieldOptions{}).method_used(), FieldMethod::kFast);
@@ -310,7 +309,7 @@ TEST(FieldOptionsCheck, NamesTheFieldAndValue) {
   EXPECT_FALSE(o.IsValid(&why));
   EXPECT_NE(why.find("num_threads"), std::string::npos) << why;
   TestRng rng(27);
-  const Array a = RandomArray(rng, 3, Ground::kNone);
+  const testing::TestArray a = RandomArray(rng, 3, Ground::kNone);
   o.num_threads = 0;
   o.tolerance_relative = 0.0;
   EXPECT_THROW(FieldPlan(a, SphereGrid(30), o), InvalidArgument);

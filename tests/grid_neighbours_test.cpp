@@ -284,7 +284,7 @@ TEST(GridNeighbours, AnalysisGrowsByLessThanTwoBytesPerDirection) {
   // grid-wide work is what the peak measures. Its growth with the grid must stay
   // below 2 bytes per direction: masks are a bit per direction; one copy of the
   // directivity would be 8.
-  Array a;
+  testing::TestArray a;
   a.frequency_hz = testing::kTestFrequency_hz;
   const double lambda = a.wavelength_m(), k = 2 * kPi / lambda;
   const Vec3 steer(std::sin(30 * kDegree) * std::cos(20 * kDegree),
@@ -292,8 +292,7 @@ TEST(GridNeighbours, AnalysisGrowsByLessThanTwoBytesPerDirection) {
   for (int ix = 0; ix < 6; ++ix)
     for (int iy = 0; iy < 6; ++iy) {
       const Vec3 r(0.5 * lambda * ix, 0.5 * lambda * iy, 0.0);
-      a.dipoles.push_back(
-          MakeDipole(r, Vec3::UnitX(), lambda / 50, std::polar(1.0, -k * steer.dot(r))));
+      a.Add(r, Vec3::UnitX(), lambda / 50, std::polar(1.0, -k * steer.dot(r)));
     }
   AnalysisOptions o;
   o.axial_ratio_phi_planes = 4;
@@ -306,12 +305,12 @@ TEST(GridNeighbours, AnalysisGrowsByLessThanTwoBytesPerDirection) {
     PatternAnalysis analysis;
   };
   auto run = [&](double step_deg) {
-    const PatternResult g =
-        ComputePattern(a, AngularGrid::FromRanges({0, 180, step_deg}, {0, 360, step_deg}));
+    const PatternResult g = ComputePattern(
+        a, a.currents, AngularGrid::FromRanges({0, 180, step_deg}, {0, 360, step_deg}));
     Run r;
     r.directions = g.grid.size();
     const PeakAllocation peak;
-    r.analysis = AnalyzePattern(a, g, o);
+    r.analysis = AnalyzePattern(a, a.currents, g, o);
     r.peak_bytes = static_cast<double>(peak.bytes());
     return r;
   };

@@ -98,8 +98,8 @@ TEST(MutualImpedance, MatchesTheVectorPotentialByDifferences) {
   const double lambda = Lambda();
   for (int t = 0; t < 40; ++t) {
     const double dist = lambda * std::pow(10.0, rng.Uniform(-2.0, 1.0));  // x from 0.06 to 63
-    const Dipole a = MakeDipole(Vec3::Zero(), rng.UnitVector(), 0.01 * lambda, 1.0);
-    const Dipole b = MakeDipole(dist * rng.UnitVector(), rng.UnitVector(), 0.02 * lambda, 1.0,
+    const Dipole a = MakeDipole(Vec3::Zero(), rng.UnitVector(), 0.01 * lambda);
+    const Dipole b = MakeDipole(dist * rng.UnitVector(), rng.UnitVector(), 0.02 * lambda,
                                 Distribution::kTriangular);
     const Complex z = MutualImpedance(b, a, K());
     const Complex ref = ImpedanceByDifferences(b, a, K());
@@ -114,9 +114,9 @@ TEST(MutualImpedance, MatchesTheSphericalFieldComponents) {
   const double lambda = Lambda();
   for (int t = 0; t < 200; ++t) {
     const double dist = lambda * std::pow(10.0, rng.Uniform(-3.0, 2.0));
-    const Dipole a = MakeDipole(rng.UnitVector(), rng.UnitVector(), 0.01 * lambda, 1.0);
+    const Dipole a = MakeDipole(rng.UnitVector(), rng.UnitVector(), 0.01 * lambda);
     const Dipole b =
-        MakeDipole(a.position_m + dist * rng.UnitVector(), rng.UnitVector(), 0.03 * lambda, 1.0);
+        MakeDipole(a.position_m + dist * rng.UnitVector(), rng.UnitVector(), 0.03 * lambda);
     const Complex z = MutualImpedance(b, a, K());
     const Complex ref = ImpedanceBySphericalField(b, a, K());
     // Both closed forms, different algebra: agreement to rounding of the largest term.
@@ -132,9 +132,9 @@ TEST(MutualImpedance, RealPartIsTheMutualResistanceAndReciprocal) {
   const double lambda = Lambda();
   for (int t = 0; t < 300; ++t) {
     const double dist = lambda * std::pow(10.0, rng.Uniform(-4.0, 2.0));
-    const Dipole a = MakeDipole(rng.UnitVector(), rng.UnitVector(), 0.01 * lambda, 1.0);
+    const Dipole a = MakeDipole(rng.UnitVector(), rng.UnitVector(), 0.01 * lambda);
     const Dipole b = MakeDipole(a.position_m + dist * rng.UnitVector(), rng.UnitVector(),
-                                0.02 * lambda, 1.0, Distribution::kTriangular);
+                                0.02 * lambda, Distribution::kTriangular);
     const Complex zab = MutualImpedance(a, b, K()), zba = MutualImpedance(b, a, K());
     const double r = MutualResistance(a, b, K());
     const double rself = MutualResistance(a, a, K());
@@ -151,17 +151,17 @@ TEST(MutualImpedance, ParallelSideBySideHasTheHandbookLimits) {
   //  near (x << 1): Z12 -> -j eta0 Le^2 / (4 pi k d^3), the quasi-static coupling of
   //    two charge dipoles (capacitive).
   const double lambda = Lambda(), le = 0.01 * lambda;
-  const Dipole a = MakeDipole(Vec3::Zero(), Vec3::UnitZ(), le, 1.0);
+  const Dipole a = MakeDipole(Vec3::Zero(), Vec3::UnitZ(), le);
   for (double x : {1e3, 1e4}) {
     const double d = x / K();
-    const Dipole b = MakeDipole(Vec3(d, 0, 0), Vec3::UnitZ(), le, 1.0);
+    const Dipole b = MakeDipole(Vec3(d, 0, 0), Vec3::UnitZ(), le);
     const Complex ref =
         Complex(0, 1) * K() * kEta0_ohm * le * le * std::exp(Complex(0, -x)) / (4 * kPi * d);
     EXPECT_LT(std::abs(MutualImpedance(a, b, K()) - ref), 2.0 / x * std::abs(ref)) << x;
   }
   for (double x : {1e-3, 1e-4}) {
     const double d = x / K();
-    const Dipole b = MakeDipole(Vec3(d, 0, 0), Vec3::UnitZ(), le, 1.0);
+    const Dipole b = MakeDipole(Vec3(d, 0, 0), Vec3::UnitZ(), le);
     const double xref = -kEta0_ohm * le * le / (4 * kPi * K() * d * d * d);
     EXPECT_NEAR(MutualImpedance(a, b, K()).imag(), xref, 2 * x * x * std::abs(xref)) << x;
   }
@@ -169,9 +169,9 @@ TEST(MutualImpedance, ParallelSideBySideHasTheHandbookLimits) {
 
 TEST(MutualImpedance, CoincidentDipoles) {
   const double lambda = Lambda();
-  const Dipole a = MakeDipole(Vec3::Zero(), Vec3::UnitX(), 0.01 * lambda, 1.0);
-  const Dipole b = MakeDipole(Vec3::Zero(), Vec3::UnitY(), 0.01 * lambda, 1.0);
-  const Dipole c = MakeDipole(Vec3::Zero(), Vec3(1, 1, 0), 0.01 * lambda, 1.0);
+  const Dipole a = MakeDipole(Vec3::Zero(), Vec3::UnitX(), 0.01 * lambda);
+  const Dipole b = MakeDipole(Vec3::Zero(), Vec3::UnitY(), 0.01 * lambda);
+  const Dipole c = MakeDipole(Vec3::Zero(), Vec3(1, 1, 0), 0.01 * lambda);
   EXPECT_EQ(MutualImpedance(a, b, K()), Complex(0.0));  // crossed: zero by symmetry
   const Complex zac = MutualImpedance(a, c, K());
   EXPECT_NEAR(zac.real(), MutualResistance(a, c, K()), 1e-15);
@@ -180,7 +180,7 @@ TEST(MutualImpedance, CoincidentDipoles) {
 
 TEST(ImpedanceMatrix, GroundAddsTheImageCouplingAndSelfReactanceGoesOnTheDiagonal) {
   TestRng rng(73);
-  const Array a = RandomArray(rng, 9, Ground::kPec, 1.0);
+  const testing::TestArray a = RandomArray(rng, 9, Ground::kPec, 1.0);
   const Eigen::VectorXd xs = Eigen::VectorXd::LinSpaced(9, -300.0, 100.0);
   const Eigen::MatrixXcd z = ImpedanceMatrix(a, xs);
   const Eigen::MatrixXd r = ResistanceMatrix(a);
@@ -207,9 +207,9 @@ TEST(ActiveResistance, EndfirePairNeedsTheMutualReactance) {
   // Z12 = 0.17924 - j 0.19187 ohm, so 0.12374 and 0.50748 ohm; the old
   // Re(sum R_mn I_n / I_m) gave 0.31561 for both.
   const double lambda = Lambda();
-  Array a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.02 * lambda, 1.0));
-  a.dipoles.push_back(
-      MakeDipole(Vec3(0.25 * lambda, 0, 0), Vec3::UnitZ(), 0.02 * lambda, Complex(0, -1)));
+  testing::TestArray a =
+      OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.02 * lambda), 1.0);
+  a.Add(Vec3(0.25 * lambda, 0, 0), Vec3::UnitZ(), 0.02 * lambda, Complex(0, -1));
   const Complex z12 = ImpedanceByDifferences(a.dipoles[0], a.dipoles[1], K());
   const double r11 = MutualResistance(a.dipoles[0], a.dipoles[0], K());
   const double ref1 = r11 + (z12 * Complex(0, -1)).real();
@@ -217,9 +217,9 @@ TEST(ActiveResistance, EndfirePairNeedsTheMutualReactance) {
   EXPECT_NEAR(ref1, 0.12374, 1e-5);  // the hand values above
   EXPECT_NEAR(ref2, 0.50748, 1e-5);
   for (const Eigen::VectorXd& act :
-       {RadiatedPowerStreamed(a, CurrentsOf(a)).active_resistance_ohm,
+       {RadiatedPowerStreamed(a, a.currents).active_resistance_ohm,
         Eigen::VectorXd(
-            ActiveImpedance(ImpedanceMatrix(a, Eigen::VectorXd::Zero(2)), CurrentsOf(a)).real())}) {
+            ActiveImpedance(ImpedanceMatrix(a, Eigen::VectorXd::Zero(2)), a.currents).real())}) {
     EXPECT_NEAR(act[0], ref1, 1e-6 * r11);
     EXPECT_NEAR(act[1], ref2, 1e-6 * r11);
   }
@@ -230,8 +230,8 @@ TEST(ActiveResistance, WeightedSumIsThePowerAndSelfReactanceDoesNotMatter) {
   // X real: I^H X I is real), whatever the self reactances.
   TestRng rng(74);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    const Array a = RandomArray(rng, 17, g);
-    const Eigen::VectorXcd i = CurrentsOf(a);
+    const testing::TestArray a = RandomArray(rng, 17, g);
+    const Eigen::VectorXcd i = a.currents;
     const Eigen::VectorXd act0 =
         ActiveImpedance(ImpedanceMatrix(a, Eigen::VectorXd::Zero(17)), i).real();
     const Eigen::VectorXd act1 =
@@ -247,9 +247,10 @@ TEST(ActiveResistance, WeightedSumIsThePowerAndSelfReactanceDoesNotMatter) {
 TEST(ActiveResistance, InPhaseCurrentsNeedNoReactance) {
   // With real currents X I / I_m is real, so Re Z_act = (R I)_m / I_m.
   TestRng rng(75);
-  Array a = RandomArray(rng, 12, Ground::kPec);
-  for (Dipole& d : a.dipoles) d.current_a = std::abs(d.current_a) * (rng.Uniform() < 0.5 ? 1 : -1);
-  const Eigen::VectorXcd i = CurrentsOf(a);
+  testing::TestArray a = RandomArray(rng, 12, Ground::kPec);
+  for (Eigen::Index m = 0; m < a.currents.size(); ++m)
+    a.currents[m] = std::abs(a.currents[m]) * (rng.Uniform() < 0.5 ? 1 : -1);
+  const Eigen::VectorXcd i = a.currents;
   const Eigen::MatrixXd r = ResistanceMatrix(a);
   const Eigen::VectorXd act = RadiatedPowerStreamed(a, i).active_resistance_ohm;
   const Eigen::VectorXcd ri = r.cast<Complex>() * i;
@@ -261,16 +262,15 @@ TEST(ActiveResistance, InPhaseCurrentsNeedNoReactance) {
 
 TEST(ActiveResistance, UndefinedForAnUndrivenElementAndSelfForOne) {
   TestRng rng(76);
-  Array a = RandomArray(rng, 4, Ground::kNone);
-  a.dipoles[2].current_a = 0;
+  testing::TestArray a = RandomArray(rng, 4, Ground::kNone);
+  a.currents[2] = 0;
   const Eigen::VectorXd act =
-      ActiveImpedance(ImpedanceMatrix(a, Eigen::VectorXd::Zero(4)), CurrentsOf(a)).real();
+      ActiveImpedance(ImpedanceMatrix(a, Eigen::VectorXd::Zero(4)), a.currents).real();
   EXPECT_TRUE(std::isnan(act[2]));
   EXPECT_TRUE(std::isfinite(act[0]));
-  const Array one = OneDipoleArray(a.dipoles[0]);
+  const testing::TestArray one = OneDipoleArray(a.dipoles[0], a.currents[0]);
   const double r11 = MutualResistance(one.dipoles[0], one.dipoles[0], K());
-  EXPECT_NEAR(RadiatedPowerStreamed(one, CurrentsOf(one)).active_resistance_ohm[0], r11,
-              1e-14 * r11);
+  EXPECT_NEAR(RadiatedPowerStreamed(one, one.currents).active_resistance_ohm[0], r11, 1e-14 * r11);
 }
 
 }  // namespace

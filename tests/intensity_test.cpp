@@ -26,12 +26,12 @@ TEST(Intensity, PlaneWaveIntensityIsPowerDensityTimesRSquared) {
 
 TEST(Intensity, ShortDipoleBroadsideDirectivityIsOneAndAHalf) {
   // Hertzian dipole: D = 1.5 sin^2(theta) (Balanis, 4th ed., sec. 4.2, from memory).
-  const Array a = testing::OneDipoleArray(
-      testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.001, Complex(1.0, 0.0)));
-  const double p = RadiatedPower(ResistanceMatrix(a), CurrentsOf(a));
+  const testing::TestArray a = testing::OneDipoleArray(
+      testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.001), Complex(1.0, 0.0));
+  const double p = RadiatedPower(ResistanceMatrix(a), a.currents);
   const FarField f = FieldPlan(a, Directions::FromAngles({0.5 * kPi, kPi / 6.0}, {0.3, 1.0}),
                                testing::DirectMethod())
-                         .Execute(CurrentsOf(a));
+                         .Execute(a.currents);
   const double d90 = DirectivityPerIntensity(p) * RadiationIntensity(f.e_theta[0], f.e_phi[0]);
   const double d30 = DirectivityPerIntensity(p) * RadiationIntensity(f.e_theta[1], f.e_phi[1]);
   EXPECT_NEAR(d90, 1.5, 1e-12);

@@ -41,13 +41,13 @@ double Separation_deg(double t1, double p1, double t2, double p2) {
 
 // n z-directed Hertzian dipoles on the x axis, spacing d, currents exp(-j k d i cos phi0):
 // the array factor in the xy plane peaks at phi = phi0 (phi0 = 90 deg: broadside).
-Array ZLineAlongX(int n, double spacing_m, double phi0_deg) {
-  Array a;
+testing::TestArray ZLineAlongX(int n, double spacing_m, double phi0_deg) {
+  testing::TestArray a;
   a.frequency_hz = kTestFrequency_hz;
   const double k = 2 * kPi / Lambda();
   for (int i = 0; i < n; ++i) {
     const Complex c = std::polar(1.0, -k * spacing_m * i * std::cos(phi0_deg * kDegree));
-    a.dipoles.push_back(MakeDipole(Vec3(i * spacing_m, 0, 0), Vec3::UnitZ(), Lambda() / 100, c));
+    a.Add(Vec3(i * spacing_m, 0, 0), Vec3::UnitZ(), Lambda() / 100, c);
   }
   return a;
 }
@@ -104,10 +104,10 @@ TEST(PatternAnalysis, HertzianDipole) {
   // z-directed Hertzian dipole: D = 1.5 on the equator, HPBW 90 deg in the elevation
   // plane (sin^2 theta = 1/2 at 45 and 135 deg), nulls exactly on the axis (Balanis,
   // Antenna Theory, 4th ed., 2016, sec. 4.2; section number from memory).
-  const Array a =
-      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100, 1.0));
-  const PatternResult g = ComputePattern(a, Grid(5.0));
-  const PatternAnalysis r = AnalyzePattern(a, g);
+  const testing::TestArray a =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100), 1.0);
+  const PatternResult g = ComputePattern(a, a.currents, Grid(5.0));
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, g);
   EXPECT_NEAR(r.peak.directivity, 1.5, 1.5e-12);
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-6);
   EXPECT_TRUE(r.elevation_cut.half_power_found);
@@ -135,8 +135,9 @@ TEST(PatternAnalysis, TiltedDipoleNullsOffGrid) {
   const double t0 = 17.3, p0 = 41.7;
   const Vec3 u(std::sin(t0 * kDegree) * std::cos(p0 * kDegree),
                std::sin(t0 * kDegree) * std::sin(p0 * kDegree), std::cos(t0 * kDegree));
-  const Array a = testing::OneDipoleArray(MakeDipole(Vec3::Zero(), u, Lambda() / 100, 1.0));
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  const testing::TestArray a =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), u, Lambda() / 100), 1.0);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   ASSERT_EQ(r.nulls.size(), 2u);
   for (const Null& n : r.nulls) {
     const double d =
@@ -157,8 +158,8 @@ TEST(PatternAnalysis, UniformBroadsideLine) {
   // N d = 16 lambda here). The elevation cut (yz plane) sees the element factor only.
   const int n = 32;
   const double d = 0.5 * Lambda();
-  const Array a = ZLineAlongX(n, d, 90.0);
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(1.0)));
+  const testing::TestArray a = ZLineAlongX(n, d, 90.0);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(1.0)));
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-6);
   EXPECT_NEAR(std::abs(r.peak.direction.phi_deg - 180.0), 90.0, 1e-6);
 
@@ -200,8 +201,8 @@ TEST(PatternAnalysis, UniformBroadsideLine) {
 TEST(PatternAnalysis, FirstSideLobeApproachesLimit) {
   // The first side lobe of a uniform line tends to -13.26 dB from above as N grows
   // (Balanis 4th ed., sec. 6.3; from memory): 8 elements are further from it than 32.
-  const Array a = ZLineAlongX(8, 0.5 * Lambda(), 90.0);
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(2.0)));
+  const testing::TestArray a = ZLineAlongX(8, 0.5 * Lambda(), 90.0);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)));
   ASSERT_TRUE(r.highest_side_lobe.has_value());
   EXPECT_NEAR(r.highest_side_lobe->level_db, FirstSideLobeDb(8), 1e-6);
   EXPECT_GT(r.highest_side_lobe->level_db + 13.26, 0.3);  // about -12.8 dB for N = 8
@@ -212,14 +213,14 @@ TEST(PatternAnalysis, EndfirePairFrontToBack) {
   // toward the lagging side (Kraus, Antennas, 2nd ed., 1988, two isotropic point
   // sources, case of lambda/4 spacing and 90 deg phase; from memory). z dipoles on the x
   // axis, element 1 lagging: peak toward +x, null toward -x.
-  Array a;
+  testing::TestArray a;
   a.frequency_hz = kTestFrequency_hz;
-  a.dipoles = {
-      MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100, 1.0),
-      MakeDipole(Vec3(0.25 * Lambda(), 0, 0), Vec3::UnitZ(), Lambda() / 100, Complex(0, -1))};
+  a.Add(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  a.Add(Vec3(0.25 * Lambda(), 0, 0), Vec3::UnitZ(), Lambda() / 100, Complex(0, -1));
   AnalysisOptions o;
   o.protected_directions_deg = {{90.0, 180.0}, {90.0, 0.0}};
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)), o);
+  const PatternAnalysis r =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)), o);
   EXPECT_LT(Separation_deg(r.peak.direction.theta_deg, r.peak.direction.phi_deg, 90, 0), 1e-4);
   // The back field is zero up to rounding (~1e-16 of the peak field): +inf, not a
   // finite ~320 dB of noise.
@@ -241,8 +242,8 @@ TEST(PatternAnalysis, SteeredPeakAndNullsOffGrid) {
   // 4th ed., sec. 6.3; from memory). Grid 5 deg; both found to better than 1e-4 deg.
   const int n = 8;
   const double d = 0.5 * Lambda(), phi0 = 62.3456;
-  const Array a = ZLineAlongX(n, d, phi0);
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  const testing::TestArray a = ZLineAlongX(n, d, phi0);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
   EXPECT_NEAR(r.peak.direction.phi_deg, phi0, 1e-4);
   ASSERT_FALSE(r.nulls.empty());
@@ -265,9 +266,9 @@ TEST(PatternAnalysis, VerticalDipoleOverGround) {
   // 4th ed., sec. 4.7.2; CONVENTIONS §1). The lower half space has no field and must not
   // show up as nulls; the only null is the zenith. The elevation beam is clipped by the
   // ground: from the horizon up to 45 deg elevation (sin^2 theta = 1/2).
-  const Array a = testing::OneDipoleArray(
-      MakeDipole(Vec3(0, 0, 1e-3 * Lambda()), Vec3::UnitZ(), Lambda() / 100, 1.0), Ground::kPec);
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  const testing::TestArray a = testing::OneDipoleArray(
+      MakeDipole(Vec3(0, 0, 1e-3 * Lambda()), Vec3::UnitZ(), Lambda() / 100), 1.0, Ground::kPec);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   EXPECT_NEAR(r.peak.directivity, 3.0, 1e-3);
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
   ASSERT_EQ(r.nulls.size(), 1u);
@@ -302,9 +303,9 @@ TEST(PatternAnalysis, LinearDipoleXpd) {
   // An x dipole's field on its broadside circle (the yz plane) is exactly along the
   // Ludwig-3 x co-polar vector (A. C. Ludwig, IEEE Trans. AP-21, 1973), so the XPD at the
   // peak is unbounded; the field is linear, AR = +inf (IEEE Std 145-2013).
-  const Array a =
-      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100, 1.0));
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  const testing::TestArray a =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100), 1.0);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   // The cross field is zero up to rounding: +inf, not a finite ~320 dB of noise.
   EXPECT_TRUE(std::isinf(r.polarization.xpd_at_peak_db) && r.polarization.xpd_at_peak_db > 0)
       << r.polarization.xpd_at_peak_db;
@@ -322,9 +323,9 @@ TEST(PatternAnalysis, WorstXpdInBeam) {
   // AP-21, 1973, third definition). The -3 dB beam is the cap about the zenith where
   // D ~ (1 - sin^2 t cos^2 p) sin^2(pi/2 cos t) >= half its peak. The worst XPD in it is
   // compared with a dense scan of that closed form over the cap.
-  const Array a = testing::OneDipoleArray(
-      MakeDipole(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitX(), Lambda() / 100, 1.0), Ground::kPec);
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)));
+  const testing::TestArray a = testing::OneDipoleArray(
+      MakeDipole(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitX(), Lambda() / 100), 1.0, Ground::kPec);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   EXPECT_LT(r.peak.direction.theta_deg, 1e-4);
   auto d = [](double t, double p) {
     return (1 - std::pow(std::sin(t) * std::cos(p), 2)) *
@@ -351,11 +352,12 @@ TEST(PatternAnalysis, LargeFiniteXpdStaysFinite) {
   // x and y (Ludwig, IEEE Trans. AP-21, 1973), so XPD = -20 log10(tan a) = 60.0000 dB, a
   // large but genuine ratio that must not be read as rounding noise.
   const double a_rad = 1e-3;
-  const Array arr = testing::OneDipoleArray(
-      MakeDipole(Vec3(0, 0, 0.25 * Lambda()), Vec3(std::cos(a_rad), std::sin(a_rad), 0),
-                 Lambda() / 100, 1.0),
-      Ground::kPec);
-  const PatternAnalysis r = AnalyzePattern(arr, ComputePattern(arr, Grid(5.0)));
+  const testing::TestArray arr =
+      testing::OneDipoleArray(MakeDipole(Vec3(0, 0, 0.25 * Lambda()),
+                                         Vec3(std::cos(a_rad), std::sin(a_rad), 0), Lambda() / 100),
+                              1.0, Ground::kPec);
+  const PatternAnalysis r =
+      AnalyzePattern(arr, arr.currents, ComputePattern(arr, arr.currents, Grid(5.0)));
   ASSERT_LT(r.peak.direction.theta_deg, 1e-4);
   EXPECT_NEAR(r.polarization.xpd_at_peak_db, -20 * std::log10(std::tan(a_rad)), 1e-6);
 }
@@ -365,13 +367,14 @@ TEST(PatternAnalysis, TurnstileAxialRatio) {
   // Et = c cos(theta) e^{-j phi}, Ep = -j c e^{-j phi}: quadrature phase, so
   // AR = 1/|cos theta|, right-hand above the xy plane (E_R = (Et + j Ep)/sqrt2, IEEE Std
   // 145-2013). AR <= 3 dB where cos(theta) >= 10^(-3/20): a cap of 2 pi (1 - 10^(-3/20)) sr.
-  Array a;
+  testing::TestArray a;
   a.frequency_hz = kTestFrequency_hz;
-  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100, 1.0),
-               MakeDipole(Vec3::Zero(), Vec3::UnitY(), Lambda() / 100, Complex(0, -1))};
+  a.Add(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100, 1.0);
+  a.Add(Vec3::Zero(), Vec3::UnitY(), Lambda() / 100, Complex(0, -1));
   AnalysisOptions o;
   o.reference = PolarizationReference::kRightCircular;
-  const PatternAnalysis r = AnalyzePattern(a, ComputePattern(a, Grid(5.0)), o);
+  const PatternAnalysis r =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)), o);
   EXPECT_LT(r.peak.direction.theta_deg, 1e-4);
   EXPECT_LT(r.polarization.axial_ratio_at_peak_db, 1e-9);
   EXPECT_EQ(r.polarization.sense_at_peak, 1);
@@ -390,7 +393,7 @@ TEST(PatternAnalysis, TurnstileAxialRatio) {
       ph.push_back((j + 0.5) * 2 * kPi / n_phi);
     }
   const FarField f =
-      FieldPlan(a, Directions::FromAngles(th, ph), testing::DirectMethod()).Execute(CurrentsOf(a));
+      FieldPlan(a, Directions::FromAngles(th, ph), testing::DirectMethod()).Execute(a.currents);
   double omega = 0;
   for (std::size_t i = 0; i < f.size(); ++i) {
     const Polarization p = PolarizationOf(f.e_theta[static_cast<Eigen::Index>(i)],
@@ -415,13 +418,13 @@ TEST(PatternAnalysis, RejectsBadOptionsAndMismatchedResults) {
   EXPECT_FALSE(o.IsValid(&why));
   EXPECT_NE(why.find("protected_directions_deg"), std::string::npos) << why;
 
-  const Array z =
-      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100, 1.0));
-  const Array x =
-      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100, 1.0));
-  const PatternResult g = ComputePattern(z, Grid(10.0));
-  EXPECT_THROW(AnalyzePattern(x, g), InvalidArgument);
-  EXPECT_THROW(AnalyzePattern(z, g, o), InvalidArgument);
+  const testing::TestArray z =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), Lambda() / 100), 1.0);
+  const testing::TestArray x =
+      testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitX(), Lambda() / 100), 1.0);
+  const PatternResult g = ComputePattern(z, z.currents, Grid(10.0));
+  EXPECT_THROW(AnalyzePattern(x, x.currents, g), InvalidArgument);
+  EXPECT_THROW(AnalyzePattern(z, z.currents, g, o), InvalidArgument);
 }
 
 TEST(PatternAnalysis, NullFieldNames) {

@@ -10,14 +10,15 @@
 #include "engine/pattern.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "tests/test_util.h"
 
 namespace lobecast {
 namespace {
 
 // A 12 x 12 lattice of random-current x dipoles over a PEC plane: big enough for
 // the fast path, small enough to be quick.
-Array Panel() {
-  Array a;
+testing::TestArray Panel() {
+  testing::TestArray a;
   a.frequency_hz = 1e9;
   a.ground = Ground::kPec;
   const double lambda = a.wavelength_m();
@@ -29,22 +30,21 @@ Array Panel() {
       d.position_m = Vec3(0.5 * lambda * ix, 0.5 * lambda * iy, 0.25 * lambda);
       d.orientation = Vec3::UnitX();
       d.length_m = 0.05 * lambda;
-      d.current_a = Complex(u(rng), u(rng));
-      a.dipoles.push_back(d);
+      a.Add(d, Complex(u(rng), u(rng)));
     }
   }
   return a;
 }
 
 TEST(PatternOptions, FastFieldMatchesDirectWithinTolerance) {
-  const Array a = Panel();
+  const testing::TestArray a = Panel();
   const AngularGrid g = AngularGrid::FromRanges({0, 180, 1}, {0, 360, 2});
   PatternOptions direct, fast;
   direct.field.method = FieldMethod::kDirect;
   fast.field.method = FieldMethod::kFast;
   fast.field.tolerance_relative = 1e-9;
-  const PatternResult rd = ComputePattern(a, g, direct);
-  const PatternResult rf = ComputePattern(a, g, fast);
+  const PatternResult rd = ComputePattern(a, a.currents, g, direct);
+  const PatternResult rf = ComputePattern(a, a.currents, g, fast);
   EXPECT_EQ(rd.summary.field_method_used, FieldMethod::kDirect);
   EXPECT_EQ(rf.summary.field_method_used, FieldMethod::kFast);
   EXPECT_EQ(rf.summary.field_method_given, FieldMethod::kFast);
@@ -61,12 +61,12 @@ TEST(PatternOptions, FastFieldMatchesDirectWithinTolerance) {
 }
 
 TEST(PatternOptions, StreamedPowerMatchesMatrixAndStoresNoMatrix) {
-  const Array a = Panel();
+  const testing::TestArray a = Panel();
   const AngularGrid g = AngularGrid::FromRanges({0, 90, 5}, {0, 360, 10});
   PatternOptions matrix, streamed;
   streamed.resistance_matrix_max_dipoles = 10;  // below N = 144
-  const PatternResult rm = ComputePattern(a, g, matrix);
-  const PatternResult rs = ComputePattern(a, g, streamed);
+  const PatternResult rm = ComputePattern(a, a.currents, g, matrix);
+  const PatternResult rs = ComputePattern(a, a.currents, g, streamed);
   EXPECT_EQ(rm.summary.power_route, PowerRoute::kMatrix);
   EXPECT_EQ(rs.summary.power_route, PowerRoute::kStreamed);
   EXPECT_EQ(rm.resistance_ohm.rows(), 144);
@@ -78,12 +78,12 @@ TEST(PatternOptions, StreamedPowerMatchesMatrixAndStoresNoMatrix) {
   }
   // Asked for explicitly, the matrix is built even above the limit.
   streamed.store_resistance_matrix = true;
-  EXPECT_EQ(ComputePattern(a, g, streamed).resistance_ohm.rows(), 144);
+  EXPECT_EQ(ComputePattern(a, a.currents, g, streamed).resistance_ohm.rows(), 144);
 
   // A result without the matrix writes and reads back; the matrix stays absent.
   const std::string path =
       (std::filesystem::temp_directory_path() / "lobecast-streamed-power.h5").string();
-  WriteResult(path, a, rs, ResultMetadata{});
+  WriteResult(path, a, a.currents, rs, ResultMetadata{});
   const StoredResult back = ReadResult(path);
   EXPECT_EQ(back.result.resistance_ohm.size(), 0);
   EXPECT_DOUBLE_EQ(back.result.radiated_power_w, rs.radiated_power_w);
@@ -95,16 +95,16 @@ TEST(PatternOptions, BlocksOfThetaRowsGiveTheSameResult) {
   // Planning the grid in blocks only bounds memory: the direct sum per direction
   // is the same arithmetic, so blocked and unblocked agree to rounding, and the
   // fast path stays within its tolerance of the direct sum.
-  const Array a = Panel();
+  const testing::TestArray a = Panel();
   const AngularGrid g = AngularGrid::FromRanges({0, 180, 5}, {0, 360, 5});
   PatternOptions whole, blocked, blocked_fast;
   whole.field.method = blocked.field.method = FieldMethod::kDirect;
   blocked.block_directions = 500;  // 73 phi values: 6 theta rows per block, 7 blocks
   blocked_fast.block_directions = 500;
   blocked_fast.field.method = FieldMethod::kFast;
-  const PatternResult rw = ComputePattern(a, g, whole);
-  const PatternResult rb = ComputePattern(a, g, blocked);
-  const PatternResult rf = ComputePattern(a, g, blocked_fast);
+  const PatternResult rw = ComputePattern(a, a.currents, g, whole);
+  const PatternResult rb = ComputePattern(a, a.currents, g, blocked);
+  const PatternResult rf = ComputePattern(a, a.currents, g, blocked_fast);
   const double peak =
       std::sqrt((rw.field.e_theta.cwiseAbs2() + rw.field.e_phi.cwiseAbs2()).maxCoeff());
   EXPECT_LE((rb.field.e_theta - rw.field.e_theta).cwiseAbs().maxCoeff(), 1e-13 * peak);
@@ -137,12 +137,12 @@ TEST(ComputeSummary, FastTransformNamesRoundTrip) {
 }
 
 TEST(ComputeSummary, ReportsSayWhatWasAskedAndUsed) {
-  const Array a = Panel();
+  const testing::TestArray a = Panel();
   const AngularGrid g = AngularGrid::FromRanges({0, 90, 5}, {0, 360, 10});
   PatternOptions o;
   o.field.method = FieldMethod::kFast;
   o.resistance_matrix_max_dipoles = 10;  // below N = 144: streamed
-  const ComputeSummary s = ComputePattern(a, g, o).summary;
+  const ComputeSummary s = ComputePattern(a, a.currents, g, o).summary;
   const std::string brief = s.BriefReport();
   EXPECT_EQ(brief.find('\n'), std::string::npos) << brief;
   EXPECT_EQ(brief.rfind("field fast (asked fast), lattice transform, error bound ", 0), 0) << brief;
@@ -156,7 +156,7 @@ TEST(ComputeSummary, ReportsSayWhatWasAskedAndUsed) {
 
   o.field.method = FieldMethod::kDirect;
   o.resistance_matrix_max_dipoles = 4096;
-  const ComputeSummary d = ComputePattern(a, g, o).summary;
+  const ComputeSummary d = ComputePattern(a, a.currents, g, o).summary;
   EXPECT_EQ(d.BriefReport(), "field direct (asked direct); power matrix (closed form)");
   EXPECT_TRUE(d.message.empty()) << d.message;
 }
@@ -164,7 +164,8 @@ TEST(ComputeSummary, ReportsSayWhatWasAskedAndUsed) {
 TEST(PatternOptions, InvalidToleranceIsRejected) {
   PatternOptions o;
   o.field.tolerance_relative = 0.5;
-  EXPECT_THROW(ComputePattern(Panel(), AngularGrid::FromRanges({0, 90, 10}, {0, 360, 30}), o),
+  const testing::TestArray a = Panel();
+  EXPECT_THROW(ComputePattern(a, a.currents, AngularGrid::FromRanges({0, 90, 10}, {0, 360, 30}), o),
                InvalidArgument);
 }
 

@@ -158,11 +158,11 @@ TEST(Polarization, ZeroField) {
 
 // Two crossed x and y dipoles at one point, y current = y_current.
 FarField TurnstileField(Complex y_current, const Directions& dirs) {
-  Array a;
+  testing::TestArray a;
   a.frequency_hz = testing::kTestFrequency_hz;
-  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitX(), 0.005, 1.0),
-               MakeDipole(Vec3::Zero(), Vec3::UnitY(), 0.005, y_current)};
-  return FieldPlan(a, dirs).Execute(CurrentsOf(a));
+  a.Add(Vec3::Zero(), Vec3::UnitX(), 0.005, 1.0);
+  a.Add(Vec3::Zero(), Vec3::UnitY(), 0.005, y_current);
+  return FieldPlan(a, dirs).Execute(a.currents);
 }
 
 TEST(Polarization, TurnstileIsCircularOnAxisAndLinearInThePlane) {
@@ -198,9 +198,9 @@ TEST(Polarization, LudwigThirdCrossPolarOfAnXDipole) {
   // phi = 90 deg planes. Its field rE = -C(cos(th)cos(ph) theta_hat - sin(ph) phi_hat)
   // (Balanis 4th ed. sec. 4.2, rotated) gives cross = C sin(ph)cos(ph)(1 - cos(th))
   // elsewhere and co = -C(cos(th)cos^2(ph) + sin^2(ph)) (derived here from the definition).
-  Array a;
+  testing::TestArray a;
   a.frequency_hz = testing::kTestFrequency_hz;
-  a.dipoles = {MakeDipole(Vec3::Zero(), Vec3::UnitX(), 0.005, 1.0)};
+  a.Add(Vec3::Zero(), Vec3::UnitX(), 0.005, 1.0);
   std::vector<double> theta, phi;
   for (double ph : {0.0, 90.0, 180.0, 270.0})
     for (double th = 0; th <= 180; th += 5) {
@@ -208,7 +208,7 @@ TEST(Polarization, LudwigThirdCrossPolarOfAnXDipole) {
       phi.push_back(ph * kDegree);
     }
   const Directions dirs = Directions::FromAngles(theta, phi);
-  const FarField f = FieldPlan(a, dirs).Execute(CurrentsOf(a));
+  const FarField f = FieldPlan(a, dirs).Execute(a.currents);
   double co_max = 0;
   for (std::size_t i = 0; i < dirs.size(); ++i)
     co_max = std::max(co_max, std::abs(CoCrossOf(f.e_theta[i], f.e_phi[i], dirs.phi_rad(i),
@@ -223,7 +223,7 @@ TEST(Polarization, LudwigThirdCrossPolarOfAnXDipole) {
   }
   // Off the principal planes the cross-polarization is there: phi = 45, theta = 60.
   const double th = 60 * kDegree, ph = 45 * kDegree;
-  const FarField g = FieldPlan(a, Directions::FromAngles({th}, {ph})).Execute(CurrentsOf(a));
+  const FarField g = FieldPlan(a, Directions::FromAngles({th}, {ph})).Execute(a.currents);
   const CoCross cc = CoCrossOf(g.e_theta[0], g.e_phi[0], ph, PolarizationReference::kLinearX);
   const Complex c = kJ * kEta0_ohm * a.wavenumber_rad_m() * 0.005 / (4 * kPi);
   EXPECT_GT(std::abs(cc.cross), 0.1 * co_max);

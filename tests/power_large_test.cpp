@@ -23,8 +23,8 @@ TEST(StreamedPower, MatchesTheMatrixRoute) {
   TestRng rng(31);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
     for (double extent : {0.3, 3.0, 20.0}) {  // mostly near pairs (series) to mostly far ones
-      const Array a = RandomArray(rng, 257, g, extent);
-      const Eigen::VectorXcd cur = CurrentsOf(a);
+      const testing::TestArray a = RandomArray(rng, 257, g, extent);
+      const Eigen::VectorXcd cur = a.currents;
       const Eigen::MatrixXd r = ResistanceMatrix(a);
       const StreamedPower s = RadiatedPowerStreamed(a, cur);
       const double p = RadiatedPower(r, cur);
@@ -46,29 +46,29 @@ TEST(StreamedPower, MatchesTheMatrixRoute) {
 TEST(StreamedPower, SingleHertzianDipoleMatchesHandbook) {
   // R = (2 pi / 3) eta0 (l / lambda)^2 (Balanis 4th ed. sec. 4.2, eq. 4-19, written
   // with eta0 instead of 120 pi as CONVENTIONS §1 asks; equation number from memory).
-  Array a = testing::OneDipoleArray(
-      MakeDipole(Vec3::Zero(), Vec3(1, 2, 2) / 3.0, 0.0, Complex(0.3, -0.4)));
+  testing::TestArray a = testing::OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3(1, 2, 2) / 3.0, 0.0),
+                                                 Complex(0.3, -0.4));
   a.dipoles[0].length_m = a.wavelength_m() / 40;
   const double r = 2 * kPi / 3 * kEta0_ohm * std::pow(1.0 / 40, 2);
-  const StreamedPower s = RadiatedPowerStreamed(a, CurrentsOf(a));
+  const StreamedPower s = RadiatedPowerStreamed(a, a.currents);
   EXPECT_NEAR(s.radiated_power_w, 0.5 * 0.25 * r, 1e-14 * r);
   EXPECT_NEAR(s.active_resistance_ohm[0], r, 1e-13 * r);
 }
 
 TEST(StreamedPower, ThreadCountDoesNotChangeTheResult) {
   TestRng rng(32);
-  const Array a = RandomArray(rng, 600, Ground::kPec, 8.0);
-  const StreamedPower s1 = RadiatedPowerStreamed(a, CurrentsOf(a), 1);
-  const StreamedPower s2 = RadiatedPowerStreamed(a, CurrentsOf(a), 2);
+  const testing::TestArray a = RandomArray(rng, 600, Ground::kPec, 8.0);
+  const StreamedPower s1 = RadiatedPowerStreamed(a, a.currents, 1);
+  const StreamedPower s2 = RadiatedPowerStreamed(a, a.currents, 2);
   EXPECT_EQ(s1.radiated_power_w, s2.radiated_power_w);
   EXPECT_EQ((s1.active_resistance_ohm - s2.active_resistance_ohm).cwiseAbs().maxCoeff(), 0.0);
 }
 
 TEST(StreamedPower, ZeroCurrentGivesNanActiveResistance) {
   TestRng rng(33);
-  Array a = RandomArray(rng, 4, Ground::kNone);
-  a.dipoles[2].current_a = 0.0;
-  const StreamedPower s = RadiatedPowerStreamed(a, CurrentsOf(a));
+  testing::TestArray a = RandomArray(rng, 4, Ground::kNone);
+  a.currents[2] = 0.0;
+  const StreamedPower s = RadiatedPowerStreamed(a, a.currents);
   EXPECT_TRUE(std::isnan(s.active_resistance_ohm[2]));
   EXPECT_FALSE(std::isnan(s.active_resistance_ohm[1]));
   EXPECT_THROW(RadiatedPowerStreamed(a, Eigen::VectorXcd::Ones(3)), InvalidArgument);

@@ -90,7 +90,7 @@ double SelfResistanceExact(const Array& a) {
 }
 
 TEST(RadiatedPower, HertzianSelfResistance) {
-  Array a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3(1, 1, 0), 0.0, 1.0));
+  testing::TestArray a = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3(1, 1, 0), 0.0), 1.0);
   const double l_over_lambda = 0.01;
   a.dipoles[0].length_m = l_over_lambda * a.wavelength_m();
   const double r = ResistanceMatrix(a)(0, 0);
@@ -106,8 +106,8 @@ TEST(RadiatedPower, HertzianSelfResistance) {
 }
 
 TEST(RadiatedPower, TriangularSelfResistance) {
-  Array a = OneDipoleArray(
-      MakeDipole(Vec3(0.2, 0.1, -0.3), Vec3::UnitZ(), 0.0, 1.0, Distribution::kTriangular));
+  testing::TestArray a = OneDipoleArray(
+      MakeDipole(Vec3(0.2, 0.1, -0.3), Vec3::UnitZ(), 0.0, Distribution::kTriangular), 1.0);
   const double l_over_lambda = 0.02;
   a.dipoles[0].length_m = l_over_lambda * a.wavelength_m();
   const double r = ResistanceMatrix(a)(0, 0);
@@ -122,12 +122,13 @@ TEST(RadiatedPower, MutualResistanceIsContinuousAtZeroSpacing) {
   // R_mn -> (k^2 eta0 Le_m Le_n / 4 pi) (2/3)(u_m.u_n) as the spacing -> 0 (CONVENTIONS
   // §1). At 1e-6 lambda the next term is O(x^2) ~ 4e-11 of the prefactor / 15.
   TestRng rng(31);
-  const Array base = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.003, 1.0));
+  const testing::TestArray base =
+      OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.003), 1.0);
   const double k = base.wavenumber_rad_m(), lambda = base.wavelength_m();
   for (int trial = 0; trial < 50; ++trial) {
-    const Dipole m = MakeDipole(Vec3(0.1, 0.2, 0.3), rng.UnitVector(), 0.003, 1.0);
+    const Dipole m = MakeDipole(Vec3(0.1, 0.2, 0.3), rng.UnitVector(), 0.003);
     Dipole n = MakeDipole(m.position_m + 1e-6 * lambda * rng.UnitVector(), rng.UnitVector(), 0.002,
-                          1.0, Distribution::kTriangular);
+                          Distribution::kTriangular);
     if (trial == 0) n.orientation = m.orientation;  // parallel
     const double pref =
         k * k * kEta0_ohm * m.effective_length_m() * n.effective_length_m() / (4 * kPi);
@@ -139,15 +140,16 @@ TEST(RadiatedPower, MutualResistanceIsContinuousAtZeroSpacing) {
 
 TEST(RadiatedPower, MutualResistanceIsContinuousWhereTheSeriesHandsOver) {
   // Either side of x = 2 the two branches must agree (to the slope times the step).
-  const Array base = OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.003, 1.0));
+  const testing::TestArray base =
+      OneDipoleArray(MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.003), 1.0);
   const double k = base.wavenumber_rad_m();
-  const Dipole m = MakeDipole(Vec3::Zero(), Vec3(1, 0.5, 0.2), 0.003, 1.0);
+  const Dipole m = MakeDipole(Vec3::Zero(), Vec3(1, 0.5, 0.2), 0.003);
   const Vec3 dir = Vec3(0.3, -0.8, 0.5).normalized();
   const double pref = k * k * kEta0_ohm * 0.003 * 0.003 / (4 * kPi);
   double prev = 0;
   for (int i = -3; i <= 3; ++i) {
     const double x = 2.0 + i * 1e-13;
-    const Dipole n = MakeDipole(x / k * dir, Vec3(-0.2, 1, 0.4), 0.003, 1.0);
+    const Dipole n = MakeDipole(x / k * dir, Vec3(-0.2, 1, 0.4), 0.003);
     const double r = MutualResistance(m, n, k);
     if (i > -3) {
       EXPECT_NEAR(r, prev, 1e-12 * pref) << "x = " << x;
@@ -174,24 +176,24 @@ TEST(RadiatedPower, MatrixIsSymmetricPositiveSemidefinite) {
 TEST(RadiatedPower, TranslationDoesNotChangePower) {
   TestRng rng(43);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    const Array a = testing::RandomArray(rng, 20, g);
+    const testing::TestArray a = testing::RandomArray(rng, 20, g);
     Vec3 t = 3 * a.wavelength_m() * rng.UnitVector();
     if (g == Ground::kPec) t.z() = 0;  // only horizontal shifts keep the array over the plane
-    Array b = a;
+    testing::TestArray b = a;
     for (Dipole& d : b.dipoles) d.position_m += t;
-    const double pa = RadiatedPower(ResistanceMatrix(a), CurrentsOf(a));
-    const double pb = RadiatedPower(ResistanceMatrix(b), CurrentsOf(b));
+    const double pa = RadiatedPower(ResistanceMatrix(a), a.currents);
+    const double pb = RadiatedPower(ResistanceMatrix(b), b.currents);
     EXPECT_NEAR(pb, pa, 1e-12 * pa);
   }
 }
 
 TEST(RadiatedPower, ScalesWithCurrentMagnitudeSquared) {
   TestRng rng(44);
-  const Array a = testing::RandomArray(rng, 10, Ground::kNone);
+  const testing::TestArray a = testing::RandomArray(rng, 10, Ground::kNone);
   const Eigen::MatrixXd r = ResistanceMatrix(a);
-  const double p = RadiatedPower(r, CurrentsOf(a));
+  const double p = RadiatedPower(r, a.currents);
   const Complex alpha(0.3, -2.1);
-  EXPECT_NEAR(RadiatedPower(r, alpha * CurrentsOf(a)), std::norm(alpha) * p,
+  EXPECT_NEAR(RadiatedPower(r, alpha * a.currents), std::norm(alpha) * p,
               1e-13 * std::norm(alpha) * p);
   EXPECT_GT(p, 0);
 }
@@ -215,11 +217,11 @@ TEST(Quadrature, HasConvergedAtTheChosenOrder) {
   // comparison with the closed form asks for.
   TestRng rng(50);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    const Array a = testing::RandomArray(rng, 24, g);
+    const testing::TestArray a = testing::RandomArray(rng, 24, g);
     const int n =
         static_cast<int>(std::ceil(a.wavenumber_rad_m() * testing::MaxSourceSeparation_m(a))) + 40;
-    const double p1 = testing::QuadraturePower(a, CurrentsOf(a), n, n);
-    const double p2 = testing::QuadraturePower(a, CurrentsOf(a), n + 25, n + 31);
+    const double p1 = testing::QuadraturePower(a, a.currents, n, n);
+    const double p2 = testing::QuadraturePower(a, a.currents, n + 25, n + 31);
     EXPECT_NEAR(p1, p2, 1e-13 * p2);
   }
 }
@@ -237,9 +239,10 @@ TEST_P(ClosedFormVsQuadrature, Agree) {
   const PowerCase c = GetParam();
   TestRng rng(1000 + 7 * c.num_dipoles + (c.ground == Ground::kPec ? 1 : 0));
   for (int trial = 0; trial < 3; ++trial) {
-    const Array a = testing::RandomArray(rng, c.num_dipoles, c.ground, 1.0 + trial * 0.5);
-    const double closed = RadiatedPower(ResistanceMatrix(a), CurrentsOf(a));
-    const double quad = testing::QuadraturePower(a, CurrentsOf(a));
+    const testing::TestArray a =
+        testing::RandomArray(rng, c.num_dipoles, c.ground, 1.0 + trial * 0.5);
+    const double closed = RadiatedPower(ResistanceMatrix(a), a.currents);
+    const double quad = testing::QuadraturePower(a, a.currents);
     EXPECT_NEAR(closed, quad, 1e-10 * quad) << "trial " << trial;
   }
 }
@@ -262,7 +265,7 @@ INSTANTIATE_TEST_SUITE_P(RandomArrays, ClosedFormVsQuadrature, ::testing::Values
 TEST(ResistanceMatrix, SameBitsOnAnyThreadCount) {
   TestRng rng(71);
   for (Ground g : {Ground::kNone, Ground::kPec}) {
-    const Array a = testing::RandomArray(rng, 40, g);
+    const testing::TestArray a = testing::RandomArray(rng, 40, g);
     const Eigen::MatrixXd one = ResistanceMatrix(a, 1);
     for (int threads : {2, 3, 0}) {
       const Eigen::MatrixXd r = ResistanceMatrix(a, threads);

@@ -157,7 +157,7 @@ Exact EngineAt(const StoredResult& s, double theta_deg, double phi_deg) {
   fo.method = FieldMethod::kDirect;
   const FieldPlan plan(s.array, Directions::FromAngles({theta_deg * kDegree}, {phi_deg * kDegree}),
                        fo);
-  const FarField f = plan.Execute(CurrentsOf(s.array));
+  const FarField f = plan.Execute(s.currents);
   const double u = (std::norm(f.e_theta[0]) + std::norm(f.e_phi[0])) / (2.0 * kEta0_ohm);
   return {f.e_theta[0], f.e_phi[0], 4.0 * kPi * u / s.result.radiated_power_w};
 }
@@ -397,7 +397,8 @@ TEST(Report, StoredAnalysisMatchesTheEngineAndRecomputesWhenAbsent) {
 
   // What the file holds is what the engine computes from the stored result.
   const StoredResult stored = ReadResult(with);
-  const PatternAnalysis fresh = AnalyzePattern(stored.array, stored.result, saved->options);
+  const PatternAnalysis fresh =
+      AnalyzePattern(stored.array, stored.currents, stored.result, saved->options);
   const PatternAnalysis& s = saved->analysis;
   EXPECT_EQ(s.peak.directivity, fresh.peak.directivity);
   EXPECT_EQ(s.peak.direction.theta_deg, fresh.peak.direction.theta_deg);

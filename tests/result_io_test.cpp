@@ -56,15 +56,20 @@ Array MakeArray() {
   d0.orientation = Vec3(0.0, 0.0, 1.0);
   d0.length_m = 0.01;
   d0.distribution = Distribution::kUniform;
-  d0.current_a = Complex(1.0, -0.25);
   Dipole d1;
   d1.position_m = Vec3(0.5, 0.25, 0.125);
   d1.orientation = Vec3(0.6, 0.8, 0.0);
   d1.length_m = 0.02;
   d1.distribution = Distribution::kTriangular;
-  d1.current_a = Complex(0.0, 2.0);
   a.dipoles = {d0, d1};
   return a;
+}
+
+// MakeArray's terminal currents.
+Eigen::VectorXcd MakeCurrents() {
+  Eigen::VectorXcd i(2);
+  i << Complex(1.0, -0.25), Complex(0.0, 2.0);
+  return i;
 }
 
 // Nt = 3, Np = 4; every entry distinct so a transposed or shifted write shows.
@@ -142,7 +147,9 @@ void ExpectSameResult(const StoredResult& s, const Array& a, const PatternResult
     EXPECT_EQ(f.orientation, e.orientation) << "dipole " << k;
     EXPECT_EQ(f.length_m, e.length_m) << "dipole " << k;
     EXPECT_EQ(f.distribution, e.distribution) << "dipole " << k;
-    EXPECT_EQ(f.current_a, e.current_a) << "dipole " << k;
+    EXPECT_EQ(s.currents[static_cast<Eigen::Index>(k)],
+              MakeCurrents()[static_cast<Eigen::Index>(k)])
+        << "dipole " << k;
   }
   const PatternResult& g = s.result;
   EXPECT_EQ(g.grid.theta_deg, r.grid.theta_deg);
@@ -172,7 +179,7 @@ TEST(ResultIo, RoundTripKeepsEverything) {
   const std::string path = dir / "out.h5";
   const Array a = MakeArray();
   const PatternResult r = MakeResult();
-  WriteResult(path, a, r, MakeMeta());
+  WriteResult(path, a, MakeCurrents(), r, MakeMeta());
   EXPECT_EQ(FilesIn(dir), std::vector<std::string>{"out.h5"});
 
   const StoredResult s = ReadResult(path);
@@ -213,7 +220,7 @@ TEST(ResultIo, EmptyNameAndDescriptionAreOmittedAndCreatedIsKept) {
   const std::string path = dir / "out.h5";
   ResultMetadata meta;
   meta.created = "2026-12-02T01:23:45Z";
-  WriteResult(path, MakeArray(), MakeResult(), meta);
+  WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), meta);
   const StoredResult s = ReadResult(path);
   EXPECT_EQ(s.metadata.name, "");
   EXPECT_EQ(s.metadata.description, "");
@@ -227,11 +234,13 @@ TEST(ResultIo, NeverReplacesAPipeOrFolder) {
   const fs::path dir = FreshDir("not_regular");
   const std::string pipe = dir / "pipe";
   ASSERT_EQ(::mkfifo(pipe.c_str(), 0600), 0);
-  EXPECT_THROW(WriteResult(pipe, MakeArray(), MakeResult(), MakeMeta()), InputError);
+  EXPECT_THROW(WriteResult(pipe, MakeArray(), MakeCurrents(), MakeResult(), MakeMeta()),
+               InputError);
   EXPECT_TRUE(fs::is_fifo(pipe));
   const std::string folder = dir / "folder.h5";
   fs::create_directory(folder);
-  EXPECT_THROW(WriteResult(folder, MakeArray(), MakeResult(), MakeMeta()), InputError);
+  EXPECT_THROW(WriteResult(folder, MakeArray(), MakeCurrents(), MakeResult(), MakeMeta()),
+               InputError);
   EXPECT_TRUE(fs::is_directory(folder));
 }
 
@@ -242,14 +251,14 @@ TEST(ResultIo, LargeInputTextSurvives) {
   ResultMetadata meta;
   for (int k = 0; k < 5000; ++k) meta.input_text += "[[dipole]] # line " + std::to_string(k) + "\n";
   ASSERT_GT(meta.input_text.size(), 100000u);
-  WriteResult(path, MakeArray(), MakeResult(), meta);
+  WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), meta);
   EXPECT_EQ(ReadResult(path).metadata.input_text, meta.input_text);
 }
 
 TEST(ResultIo, EveryDatasetIsNamedTypedAndHasUnits) {
   const fs::path dir = FreshDir("schema");
   const std::string path = dir / "out.h5";
-  WriteResult(path, MakeArray(), MakeResult(), MakeMeta());
+  WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), MakeMeta());
 
   struct Expected {
     std::string path;
@@ -300,7 +309,7 @@ TEST(ResultIo, RowBlocksInAnyOrderGiveTheSameFile) {
   ResultWriteOptions options;
   options.chunk_theta_rows = 1;
   options.deflate_level = -1;
-  PatternFileWriter w(path, a, r.grid, MakeMeta(), options);
+  PatternFileWriter w(path, a, MakeCurrents(), r.grid, MakeMeta(), options);
   EXPECT_EQ(w.temporary_path(), path + ".tmp-" + std::to_string(::getpid()));
   w.WriteRows(2, RowsOf(r, 2, 1));
   w.WriteRows(0, RowsOf(r, 0, 2));
@@ -335,7 +344,7 @@ TEST(ResultIo, FinishRefusesAnIncompleteFile) {
   const std::string path = dir / "out.h5";
   const PatternResult r = MakeResult();
   {
-    PatternFileWriter w(path, MakeArray(), r.grid, MakeMeta());
+    PatternFileWriter w(path, MakeArray(), MakeCurrents(), r.grid, MakeMeta());
     w.WriteRows(0, RowsOf(r, 0, 1));
     w.WritePower(r.radiated_power_w, r.resistance_ohm, r.active_resistance_ohm);
     try {
@@ -355,7 +364,7 @@ TEST(ResultIo, AbandonedWriterLeavesNothing) {
   const std::string path = dir / "out.h5";
   const PatternResult r = MakeResult();
   {
-    PatternFileWriter w(path, MakeArray(), r.grid, MakeMeta());
+    PatternFileWriter w(path, MakeArray(), MakeCurrents(), r.grid, MakeMeta());
     w.WriteRows(0, RowsOf(r, 0, 3));
     EXPECT_TRUE(fs::exists(w.temporary_path()));
   }
@@ -367,7 +376,7 @@ TEST(ResultIo, MissingDirectoryFailsCleanlyAndQuietly) {
   const std::string path = dir / "no" / "such" / "out.h5";
   ::testing::internal::CaptureStderr();
   try {
-    WriteResult(path, MakeArray(), MakeResult(), MakeMeta());
+    WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), MakeMeta());
     ADD_FAILURE() << "writing into a missing directory succeeded";
   } catch (const IoError& e) {
     EXPECT_EQ(e.path(), path);
@@ -383,7 +392,8 @@ TEST(ResultIo, MismatchedResultIsRejectedBeforeAnyFileExists) {
   const fs::path dir = FreshDir("mismatch");
   PatternResult r = MakeResult();
   r.sense.pop_back();
-  EXPECT_THROW(WriteResult(dir / "out.h5", MakeArray(), r, MakeMeta()), InvalidArgument);
+  EXPECT_THROW(WriteResult(dir / "out.h5", MakeArray(), MakeCurrents(), r, MakeMeta()),
+               InvalidArgument);
   EXPECT_TRUE(FilesIn(dir).empty());
 }
 
@@ -397,7 +407,7 @@ TEST_P(FailureAt, LeavesExistingTargetUntouched) {
   const std::string path = dir / "out.h5";
   ResultMetadata first = MakeMeta();
   first.name = "first run";
-  WriteResult(path, MakeArray(), MakeResult(), first);
+  WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), first);
   const auto size_before = fs::file_size(path);
   const auto time_before = fs::last_write_time(path);
 
@@ -410,7 +420,7 @@ TEST_P(FailureAt, LeavesExistingTargetUntouched) {
   PatternResult other = MakeResult();
   other.radiated_power_w = 99.0;
   try {
-    WriteResult(path, MakeArray(), other, second, options);
+    WriteResult(path, MakeArray(), MakeCurrents(), other, second, options);
     ADD_FAILURE() << "the injected failure at " << GetParam() << " was not reported";
   } catch (const IoError& e) {
     EXPECT_EQ(e.path(), path);
@@ -439,7 +449,7 @@ TEST(ResultIoDeathTest, InterruptedRunNeverLeavesAFinishedLookingFile) {
   options.before_write = [](std::string_view step) {
     if (step == "/") std::_Exit(7);
   };
-  EXPECT_EXIT(WriteResult(path, MakeArray(), MakeResult(), MakeMeta(), options),
+  EXPECT_EXIT(WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), MakeMeta(), options),
               ::testing::ExitedWithCode(7), "");
   EXPECT_FALSE(fs::exists(path));
   const std::vector<std::string> left = FilesIn(dir);
@@ -482,7 +492,7 @@ TEST(ResultIoH5py, ComplexAndStringsReadNatively) {
   if (!PythonHasH5py()) GTEST_SKIP() << LOBECAST_PYTHON << " lacks h5py";
   const fs::path dir = FreshDir("h5py");
   const std::string path = dir / "out.h5";
-  WriteResult(path, MakeArray(), MakeResult(), MakeMeta());
+  WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), MakeMeta());
   const std::string script = R"PY(
 import sys, h5py, numpy as np
 f = h5py.File(sys.argv[1], "r")
@@ -543,7 +553,7 @@ TEST(ResultIoH5py, ReaderRejectsANewerFormatVersion) {
   if (!PythonHasH5py()) GTEST_SKIP() << LOBECAST_PYTHON << " lacks h5py";
   const fs::path dir = FreshDir("newer");
   const std::string path = dir / "out.h5";
-  WriteResult(path, MakeArray(), MakeResult(), MakeMeta());
+  WriteResult(path, MakeArray(), MakeCurrents(), MakeResult(), MakeMeta());
   ASSERT_EQ(RunPython(dir,
                       "import sys, h5py, numpy as np\n"
                       "with h5py.File(sys.argv[1], 'r+') as f:\n"

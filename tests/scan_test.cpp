@@ -21,7 +21,7 @@ Array Line(int n, double spacing_wavelengths) {
   Array a;
   a.frequency_hz = kSpeedOfLight_m_s;  // lambda = 1 m
   for (int i = 0; i < n; ++i) {
-    a.dipoles.push_back(MakeDipole(Vec3(i * spacing_wavelengths, 0, 0), Vec3::UnitZ(), 0.05, 1.0,
+    a.dipoles.push_back(MakeDipole(Vec3(i * spacing_wavelengths, 0, 0), Vec3::UnitZ(), 0.05,
                                    Distribution::kTriangular));
   }
   return a;
@@ -32,7 +32,7 @@ TEST(Steering, TheBeamPointsWhereAsked) {
   // same phase at r_hat0 (CONVENTIONS §1 and §3), so |rE(r_hat0)| = sum |a_n| times
   // one unit-current element's |rE| there: the array factor's maximum.
   TestRng rng(100);
-  Array a = testing::RandomArray(rng, 9, Ground::kNone, 3.0);
+  testing::TestArray a = testing::RandomArray(rng, 9, Ground::kNone, 3.0);
   for (Dipole& d : a.dipoles) d.orientation = Vec3::UnitZ();
   const double theta0 = 0.7, phi0 = 2.1;
   const Eigen::VectorXd amp = Eigen::VectorXd::LinSpaced(9, 0.5, 1.5);
@@ -41,7 +41,7 @@ TEST(Steering, TheBeamPointsWhereAsked) {
   const FarField f = FieldPlan(a, dir).Execute(i);
   double one_sum = 0;
   for (std::size_t n = 0; n < a.size(); ++n) {
-    Array one = testing::OneDipoleArray(a.dipoles[n], Ground::kNone, a.frequency_hz);
+    Array one = testing::OneDipoleArray(a.dipoles[n], 1.0, Ground::kNone, a.frequency_hz);
     one_sum += amp[static_cast<Eigen::Index>(n)] *
                std::abs(FieldPlan(one, dir).Execute(Eigen::VectorXcd::Ones(1)).e_theta[0]);
   }

@@ -239,14 +239,15 @@ AnalysisOptions RandomOptions(Random& r, const PatternAnalysis& a) {
 
 // A small real result to carry the analysis.
 struct Carrier {
-  Array array;
+  testing::TestArray array;
   PatternResult result;
 };
 Carrier MakeCarrier() {
   testing::TestRng rng(5);
   Carrier c;
   c.array = testing::RandomArray(rng, 2, Ground::kNone);
-  c.result = ComputePattern(c.array, AngularGrid::FromRanges({0, 180, 30}, {0, 330, 30}));
+  c.result = ComputePattern(c.array, c.array.currents,
+                            AngularGrid::FromRanges({0, 180, 30}, {0, 330, 30}));
   return c;
 }
 
@@ -261,7 +262,7 @@ TEST(Schema, EveryAnalysisFieldRoundTripsThroughTheFile) {
     const AnalysisOptions o = RandomOptions(r, a);
     ResultWriteOptions w;
     w.before_finish = [&](PatternFileWriter& writer) { WriteAnalysis(writer, a, o); };
-    WriteResult(path, c.array, c.result, ResultMetadata{}, w);
+    WriteResult(path, c.array, c.array.currents, c.result, ResultMetadata{}, w);
     const std::optional<StoredAnalysis> back = ReadAnalysis(path);
     ASSERT_TRUE(back.has_value());
     Same(back->analysis, a);

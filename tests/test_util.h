@@ -83,22 +83,38 @@ class TestRng {
 };
 
 inline Dipole MakeDipole(const Vec3& position_m, const Vec3& orientation, double length_m,
-                         Complex current_a, Distribution distribution = Distribution::kUniform) {
+                         Distribution distribution = Distribution::kUniform) {
   Dipole d;
   d.position_m = position_m;
   d.orientation = orientation.normalized();
   d.length_m = length_m;
   d.distribution = distribution;
-  d.current_a = current_a;
   return d;
 }
 
-inline Array OneDipoleArray(const Dipole& d, Ground ground = Ground::kNone,
-                            double frequency_hz = kTestFrequency_hz) {
-  Array a;
+// A test array with its excitation beside it: the geometry is the Array itself
+// (so a TestArray goes wherever an Array does), the terminal currents (A peak,
+// one per dipole) are `currents`.
+struct TestArray : Array {
+  Eigen::VectorXcd currents;
+
+  void Add(const Dipole& d, Complex current_a) {
+    dipoles.push_back(d);
+    currents.conservativeResize(currents.size() + 1);
+    currents[currents.size() - 1] = current_a;
+  }
+  void Add(const Vec3& position_m, const Vec3& orientation, double length_m, Complex current_a,
+           Distribution distribution = Distribution::kUniform) {
+    Add(MakeDipole(position_m, orientation, length_m, distribution), current_a);
+  }
+};
+
+inline TestArray OneDipoleArray(const Dipole& d, Complex current_a, Ground ground = Ground::kNone,
+                                double frequency_hz = kTestFrequency_hz) {
+  TestArray a;
   a.frequency_hz = frequency_hz;
   a.ground = ground;
-  a.dipoles = {d};
+  a.Add(d, current_a);
   return a;
 }
 
@@ -106,9 +122,9 @@ inline Array OneDipoleArray(const Dipole& d, Ground ground = Ground::kNone,
 // origin in free space; with a PEC ground x, y centred and 0.02 lambda <= z <=
 // extent), random orientations, lengths lambda/1000 .. lambda/20, mixed distributions
 // and random complex currents of 0.1 .. 2 A.
-inline Array RandomArray(TestRng& rng, int n, Ground ground, double extent_wavelengths = 2.0,
-                         double frequency_hz = kTestFrequency_hz) {
-  Array a;
+inline TestArray RandomArray(TestRng& rng, int n, Ground ground, double extent_wavelengths = 2.0,
+                             double frequency_hz = kTestFrequency_hz) {
+  TestArray a;
   a.frequency_hz = frequency_hz;
   a.ground = ground;
   const double lambda = a.wavelength_m();
@@ -118,8 +134,7 @@ inline Array RandomArray(TestRng& rng, int n, Ground ground, double extent_wavel
     if (ground == Ground::kPec) p.z() = rng.Uniform(0.02 * lambda, extent_wavelengths * lambda);
     const Distribution dist =
         rng.Uniform() < 0.5 ? Distribution::kUniform : Distribution::kTriangular;
-    a.dipoles.push_back(MakeDipole(p, rng.UnitVector(), rng.Uniform(1e-3, 0.05) * lambda,
-                                   rng.Phasor(0.1, 2.0), dist));
+    a.Add(p, rng.UnitVector(), rng.Uniform(1e-3, 0.05) * lambda, rng.Phasor(0.1, 2.0), dist);
   }
   return a;
 }
@@ -127,17 +142,24 @@ inline Array RandomArray(TestRng& rng, int n, Ground ground, double extent_wavel
 // side x side z-directed dipoles on a planar half-wavelength lattice (a quarter
 // wavelength up over PEC), random currents: one moment axis (the collinear
 // kernels) and, on the fast path, the lattice transform.
-inline Array ZLattice(TestRng& rng, int side, Ground ground = Ground::kNone) {
-  Array a;
+inline TestArray ZLattice(TestRng& rng, int side, Ground ground = Ground::kNone) {
+  TestArray a;
   a.frequency_hz = kTestFrequency_hz;
   a.ground = ground;
   const double lambda = a.wavelength_m();
   for (int i = 0; i < side * side; ++i) {
     const Vec3 p(0.5 * lambda * (i % side), 0.5 * lambda * (i / side),
                  ground == Ground::kPec ? 0.25 * lambda : 0.0);
-    a.dipoles.push_back(MakeDipole(p, Vec3::UnitZ(), 0.02 * lambda, rng.Phasor(0.1, 2.0)));
+    a.Add(p, Vec3::UnitZ(), 0.02 * lambda, rng.Phasor(0.1, 2.0));
   }
   return a;
+}
+
+// n random complex currents of 0.1 .. 2 A (as RandomArray's).
+inline Eigen::VectorXcd RandomCurrents(TestRng& rng, int n) {
+  Eigen::VectorXcd c(n);
+  for (int i = 0; i < n; ++i) c[i] = rng.Phasor(0.1, 2.0);
+  return c;
 }
 
 // Largest distance between two radiating sources, images included (m).

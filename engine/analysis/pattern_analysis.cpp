@@ -94,12 +94,13 @@ PolarizationReference AutoReference(const PatternResult& r) {
   return best;
 }
 
-PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_result,
-                               const AnalysisOptions& options) {
+PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& currents_a,
+                               const PatternResult& grid_result, const AnalysisOptions& options) {
   const auto t0 = std::chrono::steady_clock::now();
   std::string why;
   if (!options.IsValid(&why)) throw InvalidArgument(why);
   Validate(array);
+  ValidateCurrents(array, currents_a);
   const std::size_t n = grid_result.grid.size();
   // An empty grid can come from a file; values that do not fit the grid cannot
   // (ComputePattern makes one each per direction, ReadResult checks the shapes).
@@ -112,7 +113,7 @@ PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_res
       << " W, expected > 0";
     throw InvalidArgument(s.str());
   }
-  const PatternProbe probe(array, grid_result.radiated_power_w);
+  const PatternProbe probe(array, currents_a, grid_result.radiated_power_w);
 
   // The grid result must belong to this array: compare at its maximum.
   {

@@ -24,12 +24,13 @@ namespace lobecast {
 // What "auto" means for compute, report, export and plot.
 PolarizationReference AutoReference(const PatternResult& result);
 
-// grid_result must be ComputePattern(array, ...) for this array (checked at the grid
-// maximum). Throws InvalidArgument for invalid options (see IsValid), an invalid
-// array, an empty grid, a radiated power that is not > 0, or a grid result that
-// does not fit the array; InternalError when the result's values do not match its
-// own grid (ComputePattern and ReadResult never make one).
-PatternAnalysis AnalyzePattern(const Array& array, const PatternResult& grid_result,
+// grid_result must be ComputePattern(array, currents_a, ...) for this array and
+// these currents (checked at the grid maximum). Throws InvalidArgument for invalid
+// options (see IsValid), an invalid array or currents, an empty grid, a radiated power that is not
+// > 0, or a grid result that does not fit the array; InternalError when the result's values do not
+// match its own grid (ComputePattern and ReadResult never make one).
+PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& currents_a,
+                               const PatternResult& grid_result,
                                const AnalysisOptions& options = {});
 
 }  // namespace lobecast

@@ -55,9 +55,10 @@ CoCross ProbeSample::CoCrossFor(PolarizationReference reference) const {
   return CoCrossOf(e_theta, e_phi, phi_rad, reference);
 }
 
-PatternProbe::PatternProbe(const Array& array, double radiated_power_w)
+PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_a,
+                           double radiated_power_w)
     : array_(array),
-      currents_(CurrentsOf(array)),
+      currents_(currents_a),
       // Sources only: every At() call brings its own directions (direct sums).
       plan_(std::make_shared<const FieldPlan>(array, Directions::FromAngles({}, {}),
                                               FieldOptions{0, FieldMethod::kDirect})),

@@ -63,8 +63,9 @@ struct ProbeSample {
 
 class PatternProbe {
  public:
-  // radiated_power_w: the closed-form P of these currents (PatternResult).
-  PatternProbe(const Array& array, double radiated_power_w);
+  // currents_a: one terminal current per dipole (A peak); radiated_power_w: the
+  // closed-form P of these currents (PatternResult).
+  PatternProbe(const Array& array, const Eigen::VectorXcd& currents_a, double radiated_power_w);
 
   std::vector<ProbeSample> At(const std::vector<Vec3>& r_hat) const;
   ProbeSample At(const Vec3& r_hat) const;

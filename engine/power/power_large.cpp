@@ -3,7 +3,6 @@
 
 #include <cmath>
 #include <limits>
-#include <sstream>
 #include <vector>
 
 #include <omp.h>
@@ -75,12 +74,7 @@ RowSums RowFar(const Sources& s, const Dipole& m, double k) {
 StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
                                     int num_threads) {
   Validate(array);
-  if (static_cast<std::size_t>(currents_a.size()) != array.size()) {
-    std::ostringstream s;
-    s << "currents: found " << currents_a.size() << " values, expected one per dipole ("
-      << array.size() << ")";
-    throw InvalidArgument(s.str());
-  }
+  ValidateCurrents(array, currents_a);
   const double k = array.wavenumber_rad_m();
   const std::vector<Dipole> src = RadiatingSources(array);  // images after the dipoles
   Sources s;

@@ -26,7 +26,7 @@ struct StreamedPower {
   Eigen::VectorXd active_resistance_ohm;
 };
 
-// Throws InvalidArgument for an invalid array or a current vector of the wrong length.
+// Throws InvalidArgument for an invalid array or currents (ValidateCurrents).
 // num_threads: 0 uses the OpenMP default.
 StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
                                     int num_threads = 0);

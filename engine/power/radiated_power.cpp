@@ -93,7 +93,7 @@ Eigen::MatrixXd ResistanceMatrix(const Array& array, int num_threads) {
 }
 
 double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a) {
-  // Both come from the same array (ResistanceMatrix, CurrentsOf).
+  // Both belong to the same array (ResistanceMatrix; one current per dipole).
   LOBECAST_CHECK_EQ(resistance_ohm.rows(), currents_a.size());
   LOBECAST_CHECK_EQ(resistance_ohm.cols(), currents_a.size());
   // R is real symmetric, so I^H R I = a^T R a + b^T R b with I = a + j b.

@@ -139,11 +139,11 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     ExpectShape(path, S(schema::kDistribution.path), {distribution.size()}, {n});
   }
   out.array.dipoles.resize(n);
+  out.currents = Eigen::Map<const Eigen::VectorXcd>(current.data(), static_cast<Eigen::Index>(n));
   for (std::size_t k = 0; k < n; ++k) {
     Dipole& d = out.array.dipoles[k];
     d.position_m = Vec3(position[3 * k], position[3 * k + 1], position[3 * k + 2]);
     d.orientation = Vec3(orientation[3 * k], orientation[3 * k + 1], orientation[3 * k + 2]);
-    d.current_a = current[k];
     if (!length.empty()) {
       const auto dist = DistributionFromString(distribution[k]);
       if (!dist) {

@@ -18,8 +18,9 @@ struct StoredResult {
   int format_version = 0;
   std::string software_version;
   std::string time_convention;
-  ResultMetadata metadata;  // name, description, input text and path, created
-  Array array;              // frequency, ground, dipoles with their currents
+  ResultMetadata metadata;    // name, description, input text and path, created
+  Array array;                // frequency, ground, dipoles
+  Eigen::VectorXcd currents;  // /array/current: terminal currents (A peak), one per dipole
   // grid, field, intensity, directivity, polarization, power, resistances; the
   // summary when the file has a /summary group (has_summary).
   PatternResult result;

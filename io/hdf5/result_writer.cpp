@@ -168,7 +168,7 @@ struct PatternFileWriter::Impl {
     return hdf5::CreateDataset(file, S(d.path), type, {nt, np}, d.units, layout);
   }
 
-  void WriteHeader(const Array& array, const AngularGrid& grid) {
+  void WriteHeader(const Array& array, const Eigen::VectorXcd& currents, const AngularGrid& grid) {
     const std::size_t n = array.size();
     std::vector<double> position(3 * n), orientation(3 * n), effective_length(n), length(n);
     std::vector<std::string> distribution(n);
@@ -182,7 +182,7 @@ struct PatternFileWriter::Impl {
       effective_length[k] = d.effective_length_m();
       length[k] = d.length_m;
       distribution[k] = std::string(ToString(d.distribution));
-      current[k] = d.current_a;
+      current[k] = currents[static_cast<Eigen::Index>(k)];
     }
     const auto N = static_cast<hsize_t>(n);
 
@@ -224,8 +224,8 @@ struct PatternFileWriter::Impl {
 };
 
 PatternFileWriter::PatternFileWriter(const std::string& path, const Array& array,
-                                     const AngularGrid& grid, const ResultMetadata& meta,
-                                     const ResultWriteOptions& options)
+                                     const Eigen::VectorXcd& currents_a, const AngularGrid& grid,
+                                     const ResultMetadata& meta, const ResultWriteOptions& options)
     : impl_(std::make_unique<Impl>()) {
   Impl& w = *impl_;
   RequireReplaceable(path);  // the rename below must not replace a device
@@ -239,6 +239,7 @@ PatternFileWriter::PatternFileWriter(const std::string& path, const Array& array
   w.np = grid.phi_deg.size();
   w.rows_written.assign(w.nt, false);
   if (array.size() == 0) throw InvalidArgument("result to write: the array has no dipoles");
+  CheckSize("currents", static_cast<std::size_t>(currents_a.size()), array.size());
   if (w.nt == 0 || w.np == 0) throw InvalidArgument("result to write: the grid is empty");
 
   w.Step([&] {
@@ -250,7 +251,7 @@ PatternFileWriter::PatternFileWriter(const std::string& path, const Array& array
                 "building the complex type");
     hdf5::Check(H5Tinsert(w.complex_file_type, "i", sizeof(double), H5T_IEEE_F64LE), w.file,
                 "building the complex type");
-    w.WriteHeader(array, grid);
+    w.WriteHeader(array, currents_a, grid);
   });
 }
 
@@ -475,8 +476,9 @@ void PatternFileWriter::Finish() {
   });
 }
 
-void WriteResult(const std::string& path, const Array& array, const PatternResult& result,
-                 const ResultMetadata& meta, const ResultWriteOptions& options) {
+void WriteResult(const std::string& path, const Array& array, const Eigen::VectorXcd& currents_a,
+                 const PatternResult& result, const ResultMetadata& meta,
+                 const ResultWriteOptions& options) {
   const std::size_t nt = result.grid.theta_deg.size();
   const std::size_t np = result.grid.phi_deg.size();
   const std::size_t m = nt * np;
@@ -488,7 +490,7 @@ void WriteResult(const std::string& path, const Array& array, const PatternResul
   CheckSize("tilt_deg", static_cast<std::size_t>(result.tilt_deg.size()), m);
   CheckSize("sense", result.sense.size(), m);
 
-  PatternFileWriter writer(path, array, result.grid, meta, options);
+  PatternFileWriter writer(path, array, currents_a, result.grid, meta, options);
   const std::size_t block = ChunkRows(options, nt, np);
   for (std::size_t first = 0; first < nt; first += block) {
     writer.WriteRows(first, RowsOf(result, first, std::min(block, nt - first)));

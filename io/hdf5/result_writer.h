@@ -90,7 +90,7 @@ PatternRows RowsOf(const PatternResult& result, std::size_t first_row, std::size
 
 // Writes one result file incrementally, so a grid can be computed and stored in
 // blocks of theta rows:
-//   PatternFileWriter w(path, array, grid, meta);
+//   PatternFileWriter w(path, array, currents, grid, meta);
 //   for each block: w.WriteRows(first_row, rows);
 //   w.WritePower(...); w.WriteSummary(...); w.Finish();
 // Every method throws IoError (or whatever before_write throws) after removing
@@ -98,10 +98,12 @@ PatternRows RowsOf(const PatternResult& result, std::size_t first_row, std::size
 // destroyed before Finish() removes its temporary file.
 class PatternFileWriter {
  public:
-  // Creates the temporary file and writes /array, /grid and the empty (Nt, Np)
-  // datasets. Throws InvalidArgument for an array or grid that cannot be stored.
-  PatternFileWriter(const std::string& path, const Array& array, const AngularGrid& grid,
-                    const ResultMetadata& meta, const ResultWriteOptions& options = {});
+  // Creates the temporary file and writes /array (with the terminal currents, one
+  // per dipole, as /array/current), /grid and the empty (Nt, Np) datasets. Throws
+  // InvalidArgument for an array, currents or grid that cannot be stored.
+  PatternFileWriter(const std::string& path, const Array& array, const Eigen::VectorXcd& currents_a,
+                    const AngularGrid& grid, const ResultMetadata& meta,
+                    const ResultWriteOptions& options = {});
   ~PatternFileWriter();
   PatternFileWriter(PatternFileWriter&&) noexcept;
   PatternFileWriter& operator=(PatternFileWriter&&) noexcept;
@@ -146,9 +148,11 @@ class PatternFileWriter {
 };
 
 // The whole result in one call. Throws InvalidArgument when the result's sizes do
-// not match its grid and array, IoError when the file cannot be written.
-void WriteResult(const std::string& path, const Array& array, const PatternResult& result,
-                 const ResultMetadata& meta, const ResultWriteOptions& options = {});
+// not match its grid and array (or the currents the array), IoError when the file
+// cannot be written.
+void WriteResult(const std::string& path, const Array& array, const Eigen::VectorXcd& currents_a,
+                 const PatternResult& result, const ResultMetadata& meta,
+                 const ResultWriteOptions& options = {});
 
 // Current UTC time as ISO 8601, e.g. "2026-12-02T01:23:45Z".
 std::string Iso8601UtcNow();

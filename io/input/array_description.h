@@ -35,12 +35,15 @@ struct ArrayDescription {
   std::string length_unit = "m";
 
   Array array;  // frequency, ground and dipoles, SI; orientations are unit vectors
+  // The terminal currents (A, complex peak), one per dipole, kept apart from the
+  // geometry: the given currents, and 0 for driven and loaded dipoles until
+  // SolveArrayCircuit (solve_circuit.h) fills them from the solved circuit.
+  Eigen::VectorXcd currents;
 
   // What drives each dipole (one per dipole): a forced current (its value is also in
-  // array.dipoles[i].current_a), a voltage source behind an impedance, or a load;
-  // and each dipole's wire (radius, self reactance, conductivity; all optional).
-  // Driven and loaded dipoles carry current 0 in `array` until the circuit is solved
-  // (engine/coupling/coupling.h). CSV rows are current-forced, with no wire.
+  // `currents`), a voltage source behind an impedance, or a load; and each dipole's
+  // wire (radius, self reactance, conductivity; all optional). CSV rows are
+  // current-forced, with no wire.
   std::vector<Port> ports;
   std::vector<Wire> wires;
   double reference_impedance_ohm = 50;  // `reference_impedance`: Z0 for reflection and VSWR

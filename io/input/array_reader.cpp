@@ -156,8 +156,15 @@ class Reader {
                        "radiates and directivity is undefined)");
     }
 
+    // The given currents; 0 for drive and load until the circuit is solved.
+    out.currents = Eigen::VectorXcd::Zero(static_cast<Eigen::Index>(out.ports.size()));
+    for (std::size_t m = 0; m < out.ports.size(); ++m) {
+      const Port& p = out.ports[m];
+      if (p.kind == PortKind::kCurrent) out.currents[static_cast<Eigen::Index>(m)] = p.current_a;
+    }
     try {
       Validate(out.array);
+      ValidateCurrents(out.array, out.currents);
     } catch (const InvalidArgument& e) {
       throw InputError(SourceLocation{path_, 1, 1}, std::string("array rejected: ") + e.what());
     }
@@ -408,7 +415,6 @@ class Reader {
       }
 
       Port port = ReadPort(*t, key, out.reference_impedance_ohm);
-      d.current_a = port.current_a;  // 0 for drive and load until the circuit is solved
       out.ports.push_back(port);
       out.wires.push_back(ReadWire(*t, key, d, out.length_unit));
       const Wire& w = out.wires.back();
@@ -565,7 +571,7 @@ class Reader {
     for (std::size_t i = 0; i < rows.size(); ++i) {
       const std::string key = "dipole[" + std::to_string(first + i) + "]";
       out.array.dipoles.push_back(rows[i].dipole);
-      out.ports.push_back(Port{PortKind::kCurrent, rows[i].dipole.current_a, 0.0, 0.0});
+      out.ports.push_back(Port{PortKind::kCurrent, rows[i].current_a, 0.0, 0.0});
       out.wires.emplace_back();
       out.dipole_locations.push_back(rows[i].row);
       sites_.push_back(DipoleSite{rows[i].row, rows[i].z_cell, key + ".z", rows[i].length_cell,

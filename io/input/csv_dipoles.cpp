@@ -145,7 +145,7 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
                        "a magnitude >= 0 (A peak; reverse the sign with phase = 180)");
     }
     const double phase_deg = number(kPhase);
-    d.dipole.current_a = std::polar(magnitude, phase_deg * kDegree);
+    d.current_a = std::polar(magnitude, phase_deg * kDegree);
     if (index_of[kDistribution] >= 0 && !cell(kDistribution).text.empty()) {
       const auto dist = DistributionFromString(cell(kDistribution).text);
       if (!dist) {

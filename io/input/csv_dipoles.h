@@ -34,6 +34,7 @@ inline constexpr std::string_view kCsvColumnList =
 
 struct CsvDipole {
   Dipole dipole;               // position and length in metres, orientation normalized
+  Complex current_a = 0.0;     // the row's terminal current (A, complex peak)
   SourceLocation row;          // the row (column 1)
   SourceLocation z_cell;       // the z cell, for ground-plane checks
   SourceLocation length_cell;  // the length cell, for wavelength checks

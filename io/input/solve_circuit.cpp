@@ -8,8 +8,7 @@ std::optional<CouplingResult> SolveArrayCircuit(ArrayDescription& desc, int num_
   options.reference_impedance_ohm = desc.reference_impedance_ohm;
   options.num_threads = num_threads;
   CouplingResult r = SolveCoupling(desc.array, desc.ports, desc.wires, options);
-  for (std::size_t m = 0; m < desc.array.size(); ++m)
-    desc.array.dipoles[m].current_a = r.circuit.current_a[static_cast<Eigen::Index>(m)];
+  desc.currents = r.circuit.current_a;
   return r;
 }
 

@@ -1,6 +1,6 @@
 // For commands that read an array: solve its circuit when it has driven or
-// loaded dipoles or wires, and put the solved terminal currents into the array
-// (CONVENTIONS §3: stored and used exactly as if given).
+// loaded dipoles or wires, and put the solved terminal currents into
+// desc.currents (CONVENTIONS §3: stored and used exactly as if given).
 #pragma once
 
 #include <optional>

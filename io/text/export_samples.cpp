@@ -186,7 +186,7 @@ std::vector<ExportSample> ExactSamples(const StoredResult& stored,
   FieldOptions fo;
   fo.method = FieldMethod::kDirect;  // exact to rounding, whatever the array size
   const FieldPlan plan(stored.array, Directions::FromAngles(theta, phi), fo);
-  const FarField f = plan.Execute(CurrentsOf(stored.array));
+  const FarField f = plan.Execute(stored.currents);
   const double to_d = DirectivityPerIntensity(stored.result.radiated_power_w);
   for (std::size_t i = 0; i < dirs.size(); ++i) {
     const auto e = static_cast<Eigen::Index>(i);

@@ -70,7 +70,7 @@ std::string DescribeArray(const ArrayDescription& desc) {
     s << Printf("  %4zu %10.4g %10.4g %10.4g %6.3f %6.3f %6.3f %11.4g  %-10s", n, d.position_m.x(),
                 d.position_m.y(), d.position_m.z(), d.orientation.x(), d.orientation.y(),
                 d.orientation.z(), d.length_m, std::string(ToString(d.distribution)).c_str())
-      << FormatCurrent(d.current_a) << "\n";
+      << FormatCurrent(desc.currents[static_cast<Eigen::Index>(n)]) << "\n";
   }
   if (shown < a.size()) s << "  ... " << a.size() - shown << " more\n";
   double longest = 0;
@@ -115,7 +115,7 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
       << "     #          |I|        phase   R_active (ohm)   R_self (ohm)\n";
     for (std::size_t n = 0; n < a.size(); ++n) {
       const auto e = static_cast<Eigen::Index>(n);
-      s << Printf("  %4zu ", n) << FormatCurrent(a.dipoles[n].current_a)
+      s << Printf("  %4zu ", n) << FormatCurrent(desc.currents[e])
         << Printf("   %14.6g   %12.6g\n", ra[e],
                   r.resistance_ohm.size() ? r.resistance_ohm(e, e) : std::nan(""));
     }

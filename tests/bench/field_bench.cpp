@@ -32,6 +32,7 @@
 #include "engine/field/lattice.h"
 #include "engine/field/nufft.h"
 #include "engine/grid.h"
+#include "tests/test_util.h"
 
 namespace lobecast {
 namespace {
@@ -40,8 +41,8 @@ constexpr double kFrequency_hz = 1.0e9;
 
 enum Layout { kJittered = 0, kGeneral = 1, kLattice = 2, kSparseLattice = 3 };
 
-Array PlanarArray(int n, int layout) {
-  Array a;
+testing::TestArray PlanarArray(int n, int layout) {
+  testing::TestArray a;
   a.frequency_hz = kFrequency_hz;
   const double lambda = a.wavelength_m();
   const int side = static_cast<int>(std::ceil(std::sqrt(static_cast<double>(n))));
@@ -58,8 +59,7 @@ Array PlanarArray(int n, int layout) {
     d.position_m = Vec3((i % side) * pitch + jx, (i / side) * pitch + jy, jz) * lambda;
     d.orientation = general ? Vec3(u(rng), u(rng), u(rng)).normalized() : Vec3::UnitZ();
     d.length_m = 0.01 * lambda;
-    d.current_a = Complex(u(rng), u(rng));
-    a.dipoles.push_back(d);
+    a.Add(d, Complex(u(rng), u(rng)));
   }
   return a;
 }
@@ -93,7 +93,7 @@ void Finish(benchmark::State& state, double pairs_per_iteration, std::size_t dir
 void BM_ScalarLoop(benchmark::State& state) {
   const auto n = static_cast<int>(state.range(0));
   const double step = static_cast<double>(state.range(1)) / 100.0;
-  const Array a = PlanarArray(n, static_cast<int>(state.range(2)));
+  const testing::TestArray a = PlanarArray(n, static_cast<int>(state.range(2)));
   std::size_t full = 0;
   const Directions dirs = GridDirections(step, n, 1.0e8, &full);
   const double k = a.wavenumber_rad_m();
@@ -105,9 +105,10 @@ void BM_ScalarLoop(benchmark::State& state) {
       const auto ui = static_cast<std::size_t>(i);
       const Vec3 r = dirs.r_hat(ui);
       Complex mx = 0.0, my = 0.0, mz = 0.0;
-      for (const Dipole& d : a.dipoles) {
-        const Complex w =
-            d.current_a * d.effective_length_m() * std::exp(Complex(0.0, k * r.dot(d.position_m)));
+      for (std::size_t j = 0; j < a.size(); ++j) {
+        const Dipole& d = a.dipoles[j];
+        const Complex w = a.currents[static_cast<Eigen::Index>(j)] * d.effective_length_m() *
+                          std::exp(Complex(0.0, k * r.dot(d.position_m)));
         mx += w * d.orientation.x(), my += w * d.orientation.y(), mz += w * d.orientation.z();
       }
       const Vec3 t = dirs.theta_hat(ui), p = dirs.phi_hat(ui);
@@ -123,13 +124,13 @@ void BM_ScalarLoop(benchmark::State& state) {
 void BM_Direct(benchmark::State& state) {
   const auto n = static_cast<int>(state.range(0));
   const double step = static_cast<double>(state.range(1)) / 100.0;
-  const Array a = PlanarArray(n, static_cast<int>(state.range(2)));
+  const testing::TestArray a = PlanarArray(n, static_cast<int>(state.range(2)));
   std::size_t full = 0;
   const Directions dirs = GridDirections(step, n, 4.0e9, &full);
   FieldOptions o;
   o.method = FieldMethod::kDirect;
   const FieldPlan plan(a, dirs, o);
-  const Eigen::VectorXcd currents = CurrentsOf(a);
+  const Eigen::VectorXcd currents = a.currents;
   FarField f;
   for (auto _ : state) {
     plan.ExecuteRange(currents, 0, plan.num_directions(), f);
@@ -145,13 +146,13 @@ void BM_Direct(benchmark::State& state) {
 void RunFast(benchmark::State& state, bool use_lattice) {
   const auto n = static_cast<int>(state.range(0));
   const double step = static_cast<double>(state.range(1)) / 100.0;
-  const Array a = PlanarArray(n, static_cast<int>(state.range(2)));
+  const testing::TestArray a = PlanarArray(n, static_cast<int>(state.range(2)));
   std::size_t full = 0;
   const Directions dirs = GridDirections(step, 1.0, 1e300, &full);
   FieldOptions o;
   o.method = FieldMethod::kFast;
   o.use_lattice = use_lattice;
-  const Eigen::VectorXcd currents = CurrentsOf(a);
+  const Eigen::VectorXcd currents = a.currents;
   FarField f;
   double bound = 0;
   FastTransform transform = FastTransform::kNone;
@@ -205,7 +206,7 @@ void BM_PointSumExecute(benchmark::State& state) {
   const auto m = static_cast<std::size_t>(state.range(1));
   const bool lattice = state.range(2) == 1;
   const NufftOptions options{std::pow(10.0, static_cast<double>(state.range(3))), 0};
-  const Array a = PlanarArray(n, lattice ? kLattice : kJittered);
+  const testing::TestArray a = PlanarArray(n, lattice ? kLattice : kJittered);
   Eigen::Matrix3Xd x(3, n);
   for (int j = 0; j < n; ++j) x.col(j) = a.dipoles[static_cast<std::size_t>(j)].position_m;
   std::size_t full = 0;
@@ -226,7 +227,7 @@ void BM_PointSumExecute(benchmark::State& state) {
     sum = std::make_unique<const Nufft3>(x, s, options);
   }
   Eigen::MatrixXcd c(n, 1);
-  for (int j = 0; j < n; ++j) c(j, 0) = a.dipoles[static_cast<std::size_t>(j)].current_a;
+  for (int j = 0; j < n; ++j) c(j, 0) = a.currents[j];
   ExecuteOnce(*sum, c);
   for (auto _ : state) {
     const Eigen::MatrixXcd f = sum->Execute(c);
