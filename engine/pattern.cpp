@@ -10,7 +10,9 @@
 
 #include <omp.h>
 
+#include "engine/decibels.h"
 #include "engine/error.h"
+#include "engine/intensity.h"
 #include "engine/polarization.h"
 #include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
@@ -129,7 +131,7 @@ std::string ComputeSummary::FullReport() const {
       threads_used == 1 ? "" : "s");
   s += Format("power        %.6g W radiated\n", radiated_power_w);
   s += Format("peak         D = %.6g (%.2f dBi) at theta %g deg, phi %g deg (grid maximum)\n",
-              peak_directivity, 10.0 * std::log10(peak_directivity), peak_theta_deg, peak_phi_deg);
+              peak_directivity, ToDb(peak_directivity), peak_theta_deg, peak_phi_deg);
   if (!message.empty()) s += "message      " + message + "\n";
   return s;
 }
@@ -239,12 +241,12 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   r.axial_ratio_db.resize(nn);
   r.tilt_deg.resize(nn);
   r.sense.resize(n);
-  const double to_d = 4.0 * kPi / r.radiated_power_w;
+  const double to_d = DirectivityPerIntensity(r.radiated_power_w);
 #pragma omp parallel for num_threads(s.threads_used) schedule(static)
   for (Eigen::Index i = 0; i < nn; ++i) {
     const Complex et = r.field.e_theta[i], ep = r.field.e_phi[i];
     // U = |rE|^2 / (2 eta0) for peak phasors (CONVENTIONS §1).
-    const double u = (std::norm(et) + std::norm(ep)) / (2.0 * kEta0_ohm);
+    const double u = RadiationIntensity(et, ep);
     r.intensity_w_sr[i] = u;
     r.directivity[i] = to_d * u;
     const Polarization p = PolarizationOf(et, ep);

@@ -65,7 +65,7 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
     source_pos_.col(s) = d.position_m;
     source_moment_.col(s) = d.effective_length_m() * d.orientation;
     source_dipole_[static_cast<std::size_t>(s)] =
-        static_cast<int>(s % static_cast<Eigen::Index>(num_dipoles_));
+        static_cast<int>(DipoleOfSource(static_cast<std::size_t>(s), num_dipoles_));
   }
   collinear_ = AllParallel(source_moment_, &common_axis_);
   // The direct kernels' structure of arrays: x, y, z, then the moment's x, y, z

@@ -34,10 +34,6 @@ std::string PortText(const Port& p) {
   return "";
 }
 
-std::string Db(double linear) {
-  return linear > 0 ? Printf("%.2f", 10 * std::log10(linear)) : "-inf";
-}
-
 }  // namespace
 
 std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& ports,
@@ -93,8 +89,8 @@ std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& p
   if (!(peak_directivity > 0)) return s.str();  // no pattern (lobecast check)
   const RealizedGainReference ref = RealizedGainReferenceOf(c);
   const double g = peak_directivity * c.radiated_w / ref.power_w;
-  s << "gain         " << (c.available_w > 0 ? "realized gain" : "gain") << " at the peak " << Db(g)
-    << " dBi (directivity " << Db(peak_directivity) << " dBi";
+  s << "gain         " << (c.available_w > 0 ? "realized gain" : "gain") << " at the peak "
+    << FormatDb(g) << " dBi (directivity " << FormatDb(peak_directivity) << " dBi";
   if (c.available_w > 0) {
     s << Printf(", %.6g W available from the sources", c.available_w);
   }

@@ -8,6 +8,7 @@
 #include <vector>
 
 #include "engine/constants.h"
+#include "engine/decibels.h"
 #include "engine/polarization.h"
 #include "io/hdf5/schema.h"
 #include "io/safety_note.h"
@@ -161,8 +162,7 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
       Db(a.peak.directivity_dbi) + Printf(" dBi (%.6g)", a.peak.directivity) + " at " +
           Direction(a.peak.direction) + (a.peak.refined ? "" : " (search did not converge)"));
   Row(s, "grid maximum (dBi)",
-      Db(10.0 * std::log10(a.peak.grid_directivity)) + " dBi at " +
-          Direction(a.peak.grid_direction));
+      Db(ToDb(a.peak.grid_directivity)) + " dBi at " + Direction(a.peak.grid_direction));
   Row(s, "HPBW elevation plane (deg)", HalfPower(a.elevation_cut));
   Row(s, "HPBW orthogonal plane (deg)", HalfPower(a.orthogonal_cut));
   Row(s, "FNBW elevation plane (deg)", FirstNull(a.elevation_cut));

@@ -5,6 +5,7 @@
 #include <sstream>
 #include <string>
 
+#include "engine/decibels.h"
 #include "engine/polarization.h"
 #include "io/safety_note.h"
 #include "io/text/text_format.h"
@@ -43,8 +44,8 @@ std::string FormatFrequency(double hz) {
 }
 
 std::string FormatDb(double linear) {
-  if (linear <= 0) return "-inf";
-  return Printf("%.2f", 10.0 * std::log10(linear));
+  const double db = ToDb(linear);
+  return std::isinf(db) && db < 0 ? "-inf" : Printf("%.2f", db);
 }
 
 std::string DescribeArray(const ArrayDescription& desc) {
