@@ -16,7 +16,9 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "io/hdf5/analysis_reader.h"
+#include "io/hdf5/coupling_reader.h"
 #include "io/hdf5/result_reader.h"
+#include "io/text/coupling_text.h"
 #include "io/text/report_text.h"
 #include "io/text/summary_text.h"
 
@@ -88,7 +90,15 @@ void RunReport(const ReportArgs& args) {
   const std::string text = args.json ? text::ReportJson(context, analysis, options)
                                      : text::ReportText(context, analysis, options);
   std::fputs(text.c_str(), stdout);
-  if (!args.json) std::fputs(("\n" + text::SafetyNote()).c_str(), stdout);
+  if (args.json) return;
+  // Driven and loaded dipoles: the circuit as compute printed it.
+  if (const auto coupling = ReadCoupling(args.input, stored.array, stored.currents)) {
+    std::fputs(("\n" + text::DescribeCoupling(coupling->result, coupling->ports,
+                                              stored.result.summary.peak_directivity))
+                   .c_str(),
+               stdout);
+  }
+  std::fputs(("\n" + text::SafetyNote()).c_str(), stdout);
 }
 
 }  // namespace

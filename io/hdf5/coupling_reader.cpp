@@ -1,0 +1,96 @@
+#include "io/hdf5/coupling_reader.h"
+
+#include "io/hdf5/hdf5_file.h"
+#include "io/hdf5/schema.h"
+#include "io/io_error.h"
+
+namespace lobecast {
+namespace {
+
+std::string S(std::string_view v) { return std::string(v); }
+
+template <typename T>
+Eigen::Matrix<T, Eigen::Dynamic, 1> Column(const std::vector<T>& v, std::size_t n,
+                                           const std::string& path, std::string_view name) {
+  if (v.size() != n) {
+    throw IoError(path, "not a valid lobecast result: " + S(name) + " has " +
+                            std::to_string(v.size()) + " values for " + std::to_string(n) +
+                            " dipoles");
+  }
+  return Eigen::Map<const Eigen::Matrix<T, Eigen::Dynamic, 1>>(v.data(),
+                                                               static_cast<Eigen::Index>(n));
+}
+
+}  // namespace
+
+std::optional<StoredCoupling> ReadCoupling(const std::string& path, const Array& array,
+                                           const Eigen::VectorXcd& currents) {
+  namespace s = schema;
+  hdf5::Handle file = hdf5::OpenFileReadOnly(path);
+  if (!hdf5::Exists(file, S(s::kCouplingGroup))) return std::nullopt;
+  const std::size_t n = array.size();
+  StoredCoupling out;
+  CouplingResult& c = out.result;
+  hdf5::Handle g = hdf5::OpenGroup(file, S(s::kCouplingGroup));
+  double* totals[] = {&c.reference_impedance_ohm,
+                      &c.supplied_w,
+                      &c.accepted_w,
+                      &c.radiated_w,
+                      &c.ohmic_w,
+                      &c.load_loss_w,
+                      &c.source_loss_w,
+                      &c.available_w,
+                      &c.efficiency};
+  static_assert(std::size(totals) == std::size(s::kCouplingPowerAttributes));
+  for (std::size_t a = 0; a < std::size(totals); ++a)
+    *totals[a] = hdf5::ReadDoubleAttribute(g, S(s::kCouplingPowerAttributes[a]));
+
+  const std::vector<std::string> kinds = hdf5::ReadStrings(file, S(s::kPortKind.path));
+  const Eigen::VectorXcd source =
+      Column(hdf5::ReadComplex(file, S(s::kSourceVoltage.path)), n, path, s::kSourceVoltage.path);
+  const Eigen::VectorXcd port_z =
+      Column(hdf5::ReadComplex(file, S(s::kPortImpedance.path)), n, path, s::kPortImpedance.path);
+  if (kinds.size() != n) {
+    throw IoError(path, "not a valid lobecast result: " + S(s::kPortKind.path) + " has " +
+                            std::to_string(kinds.size()) + " values for " + std::to_string(n) +
+                            " dipoles");
+  }
+  for (std::size_t m = 0; m < n; ++m) {
+    Port p;
+    const auto e = static_cast<Eigen::Index>(m);
+    if (kinds[m] == ToString(PortKind::kDrive)) {
+      p.kind = PortKind::kDrive;
+    } else if (kinds[m] == ToString(PortKind::kLoad)) {
+      p.kind = PortKind::kLoad;
+    } else if (kinds[m] == ToString(PortKind::kCurrent)) {
+      p.current_a = currents[e];
+    } else {
+      throw IoError(path, "not a valid lobecast result: unknown port kind '" + kinds[m] + "'");
+    }
+    p.voltage_v = source[e];
+    p.impedance_ohm = port_z[e];
+    out.ports.push_back(p);
+  }
+  c.circuit.current_a = currents;
+  c.circuit.terminal_voltage_v = Column(hdf5::ReadComplex(file, S(s::kTerminalVoltage.path)), n,
+                                        path, s::kTerminalVoltage.path);
+  c.circuit.input_impedance_ohm =
+      Column(hdf5::ReadComplex(file, S(s::kInputImpedance.path)), n, path, s::kInputImpedance.path);
+  c.active_impedance_ohm = Column(hdf5::ReadComplex(file, S(s::kActiveImpedance.path)), n, path,
+                                  s::kActiveImpedance.path);
+  c.self_reactance_ohm =
+      Column(hdf5::ReadDoubles(file, S(s::kSelfReactance.path)), n, path, s::kSelfReactance.path);
+  c.loss_resistance_ohm =
+      Column(hdf5::ReadDoubles(file, S(s::kLossResistance.path)), n, path, s::kLossResistance.path);
+  c.reflection =
+      Column(hdf5::ReadComplex(file, S(s::kReflection.path)), n, path, s::kReflection.path);
+  c.vswr = Column(hdf5::ReadDoubles(file, S(s::kVswr.path)), n, path, s::kVswr.path);
+  c.circuit.accepted_w = Column(hdf5::ReadDoubles(file, S(s::kElementAccepted.path)), n, path,
+                                s::kElementAccepted.path);
+  c.circuit.supplied_w = Column(hdf5::ReadDoubles(file, S(s::kElementSupplied.path)), n, path,
+                                s::kElementSupplied.path);
+  c.close_pairs = FindClosePairs(array);
+  return out;
+}
+
+}  // namespace lobecast
