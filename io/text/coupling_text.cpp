@@ -40,8 +40,13 @@ std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& p
                              double peak_directivity) {
   std::ostringstream s;
   const Eigen::VectorXcd& i = c.circuit.current_a;
-  s << Printf("circuit      currents solved from the ports; reference impedance %g ohm\n",
-              c.reference_impedance_ohm);
+  std::size_t count[3] = {0, 0, 0};  // current, drive, load
+  for (const Port& p : ports) ++count[static_cast<int>(p.kind)];
+  s << Printf(
+      "circuit      %zu current-forced, %zu driven, %zu loaded dipole%s%s; reference "
+      "impedance %g ohm\n",
+      count[0], count[1], count[2], ports.size() == 1 ? "" : "s",
+      count[1] + count[2] > 0 ? " (currents solved)" : "", c.reference_impedance_ohm);
   if (ports.size() <= kFullTableUpTo) {
     s << "     #  port                    |I| (A)  phase (deg)  X_self (ohm)  Z_in (ohm)         "
          "  VSWR\n";
