@@ -25,6 +25,13 @@ std::string FormatCurrent(Complex i) {
 
 constexpr std::size_t kFullTableUpTo = 16;
 
+// "given", or "solved" when driven or loaded dipoles made the circuit decide them.
+const char* CurrentsWord(const ArrayDescription& desc) {
+  for (const Port& p : desc.ports)
+    if (p.kind != PortKind::kCurrent) return "solved";
+  return "given";
+}
+
 }  // namespace
 
 std::string FormatDirection(double theta_deg, double phi_deg) {
@@ -107,8 +114,7 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     << SenseName(r.sense[ip])
     << (ar < 0.01 ? std::string(", tilt undefined (circular)\n")
                   : Printf(", tilt %.2f deg from theta_hat toward phi_hat\n", r.tilt_deg[peak]));
-  s << Printf("power        %.6g W radiated for the given currents (closed form)\n",
-              r.radiated_power_w);
+  s << PowerLine(desc, r.radiated_power_w);
 
   const Eigen::VectorXd& ra = r.active_resistance_ohm;
   if (a.size() <= kFullTableUpTo) {
@@ -138,6 +144,11 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
               sm.threads_used == 1 ? "" : "s", sm.pairs);
   if (!output_path.empty()) s << "wrote        " << output_path << "\n";
   return s.str();
+}
+
+std::string PowerLine(const ArrayDescription& desc, double radiated_power_w) {
+  return Printf("power        %.6g W radiated for the %s currents (closed form)\n",
+                radiated_power_w, CurrentsWord(desc));
 }
 
 std::string SafetyNote() {

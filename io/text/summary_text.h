@@ -26,4 +26,8 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& re
 // The safety note printed with every result (CONVENTIONS §5).
 std::string SafetyNote();
 
+// The power line of `check` and `compute`: "power  P W radiated for the given (or
+// solved) currents (closed form)".
+std::string PowerLine(const ArrayDescription& desc, double radiated_power_w);
+
 }  // namespace lobecast::text
