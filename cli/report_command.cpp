@@ -87,12 +87,18 @@ void RunReport(const ReportArgs& args) {
   context.ground = stored.array.ground;
   context.num_dipoles = stored.array.size();
   context.recomputed = recompute;
+  // Driven and loaded dipoles: the circuit as compute printed it.
+  const std::optional<StoredCoupling> coupling =
+      ReadCoupling(args.input, stored.array, stored.currents);
+  if (coupling) {
+    context.coupling = &coupling->result;
+    context.ports = &coupling->ports;
+  }
   const std::string text = args.json ? text::ReportJson(context, analysis, options)
                                      : text::ReportText(context, analysis, options);
   std::fputs(text.c_str(), stdout);
   if (args.json) return;
-  // Driven and loaded dipoles: the circuit as compute printed it.
-  if (const auto coupling = ReadCoupling(args.input, stored.array, stored.currents)) {
+  if (coupling) {
     std::fputs(("\n" + text::DescribeCoupling(coupling->result, coupling->ports,
                                               stored.result.summary.peak_directivity))
                    .c_str(),

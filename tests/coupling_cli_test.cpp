@@ -36,6 +36,12 @@ TEST(CouplingCli, ReportShowsTheCircuitComputePrinted) {
   ASSERT_FALSE(block.empty()) << compute.out;
   EXPECT_EQ(CircuitBlock(report.out), block);
   EXPECT_THAT(block, ::testing::HasSubstr("realized gain at the peak"));
+  // The JSON carries the same circuit under the file's names.
+  const auto json = Lobecast("report --json " + Quote(out.string()));
+  ASSERT_EQ(json.exit_code, 0) << json.out;
+  EXPECT_THAT(json.out, ::testing::HasSubstr("\"coupling\": {"));
+  EXPECT_THAT(json.out, ::testing::HasSubstr("\"port_kind\": \"load\""));
+  EXPECT_THAT(json.out, ::testing::HasSubstr("\"input_impedance_ohm\": {"));
   // A forced-current sample has no circuit to show.
   const fs::path plain = out.parent_path() / "single.h5";
   ASSERT_EQ(Lobecast("compute " + Quote(std::string(LOBECAST_SAMPLES) + "/single-dipole.toml") +

@@ -243,6 +243,57 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
   return s.str();
 }
 
+namespace {
+
+// Complex values as {"re": ..., "im": ...}.
+void ComplexMember(JsonWriter& j, std::string_view key, Complex z) {
+  j.Key(key);
+  j.BeginObject();
+  j.Member("re", z.real());
+  j.Member("im", z.imag());
+  j.EndObject();
+}
+
+// The circuit under the names of the file's /coupling group (io/hdf5/schema.h).
+void WriteCouplingJson(JsonWriter& j, const CouplingResult& c, const std::vector<Port>& ports) {
+  namespace s = schema;
+  j.Key(s::kCouplingGroup.substr(1));
+  j.BeginObject();
+  const double totals[] = {c.reference_impedance_ohm,
+                           c.supplied_w,
+                           c.accepted_w,
+                           c.radiated_w,
+                           c.ohmic_w,
+                           c.load_loss_w,
+                           c.source_loss_w,
+                           c.available_w,
+                           c.efficiency};
+  static_assert(std::size(totals) == std::size(s::kCouplingPowerAttributes));
+  for (std::size_t a = 0; a < std::size(totals); ++a)
+    j.Member(s::kCouplingPowerAttributes[a], totals[a]);
+  j.Key("elements");
+  j.BeginArray();
+  for (std::size_t m = 0; m < ports.size(); ++m) {
+    const auto e = static_cast<Eigen::Index>(m);
+    j.BeginObject();
+    j.Member(s::kPortKind.name(), ToString(ports[m].kind));
+    ComplexMember(j, s::kCurrent.name(), c.circuit.current_a[e]);
+    ComplexMember(j, s::kInputImpedance.name(), c.circuit.input_impedance_ohm[e]);
+    ComplexMember(j, s::kActiveImpedance.name(), c.active_impedance_ohm[e]);
+    j.Member(s::kSelfReactance.name(), c.self_reactance_ohm[e]);
+    j.Member(s::kLossResistance.name(), c.loss_resistance_ohm[e]);
+    ComplexMember(j, s::kReflection.name(), c.reflection[e]);
+    j.Member(s::kVswr.name(), c.vswr[e]);
+    j.Member(s::kElementAccepted.name(), c.circuit.accepted_w[e]);
+    j.Member(s::kElementSupplied.name(), c.circuit.supplied_w[e]);
+    j.EndObject();
+  }
+  j.EndArray();
+  j.EndObject();
+}
+
+}  // namespace
+
 std::string ReportJson(const ReportContext& c, const PatternAnalysis& a, const AnalysisOptions& o) {
   JsonWriter j;
   j.BeginObject();
@@ -258,6 +309,7 @@ std::string ReportJson(const ReportContext& c, const PatternAnalysis& a, const A
   JsonVisitor v(j);
   v.Object(schema::kRecordedOptions, [&] { schema::VisitRecordedOptions(o, v); });
   schema::VisitAnalysis(a, v);
+  if (c.coupling && c.ports) WriteCouplingJson(j, *c.coupling, *c.ports);
   j.EndObject();
   return j.text();
 }

@@ -13,8 +13,10 @@
 
 #include <cstddef>
 #include <string>
+#include <vector>
 
 #include "engine/analysis/analysis_types.h"
+#include "engine/coupling/coupling.h"
 #include "engine/types.h"
 
 namespace lobecast::text {
@@ -26,6 +28,10 @@ struct ReportContext {
   Ground ground = Ground::kNone;
   std::size_t num_dipoles = 0;
   bool recomputed = false;  // false: read from the file's /summary/analysis
+  // A coupled array's circuit (io/hdf5/coupling_reader.h); both null otherwise.
+  // The JSON then gains a "coupling" object named as the file's /coupling group.
+  const CouplingResult* coupling = nullptr;
+  const std::vector<Port>* ports = nullptr;
 };
 
 // Three lines for `compute`: beamwidths, highest side lobe, XPD and AR at the peak.
