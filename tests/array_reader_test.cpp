@@ -377,3 +377,35 @@ TEST(BadInput, CorpusIsNotEmpty) { EXPECT_GE(BadCases().size(), 40u); }
 
 }  // namespace
 }  // namespace lobecast
+
+namespace lobecast {
+namespace {
+
+TEST(ArrayReader, CouplingKeysAndTheThickWireWarning) {
+  const std::string text =
+      "frequency = 1e8\nreference_impedance = 75\n[[dipole]]\nposition = [0, 0, 1]\n"
+      "orientation = [0, 0, 1]\nlength = 0.1\ndistribution = \"triangular\"\n"
+      "radius = 0.005\nconductivity = 5.8e7\n"
+      "drive = { voltage = 2, phase = 90, reactance = 10 }\n"
+      "[[dipole]]\nposition = [1, 0, 1]\norientation = [0, 0, 1]\nlength = 0.1\n"
+      "self_reactance = -900\nload = {}\n";
+  const ArrayDescription d = ParseArrayDescription(text, "arr.toml", "");
+  ASSERT_EQ(d.ports.size(), 2u);
+  EXPECT_EQ(d.reference_impedance_ohm, 75.0);
+  EXPECT_EQ(d.ports[0].kind, PortKind::kDrive);
+  EXPECT_NEAR(std::abs(d.ports[0].voltage_v - Complex(0, 2)), 0.0, 1e-15);
+  // The source resistance defaults to the reference impedance.
+  EXPECT_EQ(d.ports[0].impedance_ohm, Complex(75, 10));
+  EXPECT_EQ(d.ports[1].kind, PortKind::kLoad);
+  EXPECT_EQ(d.ports[1].impedance_ohm, Complex(0.0));  // {} is a short circuit
+  EXPECT_EQ(d.wires[0].radius_m, 0.005);
+  EXPECT_EQ(d.wires[0].conductivity_s_m, 5.8e7);
+  EXPECT_EQ(d.wires[1].reactance_ohm, -900);
+  // l / a = 20 < 30: the thin-wire self reactance is rough there (common practice).
+  ASSERT_EQ(d.warnings.size(), 1u);
+  EXPECT_NE(d.warnings[0].find("arr.toml:8:10: warning: key 'dipole[0].radius'"), std::string::npos)
+      << d.warnings[0];
+}
+
+}  // namespace
+}  // namespace lobecast

@@ -418,6 +418,13 @@ class Reader {
       out.ports.push_back(port);
       out.wires.push_back(ReadWire(*t, key, d, out.length_unit));
       const Wire& w = out.wires.back();
+      if (w.radius_m > 0 && d.length_m < 30 * w.radius_m) {
+        out.warnings.push_back(
+            At(*t->get("radius")).ToString() + ": warning: key '" + Join(key, "radius") +
+            "': length / radius = " + FormatApprox(d.length_m / w.radius_m, 3) +
+            "; the thin-wire self reactance wants 30 or more (common practice): treat it as "
+            "rough");
+      }
       if (port.kind != PortKind::kCurrent && std::isnan(w.reactance_ohm) &&
           !(w.radius_m > 0 && d.distribution == Distribution::kTriangular)) {
         const std::string kind(ToString(port.kind));

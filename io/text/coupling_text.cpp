@@ -27,7 +27,8 @@ std::string PortText(const Port& p) {
     case PortKind::kCurrent:
       return "current";
     case PortKind::kDrive:
-      return Printf("drive %.3g V", std::abs(p.voltage_v));
+      return Printf("drive %.3g V %.0f deg", std::abs(p.voltage_v),
+                    std::arg(p.voltage_v) / kDegree + 0.0);
     case PortKind::kLoad:
       return "load " + Impedance(p.impedance_ohm);
   }
