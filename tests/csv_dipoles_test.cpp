@@ -112,3 +112,35 @@ TEST(CsvDipoles, RowErrorsNameTheDipoleAndCell) {
 
 }  // namespace
 }  // namespace lobecast
+
+namespace lobecast {
+namespace {
+
+TEST(CsvDipoles, WireColumnsAreOptionalPerCell) {
+  const std::string text =
+      "x,y,z,ux,uy,uz,length,magnitude,phase,distribution,radius,self_reactance,conductivity\n"
+      "0,0,1,0,0,1,10,1,0,triangular,0.1,,5.8e7\n"
+      "0,0,2,0,0,1,10,1,0,,,-900,\n";
+  const std::vector<CsvDipole> d = ParseCsvDipoles(text, "w.csv", 0.01, 0);  // centimetres
+  ASSERT_EQ(d.size(), 2u);
+  EXPECT_DOUBLE_EQ(d[0].wire.radius_m, 0.001);
+  EXPECT_TRUE(std::isnan(d[0].wire.reactance_ohm));
+  EXPECT_EQ(d[0].wire.conductivity_s_m, 5.8e7);
+  EXPECT_EQ(d[1].wire.radius_m, 0.0);
+  EXPECT_EQ(d[1].wire.reactance_ohm, -900.0);
+  EXPECT_EQ(d[1].wire.conductivity_s_m, 0.0);
+  // A conductivity needs a radius; a radius must be thin.
+  const std::string header = "x,y,z,ux,uy,uz,length,magnitude,phase,radius,conductivity\n";
+  try {
+    ParseCsvDipoles(header + "0,0,1,0,0,1,10,1,0,,5.8e7\n", "w.csv", 0.01, 3);
+    ADD_FAILURE() << "expected a refusal";
+  } catch (const InputError& e) {
+    EXPECT_NE(std::string(e.what()).find("w.csv:2:21: key 'dipole[3].conductivity'"),
+              std::string::npos)
+        << e.what();
+  }
+  EXPECT_THROW(ParseCsvDipoles(header + "0,0,1,0,0,1,10,1,0,5,\n", "w.csv", 0.01, 0), InputError);
+}
+
+}  // namespace
+}  // namespace lobecast

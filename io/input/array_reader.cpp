@@ -579,7 +579,7 @@ class Reader {
       const std::string key = "dipole[" + std::to_string(first + i) + "]";
       out.array.dipoles.push_back(rows[i].dipole);
       out.ports.push_back(Port{PortKind::kCurrent, rows[i].current_a, 0.0, 0.0});
-      out.wires.emplace_back();
+      out.wires.push_back(rows[i].wire);
       out.dipole_locations.push_back(rows[i].row);
       sites_.push_back(DipoleSite{rows[i].row, rows[i].z_cell, key + ".z", rows[i].length_cell,
                                   key + ".length"});

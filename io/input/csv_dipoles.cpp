@@ -11,9 +11,26 @@
 namespace lobecast {
 namespace {
 
-enum Column { kX, kY, kZ, kUx, kUy, kUz, kLength, kMagnitude, kPhase, kDistribution, kNumColumns };
+enum Column {
+  kX,
+  kY,
+  kZ,
+  kUx,
+  kUy,
+  kUz,
+  kLength,
+  kMagnitude,
+  kPhase,
+  kDistribution,  // the required columns come before this one, the optional from it on
+  kRadius,
+  kSelfReactance,
+  kConductivity,
+  kNumColumns
+};
 constexpr std::array<std::string_view, kNumColumns> kColumnNames = {
-    "x", "y", "z", "ux", "uy", "uz", "length", "magnitude", "phase", "distribution"};
+    "x",           "y",         "z",     "ux",           "uy",     "uz",
+    "length",      "magnitude", "phase", "distribution", "radius", "self_reactance",
+    "conductivity"};
 constexpr std::string_view kRequiredList = "x, y, z, ux, uy, uz, length, magnitude, phase";
 
 struct Cell {
@@ -153,6 +170,32 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
                          "uniform or triangular");
       }
       d.dipole.distribution = *dist;
+    }
+    // The wire, as the TOML keys of the same names (array_reader.h): an empty cell
+    // or a missing column is not given.
+    auto optional_number = [&](Column c) -> std::optional<double> {
+      if (index_of[c] < 0 || cell(c).text.empty()) return std::nullopt;
+      return number(c);
+    };
+    if (const auto r = optional_number(kRadius)) {
+      if (!(*r > 0.0) || *r * metres_per_unit >= 0.5 * d.dipole.length_m) {
+        throw InputError(where(kRadius), key(kRadius), FormatNumber(*r),
+                         "a radius > 0 and below half the length: a thin wire");
+      }
+      d.wire.radius_m = *r * metres_per_unit;
+    }
+    if (const auto x = optional_number(kSelfReactance)) d.wire.reactance_ohm = *x;
+    if (const auto s = optional_number(kConductivity)) {
+      if (!(*s > 0.0)) {
+        throw InputError(where(kConductivity), key(kConductivity), FormatNumber(*s),
+                         "a conductivity > 0 (S/m)");
+      }
+      if (!(d.wire.radius_m > 0)) {
+        throw InputError(where(kConductivity), key(kConductivity),
+                         "a conductivity without a radius",
+                         "a radius cell as well (the loss depends on it)");
+      }
+      d.wire.conductivity_s_m = *s;
     }
     out.push_back(std::move(d));
   }

@@ -7,8 +7,10 @@
 // - The first non-blank, non-comment line is the header. Columns are found by
 //   header name (case-insensitive, any order); x, y, z, ux, uy, uz, length,
 //   magnitude and phase are required, distribution is optional (an empty cell or a
-//   missing column means uniform). Unknown or repeated header names are errors,
-//   like unknown TOML keys.
+//   missing column means uniform), and so are radius (length unit), self_reactance
+//   (ohm) and conductivity (S/m), the wire keys of a [[dipole]] table (an empty cell
+//   or a missing column: not given). Rows are current-forced (no drive or load). Unknown or
+//   repeated header names are errors, like unknown TOML keys.
 // - Cells are separated by commas and trimmed of blanks; there is no quoting (no
 //   cell ever needs a comma). Every row has exactly as many cells as the header.
 // - x, y, z and length are in the description's length_unit; (ux, uy, uz) is any
@@ -23,6 +25,7 @@
 #include <string_view>
 #include <vector>
 
+#include "engine/coupling/coupling.h"
 #include "engine/types.h"
 #include "io/input_error.h"
 
@@ -30,11 +33,13 @@ namespace lobecast {
 
 // Header names the reader knows, in the order error messages list them.
 inline constexpr std::string_view kCsvColumnList =
-    "x, y, z, ux, uy, uz, length, magnitude, phase, distribution";
+    "x, y, z, ux, uy, uz, length, magnitude, phase, distribution, radius, self_reactance, "
+    "conductivity";
 
 struct CsvDipole {
   Dipole dipole;               // position and length in metres, orientation normalized
   Complex current_a = 0.0;     // the row's terminal current (A, complex peak)
+  Wire wire;                   // radius (m), self_reactance, conductivity when given
   SourceLocation row;          // the row (column 1)
   SourceLocation z_cell;       // the z cell, for ground-plane checks
   SourceLocation length_cell;  // the length cell, for wavelength checks
