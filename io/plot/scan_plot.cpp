@@ -125,39 +125,17 @@ ScanPlotGeometry WriteScanPlot(const ScanImpedanceTable& t, const ScanPlotLabels
   g.gamma_top = std::ceil(top * 4.0 - 1e-9) / 4.0;
 
   // Grid and axis labels.
+  const FrameBox box{g.left_px, g.top_px, g.width_px, g.height_px};
   SetSolid(c, 1.0);
   const double y_step = g.gamma_top > 1.0 ? 0.25 : 0.1;
-  for (int k = 0; k * y_step <= g.gamma_top + 1e-9; ++k) {
-    const double y = g.YOf(k * y_step);
-    c.SetColour(GridColour());
-    cairo_move_to(cr, g.left_px, y);
-    cairo_line_to(cr, g.left_px + g.width_px, y);
-    cairo_stroke(cr);
-    c.SetColour(TextColour());
-    c.Text(g.left_px - 0.4 * f, y, Tick(k * y_step), 0.9 * f, HAlign::kRight, VAlign::kMiddle);
-  }
+  for (int k = 0; k * y_step <= g.gamma_top + 1e-9; ++k)
+    DrawGridRow(c, box, g.YOf(k * y_step), Tick(k * y_step));
   const double x_step = ThetaTickStep(g.theta_max_deg - g.theta_min_deg);
   for (double a = x_step * std::ceil(g.theta_min_deg / x_step - 1e-9); a <= g.theta_max_deg + 1e-9;
-       a += x_step) {
-    const double x = g.XOf(a);
-    c.SetColour(GridColour());
-    cairo_move_to(cr, x, g.top_px);
-    cairo_line_to(cr, x, g.top_px + g.height_px);
-    cairo_stroke(cr);
-    c.SetColour(TextColour());
-    c.Text(x, g.top_px + g.height_px + 0.5 * f, Tick(a), 0.9 * f, HAlign::kCentre, VAlign::kTop);
-  }
-  c.SetColour(TextColour());
-  c.Text(g.left_px + 0.5 * g.width_px, g.top_px + g.height_px + 2.0 * f,
-         "scan angle theta (deg), from +z", 0.9 * f, HAlign::kCentre, VAlign::kTop);
-  cairo_save(cr);
-  cairo_translate(cr, 0.9 * f, g.top_px + 0.5 * g.height_px);
-  cairo_rotate(cr, -0.5 * kPi);
-  c.Text(0, 0, "|Γ| (linear; 1 = all reflected)", 0.9 * f, HAlign::kCentre, VAlign::kMiddle);
-  cairo_restore(cr);
-  SetSolid(c, 1.0);
-  cairo_rectangle(cr, g.left_px, g.top_px, g.width_px, g.height_px);
-  cairo_stroke(cr);
+       a += x_step)
+    DrawGridColumn(c, box, g.XOf(a), Tick(a));
+  DrawAxisTitlesAndOutline(c, box, "scan angle theta (deg), from +z",
+                           "|Γ| (linear; 1 = all reflected)");
   double caption_y = g.top_px + g.height_px + 3.6 * f;
   for (const std::string& line : caption_lines) {
     c.Text(0.8 * f, caption_y, line, 0.9 * f, HAlign::kLeft, VAlign::kTop);
