@@ -18,6 +18,8 @@
 #include "io/input/solve_circuit.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
+#include "io/plot/canvas.h"
+#include "io/plot/scan_plot.h"
 #include "io/text/scan_text.h"
 #include "io/text/text_format.h"
 
@@ -27,6 +29,7 @@ namespace {
 struct ScanArgs {
   std::string input;
   std::string output;  // CSV; empty: none
+  std::string plot;    // PNG, SVG or PDF; empty: none
   double phi_deg = 0;
   double theta_start_deg = 0;
   double theta_stop_deg = 60;
@@ -36,6 +39,11 @@ struct ScanArgs {
 };
 
 void RunScan(const ScanArgs& args) {
+  if (!args.plot.empty() && !plot::ImageFormatFromPath(args.plot)) {
+    throw InputError(
+        SourceLocation{"--plot"},
+        "found '" + args.plot + "', expected a file name ending in .png, .svg or .pdf");
+  }
   ArrayDescription desc = ReadArrayDescription(args.input);
   for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
   if (!(args.step_deg > 0) || args.theta_stop_deg < args.theta_start_deg) {
@@ -116,6 +124,15 @@ void RunScan(const ScanArgs& args) {
     }
     if (!args.quiet) std::printf("wrote        %s\n", args.output.c_str());
   }
+  if (!args.plot.empty()) {
+    plot::ScanPlotLabels labels;
+    labels.array_name =
+        desc.name.empty() ? std::filesystem::path(args.input).stem().string() : desc.name;
+    labels.frequency_hz = desc.array.frequency_hz;
+    labels.reference = reference_text;
+    plot::WriteScanPlot(table, labels, args.plot);
+    if (!args.quiet) std::printf("wrote        %s\n", args.plot.c_str());
+  }
 }
 
 }  // namespace
@@ -134,6 +151,10 @@ void AddScanCommand(CLI::App& app) {
   cmd->add_option("-o,--output", args->output,
                   "CSV table (theta_deg, phi_deg, element, active impedance in ohm, |Gamma|, "
                   "phase, VSWR), written atomically")
+      ->check(OutputFileInExistingFolder());
+  cmd->add_option("--plot", args->plot,
+                  "|Gamma| against scan angle, one line per element (.png, .svg or .pdf), "
+                  "written atomically")
       ->check(OutputFileInExistingFolder());
   cmd->add_option("--phi", args->phi_deg, "Scan plane: azimuth phi (deg)")->capture_default_str();
   cmd->add_option("--theta-start", args->theta_start_deg, "First scan angle theta (deg)")

@@ -26,6 +26,7 @@
 #include "io/plot/cut_traces.h"
 #include "io/plot/frame.h"
 #include "io/plot/plot.h"
+#include "pixel_util.h"
 
 namespace lobecast::plot {
 namespace {
@@ -82,19 +83,6 @@ std::vector<std::string> Samples() {
   return names;
 }
 
-struct Rgb8 {
-  int r, g, b;
-};
-Rgb8 Unpack(std::uint32_t argb) {
-  return {static_cast<int>((argb >> 16) & 255), static_cast<int>((argb >> 8) & 255),
-          static_cast<int>(argb & 255)};
-}
-int ChannelDistance(std::uint32_t argb, const Colour& c) {
-  const Rgb8 p = Unpack(argb);
-  return std::max({std::abs(p.r - static_cast<int>(std::lround(c.r * 255))),
-                   std::abs(p.g - static_cast<int>(std::lround(c.g * 255))),
-                   std::abs(p.b - static_cast<int>(std::lround(c.b * 255)))});
-}
 Colour FromRgb(const Rgb& c) { return {c.r, c.g, c.b, 1}; }
 
 // ---------------------------------------------------------------------------

@@ -38,42 +38,20 @@ CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const Pl
   g.db_floor = t.scale_floor_db;
 
   // Grid and axis labels.
+  const FrameBox box{g.left_px, g.top_px, g.width_px, g.height_px};
   const double step = DbLabelStep(g.db_top - g.db_floor);
   SetSolid(c, 1.0);
-  for (double v = g.db_top; v >= g.db_floor - 1e-9; v -= step) {
-    const double y = g.YOf(v);
-    c.SetColour(GridColour());
-    cairo_move_to(cr, g.left_px, y);
-    cairo_line_to(cr, g.left_px + g.width_px, y);
-    cairo_stroke(cr);
-    c.SetColour(TextColour());
-    c.Text(g.left_px - 0.4 * f, y, Tick(v), 0.9 * f, HAlign::kRight, VAlign::kMiddle);
-  }
+  for (double v = g.db_top; v >= g.db_floor - 1e-9; v -= step)
+    DrawGridRow(c, box, g.YOf(v), Tick(v));
   for (double a = 30.0 * std::ceil(g.angle_min_deg / 30.0 - 1e-9); a <= g.angle_max_deg + 1e-9;
-       a += 30.0) {
-    const double x = g.XOf(a);
-    c.SetColour(GridColour());
-    cairo_move_to(cr, x, g.top_px);
-    cairo_line_to(cr, x, g.top_px + g.height_px);
-    cairo_stroke(cr);
-    c.SetColour(TextColour());
-    c.Text(x, g.top_px + g.height_px + 0.5 * f, Tick(a), 0.9 * f, HAlign::kCentre, VAlign::kTop);
-  }
-  c.SetColour(TextColour());
-  c.Text(g.left_px + 0.5 * g.width_px, g.top_px + g.height_px + 2.0 * f,
-         t.cut.spec.plane == CutPlane::kPhiConstant
-             ? "signed theta (deg): + on the cut's phi half, - on the opposite half"
-             : "phi (deg), from +x toward +y",
-         0.9 * f, HAlign::kCentre, VAlign::kTop);
-  cairo_save(cr);
-  cairo_translate(cr, 0.9 * f, g.top_px + 0.5 * g.height_px);
-  cairo_rotate(cr, -0.5 * kPi);
-  c.Text(0, 0, t.units, 0.9 * f, HAlign::kCentre, VAlign::kMiddle);
-  cairo_restore(cr);
-  c.SetColour(TextColour());
-  SetSolid(c, 1.0);
-  cairo_rectangle(cr, g.left_px, g.top_px, g.width_px, g.height_px);
-  cairo_stroke(cr);
+       a += 30.0)
+    DrawGridColumn(c, box, g.XOf(a), Tick(a));
+  DrawAxisTitlesAndOutline(
+      c, box,
+      t.cut.spec.plane == CutPlane::kPhiConstant
+          ? "signed theta (deg): + on the cut's phi half, - on the opposite half"
+          : "phi (deg), from +x toward +y",
+      t.units);
 
   // No clip: every level is clamped into the frame, and a clip would shave the
   // trace where it runs along the top (the peak) or the bottom (the floor).

@@ -133,6 +133,46 @@ void DrawTrace(const Canvas& c, const Colour& colour, double width_px, std::size
   cairo_stroke(cr);
 }
 
+void DrawGridRow(const Canvas& c, const FrameBox& b, double y, const std::string& label) {
+  cairo_t* cr = c.cr();
+  const double f = c.font_px();
+  c.SetColour(GridColour());
+  cairo_move_to(cr, b.left_px, y);
+  cairo_line_to(cr, b.left_px + b.width_px, y);
+  cairo_stroke(cr);
+  c.SetColour(TextColour());
+  c.Text(b.left_px - 0.4 * f, y, label, 0.9 * f, HAlign::kRight, VAlign::kMiddle);
+}
+
+void DrawGridColumn(const Canvas& c, const FrameBox& b, double x, const std::string& label) {
+  cairo_t* cr = c.cr();
+  const double f = c.font_px();
+  c.SetColour(GridColour());
+  cairo_move_to(cr, x, b.top_px);
+  cairo_line_to(cr, x, b.top_px + b.height_px);
+  cairo_stroke(cr);
+  c.SetColour(TextColour());
+  c.Text(x, b.top_px + b.height_px + 0.5 * f, label, 0.9 * f, HAlign::kCentre, VAlign::kTop);
+}
+
+void DrawAxisTitlesAndOutline(const Canvas& c, const FrameBox& b, const std::string& x_title,
+                              const std::string& y_title) {
+  cairo_t* cr = c.cr();
+  const double f = c.font_px();
+  c.SetColour(TextColour());
+  c.Text(b.left_px + 0.5 * b.width_px, b.top_px + b.height_px + 2.0 * f, x_title, 0.9 * f,
+         HAlign::kCentre, VAlign::kTop);
+  cairo_save(cr);
+  cairo_translate(cr, 0.9 * f, b.top_px + 0.5 * b.height_px);
+  cairo_rotate(cr, -0.5 * kPi);
+  c.Text(0, 0, y_title, 0.9 * f, HAlign::kCentre, VAlign::kMiddle);
+  cairo_restore(cr);
+  c.SetColour(TextColour());
+  SetSolid(c, 1.0);
+  cairo_rectangle(cr, b.left_px, b.top_px, b.width_px, b.height_px);
+  cairo_stroke(cr);
+}
+
 double DbLabelStep(double range_db) {
   if (range_db > 25) return 10;
   if (range_db > 10) return 5;

@@ -52,6 +52,19 @@ void SetDashed(const Canvas& c, double width_px, double dash_px);
 void DrawTrace(const Canvas& c, const Colour& colour, double width_px, std::size_t n,
                const std::function<std::pair<double, double>(std::size_t)>& point_px);
 
+// A cartesian plot frame in device px.
+struct FrameBox {
+  double left_px = 0, top_px = 0, width_px = 0, height_px = 0;
+};
+// A grey grid line across the frame at height y (a row) or at x (a column), with
+// its tick label outside the frame (left of it, or below it).
+void DrawGridRow(const Canvas& c, const FrameBox& b, double y, const std::string& label);
+void DrawGridColumn(const Canvas& c, const FrameBox& b, double x, const std::string& label);
+// The axis titles (x under the tick labels, y turned up along the left edge) and
+// the frame's outline.
+void DrawAxisTitlesAndOutline(const Canvas& c, const FrameBox& b, const std::string& x_title,
+                              const std::string& y_title);
+
 // A step for ring / axis labels in dB: 10 when the range spans more than 25 dB,
 // 5 above 10 dB, else 2.
 double DbLabelStep(double range_db);
