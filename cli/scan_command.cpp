@@ -14,6 +14,7 @@
 #include "cli/output_path.h"
 #include "engine/coupling/scan.h"
 #include "engine/error.h"
+#include "io/hdf5/scan_writer.h"
 #include "io/input/array_reader.h"
 #include "io/input/solve_circuit.h"
 #include "io/input_error.h"
@@ -104,7 +105,16 @@ void RunScan(const ScanArgs& args) {
                 desc.name.empty() ? args.input.c_str() : desc.name.c_str(), desc.array.size());
     std::fputs(text::ScanTable(table, reference_text).c_str(), stdout);
   }
-  if (!args.output.empty()) {
+  const bool h5 = std::filesystem::path(args.output).extension() == ".h5";
+  if (h5) {
+    ScanFileInfo info;
+    info.frequency_hz = desc.array.frequency_hz;
+    info.name = desc.name;
+    info.reference = reference_text;
+    info.input_text = desc.source_text;
+    WriteScanFile(args.output, table, info);
+    if (!args.quiet) std::printf("wrote        %s\n", args.output.c_str());
+  } else if (!args.output.empty()) {
     const std::string tmp = args.output + ".tmp-" + std::to_string(::getpid());
     {
       std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
@@ -150,7 +160,8 @@ void AddScanCommand(CLI::App& app) {
       ->check(CLI::ExistingFile);
   cmd->add_option("-o,--output", args->output,
                   "CSV table (theta_deg, phi_deg, element, active impedance in ohm, |Gamma|, "
-                  "phase, VSWR), written atomically")
+                  "phase, VSWR), or with a .h5 name an HDF5 file (/scan: the active impedance "
+                  "and reflection per angle and element); written atomically")
       ->check(OutputFileInExistingFolder());
   cmd->add_option("--plot", args->plot,
                   "|Gamma| against scan angle, one line per element (.png, .svg or .pdf), "

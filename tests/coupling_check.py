@@ -14,7 +14,9 @@ Runs `lobecast compute` on the sample with driven and loaded dipoles
   * the terminal currents against numpy.linalg.solve of the port equations
     (V = Z I; drive V = V_s - Z_s I; load V = -Z_L I);
   * energy conservation: supplied = radiated + ohmic + source and load losses, and
-    the realized gain 4 pi U / P_available with P_available = sum |V_s|^2 / (8 R_s).
+    the realized gain 4 pi U / P_available with P_available = sum |V_s|^2 / (8 R_s);
+  * `lobecast scan` (HDF5 output) on steered-line-scan.toml against numpy steering,
+    active impedances and power-wave reflections (Kurokawa 1965).
 Exit status 0 when every check passes; failures print both values.
 """
 import argparse
@@ -76,6 +78,40 @@ def self_reactance_dblquad(k, length, a):
     s_a = part(lambda z, zp: tri(z) * tri(zp) * kern(z, zp))
     s_phi = part(lambda z, zp: dtri(z) * dtri(zp) * kern(z, zp))
     return (1j * w * MU0 * s_a + s_phi / (1j * w * EPS0)).imag
+
+
+def check_scan(a):
+    """`lobecast scan` on the steered sample against numpy: steered currents
+    I_n = |a_n| exp(-j k r_hat0 . r_n) (CONVENTIONS §3), Z_act = (Z I)_m / I_m with Z
+    from the compute result (self reactance and loss on the diagonal), and the
+    power-wave reflection (Z - conj(Z_r)) / (Z + Z_r) (Kurokawa 1965) with Z_r the
+    conjugate of each element's Z_act at the first angle."""
+    sample = os.path.join(a.samples, "steered-line-scan.toml")
+    res = os.path.join(a.workdir, "steered.h5")
+    scan = os.path.join(a.workdir, "scan.h5")
+    subprocess.run([a.lobecast, "compute", sample, "-o", res, "-q"], check=True)
+    subprocess.run([a.lobecast, "scan", sample, "--theta-stop", "60", "--step", "15", "-o", scan,
+                    "-q"], check=True)
+    with h5py.File(res, "r") as f, h5py.File(scan, "r") as s:
+        k = 2 * np.pi * f["/array"].attrs["frequency_hz"] / C0
+        pos = f["/array/position"][...]
+        amp = np.abs(f["/array/current"][...])
+        z = f["/power/impedance_ohm"][...] + np.diag(f["/coupling/loss_resistance_ohm"][...])
+        g = s["/scan"]
+        th = np.radians(g["theta_deg"][...])
+        ph = np.radians(g["phi_deg"][...])
+        zact = []
+        for t, p in zip(th, ph):
+            r0 = np.array([np.sin(t) * np.cos(p), np.sin(t) * np.sin(p), np.cos(t)])
+            cur = amp * np.exp(-1j * k * pos @ r0)
+            zact.append((z @ cur) / cur)
+        zact = np.array(zact)
+        zr = np.conj(zact[0])
+        gamma = (zact - np.conj(zr)) / (zact + zr)
+        e1 = float(np.max(np.abs(g["active_impedance_ohm"][...] - zact)) / np.max(np.abs(zact)))
+        e2 = float(np.max(np.abs(g["reflection"][...] - gamma)))
+        check(e1 < 1e-12 and e2 < 1e-10,
+              f"scan impedance vs numpy steering and power waves: {e1:.1e}, |Gamma| {e2:.1e}")
 
 
 def main():
@@ -172,6 +208,7 @@ def main():
         gr = f["/pattern/realized_gain"][...]
         e = float(np.max(np.abs(gr - d * p_rad / p_avail)) / np.max(d))
         check(e < 1e-12, f"realized gain = D P_rad / P_available: rel err {e:.1e}")
+    check_scan(a)
     if failures:
         print(f"{len(failures)} check(s) failed", file=sys.stderr)
         sys.exit(1)

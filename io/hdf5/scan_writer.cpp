@@ -1,0 +1,66 @@
+#include "io/hdf5/scan_writer.h"
+
+#include <unistd.h>
+
+#include <cstdio>
+#include <vector>
+
+#include "io/hdf5/hdf5_file.h"
+#include "io/hdf5/result_writer.h"
+#include "io/output_file.h"
+#include "io/version.h"
+
+namespace lobecast {
+namespace {
+
+// Row-major (S, N) copy of an Eigen (column-major) matrix.
+std::vector<Complex> RowMajor(const Eigen::MatrixXcd& m) {
+  std::vector<Complex> out(static_cast<std::size_t>(m.size()));
+  for (Eigen::Index r = 0; r < m.rows(); ++r)
+    for (Eigen::Index c = 0; c < m.cols(); ++c)
+      out[static_cast<std::size_t>(r * m.cols() + c)] = m(r, c);
+  return out;
+}
+
+}  // namespace
+
+void WriteScanFile(const std::string& path, const ScanImpedanceTable& t, const ScanFileInfo& info) {
+  RequireReplaceable(path);
+  const std::string temp = path + ".tmp-" + std::to_string(static_cast<long>(::getpid()));
+  try {
+    {
+      hdf5::Handle file = hdf5::CreateFile(temp);
+      const auto s = static_cast<hsize_t>(t.theta_rad.size());
+      const auto n = static_cast<hsize_t>(t.reflection.cols());
+      hdf5::Handle g = hdf5::CreateGroup(file, "/scan");
+      hdf5::WriteScalarAttribute(g, "frequency_hz", info.frequency_hz);
+      hdf5::WriteStringAttribute(g, "name", info.name);
+      hdf5::WriteStringAttribute(g, "reference", info.reference);
+      std::vector<double> theta, phi;
+      for (std::size_t i = 0; i < t.theta_rad.size(); ++i) {
+        theta.push_back(t.theta_rad[i] / kDegree);
+        phi.push_back(t.phi_rad[i] / kDegree);
+      }
+      hdf5::WriteDataset(g, "theta_deg", {s}, theta.data(), "deg");
+      hdf5::WriteDataset(g, "phi_deg", {s}, phi.data(), "deg");
+      hdf5::WriteDataset(g, "active_impedance_ohm", {s, n}, RowMajor(t.active_impedance_ohm).data(),
+                         "ohm");
+      hdf5::WriteDataset(g, "reflection", {s, n}, RowMajor(t.reflection).data(), "1");
+      hdf5::WriteDataset(g, "accepted_w", {s}, t.accepted_w.data(), "W");
+      // The format attributes last: a stray temporary is never taken for a result.
+      hdf5::WriteStringAttribute(file, "software_version", SoftwareVersion());
+      hdf5::WriteStringAttribute(file, "time_convention", "exp(+jwt)");
+      hdf5::WriteStringAttribute(file, "created", Iso8601UtcNow());
+      hdf5::WriteStringAttribute(file, "input", info.input_text);
+      hdf5::WriteStringAttribute(file, "format", kScanFormat);
+      hdf5::WriteIntAttribute(file, "format_version", 1);
+    }
+    if (std::rename(temp.c_str(), path.c_str()) != 0)
+      throw IoError(path, "could not rename the finished scan file into place");
+  } catch (...) {
+    std::remove(temp.c_str());
+    throw;
+  }
+}
+
+}  // namespace lobecast
