@@ -32,18 +32,9 @@ std::optional<StoredCoupling> ReadCoupling(const std::string& path, const Array&
   StoredCoupling out;
   CouplingResult& c = out.result;
   hdf5::Handle g = hdf5::OpenGroup(file, S(s::kCouplingGroup));
-  double* totals[] = {&c.reference_impedance_ohm,
-                      &c.supplied_w,
-                      &c.accepted_w,
-                      &c.radiated_w,
-                      &c.ohmic_w,
-                      &c.load_loss_w,
-                      &c.source_loss_w,
-                      &c.available_w,
-                      &c.efficiency};
-  static_assert(std::size(totals) == std::size(s::kCouplingPowerAttributes));
-  for (std::size_t a = 0; a < std::size(totals); ++a)
-    *totals[a] = hdf5::ReadDoubleAttribute(g, S(s::kCouplingPowerAttributes[a]));
+  s::VisitCouplingTotals(c, [&](std::string_view name, double& value) {
+    value = hdf5::ReadDoubleAttribute(g, S(name));
+  });
 
   const std::vector<std::string> kinds = hdf5::ReadStrings(file, S(s::kPortKind.path));
   const Eigen::VectorXcd source =

@@ -39,20 +39,9 @@ void WriteCoupling(PatternFileWriter& w, const CouplingResult& c, const std::vec
   w.WriteStringAttribute(std::string(s::kPatternGroup), std::string(s::kGainDefinitionAttribute),
                          ref.definition);
 
-  const double totals[] = {c.reference_impedance_ohm,
-                           c.supplied_w,
-                           c.accepted_w,
-                           c.radiated_w,
-                           c.ohmic_w,
-                           c.load_loss_w,
-                           c.source_loss_w,
-                           c.available_w,
-                           c.efficiency};
-  static_assert(std::size(totals) == std::size(s::kCouplingPowerAttributes));
-  for (std::size_t a = 0; a < std::size(totals); ++a) {
-    w.WriteAttribute(std::string(s::kCouplingGroup), std::string(s::kCouplingPowerAttributes[a]),
-                     totals[a]);
-  }
+  s::VisitCouplingTotals(c, [&](std::string_view name, double value) {
+    w.WriteAttribute(std::string(s::kCouplingGroup), std::string(name), value);
+  });
   std::vector<std::string> kinds;
   Eigen::VectorXcd source(static_cast<Eigen::Index>(n)), port_z(static_cast<Eigen::Index>(n));
   for (std::size_t m = 0; m < n; ++m) {

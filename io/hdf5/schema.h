@@ -105,9 +105,21 @@ inline constexpr Dataset kRealizedGain{"/pattern/realized_gain", "1"};          
 inline constexpr Dataset kGain{"/pattern/gain", "1"};                             // (Nt, Np)
 inline constexpr std::string_view kGainDefinitionAttribute = "gain_definition";
 inline constexpr std::string_view kCouplingGroup = "/coupling";
-inline constexpr std::string_view kCouplingPowerAttributes[] = {
-    "reference_impedance_ohm", "supplied_w",  "accepted_w", "radiated_w", "ohmic_w", "load_loss_w",
-    "source_loss_w",           "available_w", "efficiency"};
+// The /coupling attributes (and the report JSON's "coupling" members), in file
+// order: f(name, value) for each total of a CouplingResult (const or not: the
+// writers read the values, the reader fills them).
+template <class Coupling, class F>
+void VisitCouplingTotals(Coupling& c, F&& f) {
+  f(std::string_view("reference_impedance_ohm"), c.reference_impedance_ohm);
+  f(std::string_view("supplied_w"), c.supplied_w);
+  f(std::string_view("accepted_w"), c.accepted_w);
+  f(std::string_view("radiated_w"), c.radiated_w);
+  f(std::string_view("ohmic_w"), c.ohmic_w);
+  f(std::string_view("load_loss_w"), c.load_loss_w);
+  f(std::string_view("source_loss_w"), c.source_loss_w);
+  f(std::string_view("available_w"), c.available_w);
+  f(std::string_view("efficiency"), c.efficiency);
+}
 inline constexpr Dataset kPortKind{"/coupling/port_kind", "1"};  // strings
 inline constexpr Dataset kSourceVoltage{"/coupling/source_voltage_v", "V"};
 inline constexpr Dataset kPortImpedance{"/coupling/port_impedance_ohm", "ohm"};

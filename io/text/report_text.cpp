@@ -259,18 +259,7 @@ void WriteCouplingJson(JsonWriter& j, const CouplingResult& c, const std::vector
   namespace s = schema;
   j.Key(s::kCouplingGroup.substr(1));
   j.BeginObject();
-  const double totals[] = {c.reference_impedance_ohm,
-                           c.supplied_w,
-                           c.accepted_w,
-                           c.radiated_w,
-                           c.ohmic_w,
-                           c.load_loss_w,
-                           c.source_loss_w,
-                           c.available_w,
-                           c.efficiency};
-  static_assert(std::size(totals) == std::size(s::kCouplingPowerAttributes));
-  for (std::size_t a = 0; a < std::size(totals); ++a)
-    j.Member(s::kCouplingPowerAttributes[a], totals[a]);
+  s::VisitCouplingTotals(c, [&](std::string_view name, double value) { j.Member(name, value); });
   j.Key("elements");
   j.BeginArray();
   for (std::size_t m = 0; m < ports.size(); ++m) {
