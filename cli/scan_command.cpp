@@ -16,7 +16,6 @@
 #include "engine/error.h"
 #include "io/hdf5/scan_writer.h"
 #include "io/input/array_reader.h"
-#include "io/input/solve_circuit.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
 #include "io/plot/canvas.h"
@@ -51,16 +50,12 @@ void RunScan(const ScanArgs& args) {
     throw InvalidArgument(
         "--theta-start, --theta-stop, --step: expected start <= stop and a step > 0 (deg)");
   }
-  // Z with every element's self reactance: the scan impedance is each element's
-  // input impedance, so none may be unknown.
-  std::vector<Port> ports(desc.array.size());
-  for (std::size_t m = 0; m < ports.size(); ++m) ports[m].current_a = 1.0;
-  std::vector<Wire> wires = desc.wires;
-  const CouplingResult ref = [&] {
-    CouplingOptions o;
-    o.reference_impedance_ohm = desc.reference_impedance_ohm;
-    return SolveCoupling(desc.array, ports, wires, o);
-  }();
+  // The file's own circuit, solved once: Z with every element's self reactance (the
+  // scan impedance is each element's input impedance, so none may be unknown) and
+  // the currents whose magnitudes are the taper.
+  CouplingOptions options;
+  options.reference_impedance_ohm = desc.reference_impedance_ohm;
+  const CouplingResult ref = SolveCoupling(desc.array, desc.ports, desc.wires, options);
   for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size(); ++m) {
     if (std::isnan(ref.self_reactance_ohm[m])) {
       throw InputError(
@@ -71,12 +66,11 @@ void RunScan(const ScanArgs& args) {
     }
   }
   // The taper: the magnitudes of the currents the file gives (or its circuit
-  // solves); their phases are replaced by the steering.
-  SolveArrayCircuit(desc, 0);
-  Eigen::VectorXcd amplitudes(static_cast<Eigen::Index>(desc.array.size()));
-  for (std::size_t m = 0; m < desc.array.size(); ++m)
-    amplitudes[static_cast<Eigen::Index>(m)] =
-        std::abs(desc.currents[static_cast<Eigen::Index>(m)]);
+  // solves); their phases are replaced by the steering. The input impedance
+  // includes the wire's loss resistance.
+  const Eigen::VectorXcd amplitudes = ref.circuit.current_a.cwiseAbs().cast<Complex>();
+  Eigen::MatrixXcd z = ref.impedance_ohm;
+  z.diagonal().real() += ref.loss_resistance_ohm;
   std::vector<double> theta, phi;
   for (double t = args.theta_start_deg; t <= args.theta_stop_deg + 1e-9 * args.step_deg;
        t += args.step_deg) {
@@ -89,8 +83,7 @@ void RunScan(const ScanArgs& args) {
       text::Printf("%g ohm (reference_impedance)", desc.reference_impedance_ohm);
   if (args.match == "first") {
     // Each element conjugate-matched to its own impedance at the first scan angle.
-    reference = ScanImpedance(desc.array, ref.impedance_ohm, amplitudes, {theta.front()},
-                              {phi.front()}, reference)
+    reference = ScanImpedance(desc.array, z, amplitudes, {theta.front()}, {phi.front()}, reference)
                     .active_impedance_ohm.row(0)
                     .transpose()
                     .conjugate();
@@ -98,8 +91,7 @@ void RunScan(const ScanArgs& args) {
         text::Printf("each element's conjugate match at theta %g deg (power waves, Kurokawa 1965)",
                      args.theta_start_deg);
   }
-  const ScanImpedanceTable table =
-      ScanImpedance(desc.array, ref.impedance_ohm, amplitudes, theta, phi, reference);
+  const ScanImpedanceTable table = ScanImpedance(desc.array, z, amplitudes, theta, phi, reference);
   if (!args.quiet) {
     std::printf("array        %s, %zu dipoles; taper |I| from the file, phases from steering\n",
                 desc.name.empty() ? args.input.c_str() : desc.name.c_str(), desc.array.size());

@@ -183,7 +183,7 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
     r.vswr[e] = a < 1 ? (1 + a) / (1 - a) : std::numeric_limits<double>::infinity();
     if (std::isnan(a)) r.vswr[e] = a;
   }
-  r.radiated_w = RadiatedPower(ResistanceMatrix(array), i);
+  r.radiated_w = RadiatedPower(r.impedance_ohm.real(), i);  // Re Z = R (impedance.h)
   r.ohmic_w = 0.5 * (r.loss_resistance_ohm.array() * i.cwiseAbs2().array()).sum();
   r.supplied_w = r.circuit.supplied_w.sum();
   for (std::size_t m = 0; m < n; ++m) {
