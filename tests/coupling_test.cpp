@@ -193,3 +193,27 @@ TEST(Coupling, CoincidentDipolesAreNamed) {
 
 }  // namespace
 }  // namespace lobecast
+
+namespace lobecast {
+namespace {
+
+TEST(Coupling, CountsWiresThinnerThanTheSkinDepth) {
+  // Copper at 100 MHz: skin depth 6.6 um (from the formula of self_impedance.h); a
+  // 2 um radius is thinner than twice that, a 1 mm one is not.
+  Array a;
+  a.frequency_hz = 1e8;
+  a.dipoles = {testing::MakeDipole(Vec3::Zero(), Vec3::UnitZ(), 0.1, Distribution::kTriangular),
+               testing::MakeDipole(Vec3(2, 0, 0), Vec3::UnitZ(), 0.1, Distribution::kTriangular)};
+  std::vector<Wire> wires(2);
+  wires[0].radius_m = 2e-6, wires[1].radius_m = 1e-3;
+  for (Wire& w : wires) w.conductivity_s_m = 5.8e7;
+  std::vector<Port> ports(2);
+  for (Port& p : ports) p.current_a = 1.0;
+  EXPECT_EQ(SolveCoupling(a, ports, wires).thin_for_skin_effect, 1u);
+  EXPECT_EQ(Vswr(Complex(0.5, 0.0)), 3.0);  // (1 + 0.5) / (1 - 0.5)
+  EXPECT_TRUE(std::isinf(Vswr(Complex(0.0, 1.0))));
+  EXPECT_TRUE(std::isnan(Vswr(Complex(std::nan(""), 0.0))));
+}
+
+}  // namespace
+}  // namespace lobecast

@@ -25,6 +25,16 @@ bool Given(double v) { return v != 0 && !std::isinf(v); }
 
 }  // namespace
 
+Complex PowerWaveReflection(Complex z, Complex z_ref) {
+  return (z - std::conj(z_ref)) / (z + z_ref);
+}
+
+double Vswr(Complex reflection) {
+  const double a = std::abs(reflection);
+  if (std::isnan(a)) return a;
+  return a < 1 ? (1 + a) / (1 - a) : std::numeric_limits<double>::infinity();
+}
+
 bool NeedsCoupling(const std::vector<Port>& ports, const std::vector<Wire>& wires) {
   for (const Port& p : ports)
     if (p.kind != PortKind::kCurrent) return true;
@@ -113,7 +123,6 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
   r.reference_impedance_ohm = z0;
   r.self_reactance_ohm.resize(static_cast<Eigen::Index>(n));
   r.loss_resistance_ohm = Eigen::VectorXd::Zero(static_cast<Eigen::Index>(n));
-  r.skin_depth_m = Eigen::VectorXd::Zero(static_cast<Eigen::Index>(n));
   for (std::size_t m = 0; m < n; ++m) {
     const Dipole& d = array.dipoles[m];
     const Wire& wire = wires[m];
@@ -130,7 +139,7 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
       if (!(wire.radius_m > 0)) Fail(m, "a conductivity needs the wire radius (radius key)");
       const OhmicLoss loss = LossResistance(d, wire.radius_m, wire.conductivity_s_m, w);
       r.loss_resistance_ohm[e] = loss.resistance_ohm;
-      r.skin_depth_m[e] = loss.skin_depth_m;
+      if (!loss.skin_effect_valid) ++r.thin_for_skin_effect;
     }
     if (ports[m].kind != PortKind::kCurrent && std::isnan(r.self_reactance_ohm[e])) {
       Fail(m, std::string(ToString(ports[m].kind)) +
@@ -176,12 +185,8 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
       r.vswr[e] = nan;
       continue;
     }
-    const Complex zin = r.circuit.input_impedance_ohm[e];
-    const Complex g = (zin - z0) / (zin + z0);
-    r.reflection[e] = g;
-    const double a = std::abs(g);
-    r.vswr[e] = a < 1 ? (1 + a) / (1 - a) : std::numeric_limits<double>::infinity();
-    if (std::isnan(a)) r.vswr[e] = a;
+    r.reflection[e] = PowerWaveReflection(r.circuit.input_impedance_ohm[e], z0);
+    r.vswr[e] = Vswr(r.reflection[e]);
   }
   r.radiated_w = RadiatedPower(r.impedance_ohm.real(), i);  // Re Z = R (impedance.h)
   r.ohmic_w = 0.5 * (r.loss_resistance_ohm.array() * i.cwiseAbs2().array()).sum();

@@ -62,8 +62,10 @@ struct CouplingResult {
   Eigen::MatrixXcd impedance_ohm;
   Eigen::VectorXd self_reactance_ohm;  // X_self per dipole (NaN where unknown)
   Eigen::VectorXd loss_resistance_ohm;
-  Eigen::VectorXd skin_depth_m;  // 0 where lossless
-  CircuitSolution circuit;       // currents, voltages, input impedances V/I (loss included)
+  // Dipoles whose wire is thinner than twice its skin depth: their loss resistance
+  // is underestimated (self_impedance.h).
+  std::size_t thin_for_skin_effect = 0;
+  CircuitSolution circuit;  // currents, voltages, input impedances V/I (loss included)
   Eigen::VectorXcd active_impedance_ohm;  // sum_n Z_mn I_n / I_m (CONVENTIONS §1, no loss)
   Eigen::VectorXcd reflection;            // Gamma against Z0 (NaN where I = 0)
   Eigen::VectorXd vswr;
@@ -78,6 +80,14 @@ struct CouplingResult {
   double efficiency = 1;     // radiated / accepted
   ClosePairs close_pairs;    // where the coupling model is stretched
 };
+
+// The power-wave reflection coefficient of an impedance z against a reference
+// z_ref, (z - conj(z_ref)) / (z + z_ref) (K. Kurokawa, "Power waves and the
+// scattering matrix", IEEE Trans. MTT-13, 1965): the usual (z - Z0) / (z + Z0) for
+// a real Z0, and 0 for a source conjugate-matched to z.
+Complex PowerWaveReflection(Complex z, Complex z_ref);
+// VSWR = (1 + |Gamma|) / (1 - |Gamma|): +inf for |Gamma| >= 1, NaN for NaN.
+double Vswr(Complex reflection);
 
 // True when the array needs a circuit solve: any port that is not a current
 // source, or any wire given (radius, reactance, conductivity).

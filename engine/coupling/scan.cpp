@@ -11,10 +11,6 @@
 
 namespace lobecast {
 
-Complex PowerWaveReflection(Complex z, Complex reference) {
-  return (z - std::conj(reference)) / (z + reference);
-}
-
 ScanImpedanceTable ScanImpedance(const Array& array, const Eigen::MatrixXcd& z,
                                  const Eigen::VectorXcd& amplitudes,
                                  const std::vector<double>& theta_rad,

@@ -17,6 +17,7 @@
 
 #include <Eigen/Core>
 
+#include "engine/coupling/coupling.h"
 #include "engine/types.h"
 
 namespace lobecast {
@@ -35,8 +36,5 @@ ScanImpedanceTable ScanImpedance(const Array& array, const Eigen::MatrixXcd& imp
                                  const std::vector<double>& theta_rad,
                                  const std::vector<double>& phi_rad,
                                  const Eigen::VectorXcd& reference_impedance_ohm);
-
-// Gamma = (Z - conj(Z_r)) / (Z + Z_r).
-Complex PowerWaveReflection(Complex z, Complex reference);
 
 }  // namespace lobecast

@@ -77,6 +77,12 @@ std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& p
                   Impedance(c.circuit.input_impedance_ohm[worst]).c_str());
     }
   }
+  if (c.thin_for_skin_effect > 0) {
+    s << Printf(
+        "caution      %zu wire%s thinner than twice the skin depth: the current fills more of "
+        "the wire than the skin-effect formula assumes, so the ohmic loss is underestimated\n",
+        c.thin_for_skin_effect, c.thin_for_skin_effect == 1 ? "" : "s");
+  }
   if (c.close_pairs.count > 0) {
     const auto [m, q] = c.close_pairs.first.front();
     s << Printf(

@@ -12,11 +12,6 @@ namespace {
 
 constexpr Eigen::Index kColumnsUpTo = 12;
 
-double Vswr(Complex g) {
-  const double a = std::abs(g);
-  return a < 1 ? (1 + a) / (1 - a) : std::numeric_limits<double>::infinity();
-}
-
 }  // namespace
 
 std::string ScanTable(const ScanImpedanceTable& t, const std::string& reference) {
