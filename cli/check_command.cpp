@@ -34,7 +34,10 @@ void AddCheckCommand(CLI::App& app) {
     // currents that cancel or overflow before anyone waits for a compute.
     const StreamedPower p = RadiatedPowerStreamed(desc.array, desc.currents);
     CheckRadiatedPower(p.radiated_power_w);
-    std::fputs(text::PowerLine(desc, p.radiated_power_w).c_str(), stdout);
+    std::fputs(text::PowerLine(desc, p.radiated_power_w,
+                               PowerSignificantDigits(p.radiated_power_w, p.term_magnitudes_w))
+                   .c_str(),
+               stdout);
     std::printf("ok           %s is a valid array description\n", input->c_str());
   });
 }

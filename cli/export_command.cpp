@@ -86,6 +86,7 @@ void RunExport(const ExportArgs& args) {
   const StoredResult stored = ReadResult(args.input);
   table.reference = fixed ? *fixed : AutoReference(stored.result);
   table.radiated_power_w = stored.result.radiated_power_w;
+  table.field_floor_v = stored.result.field_floor_v;
   std::vector<ExportSample> samples;
   std::string what;
   if (at) {

@@ -87,6 +87,8 @@ void RunReport(const ReportArgs& args) {
   context.ground = stored.array.ground;
   context.num_dipoles = stored.array.size();
   context.recomputed = recompute;
+  context.field_floor_v = stored.result.field_floor_v;
+  context.power_significant_digits = stored.result.summary.power_significant_digits;
   // Driven and loaded dipoles: the circuit as compute printed it.
   const std::optional<StoredCoupling> coupling =
       ReadCoupling(args.input, stored.array, stored.currents);

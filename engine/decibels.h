@@ -6,8 +6,9 @@
 //   - 0 and negative ratios give -inf: no power is below every floor (a negative
 //     power ratio only arises from rounding). +inf gives +inf.
 //   - NaN gives NaN (log10 of NaN): no number stays no number.
-//   - A ratio of two powers that are both computed (XPD, front-to-back) treats one
-//     below kRoundingPowerRatio of the other as zero (PowerRatioDb).
+//   - A ratio of two powers (XPD, front-to-back) is +-inf against an exact zero
+//     (PowerRatioDb). Powers that are rounding are made exact zeros before, by the
+//     numerical floor (engine/rounding_floor.h), not here.
 #pragma once
 
 #include <cmath>
@@ -30,22 +31,14 @@ inline double AmplitudeToDb(double ratio) {
 // The power ratio of a level in dB: 10^(db / 10).
 inline double FromDb(double db) { return std::pow(10.0, db / 10.0); }
 
-// A power ratio below which the smaller of two powers is rounding noise of the larger:
-// 1e-30, i.e. a field below ~1e-15 of the other (a few ulps of double precision), 300 dB.
-inline constexpr double kRoundingPowerRatio = 1e-30;
-
 // 10 log10(numerator / denominator) for two powers (or directivities) >= 0 that are
-// compared as a ratio (XPD, F/B): +inf when the denominator is below kRoundingPowerRatio
-// of the numerator (zero up to rounding, not a finite ~320 dB of noise), -inf in the
-// opposite case, NaN when both are zero.
+// compared as a ratio (XPD, F/B): +inf when the denominator is zero (the callers floor
+// their fields first, so a rounding-level power is an exact zero here), -inf when the
+// numerator is, NaN when both are.
 inline double PowerRatioDb(double numerator, double denominator) {
-  if (numerator == 0.0 && denominator == 0.0) return std::numeric_limits<double>::quiet_NaN();
-  if (denominator <= kRoundingPowerRatio * numerator) {
-    return std::numeric_limits<double>::infinity();
-  }
-  if (numerator <= kRoundingPowerRatio * denominator) {
-    return -std::numeric_limits<double>::infinity();
-  }
+  if (numerator <= 0.0 && denominator <= 0.0) return std::numeric_limits<double>::quiet_NaN();
+  if (denominator <= 0.0) return std::numeric_limits<double>::infinity();
+  if (numerator <= 0.0) return -std::numeric_limits<double>::infinity();
   return ToDb(numerator / denominator);
 }
 

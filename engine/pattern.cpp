@@ -7,6 +7,7 @@
 #include <cmath>
 #include <cstdarg>
 #include <cstdio>
+#include <limits>
 
 #include <omp.h>
 
@@ -16,6 +17,7 @@
 #include "engine/polarization.h"
 #include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
+#include "engine/rounding_floor.h"
 #include "engine/text_case.h"
 
 namespace lobecast {
@@ -130,10 +132,50 @@ std::string ComputeSummary::FullReport() const {
       seconds_plan, seconds_field, seconds_power, seconds_polarization, threads_used,
       threads_used == 1 ? "" : "s");
   s += Format("power        %.6g W radiated\n", radiated_power_w);
-  s += Format("peak         D = %.6g (%.2f dBi) at theta %g deg, phi %g deg (grid maximum)\n",
-              peak_directivity, ToDb(peak_directivity), peak_theta_deg, peak_phi_deg);
+  const std::string digits = PowerDigitsNote(power_significant_digits);
+  if (!digits.empty()) s += "             " + digits + "\n";
+  s += Format("peak         D = %.6g (%.2f dBi) at theta %g deg, ", peak_directivity,
+              ToDb(peak_directivity), peak_theta_deg);
+  s += std::isnan(peak_phi_deg) ? std::string("phi undefined (on the z axis)")
+                                : Format("phi %g deg", peak_phi_deg);
+  s += " (grid maximum)\n";
   if (!message.empty()) s += "message      " + message + "\n";
   return s;
+}
+
+std::string PowerDigitsNote(double digits) {
+  if (!(digits < kPowerDigitsWanted)) return "";
+  return Format(
+      "the radiated power keeps only about %.0f significant digits: the currents nearly "
+      "cancel (closer than a wavelength in anti-phase), so the sum of its terms is far "
+      "larger than the power itself",
+      std::max(0.0, std::floor(digits)));
+}
+
+void DeriveFromField(PatternResult& r, int num_threads) {
+  const auto nn = static_cast<Eigen::Index>(r.grid.size());
+  r.intensity_w_sr.resize(nn);
+  r.directivity.resize(nn);
+  r.axial_ratio_db.resize(nn);
+  r.tilt_deg.resize(nn);
+  r.sense.resize(static_cast<std::size_t>(nn));
+  const double to_d = DirectivityPerIntensity(r.radiated_power_w);
+  const double floor_v = r.field_floor_v;
+#pragma omp parallel for num_threads(ResolveThreads(num_threads)) schedule(static)
+  for (Eigen::Index i = 0; i < nn; ++i) {
+    const Complex et = Floored(r.field.e_theta[i], floor_v);
+    const Complex ep = Floored(r.field.e_phi[i], floor_v);
+    r.field.e_theta[i] = et;
+    r.field.e_phi[i] = ep;
+    // U = |rE|^2 / (2 eta0) for peak phasors (CONVENTIONS §1).
+    const double u = RadiationIntensity(et, ep);
+    r.intensity_w_sr[i] = u;
+    r.directivity[i] = to_d * u;
+    const Polarization p = PolarizationOf(et, ep, floor_v);
+    r.axial_ratio_db[i] = p.axial_ratio_db;
+    r.tilt_deg[i] = p.tilt_deg;
+    r.sense[static_cast<std::size_t>(i)] = p.sense;
+  }
 }
 
 Eigen::Index PeakIndex(const Eigen::VectorXd& directivity) {
@@ -160,6 +202,8 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   if (array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix) {
     r.resistance_ohm = ResistanceMatrix(array, options.field.num_threads);
     r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
+    s.power_significant_digits =
+        PowerSignificantDigits(r.radiated_power_w, PowerTermMagnitudes(r.resistance_ohm, currents));
     // The active resistances need the mutual reactances too: summed row by row
     // (O(N) memory) rather than from a second, complex N x N matrix.
     r.active_resistance_ohm =
@@ -168,6 +212,7 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   } else {
     const StreamedPower sp = RadiatedPowerStreamed(array, currents, options.field.num_threads);
     r.radiated_power_w = sp.radiated_power_w;
+    s.power_significant_digits = PowerSignificantDigits(sp.radiated_power_w, sp.term_magnitudes_w);
     r.active_resistance_ohm = sp.active_resistance_ohm;
     s.power_route = PowerRoute::kStreamed;
   }
@@ -235,29 +280,14 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
 
   t0 = Clock::now();
-  const auto nn = static_cast<Eigen::Index>(n);
-  r.intensity_w_sr.resize(nn);
-  r.directivity.resize(nn);
-  r.axial_ratio_db.resize(nn);
-  r.tilt_deg.resize(nn);
-  r.sense.resize(n);
-  const double to_d = DirectivityPerIntensity(r.radiated_power_w);
-#pragma omp parallel for num_threads(s.threads_used) schedule(static)
-  for (Eigen::Index i = 0; i < nn; ++i) {
-    const Complex et = r.field.e_theta[i], ep = r.field.e_phi[i];
-    // U = |rE|^2 / (2 eta0) for peak phasors (CONVENTIONS §1).
-    const double u = RadiationIntensity(et, ep);
-    r.intensity_w_sr[i] = u;
-    r.directivity[i] = to_d * u;
-    const Polarization p = PolarizationOf(et, ep);
-    r.axial_ratio_db[i] = p.axial_ratio_db;
-    r.tilt_deg[i] = p.tilt_deg;
-    r.sense[static_cast<std::size_t>(i)] = p.sense;
-  }
+  r.field_floor_v = FieldFloor_v(array, currents);
+  DeriveFromField(r, options.field.num_threads);
   const Eigen::Index peak = PeakIndex(r.directivity);
   s.peak_directivity = r.directivity[peak];
   s.peak_theta_deg = grid.theta_deg[static_cast<std::size_t>(peak) / np];
   s.peak_phi_deg = grid.phi_deg[static_cast<std::size_t>(peak) % np];
+  if (s.peak_theta_deg == 0.0 || s.peak_theta_deg == 180.0)
+    s.peak_phi_deg = std::numeric_limits<double>::quiet_NaN();  // on the z axis
   s.seconds_polarization = SecondsSince(t0);
   return r;
 }

@@ -76,8 +76,14 @@ struct ComputeSummary {
   double seconds_power = 0;
   double seconds_polarization = 0;
   double radiated_power_w = 0;
+  // Decimal digits of radiated_power_w that survive cancellation in its sum
+  // (PowerSignificantDigits, engine/power/radiated_power.h): ~15.7 normally; fewer
+  // than kPowerDigitsWanted (9) are said in every output (PowerDigitsNote).
+  double power_significant_digits = 0;
   double peak_directivity = 0;  // linear, grid maximum
   double peak_theta_deg = 0;
+  // NaN (undefined) when the grid maximum is on the z axis (theta 0 or 180 deg), where
+  // every phi names the same direction.
   double peak_phi_deg = 0;
   // Why the routes are what they are (auto's choice, blocks that differ, a matrix
   // left out); may be empty. For people: the result file does not store it.
@@ -103,8 +109,26 @@ struct PatternResult {
   Eigen::MatrixXd resistance_ohm;         // (N, N); 0 x 0 when streamed
   Eigen::VectorXd active_resistance_ohm;  // (N) Re Z_act (engine/power/impedance.h)
   double radiated_power_w = 0;
+  // The numerical floor of the field, V (FieldFloor_v, engine/rounding_floor.h): the
+  // field components below it are stored as exact zeros, and everything derived from
+  // the field (intensity, directivity, polarization, co/cross parts, the analysis)
+  // applies it. Not stored: ReadResult computes it again from the array and currents.
+  double field_floor_v = 0;
   ComputeSummary summary;
 };
+
+// "" when P keeps at least kPowerDigitsWanted digits, else one sentence saying how
+// many it keeps and why (for the compute and check text, the report and its JSON).
+std::string PowerDigitsNote(double power_significant_digits);
+
+// Applies the floor to a result whose grid, field, radiated power and field_floor_v
+// are set, and derives the rest per direction: the field components below the floor
+// become exact zeros (the stored /field holds them so: every reader of the file sees
+// the same zeros the report and plots treat as zero, and a floored value is rounding
+// anyway, with no digit worth keeping), then U, D and the polarization from them.
+// ComputePattern and ReadResult both call it, so a result read back equals the one
+// computed, bit for bit. num_threads as ResolveThreads.
+void DeriveFromField(PatternResult& result, int num_threads = 0);
 
 // The grid index of the directivity peak. Ties (within 1e-9 relative, i.e.
 // rounding) go to the first index, the smallest theta: a planar array's twin

@@ -24,15 +24,24 @@ struct Polarization {
   double s2 = 0.0;            // 2 Re(Et Ep*)
   double s3 = 0.0;            // 2 Im(Et Ep*) = |E_R|^2 - |E_L|^2 (positive for right-hand)
   double axial_ratio_db = 0;  // 0 dB circular, +inf linear, NaN where the field is zero
-  double tilt_deg = 0;        // major axis from theta_hat toward phi_hat, (-90, 90]; NaN at a zero
-  std::int8_t sense = 0;      // +1 right, -1 left, 0 linear (or zero field)
+  // Major axis from theta_hat toward phi_hat, (-90, 90]; NaN (undefined) for a zero or
+  // circular field.
+  double tilt_deg = 0;
+  std::int8_t sense = 0;  // +1 right, -1 left, 0 linear (or zero field)
 };
 
 // |E_R| and |E_L| closer than kLinearTolerance * (|E_R| + |E_L|) count as linear
-// (AR = +inf, sense 0): below that the difference is rounding noise.
+// (AR = +inf, sense 0): below that the difference is the rounding of this function's
+// own arithmetic.
 inline constexpr double kLinearTolerance = 1e-12;
 
-Polarization PolarizationOf(Complex e_theta, Complex e_phi);
+// floor_v: the numerical floor of the sum that made the field (FieldFloor_v,
+// engine/rounding_floor.h; 0 for exact inputs). Decided by it: a field whose |E_R| or
+// |E_L| is below the floor is exactly circular (AR 0 dB, tilt NaN, sense of the other
+// hand); one whose | |E_R| - |E_L| | is below it exactly linear (AR +inf, sense 0);
+// Stokes S1 and S2 below their rounding (2 floor (|Et| + |Ep|)) are exactly 0, so a tilt
+// on an axis of the (theta_hat, phi_hat) frame is exactly 0, +-45 or 90 deg.
+Polarization PolarizationOf(Complex e_theta, Complex e_phi, double floor_v = 0.0);
 
 enum class PolarizationReference { kLinearX, kLinearY, kRightCircular, kLeftCircular };
 std::string_view ToString(PolarizationReference r);
@@ -45,6 +54,9 @@ struct CoCross {
 };
 // Ludwig-3 x reference: co = Et cos(phi) - Ep sin(phi), cross = Et sin(phi) + Ep cos(phi);
 // y reference: co = Et sin(phi) + Ep cos(phi), cross = Et cos(phi) - Ep sin(phi).
-CoCross CoCrossOf(Complex e_theta, Complex e_phi, double phi_rad, PolarizationReference ref);
+// floor_v: as for PolarizationOf; a co or cross part below it (the combinations can
+// cancel to rounding where the components do not) is exactly 0.
+CoCross CoCrossOf(Complex e_theta, Complex e_phi, double phi_rad, PolarizationReference ref,
+                  double floor_v = 0.0);
 
 }  // namespace lobecast

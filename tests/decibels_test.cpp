@@ -40,15 +40,15 @@ TEST(Decibels, NoPowerIsMinusInfinityAndNanStaysNan) {
   EXPECT_EQ(FromDb(-kInf), 0.0);
 }
 
-TEST(Decibels, PowerRatioTreatsRoundingNoiseAsZero) {
+TEST(Decibels, PowerRatioIsInfiniteAgainstAnExactZero) {
   EXPECT_NEAR(PowerRatioDb(4.0, 1.0), ToDb(4.0), 0.0);
   EXPECT_EQ(PowerRatioDb(1.0, 0.0), kInf);
   EXPECT_EQ(PowerRatioDb(0.0, 1.0), -kInf);
   EXPECT_TRUE(std::isnan(PowerRatioDb(0.0, 0.0)));
-  // Within kRoundingPowerRatio (300 dB) of zero counts as zero, just outside does not.
-  EXPECT_EQ(PowerRatioDb(1.0, 0.5 * kRoundingPowerRatio), kInf);
-  EXPECT_EQ(PowerRatioDb(0.5 * kRoundingPowerRatio, 1.0), -kInf);
-  EXPECT_NEAR(PowerRatioDb(1.0, 2.0 * kRoundingPowerRatio), 300.0 - ToDb(2.0), 1e-12);
+  // No threshold of its own: what is rounding was floored to an exact zero before
+  // (engine/rounding_floor.h), so a tiny but non-zero power is a finite ratio.
+  EXPECT_NEAR(PowerRatioDb(1.0, 1e-40), 400.0, 1e-12);
+  EXPECT_NEAR(PowerRatioDb(1e-40, 1.0), -400.0, 1e-12);
 }
 
 }  // namespace

@@ -61,9 +61,10 @@ TEST(JsonWriter, StringEscapesFollowRfc8259) {
   EXPECT_EQ(z.text(), "\"a\\u0000b\"");
 }
 
-TEST(JsonWriter, NonFiniteNumbersBecomeNull) {
+TEST(JsonWriter, InfinitiesAreStringsAndNanIsNull) {
   // RFC 8259 sec. 6: "Numeric values that cannot be represented ... (such as Infinity
-  // and NaN) are not permitted."
+  // and NaN) are not permitted." lobecast's one encoding (README "JSON numbers"): the
+  // strings "inf" and "-inf" keep the sign, null is undefined.
   JsonWriter w;
   w.BeginArray();
   w.Number(std::numeric_limits<double>::infinity());
@@ -72,13 +73,16 @@ TEST(JsonWriter, NonFiniteNumbersBecomeNull) {
   w.Number(-0.0);
   w.Number(1e-300);
   w.EndArray();
-  EXPECT_EQ(w.text(), "[\n  null,\n  null,\n  null,\n  -0,\n  1e-300\n]\n");
+  EXPECT_EQ(w.text(), "[\n  \"inf\",\n  \"-inf\",\n  null,\n  -0,\n  1e-300\n]\n");
 }
 
 TEST(JsonWriter, PythonJsonReadsBackEveryValue) {
   // Python's json module (an independent parser; standard library) reads the
-  // document, and each number comes back as the same double.
-  const double values[] = {0.1, 1.0 / 3.0, 6.02214076e23, -2.2250738585072014e-308, 12345.0};
+  // document, and each number comes back as the same double; the infinities through
+  // float("inf") and float("-inf") of their strings, with their sign.
+  const double inf = std::numeric_limits<double>::infinity();
+  const double values[] = {0.1,     1.0 / 3.0, 6.02214076e23, -2.2250738585072014e-308,
+                           12345.0, inf,       -inf};
   JsonWriter w;
   w.BeginObject();
   w.Key("values");

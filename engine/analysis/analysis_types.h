@@ -56,9 +56,6 @@ struct AnalysisOptions {
   // highest lobes first); the result says when more were found.
   std::size_t max_side_lobes = 64;
   std::size_t max_nulls = 64;
-  // A refined field below this fraction of the peak intensity (|rE|^2 relative) is an
-  // exact null: at that level the value is rounding noise of the sum.
-  double exact_null_relative = 1e-30;
   // Axial-ratio limit for the "AR below limit" solid angle, dB (3 dB is common practice).
   double axial_ratio_limit_db = 3.0;
   // The AR solid angle is integrated over the sphere with this many phi planes
@@ -78,7 +75,8 @@ struct AnalysisOptions {
 
 struct DirectionDeg {
   double theta_deg = std::numeric_limits<double>::quiet_NaN();
-  double phi_deg = std::numeric_limits<double>::quiet_NaN();  // [0, 360); 0 on a pole
+  // [0, 360); NaN (undefined) on the z axis, where every phi names the same direction.
+  double phi_deg = std::numeric_limits<double>::quiet_NaN();
 };
 
 struct MainBeamPeak {
@@ -114,8 +112,8 @@ struct BeamCut {
 
 struct FrontToBack {
   // Peak directivity over the directivity in the exactly opposite direction; +inf
-  // when that is zero (an exact back null, or the no-field region below a ground), or
-  // zero up to rounding: below 1e-30 of the peak (300 dB; PowerRatioDb in engine/decibels.h).
+  // when that is zero (an exact back null, the no-field region below a ground, or a
+  // field below the numerical floor, engine/rounding_floor.h).
   double ratio_db = 0.0;
   DirectionDeg back_direction;
   // Same, toward the same theta at phi + 180 deg (the "behind, at the same elevation"
@@ -135,7 +133,9 @@ struct Null {
   DirectionDeg direction;
   double directivity = 0.0;  // of the null field (total or co-polar)
   double level_db = 0.0;     // relative to the peak; -inf when exactly zero
-  bool exact = false;        // below AnalysisOptions::exact_null_relative
+  // The null field is below the numerical floor (engine/rounding_floor.h): an exact
+  // zero, level -inf.
+  bool exact = false;
 };
 
 struct ProtectedDirectionField {
@@ -152,8 +152,8 @@ struct PolarizationPurity {
   PolarizationReference reference = PolarizationReference::kLinearX;
   double co_polar_dbi_at_peak = 0.0;
   double cross_polar_dbi_at_peak = 0.0;
-  // XPD = |co|^2 / |cross|^2 in dB; +inf for a pure co-polar field, i.e. a cross field
-  // below ~1e-15 of the co-polar one (zero up to rounding; PowerRatioDb in engine/decibels.h).
+  // XPD = |co|^2 / |cross|^2 in dB; +inf for a pure co-polar field, i.e. a cross part
+  // below the numerical floor (engine/rounding_floor.h), -inf for a pure cross one.
   double xpd_at_peak_db = 0.0;
   double worst_xpd_in_beam_db = 0.0;  // lowest XPD inside the -3 dB main beam
   DirectionDeg worst_xpd_direction;

@@ -92,8 +92,13 @@ void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
 
 }  // namespace
 
-DirectionDeg ToDirectionDeg(const Vec3& r_hat) {
+DirectionDeg ToDirectionDeg(const Vec3& r_hat, double axis_tolerance_rad) {
   const SphericalAngles s = AnglesOf(r_hat);
+  // On the z axis (to the search's own tolerance) phi names nothing: undefined.
+  if (s.theta_rad <= axis_tolerance_rad || s.theta_rad == 0.0)
+    return {0.0, std::numeric_limits<double>::quiet_NaN()};
+  if (kPi - s.theta_rad <= axis_tolerance_rad || s.theta_rad == kPi)
+    return {180.0, std::numeric_limits<double>::quiet_NaN()};
   DirectionDeg d{s.theta_rad / kDegree, s.phi_rad / kDegree};
   // Rounding can leave phi a hair below 360; 1e-9 deg is far below any refinement
   // tolerance, so call it 0 rather than print 360.0000.
@@ -170,11 +175,19 @@ MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,
   MainBeamPeak p;
   p.grid_direction = {t0, p0};
   p.grid_directivity = grid_max;
-  p.direction = ToDirectionDeg(m.r_hat);
-  p.directivity = m.directivity;
-  p.directivity_dbi = ToDb(m.directivity);
+  // A refined peak within the search tolerance of the grid direction it started from
+  // is that direction: the grid's exact angles are reported, not a rounding-level
+  // offset from them (a broadside beam at theta 90, not 89.99999999999999).
+  const double tol = options.refine_tolerance_deg * kDegree;
+  const bool at_start = AngleBetween(m.r_hat, start) <= tol;
+  const Vec3 r_hat = at_start ? start : m.r_hat;
+  const double d = at_start ? probe.DirectivityAt(start) : m.directivity;
+  p.direction = ToDirectionDeg(r_hat, tol);
+  if (at_start && !std::isnan(p.direction.phi_deg)) p.direction = {t0, p0};
+  p.directivity = d;
+  p.directivity_dbi = ToDb(d);
   p.refined = m.converged;
-  *peak_r_hat = m.r_hat;
+  *peak_r_hat = r_hat;
   return p;
 }
 
@@ -293,8 +306,8 @@ FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double pe
   const Vec3 back = grazing_onto_horizon(-peak);
   const Vec3 behind = grazing_onto_horizon(Vec3(-peak.x(), -peak.y(), peak.z()));
   const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{back, behind});
-  f.back_direction = ToDirectionDeg(back);
-  f.same_elevation_back_direction = ToDirectionDeg(behind);
+  f.back_direction = ToDirectionDeg(back, tolerance_rad);
+  f.same_elevation_back_direction = ToDirectionDeg(behind, tolerance_rad);
   // The peak is > 0, so a zero (or rounding-level) back field gives +inf.
   f.ratio_db = PowerRatioDb(peak_directivity, s[0].directivity);
   f.same_elevation_ratio_db = PowerRatioDb(peak_directivity, s[1].directivity);

@@ -60,7 +60,8 @@ BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tang
 FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
                           double tolerance_rad);
 
-// Direction in degrees, phi in [0, 360) (0 on a pole).
-DirectionDeg ToDirectionDeg(const Vec3& r_hat);
+// Direction in degrees, phi in [0, 360); within axis_tolerance_rad of the z axis (a
+// search's own tolerance) theta is exactly 0 or 180 and phi NaN (undefined).
+DirectionDeg ToDirectionDeg(const Vec3& r_hat, double axis_tolerance_rad);
 
 }  // namespace lobecast

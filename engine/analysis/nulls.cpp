@@ -63,6 +63,7 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     s.phi_rad = grid_result.grid.phi_deg[g % np] * kDegree;
     s.e_theta = grid_result.field.e_theta[static_cast<Eigen::Index>(g)];
     s.e_phi = grid_result.field.e_phi[static_cast<Eigen::Index>(g)];
+    s.floor_v = grid_result.field_floor_v;
     s.directivity = grid_result.directivity[static_cast<Eigen::Index>(g)];
     return NullFieldDirectivity(probe, s, options) / peak_directivity;
   };
@@ -146,10 +147,10 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
   }
   for (const auto& [r, v] : found) {
     Null n;
-    n.direction = ToDirectionDeg(r);
+    n.direction = ToDirectionDeg(r, options.refine_tolerance_deg * kDegree);
     n.directivity = v * peak_directivity;
     n.level_db = ToDb(v);
-    n.exact = v < options.exact_null_relative;
+    n.exact = v == 0.0;  // the null field is below the floor: floored to exact zeros
     out.nulls.push_back(n);
   }
   std::sort(out.nulls.begin(), out.nulls.end(),

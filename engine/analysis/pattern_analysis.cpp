@@ -60,8 +60,6 @@ bool AnalysisOptions::IsValid(std::string* why) const {
     return Fail(why, "max_evaluations_per_search", max_evaluations_per_search, ">= 20");
   if (!(cut_step_deg >= 1e-6 && cut_step_deg <= 5))
     return Fail(why, "cut_step_deg", cut_step_deg, "1e-6 <= value <= 5 deg");
-  if (!(exact_null_relative > 0 && exact_null_relative < 1e-6))
-    return Fail(why, "exact_null_relative", exact_null_relative, "0 < value < 1e-6");
   if (!(axial_ratio_limit_db > 0 && std::isfinite(axial_ratio_limit_db)))
     return Fail(why, "axial_ratio_limit_db", axial_ratio_limit_db, "a finite value > 0 dB");
   if (axial_ratio_phi_planes < 4 || axial_ratio_phi_planes > 100000)
@@ -83,8 +81,9 @@ PolarizationReference AutoReference(const PatternResult& r) {
   for (const PolarizationReference ref :
        {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
         PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular}) {
-    const double co =
-        std::norm(CoCrossOf(r.field.e_theta[peak], r.field.e_phi[peak], phi * kDegree, ref).co);
+    const double co = std::norm(
+        CoCrossOf(r.field.e_theta[peak], r.field.e_phi[peak], phi * kDegree, ref, r.field_floor_v)
+            .co);
     // The relative margin keeps ties (a 45 deg linear field) on the first candidate.
     if (co > best_co * (1.0 + 1e-9)) {
       best_co = co;

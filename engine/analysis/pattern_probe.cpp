@@ -7,6 +7,7 @@
 
 #include "engine/ground.h"
 #include "engine/intensity.h"
+#include "engine/rounding_floor.h"
 
 namespace lobecast {
 
@@ -52,7 +53,7 @@ Eigen::Vector3cd ProbeSample::FieldVector_v() const {
 }
 
 CoCross ProbeSample::CoCrossFor(PolarizationReference reference) const {
-  return CoCrossOf(e_theta, e_phi, phi_rad, reference);
+  return CoCrossOf(e_theta, e_phi, phi_rad, reference, floor_v);
 }
 
 PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_a,
@@ -62,7 +63,8 @@ PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_
       // Sources only: every At() call brings its own directions (direct sums).
       plan_(std::make_shared<const FieldPlan>(array, Directions::FromAngles({}, {}),
                                               FieldOptions{0, FieldMethod::kDirect})),
-      per_v2_(DirectivityPerSquaredField(radiated_power_w)) {}
+      per_v2_(DirectivityPerSquaredField(radiated_power_w)),
+      floor_v_(FieldFloor_v(array, currents_a)) {}
 
 bool PatternProbe::NoFieldAt(const Vec3& r) const {
   return BelowGround(array_.ground, AnglesOf(r).theta_rad);
@@ -84,8 +86,10 @@ std::vector<ProbeSample> PatternProbe::At(const std::vector<Vec3>& r_hat) const 
     ProbeSample& s = out[i];
     s.theta_rad = theta[i];
     s.phi_rad = phi[i];
-    s.e_theta = f.e_theta[static_cast<Eigen::Index>(i)];
-    s.e_phi = f.e_phi[static_cast<Eigen::Index>(i)];
+    // Floored as the grid is (PatternResult::field_floor_v): the same exact zeros.
+    s.e_theta = Floored(f.e_theta[static_cast<Eigen::Index>(i)], floor_v_);
+    s.e_phi = Floored(f.e_phi[static_cast<Eigen::Index>(i)], floor_v_);
+    s.floor_v = floor_v_;
     s.directivity = per_v2_ * (std::norm(s.e_theta) + std::norm(s.e_phi));
     s.no_field = BelowGround(array_.ground, theta[i]);
   }

@@ -54,6 +54,9 @@ struct ProbeSample {
   Complex e_phi = 0.0;    // rE_phi, V
   double directivity = 0.0;
   bool no_field = false;  // below a PEC ground: the field is zero by construction
+  // The numerical floor of the sum (FieldFloor_v): e_theta and e_phi are floored
+  // already; CoCrossFor floors the co and cross parts too.
+  double floor_v = 0.0;
 
   // rE as a Cartesian complex vector (V): smooth across the poles, unlike its
   // theta and phi components.
@@ -73,6 +76,8 @@ class PatternProbe {
 
   // Directivity of a field component c (V): 4 pi |c|^2 / (2 eta0 P).
   double DirectivityOf(Complex component_v) const { return per_v2_ * std::norm(component_v); }
+  // The numerical floor of these currents (FieldFloor_v, engine/rounding_floor.h), V.
+  double floor_v() const { return floor_v_; }
   bool NoFieldAt(const Vec3& r_hat) const;
   const Array& array() const { return array_; }
   // Directions evaluated so far (all calls).
@@ -83,6 +88,7 @@ class PatternProbe {
   Eigen::VectorXcd currents_;
   std::shared_ptr<const FieldPlan> plan_;  // the sources, built once
   double per_v2_ = 0.0;                    // 4 pi / (2 eta0 P), 1/V^2
+  double floor_v_ = 0.0;
   mutable std::size_t evaluations_ = 0;
 };
 

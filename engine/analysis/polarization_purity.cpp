@@ -11,13 +11,13 @@
 namespace lobecast {
 namespace {
 
-// XPD in dB of a co/cross pair; +inf for a co-polar field whose cross part is zero up
-// to rounding (PowerRatioDb), -inf for the opposite, NaN for no field.
+// XPD in dB of a co/cross pair (floored by CoCrossOf): +inf for a co-polar field whose
+// cross part is below the floor, -inf for the opposite, NaN for no field.
 double XpdDb(const CoCross& c) { return PowerRatioDb(std::norm(c.co), std::norm(c.cross)); }
 
 bool WithinAxialRatio(const ProbeSample& s, const AnalysisOptions& options) {
   if (s.no_field) return false;
-  const Polarization p = PolarizationOf(s.e_theta, s.e_phi);
+  const Polarization p = PolarizationOf(s.e_theta, s.e_phi, s.floor_v);
   if (!(p.axial_ratio_db <= options.axial_ratio_limit_db)) return false;  // NaN: no field
   if (options.reference == PolarizationReference::kRightCircular) return p.sense == 1;
   if (options.reference == PolarizationReference::kLeftCircular) return p.sense == -1;
@@ -37,7 +37,7 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
   out.co_polar_dbi_at_peak = ToDb(probe.DirectivityOf(cc.co));
   out.cross_polar_dbi_at_peak = ToDb(probe.DirectivityOf(cc.cross));
   out.xpd_at_peak_db = XpdDb(cc);
-  const Polarization pol = PolarizationOf(at_peak.e_theta, at_peak.e_phi);
+  const Polarization pol = PolarizationOf(at_peak.e_theta, at_peak.e_phi, at_peak.floor_v);
   out.axial_ratio_at_peak_db = pol.axial_ratio_db;
   out.tilt_at_peak_deg = pol.tilt_deg;
   out.sense_at_peak = pol.sense;
@@ -63,7 +63,8 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
       const std::size_t g = neighbours.representative(n);
       const CoCross c = CoCrossOf(grid_result.field.e_theta[static_cast<Eigen::Index>(g)],
                                   grid_result.field.e_phi[static_cast<Eigen::Index>(g)],
-                                  grid_result.grid.phi_deg[g % np] * kDegree, options.reference);
+                                  grid_result.grid.phi_deg[g % np] * kDegree, options.reference,
+                                  grid_result.field_floor_v);
       consider(XpdDb(c), neighbours.direction(n));
     });
   }
@@ -88,7 +89,7 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
     consider(XpdDb(s[i].CoCrossFor(options.reference)), pts[i]);
   }
   out.worst_xpd_in_beam_db = worst;
-  out.worst_xpd_direction = ToDirectionDeg(worst_r);
+  out.worst_xpd_direction = ToDirectionDeg(worst_r, tol);
   out.axial_ratio_solid_angle_sr = AxialRatioSolidAngle(probe, options);
   return out;
 }

@@ -19,7 +19,7 @@ namespace lobecast {
 namespace {
 
 struct Sources {
-  std::vector<double> x, y, z, ux, uy, uz, le, ir, ii;  // I of the driving dipole
+  std::vector<double> x, y, z, ux, uy, uz, le, ir, ii, ia;  // I of the driving dipole, |I|
 };
 
 // Row m of R I and of X' I (X' the mutual reactances, no self term) over the
@@ -28,6 +28,7 @@ struct Sources {
 // (u_m.d)(u_s.d)/d^2 h2(x)] I_s with the kernels of impedance.h.
 struct RowSums {
   Complex r_i, x_i;
+  double r_abs;  // sum_s |R_ms| |I_s| (same factor left out)
 };
 LOBECAST_KERNEL_CLONES
 RowSums RowFar(const Sources& s, const Dipole& m, double k) {
@@ -36,9 +37,9 @@ RowSums RowFar(const Sources& s, const Dipole& m, double k) {
   const std::size_t n = s.x.size();
   const double *x = s.x.data(), *y = s.y.data(), *z = s.z.data();
   const double *ux = s.ux.data(), *uy = s.uy.data(), *uz = s.uz.data();
-  const double *le = s.le.data(), *ir = s.ir.data(), *ii = s.ii.data();
-  double vr = 0, vi = 0, wr = 0, wi = 0;
-#pragma omp simd reduction(+ : vr, vi, wr, wi)
+  const double *le = s.le.data(), *ir = s.ir.data(), *ii = s.ii.data(), *ia = s.ia.data();
+  double vr = 0, vi = 0, wr = 0, wi = 0, va = 0;
+#pragma omp simd reduction(+ : vr, vi, wr, wi, va)
   for (std::size_t j = 0; j < n; ++j) {
     const double dx = mx - x[j], dy = my - y[j], dz = mz - z[j];
     const double d2 = dx * dx + dy * dy + dz * dz;
@@ -62,11 +63,12 @@ RowSums RowFar(const Sources& s, const Dipole& m, double k) {
     const double kx = far ? -le[j] * (uu * (y0 - y1 * inv) + dd * y2) : 0.0;
     vr += kr * ir[j];
     vi += kr * ii[j];
+    va += std::abs(kr) * ia[j];
     wr += kx * ir[j];
     wi += kx * ii[j];
   }
   const double lm = m.effective_length_m();
-  return {lm * Complex(vr, vi), lm * Complex(wr, wi)};
+  return {lm * Complex(vr, vi), lm * Complex(wr, wi), std::abs(lm) * va};
 }
 
 }  // namespace
@@ -86,11 +88,13 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
     s.ux.push_back(d.orientation.x()), s.uy.push_back(d.orientation.y()),
         s.uz.push_back(d.orientation.z());
     s.le.push_back(d.effective_length_m());
-    s.ir.push_back(c.real()), s.ii.push_back(c.imag());
+    s.ir.push_back(c.real()), s.ii.push_back(c.imag()), s.ia.push_back(std::abs(c));
   }
   const double scale = k * k * kEta0_ohm / (4.0 * kPi);
   const auto n = static_cast<std::ptrdiff_t>(array.size());
   Eigen::VectorXcd ri(n), xi(n);  // R I and X' I
+  Eigen::VectorXd ra(n);          // sum_s |R_ms| |I_s|
+  const bool pec = array.ground == Ground::kPec;
   const int threads = ResolveThreads(num_threads);
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 8)
   for (std::ptrdiff_t m = 0; m < n; ++m) {
@@ -99,20 +103,31 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
     // Near pairs (x < 2) through the series, in source order. The self term adds
     // R_mm only (the active resistance does not need X_mm); a source without
     // current couples nothing (and may have no finite X_mn, impedance.h).
+    const std::size_t self = static_cast<std::size_t>(m);
+    const std::size_t own_image = ImageIndexOf(self, array.size());
+    const bool image_near = pec && 2.0 * k * dm.position_m.z() < kKernelSeriesBelow;
     for (std::size_t j = 0; j < src.size(); ++j) {
       const double x = k * (dm.position_m - src[j].position_m).norm();
       if (x >= kKernelSeriesBelow) continue;
       const Complex c(s.ir[j], s.ii[j]);
-      row.r_i += MutualResistance(dm, src[j], k) / scale * c;
-      if (j == static_cast<std::size_t>(m) || c == Complex(0.0)) continue;
+      // The own image's resistance is part of the self term (no cancellation).
+      if (!(image_near && j == own_image)) {
+        const double rr = image_near && j == self ? SelfResistanceOverGround(dm, k) / scale
+                                                  : MutualResistance(dm, src[j], k) / scale;
+        row.r_i += rr * c;
+        row.r_abs += std::abs(rr) * s.ia[j];
+      }
+      if (j == self || c == Complex(0.0)) continue;
       row.x_i += MutualImpedance(dm, src[j], k).imag() / scale * c;
     }
     ri[m] = scale * row.r_i;
     xi[m] = scale * row.x_i;
+    ra[m] = scale * row.r_abs;
   }
   StreamedPower out;
   // P from R alone: I^H X' I is real, so j I^H X' I adds only rounding to Re.
   out.radiated_power_w = 0.5 * currents_a.dot(ri).real();  // dot conjugates the first
+  out.term_magnitudes_w = 0.5 * currents_a.cwiseAbs().dot(ra);
   out.active_resistance_ohm.resize(n);
   for (Eigen::Index m = 0; m < n; ++m) {
     const Complex i = currents_a[m];

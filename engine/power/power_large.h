@@ -10,7 +10,8 @@
 // independent and each runs over the sources in a fixed order, so the result does
 // not depend on the thread count. The inner loop is vectorized
 // (engine/field/sincos.h); pairs closer than x = k d < 2 take the series of
-// RadiationKernelAt, as the matrix route does.
+// RadiationKernelAt, as the matrix route does, and a dipole near its own PEC image
+// takes SelfResistanceOverGround (no cancellation between the two).
 #pragma once
 
 #include <Eigen/Core>
@@ -21,6 +22,9 @@ namespace lobecast {
 
 struct StreamedPower {
   double radiated_power_w = 0;
+  // 1/2 sum |I_m| |R_ms| |I_s| over the terms as summed (PowerTermMagnitudes of
+  // radiated_power.h; a dipole with its own image over PEC is one term).
+  double term_magnitudes_w = 0;
   // Re Z_act,m (impedance.h); NaN where I_m = 0, or where a dipole at the same
   // point couples with no finite reactance.
   Eigen::VectorXd active_resistance_ohm;

@@ -24,14 +24,25 @@ inline constexpr double kKernelSeriesBelow = 2.0;
 // f(x) = j0(x) - j1(x)/x and j2(x), the two radial functions of R_mn. For
 // x < kKernelSeriesBelow both come from their Maclaurin series (the closed forms
 // cancel catastrophically there), so they stay accurate to ~1e-15 relative down to x = 0.
+// g = 2/3 - f is O(x^2) and comes from the series as well (not from 2/3 - f, which
+// cancels): the kernel of a dipole with its own image over PEC, or of close dipoles
+// whose currents nearly cancel.
 struct RadiationKernel {
   double f;
   double j2;
+  double g;
 };
 RadiationKernel RadiationKernelAt(double x);
 
 // R_mn (ohm) between two elemental dipoles at wavenumber k, free space.
 double MutualResistance(const Dipole& m, const Dipole& n, double k_rad_m);
+
+// R_mm over a PEC ground (ohm): the self term plus the coupling to its own image at
+// x = 2 k z, combined without cancellation. With the image's u' = (-ux, -uy, uz) and
+// d_hat = z_hat, R_mm + R_mm' = (k^2 eta0 Le^2 / 4 pi) [ (4/3) uz^2 - (uz^2 - uh^2) g(x)
+// + uz^2 j2(x) ], uh^2 = ux^2 + uy^2: a horizontal dipole low over the ground keeps its
+// O(x^2) resistance to full precision instead of 2/3 - (2/3 - O(x^2)).
+double SelfResistanceOverGround(const Dipole& m, double k_rad_m);
 
 // The N x N mutual radiation resistance matrix (ohm), real symmetric positive
 // semidefinite, including the ground plane. O(N^2) time and memory. num_threads as
@@ -41,6 +52,17 @@ Eigen::MatrixXd ResistanceMatrix(const Array& array, int num_threads = 0);
 
 // P = 1/2 Re(I^H R I), W. R and I belong to one array (same size: checked).
 double RadiatedPower(const Eigen::MatrixXd& resistance_ohm, const Eigen::VectorXcd& currents_a);
+
+// S = 1/2 sum_mn |I_m| |R_mn| |I_n|, W: the sum of the magnitudes of P's terms. Where
+// currents nearly cancel (an anti-phase pair much closer than a wavelength) P is much
+// smaller than S and the rounding of the sum, ~eps S, eats P's digits.
+double PowerTermMagnitudes(const Eigen::MatrixXd& resistance_ohm,
+                           const Eigen::VectorXcd& currents_a);
+
+// The decimal digits of P that the sum keeps: -log10(eps S / P), eps = 2.2e-16 (15.7
+// without cancellation); fewer than kPowerDigitsWanted are said in every output.
+double PowerSignificantDigits(double radiated_power_w, double term_magnitudes_w);
+inline constexpr double kPowerDigitsWanted = 9.0;
 
 // Throws InvalidArgument unless P is finite and > 0: currents so large the power
 // overflows, or none (or exactly cancelling ones), leave directivity undefined.

@@ -4,6 +4,7 @@
 #include <cmath>
 #include <type_traits>
 
+#include "engine/rounding_floor.h"
 #include "io/hdf5/hdf5_file.h"
 #include "io/hdf5/schema.h"
 
@@ -215,6 +216,15 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     SummaryReader v{path, hdf5::OpenGroup(file, S(schema::kSummaryGroup))};
     schema::VisitSummary(r.summary, v);
     out.has_summary = true;
+  }
+  // The numerical floor again, from the stored array and currents (not stored), for
+  // everything derived from the field after reading (analysis, exports, plots). The
+  // stored field is floored already (DeriveFromField); flooring it again changes
+  // nothing but a file written before the floor existed.
+  r.field_floor_v = FieldFloor_v(out.array, out.currents);
+  for (Eigen::Index i = 0; i < r.field.e_theta.size(); ++i) {
+    r.field.e_theta[i] = Floored(r.field.e_theta[i], r.field_floor_v);
+    r.field.e_phi[i] = Floored(r.field.e_phi[i], r.field_floor_v);
   }
   return out;
 }

@@ -136,9 +136,6 @@ inline constexpr Dataset kElementSupplied{"/coupling/supplied_w", "W"};
 
 enum class Extra {
   kNone,
-  // JSON adds a flag "<name without _db>_infinite" after the value (JSON has no
-  // infinities; the number itself is written as null).
-  kInfiniteFlag,
   kFileOnly,  // stored in the file, not in the report's JSON
 };
 
@@ -164,11 +161,6 @@ inline std::string PhiName(std::string_view prefix) { return Concat(prefix, "phi
 inline std::string DirectionKey(std::string_view prefix) { return Concat(prefix, "direction"); }
 inline constexpr std::string_view kThetaKey = "theta_deg";
 inline constexpr std::string_view kPhiKey = "phi_deg";
-// "ratio_db" -> "ratio_infinite" (Extra::kInfiniteFlag).
-inline std::string InfiniteFlagName(std::string_view name) {
-  if (name.size() > 3 && name.substr(name.size() - 3) == "_db") name.remove_suffix(3);
-  return Concat(name, "_infinite");
-}
 
 // ---- /summary: ComputeSummary -----------------------------------------------------
 
@@ -192,6 +184,7 @@ void VisitSummary(Summary& s, V& v) {
   v.Value(Field{"seconds_power", "s"}, s.seconds_power);
   v.Value(Field{"seconds_polarization", "s"}, s.seconds_polarization);
   v.Value(Field{"radiated_power_w", "W"}, s.radiated_power_w);
+  v.Value(Field{"power_significant_digits", "1"}, s.power_significant_digits);
   v.Value(Field{"peak_directivity", "1"}, s.peak_directivity);
   v.Value(Field{"peak_theta_deg", "deg"}, s.peak_theta_deg);
   v.Value(Field{"peak_phi_deg", "deg"}, s.peak_phi_deg);
@@ -310,10 +303,9 @@ void VisitAnalysis(A& a, V& v) {
   v.Object(kOrthogonalCut, [&] { VisitCut(a.orthogonal_cut, v); });
   v.Object(kFrontToBack, [&] {
     auto& f = a.front_to_back;
-    v.Value(Field{"ratio_db", "dB", Extra::kInfiniteFlag}, f.ratio_db);
+    v.Value(Field{"ratio_db", "dB"}, f.ratio_db);
     v.Value(Field{"back_", "deg"}, f.back_direction);
-    v.Value(Field{"same_elevation_ratio_db", "dB", Extra::kInfiniteFlag},
-            f.same_elevation_ratio_db);
+    v.Value(Field{"same_elevation_ratio_db", "dB"}, f.same_elevation_ratio_db);
     v.Value(Field{"same_elevation_back_", "deg"}, f.same_elevation_back_direction);
   });
   const auto lobe = [](auto& l, auto& visitor) { VisitLobe(l, visitor); };
@@ -329,10 +321,10 @@ void VisitAnalysis(A& a, V& v) {
     v.Value(Field{"reference", "1"}, p.reference);
     v.Value(Field{"co_polar_dbi_at_peak", "dBi"}, p.co_polar_dbi_at_peak);
     v.Value(Field{"cross_polar_dbi_at_peak", "dBi"}, p.cross_polar_dbi_at_peak);
-    v.Value(Field{"xpd_at_peak_db", "dB", Extra::kInfiniteFlag}, p.xpd_at_peak_db);
-    v.Value(Field{"worst_xpd_in_beam_db", "dB", Extra::kInfiniteFlag}, p.worst_xpd_in_beam_db);
+    v.Value(Field{"xpd_at_peak_db", "dB"}, p.xpd_at_peak_db);
+    v.Value(Field{"worst_xpd_in_beam_db", "dB"}, p.worst_xpd_in_beam_db);
     v.Value(Field{"worst_xpd_", "deg"}, p.worst_xpd_direction);
-    v.Value(Field{"axial_ratio_at_peak_db", "dB", Extra::kInfiniteFlag}, p.axial_ratio_at_peak_db);
+    v.Value(Field{"axial_ratio_at_peak_db", "dB"}, p.axial_ratio_at_peak_db);
     v.Value(Field{"tilt_at_peak_deg", "deg"}, p.tilt_at_peak_deg);
     v.Value(Field{"sense_at_peak", "1"}, p.sense_at_peak);
     v.Value(Field{"axial_ratio_limit_db", "dB"}, p.axial_ratio_limit_db);

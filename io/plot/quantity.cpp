@@ -71,7 +71,7 @@ double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, Polarization
   } else {
     const std::size_t np = p.grid.phi_deg.size();
     const double phi_rad = p.grid.phi_deg[k % np] * kPi / 180.0;
-    const CoCross cc = CoCrossOf(et, ep, phi_rad, ref);
+    const CoCross cc = CoCrossOf(et, ep, phi_rad, ref, p.field_floor_v);  // floored parts
     part = std::norm(q == Quantity::kCo ? cc.co : cc.cross);
   }
   return d * part / total;

@@ -11,6 +11,7 @@
 #include "engine/grid.h"
 #include "engine/intensity.h"
 #include "engine/polarization.h"
+#include "engine/rounding_floor.h"
 #include "io/text/number_text.h"
 
 namespace lobecast {
@@ -193,10 +194,12 @@ std::vector<ExportSample> ExactSamples(const StoredResult& stored,
     ExportSample& s = out[i];
     s.theta_deg = dirs[i].first;
     s.phi_deg = dirs[i].second;
-    s.e_theta = f.e_theta[e];
-    s.e_phi = f.e_phi[e];
+    // Floored as the stored grid is (DeriveFromField, engine/pattern.h).
+    const double floor_v = stored.result.field_floor_v;
+    s.e_theta = Floored(f.e_theta[e], floor_v);
+    s.e_phi = Floored(f.e_phi[e], floor_v);
     s.directivity = to_d * RadiationIntensity(s.e_theta, s.e_phi);
-    const Polarization p = PolarizationOf(s.e_theta, s.e_phi);
+    const Polarization p = PolarizationOf(s.e_theta, s.e_phi, floor_v);
     s.axial_ratio_db = p.axial_ratio_db;
     s.tilt_deg = p.tilt_deg;
     s.sense = p.sense;

@@ -93,7 +93,8 @@ void JsonWriter::String(std::string_view value) {
 }
 
 void JsonWriter::Number(double value) {
-  if (!std::isfinite(value)) return Null();
+  if (std::isnan(value)) return Null();
+  if (std::isinf(value)) return String(value > 0 ? "inf" : "-inf");
   BeforeValue();
   AppendShortest(out_, value);
 }

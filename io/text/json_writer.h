@@ -1,7 +1,9 @@
 // A small streaming JSON writer (RFC 8259) for the machine-readable reports:
 // objects, arrays, strings, numbers that round-trip (io/text/number_text.h), booleans
-// and null. JSON has no infinities or NaN, so non-finite numbers are written as
-// null; callers document what null means for each key.
+// and null. JSON has no infinities or NaN, so every lobecast JSON output encodes them
+// one way (README "JSON numbers"): +inf as the string "inf", -inf as the string
+// "-inf", an undefined number (NaN) as null. Python's float() and C's strtod read
+// both strings back as the infinities.
 #pragma once
 
 #include <string>
@@ -22,7 +24,7 @@ class JsonWriter {
   // Inside an object: the next value's key.
   void Key(std::string_view key);
   void String(std::string_view value);
-  void Number(double value);  // null when not finite
+  void Number(double value);  // "inf", "-inf" for infinities, null for NaN
   void Int(long long value);
   void Bool(bool value);
   void Null();

@@ -79,7 +79,8 @@ void WritePatternTable(std::ostream& out, const std::vector<ExportSample>& sampl
       field(s.theta_deg);
       field(s.phi_deg);
     }
-    const CoCross cc = CoCrossOf(s.e_theta, s.e_phi, s.phi_deg * kDegree, o.reference);
+    const CoCross cc =
+        CoCrossOf(s.e_theta, s.e_phi, s.phi_deg * kDegree, o.reference, o.field_floor_v);
     field(ToDb(s.directivity));
     field(ToDb(per_v2 * std::norm(cc.co)));
     field(ToDb(per_v2 * std::norm(cc.cross)));

@@ -48,6 +48,9 @@ struct PatternTableOptions {
   bool cut_angle_column = false;
   // Radiated power of the currents (W), for the co- and cross-polar directivities.
   double radiated_power_w = 1.0;
+  // The numerical floor (PatternResult::field_floor_v): co and cross parts below it are
+  // exact zeros (-inf dBi).
+  double field_floor_v = 0.0;
   // Written first, each as "# " + note (notes must not contain newlines).
   std::vector<std::string> notes;
 };

@@ -26,10 +26,18 @@ std::string Db(double db) {
   return Printf("%.2f", db);
 }
 
-std::string Angle(double deg) { return std::isfinite(deg) ? Printf("%.4f", deg) : "n/a"; }
+// NaN is an undefined angle (a phi on the z axis, the tilt of a circular field).
+std::string Angle(double deg) { return std::isfinite(deg) ? Printf("%.4f", deg) : "undefined"; }
 
 std::string Direction(const DirectionDeg& d) {
+  if (std::isnan(d.phi_deg)) return "theta " + Angle(d.theta_deg) + " deg (z axis, phi undefined)";
   return "theta " + Angle(d.theta_deg) + " deg, phi " + Angle(d.phi_deg) + " deg";
+}
+
+// A level with what an infinity means: a zero field is below the numerical floor.
+std::string DbBelowRounding(double db, const char* unit, const char* what) {
+  if (std::isinf(db)) return Db(db) + " " + unit + " (" + what + " below rounding)";
+  return Db(db) + " " + unit;
 }
 
 std::string HalfPower(const BeamCut& c) {
@@ -64,9 +72,6 @@ class JsonVisitor {
     // The safety note has always come just before the analysis' seconds.
     if (depth_ == 0 && f.name == schema::kSecondsKey) j_.Member("safety_note", kSafetyNote);
     j_.Member(f.name, v);
-    if (f.extra == schema::Extra::kInfiniteFlag) {
-      j_.MemberBool(schema::InfiniteFlagName(f.name), std::isinf(v));
-    }
   }
   void Value(const schema::Field& f, bool v) { j_.MemberBool(f.name, v); }
   void Value(const schema::Field& f, int v) { j_.MemberInt(f.name, v); }
@@ -155,7 +160,13 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
        "Orthogonal plane: the great circle through the peak perpendicular to it.\n"
        "Offsets: signed angles from the peak along a plane, + toward theta_hat (elevation)\n"
        "or phi_hat (orthogonal). HPBW between the half-power points, FNBW between the first\n"
-       "minima beyond them; F/B = peak over the exactly opposite direction.\n";
+       "minima beyond them; F/B = peak over the exactly opposite direction. On the z axis\n"
+       "phi is undefined. A field below the numerical floor is rounding, an exact zero:\n"
+       "-inf dB, and a ratio against it +-inf.\n";
+  s << Printf("floor   %.3g V: 1e-13 of (w mu0 / 4 pi) sum |I Le| over the sources\n",
+              c.field_floor_v);
+  const std::string digits = PowerDigitsNote(c.power_significant_digits);
+  if (!digits.empty()) s << "caution " << digits << "\n";
 
   s << "\nMain beam\n";
   Row(s, "peak directivity (dBi)",
@@ -168,10 +179,11 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
   Row(s, "FNBW elevation plane (deg)", FirstNull(a.elevation_cut));
   Row(s, "FNBW orthogonal plane (deg)", FirstNull(a.orthogonal_cut));
   Row(s, "front-to-back (dB)",
-      Db(a.front_to_back.ratio_db) + " dB toward " + Direction(a.front_to_back.back_direction));
+      DbBelowRounding(a.front_to_back.ratio_db, "dB", "back field zero or") + " toward " +
+          Direction(a.front_to_back.back_direction));
   Row(s, "F/B at the same theta (dB)",
-      Db(a.front_to_back.same_elevation_ratio_db) + " dB toward " +
-          Direction(a.front_to_back.same_elevation_back_direction));
+      DbBelowRounding(a.front_to_back.same_elevation_ratio_db, "dB", "back field zero or") +
+          " toward " + Direction(a.front_to_back.same_elevation_back_direction));
   for (const Lobe& l : a.major_lobes) {
     Row(s, "another major lobe (dB)",
         Db(l.level_db) + " dB (" + Db(l.directivity_dbi) + " dBi) at " + Direction(l.direction));
@@ -199,7 +211,7 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
   }
 
   s << "\nNulls (" << ToString(o.null_field) << " field below " << Db(o.null_threshold_db)
-    << " dB re peak; depth -inf = exact null)\n";
+    << " dB re peak; depth -inf = exact null, the field below rounding)\n";
   s << "  " << a.nulls.size() << " null" << (a.nulls.size() == 1 ? "" : "s")
     << (a.nulls_truncated ? " (list truncated)" : "") << "\n";
   if (!a.nulls.empty()) {
@@ -216,7 +228,7 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
     s << "\nProtected directions (exact field; co/cross for reference "
       << ReferenceName(o.reference) << ")\n";
     s << "      #   theta (deg)     phi (deg)      D (dBi)   level (dB)     co (dBi)  cross "
-         "(dBi)\n";
+         "(dBi)   (-inf: below rounding)\n";
     for (std::size_t i = 0; i < a.protected_directions.size(); ++i) {
       const ProtectedDirectionField& f = a.protected_directions[i];
       s << Printf("  %5zu  %12s  %12s  %11s  %11s  %11s  %11s%s\n", i,
@@ -228,14 +240,19 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
 
   const PolarizationPurity& p = a.polarization;
   s << "\nPolarization (reference " << ReferenceName(p.reference) << ")\n";
-  Row(s, "co-polar at peak (dBi)", Db(p.co_polar_dbi_at_peak) + " dBi");
-  Row(s, "cross-polar at peak (dBi)", Db(p.cross_polar_dbi_at_peak) + " dBi");
-  Row(s, "XPD at peak (dB)", Db(p.xpd_at_peak_db) + " dB");
+  Row(s, "co-polar at peak (dBi)", DbBelowRounding(p.co_polar_dbi_at_peak, "dBi", "co-polar"));
+  Row(s, "cross-polar at peak (dBi)",
+      DbBelowRounding(p.cross_polar_dbi_at_peak, "dBi", "cross-polar"));
+  Row(s, "XPD at peak (dB)",
+      DbBelowRounding(p.xpd_at_peak_db, "dB", p.xpd_at_peak_db > 0 ? "cross-polar" : "co-polar"));
   Row(s, "worst XPD in -3 dB beam (dB)",
-      Db(p.worst_xpd_in_beam_db) + " dB at " + Direction(p.worst_xpd_direction));
+      DbBelowRounding(p.worst_xpd_in_beam_db, "dB",
+                      p.worst_xpd_in_beam_db > 0 ? "cross-polar" : "co-polar") +
+          " at " + Direction(p.worst_xpd_direction));
   Row(s, "axial ratio at peak (dB)",
       Db(p.axial_ratio_at_peak_db) + " dB, " + SenseName(p.sense_at_peak) + ", tilt " +
-          Angle(p.tilt_at_peak_deg) + " deg");
+          (std::isnan(p.tilt_at_peak_deg) ? std::string("undefined (circular)")
+                                          : Angle(p.tilt_at_peak_deg) + " deg"));
   const std::string ar_label = "solid angle AR <= " + Db(p.axial_ratio_limit_db) + " dB (sr)";
   Row(s, ar_label.c_str(),
       Printf("%.6g sr (%.3g %% of the sphere)", p.axial_ratio_solid_angle_sr,
@@ -294,7 +311,11 @@ std::string ReportJson(const ReportContext& c, const PatternAnalysis& a, const A
   j.Member("ground", ToString(c.ground));
   j.MemberInt("num_dipoles", static_cast<long long>(c.num_dipoles));
   j.Member("source", c.recomputed ? "recomputed" : "stored");
-  j.Member("null_means", "an infinite or undefined value; see the flags beside it");
+  j.Member("field_floor_v", c.field_floor_v);
+  j.Member("power_significant_digits", c.power_significant_digits);
+  j.Member("power_caution", PowerDigitsNote(c.power_significant_digits));
+  j.Member("null_means",
+           "an undefined value (NaN); infinities are the strings \"inf\" and \"-inf\"");
   JsonVisitor v(j);
   v.Object(schema::kRecordedOptions, [&] { schema::VisitRecordedOptions(o, v); });
   schema::VisitAnalysis(a, v);

@@ -28,6 +28,10 @@ struct ReportContext {
   Ground ground = Ground::kNone;
   std::size_t num_dipoles = 0;
   bool recomputed = false;  // false: read from the file's /summary/analysis
+  // The numerical floor of the field, V (PatternResult::field_floor_v), and the digits
+  // the radiated power keeps (ComputeSummary::power_significant_digits).
+  double field_floor_v = 0.0;
+  double power_significant_digits = 15.0;
   // A coupled array's circuit (io/hdf5/coupling_reader.h); both null otherwise.
   // The JSON then gains a "coupling" object named as the file's /coupling group.
   const CouplingResult* coupling = nullptr;
@@ -40,8 +44,9 @@ std::string AnalysisBrief(const PatternAnalysis& analysis);
 std::string ReportText(const ReportContext& context, const PatternAnalysis& analysis,
                        const AnalysisOptions& options);
 
-// One JSON object; non-finite numbers are null (an infinite F/B or XPD, an exact
-// null's depth, an undefined angle), with flags saying which case applies.
+// One JSON object; infinities are the strings "inf" and "-inf" (an infinite F/B or
+// XPD, an exact null's depth), an undefined number (a phi on the z axis, the tilt of
+// a circular field) is null: README "JSON numbers".
 std::string ReportJson(const ReportContext& context, const PatternAnalysis& analysis,
                        const AnalysisOptions& options);
 

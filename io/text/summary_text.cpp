@@ -109,12 +109,14 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
   const double ar = r.axial_ratio_db[peak];
   // Tilt is measured from theta_hat toward phi_hat; it is undefined for circular
   // polarization (AR ~ 0 dB), so it is not printed there.
+  // Tilt is undefined (NaN) for a circular field (PolarizationOf with the floor).
   s << "polarization at the peak: axial ratio "
     << (std::isinf(ar) ? std::string("inf") : Printf("%.2f", ar)) << " dB, "
     << SenseName(r.sense[ip])
-    << (ar < 0.01 ? std::string(", tilt undefined (circular)\n")
-                  : Printf(", tilt %.2f deg from theta_hat toward phi_hat\n", r.tilt_deg[peak]));
-  s << PowerLine(desc, r.radiated_power_w);
+    << (std::isnan(r.tilt_deg[peak])
+            ? std::string(", tilt undefined (circular)\n")
+            : Printf(", tilt %.2f deg from theta_hat toward phi_hat\n", r.tilt_deg[peak]));
+  s << PowerLine(desc, r.radiated_power_w, sm.power_significant_digits);
 
   const Eigen::VectorXd& ra = r.active_resistance_ohm;
   if (a.size() <= kFullTableUpTo) {
@@ -146,9 +148,13 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
   return s.str();
 }
 
-std::string PowerLine(const ArrayDescription& desc, double radiated_power_w) {
-  return Printf("power        %.6g W radiated for the %s currents (closed form)\n",
-                radiated_power_w, CurrentsWord(desc));
+std::string PowerLine(const ArrayDescription& desc, double radiated_power_w,
+                      double power_significant_digits) {
+  std::string out = Printf("power        %.6g W radiated for the %s currents (closed form)\n",
+                           radiated_power_w, CurrentsWord(desc));
+  const std::string note = PowerDigitsNote(power_significant_digits);
+  if (!note.empty()) out += "caution      " + note + "\n";
+  return out;
 }
 
 std::string SafetyNote() {

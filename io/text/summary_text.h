@@ -27,7 +27,9 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& re
 std::string SafetyNote();
 
 // The power line of `check` and `compute`: "power  P W radiated for the given (or
-// solved) currents (closed form)".
-std::string PowerLine(const ArrayDescription& desc, double radiated_power_w);
+// solved) currents (closed form)", and a caution line when P keeps fewer than
+// kPowerDigitsWanted digits (PowerDigitsNote).
+std::string PowerLine(const ArrayDescription& desc, double radiated_power_w,
+                      double power_significant_digits);
 
 }  // namespace lobecast::text
