@@ -106,6 +106,20 @@ DirectionDeg ToDirectionDeg(const Vec3& r_hat, double axis_tolerance_rad) {
   return d;
 }
 
+DirectionDeg ReportedDirection(const Vec3& r_hat, const DirectionDeg& start_deg,
+                               double tolerance_rad) {
+  DirectionDeg d = ToDirectionDeg(r_hat, tolerance_rad);
+  if (std::isnan(d.phi_deg) || std::isnan(start_deg.phi_deg)) return d;  // the z axis
+  // Coordinate by coordinate: a side lobe of a line found by moving along phi keeps the
+  // grid's theta = 90 exactly.
+  const double tol_deg = tolerance_rad / kDegree;
+  if (std::abs(d.theta_deg - start_deg.theta_deg) <= tol_deg) d.theta_deg = start_deg.theta_deg;
+  double dphi = std::abs(d.phi_deg - start_deg.phi_deg);
+  dphi = std::min(dphi, 360.0 - dphi);
+  if (dphi * std::sin(d.theta_deg * kDegree) <= tol_deg) d.phi_deg = start_deg.phi_deg;
+  return d;
+}
+
 RefinedMaximum RefineMaximum(const PatternProbe& probe, const Vec3& start, double initial_step_rad,
                              double tolerance_rad, int max_evaluations) {
   const LocalChart chart(start);
@@ -175,15 +189,16 @@ MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,
   MainBeamPeak p;
   p.grid_direction = {t0, p0};
   p.grid_directivity = grid_max;
-  // A refined peak within the search tolerance of the grid direction it started from
-  // is that direction: the grid's exact angles are reported, not a rounding-level
-  // offset from them (a broadside beam at theta 90, not 89.99999999999999).
+  // A coordinate of the refined peak within the search tolerance of the grid's is the
+  // grid's (ReportedDirection: a broadside beam at theta 90, not 89.99999999999999), and
+  // the peak is then evaluated at the direction reported, so everything said about it
+  // (polarization, cuts, F/B) belongs to that direction: a y dipole's beam reported at
+  // phi = 0 has E_theta exactly 0 there, not the 1e-13 of a phi a hair off 0.
   const double tol = options.refine_tolerance_deg * kDegree;
-  const bool at_start = AngleBetween(m.r_hat, start) <= tol;
-  const Vec3 r_hat = at_start ? start : m.r_hat;
-  const double d = at_start ? probe.DirectivityAt(start) : m.directivity;
-  p.direction = ToDirectionDeg(r_hat, tol);
-  if (at_start && !std::isnan(p.direction.phi_deg)) p.direction = {t0, p0};
+  p.direction = ReportedDirection(m.r_hat, {t0, p0}, tol);
+  const double phi_rad = std::isnan(p.direction.phi_deg) ? 0.0 : p.direction.phi_deg * kDegree;
+  const Vec3 r_hat = UnitVectorAt(p.direction.theta_deg * kDegree, phi_rad);
+  const double d = probe.DirectivityAt(r_hat);
   p.directivity = d;
   p.directivity_dbi = ToDb(d);
   p.refined = m.converged;
@@ -292,8 +307,8 @@ BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tang
   return c;
 }
 
-FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
-                          double tolerance_rad) {
+FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, const DirectionDeg& peak_deg,
+                          double peak_directivity, double tolerance_rad) {
   FrontToBack f;
   auto grazing_onto_horizon = [&](Vec3 r) {
     if (probe.array().ground == Ground::kPec && r.z() < 0.0 &&
@@ -306,8 +321,15 @@ FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double pe
   const Vec3 back = grazing_onto_horizon(-peak);
   const Vec3 behind = grazing_onto_horizon(Vec3(-peak.x(), -peak.y(), peak.z()));
   const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{back, behind});
-  f.back_direction = ToDirectionDeg(back, tolerance_rad);
-  f.same_elevation_back_direction = ToDirectionDeg(behind, tolerance_rad);
+  // phi + 180 in [0, 360); NaN (on the z axis) stays NaN.
+  const double opposite_phi =
+      peak_deg.phi_deg >= 180.0 ? peak_deg.phi_deg - 180.0 : peak_deg.phi_deg + 180.0;
+  const bool grazed = back != -peak;
+  f.back_direction = grazed ? ToDirectionDeg(back, tolerance_rad)
+                            : DirectionDeg{180.0 - peak_deg.theta_deg, opposite_phi};
+  f.same_elevation_back_direction = behind.z() != peak.z() || std::isnan(opposite_phi)
+                                        ? ToDirectionDeg(behind, tolerance_rad)
+                                        : DirectionDeg{peak_deg.theta_deg, opposite_phi};
   // The peak is > 0, so a zero (or rounding-level) back field gives +inf.
   f.ratio_db = PowerRatioDb(peak_directivity, s[0].directivity);
   f.same_elevation_ratio_db = PowerRatioDb(peak_directivity, s[1].directivity);

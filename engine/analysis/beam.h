@@ -57,11 +57,20 @@ BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tang
 // Over a PEC ground, a back direction within tolerance_rad below the ground plane (the
 // opposite of a peak on the horizon, tilted a hair down by rounding) is taken on the
 // horizon: the field there is not the zero below the ground.
-FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
-                          double tolerance_rad);
+// peak_deg: the peak as reported; the back directions are reported from its angles by
+// exact arithmetic (180 - theta, phi + 180), not from the antipode vector's rounding.
+FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, const DirectionDeg& peak_deg,
+                          double peak_directivity, double tolerance_rad);
 
 // Direction in degrees, phi in [0, 360); within axis_tolerance_rad of the z axis (a
 // search's own tolerance) theta is exactly 0 or 180 and phi NaN (undefined).
 DirectionDeg ToDirectionDeg(const Vec3& r_hat, double axis_tolerance_rad);
+
+// What a search that started at a grid direction (start_deg: its exact grid angles)
+// reports: ToDirectionDeg, with theta and phi each replaced by the grid's where the
+// search ended within tolerance_rad of it in that coordinate (the search cannot tell
+// them apart, and the grid's angle is exact: 90, not 89.99999999999903).
+DirectionDeg ReportedDirection(const Vec3& r_hat, const DirectionDeg& start_deg,
+                               double tolerance_rad);
 
 }  // namespace lobecast

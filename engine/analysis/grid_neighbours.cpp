@@ -83,6 +83,12 @@ Vec3 GridNeighbours::direction(std::size_t node) const {
   return {std::sin(th) * std::cos(ph), std::sin(th) * std::sin(ph), std::cos(th)};
 }
 
+DirectionDeg GridNeighbours::direction_deg(std::size_t node) const {
+  const Position p = PositionOf(node);
+  if (pole_[p.row]) return {theta_deg_[p.row], std::numeric_limits<double>::quiet_NaN()};
+  return {theta_deg_[p.row], phi_deg_[p.column]};
+}
+
 template <typename F>
 void GridNeighbours::ForEachAround(const Position& p, F&& f) const {
   const auto ncol = static_cast<long>(columns_);

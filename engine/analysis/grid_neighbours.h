@@ -19,6 +19,7 @@
 #include <functional>
 #include <vector>
 
+#include "engine/analysis/analysis_types.h"
 #include "engine/grid.h"
 #include "engine/types.h"
 
@@ -37,6 +38,8 @@ class GridNeighbours {
   std::size_t representative(std::size_t node) const;
   // The node's direction (unit vector).
   Vec3 direction(std::size_t node) const;
+  // The same direction as the grid's exact angles (deg); phi NaN on a pole.
+  DirectionDeg direction_deg(std::size_t node) const;
   // The up to eight surrounding nodes (every node of the next row for a pole), ascending.
   std::vector<std::size_t> neighbours(std::size_t node) const;
 

@@ -96,7 +96,13 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     const ProbeSample s = probe.At(r);
     return s.no_field ? kInf : NullFieldDirectivity(probe, s, options) / peak_directivity;
   };
-  std::vector<std::pair<Vec3, double>> found;  // direction, level
+  struct Found {
+    Vec3 r_hat;
+    double level;
+    DirectionDeg reported;  // the grid angles when the search stayed at its start
+  };
+  const double tol = options.refine_tolerance_deg * kDegree;
+  std::vector<Found> found;
   const std::size_t max_refined = 4 * options.max_nulls + 8;
   std::size_t refined = 0;
   for (const Candidate& c : cands) {
@@ -136,18 +142,19 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
       if (step.norm() < 1e-15) break;
     }
     if (!(v < threshold)) continue;
-    auto same = std::find_if(found.begin(), found.end(), [&](const std::pair<Vec3, double>& f) {
-      return AngleBetween(f.first, r) < kSameNull_rad;
+    const DirectionDeg reported = ReportedDirection(r, neighbours.direction_deg(c.node), tol);
+    auto same = std::find_if(found.begin(), found.end(), [&](const Found& f) {
+      return AngleBetween(f.r_hat, r) < kSameNull_rad;
     });
     if (same != found.end()) {
-      if (v < same->second) *same = {r, v};
+      if (v < same->level) *same = {r, v, reported};
       continue;
     }
-    found.emplace_back(r, v);
+    found.push_back({r, v, reported});
   }
-  for (const auto& [r, v] : found) {
+  for (const auto& [r, v, reported] : found) {
     Null n;
-    n.direction = ToDirectionDeg(r, options.refine_tolerance_deg * kDegree);
+    n.direction = reported;
     n.directivity = v * peak_directivity;
     n.level_db = ToDb(v);
     n.exact = v == 0.0;  // the null field is below the floor: floored to exact zeros

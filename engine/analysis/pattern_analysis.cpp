@@ -137,7 +137,8 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
   const LocalChart chart(peak);
   out.elevation_cut = AnalyzeCut(probe, peak, chart.e1(), dp, options);
   out.orthogonal_cut = AnalyzeCut(probe, peak, chart.e2(), dp, options);
-  out.front_to_back = FrontToBackOf(probe, peak, dp, options.refine_tolerance_deg * kDegree);
+  out.front_to_back =
+      FrontToBackOf(probe, peak, out.peak.direction, dp, options.refine_tolerance_deg * kDegree);
 
   const GridNeighbours neighbours(grid_result.grid, array.ground);
   LobeSearch lobes = FindLobes(probe, neighbours, grid_result.directivity, peak, dp, options);
@@ -168,7 +169,8 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
     out.protected_directions.push_back(f);
   }
 
-  out.polarization = AnalyzePolarization(probe, neighbours, grid_result, peak, dp, options);
+  out.polarization =
+      AnalyzePolarization(probe, neighbours, grid_result, peak, out.peak.direction, dp, options);
   out.field_evaluations = probe.evaluations();
   out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return out;

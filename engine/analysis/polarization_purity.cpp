@@ -28,7 +28,8 @@ bool WithinAxialRatio(const ProbeSample& s, const AnalysisOptions& options) {
 
 PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeighbours& neighbours,
                                        const PatternResult& grid_result, const Vec3& peak,
-                                       double peak_directivity, const AnalysisOptions& options) {
+                                       const DirectionDeg& peak_deg, double peak_directivity,
+                                       const AnalysisOptions& options) {
   PolarizationPurity out;
   out.reference = options.reference;
   out.axial_ratio_limit_db = options.axial_ratio_limit_db;
@@ -42,12 +43,15 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
   out.tilt_at_peak_deg = pol.tilt_deg;
   out.sense_at_peak = pol.sense;
 
+  // The worst direction as reported: the peak's and the grid's exact angles, a ray
+  // sample's from its vector.
+  const double tol = options.refine_tolerance_deg * kDegree;
   double worst = out.xpd_at_peak_db;
-  Vec3 worst_r = peak;
-  auto consider = [&](double xpd, const Vec3& r) {
+  DirectionDeg worst_deg = peak_deg;
+  auto consider = [&](double xpd, auto&& direction) {
     if (xpd < worst) {
       worst = xpd;
-      worst_r = r;
+      worst_deg = direction();
     }
   };
 
@@ -65,13 +69,12 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
                                   grid_result.field.e_phi[static_cast<Eigen::Index>(g)],
                                   grid_result.grid.phi_deg[g % np] * kDegree, options.reference,
                                   grid_result.field_floor_v);
-      consider(XpdDb(c), neighbours.direction(n));
+      consider(XpdDb(c), [&] { return neighbours.direction_deg(n); });
     });
   }
 
   // (b) rays from the peak out to the half-power contour.
   const LocalChart chart(peak);
-  const double tol = options.refine_tolerance_deg * kDegree;
   std::vector<Vec3> pts;
   for (int k = 0; k < options.beam_rays; ++k) {
     const double psi = 2.0 * kPi * k / options.beam_rays;
@@ -86,10 +89,11 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
   const std::vector<ProbeSample> s = probe.At(pts);
   for (std::size_t i = 0; i < s.size(); ++i) {
     if (s[i].no_field || s[i].directivity < 0.5 * peak_directivity * (1 - 1e-9)) continue;
-    consider(XpdDb(s[i].CoCrossFor(options.reference)), pts[i]);
+    consider(XpdDb(s[i].CoCrossFor(options.reference)),
+             [&] { return ToDirectionDeg(pts[i], tol); });
   }
   out.worst_xpd_in_beam_db = worst;
-  out.worst_xpd_direction = ToDirectionDeg(worst_r, tol);
+  out.worst_xpd_direction = worst_deg;
   out.axial_ratio_solid_angle_sr = AxialRatioSolidAngle(probe, options);
   return out;
 }

@@ -19,7 +19,8 @@ namespace lobecast {
 // value is an upper bound of the true minimum, tight to the sampling.
 PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeighbours& neighbours,
                                        const PatternResult& grid_result, const Vec3& peak,
-                                       double peak_directivity, const AnalysisOptions& options);
+                                       const DirectionDeg& peak_deg, double peak_directivity,
+                                       const AnalysisOptions& options);
 
 // Solid angle (sr) where AR <= options.axial_ratio_limit_db, counting for a circular
 // reference only the reference hand: the trapezoid rule over axial_ratio_phi_planes

@@ -77,7 +77,8 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
       continue;
     accepted.push_back(m.r_hat);
     Lobe lobe;
-    lobe.direction = ToDirectionDeg(m.r_hat, options.refine_tolerance_deg * kDegree);
+    lobe.direction = ReportedDirection(m.r_hat, neighbours.direction_deg(c.node),
+                                       options.refine_tolerance_deg * kDegree);
     lobe.directivity = m.directivity;
     lobe.directivity_dbi = ToDb(m.directivity);
     lobe.level_db = ToDb(m.directivity / peak_directivity);
