@@ -64,64 +64,30 @@ def run(exe, args, expect=0):
     return p.stdout + p.stderr
 
 
+def toml(frequency, ground, theta_stop, step, dipoles):
+    """An array description: dipoles as (position m, orientation, phase deg), 1 cm, 1 A."""
+    out = (f"frequency = {frequency}\nground = \"{ground}\"\n[grid]\n"
+           f"theta = {{ start = 0, stop = {theta_stop}, step = {step} }}\n"
+           f"phi = {{ start = 0, stop = 360, step = {step} }}\n")
+    for pos, u, phase in dipoles:
+        out += (f"[[dipole]]\nposition = [{pos[0]:.17g}, {pos[1]:.17g}, {pos[2]:.17g}]\n"
+                f"orientation = [{u[0]}, {u[1]}, {u[2]}]\nlength = 0.01\n"
+                f"current = {{ magnitude = 1.0, phase = {phase} }}\n")
+    return out
+
+
+Z = (0, 0, 1)
 OWN = {
-    "own-turnstile-axis": """
-frequency = 300e6
-[grid]
-theta = { start = 0, stop = 180, step = 3 }
-phi = { start = 0, stop = 360, step = 7.5 }
-[[dipole]]
-position = [0, 0, 0]
-orientation = [1, 0, 0]
-length = 0.01
-current = { magnitude = 1.0, phase = 0 }
-[[dipole]]
-position = [0, 0, 0]
-orientation = [0, 1, 0]
-length = 0.01
-current = { magnitude = 1.0, phase = -90 }
-""",
-    "own-uniform-line": "frequency = 300e6\n[grid]\n"
-                        "theta = { start = 0, stop = 180, step = 2 }\n"
-                        "phi = { start = 0, stop = 360, step = 5 }\n" + "".join(
-                            f"[[dipole]]\nposition = [0, 0, {0.5 * n}]\norientation = [0, 0, 1]\n"
-                            "length = 0.01\ncurrent = { magnitude = 1.0, phase = 0 }\n"
-                            for n in range(6)),
-    "own-z-ring": "frequency = 300e6\n[grid]\n"
-                  "theta = { start = 0, stop = 180, step = 2 }\n"
-                  "phi = { start = 0, stop = 360, step = 5 }\n" + "".join(
-                      f"[[dipole]]\nposition = [{math.cos(2 * math.pi * n / 8):.17g}, "
-                      f"{math.sin(2 * math.pi * n / 8):.17g}, 0]\norientation = [0, 0, 1]\n"
-                      "length = 0.01\ncurrent = { magnitude = 1.0, phase = 0 }\n"
-                      for n in range(8)),
-    "own-low-horizontal": """
-frequency = 299792458
-ground = "pec"
-[grid]
-theta = { start = 0, stop = 90, step = 5 }
-phi = { start = 0, stop = 360, step = 10 }
-[[dipole]]
-position = [0, 0, 1e-7]
-orientation = [1, 0, 0]
-length = 0.01
-current = { magnitude = 1.0, phase = 0 }
-""",
-    "own-antiphase-pair": """
-frequency = 299792458
-[grid]
-theta = { start = 0, stop = 180, step = 5 }
-phi = { start = 0, stop = 360, step = 10 }
-[[dipole]]
-position = [0, 0, 0]
-orientation = [0, 0, 1]
-length = 0.01
-current = { magnitude = 1.0, phase = 0 }
-[[dipole]]
-position = [1e-6, 0, 0]
-orientation = [0, 0, 1]
-length = 0.01
-current = { magnitude = 1.0, phase = 180 }
-""",
+    "own-turnstile-axis": toml(300e6, "none", 180, 3, [((0, 0, 0), (1, 0, 0), 0),
+                                                       ((0, 0, 0), (0, 1, 0), -90)]),
+    "own-uniform-line": toml(300e6, "none", 180, 2, [((0, 0, 0.5 * n), Z, 0) for n in range(6)]),
+    "own-z-ring": toml(300e6, "none", 180, 2,
+                       [((math.cos(2 * math.pi * n / 8), math.sin(2 * math.pi * n / 8), 0), Z, 0)
+                        for n in range(8)]),
+    # One wavelength = 1 m at this frequency: 1e-7 lambda up, 1e-6 lambda apart.
+    "own-low-horizontal": toml(299792458, "pec", 90, 5, [((0, 0, 1e-7), (1, 0, 0), 0)]),
+    "own-antiphase-pair": toml(299792458, "none", 180, 5, [((0, 0, 0), Z, 0),
+                                                           ((1e-6, 0, 0), Z, 180)]),
 }
 
 
