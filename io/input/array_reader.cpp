@@ -13,6 +13,8 @@
 
 #include "engine/error.h"
 #include "io/input/csv_dipoles.h"
+#include "io/input/design_reader.h"
+#include "io/input/excitation_synthesis.h"
 #include "io/input/text_file.h"
 #include "io/input/toml_values.h"
 #include "io/input/units.h"
@@ -49,9 +51,17 @@ class Reader : private TomlValues {
       throw InputError(At(e.source()), "TOML syntax error: " + std::string(e.description()));
     }
 
-    CheckKeys(root, "",
-              {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
-               "dipole", "reference_impedance"});
+    const bool design = IsDesign(root);
+    if (design) {
+      CheckKeys(root, "",
+                {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
+                 "dipole", "reference_impedance", "element", "lattice", "taper", "steer", "null",
+                 "objective"});
+    } else {
+      CheckKeys(root, "",
+                {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
+                 "dipole", "reference_impedance"});
+    }
     if (const toml::node* n = root.get("name")) out.name = String(*n, "name");
     if (const toml::node* n = root.get("description")) out.description = String(*n, "description");
 
@@ -76,6 +86,8 @@ class Reader : private TomlValues {
           Positive(*n, "reference_impedance", "a resistance in ohm", "a resistance");
     }
 
+    if (design)
+      AddGenerated(ReadDesignTables(root, path_, scale_, out.length_unit, out.array), out);
     if (const toml::node* n = root.get("dipole")) ReadDipoleTables(*n, out);
     if (const toml::node* n = root.get("dipoles_csv")) ReadCsv(*n, out);
 
@@ -106,6 +118,7 @@ class Reader : private TomlValues {
       const Port& p = out.ports[m];
       if (p.kind == PortKind::kCurrent) out.currents[static_cast<Eigen::Index>(m)] = p.current_a;
     }
+    if (out.design) ApplyExcitationSynthesis(out);
     try {
       Validate(out.array);
       ValidateCurrents(out.array, out.currents);
@@ -227,6 +240,27 @@ class Reader : private TomlValues {
       }
     }
     out.grid = AngularGrid::FromRanges(out.theta, out.phi);
+  }
+
+  // The generated elements of a design, current-forced, ahead of the explicit ones.
+  void AddGenerated(GeneratedDipoles g, ArrayDescription& out) {
+    g.info.first_generated = out.array.dipoles.size();
+    for (std::size_t i = 0; i < g.dipoles.size(); ++i) {
+      out.array.dipoles.push_back(g.dipoles[i]);
+      out.ports.push_back(Port{PortKind::kCurrent, g.currents[i], 0.0, 0.0});
+      out.wires.push_back(g.wire);
+      out.dipole_locations.push_back(g.where);
+      sites_.push_back(DipoleSite{g.where, g.position, g.position_key, g.length, g.length_key});
+    }
+    for (const GratingLobe& lobe : g.info.grating_lobes) {
+      out.warnings.push_back(g.where.ToString() +
+                             ": warning: a grating lobe enters visible space at theta " +
+                             FormatApprox(lobe.theta_rad / kDegree, 4) + " deg, phi " +
+                             FormatApprox(lobe.phi_rad / kDegree, 4) +
+                             " deg, as strong as the main beam (spacing too wide for this beam "
+                             "direction)");
+    }
+    out.design = std::move(g.info);
   }
 
   void ReadDipoleTables(const toml::node& n, ArrayDescription& out) {
@@ -474,9 +508,11 @@ class Reader : private TomlValues {
                              " m; an elemental dipole model is meaningless beyond that");
       }
       if (d.length_m > 0.1 * lambda) {
-        out.warnings.push_back(s.length.ToString() + ": warning: key '" + s.length_key + "': " +
-                               found + " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) +
-                               " m; the short-dipole model holds for lengths well below lambda/10");
+        std::string w = s.length.ToString() + ": warning: key '" + s.length_key + "': " + found +
+                        " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) +
+                        " m; the short-dipole model holds for lengths well below lambda/10";
+        // Generated elements share one [element] length: say it once.
+        if (out.warnings.empty() || out.warnings.back() != w) out.warnings.push_back(std::move(w));
       }
       if (out.array.ground == Ground::kPec && !(d.position_m.z() > 0.0)) {
         throw InputError(s.position, s.position_key, "z = " + FormatApprox(d.position_m.z()) + " m",
