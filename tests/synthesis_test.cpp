@@ -183,7 +183,9 @@ TEST(Taper, TaylorLineApproachesTheContinuousPattern) {
     return f;
   };
   double continuous = 0;
-  for (double u = 1.2; u < 40; u += 1e-4) continuous = std::max(continuous, std::abs(pattern(u)));
+  // Side lobes start at the first null, z_1.
+  const double z1 = std::sqrt(s2 * (a * a + 0.25));
+  for (double u = z1; u < 40; u += 1e-5) continuous = std::max(continuous, std::abs(pattern(u)));
   const double continuous_db = AmplitudeToDb(continuous);
   EXPECT_LT(continuous_db, sll);  // finite n-bar: the near lobes sit a little below
   EXPECT_GT(continuous_db, sll - 0.5);
@@ -196,16 +198,15 @@ TEST(Taper, TaylorLineApproachesTheContinuousPattern) {
 
 // Balanis, Antenna Theory, 4th ed., sec. 6.8.2 (from memory): the binomial array at
 // half-wave spacing has no side lobes; its pattern falls monotonically from
-// broadside to endfire. Here: no grid maximum outside the main beam.
+// broadside to endfire. Here: no maximum outside the main beam above rounding (near
+// endfire, where the pattern is an exact zero, the sums' rounding leaves ripples
+// around -280 dB; CONVENTIONS §1 puts the floor at 1e-13 of the field scale, -260 dB).
 TEST(Taper, BinomialHasNoSideLobesAtHalfWaveSpacing) {
   TaperSpec t;
   t.kind = TaperKind::kBinomial;
-  for (int n : {5, 10})
-    EXPECT_EQ(HighestSideLobeDb(LineTaper(t, n), 0.5 * kLambda),
-              -std::numeric_limits<double>::infinity())
-        << n;
+  for (int n : {5, 10}) EXPECT_LT(HighestSideLobeDb(LineTaper(t, n), 0.5 * kLambda), -250) << n;
   // ...and it has them at 0.7 wavelength (the check can fail).
-  EXPECT_GT(HighestSideLobeDb(LineTaper(t, 6), 0.7 * kLambda), -300);
+  EXPECT_GT(HighestSideLobeDb(LineTaper(t, 6), 0.7 * kLambda), -30);
 }
 
 // Binomial efficiency in closed form (Vandermonde: sum C(m,i)^2 = C(2m, m)):

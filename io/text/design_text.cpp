@@ -55,21 +55,24 @@ std::pair<double, double> PolarOf(const ArrayDescription& desc, std::size_t i) {
   return {std::abs(c), std::arg(c) / kDegree};
 }
 
-std::string LatticeLine(const DesignInfo& d) {
+std::string LatticeLine(const DesignInfo& d, double lambda) {
   const LatticeSpec& l = d.lattice;
   std::string s = "lattice      " + std::string(ToString(l.kind)) + ", ";
   switch (l.kind) {
     case LatticeKind::kLine:
-      s += Printf("%d elements, spacing %.6g m", l.count_x, l.spacing_x_m);
+      s += Printf("%d elements, spacing %.6g m (%.4g wavelength)", l.count_x, l.spacing_x_m,
+                  l.spacing_x_m / lambda);
       break;
     case LatticeKind::kRectangular:
     case LatticeKind::kTriangular:
-      s += Printf("%d x %d elements, spacing %.6g x %.6g m", l.count_x, l.count_y, l.spacing_x_m,
-                  l.spacing_y_m);
+      s += Printf("%d x %d elements, spacing %.6g x %.6g m (%.4g x %.4g wavelength)", l.count_x,
+                  l.count_y, l.spacing_x_m, l.spacing_y_m, l.spacing_x_m / lambda,
+                  l.spacing_y_m / lambda);
       break;
     case LatticeKind::kRing:
       for (std::size_t r = 0; r < l.ring_counts.size(); ++r)
-        s += Printf("%s%d at radius %.6g m", r ? ", " : "", l.ring_counts[r], l.ring_radii_m[r]);
+        s += Printf("%s%d at radius %.6g m (%.4g wavelength)", r ? ", " : "", l.ring_counts[r],
+                    l.ring_radii_m[r], l.ring_radii_m[r] / lambda);
       break;
   }
   s += Printf("; %zu generated", d.generated);
@@ -108,10 +111,10 @@ std::string TaperLine(const DesignInfo& d) {
 std::string DescribeDesign(const ArrayDescription& desc) {
   if (!desc.design) return "";
   const DesignInfo& d = *desc.design;
-  std::string s = LatticeLine(d);
+  std::string s = LatticeLine(d, desc.array.wavelength_m());
   if (d.first_generated + d.generated < desc.array.size())
-    s += Printf("explicit     %zu dipoles as written (neither tapered nor steered)\n",
-                desc.array.size() - d.generated);
+    s += Printf("explicit     %zu dipole%s as written (neither tapered nor steered)\n",
+                desc.array.size() - d.generated, desc.array.size() - d.generated == 1 ? "" : "s");
   s += TaperLine(d);
   if (d.steering) {
     s += Printf("steering     theta %.6g deg, phi %.6g deg, %s", d.steer_theta_deg, d.steer_phi_deg,
