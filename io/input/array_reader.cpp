@@ -318,7 +318,7 @@ class Reader : private TomlValues {
 
       Port port = ReadPort(*t, key, out.reference_impedance_ohm);
       out.ports.push_back(port);
-      out.wires.push_back(ReadWire(*t, key, d, out.length_unit));
+      out.wires.push_back(ReadWire(*t, key, d.length_m, out.length_unit, scale_));
       const Wire& w = out.wires.back();
       if (w.radius_m > 0 && d.length_m < 30 * w.radius_m) {
         out.warnings.push_back(
@@ -415,33 +415,6 @@ class Reader : private TomlValues {
       p.kind = PortKind::kLoad;
     }
     return p;
-  }
-
-  // radius (length unit), reactance (ohm), conductivity (S/m): all optional.
-  Wire ReadWire(const toml::table& t, const std::string& key, const Dipole& d,
-                const std::string& unit) const {
-    Wire w;
-    if (const toml::node* v = t.get("radius")) {
-      w.radius_m = Positive(*v, Join(key, "radius"), "a number (the wire radius in " + unit + ")",
-                            "a radius") *
-                   scale_;
-      if (w.radius_m >= 0.5 * d.length_m) {
-        throw InputError(At(*v), Join(key, "radius"), FormatApprox(w.radius_m) + " m",
-                         "a radius below half the length (" + FormatApprox(0.5 * d.length_m) +
-                             " m): a thin wire");
-      }
-    }
-    if (const toml::node* v = t.get("self_reactance"))
-      w.reactance_ohm = Number(*v, Join(key, "self_reactance"), "a self reactance in ohm");
-    if (const toml::node* v = t.get("conductivity")) {
-      w.conductivity_s_m = Positive(*v, Join(key, "conductivity"),
-                                    "a conductivity in S/m (copper about 5.8e7)", "a conductivity");
-      if (!(w.radius_m > 0)) {
-        throw InputError(At(*v), Join(key, "conductivity"), "a conductivity without a radius",
-                         "radius = <wire radius> as well (the loss depends on it)");
-      }
-    }
-    return w;
   }
 
   Complex Current(const toml::node& n, const std::string& key) const {

@@ -341,26 +341,7 @@ class DesignReader : private TomlValues {
                          "\"uniform\" or \"triangular\"");
       d.distribution = *dist;
     }
-    Wire& w = out.wire;
-    if (const toml::node* v = t.get("radius")) {
-      w.radius_m =
-          Positive(*v, "element.radius", "a number (the wire radius in " + std::string(unit_) + ")",
-                   "a radius") *
-          scale_;
-      if (w.radius_m >= 0.5 * d.length_m)
-        throw InputError(At(*v), "element.radius", FormatApprox(w.radius_m) + " m",
-                         "a radius below half the length (" + FormatApprox(0.5 * d.length_m) +
-                             " m): a thin wire");
-    }
-    if (const toml::node* v = t.get("self_reactance"))
-      w.reactance_ohm = Number(*v, "element.self_reactance", "a self reactance in ohm");
-    if (const toml::node* v = t.get("conductivity")) {
-      w.conductivity_s_m =
-          Positive(*v, "element.conductivity", "a conductivity in S/m", "a conductivity");
-      if (!(w.radius_m > 0))
-        throw InputError(At(*v), "element.conductivity", "a conductivity without a radius",
-                         "radius = <wire radius> as well (the loss depends on it)");
-    }
+    out.wire = ReadWire(t, "element", d.length_m, std::string(unit_), scale_);
     return d;
   }
 
