@@ -9,6 +9,7 @@
 #include "io/input/array_reader.h"
 #include "io/input/solve_circuit.h"
 #include "io/text/coupling_text.h"
+#include "io/text/design_text.h"
 #include "io/text/summary_text.h"
 
 namespace lobecast::cli {
@@ -30,6 +31,7 @@ void AddCheckCommand(CLI::App& app) {
     // Driven and loaded dipoles: the table shows the currents the circuit gives.
     const auto coupling = SolveArrayCircuit(desc, 0);
     std::fputs(text::DescribeArray(desc).c_str(), stdout);
+    std::fputs(text::DescribeDesign(desc).c_str(), stdout);  // empty unless a design file
     if (coupling) std::fputs(text::DescribeCoupling(*coupling, desc.ports, 0.0).c_str(), stdout);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
     // currents that cancel or overflow before anyone waits for a compute.

@@ -71,7 +71,10 @@ phi = 60
   const auto check = Lobecast("check " + Quote(out.string()));
   EXPECT_EQ(check.exit_code, 0) << check.out;
   // check and compute take the design itself too.
-  EXPECT_EQ(Lobecast("check " + Quote(design.string())).exit_code, 0);
+  const auto check_design = Lobecast("check " + Quote(design.string()));
+  EXPECT_EQ(check_design.exit_code, 0) << check_design.out;
+  EXPECT_THAT(check_design.out, HasSubstr("taper        chebyshev, side lobes -25 dB"));
+  EXPECT_THAT(check.out, Not(HasSubstr("taper        ")));
   const std::string text = testing::ReadFile(out);
   EXPECT_THAT(text, HasSubstr("[[dipole]]"));
   EXPECT_THAT(text, Not(HasSubstr("[lattice]")));
