@@ -190,20 +190,22 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
          "Orthogonal plane: the great circle through the peak perpendicular to it.\n"
          "Offsets: signed angles from the peak along a plane, + toward theta_hat (elevation)\n"
          "or phi_hat (orthogonal).";
-  } else if (a.elevation_cut.plane == CutPlane::kE) {
-    s << "Peak on the z axis: the planes are the E-plane (the peak and the major axis of the\n"
-         "field there) and the H-plane perpendicular to it; offsets + toward the plane's phi.";
   } else {
-    s << "Peak on the z axis with a near-circular field (axial ratio below "
-      << Db(kEPlaneMinAxialRatioDb)
-      << " dB): the planes\n"
-         "are xz (phi 0) and yz (phi 90); offsets + toward the plane's phi.";
+    s << (a.elevation_cut.plane == CutPlane::kE
+              ? "Peak on the z axis (its phi is arbitrary): the planes are the E-plane (through\n"
+                "the major axis of the field at the peak) and the H-plane perpendicular to it.\n"
+              : "Peak on the z axis (its phi is arbitrary) with a near-circular field (axial\n"
+                "ratio below " +
+                    Db(kEPlaneMinAxialRatioDb) +
+                    " dB): the planes are xz (phi 0) and yz (phi 90).\n")
+      << "Offsets: signed angles from the peak along a plane, + toward the plane's phi.";
   }
-  s << " HPBW between the half-power\npoints, FNBW between the first minima beyond them; F/B = "
+  s << (a.elevation_cut.plane == CutPlane::kElevation ? " " : "\n")
+    << "HPBW between the half-power points, FNBW between the first\nminima beyond them; "
     << (c.ground == Ground::kPec
-            ? "peak over the direction behind it at the\nsame theta (phi + 180): the opposite "
-              "direction is below the ground plane, where\nthere is no field.\n"
-            : "peak over the exactly opposite\ndirection.\n");
+            ? "F/B = peak over the direction behind it at the same theta\n(phi + 180): the "
+              "opposite direction is below the ground plane, where there is no field.\n"
+            : "F/B = peak over the exactly opposite direction.\n");
 
   s << "\nMain beam\n";
   Row(s, "peak directivity (dBi)",
