@@ -478,6 +478,19 @@ void ExpectSamePlanes(const std::vector<PatternAnalysis>& r) {
   }
 }
 
+// E-plane at e_phi_deg and H-plane at h_phi_deg on every grid, with the half-power
+// widths 2 e_half_rad and 2 h_half_rad (the closed forms of the test).
+void ExpectEAndHPlanes(const std::vector<PatternAnalysis>& r, double e_phi_deg, double h_phi_deg,
+                       double e_half_rad, double h_half_rad) {
+  ExpectSamePlanes(r);
+  EXPECT_EQ(r[0].elevation_cut.plane, CutPlane::kE);
+  EXPECT_NEAR(r[0].elevation_cut.plane_phi_deg, e_phi_deg, 1e-9);
+  EXPECT_EQ(r[0].orthogonal_cut.plane, CutPlane::kH);
+  EXPECT_NEAR(r[0].orthogonal_cut.plane_phi_deg, h_phi_deg, 1e-9);
+  EXPECT_NEAR(r[0].elevation_cut.half_power_width_deg, 2 * e_half_rad / kDegree, 1e-5);
+  EXPECT_NEAR(r[0].orthogonal_cut.half_power_width_deg, 2 * h_half_rad / kDegree, 1e-5);
+}
+
 TEST(PrincipalPlanes, HorizontalDipoleOverGroundUsesEAndHPlanes) {
   // x dipole lambda/4 over PEC: the image gives the factor sin(k h cos t) (Balanis 4th ed.,
   // sec. 4.7, from memory; CONVENTIONS §1), the element |E|^2 is cos^2 t in the E-plane
@@ -487,16 +500,9 @@ TEST(PrincipalPlanes, HorizontalDipoleOverGroundUsesEAndHPlanes) {
   const testing::TestArray a = testing::OneDipoleArray(
       MakeDipole(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitX(), Lambda() / 100), 1.0, Ground::kPec);
   const std::vector<PatternAnalysis> r = OnThreeGrids(a);
-  ExpectSamePlanes(r);
-  EXPECT_EQ(r[0].elevation_cut.plane, CutPlane::kE);
-  EXPECT_NEAR(r[0].elevation_cut.plane_phi_deg, 0.0, 1e-9);
-  EXPECT_EQ(r[0].orthogonal_cut.plane, CutPlane::kH);
-  EXPECT_NEAR(r[0].orthogonal_cut.plane_phi_deg, 90.0, 1e-9);
   auto af = [](double t) { return std::pow(std::sin(0.5 * kPi * std::cos(t)), 2); };
   const double e = HalfPowerAngle([&](double t) { return std::pow(std::cos(t), 2) * af(t); }, 1.5);
-  const double h = HalfPowerAngle(af, 1.5);
-  EXPECT_NEAR(r[0].elevation_cut.half_power_width_deg, 2 * e / kDegree, 1e-5);
-  EXPECT_NEAR(r[0].orthogonal_cut.half_power_width_deg, 2 * h / kDegree, 1e-5);
+  ExpectEAndHPlanes(r, 0.0, 90.0, e, HalfPowerAngle(af, 1.5));
   // F/B over ground never looks below it, and a zenith beam has nothing behind it
   // above the ground: undefined, not +inf and not the peak against itself.
   EXPECT_TRUE(std::isnan(r[0].front_to_back.ratio_db)) << r[0].front_to_back.ratio_db;
@@ -511,17 +517,11 @@ TEST(PrincipalPlanes, BroadsidePanelWithUnequalSides) {
   const testing::TestArray a =
       Panel(6, 3, 0.5 * Lambda(), 0.5 * Lambda(), Vec3::UnitY(), 0.0, Ground::kNone, 0, 0);
   const std::vector<PatternAnalysis> r = OnThreeGrids(a);
-  ExpectSamePlanes(r);
-  EXPECT_EQ(r[0].elevation_cut.plane, CutPlane::kE);
-  EXPECT_NEAR(r[0].elevation_cut.plane_phi_deg, 90.0, 1e-9);
-  EXPECT_EQ(r[0].orthogonal_cut.plane, CutPlane::kH);
-  EXPECT_NEAR(r[0].orthogonal_cut.plane_phi_deg, 0.0, 1e-9);
   const double e = HalfPowerAngle(
       [](double t) { return std::pow(std::cos(t), 2) * UniformFactor(3, kPi * std::sin(t)); }, 1.5);
   const double h =
       HalfPowerAngle([](double t) { return UniformFactor(6, kPi * std::sin(t)); }, 1.5);
-  EXPECT_NEAR(r[0].elevation_cut.half_power_width_deg, 2 * e / kDegree, 1e-5);
-  EXPECT_NEAR(r[0].orthogonal_cut.half_power_width_deg, 2 * h / kDegree, 1e-5);
+  ExpectEAndHPlanes(r, 90.0, 0.0, e, h);
   // F/B: the nadir beam is the mirror image (0 dB); "behind at the same theta" of a
   // zenith peak is the peak itself: undefined.
   EXPECT_NEAR(r[0].front_to_back.ratio_db, 0.0, 1e-6);
