@@ -15,7 +15,8 @@ namespace lobecast::cli {
 
 std::vector<std::string> PolarizationReferenceNames() {
   return NamesOf({PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-                  PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular});
+                  PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular,
+                  PolarizationReference::kTheta, PolarizationReference::kPhi});
 }
 
 std::vector<std::string> ReferenceNames() {

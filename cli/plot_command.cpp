@@ -134,7 +134,8 @@ void AddPlotCommand(CLI::App& app) {
                   "theta/phi; for maps directivity");
   cmd->add_option("--reference", args->reference,
                   "Polarization reference for co/cross: x | y (Ludwig-3 linear) | rhcp | lhcp | "
-                  "auto (the one with the largest co component at the peak); default auto");
+                  "theta | phi (co = E_theta / E_phi) | auto (the one with the largest co "
+                  "component at the peak, as in report); default auto");
   cmd->add_option("--floor-db", args->floor_db,
                   "Lowest level shown, dB below the plotted peak (1..200); default 40");
   cmd->add_flag("--normalize", args->normalized,

@@ -58,6 +58,10 @@ std::string_view ToString(PolarizationReference r) {
       return "rhcp";
     case PolarizationReference::kLeftCircular:
       return "lhcp";
+    case PolarizationReference::kTheta:
+      return "theta";
+    case PolarizationReference::kPhi:
+      return "phi";
   }
   return "x";
 }
@@ -68,6 +72,8 @@ std::optional<PolarizationReference> PolarizationReferenceFromString(std::string
   if (lower == "y") return PolarizationReference::kLinearY;
   if (lower == "rhcp") return PolarizationReference::kRightCircular;
   if (lower == "lhcp") return PolarizationReference::kLeftCircular;
+  if (lower == "theta") return PolarizationReference::kTheta;
+  if (lower == "phi") return PolarizationReference::kPhi;
   return std::nullopt;
 }
 
@@ -84,6 +90,10 @@ CoCross CoCrossOf(Complex et, Complex ep, double phi_rad, PolarizationReference 
       return ref == PolarizationReference::kRightCircular ? CoCross{p.e_right, p.e_left}
                                                           : CoCross{p.e_left, p.e_right};
     }
+    case PolarizationReference::kTheta:
+      return {et, ep};
+    case PolarizationReference::kPhi:
+      return {ep, et};
   }
   return {et, ep};
 }

@@ -174,10 +174,9 @@ TEST_P(SampleResult, ReportAndExportWork) {
   const RunOutput report = Lobecast("report " + Quote(result));
   ASSERT_EQ(report.exit_code, 0) << report.err;
   for (const char* label :
-       {"peak directivity (dBi)", "HPBW elevation plane (deg)", "HPBW orthogonal plane (deg)",
-        "FNBW elevation plane (deg)", "front-to-back (dB)", "highest side lobe (dB re peak)",
-        "XPD at peak (dB)", "worst XPD in -3 dB beam (dB)", "axial ratio at peak (dB)",
-        "stored by compute"}) {
+       {"peak directivity (dBi)", "HPBW ", "FNBW ", "front-to-back (dB)",
+        "highest side lobe (dB re peak)", "XPD at peak (dB)", "worst XPD in -3 dB beam (dB)",
+        "axial ratio at peak (dB)", "stored by compute"}) {
     EXPECT_THAT(report.out, HasSubstr(label));
   }
 
@@ -266,10 +265,11 @@ TEST(Export, AtLookupEqualsTheEngine) {
     EXPECT_NEAR(t.At(0, "directivity_dBi"), Db(e.directivity), 1e-12) << args;
     EXPECT_NEAR(t.At(0, "rE_theta_V"), std::abs(e.e_theta), 1e-12 * std::abs(e.e_theta));
     EXPECT_NEAR(t.At(0, "phase_theta_deg"), std::arg(e.e_theta) / kDegree, 1e-10);
-    // Ludwig-3 y co-polar of a z-directed array (auto reference at a broadside peak
-    // on the y axis): co = Et sin(phi) + Ep cos(phi).
+    // The auto reference of a z-directed array with its beam on the horizon is theta
+    // (AutoReference; was Ludwig-3 y, which mixes E_theta into the cross field off the
+    // y axis): co = E_theta (CONVENTIONS §2).
     const CoCross cc =
-        CoCrossOf(e.e_theta, e.e_phi, 73.25 * kDegree, PolarizationReference::kLinearY);
+        CoCrossOf(e.e_theta, e.e_phi, 73.25 * kDegree, PolarizationReference::kTheta);
     const double per_v2 = 4.0 * kPi / (2.0 * kEta0_ohm * stored.result.radiated_power_w);
     EXPECT_NEAR(t.At(0, "co_dBi"), Db(per_v2 * std::norm(cc.co)), 1e-12);
   }
@@ -476,15 +476,15 @@ TEST(ReportExport, BadEnumNamesListTheAcceptedOnes) {
   const std::string r = " " + Quote(result);
   const std::string plot = "plot -o " + Quote((WorkDir("io") / "names.png").string());
   const std::pair<std::string, std::string> cases[] = {
-      {"export --reference z" + r, "expected x, y, rhcp, lhcp or auto"},
+      {"export --reference z" + r, "expected x, y, rhcp, lhcp, theta, phi or auto"},
       {"export --format xlsx" + r, "expected csv or tsv"},
       {"export --coords polar" + r, "expected theta-phi or az-el"},
       {"report --null-field cross" + r, "expected total or co"},
       {"compute --method Fast " + Quote(Sample("single-dipole")), "{direct,fast,auto}"},
-      {"compute --reference q " + Quote(Sample("single-dipole")), "{x,y,rhcp,lhcp,auto}"},
+      {"compute --reference q " + Quote(Sample("single-dipole")), "{x,y,rhcp,lhcp,theta,phi,auto}"},
       {plot + " --kind pie" + r, "expected polar, cartesian, map or polarization"},
       {plot + " --quantity x" + r, "expected directivity, co, cross, theta or phi"},
-      {plot + " --reference q" + r, "expected auto, x, y, rhcp or lhcp"},
+      {plot + " --reference q" + r, "expected auto, x, y, rhcp, lhcp, theta or phi"},
       {plot + " --kind map --projection merc" + r, "expected theta-phi, az-el or uv"}};
   for (const auto& [args, names] : cases) {
     const RunOutput run = Lobecast(args);

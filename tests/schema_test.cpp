@@ -62,6 +62,8 @@ Lobe RandomLobe(Random& r) { return RandomLevels<Lobe>(r); }
 
 BeamCut RandomCut(Random& r) {
   BeamCut c;
+  c.plane = static_cast<CutPlane>(r.Int(0, 5));
+  c.plane_phi_deg = r.Number();
   c.half_power_found = r.Flag();
   c.half_power_width_deg = r.Number();
   c.half_power_lower_deg = r.Number();
@@ -111,7 +113,7 @@ PatternAnalysis RandomAnalysis(Random& r, bool empty_lists) {
     a.protected_directions.push_back(f);
   }
   PolarizationPurity& p = a.polarization;
-  p.reference = static_cast<PolarizationReference>(r.Int(0, 3));
+  p.reference = static_cast<PolarizationReference>(r.Int(0, 5));
   p.co_polar_dbi_at_peak = r.Number();
   p.cross_polar_dbi_at_peak = r.Number();
   p.xpd_at_peak_db = r.Number();
@@ -149,6 +151,8 @@ void Same(const Lobe& f, const Lobe& e, const std::string& what) {
 }
 
 void Same(const BeamCut& f, const BeamCut& e, const std::string& what) {
+  EXPECT_EQ(f.plane, e.plane) << what;
+  Same(f.plane_phi_deg, e.plane_phi_deg, what + ".plane_phi_deg");
   EXPECT_EQ(f.half_power_found, e.half_power_found) << what;
   Same(f.half_power_width_deg, e.half_power_width_deg, what + ".half_power_width_deg");
   Same(f.half_power_lower_deg, e.half_power_lower_deg, what + ".half_power_lower_deg");
@@ -225,7 +229,7 @@ void Same(const PatternAnalysis& f, const PatternAnalysis& e) {
 
 AnalysisOptions RandomOptions(Random& r, const PatternAnalysis& a) {
   AnalysisOptions o;
-  o.reference = static_cast<PolarizationReference>(r.Int(0, 3));
+  o.reference = static_cast<PolarizationReference>(r.Int(0, 5));
   o.null_field = r.Flag() ? NullField::kCoPolar : NullField::kTotal;
   o.null_threshold_db = r.Number();
   o.side_lobe_threshold_db = r.Number();

@@ -25,6 +25,31 @@ std::string_view ToString(NullField f);  // "total", "co"
 // Case-insensitive; std::nullopt for an unknown name.
 std::optional<NullField> NullFieldFromString(std::string_view s);
 
+// Which principal plane a BeamCut runs in (PatternAnalysis explains the choice).
+enum class CutPlane {
+  kElevation,   // through the peak and the z axis (constant phi); peak off the axis
+  kOrthogonal,  // through the peak, perpendicular to the elevation plane
+  kE,           // peak on the axis: the plane of the peak and the major axis of E there
+  kH,           // peak on the axis: perpendicular to the E-plane
+  kXZ,          // peak on the axis, no dominant linear polarization: phi = 0 deg
+  kYZ,          // ... and phi = 90 deg
+};
+// "elevation", "orthogonal", "E", "H", "xz", "yz".
+std::string_view ToString(CutPlane p);
+// Case-insensitive; std::nullopt for an unknown name.
+std::optional<CutPlane> CutPlaneFromString(std::string_view s);
+
+// A peak closer than this to the z axis (deg) is "on the axis": its phi is set by
+// rounding and the search, not by the pattern, so the planes through it are chosen
+// from the field instead (PatternAnalysis). 0.1 deg keeps the elevation plane of a
+// beam steered just off the axis to within ~1e-6 / sin(0.1 deg) ~ 6e-4 deg of phi.
+inline constexpr double kOnAxisDeg = 0.1;
+
+// The polarization at an on-axis peak counts as dominantly linear (E- and H-planes)
+// when its axial ratio is at least this (dB); nearer circular, the major axis is
+// not a property an engineer would cut along, and the planes are xz and yz.
+inline constexpr double kEPlaneMinAxialRatioDb = 3.0;
+
 struct AnalysisOptions {
   // Grid local minima of the null field below this level (dB relative to the peak
   // directivity) are refined and reported as nulls. -40 dB keeps the list to nulls
@@ -94,6 +119,11 @@ struct MainBeamPeak {
 // from the peak (deg): positive toward the cut's tangent (theta_hat of the peak for the
 // elevation cut, phi_hat for the orthogonal one).
 struct BeamCut {
+  CutPlane plane = CutPlane::kElevation;
+  // For a plane that contains the z axis (every plane but kOrthogonal): the phi of
+  // the half-plane the positive offsets run into, deg in [0, 360) (the peak's own phi
+  // for the elevation plane). NaN for the orthogonal plane, which is tilted.
+  double plane_phi_deg = std::numeric_limits<double>::quiet_NaN();
   // Both half-power points found; otherwise the width is +inf: the pattern does not
   // fall to half the peak directivity anywhere on this great circle (a dipole's
   // azimuth plane, also over a PEC ground where that plane is the horizon itself: the
@@ -113,13 +143,21 @@ struct BeamCut {
 };
 
 struct FrontToBack {
-  // Peak directivity over the directivity in the exactly opposite direction; +inf
-  // when that is zero (an exact back null, or the no-field region below a ground), or
-  // zero up to rounding: below 1e-30 of the peak (300 dB; PowerRatioDb in engine/decibels.h).
+  // Peak directivity over the directivity in the back direction; +inf when that is
+  // zero (an exact back null) or zero up to rounding: below 1e-30 of the peak (300 dB;
+  // PowerRatioDb in engine/decibels.h).
+  // In free space the back direction is the exactly opposite one, -r_peak.
+  // Over a PEC ground -r_peak lies below the ground plane, where there is no field by
+  // construction (an infinite ratio that says nothing about the antenna); the back
+  // direction is then the one behind the peak at the same elevation, (-x, -y, z) of
+  // r_peak (phi + 180 deg, same theta), the only "behind" above the ground. A peak on
+  // the z axis (within kOnAxisDeg) over ground has no back direction above the ground:
+  // ratio and direction are NaN (undefined).
   double ratio_db = 0.0;
   DirectionDeg back_direction;
-  // Same, toward the same theta at phi + 180 deg (the "behind, at the same elevation"
-  // figure used for antennas over ground).
+  // Toward the same theta at phi + 180 deg (the "behind, at the same elevation" figure
+  // used for antennas over ground). NaN (undefined) for a peak on the z axis, where
+  // that direction is the peak itself.
   double same_elevation_ratio_db = 0.0;
   DirectionDeg same_elevation_back_direction;
 };
@@ -155,7 +193,12 @@ struct PolarizationPurity {
   // XPD = |co|^2 / |cross|^2 in dB; +inf for a pure co-polar field, i.e. a cross field
   // below ~1e-15 of the co-polar one (zero up to rounding; PowerRatioDb in engine/decibels.h).
   double xpd_at_peak_db = 0.0;
-  double worst_xpd_in_beam_db = 0.0;  // lowest XPD inside the -3 dB main beam
+  // Lowest XPD inside the -3 dB main beam: the connected region around the peak where
+  // D stays at or above half the peak, checked between grid directions along the
+  // great circle (sampled at four times the cut step), so other lobes above -3 dB,
+  // even where the grid alone would join them, are not part of it
+  // (polarization_purity.h).
+  double worst_xpd_in_beam_db = 0.0;
   DirectionDeg worst_xpd_direction;
   double axial_ratio_at_peak_db = 0.0;  // IEEE Std 145-2013, 0 dB circular, +inf linear
   double tilt_at_peak_deg = 0.0;
@@ -168,10 +211,18 @@ struct PolarizationPurity {
 
 struct PatternAnalysis {
   MainBeamPeak peak;
-  // Principal planes through the peak r_p: the elevation cut is the great circle
-  // through r_p and the z axis (constant phi; tangent theta_hat), the orthogonal cut
-  // the great circle through r_p perpendicular to it (tangent phi_hat). On a pole the
-  // peak's phi is 0, so the elevation cut is the xz plane and the orthogonal one yz.
+  // The two principal planes through the peak r_p, each cut saying which it is
+  // (BeamCut::plane, plane_phi_deg). The member names are those of the common case:
+  //  - peak off the z axis (more than kOnAxisDeg from it): elevation_cut is the great
+  //    circle through r_p and the z axis (constant phi; tangent theta_hat),
+  //    orthogonal_cut the great circle through r_p perpendicular to it (tangent
+  //    phi_hat). Both are fixed by the peak alone.
+  //  - peak on the z axis: the peak's phi is arbitrary (set by rounding and by the grid
+  //    the search started from), so the planes come from the field at the peak: when
+  //    its axial ratio is at least kEPlaneMinAxialRatioDb, elevation_cut is the E-plane
+  //    (the plane of r_p and the major axis of the polarization ellipse) and
+  //    orthogonal_cut the H-plane; nearer circular, the xz plane (phi = 0) and the yz
+  //    plane (phi = 90 deg). Either way the planes do not depend on the grid.
   BeamCut elevation_cut;
   BeamCut orthogonal_cut;
   FrontToBack front_to_back;

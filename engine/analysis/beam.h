@@ -54,9 +54,28 @@ double CutStepRad(const PatternProbe& probe, const Vec3& peak, const Vec3& tange
 BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
                    double peak_directivity, const AnalysisOptions& options);
 
-// Over a PEC ground, a back direction within tolerance_rad below the ground plane (the
-// opposite of a peak on the horizon, tilted a hair down by rounding) is taken on the
-// horizon: the field there is not the zero below the ground.
+// True when the peak is within kOnAxisDeg of the z axis (either pole).
+bool OnAxis(const Vec3& peak);
+
+// The two principal planes through the peak (definitions in analysis_types.h,
+// PatternAnalysis): what each is, its plane_phi_deg, and its unit tangent at the peak
+// (the direction of positive offsets).
+struct PrincipalPlane {
+  CutPlane plane = CutPlane::kElevation;
+  double phi_deg = 0.0;  // NaN for kOrthogonal
+  Vec3 tangent = Vec3::UnitX();
+};
+std::pair<PrincipalPlane, PrincipalPlane> PrincipalPlanesAt(const PatternProbe& probe,
+                                                            const Vec3& peak);
+
+// The cut along a principal plane, labelled with it.
+BeamCut AnalyzePlane(const PatternProbe& probe, const Vec3& peak, const PrincipalPlane& plane,
+                     double peak_directivity, const AnalysisOptions& options);
+
+// F/B as defined in analysis_types.h (FrontToBack). Over a PEC ground, a back direction
+// within tolerance_rad below the ground plane (behind a peak on the horizon, tilted a
+// hair down by rounding) is taken on the horizon: the field there is not the zero below
+// the ground.
 FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, double peak_directivity,
                           double tolerance_rad);
 

@@ -59,6 +59,12 @@ class FileVisitor {
       throw IoError(file_path_, "unknown polarization reference \"" + s + "\" in the analysis");
     v = *r;
   }
+  void Value(const Field& f, CutPlane& v) {
+    const std::string s = Text(f);
+    const auto r = CutPlaneFromString(s);
+    if (!r) throw IoError(file_path_, "unknown cut plane \"" + s + "\" in the analysis");
+    v = *r;
+  }
   void Value(const Field& f, NullField& v) {
     const std::string s = Text(f);
     const auto r = NullFieldFromString(s);

@@ -13,7 +13,7 @@
 //
 // A visitor V of VisitAnalysis / VisitRecordedOptions provides:
 //   void Value(const Field& f, T& v)  for T = double, bool, int, std::size_t,
-//        DirectionDeg, PolarizationReference, NullField (const T when writing)
+//        DirectionDeg, PolarizationReference, NullField, CutPlane (const T when writing)
 //   void Object(const ObjectSpec& o, Body&& body)           body() visits the members
 //   void Optional(const ObjectSpec& o, std::optional<T>& v, Body&& body)
 //   void List(const ListSpec& l, std::vector<T>& items, bool* truncated, Body&& body)
@@ -230,14 +230,21 @@ struct ListSpec {
 
 inline constexpr ObjectSpec kRecordedOptions{"", "options"};
 inline constexpr ObjectSpec kPeak{"peak", "peak"};
+// The names are those of a peak off the z axis; `plane` says which plane each cut is
+// (analysis_types.h, PatternAnalysis).
 inline constexpr ObjectSpec kElevationCut{
     "elevation_cut", "elevation_plane",
-    "great circle through the peak and the z axis (constant phi); offsets from the peak in "
-    "deg, positive toward theta_hat"};
+    "first principal plane (attribute plane): for a peak off the z axis the great circle "
+    "through the peak and the z axis (constant phi, plane_phi_deg), offsets from the peak "
+    "in deg positive toward theta_hat; for a peak on the axis the E-plane (through the "
+    "major axis of E at the peak) or, nearer circular, the xz plane, offsets positive "
+    "toward phi = plane_phi_deg"};
 inline constexpr ObjectSpec kOrthogonalCut{
     "orthogonal_cut", "orthogonal_plane",
-    "great circle through the peak perpendicular to the elevation cut; offsets from the "
-    "peak in deg, positive toward phi_hat"};
+    "second principal plane (attribute plane): for a peak off the z axis the great circle "
+    "through the peak perpendicular to the elevation plane, offsets from the peak in deg "
+    "positive toward phi_hat; for a peak on the axis the H-plane or, nearer circular, the "
+    "yz plane, offsets positive toward phi = plane_phi_deg"};
 inline constexpr ObjectSpec kFrontToBack{"front_to_back", "front_to_back"};
 inline constexpr ObjectSpec kHighestSideLobe{"highest_side_lobe", "highest_side_lobe"};
 inline constexpr ObjectSpec kPolarization{"polarization", "polarization"};
@@ -284,6 +291,8 @@ void VisitProtected(P& f, V& v) {
 
 template <typename C, typename V>  // C: BeamCut, const or not
 void VisitCut(C& c, V& v) {
+  v.Value(Field{"plane", "1"}, c.plane);
+  v.Value(Field{"plane_phi_deg", "deg"}, c.plane_phi_deg);
   v.Value(Field{"half_power_found", "1"}, c.half_power_found);
   v.Value(Field{"half_power_width_deg", "deg"}, c.half_power_width_deg);
   v.Value(Field{"half_power_lower_deg", "deg"}, c.half_power_lower_deg);

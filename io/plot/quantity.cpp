@@ -102,6 +102,12 @@ std::string QuantityLabel(Quantity q, PolarizationReference ref) {
     case PolarizationReference::kLeftCircular:
       ref_text = "LHCP reference";
       break;
+    case PolarizationReference::kTheta:
+      ref_text = "theta_hat reference";
+      break;
+    case PolarizationReference::kPhi:
+      ref_text = "phi_hat reference";
+      break;
   }
   switch (q) {
     case Quantity::kDirectivity:

@@ -32,11 +32,10 @@ struct ReferenceChoice {
   bool automatic = true;
   PolarizationReference fixed = PolarizationReference::kLinearX;
 };
-// "auto", "x", "y", "rhcp", "lhcp" (case-insensitive).
+// "auto", "x", "y", "rhcp", "lhcp", "theta", "phi" (case-insensitive).
 std::optional<ReferenceChoice> ReferenceChoiceFromString(std::string_view s);
 
-// auto: of x, y, rhcp and lhcp, the reference whose co component is largest at
-// the grid's directivity peak (ties go in that order).
+// auto: AutoReference (engine/analysis/pattern_analysis.h).
 PolarizationReference ResolveReference(const StoredResult& r, const ReferenceChoice& choice);
 
 // Human-readable label, e.g. "co-pol (Ludwig-3, x reference)", "E_theta part".
