@@ -13,6 +13,8 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/enum_names.h"
+#include "cli/option_checks.h"
+#include "cli/text_output.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "io/hdf5/analysis_reader.h"
@@ -34,6 +36,8 @@ struct ReportArgs {
   std::optional<double> null_threshold_db;
   std::string null_field;  // empty: as stored
   bool recompute = false;
+  std::string output;  // empty or "-": standard output
+  bool quiet = false;
 };
 
 void RunReport(const ReportArgs& args) {
@@ -94,17 +98,17 @@ void RunReport(const ReportArgs& args) {
     context.coupling = &coupling->result;
     context.ports = &coupling->ports;
   }
-  const std::string text = args.json ? text::ReportJson(context, analysis, options)
-                                     : text::ReportText(context, analysis, options);
-  std::fputs(text.c_str(), stdout);
-  if (args.json) return;
-  if (coupling) {
-    std::fputs(("\n" + text::DescribeCoupling(coupling->result, coupling->ports,
-                                              stored.result.summary.peak_directivity))
-                   .c_str(),
-               stdout);
+  std::string text = args.json ? text::ReportJson(context, analysis, options)
+                               : text::ReportText(context, analysis, options);
+  if (!args.json) {
+    if (coupling) {
+      text += "\n" + text::DescribeCoupling(coupling->result, coupling->ports,
+                                            stored.result.summary.peak_directivity);
+    }
+    // A report is a document: it carries the full note, to a file or the terminal.
+    text += "\n" + text::SafetyNote();
   }
-  std::fputs(("\n" + text::SafetyNote()).c_str(), stdout);
+  WriteText(args.output, "the report", [&text](std::ostream& out) { out << text; });
 }
 
 }  // namespace
@@ -118,10 +122,17 @@ void AddReportCommand(CLI::App& app) {
       "nulls, field toward protected directions, XPD and axial ratio (dB).");
   cmd->add_option("RESULT", args->input, "Result file (HDF5) written by compute")
       ->required()
-      ->check(CLI::ExistingFile);
+      ->check(ExistingInput("a result file (HDF5) written by 'lobecast compute'"));
   cmd->add_flag("--json", args->json, "Print one JSON object instead of the table");
+  cmd->add_option("-o,--output", args->output,
+                  "Write the report (or JSON) to this file, atomically; default or '-': "
+                  "standard output")
+      ->check(TextOutput());
+  cmd->add_flag("-q,--quiet", args->quiet,
+                "Print nothing but warnings and errors besides the report itself");
   cmd->add_option("--reference", args->reference,
-                  std::string(kReferenceHelp) + " (default: the one stored by compute)");
+                  std::string(kReferenceHelp) + " (default: the one stored by compute)")
+      ->check(OneOf(ReferenceNames(), true));
   cmd->add_option("--toward", args->toward,
                   "THETA,PHI (deg): report the exact field toward this protected direction; "
                   "repeatable")

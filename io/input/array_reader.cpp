@@ -6,6 +6,7 @@
 #include <filesystem>
 #include <initializer_list>
 #include <optional>
+#include <string_view>
 #include <utility>
 #include <vector>
 
@@ -503,6 +504,13 @@ ArrayDescription ReadArrayDescription(const std::string& path) {
   const auto text = ReadTextFile(path, &why);
   if (!text)
     throw InputError(SourceLocation{path, 0, 0}, "cannot read the array description: " + why);
+  // The 8-byte signature every HDF5 file starts with (HDF5 File Format
+  // Specification, "Format Signature"): a result given where the array belongs.
+  if (std::string_view(*text).substr(0, 8) == std::string_view("\x89HDF\r\n\x1a\n", 8)) {
+    throw InputError(SourceLocation{path, 0, 0},
+                     "found an HDF5 file (a lobecast result?), expected an array description "
+                     "(TOML); a result is read by 'lobecast report', 'export' and 'plot'");
+  }
   const std::string base = std::filesystem::path(path).parent_path().string();
   return ParseArrayDescription(*text, path, base);
 }
