@@ -30,7 +30,7 @@ void AddCheckCommand(CLI::App& app) {
                 "rejected (2)");
   cmd->callback([input, quiet] {
     ArrayDescription desc = ReadArrayDescription(*input);
-    for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+    PrintWarnings(desc.warnings);
     // Driven and loaded dipoles: the table shows the currents the circuit gives.
     const auto coupling = SolveArrayCircuit(desc, 0);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches

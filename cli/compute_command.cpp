@@ -50,12 +50,12 @@ struct ComputeArgs {
 // Refuses options that do not apply to what was asked (exit 2, before any work).
 void RefuseInapplicable(const ComputeArgs& args) {
   if (args.tolerance_given && args.method == ToString(FieldMethod::kDirect)) {
-    RefuseOption("--tolerance", "it with --method direct (the exact sum has no tolerance)",
-                 "--tolerance only with --method fast or auto");
+    BadOption("--tolerance", "it with --method direct (the exact sum has no tolerance)",
+              "--tolerance only with --method fast or auto");
   }
   if (args.reference_given && args.no_analysis) {
-    RefuseOption("--reference", "it with --no-analysis (no analysis to take a reference)",
-                 "one of --reference and --no-analysis");
+    BadOption("--reference", "it with --no-analysis (no analysis to take a reference)",
+              "one of --reference and --no-analysis");
   }
 }
 
@@ -66,9 +66,11 @@ std::string DefaultOutput(const std::string& input) {
 
 void RunCompute(const ComputeArgs& args) {
   RefuseInapplicable(args);
+  RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
+                      args.input);
   const auto t0 = std::chrono::steady_clock::now();
   ArrayDescription desc = ReadArrayDescription(args.input);
-  for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+  PrintWarnings(desc.warnings);
   const std::optional<CouplingResult> coupling = SolveArrayCircuit(desc, args.threads);
 
   ProgressBar bar(!args.quiet);
@@ -91,7 +93,7 @@ void RunCompute(const ComputeArgs& args) {
     try {
       analysis = AnalyzePattern(desc.array, desc.currents, result, analysis_options);
     } catch (const InvalidArgument& e) {
-      std::fprintf(stderr, "pattern analysis skipped: %s\n", e.what());
+      PrintWarnings({std::string("pattern analysis skipped: ") + e.what()});
     }
   }
 
@@ -114,7 +116,7 @@ void RunCompute(const ComputeArgs& args) {
     std::vector<std::string> skipped;
     plot::WriteStandardPlots(ReadResult(output), args.plots_dir,
                              std::filesystem::path(output).stem().string(), &skipped);
-    for (const std::string& s : skipped) std::fprintf(stderr, "plot skipped: %s\n", s.c_str());
+    for (const std::string& s : skipped) PrintWarnings({"plot skipped: " + s});
   }
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {

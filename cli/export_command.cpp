@@ -48,22 +48,22 @@ void RunExport(const ExportArgs& args) {
   PatternTableOptions table;
   const auto format = ExportFormatFromString(args.format);
   if (!format) {
-    throw InvalidArgument("--format '" + args.format + "': expected " +
-                          JoinAlternatives(NamesOf({ExportFormat::kCsv, ExportFormat::kTsv})));
+    BadOption("--format", "'" + args.format + "'",
+              JoinAlternatives(NamesOf({ExportFormat::kCsv, ExportFormat::kTsv})));
   }
   table.format = *format;
   table.precision = *ExportPrecisionFromString(args.precision);  // checked by CLI11
   table.decimal_comma = args.decimal_comma;
   if (args.no_notes && args.notes_given && args.notes != "none") {
-    RefuseOption("--no-notes", "it with --notes " + args.notes, "one of the two");
+    BadOption("--no-notes", "it with --notes " + args.notes, "one of the two");
   }
   table.notes_style = args.notes == "comments" ? NotesStyle::kComments : NotesStyle::kColumn;
   const bool with_notes = !args.no_notes && args.notes != "none";
   const auto coords = ExportCoordinatesFromString(args.coords);
   if (!coords) {
-    throw InvalidArgument("--coords '" + args.coords + "': expected " +
-                          JoinAlternatives(NamesOf({ExportCoordinates::kThetaPhi,
-                                                    ExportCoordinates::kAzimuthElevation})));
+    BadOption("--coords", "'" + args.coords + "'",
+              JoinAlternatives(
+                  NamesOf({ExportCoordinates::kThetaPhi, ExportCoordinates::kAzimuthElevation})));
   }
   table.coordinates = *coords;
   const std::optional<PolarizationReference> fixed = ParseReference(args.reference);
@@ -71,20 +71,21 @@ void RunExport(const ExportArgs& args) {
   if (!args.cut.empty()) {
     std::string why;
     cut = ParseCutSpec(args.cut, &why);
-    if (!cut) throw InvalidArgument("--cut: " + why);
+    if (!cut) {
+      const std::size_t e = why.find("expected ");
+      BadOption("--cut", "'" + args.cut + "'", e == std::string::npos ? why : why.substr(e + 9));
+    }
   }
   if (args.step_given && !(cut && cut->kind == CutSpec::Kind::kGreatCircle)) {
-    RefuseOption("--step",
-                 std::string("it with ") +
-                     (cut ? "--cut " + args.cut + " (a cut on the stored grid's own spacing)"
-                      : !args.at.empty() ? "--at (one direction)"
-                                         : "the whole grid"),
-                 "--step only with --cut great-circle:THETA,PHI,HEADING");
+    BadOption("--step",
+              std::string("it with ") +
+                  (cut ? "--cut " + args.cut + " (a cut on the stored grid's own spacing)"
+                   : !args.at.empty() ? "--at (one direction)"
+                                      : "the whole grid"),
+              "--step only with --cut great-circle:THETA,PHI,HEADING");
   }
   if (!(args.step_deg > 0 && args.step_deg <= 90)) {
-    char found[32];
-    std::snprintf(found, sizeof found, "%g", args.step_deg);
-    throw InvalidArgument(std::string("--step ") + found + " deg: expected 0 < step <= 90 deg");
+    BadOption("--step", FormatBound(args.step_deg) + " deg", "0 < step <= 90 deg");
   }
   std::optional<std::pair<double, double>> at;
   const bool az_el = table.coordinates == ExportCoordinates::kAzimuthElevation;
@@ -94,15 +95,16 @@ void RunExport(const ExportArgs& args) {
         az_el ? "AZIMUTH,ELEVATION in deg (with --coords az-el)" : "THETA,PHI in deg");
     if (az_el) {
       if (!(d.second >= -90 && d.second <= 90)) {
-        throw InvalidArgument("--at '" + args.at + "': elevation must be within -90..90 deg");
+        BadOption("--at", "'" + args.at + "'", "an elevation within -90 .. 90 deg");
       }
       d = {90.0 - d.second, d.first};
     } else if (!(d.first >= 0 && d.first <= 180)) {
-      throw InvalidArgument("--at '" + args.at + "': theta must be within 0..180 deg");
+      BadOption("--at", "'" + args.at + "'", "a theta within 0 .. 180 deg");
     }
     at = d;
   }
 
+  RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult stored = ReadResult(args.input);
   table.reference = fixed ? *fixed : AutoReference(stored.result);
   table.radiated_power_w = stored.result.radiated_power_w;

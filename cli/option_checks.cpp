@@ -159,9 +159,8 @@ CLI::Validator ExistingInput(const std::string& what) {
         std::error_code ec;
         const auto status = std::filesystem::status(path, ec);
         if (path == kStdout) {
-          return "found '-', expected " + what +
-                 " by name (lobecast does not read input from "
-                 "standard input)";
+          return "found '-', expected the name of " + what +
+                 " (lobecast does not read from standard input)";
         }
         if (!std::filesystem::exists(status)) {
           return "found " + Quoted(path) + ", which does not exist; expected " + what;
@@ -237,8 +236,22 @@ std::string FailureMessage(const CLI::App* app, const CLI::Error& e) {
   return "lobecast: " + text + "\n";
 }
 
-void RefuseOption(const std::string& option, const std::string& found,
-                  const std::string& expected) {
+void PrintWarnings(const std::vector<std::string>& warnings) {
+  for (const std::string& w : warnings) std::fprintf(stderr, "lobecast: %s\n", w.c_str());
+}
+
+void RefuseInputAsOutput(const std::string& option, const std::string& output,
+                         const std::string& input) {
+  std::error_code ec;
+  if (output.empty() || output == kStdout || !std::filesystem::equivalent(output, input, ec) ||
+      ec) {
+    return;
+  }
+  BadOption(option, Quoted(output) + ", the input file itself",
+            "another file name (the input is never overwritten)");
+}
+
+void BadOption(const std::string& option, const std::string& found, const std::string& expected) {
   throw InputError(SourceLocation{option}, "found " + found + ", expected " + expected);
 }
 

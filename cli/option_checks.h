@@ -43,13 +43,21 @@ CLI::Validator BinaryOutput(const std::string& kind);
 // A folder for several output files (--plots).
 CLI::Validator OutputFolder();
 
+// Refuses (BadOption) an output `option` naming the same file as the input `input`
+// (`export r.h5 -o r.h5` would replace the result with its own table).
+void RefuseInputAsOutput(const std::string& option, const std::string& output,
+                         const std::string& input);
+
+// Warnings (input warnings, skipped steps) on stderr, each one line "lobecast: ...".
+void PrintWarnings(const std::vector<std::string>& warnings);
+
 // The failure-message hook: `lobecast: COMMAND: what was found, expected what`,
 // one line, for every CLI11 parse error (help and version are not failures).
 std::string FailureMessage(const CLI::App* app, const CLI::Error& e);
 
-// An option given that does not apply to what was asked: InputError (exit 2)
-// "option OPTION: found it with WHY, expected REMEDY".
-[[noreturn]] void RefuseOption(const std::string& option, const std::string& why,
-                               const std::string& remedy);
+// A bad option value, or an option that does not apply to what was asked:
+// InputError (exit 2), "OPTION: found FOUND, expected EXPECTED".
+[[noreturn]] void BadOption(const std::string& option, const std::string& why,
+                            const std::string& remedy);
 
 }  // namespace lobecast::cli

@@ -47,31 +47,31 @@ void RefuseInapplicable(const PlotArgs& a, plot::PlotKind kind) {
   const bool cut = kind == plot::PlotKind::kPolar || kind == plot::PlotKind::kCartesian;
   const std::string with = "it with --kind " + a.kind;
   if (!cut && Given(a, "--cut")) {
-    RefuseOption("--cut", with + " (a map shows the whole grid)",
-                 "--cut only with --kind polar or cartesian");
+    BadOption("--cut", with + " (a map shows the whole grid)",
+              "--cut only with --kind polar or cartesian");
   }
   if (cut && Given(a, "--projection")) {
-    RefuseOption("--projection", with + " (a cut has no projection)",
-                 "--projection only with --kind map or polarization");
+    BadOption("--projection", with + " (a cut has no projection)",
+              "--projection only with --kind map or polarization");
   }
   if (kind != plot::PlotKind::kMap && Given(a, "--contour-db")) {
-    RefuseOption("--contour-db", with, "--contour-db only with --kind map");
+    BadOption("--contour-db", with, "--contour-db only with --kind map");
   }
   if (kind != plot::PlotKind::kPolarization && Given(a, "--ar-max-db")) {
-    RefuseOption("--ar-max-db", with, "--ar-max-db only with --kind polarization");
+    BadOption("--ar-max-db", with, "--ar-max-db only with --kind polarization");
   }
   if (kind == plot::PlotKind::kPolarization) {
     for (const char* o : {"--quantity", "--normalize"}) {
       if (Given(a, o)) {
-        RefuseOption(o, with + " (it maps axial ratio and sense, not a level)",
-                     std::string(o) + " only with --kind polar, cartesian or map");
+        BadOption(o, with + " (it maps axial ratio and sense, not a level)",
+                  std::string(o) + " only with --kind polar, cartesian or map");
       }
     }
   }
 }
 
 [[noreturn]] void Bad(const char* option, const std::string& found, const std::string& expected) {
-  throw InputError(SourceLocation{option}, "found '" + found + "', expected " + expected);
+  BadOption(option, "'" + found + "'", expected);
 }
 
 plot::PlotOptions ToOptions(const PlotArgs& a) {
@@ -139,6 +139,7 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
 
 void RunPlot(const PlotArgs& args) {
   const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
+  RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult result = ReadResult(args.input);
   plot::WritePlot(result, options, args.output);
 }

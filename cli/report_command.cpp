@@ -41,6 +41,7 @@ struct ReportArgs {
 };
 
 void RunReport(const ReportArgs& args) {
+  RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult stored = ReadResult(args.input);
   const std::optional<StoredAnalysis> saved = ReadAnalysis(args.input);
 
@@ -56,14 +57,21 @@ void RunReport(const ReportArgs& args) {
   } else if (!saved) {
     options.reference = AutoReference(stored.result);
   }
+  for (const auto& [option, value] :
+       {std::pair{"--side-lobe-threshold", args.side_lobe_threshold_db},
+        std::pair{"--null-threshold", args.null_threshold_db}}) {
+    if (value && !(std::isfinite(*value) && *value < 0)) {
+      BadOption(option, FormatBound(*value) + " dB", "a level below 0 dB (re the peak), e.g. -30");
+    }
+  }
   if (args.side_lobe_threshold_db)
     set(options.side_lobe_threshold_db, *args.side_lobe_threshold_db);
   if (args.null_threshold_db) set(options.null_threshold_db, *args.null_threshold_db);
   if (!args.null_field.empty()) {
     const auto f = NullFieldFromString(args.null_field);
     if (!f) {
-      throw InvalidArgument("--null-field '" + args.null_field + "': expected " +
-                            JoinAlternatives(NamesOf({NullField::kTotal, NullField::kCoPolar})));
+      BadOption("--null-field", "'" + args.null_field + "'",
+                JoinAlternatives(NamesOf({NullField::kTotal, NullField::kCoPolar})));
     }
     set(options.null_field, *f);
   }
@@ -72,7 +80,7 @@ void RunReport(const ReportArgs& args) {
     for (const std::string& t : args.toward) {
       const auto d = ParseAnglePair(t, "--toward", "THETA,PHI in deg, e.g. 90,45");
       if (!(d.first >= 0 && d.first <= 180)) {
-        throw InvalidArgument("--toward '" + t + "': theta must be within 0..180 deg");
+        BadOption("--toward", "'" + t + "'", "a theta within 0 .. 180 deg");
       }
       dirs.push_back(d);
     }

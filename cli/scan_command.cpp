@@ -42,12 +42,16 @@ void RunScan(const ScanArgs& args) {
         SourceLocation{"--plot"},
         "found '" + args.plot + "', expected a file name ending in .png, .svg or .pdf");
   }
-  ArrayDescription desc = ReadArrayDescription(args.input);
-  for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
-  if (!(args.step_deg > 0) || args.theta_stop_deg < args.theta_start_deg) {
-    throw InvalidArgument(
-        "--theta-start, --theta-stop, --step: expected start <= stop and a step > 0 (deg)");
+  if (args.theta_stop_deg < args.theta_start_deg) {
+    BadOption("--theta-stop",
+              FormatBound(args.theta_stop_deg) + " deg, below --theta-start " +
+                  FormatBound(args.theta_start_deg) + " deg",
+              "--theta-start <= --theta-stop");
   }
+  RefuseInputAsOutput("--output", args.output, args.input);
+  RefuseInputAsOutput("--plot", args.plot, args.input);
+  ArrayDescription desc = ReadArrayDescription(args.input);
+  PrintWarnings(desc.warnings);
   // The file's own circuit, solved once: Z with every element's self reactance (the
   // scan impedance is each element's input impedance, so none may be unknown) and
   // the currents whose magnitudes are the taper.

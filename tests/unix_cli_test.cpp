@@ -81,6 +81,11 @@ TEST(UnixCli, MisuseGetsOneLineTheRightCodeAndWritesNothing) {
   std::ofstream(in / "semicolon.csv") << "x;y;z;ux;uy;uz;length;magnitude;phase\n"
                                          "0;0;0;0;0;1;0,01;1;0\n";
   std::ofstream(in / "semicolon.toml") << "frequency = 1e8\ndipoles_csv = \"semicolon.csv\"\n";
+  // A copy of an array, for the case that names it as its own output.
+  fs::copy_file(std::string(LOBECAST_SAMPLES) + "/single-dipole.toml", in / "copy.toml",
+                fs::copy_options::overwrite_existing);
+  const std::string copy_before = testing::ReadFile(in / "copy.toml");
+  const std::string result_before = testing::ReadFile(Result());
 
   const fs::path out = Work("out");  // every case would write here; it must stay empty
   fs::remove_all(out);
@@ -138,6 +143,16 @@ TEST(UnixCli, MisuseGetsOneLineTheRightCodeAndWritesNothing) {
       {"export " + result + " --cut phi=0 --at 10,20", 2, "--cut: found together with --at"},
       {"export " + result + " --format xlsx", 2, "--format: found 'xlsx', expected csv or tsv"},
       {"report " + result + " --reference z", 2, "expected x, y, rhcp, lhcp or auto"},
+      {"report " + result + " --toward 1", 2, "--toward: found '1', expected THETA,PHI in deg"},
+      {"report " + result + " --null-threshold 5", 2,
+       "--null-threshold: found 5 dB, expected a level below 0 dB"},
+      {"scan " + Sample("parasitic-beacon.toml") + " --theta-start 50 --theta-stop 10", 2,
+       "--theta-stop: found 10 deg, below --theta-start 50 deg"},
+      // an output that names the input is refused, never written over it
+      {"compute " + Quote(in / "copy.toml") + " -o " + Quote(in / "copy.toml"), 2,
+       "the input file itself"},
+      {"export " + result + " -o " + result, 2, "--output: found '" + Result() + "', the input"},
+      {"report " + result + " -o " + result, 2, "the input file itself"},
   };
   for (const Case& c : cases) {
     const Outcome r = Lobecast(c.args);
@@ -153,6 +168,8 @@ TEST(UnixCli, MisuseGetsOneLineTheRightCodeAndWritesNothing) {
     fs::remove_all(out);
     fs::create_directories(out);
   }
+  EXPECT_EQ(testing::ReadFile(in / "copy.toml"), copy_before);
+  EXPECT_EQ(testing::ReadFile(Result()), result_before);
 }
 
 // A failure while running (here: a folder the user may not write) is exit 1, with
