@@ -18,6 +18,12 @@ namespace {
 
 std::string Quoted(const std::string& s) { return "'" + s + "'"; }
 
+std::string Joined(const std::vector<std::string>& names, const std::string& sep) {
+  std::string out;
+  for (const std::string& n : names) out += (out.empty() ? "" : sep) + n;
+  return out;
+}
+
 bool StartsWith(const std::string& s, const std::string& prefix) {
   return s.compare(0, prefix.size(), prefix) == 0;
 }
@@ -118,7 +124,7 @@ CLI::Validator NumberIn(double lo, double hi, const std::string& unit) {
         if (!(*v >= lo && *v <= hi)) return "found " + text + ", expected a number in " + range;
         return "";
       },
-      "NUMBER in " + range, "NumberIn");
+      "[" + range + "]", "NumberIn");
 }
 
 CLI::Validator WholeNumberAtLeast(long lo, const std::string& meaning) {
@@ -150,7 +156,7 @@ CLI::Validator OneOf(std::vector<std::string> names, bool ignore_case) {
         }
         return "found " + Quoted(text) + ", expected " + expected;
       },
-      "{" + expected + "}", "OneOf");
+      "{" + Joined(names, "|") + "}", "OneOf");
 }
 
 CLI::Validator ExistingInput(const std::string& what) {

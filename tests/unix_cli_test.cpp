@@ -81,6 +81,7 @@ TEST(UnixCli, MisuseGetsOneLineTheRightCodeAndWritesNothing) {
   std::ofstream(in / "semicolon.csv") << "x;y;z;ux;uy;uz;length;magnitude;phase\n"
                                          "0;0;0;0;0;1;0,01;1;0\n";
   std::ofstream(in / "semicolon.toml") << "frequency = 1e8\ndipoles_csv = \"semicolon.csv\"\n";
+  std::ofstream(in / "h5-table.toml") << "frequency = 1e8\ndipoles_csv = \"single.h5\"\n";
   // A copy of an array, for the case that names it as its own output.
   fs::copy_file(std::string(LOBECAST_SAMPLES) + "/single-dipole.toml", in / "copy.toml",
                 fs::copy_options::overwrite_existing);
@@ -122,6 +123,8 @@ TEST(UnixCli, MisuseGetsOneLineTheRightCodeAndWritesNothing) {
        "not a complete lobecast result: the root attribute format is"},
       {"report " + array, 2, "not an HDF5 file"},
       {"compute " + Quote(in / "semicolon.toml") + o, 2, "cells separated by ';'"},
+      {"check " + Quote(in / "h5-table.toml"), 2,
+       "key 'dipoles_csv': found \"single.h5\", an HDF5"},
       // outputs: '-' only for text, folders never created
       {"compute " + array + " -o -", 2, "an HDF5 result is binary"},
       {"plot " + result + " -o -", 2, "an image is binary"},

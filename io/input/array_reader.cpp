@@ -442,6 +442,11 @@ class Reader : private TomlValues {
       throw InputError(At(n), "dipoles_csv", Quoted(name) + " (" + path + ": " + why + ")",
                        "a readable CSV file, relative to the TOML file's directory");
     }
+    if (IsHdf5(*text)) {
+      throw InputError(At(n), "dipoles_csv", Quoted(name) + ", an HDF5 file (a lobecast result?)",
+                       "a CSV element table (header x, y, z, ux, uy, uz, length, magnitude, "
+                       "phase)");
+    }
     const std::size_t first = out.array.dipoles.size();
     std::vector<CsvDipole> rows = ParseCsvDipoles(*text, path, scale_, first);
     for (std::size_t i = 0; i < rows.size(); ++i) {
@@ -504,9 +509,7 @@ ArrayDescription ReadArrayDescription(const std::string& path) {
   const auto text = ReadTextFile(path, &why);
   if (!text)
     throw InputError(SourceLocation{path, 0, 0}, "cannot read the array description: " + why);
-  // The 8-byte signature every HDF5 file starts with (HDF5 File Format
-  // Specification, "Format Signature"): a result given where the array belongs.
-  if (std::string_view(*text).substr(0, 8) == std::string_view("\x89HDF\r\n\x1a\n", 8)) {
+  if (IsHdf5(*text)) {
     throw InputError(SourceLocation{path, 0, 0},
                      "found an HDF5 file (a lobecast result?), expected an array description "
                      "(TOML); a result is read by 'lobecast report', 'export' and 'plot'");
