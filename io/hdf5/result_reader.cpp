@@ -84,8 +84,11 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     throw NotAResultError(path,
                           std::string(kIncompleteResult) + "the root attribute format is " +
                               (format.empty() ? std::string("missing") : "\"" + format + "\"") +
-                              ", expected \"" + std::string(kResultFormat) +
-                              "\" (not a lobecast result file: another program's HDF5?)");
+                              ", expected \"" + std::string(kResultFormat) + "\" (" +
+                              (format.starts_with("lobecast.")
+                                   ? "another lobecast output, not a lobecast result file"
+                                   : "not a lobecast result file: another program's HDF5?") +
+                              ")");
   }
   const std::int64_t version = hdf5::ReadIntAttribute(root, S(schema::kFormatVersionAttribute));
   if (version > kResultFormatVersion) {
