@@ -60,6 +60,21 @@ void RefuseInapplicable(const PlotArgs& a, plot::PlotKind kind) {
   if (kind != plot::PlotKind::kPolarization && Given(a, "--ar-max-db")) {
     BadOption("--ar-max-db", with, "--ar-max-db only with --kind polarization");
   }
+  if (Given(a, "--reference")) {
+    const auto q = plot::QuantityFromString(a.quantity);
+    const bool co_cross = q && (*q == plot::Quantity::kCo || *q == plot::Quantity::kCross);
+    if (kind == plot::PlotKind::kPolarization) {
+      BadOption("--reference", with + " (axial ratio and sense need no reference)",
+                "--reference only with co/cross levels");
+    }
+    if (Given(a, "--quantity") ? (q && !co_cross) : kind == plot::PlotKind::kMap) {
+      BadOption("--reference",
+                "it with --quantity " +
+                    (a.quantity.empty() ? "directivity (the map's default)" : a.quantity),
+                "--reference only with --quantity co or cross (or a cut, where it selects "
+                "them)");
+    }
+  }
   if (kind == plot::PlotKind::kPolarization) {
     for (const char* o : {"--quantity", "--normalize"}) {
       if (Given(a, o)) {

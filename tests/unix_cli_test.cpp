@@ -139,6 +139,8 @@ TEST(UnixCli, MisuseGetsOneLineTheRightCodeAndWritesNothing) {
        "--cut: found it with --kind map"},
       {"plot " + result + " --projection uv -o " + Quote(out / "m.png"), 2,
        "--projection: found it with --kind polar"},
+      {"plot " + result + " --kind map --reference x -o " + Quote(out / "m.png"), 2,
+       "--reference: found it with --quantity directivity (the map's default)"},
       {"export " + result + " --cut phi=0 --step 2 -o " + Quote(out / "t.csv"), 2,
        "--step: found it with --cut phi=0"},
       {"export " + result + " --step 2 -o " + Quote(out / "t.csv"), 2,
