@@ -170,6 +170,7 @@ TEST(UnixCli, MisuseGetsOneLineTheRightCodeAndWritesNothing) {
     }
     EXPECT_EQ(r.out, "") << c.args;
     EXPECT_TRUE(fs::is_empty(out)) << c.args << ": wrote " << fs::directory_iterator(out)->path();
+    EXPECT_TRUE(fs::is_empty(Work("cwd"))) << c.args << ": wrote into the working folder";
     fs::remove_all(out);
     fs::create_directories(out);
   }
