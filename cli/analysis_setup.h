@@ -25,12 +25,12 @@ std::vector<std::string> PolarizationReferenceNames();
 // What --reference accepts: those, then "auto".
 std::vector<std::string> ReferenceNames();
 
-// "auto" -> std::nullopt (resolve with AutoReference); throws InvalidArgument for an
-// unknown name.
+// "auto" -> std::nullopt (resolve with AutoReference); throws BadOption's InputError
+// for an unknown name.
 std::optional<PolarizationReference> ParseReference(std::string_view text);
 
 // "A,B" (two decimal numbers, spaces allowed) for the option named `option`;
-// throws InvalidArgument naming the option, what was found and what was expected.
+// throws BadOption's InputError naming the option, what was found and what was expected.
 std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,
                                          std::string_view expected);
 

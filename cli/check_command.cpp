@@ -4,6 +4,7 @@
 #include <string>
 
 #include "cli/commands.h"
+#include "cli/option_checks.h"
 #include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
 #include "io/input/array_reader.h"
@@ -16,6 +17,7 @@ namespace lobecast::cli {
 
 void AddCheckCommand(CLI::App& app) {
   auto input = std::make_shared<std::string>();
+  auto quiet = std::make_shared<bool>(false);
   CLI::App* cmd = app.add_subcommand(
       "check",
       "Read and validate an array description and describe it (frequency in Hz, "
@@ -24,19 +26,24 @@ void AddCheckCommand(CLI::App& app) {
   cmd->add_option("ARRAY", *input,
                   "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()
-      ->check(CLI::ExistingFile);
-  cmd->callback([input] {
+      ->check(ExistingInput("an array description (TOML)"));
+  cmd->add_flag("-q,--quiet", *quiet,
+                "Print nothing but warnings and errors: the exit code alone says valid (0) or "
+                "rejected (2)");
+  cmd->callback([input, quiet] {
     ArrayDescription desc = ReadArrayDescription(*input);
-    for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+    PrintWarnings(desc.warnings);
     // Driven and loaded dipoles: the table shows the currents the circuit gives.
     const auto coupling = SolveArrayCircuit(desc, 0);
+    // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
+    // currents that cancel or overflow before anyone waits for a compute; before
+    // printing, so a rejected array prints nothing on stdout.
+    const StreamedPower p = RadiatedPowerStreamed(desc.array, desc.currents);
+    CheckRadiatedPower(p.radiated_power_w);
+    if (*quiet) return;
     std::fputs(text::DescribeArray(desc).c_str(), stdout);
     std::fputs(text::DescribeDesign(desc).c_str(), stdout);  // empty unless a design file
     if (coupling) std::fputs(text::DescribeCoupling(*coupling, desc.ports, 0.0).c_str(), stdout);
-    // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
-    // currents that cancel or overflow before anyone waits for a compute.
-    const StreamedPower p = RadiatedPowerStreamed(desc.array, desc.currents);
-    CheckRadiatedPower(p.radiated_power_w);
     std::fputs(text::PowerLine(desc, p.radiated_power_w).c_str(), stdout);
     std::printf("ok           %s is a valid array description\n", input->c_str());
   });

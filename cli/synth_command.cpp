@@ -1,20 +1,20 @@
 // `lobecast synth DESIGN.toml -o ARRAY.toml`: generate a design's elements and
 // currents and write them as an explicit, commented array description (a CSV
 // element table beside it for large arrays), so every result stays reproducible.
-#include <unistd.h>
 
 #include <cstdio>
 #include <filesystem>
-#include <fstream>
 #include <memory>
 #include <string>
 #include <system_error>
 
 #include "cli/commands.h"
-#include "cli/output_path.h"
+#include "cli/option_checks.h"
+#include "cli/text_output.h"
 #include "io/input/array_reader.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
+#include "io/output_file.h"
 #include "io/text/design_text.h"
 
 namespace lobecast::cli {
@@ -26,29 +26,6 @@ struct SynthArgs {
   bool quiet = false;
 };
 
-// Writes `text` to a temporary beside `path`; the caller renames it into place.
-std::string WriteTemporary(const std::string& path, const std::string& text) {
-  const std::string tmp = path + ".tmp-" + std::to_string(::getpid());
-  std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
-  out << text;
-  out.close();
-  if (!out) {
-    std::error_code ec;
-    std::filesystem::remove(tmp, ec);
-    throw IoError(path, "could not write the file");
-  }
-  return tmp;
-}
-
-void MoveIntoPlace(const std::string& tmp, const std::string& path) {
-  std::error_code ec;
-  std::filesystem::rename(tmp, path, ec);
-  if (ec) {
-    std::filesystem::remove(tmp, ec);
-    throw IoError(path, "could not write the file: " + ec.message());
-  }
-}
-
 void RunSynth(const SynthArgs& args) {
   const ArrayDescription desc = ReadArrayDescription(args.input);
   if (!desc.design) {
@@ -56,29 +33,42 @@ void RunSynth(const SynthArgs& args) {
                      "a design file ([lattice], [element], optional [taper] and [steer]); an "
                      "array description is already explicit");
   }
-  for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+  PrintWarnings(desc.warnings);
 
+  const bool csv = text::WritesCsv(desc);
+  if (csv && IsStdout(args.output)) {
+    BadOption("-o", "'-' (standard output) for " + std::to_string(desc.array.size()) + " dipoles",
+              "a file name: above " + std::to_string(text::kCsvThreshold) +
+                  " dipoles the elements go to a CSV table beside the array description");
+  }
   const std::filesystem::path out_path(args.output);
   const std::string csv_name = out_path.stem().string() + ".csv";
   const std::string csv_path = (out_path.parent_path() / csv_name).string();
-  const bool csv = text::WritesCsv(desc);
   if (csv) RequireReplaceable(csv_path);
   const text::ArrayFileText files = text::ArrayFile(desc, csv ? csv_name : "");
+  const auto put = [](const std::string& text) {
+    return [&text](std::ostream& out) { out << text; };
+  };
+  if (IsStdout(args.output)) {
+    WriteText(args.output, "the array description", put(files.toml));
+    return;  // standard output carries the array; the summary would corrupt it
+  }
 
-  // Both files complete before either is renamed into place.
-  const std::string toml_tmp = WriteTemporary(args.output, files.toml);
+  // Both files complete before either is moved into place.
+  const std::string toml_tmp =
+      WriteTemporaryText(args.output, "the array description", put(files.toml));
   if (csv) {
     std::string csv_tmp;
     try {
-      csv_tmp = WriteTemporary(csv_path, files.csv);
+      csv_tmp = WriteTemporaryText(csv_path, "the element table", put(files.csv));
     } catch (...) {
       std::error_code ec;
       std::filesystem::remove(toml_tmp, ec);
       throw;
     }
-    MoveIntoPlace(csv_tmp, csv_path);
+    MoveIntoPlace(csv_tmp, csv_path, "the element table");
   }
-  MoveIntoPlace(toml_tmp, args.output);
+  MoveIntoPlace(toml_tmp, args.output, "the array description");
 
   if (!args.quiet) {
     std::fputs(text::DescribeDesign(desc).c_str(), stdout);
@@ -103,12 +93,12 @@ void AddSynthCommand(CLI::App& app) {
           " dipoles the elements go to a CSV table beside it (ARRAY's name with .csv).");
   cmd->add_option("DESIGN", args->input, "Design file (TOML with a [lattice] table)")
       ->required()
-      ->check(CLI::ExistingFile);
+      ->check(ExistingInput("a design file (TOML)"));
   cmd->add_option("-o,--output", args->output,
-                  "Array description to write (TOML). Written atomically: a rejected design "
-                  "writes nothing.")
+                  "Array description to write (TOML; '-' for standard output when no CSV "
+                  "table is needed). Written atomically: a rejected design writes nothing.")
       ->required()
-      ->check(OutputFileInExistingFolder());
+      ->check(TextOutput());
   cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
   cmd->callback([args] { RunSynth(*args); });
 }

@@ -590,6 +590,7 @@ TEST(PlotCli, BadOptionsExitWith2AndWriteNothing) {
 TEST(PlotCli, ComputeWritesTheStandardSet) {
   const fs::path dir = WorkDir() / "standard-set";
   fs::remove_all(dir);
+  fs::create_directories(dir);  // lobecast does not create folders (tests/unix_cli_test.cpp)
   const fs::path h5 = WorkDir() / "broadside-standard.h5";
   std::string err;
   ASSERT_EQ(RunCli("compute " + Quote(fs::path(LOBECAST_SAMPLES) / "broadside-line-8.toml") +

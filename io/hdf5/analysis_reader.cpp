@@ -153,8 +153,7 @@ std::optional<StoredAnalysis> ReadAnalysis(const std::string& path) {
     }
     return out;
   } catch (const IoError& e) {
-    if (e.path() == path) throw;
-    throw IoError(path, e.detail());
+    throw NotAResultError(path, std::string(kIncompleteResult) + e.detail());
   }
 }
 

@@ -6,6 +6,7 @@
 #include <filesystem>
 #include <initializer_list>
 #include <optional>
+#include <string_view>
 #include <utility>
 #include <vector>
 
@@ -448,6 +449,11 @@ class Reader : private TomlValues {
       throw InputError(At(n), "dipoles_csv", Quoted(name) + " (" + path + ": " + why + ")",
                        "a readable CSV file, relative to the TOML file's directory");
     }
+    if (IsHdf5(*text)) {
+      throw InputError(At(n), "dipoles_csv", Quoted(name) + ", an HDF5 file (a lobecast result?)",
+                       "a CSV element table (header x, y, z, ux, uy, uz, length, magnitude, "
+                       "phase)");
+    }
     const std::size_t first = out.array.dipoles.size();
     std::vector<CsvDipole> rows = ParseCsvDipoles(*text, path, scale_, first);
     for (std::size_t i = 0; i < rows.size(); ++i) {
@@ -512,6 +518,11 @@ ArrayDescription ReadArrayDescription(const std::string& path) {
   const auto text = ReadTextFile(path, &why);
   if (!text)
     throw InputError(SourceLocation{path, 0, 0}, "cannot read the array description: " + why);
+  if (IsHdf5(*text)) {
+    throw InputError(SourceLocation{path, 0, 0},
+                     "found an HDF5 file (a lobecast result?), expected an array description "
+                     "(TOML); a result is read by 'lobecast report', 'export' and 'plot'");
+  }
   const std::string base = std::filesystem::path(path).parent_path().string();
   return ParseArrayDescription(*text, path, base);
 }
