@@ -152,6 +152,13 @@ TEST(MaxDirectivity, ConjugateGradientsAgreeWithTheDenseSolve) {
   EXPECT_LE((cg.currents_a - dense.currents_a).norm(), 1e-6 * dense.currents_a.norm());
   EXPECT_TRUE(cg.digits_is_lower_bound);
   EXPECT_LE(cg.digits_in_power, dense.digits_in_power + 1e-9);
+  // Stopped when the directivity estimate settles instead: fewer iterations, and D
+  // from below (CG's Rayleigh quotients rise monotonically to the maximum).
+  o.cg_directivity_tolerance = 1e-6;
+  const MaxDirectivityResult quick = MaximizeDirectivity(a, beam, p, o);
+  EXPECT_LT(quick.cg_iterations, cg.cg_iterations);
+  EXPECT_LE(quick.directivity, dense.directivity * (1 + 1e-12));
+  EXPECT_GT(quick.directivity, 0.99 * dense.directivity);
 }
 
 TEST(MaxDirectivity, RefusesBadInput) {

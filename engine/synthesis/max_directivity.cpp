@@ -25,6 +25,9 @@ void CheckOptions(const MaxDirectivityOptions& o) {
     m << "regularization: found " << o.regularization << "; expected a finite value >= 0";
   else if (!(o.cg_tolerance > 0 && o.cg_tolerance < 1))
     m << "cg_tolerance: found " << o.cg_tolerance << "; expected a value in (0, 1)";
+  else if (!(o.cg_directivity_tolerance >= 0 && o.cg_directivity_tolerance < 1))
+    m << "cg_directivity_tolerance: found " << o.cg_directivity_tolerance
+      << "; expected a value in [0, 1)";
   else if (o.cg_max_iterations < 1)
     m << "cg_max_iterations: found " << o.cg_max_iterations << "; expected at least 1";
   else if (o.num_threads < 0)
@@ -87,6 +90,7 @@ Solved SolveIterative(const Array& array, const Eigen::VectorXcd& b, double shif
   double rr = r.squaredNorm();
   const double stop = o.cg_tolerance * o.cg_tolerance * b.squaredNorm();
   int it = 0;
+  double estimate = 0;  // b^H x, the Rayleigh quotient up to 4 pi / eta0
   while (rr > stop && it < o.cg_max_iterations) {
     const Eigen::VectorXcd ap = apply(p);
     const double pap = p.dot(ap).real();
@@ -98,6 +102,11 @@ Solved SolveIterative(const Array& array, const Eigen::VectorXcd& b, double shif
     p = r + (rr_new / rr) * p;
     rr = rr_new;
     ++it;
+    const double next = b.dot(x).real();
+    const bool settled =
+        o.cg_directivity_tolerance > 0 && next - estimate <= o.cg_directivity_tolerance * next;
+    estimate = next;
+    if (settled) break;
   }
   out.cg_iterations = it;
   out.cg_residual_relative = std::sqrt(rr / b.squaredNorm());
