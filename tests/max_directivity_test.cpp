@@ -161,6 +161,20 @@ TEST(MaxDirectivity, ConjugateGradientsAgreeWithTheDenseSolve) {
   EXPECT_GT(quick.directivity, 0.99 * dense.directivity);
 }
 
+TEST(MaxDirectivity, VerticalDipoleOnPecGroundHasDirectivityThree) {
+  // One z dipole at h -> 0 over PEC: D = 3 toward the horizon (CONVENTIONS §1; Balanis
+  // 4th ed. sec. 4.7.2, from memory). At h = 1e-4 wavelength the image's phase differs
+  // by 2 k h ~ 1.3e-3 rad, which changes D at order (k h)^2 ~ 4e-7.
+  TestArray a;
+  a.frequency_hz = testing::kTestFrequency_hz;
+  a.ground = Ground::kPec;
+  a.Add(Vec3(0, 0, 1e-4 * a.wavelength_m()), Vec3::UnitZ(), 0.01 * a.wavelength_m(), 1.0);
+  const MaxDirectivityResult r =
+      MaximizeDirectivity(a, {kPi / 2, 0.3}, PolarizationVector::Theta());
+  EXPECT_NEAR(r.directivity, 3.0, 3e-6);
+  EXPECT_NEAR(r.sensitivity_factor, 1.0, 1e-12);  // N = 1: Ks = 1/N
+}
+
 TEST(MaxDirectivity, RefusesBadInput) {
   TestArray a;
   a.frequency_hz = testing::kTestFrequency_hz;
