@@ -72,10 +72,7 @@ TEST(Envelope, LowestSideLobeMatchesCvxopt) {
   // 10 z dipoles along x at half a wavelength, beam broadside (phi = 90 deg) in the
   // azimuth plane, main beam 70..110 deg left out; the pattern is symmetric about the
   // x axis, so phi in [0, 180] covers the plane (70..110 deg out: 81 of 361 samples).
-  TestArray a;
-  a.frequency_hz = testing::kTestFrequency_hz;
-  const double l = a.wavelength_m();
-  for (int i = 0; i < 10; ++i) a.Add(Vec3(0.5 * l * i, 0, 0), Vec3::UnitZ(), 0.02 * l, 1.0);
+  const TestArray a = testing::ZLineAlongX(10, 0.5, 0.02);
   EnvelopeProblem p;
   p.beam = {kPi / 2, kPi / 2};
   p.polarization = PolarizationVector::Theta();
@@ -131,10 +128,7 @@ TEST(Envelope, MaskNullsAndBothComponentsMatchCvxopt) {
 }
 
 TEST(Envelope, RefusesBadProblems) {
-  TestArray a;
-  a.frequency_hz = testing::kTestFrequency_hz;
-  const double l = a.wavelength_m();
-  for (int i = 0; i < 4; ++i) a.Add(Vec3(0.5 * l * i, 0, 0), Vec3::UnitZ(), 0.02 * l, 1.0);
+  const TestArray a = testing::ZLineAlongX(4, 0.5, 0.02);
   EnvelopeProblem p;
   p.beam = {kPi / 2, kPi / 2};
   EXPECT_THROW(SynthesizeEnvelope(a, p), InvalidArgument);  // no samples

@@ -66,11 +66,8 @@ TEST(MaxDirectivity, WidelySpacedElementsApproachTheSumOfElementDirectivities) {
   // coupling the maximum is the sum, 1.5 N. The coupling R_mn / R_mm = 1.5 (j0 - j1/x)
   // ~ 1.5 / x at x = k d >> 1 changes D at first order by at most sum_n |R_mn| / R_mm
   // <= (N - 1) 1.5 (1/x + 1/x^2): that is the tolerance.
-  TestArray a;
-  a.frequency_hz = testing::kTestFrequency_hz;
-  const double l = a.wavelength_m();
   const int n = 8;
-  for (int i = 0; i < n; ++i) a.Add(Vec3(40 * l * i, 0, 0), Vec3::UnitZ(), 0.01 * l, 1.0);
+  const TestArray a = testing::ZLineAlongX(n, 40, 0.01);
   const MaxDirectivityResult r =
       MaximizeDirectivity(a, {kPi / 2, kPi / 2}, PolarizationVector::Theta());
   const double x = 2 * kPi * 40;
@@ -101,11 +98,8 @@ TEST(MaxDirectivity, ShortEndfireLineIsSuperdirective) {
   // D <= L^2 + 2L (R. F. Harrington, "On the gain and beamwidth of directional
   // antennas", IRE Trans. AP-6, 1958, from memory), with L = N here. The optimum must
   // exceed N (an ordinary array's order) and stay below that bound, and be flagged.
-  TestArray a;
-  a.frequency_hz = testing::kTestFrequency_hz;
-  const double l = a.wavelength_m();
   const int n = 4;
-  for (int i = 0; i < n; ++i) a.Add(Vec3(0.1 * l * i, 0, 0), Vec3::UnitZ(), 0.01 * l, 1.0);
+  const TestArray a = testing::ZLineAlongX(n, 0.1, 0.01);
   MaxDirectivityOptions o;
   o.regularization = 0;
   const MaxDirectivityResult r =

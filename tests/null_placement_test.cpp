@@ -98,10 +98,7 @@ TEST(NullPlacement, DependentConstraintsDropOut) {
   // z dipoles along x: E_phi = 0 everywhere (CONVENTIONS §1), and the same null twice,
   // so 4 rows of A carry 1 independent constraint. The result equals the projection
   // on that one row, written out: I0 - a^H (a I0) / |a|^2.
-  TestArray a;
-  a.frequency_hz = testing::kTestFrequency_hz;
-  const double l = a.wavelength_m();
-  for (int i = 0; i < 8; ++i) a.Add(Vec3(0.5 * l * i, 0, 0), Vec3::UnitZ(), 0.02 * l, 1.0);
+  const TestArray a = testing::ZLineAlongX(8, 0.5, 0.02);
   const std::vector<double> th = {kPi / 2, kPi / 2}, ph = {60 * kDegree, 60 * kDegree};
   const NullResult r =
       PlaceNulls(a, a.currents, Directions::FromAngles(th, ph), {kPi / 2, kPi / 2});
@@ -168,10 +165,7 @@ TEST(NullPlacement, PhaseOnlyKeepsMagnitudesAndReachesTheDepth) {
   // 16 z dipoles along x, uniform and in phase (broadside, phi = 90 deg), a null at
   // phi = 60 deg in the azimuth plane (not a null of the uniform array: its nulls are
   // at cos(phi) = m / 8).
-  TestArray a;
-  a.frequency_hz = testing::kTestFrequency_hz;
-  const double l = a.wavelength_m();
-  for (int i = 0; i < 16; ++i) a.Add(Vec3(0.5 * l * i, 0, 0), Vec3::UnitZ(), 0.02 * l, 1.0);
+  const TestArray a = testing::ZLineAlongX(16, 0.5, 0.02);
   const std::vector<double> th = {kPi / 2, kPi / 2}, ph = {60 * kDegree, 135 * kDegree};
   const NullResult r =
       PlaceNullsPhaseOnly(a, a.currents, Directions::FromAngles(th, ph), {kPi / 2, kPi / 2});

@@ -11,8 +11,20 @@
 #include "engine/grid.h"
 #include "engine/power/radiated_power.h"
 #include "engine/types.h"
+#include "test_util.h"
 
 namespace lobecast::testing {
+
+// n z dipoles along x from the origin, spacing and length in wavelengths, currents 1 A,
+// at the tests' frequency (free space).
+inline TestArray ZLineAlongX(int n, double spacing_wavelengths, double length_wavelengths) {
+  TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  const double l = a.wavelength_m();
+  for (int i = 0; i < n; ++i)
+    a.Add(Vec3(spacing_wavelengths * l * i, 0, 0), Vec3::UnitZ(), length_wavelengths * l, 1.0);
+  return a;
+}
 
 // rE = (j w mu0 / 4 pi) sum_n I_n Le_n [r x (r x u_n)] exp(+j k r . r_n) and
 // r x (r x u) = r (r . u) - u, so per ampere E_theta = -c theta_hat . u_n and
