@@ -20,7 +20,8 @@ void AddCheckCommand(CLI::App& app) {
       "Read and validate an array description and describe it (frequency in Hz, "
       "wavelength in m, positions in m, currents in A peak and degrees) without computing. "
       "Exit code 0 when valid, 2 when rejected.");
-  cmd->add_option("ARRAY", *input, "Array description (TOML)")
+  cmd->add_option("ARRAY", *input,
+                  "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()
       ->check(CLI::ExistingFile);
   cmd->callback([input] {

@@ -120,7 +120,8 @@ void AddComputeCommand(CLI::App& app) {
       "Compute the far field rE (V), intensity (W/sr), directivity, polarization, radiated "
       "power (W) and resistances (ohm) of an array description on its grid, and write them "
       "to an HDF5 result file.");
-  cmd->add_option("ARRAY", args->input, "Array description (TOML)")
+  cmd->add_option("ARRAY", args->input,
+                  "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()
       ->check(CLI::ExistingFile);
   cmd->add_option("-o,--output", args->output,

@@ -27,6 +27,7 @@ int main(int argc, char** argv) {
   lobecast::cli::AddReportCommand(app);
   lobecast::cli::AddExportCommand(app);
   lobecast::cli::AddScanCommand(app);
+  lobecast::cli::AddSynthCommand(app);
 
   try {
     app.parse(argc, argv);

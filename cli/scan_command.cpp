@@ -147,7 +147,8 @@ void AddScanCommand(CLI::App& app) {
       "as taper) along the plane phi = --phi from --theta-start to --theta-stop, and print "
       "each element's active reflection coefficient |Gamma| against the reference impedance "
       "(every dipole needs a radius or a reactance).");
-  cmd->add_option("ARRAY", args->input, "Array description (TOML)")
+  cmd->add_option("ARRAY", args->input,
+                  "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()
       ->check(CLI::ExistingFile);
   cmd->add_option("-o,--output", args->output,

@@ -1,0 +1,116 @@
+// `lobecast synth DESIGN.toml -o ARRAY.toml`: generate a design's elements and
+// currents and write them as an explicit, commented array description (a CSV
+// element table beside it for large arrays), so every result stays reproducible.
+#include <unistd.h>
+
+#include <cstdio>
+#include <filesystem>
+#include <fstream>
+#include <memory>
+#include <string>
+#include <system_error>
+
+#include "cli/commands.h"
+#include "cli/output_path.h"
+#include "io/input/array_reader.h"
+#include "io/input_error.h"
+#include "io/io_error.h"
+#include "io/text/design_text.h"
+
+namespace lobecast::cli {
+namespace {
+
+struct SynthArgs {
+  std::string input;
+  std::string output;
+  bool quiet = false;
+};
+
+// Writes `text` to a temporary beside `path`; the caller renames it into place.
+std::string WriteTemporary(const std::string& path, const std::string& text) {
+  const std::string tmp = path + ".tmp-" + std::to_string(::getpid());
+  std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
+  out << text;
+  out.close();
+  if (!out) {
+    std::error_code ec;
+    std::filesystem::remove(tmp, ec);
+    throw IoError(path, "could not write the file");
+  }
+  return tmp;
+}
+
+void MoveIntoPlace(const std::string& tmp, const std::string& path) {
+  std::error_code ec;
+  std::filesystem::rename(tmp, path, ec);
+  if (ec) {
+    std::filesystem::remove(tmp, ec);
+    throw IoError(path, "could not write the file: " + ec.message());
+  }
+}
+
+void RunSynth(const SynthArgs& args) {
+  const ArrayDescription desc = ReadArrayDescription(args.input);
+  if (!desc.design) {
+    throw InputError(SourceLocation{args.input, 1, 1}, "lattice", "no [lattice] table",
+                     "a design file ([lattice], [element], optional [taper] and [steer]); an "
+                     "array description is already explicit");
+  }
+  for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+
+  const std::filesystem::path out_path(args.output);
+  const std::string csv_name = out_path.stem().string() + ".csv";
+  const std::string csv_path = (out_path.parent_path() / csv_name).string();
+  const bool csv = text::WritesCsv(desc);
+  if (csv) RequireReplaceable(csv_path);
+  const text::ArrayFileText files = text::ArrayFile(desc, csv ? csv_name : "");
+
+  // Both files complete before either is renamed into place.
+  const std::string toml_tmp = WriteTemporary(args.output, files.toml);
+  if (csv) {
+    std::string csv_tmp;
+    try {
+      csv_tmp = WriteTemporary(csv_path, files.csv);
+    } catch (...) {
+      std::error_code ec;
+      std::filesystem::remove(toml_tmp, ec);
+      throw;
+    }
+    MoveIntoPlace(csv_tmp, csv_path);
+  }
+  MoveIntoPlace(toml_tmp, args.output);
+
+  if (!args.quiet) {
+    std::fputs(text::DescribeDesign(desc).c_str(), stdout);
+    std::printf("dipoles      %zu\n", desc.array.size());
+    if (csv)
+      std::printf("wrote        %s (dipoles in %s)\n", args.output.c_str(), csv_path.c_str());
+    else
+      std::printf("wrote        %s\n", args.output.c_str());
+  }
+}
+
+}  // namespace
+
+void AddSynthCommand(CLI::App& app) {
+  auto args = std::make_shared<SynthArgs>();
+  CLI::App* cmd = app.add_subcommand(
+      "synth",
+      "Generate a design file's elements (lattice, element template, taper, steering) and "
+      "write them as an explicit, commented array description; print what was designed "
+      "(taper efficiency, steering, grating lobes). Above " +
+          std::to_string(text::kCsvThreshold) +
+          " dipoles the elements go to a CSV table beside it (ARRAY's name with .csv).");
+  cmd->add_option("DESIGN", args->input, "Design file (TOML with a [lattice] table)")
+      ->required()
+      ->check(CLI::ExistingFile);
+  cmd->add_option("-o,--output", args->output,
+                  "Array description to write (TOML). Written atomically: a rejected design "
+                  "writes nothing.")
+      ->required()
+      ->check(OutputFileInExistingFolder());
+  cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
+  cmd->callback([args] { RunSynth(*args); });
+}
+
+}  // namespace lobecast::cli
