@@ -69,12 +69,10 @@ RowSums RowFar(const Sources& s, const Dipole& m, double k) {
   return {lm * Complex(vr, vi), lm * Complex(wr, wi)};
 }
 
-}  // namespace
-
-StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
-                                    int num_threads) {
-  Validate(array);
-  ValidateCurrents(array, currents_a);
+// R I and (with_reactance) X' I, row by row; the rows run over the sources in a
+// fixed order, so the result does not depend on the thread count.
+void StreamRows(const Array& array, const Eigen::VectorXcd& currents_a, int num_threads,
+                bool with_reactance, Eigen::VectorXcd& ri, Eigen::VectorXcd& xi) {
   const double k = array.wavenumber_rad_m();
   const std::vector<Dipole> src = RadiatingSources(array);  // images after the dipoles
   Sources s;
@@ -90,7 +88,8 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   }
   const double scale = k * k * kEta0_ohm / (4.0 * kPi);
   const auto n = static_cast<std::ptrdiff_t>(array.size());
-  Eigen::VectorXcd ri(n), xi(n);  // R I and X' I
+  ri.resize(n);
+  xi.resize(n);
   const int threads = ResolveThreads(num_threads);
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 8)
   for (std::ptrdiff_t m = 0; m < n; ++m) {
@@ -104,12 +103,23 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
       if (x >= kKernelSeriesBelow) continue;
       const Complex c(s.ir[j], s.ii[j]);
       row.r_i += MutualResistance(dm, src[j], k) / scale * c;
-      if (j == static_cast<std::size_t>(m) || c == Complex(0.0)) continue;
+      if (!with_reactance || j == static_cast<std::size_t>(m) || c == Complex(0.0)) continue;
       row.x_i += MutualImpedance(dm, src[j], k).imag() / scale * c;
     }
     ri[m] = scale * row.r_i;
     xi[m] = scale * row.x_i;
   }
+}
+
+}  // namespace
+
+StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
+                                    int num_threads) {
+  Validate(array);
+  ValidateCurrents(array, currents_a);
+  const auto n = static_cast<Eigen::Index>(array.size());
+  Eigen::VectorXcd ri, xi;  // R I and X' I
+  StreamRows(array, currents_a, num_threads, true, ri, xi);
   StreamedPower out;
   // P from R alone: I^H X' I is real, so j I^H X' I adds only rounding to Re.
   out.radiated_power_w = 0.5 * currents_a.dot(ri).real();  // dot conjugates the first
@@ -121,6 +131,15 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
                                        : ((ri[m] + Complex(0.0, 1.0) * xi[m]) / i).real();
   }
   return out;
+}
+
+Eigen::VectorXcd ResistanceProductStreamed(const Array& array, const Eigen::VectorXcd& x,
+                                           int num_threads) {
+  Validate(array);
+  ValidateCurrents(array, x);
+  Eigen::VectorXcd ri, unused;
+  StreamRows(array, x, num_threads, false, ri, unused);
+  return ri;
 }
 
 }  // namespace lobecast
