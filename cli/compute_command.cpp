@@ -40,6 +40,7 @@ struct ComputeArgs {
   std::string plots_dir;           // empty: no plots
   std::string reference = "auto";  // for the stored analysis
   bool no_analysis = false;
+  std::size_t max_nulls = AnalysisOptions{}.max_nulls;
 };
 
 // RESULT defaults to the input's stem with .h5, in the current directory.
@@ -70,6 +71,7 @@ void RunCompute(const ComputeArgs& args) {
   if (!args.no_analysis) {
     const auto ref = ParseReference(args.reference);
     analysis_options.reference = ref ? *ref : AutoReference(result);
+    analysis_options.max_nulls = args.max_nulls;
     try {
       analysis = AnalyzePattern(desc.array, desc.currents, result, analysis_options);
     } catch (const InvalidArgument& e) {
@@ -152,6 +154,11 @@ void AddComputeCommand(CLI::App& app) {
   cmd->add_option("--reference", args->reference,
                   std::string(kReferenceHelp) + "; for the analysis stored in the file")
       ->check(CLI::IsMember(ReferenceNames(), CLI::ignore_case));
+  cmd->add_option("--max-nulls", args->max_nulls,
+                  "List at most N null loci in the stored analysis (cones first, then the "
+                  "deepest)")
+      ->capture_default_str()
+      ->check(CLI::Range(std::size_t{1}, std::size_t{1000000}));
   cmd->add_flag("--no-analysis", args->no_analysis,
                 "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
                 "is otherwise stored under /summary/analysis");

@@ -185,7 +185,7 @@ TEST_P(SampleResult, ReportAndExportWork) {
   ASSERT_EQ(json.exit_code, 0) << json.err;
   if (HavePython()) {
     const RunOutput py = PythonOnJson(
-        json.out, "d[\"source\"], repr(d[\"peak\"][\"directivity\"]), len(d[\"nulls\"])");
+        json.out, "d[\"source\"], repr(d[\"peak\"][\"directivity\"]), len(d[\"null_loci\"])");
     ASSERT_EQ(py.exit_code, 0) << py.out << "\n" << json.out;
     std::ostringstream expected;
     char peak[32];
@@ -373,15 +373,15 @@ TEST(Report, HertzianDipoleBeamAndNulls) {
   ASSERT_TRUE(a.has_value());
   EXPECT_NEAR(a->analysis.elevation_cut.half_power_width_deg, 90.0, 1e-4);
   EXPECT_FALSE(a->analysis.orthogonal_cut.half_power_found);
-  ASSERT_FALSE(a->analysis.nulls.empty());
-  EXPECT_TRUE(a->analysis.nulls.front().exact);
-  EXPECT_TRUE(std::isinf(a->analysis.nulls.front().level_db));
+  ASSERT_FALSE(a->analysis.null_loci.empty());
+  EXPECT_TRUE(a->analysis.null_loci.front().exact);
+  EXPECT_TRUE(std::isinf(a->analysis.null_loci.front().level_db));
   if (HavePython()) {
     const RunOutput json = Lobecast("report --json " + Quote(result));
     const RunOutput py = PythonOnJson(
         json.out,
         "d[\"elevation_plane\"][\"half_power_width_deg\"], "
-        "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"nulls\"][0][\"exact\"]");
+        "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"null_loci\"][0][\"exact\"]");
     ASSERT_EQ(py.exit_code, 0) << py.out;
     EXPECT_THAT(py.out, HasSubstr("None True"));  // an infinite width is null in JSON
     EXPECT_NEAR(std::strtod(py.out.c_str(), nullptr), 90.0, 1e-4);
@@ -405,7 +405,8 @@ TEST(Report, StoredAnalysisMatchesTheEngineAndRecomputesWhenAbsent) {
   EXPECT_EQ(s.elevation_cut.half_power_width_deg, fresh.elevation_cut.half_power_width_deg);
   EXPECT_EQ(s.orthogonal_cut.first_null_width_deg, fresh.orthogonal_cut.first_null_width_deg);
   EXPECT_EQ(s.front_to_back.ratio_db, fresh.front_to_back.ratio_db);
-  EXPECT_EQ(s.nulls.size(), fresh.nulls.size());
+  EXPECT_EQ(s.null_loci.size(), fresh.null_loci.size());
+  EXPECT_EQ(s.null_crossings.size(), fresh.null_crossings.size());
   EXPECT_EQ(s.polarization.xpd_at_peak_db, fresh.polarization.xpd_at_peak_db);
   EXPECT_EQ(s.polarization.axial_ratio_solid_angle_sr,
             fresh.polarization.axial_ratio_solid_angle_sr);

@@ -138,6 +138,8 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
   const LocalChart chart(peak);
   out.elevation_cut = AnalyzeCut(probe, peak, chart.e1(), dp, options);
   out.orthogonal_cut = AnalyzeCut(probe, peak, chart.e2(), dp, options);
+  out.elevation_cut.tangent = ToDirectionDeg(chart.e1());
+  out.orthogonal_cut.tangent = ToDirectionDeg(chart.e2());
   out.front_to_back = FrontToBackOf(probe, peak, dp, options.refine_tolerance_deg * kDegree);
 
   const GridNeighbours neighbours(grid_result.grid, array.ground);
@@ -147,9 +149,14 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
   out.side_lobes = std::move(lobes.side_lobes);
   out.side_lobes_truncated = lobes.truncated;
 
-  NullSearch nulls = FindNulls(probe, neighbours, grid_result, dp, options);
-  out.nulls = std::move(nulls.nulls);
-  out.nulls_truncated = nulls.truncated;
+  const NullSearch nulls = FindNulls(probe, neighbours, grid_result, dp, options);
+  out.null_loci = nulls.loci;
+  out.null_loci_truncated = nulls.truncated;
+  for (const bool orthogonal : {false, true}) {
+    const std::vector<NullCrossing> c = FindNullCrossings(
+        probe, nulls, peak, orthogonal ? chart.e2() : chart.e1(), orthogonal, dp, options);
+    out.null_crossings.insert(out.null_crossings.end(), c.begin(), c.end());
+  }
 
   std::vector<Vec3> prot;
   for (const auto& [t, p] : options.protected_directions_deg)
