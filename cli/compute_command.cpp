@@ -15,6 +15,7 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
+#include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
@@ -96,8 +97,10 @@ void RunCompute(const ComputeArgs& args) {
   if (!args.plots_dir.empty()) {
     // Drawn from the file just written, so the plots show exactly what it holds.
     std::vector<std::string> skipped;
-    plot::WriteStandardPlots(ReadResult(output), args.plots_dir,
-                             std::filesystem::path(output).stem().string(), &skipped);
+    const std::optional<StoredAnalysis> stored = ReadAnalysis(output);
+    plot::WriteStandardPlots(ReadResult(output), stored ? &stored->analysis : nullptr,
+                             args.plots_dir, std::filesystem::path(output).stem().string(),
+                             &skipped);
     for (const std::string& s : skipped) std::fprintf(stderr, "plot skipped: %s\n", s.c_str());
   }
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
