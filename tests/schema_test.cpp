@@ -400,9 +400,9 @@ TEST(Schema, TablesKeepTheColumnsOfVersionOne) {
   EXPECT_EQ(schema::Columns::Joined(l.units), "deg, deg, 1, dBi, dB");
   // Version 2 replaced the point nulls by null loci.
   EXPECT_EQ(schema::Columns::Joined(n.names),
-            "cone, point, axis_theta_deg, axis_phi_deg, half_angle_deg, theta_deg, phi_deg, "
-            "theta_min_deg, theta_max_deg, phi_min_deg, phi_max_deg, directivity, level_db, "
-            "exact");
+            "cone, point, axis_theta_deg, axis_phi_deg, half_angle_deg, theta_min_deg, "
+            "theta_max_deg, phi_min_deg, phi_max_deg, theta_deg, phi_deg, directivity, "
+            "level_db, exact");
   EXPECT_EQ(schema::Columns::Joined(n.units),
             "1, 1, deg, deg, deg, deg, deg, deg, deg, deg, deg, 1, dB, 1");
   EXPECT_EQ(schema::Columns::Joined(p.names),

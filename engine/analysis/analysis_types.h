@@ -148,18 +148,18 @@ struct NullLocus {
   bool point = false;
   DirectionDeg axis;  // cone only: its axis (a unit vector, written as a direction)
   double half_angle_deg = std::numeric_limits<double>::quiet_NaN();  // cone only, [0, 180]
-  // A direction on the locus: the deepest refined one (point, curve) or one of the
-  // fitted points (cone).
-  DirectionDeg direction;
   // Extent of the visible part (deg). phi_min_deg > phi_max_deg when the smallest phi
   // arc that holds it runs through phi = 0; 0 and 360 when it goes round.
   double theta_min_deg = std::numeric_limits<double>::quiet_NaN();
   double theta_max_deg = std::numeric_limits<double>::quiet_NaN();
   double phi_min_deg = std::numeric_limits<double>::quiet_NaN();
   double phi_max_deg = std::numeric_limits<double>::quiet_NaN();
-  // Depth: the refined minimum of the null field (curve, point), the largest value
-  // along the verified circle (cone). When exact (below exact_null_relative) the
-  // depth is rounding, not physics: directivity 0 and level_db -inf.
+  // A direction on the locus: the deepest refined one (point, curve) or one of the
+  // fitted points (cone).
+  DirectionDeg direction;
+  // Depth: the refined minimum of the null field (curve, point). When exact (below
+  // exact_null_relative; a verified cone always is) the depth is rounding, not
+  // physics: directivity 0 and level_db -inf.
   double directivity = 0.0;
   double level_db = 0.0;  // relative to the peak
   bool exact = false;

@@ -268,20 +268,26 @@ void VisitLobe(L& l, V& v) {
   v.Value(Field{"level_db", "dB"}, l.level_db);
 }
 
+// The columns a null locus and a null crossing end with: a direction and its depth.
+template <typename N, typename V>  // N: NullLocus or NullCrossing, const or not
+void VisitNullDepth(N& n, V& v) {
+  v.Value(Field{"", "deg"}, n.direction);
+  v.Value(Field{"directivity", "1"}, n.directivity);
+  v.Value(Field{"level_db", "dB"}, n.level_db);
+  v.Value(Field{"exact", "1"}, n.exact);
+}
+
 template <typename N, typename V>  // N: NullLocus, const or not
 void VisitNullLocus(N& n, V& v) {
   v.Value(Field{"cone", "1"}, n.cone);
   v.Value(Field{"point", "1"}, n.point);
   v.Value(Field{"axis_", "deg"}, n.axis);
   v.Value(Field{"half_angle_deg", "deg"}, n.half_angle_deg);
-  v.Value(Field{"", "deg"}, n.direction);
   v.Value(Field{"theta_min_deg", "deg"}, n.theta_min_deg);
   v.Value(Field{"theta_max_deg", "deg"}, n.theta_max_deg);
   v.Value(Field{"phi_min_deg", "deg"}, n.phi_min_deg);
   v.Value(Field{"phi_max_deg", "deg"}, n.phi_max_deg);
-  v.Value(Field{"directivity", "1"}, n.directivity);
-  v.Value(Field{"level_db", "dB"}, n.level_db);
-  v.Value(Field{"exact", "1"}, n.exact);
+  VisitNullDepth(n, v);
 }
 
 template <typename N, typename V>  // N: NullCrossing, const or not
@@ -289,10 +295,7 @@ void VisitNullCrossing(N& n, V& v) {
   v.Value(Field{"locus", "1"}, n.locus);
   v.Value(Field{"orthogonal_plane", "1"}, n.orthogonal_plane);
   v.Value(Field{"offset_deg", "deg"}, n.offset_deg);
-  v.Value(Field{"", "deg"}, n.direction);
-  v.Value(Field{"directivity", "1"}, n.directivity);
-  v.Value(Field{"level_db", "dB"}, n.level_db);
-  v.Value(Field{"exact", "1"}, n.exact);
+  VisitNullDepth(n, v);
 }
 
 template <typename P, typename V>  // P: ProtectedDirectionField, const or not
