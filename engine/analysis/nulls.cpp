@@ -428,7 +428,6 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
       continue;  // a stray of a cone's neighbourhood that refined onto it
     LocusShape shape;
     shape.points.push_back(r);
-    for (std::size_t n : set) shape.points.push_back(neighbours.direction(n));
     // Refined nulls closer than the grid spacing are the same point null.
     const bool merged = std::any_of(others.begin(), others.end(), [&](auto& o) {
       if (!o.first.point || set.size() > 2 || AngleBetween(o.second.points[0], r) > spacing)
@@ -444,20 +443,23 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     NullLocus l;
     l.direction = ToDirectionDeg(r);
     // A curve has null directions away from its deepest one: seeds spread over the
-    // set, refined, that stay below the threshold further than the grid spacing.
+    // set, refined until they settle (a seed near a point null runs into it), that end
+    // below the threshold further than the grid spacing. The locus is what is below the
+    // threshold: those points and the grid directions that are (a set screened at a
+    // higher level may join a null to a shallow trough that is no null).
+    std::vector<Vec3> below = {r};
     const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
-    for (std::size_t k = 0; k < set.size() && !l.point; k += stride) {
+    for (std::size_t k = 0; k < set.size(); k += stride) {
       Vec3 q = neighbours.direction(set[k]);
       double vq = problem.Level(q);
-      problem.Polish(&q, &vq, 2.0 * spacing);
-      if (vq < threshold && AngleBetween(q, r) > kExplainedSpacings * spacing) l.point = true;
+      problem.Polish(&q, &vq, 10.0 * spacing);
+      if (vq < threshold && AngleBetween(q, r) > kExplainedSpacings * spacing) below.push_back(q);
     }
-    l.point = !l.point;  // no distant null direction found
-    if (l.point) {
-      SetExtent({r}, &l);
-    } else {
-      SetExtent(shape.points, &l);
-    }
+    l.point = below.size() == 1;
+    for (std::size_t n : set)
+      if (node_level(n) < threshold) below.push_back(neighbours.direction(n));
+    SetExtent(l.point ? std::vector<Vec3>{r} : below, &l);
+    shape.points = below;
     problem.SetDepth(v, &l.directivity, &l.level_db, &l.exact);
     others.emplace_back(l, std::move(shape));
   }
