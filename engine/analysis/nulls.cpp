@@ -45,6 +45,8 @@ constexpr double kPointCone_rad = 1e-5;
 constexpr double kExplainedSpacings = 1.5;
 // Samples of a cone's circle for its extent (pure geometry, no field evaluations).
 constexpr int kExtentSamples = 7200;
+// Null directions of one set closer than this many grid spacings are one locus.
+constexpr double kLinkSpacings = 2.5;
 // A crossing lies on a cone when its angle from the axis is this close (rad).
 constexpr double kOnCone_rad = 1e-6;
 
@@ -426,42 +428,94 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     if (std::any_of(cones.begin(), cones.end(),
                     [&](const Cone& k) { return cone_distance(k, r) < kOnCone_rad; }))
       continue;  // a stray of a cone's neighbourhood that refined onto it
-    LocusShape shape;
-    shape.points.push_back(r);
-    // Refined nulls closer than the grid spacing are the same point null.
-    const bool merged = std::any_of(others.begin(), others.end(), [&](auto& o) {
-      if (!o.first.point || set.size() > 2 || AngleBetween(o.second.points[0], r) > spacing)
-        return false;
-      if (v < o.first.directivity / peak_directivity) {
-        o.first.direction = ToDirectionDeg(r);
-        o.second.points[0] = r;
-        problem.SetDepth(v, &o.first.directivity, &o.first.level_db, &o.first.exact);
-      }
-      return true;
-    });
-    if (merged) continue;
-    NullLocus l;
-    l.direction = ToDirectionDeg(r);
-    // A curve has null directions away from its deepest one: seeds spread over the
-    // set, refined until they settle (a seed near a point null runs into it), that end
-    // below the threshold further than the grid spacing. The locus is what is below the
-    // threshold: those points and the grid directions that are (a set screened at a
-    // higher level may join a null to a shallow trough that is no null).
-    std::vector<Vec3> below = {r};
+    // What of the set is a null: its refined deepest point, seeds spread over it and
+    // refined until they settle (a seed near a point null runs into it) that end below
+    // the threshold, and the grid directions below it. A set screened at a higher level
+    // may join separate nulls (a dipole's axis and an array-factor curve) through a
+    // trough that is no null: the members are grouped again by proximity, one locus each.
+    struct Member {
+      Vec3 r;
+      double v;
+      bool refined;
+    };
+    std::vector<Member> below = {{r, v, true}};
     const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
     for (std::size_t k = 0; k < set.size(); k += stride) {
       Vec3 q = neighbours.direction(set[k]);
       double vq = problem.Level(q);
       problem.Polish(&q, &vq, 10.0 * spacing);
-      if (vq < threshold && AngleBetween(q, r) > kExplainedSpacings * spacing) below.push_back(q);
+      const bool on_cone = std::any_of(cones.begin(), cones.end(), [&](const Cone& c) {
+        return cone_distance(c, q) < kOnCone_rad;
+      });
+      if (vq < threshold && !on_cone) below.push_back({q, vq, true});
     }
-    l.point = below.size() == 1;
-    for (std::size_t n : set)
-      if (node_level(n) < threshold) below.push_back(neighbours.direction(n));
-    SetExtent(l.point ? std::vector<Vec3>{r} : below, &l);
-    shape.points = below;
-    problem.SetDepth(v, &l.directivity, &l.level_db, &l.exact);
-    others.emplace_back(l, std::move(shape));
+    for (std::size_t n : set) {
+      const double l = node_level(n);
+      if (l < threshold) below.push_back({neighbours.direction(n), l, false});
+    }
+    std::vector<int> group(below.size(), -1);
+    int groups = 0;
+    for (std::size_t i = 0; i < below.size(); ++i) {
+      if (group[i] >= 0) continue;
+      std::vector<std::size_t> stack = {i};
+      group[i] = groups;
+      while (!stack.empty()) {
+        const std::size_t a = stack.back();
+        stack.pop_back();
+        for (std::size_t b = 0; b < below.size(); ++b) {
+          if (group[b] < 0 && AngleBetween(below[a].r, below[b].r) < kLinkSpacings * spacing) {
+            group[b] = groups;
+            stack.push_back(b);
+          }
+        }
+      }
+      ++groups;
+    }
+    for (int g = 0; g < groups; ++g) {
+      std::size_t deepest = below.size();
+      std::vector<Vec3> members;
+      std::vector<Member> refined;
+      for (std::size_t i = 0; i < below.size(); ++i) {
+        if (group[i] != g) continue;
+        members.push_back(below[i].r);
+        if (below[i].refined) refined.push_back(below[i]);
+        if (deepest == below.size() || below[i].v < below[deepest].v) deepest = i;
+      }
+      Member d = below[deepest];
+      if (!d.refined) problem.Polish(&d.r, &d.v, 10.0 * spacing);
+      if (!(d.v < threshold)) continue;
+      if (std::any_of(cones.begin(), cones.end(),
+                      [&](const Cone& k) { return cone_distance(k, d.r) < kOnCone_rad; }))
+        continue;
+      // A curve: refined nulls away from the deepest, zeros as it is when it is one
+      // (grid directions below the threshold around a point null, or a search that
+      // stalled in its shoulder, do not make it one).
+      const bool zero = d.v < kZeroRelative;
+      double reach = 0.0;
+      for (const Member& m : refined)
+        if (!zero || m.v < kZeroRelative) reach = std::max(reach, AngleBetween(m.r, d.r));
+      NullLocus l;
+      l.direction = ToDirectionDeg(d.r);
+      l.point = reach <= kExplainedSpacings * spacing;
+      // Refined point nulls closer than the grid spacing are the same null.
+      const bool merged =
+          l.point && std::any_of(others.begin(), others.end(), [&](auto& o) {
+            if (!o.first.point || AngleBetween(o.second.points[0], d.r) > spacing) return false;
+            if (d.v < o.first.directivity / peak_directivity) {
+              o.first.direction = l.direction;
+              o.second.points[0] = d.r;
+              problem.SetDepth(d.v, &o.first.directivity, &o.first.level_db, &o.first.exact);
+            }
+            return true;
+          });
+      if (merged) continue;
+      SetExtent(l.point ? std::vector<Vec3>{d.r} : members, &l);
+      problem.SetDepth(d.v, &l.directivity, &l.level_db, &l.exact);
+      LocusShape shape;
+      shape.points = {d.r};
+      shape.points.insert(shape.points.end(), members.begin(), members.end());
+      others.emplace_back(l, std::move(shape));
+    }
   }
   std::stable_sort(others.begin(), others.end(), [](const auto& a, const auto& b) {
     return a.first.directivity < b.first.directivity;
