@@ -15,6 +15,7 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
+#include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
@@ -45,6 +46,7 @@ struct ComputeArgs {
   // apply to some runs.
   bool tolerance_given = false;
   bool reference_given = false;
+  std::size_t max_nulls = AnalysisOptions{}.max_nulls;
 };
 
 // Refuses options that do not apply to what was asked (exit 2, before any work).
@@ -90,6 +92,7 @@ void RunCompute(const ComputeArgs& args) {
   if (!args.no_analysis) {
     const auto ref = ParseReference(args.reference);
     analysis_options.reference = ref ? *ref : AutoReference(result);
+    analysis_options.max_nulls = args.max_nulls;
     try {
       analysis = AnalyzePattern(desc.array, desc.currents, result, analysis_options);
     } catch (const InvalidArgument& e) {
@@ -114,8 +117,10 @@ void RunCompute(const ComputeArgs& args) {
   if (!args.plots_dir.empty()) {
     // Drawn from the file just written, so the plots show exactly what it holds.
     std::vector<std::string> skipped;
-    plot::WriteStandardPlots(ReadResult(output), args.plots_dir,
-                             std::filesystem::path(output).stem().string(), &skipped);
+    const std::optional<StoredAnalysis> stored = ReadAnalysis(output);
+    plot::WriteStandardPlots(ReadResult(output), stored ? &stored->analysis : nullptr,
+                             args.plots_dir, std::filesystem::path(output).stem().string(),
+                             &skipped);
     for (const std::string& s : skipped) PrintWarnings({"plot skipped: " + s});
   }
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
@@ -174,12 +179,19 @@ void AddComputeCommand(CLI::App& app) {
                 "Print nothing but warnings and errors (no summary, no safety line)");
   cmd->add_option("--plots", args->plots_dir,
                   "Also write a standard set of PNG plots into this folder (which must exist): "
-                  "polar cuts phi = 0 and phi = 90 deg and a theta-phi directivity map (dBi)")
+                  "polar cuts in the two principal planes of the analysis through the beam (phi = "
+                  "0 and 90 deg "
+                  "without an analysis) and a theta-phi directivity map (dBi)")
       ->check(OutputFolder());
   CLI::Option* reference =
       cmd->add_option("--reference", args->reference,
                       std::string(kReferenceHelp) + "; for the analysis stored in the file")
           ->check(OneOf(ReferenceNames(), true));
+  cmd->add_option("--max-nulls", args->max_nulls,
+                  "List at most N null loci in the stored analysis (cones first, then the "
+                  "deepest)")
+      ->capture_default_str()
+      ->check(WholeNumberAtLeast(1, "null loci"));
   cmd->add_flag("--no-analysis", args->no_analysis,
                 "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
                 "is otherwise stored under /summary/analysis");

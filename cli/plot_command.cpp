@@ -3,6 +3,7 @@
 #include <cmath>
 #include <cstdio>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -10,6 +11,8 @@
 #include "cli/commands.h"
 #include "cli/enum_names.h"
 #include "cli/option_checks.h"
+#include "engine/analysis/pattern_analysis.h"
+#include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
 #include "io/input_error.h"
 #include "io/plot/plot.h"
@@ -33,6 +36,7 @@ struct PlotArgs {
   bool quiet = false;
   // Options given on the command line, for those that apply to some kinds only.
   std::vector<std::string> given;
+  std::size_t max_nulls = AnalysisOptions{}.max_nulls;
 };
 
 bool Given(const PlotArgs& a, const std::string& option) {
@@ -100,7 +104,9 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
   o.kind = *kind;
   RefuseInapplicable(a, *kind);
   const auto cut = plot::CutSpecFromString(a.cut);
-  if (!cut) Bad("--cut", a.cut, "phi=DEG (a plane through z) or theta=DEG (a cone, 0..180)");
+  if (!cut)
+    Bad("--cut", a.cut,
+        "phi=DEG (a plane through z), theta=DEG (a cone, 0..180), elevation or orthogonal");
   o.cut = *cut;
   if (!a.quantity.empty()) {
     const auto q = plot::QuantityFromString(a.quantity);
@@ -156,7 +162,20 @@ void RunPlot(const PlotArgs& args) {
   const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
   RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult result = ReadResult(args.input);
-  plot::WritePlot(result, options, args.output);
+  // The figures drawn are the stored analysis' (what `report` prints); a result without
+  // one (older, or computed with --no-analysis) gets one with the default options.
+  std::optional<StoredAnalysis> stored = ReadAnalysis(args.input);
+  if (!stored) {
+    AnalysisOptions o;
+    o.reference = AutoReference(result.result);
+    o.max_nulls = args.max_nulls;
+    stored = StoredAnalysis{AnalyzePattern(result.array, result.currents, result.result, o), o};
+  } else if (stored->options.max_nulls != args.max_nulls) {
+    AnalysisOptions o = stored->options;
+    o.max_nulls = args.max_nulls;
+    stored->analysis = AnalyzePattern(result.array, result.currents, result.result, o);
+  }
+  plot::WritePlot(result, &stored->analysis, options, args.output);
 }
 
 }  // namespace
@@ -179,10 +198,18 @@ void AddPlotCommand(CLI::App& app) {
   cmd->add_option("-k,--kind", args->kind,
                   "polar | cartesian (a cut), map (the grid as an image) | polarization "
                   "(axial ratio and sense maps); default polar");
-  cmd->add_option("--cut", args->cut,
-                  "Cut for polar/cartesian: phi=DEG, the plane through z containing phi = DEG "
-                  "(signed theta -180..180 deg, negative on the phi + 180 side), or theta=DEG, "
-                  "the cone at that theta (against phi); must lie on the grid. Default phi=0");
+  cmd->add_option(
+      "--cut", args->cut,
+      "Cut for polar/cartesian: phi=DEG, the plane through z containing phi = DEG "
+      "(signed theta -180..180 deg, negative on the phi + 180 side), or theta=DEG, "
+      "the cone at that theta (against phi); must lie on the grid; or elevation / orthogonal, "
+      "the principal planes of the pattern analysis through the beam (exact off the "
+      "grid, against the offset from the peak). Default phi=0");
+  cmd->add_option("--max-nulls", args->max_nulls,
+                  "Mark at most N null loci of the analysis (recomputed when the stored one "
+                  "used another N)")
+      ->capture_default_str()
+      ->check(WholeNumberAtLeast(1, "null loci"));
   cmd->add_option("--quantity", args->quantity,
                   "directivity (total) | co | cross (Ludwig-3 or circular, see --reference) | "
                   "theta | phi (partial directivity of E_theta / E_phi), in dBi; cuts draw the "

@@ -34,6 +34,7 @@ struct ReportArgs {
   std::vector<std::string> toward;
   std::optional<double> side_lobe_threshold_db;
   std::optional<double> null_threshold_db;
+  std::optional<std::size_t> max_nulls;
   std::string null_field;  // empty: as stored
   bool recompute = false;
   std::string output;  // empty or "-": standard output
@@ -67,6 +68,7 @@ void RunReport(const ReportArgs& args) {
   if (args.side_lobe_threshold_db)
     set(options.side_lobe_threshold_db, *args.side_lobe_threshold_db);
   if (args.null_threshold_db) set(options.null_threshold_db, *args.null_threshold_db);
+  if (args.max_nulls) set(options.max_nulls, *args.max_nulls);
   if (!args.null_field.empty()) {
     const auto f = NullFieldFromString(args.null_field);
     if (!f) {
@@ -150,6 +152,9 @@ void AddReportCommand(CLI::App& app) {
                   "-30)");
   cmd->add_option("--null-threshold", args->null_threshold_db,
                   "List nulls below this level (dB relative to the peak; default -40)");
+  cmd->add_option("--max-nulls", args->max_nulls,
+                  "List at most N null loci (cones first, then the deepest; default 64)")
+      ->check(WholeNumberAtLeast(1, "null loci"));
   cmd->add_option("--null-field", args->null_field,
                   "Field the nulls are nulls of: total or co (co-polar for --reference)");
   cmd->add_flag("--recompute", args->recompute,

@@ -3,6 +3,7 @@
 // the off-grid refinement is what is being checked.
 #include "engine/analysis/pattern_analysis.h"
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -119,9 +120,10 @@ TEST(PatternAnalysis, HertzianDipole) {
   EXPECT_TRUE(std::isinf(r.orthogonal_cut.half_power_width_deg));
   // Symmetric pattern: the back direction has the peak directivity.
   EXPECT_NEAR(r.front_to_back.ratio_db, 0.0, 1e-9);
-  ASSERT_EQ(r.nulls.size(), 2u);
-  for (const Null& n : r.nulls) {
+  ASSERT_EQ(r.null_loci.size(), 2u);
+  for (const NullLocus& n : r.null_loci) {
     EXPECT_TRUE(n.exact);
+    EXPECT_TRUE(n.point);
     EXPECT_LT(std::min(n.direction.theta_deg, 180.0 - n.direction.theta_deg), 1e-9);
   }
   // The equator is one ring of maxima: no other lobes.
@@ -138,8 +140,9 @@ TEST(PatternAnalysis, TiltedDipoleNullsOffGrid) {
   const testing::TestArray a =
       testing::OneDipoleArray(MakeDipole(Vec3::Zero(), u, Lambda() / 100), 1.0);
   const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
-  ASSERT_EQ(r.nulls.size(), 2u);
-  for (const Null& n : r.nulls) {
+  ASSERT_EQ(r.null_loci.size(), 2u);
+  for (const NullLocus& n : r.null_loci) {
+    EXPECT_TRUE(n.point);
     const double d =
         std::min(Separation_deg(n.direction.theta_deg, n.direction.phi_deg, t0, p0),
                  Separation_deg(n.direction.theta_deg, n.direction.phi_deg, 180 - t0, p0 + 180));
@@ -227,7 +230,7 @@ TEST(PatternAnalysis, EndfirePairFrontToBack) {
   EXPECT_TRUE(std::isinf(r.front_to_back.ratio_db) && r.front_to_back.ratio_db > 0)
       << r.front_to_back.ratio_db;
   bool back_null = false;
-  for (const Null& nl : r.nulls)
+  for (const NullLocus& nl : r.null_loci)
     back_null |= Separation_deg(nl.direction.theta_deg, nl.direction.phi_deg, 90, 180) < 1e-4;
   EXPECT_TRUE(back_null);
   ASSERT_EQ(r.protected_directions.size(), 2u);
@@ -246,19 +249,127 @@ TEST(PatternAnalysis, SteeredPeakAndNullsOffGrid) {
   const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
   EXPECT_NEAR(r.peak.direction.phi_deg, phi0, 1e-4);
-  ASSERT_FALSE(r.nulls.empty());
+  ASSERT_FALSE(r.null_loci.empty());
   const double kd = 2 * kPi / Lambda() * d;
-  for (const Null& nl : r.nulls) {
-    const double st = std::sin(nl.direction.theta_deg * kDegree);
-    if (st < 1e-9) continue;  // the element's own null on the z axis
-    const double c = st * std::cos(nl.direction.phi_deg * kDegree);  // cos(angle from x)
-    // The nearest zero cone, and the angular distance to it.
+  int cones = 0;
+  for (const NullLocus& nl : r.null_loci) {
+    if (!nl.cone) {
+      // The element's own nulls on the z axis.
+      EXPECT_LT(std::sin(nl.direction.theta_deg * kDegree), 1e-9);
+      continue;
+    }
+    ++cones;
+    // A cone about the line's axis (x), at a zero of the array factor.
+    EXPECT_LT(Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 0), 1e-9);
+    const double c = std::cos(nl.half_angle_deg * kDegree);
     const double m = std::round(kd * (c - std::cos(phi0 * kDegree)) * n / (2 * kPi));
     const double c_zero = std::cos(phi0 * kDegree) + 2 * kPi * m / (n * kd);
     EXPECT_NE(std::fmod(m, n), 0.0);
-    EXPECT_LT(std::abs(std::acos(c) - std::acos(c_zero)) / kDegree, 1e-4)
-        << "null at " << nl.direction.theta_deg << ", " << nl.direction.phi_deg;
+    EXPECT_NEAR(nl.half_angle_deg, std::acos(c_zero) / kDegree, 1e-6) << "m = " << m;
+    EXPECT_TRUE(nl.exact);
   }
+  // u = kd (c - cos phi0) covers [-kd (1 + cos phi0), kd (1 - cos phi0)]: every 2 pi m / N
+  // inside it (m not a multiple of N) is one cone.
+  int expected = 0;
+  for (int m = -3 * n; m <= 3 * n; ++m) {
+    const double c = std::cos(phi0 * kDegree) + 2 * kPi * m / (n * kd);
+    if (m % n != 0 && std::abs(c) < 1.0) ++expected;
+  }
+  EXPECT_EQ(cones, expected);
+}
+
+// Cones of a uniform line along `axis`: N z dipoles spaced d, equal currents. The array
+// factor vanishes where N psi / 2 = n pi, psi = k d cos(angle from the axis), i.e. on the
+// cones cos(theta_n) = n lambda / (N d), n = +-1, +-2, ..., n not a multiple of N
+// (Balanis, Antenna Theory, 4th ed., ch. 6, uniform linear array nulls; from memory).
+void CheckLineCones(const Vec3& axis, int n_el, double d_lambda, double grid_step) {
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  for (int i = 0; i < n_el; ++i)
+    a.Add(axis * (i * d_lambda * Lambda()), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  const PatternAnalysis r =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(grid_step)));
+  std::vector<double> expected;  // half-angles about +axis, deg
+  for (int m = -3 * n_el; m <= 3 * n_el; ++m) {
+    const double c = m / (n_el * d_lambda);
+    if (m % n_el != 0 && std::abs(c) < 1.0) expected.push_back(std::acos(c) / kDegree);
+  }
+  std::vector<double> found;
+  for (const NullLocus& nl : r.null_loci) {
+    if (!nl.cone) continue;
+    EXPECT_TRUE(nl.exact);
+    const Vec3 ax(std::sin(nl.axis.theta_deg * kDegree) * std::cos(nl.axis.phi_deg * kDegree),
+                  std::sin(nl.axis.theta_deg * kDegree) * std::sin(nl.axis.phi_deg * kDegree),
+                  std::cos(nl.axis.theta_deg * kDegree));
+    const double sign = ax.dot(axis);
+    ASSERT_NEAR(std::abs(sign), 1.0, 1e-12) << "a cone about another axis";
+    found.push_back(sign > 0 ? nl.half_angle_deg : 180.0 - nl.half_angle_deg);
+  }
+  std::sort(expected.begin(), expected.end());
+  std::sort(found.begin(), found.end());
+  ASSERT_EQ(found.size(), expected.size());
+  for (std::size_t i = 0; i < found.size(); ++i) EXPECT_NEAR(found[i], expected[i], 1e-6);
+}
+
+TEST(PatternAnalysis, UniformLineNullsAreItsCones) {
+  CheckLineCones(Vec3::UnitZ(), 8, 0.5, 1.0);
+  CheckLineCones(Vec3(1, 1, 1).normalized(), 6, 0.4, 2.0);
+  CheckLineCones(Vec3::UnitY(), 5, 0.7, 3.0);
+}
+
+TEST(PatternAnalysis, PlanarArrayNullsAreBothFamilies) {
+  // 4 x 3 z dipoles in the xy plane, dx = lambda/2, dy = 0.7 lambda, equal currents: the
+  // array factor is the product of two uniform lines (Balanis 4th ed., ch. 6, planar
+  // arrays; from memory), so its zeros are the cones of both: cos = n / 2 about x and
+  // cos = n / 2.1 about y.
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  for (int i = 0; i < 4; ++i)
+    for (int j = 0; j < 3; ++j)
+      a.Add(Vec3(i * 0.5 * Lambda(), j * 0.7 * Lambda(), 0), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)));
+  std::vector<double> about_x, about_y;
+  for (const NullLocus& nl : r.null_loci) {
+    if (!nl.cone) continue;
+    if (Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 0) < 1e-9)
+      about_x.push_back(nl.half_angle_deg);
+    else if (Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 90) < 1e-9)
+      about_y.push_back(nl.half_angle_deg);
+    else
+      ADD_FAILURE() << "cone about " << nl.axis.theta_deg << ", " << nl.axis.phi_deg;
+  }
+  const std::vector<double> want_x = {60.0, 120.0};
+  const std::vector<double> want_y = {std::acos(2 / 2.1) / kDegree, std::acos(1 / 2.1) / kDegree,
+                                      std::acos(-1 / 2.1) / kDegree, std::acos(-2 / 2.1) / kDegree};
+  ASSERT_EQ(about_x.size(), want_x.size());
+  ASSERT_EQ(about_y.size(), want_y.size());
+  for (std::size_t i = 0; i < want_x.size(); ++i) EXPECT_NEAR(about_x[i], want_x[i], 1e-6);
+  for (std::size_t i = 0; i < want_y.size(); ++i) EXPECT_NEAR(about_y[i], want_y[i], 1e-6);
+  // Where the cones cross the principal planes, the crossings name them.
+  int on_cones = 0;
+  for (const NullCrossing& c : r.null_crossings) {
+    if (c.locus < 0) continue;
+    if (r.null_loci[static_cast<std::size_t>(c.locus)].cone) {
+      ++on_cones;
+      EXPECT_TRUE(c.exact);
+    }
+  }
+  EXPECT_GT(on_cones, 4);
+}
+
+TEST(PatternAnalysis, MaxNullsCapsTheLoci) {
+  const testing::TestArray a = ZLineAlongX(8, 0.5 * Lambda(), 90.0);
+  AnalysisOptions o;
+  o.max_nulls = 3;
+  const PatternAnalysis r =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)), o);
+  EXPECT_EQ(r.null_loci.size(), 3u);
+  EXPECT_TRUE(r.null_loci_truncated);
+  o.max_nulls = 64;
+  const PatternAnalysis all =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)), o);
+  EXPECT_GT(all.null_loci.size(), 3u);
+  EXPECT_FALSE(all.null_loci_truncated);
 }
 
 TEST(PatternAnalysis, VerticalDipoleOverGround) {
@@ -271,8 +382,8 @@ TEST(PatternAnalysis, VerticalDipoleOverGround) {
   const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   EXPECT_NEAR(r.peak.directivity, 3.0, 1e-3);
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
-  ASSERT_EQ(r.nulls.size(), 1u);
-  EXPECT_LT(r.nulls[0].direction.theta_deg, 1e-6);
+  ASSERT_EQ(r.null_loci.size(), 1u);
+  EXPECT_LT(r.null_loci[0].direction.theta_deg, 1e-6);
   EXPECT_TRUE(r.elevation_cut.clipped_by_ground);
   EXPECT_NEAR(r.elevation_cut.half_power_width_deg, 45.0, 0.01);
   // The exactly opposite direction of a horizon peak is the horizon behind it (D = 3

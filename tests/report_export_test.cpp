@@ -27,6 +27,7 @@
 #include "engine/polarization.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
+#include "io/plot/plot.h"
 
 namespace fs = std::filesystem;
 using ::testing::HasSubstr;
@@ -191,7 +192,7 @@ TEST_P(SampleResult, ReportAndExportWork) {
   ASSERT_EQ(json.exit_code, 0) << json.err;
   if (HavePython()) {
     const RunOutput py = PythonOnJson(
-        json.out, "d[\"source\"], repr(d[\"peak\"][\"directivity\"]), len(d[\"nulls\"])");
+        json.out, "d[\"source\"], repr(d[\"peak\"][\"directivity\"]), len(d[\"null_loci\"])");
     ASSERT_EQ(py.exit_code, 0) << py.out << "\n" << json.out;
     std::ostringstream expected;
     char peak[32];
@@ -380,18 +381,85 @@ TEST(Report, HertzianDipoleBeamAndNulls) {
   ASSERT_TRUE(a.has_value());
   EXPECT_NEAR(a->analysis.elevation_cut.half_power_width_deg, 90.0, 1e-4);
   EXPECT_FALSE(a->analysis.orthogonal_cut.half_power_found);
-  ASSERT_FALSE(a->analysis.nulls.empty());
-  EXPECT_TRUE(a->analysis.nulls.front().exact);
-  EXPECT_TRUE(std::isinf(a->analysis.nulls.front().level_db));
+  ASSERT_FALSE(a->analysis.null_loci.empty());
+  EXPECT_TRUE(a->analysis.null_loci.front().exact);
+  EXPECT_TRUE(std::isinf(a->analysis.null_loci.front().level_db));
   if (HavePython()) {
     const RunOutput json = Lobecast("report --json " + Quote(result));
     const RunOutput py = PythonOnJson(
         json.out,
         "d[\"elevation_plane\"][\"half_power_width_deg\"], "
-        "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"nulls\"][0][\"exact\"]");
+        "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"null_loci\"][0][\"exact\"]");
     ASSERT_EQ(py.exit_code, 0) << py.out;
     EXPECT_THAT(py.out, HasSubstr("None True"));  // an infinite width is null in JSON
     EXPECT_NEAR(std::strtod(py.out.c_str(), nullptr), 90.0, 1e-4);
+  }
+}
+
+// The figures a cut plot draws are the report's numbers: every label of the plots of
+// both principal planes (what WritePlot says it drew) equals the field of `report
+// --json` it names, bit for bit (Python's repr round-trips doubles).
+TEST(Report, PlotLabelsAreTheReportsNumbers) {
+  if (!HavePython()) GTEST_SKIP() << "no " << LOBECAST_PYTHON;
+  for (const char* sample : {"broadside-line-8", "planar-4x4-ground", "endfire-pair"}) {
+    const std::string result = Compute(Sample(sample));
+    const RunOutput json = Lobecast("report --json " + Quote(result));
+    ASSERT_EQ(json.exit_code, 0) << json.err;
+    const StoredResult stored = ReadResult(result);
+    const std::optional<StoredAnalysis> a = ReadAnalysis(result);
+    ASSERT_TRUE(a.has_value());
+    for (const plot::CutPlane plane : {plot::CutPlane::kElevation, plot::CutPlane::kOrthogonal}) {
+      for (const plot::PlotKind kind : {plot::PlotKind::kPolar, plot::PlotKind::kCartesian}) {
+        plot::PlotOptions o;
+        o.kind = kind;
+        o.cut.plane = plane;
+        const fs::path out = WorkDir("labels") / (std::string(sample) + "-" + o.cut.ShortName() +
+                                                  "-" + std::string(plot::ToString(kind)) + ".png");
+        const std::vector<plot::CutLabel> labels =
+            plot::WritePlot(stored, &a->analysis, o, out.string()).labels;
+        ASSERT_FALSE(labels.empty());
+        // The JSON field each label names, as a Python expression on d.
+        std::string expr;
+        int crossing = 0;
+        const char* on_plane = plane == plot::CutPlane::kOrthogonal ? "True" : "False";
+        for (const plot::CutLabel& l : labels) {
+          std::string e;
+          if (l.key == "null_crossings.offset_deg") {
+            e = std::string(
+                    "[c[\"offset_deg\"] for c in d[\"null_crossings\"] if "
+                    "c[\"orthogonal_plane\"] == ") +
+                on_plane + "][" + std::to_string(crossing++) + "]";
+          } else if (l.key == "major_lobes.size") {
+            e = "len(d[\"major_lobes\"])";
+          } else {
+            const std::size_t dot = l.key.find('.');
+            ASSERT_NE(dot, std::string::npos) << l.key;
+            e = "d[\"" + l.key.substr(0, dot) + "\"]";
+            if (l.key.substr(0, dot) == "highest_side_lobe" && !std::isfinite(l.value)) {
+              e = "None if " + e + " is None else 1";  // no side lobe: null in the JSON
+            } else {
+              e += "[\"" + l.key.substr(dot + 1) + "\"]";
+            }
+          }
+          expr += (expr.empty() ? "" : ", ") + std::string("repr(") + e + ")";
+        }
+        const RunOutput py = PythonOnJson(json.out, expr);
+        ASSERT_EQ(py.exit_code, 0) << py.out;
+        std::istringstream tokens(py.out);
+        for (const plot::CutLabel& l : labels) {
+          std::string t;
+          ASSERT_TRUE(tokens >> t) << l.key;
+          if (t == "None") {
+            EXPECT_FALSE(std::isfinite(l.value)) << sample << " " << l.key;  // JSON null
+          } else {
+            EXPECT_EQ(std::strtod(t.c_str(), nullptr), l.value) << sample << " " << l.key;
+          }
+          // A twin main beam is another major lobe, never a "side lobe 0.0 dB".
+          EXPECT_EQ(l.text.find("side lobe 0.0"), std::string::npos) << l.text;
+          EXPECT_EQ(l.text.find("side lobe -0.0"), std::string::npos) << l.text;
+        }
+      }
+    }
   }
 }
 
@@ -412,7 +480,8 @@ TEST(Report, StoredAnalysisMatchesTheEngineAndRecomputesWhenAbsent) {
   EXPECT_EQ(s.elevation_cut.half_power_width_deg, fresh.elevation_cut.half_power_width_deg);
   EXPECT_EQ(s.orthogonal_cut.first_null_width_deg, fresh.orthogonal_cut.first_null_width_deg);
   EXPECT_EQ(s.front_to_back.ratio_db, fresh.front_to_back.ratio_db);
-  EXPECT_EQ(s.nulls.size(), fresh.nulls.size());
+  EXPECT_EQ(s.null_loci.size(), fresh.null_loci.size());
+  EXPECT_EQ(s.null_crossings.size(), fresh.null_crossings.size());
   EXPECT_EQ(s.polarization.xpd_at_peak_db, fresh.polarization.xpd_at_peak_db);
   EXPECT_EQ(s.polarization.axial_ratio_solid_angle_sr,
             fresh.polarization.axial_ratio_solid_angle_sr);

@@ -77,8 +77,8 @@ struct AnalysisOptions {
   // Spacing of the samples along the principal-plane cuts before root finding;
   // reduced automatically for beams narrower than about 20 samples.
   double cut_step_deg = 0.1;
-  // At most this many side lobes and nulls are refined and listed (deepest nulls and
-  // highest lobes first); the result says when more were found.
+  // At most this many side lobes are refined and listed (highest first) and this many
+  // null loci (cones first, then the deepest); the result says when more were found.
   std::size_t max_side_lobes = 64;
   std::size_t max_nulls = 64;
   // A refined field below this fraction of the peak intensity (|rE|^2 relative) is an
@@ -140,6 +140,9 @@ struct BeamCut {
   // The cut ran into the ground's no-field region on some side; the beam edge there is
   // the ground plane itself and there is no first null on that side.
   bool clipped_by_ground = false;
+  // The cut's unit tangent at the peak (the way positive offsets run), written as a
+  // direction: with the peak it fixes the great circle, so plots draw this very cut.
+  DirectionDeg tangent;
 };
 
 struct FrontToBack {
@@ -169,11 +172,48 @@ struct Lobe {
   double level_db = 0.0;  // relative to the peak
 };
 
-struct Null {
+// A null locus: one connected set of null directions of the null field (nulls of arrays
+// are curves: cones about a line's axis, the crossing cone families of a planar array's
+// separable factors; a single dipole's null is a point). Described by what fits it:
+//   cone   the field vanishes on the whole circle a . r = cos(half_angle) (within the
+//          visible space), fitted to refined null points and verified by exact field
+//          evaluations around it; then exact (the depth of a zero is not physics).
+//   point  a null direction no wider than the grid spacing (a dipole's axis).
+//   curve  anything else: its extent in theta and phi.
+// Where a locus crosses the principal planes is in PatternAnalysis::null_crossings.
+struct NullLocus {
+  bool cone = false;
+  bool point = false;
+  DirectionDeg axis;  // cone only: its axis (a unit vector, written as a direction)
+  double half_angle_deg = std::numeric_limits<double>::quiet_NaN();  // cone only, [0, 180]
+  // Extent of the visible part (deg). phi_min_deg > phi_max_deg when the smallest phi
+  // arc that holds it runs through phi = 0; 0 and 360 when it goes round.
+  double theta_min_deg = std::numeric_limits<double>::quiet_NaN();
+  double theta_max_deg = std::numeric_limits<double>::quiet_NaN();
+  double phi_min_deg = std::numeric_limits<double>::quiet_NaN();
+  double phi_max_deg = std::numeric_limits<double>::quiet_NaN();
+  // A direction on the locus: the deepest refined one (point, curve) or one of the
+  // fitted points (cone).
   DirectionDeg direction;
-  double directivity = 0.0;  // of the null field (total or co-polar)
-  double level_db = 0.0;     // relative to the peak; -inf when exactly zero
-  bool exact = false;        // below AnalysisOptions::exact_null_relative
+  // Depth: the refined minimum of the null field (curve, point). When exact (below
+  // exact_null_relative; a verified cone always is) the depth is rounding, not
+  // physics: directivity 0 and level_db -inf.
+  double directivity = 0.0;
+  double level_db = 0.0;  // relative to the peak
+  bool exact = false;
+};
+
+// Where the null field vanishes (or dips below the null threshold) on a principal
+// plane: the offset along the cut as in BeamCut, found by sampling the whole great
+// circle and refining each minimum through the engine.
+struct NullCrossing {
+  double locus = -1.0;            // index into null_loci (a whole number), -1 if on none listed
+  bool orthogonal_plane = false;  // false: the elevation plane
+  double offset_deg = 0.0;        // signed, from the peak along the cut's tangent, (-180, 180]
+  DirectionDeg direction;
+  double directivity = 0.0;  // of the null field; 0 when exact
+  double level_db = 0.0;     // relative to the peak; -inf when exact
+  bool exact = false;
 };
 
 struct ProtectedDirectionField {
@@ -228,10 +268,11 @@ struct PatternAnalysis {
   FrontToBack front_to_back;
   std::vector<Lobe> major_lobes;  // other lobes within major_lobe_tolerance_db of the peak
   std::optional<Lobe> highest_side_lobe;
-  std::vector<Lobe> side_lobes;       // >= side_lobe_threshold_db, highest first
-  bool side_lobes_truncated = false;  // more than max_side_lobes candidates
-  std::vector<Null> nulls;            // deepest first
-  bool nulls_truncated = false;       // more than max_nulls candidates
+  std::vector<Lobe> side_lobes;              // >= side_lobe_threshold_db, highest first
+  bool side_lobes_truncated = false;         // more than max_side_lobes candidates
+  std::vector<NullLocus> null_loci;          // cones first, then the deepest
+  bool null_loci_truncated = false;          // more than max_nulls loci
+  std::vector<NullCrossing> null_crossings;  // elevation plane, then orthogonal; by offset
   std::vector<ProtectedDirectionField> protected_directions;
   PolarizationPurity polarization;
   std::size_t field_evaluations = 0;  // directions evaluated through the engine

@@ -323,6 +323,7 @@ BeamCut AnalyzePlane(const PatternProbe& probe, const Vec3& peak, const Principa
   BeamCut c = AnalyzeCut(probe, peak, plane.tangent, peak_directivity, options);
   c.plane = plane.plane;
   c.plane_phi_deg = plane.phi_deg;
+  c.tangent = ToDirectionDeg(plane.tangent);
   return c;
 }
 

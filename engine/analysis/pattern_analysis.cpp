@@ -180,9 +180,15 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
   out.side_lobes = std::move(lobes.side_lobes);
   out.side_lobes_truncated = lobes.truncated;
 
-  NullSearch nulls = FindNulls(probe, neighbours, grid_result, dp, options);
-  out.nulls = std::move(nulls.nulls);
-  out.nulls_truncated = nulls.truncated;
+  const NullSearch nulls = FindNulls(probe, neighbours, grid_result, dp, options);
+  out.null_loci = nulls.loci;
+  out.null_loci_truncated = nulls.truncated;
+  for (const bool orthogonal : {false, true}) {
+    const std::vector<NullCrossing> c =
+        FindNullCrossings(probe, nulls, peak, (orthogonal ? second_plane : first_plane).tangent,
+                          orthogonal, dp, options);
+    out.null_crossings.insert(out.null_crossings.end(), c.begin(), c.end());
+  }
 
   std::vector<Vec3> prot;
   for (const auto& [t, p] : options.protected_directions_deg)

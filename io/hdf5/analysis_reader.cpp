@@ -142,7 +142,8 @@ std::optional<StoredAnalysis> ReadAnalysis(const std::string& path) {
   if (!hdf5::Exists(file, root)) return std::nullopt;
   try {
     FileVisitor v(path, file, root);
-    if (v.Int(Field{schema::kAnalysisVersionAttribute, "1"}) > schema::kAnalysisVersion) {
+    // Another layout (a newer one, or version 1's point nulls): the caller recomputes.
+    if (v.Int(Field{schema::kAnalysisVersionAttribute, "1"}) != schema::kAnalysisVersion) {
       return std::nullopt;
     }
     StoredAnalysis out;

@@ -43,6 +43,9 @@ std::string QuantityLabel(Quantity q, PolarizationReference ref);
 
 // The quantity at flattened grid index k (theta-major), linear.
 double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, PolarizationReference ref);
+// The same from a direction's field (V), directivity and phi (rad).
+double QuantityOf(double directivity, Complex e_theta, Complex e_phi, double phi_rad, Quantity q,
+                  PolarizationReference ref);
 // The quantity over the whole grid, linear, theta-major.
 std::vector<double> QuantityOnGrid(const StoredResult& r, Quantity q, PolarizationReference ref);
 

@@ -85,6 +85,56 @@ void Row(std::ostringstream& s, const std::string& label, const std::string& val
   s << Printf("  %-30s ", label.c_str()) << value << "\n";
 }
 
+// A null's depth: "exact" for a zero (its depth is rounding, not physics), else dB.
+std::string Depth(bool exact, double level_db) { return exact ? "exact" : Db(level_db) + " dB"; }
+
+// "12.5 .. 80.25" for a locus' theta or phi extent (phi min > max: through phi = 0).
+std::string Range(double lo, double hi) { return Angle(lo) + " .. " + Angle(hi); }
+
+}  // namespace
+
+std::string NullLociText(const PatternAnalysis& a, const AnalysisOptions& o) {
+  std::ostringstream s;
+  s << "\nNull loci (" << ToString(o.null_field) << " field below " << Db(o.null_threshold_db)
+    << " dB re peak; exact = a zero, whose depth is rounding)\n";
+  s << "  " << a.null_loci.size() << (a.null_loci.size() == 1 ? " locus" : " loci")
+    << (a.null_loci_truncated ? ", list truncated (--max-nulls)" : "") << "\n";
+  for (std::size_t i = 0; i < a.null_loci.size(); ++i) {
+    const NullLocus& n = a.null_loci[i];
+    if (n.cone) {
+      s << Printf("  %5zu  cone about (theta %s, phi %s) deg, half-angle %s deg, %s\n", i,
+                  Angle(n.axis.theta_deg).c_str(), Angle(n.axis.phi_deg).c_str(),
+                  Printf("%.6f", n.half_angle_deg).c_str(), Depth(n.exact, n.level_db).c_str());
+    } else if (n.point) {
+      s << Printf("  %5zu  point at %s, %s\n", i, Direction(n.direction).c_str(),
+                  Depth(n.exact, n.level_db).c_str());
+    } else {
+      s << Printf("  %5zu  curve, deepest at %s, %s\n", i, Direction(n.direction).c_str(),
+                  Depth(n.exact, n.level_db).c_str());
+    }
+    if (!n.point) {
+      s << Printf("         theta %s deg, phi %s deg%s\n",
+                  Range(n.theta_min_deg, n.theta_max_deg).c_str(),
+                  Range(n.phi_min_deg, n.phi_max_deg).c_str(),
+                  n.phi_min_deg > n.phi_max_deg ? " (through phi = 0)" : "");
+    }
+  }
+  if (!a.null_crossings.empty()) {
+    s << "  where they cross the principal planes (offset from the peak):\n";
+    s << "      plane          offset (deg)   theta (deg)     phi (deg)         depth  locus\n";
+    for (const NullCrossing& c : a.null_crossings) {
+      s << Printf("      %-11s  %12s  %12s  %12s  %12s  %5s\n",
+                  c.orthogonal_plane ? "orthogonal" : "elevation",
+                  Printf("%.6f", c.offset_deg).c_str(), Angle(c.direction.theta_deg).c_str(),
+                  Angle(c.direction.phi_deg).c_str(), Depth(c.exact, c.level_db).c_str(),
+                  c.locus >= 0 ? Printf("%.0f", c.locus).c_str() : "-");
+    }
+  }
+  return s.str();
+}
+
+namespace {
+
 // The schema's visitor that writes the report's JSON: objects for groups and
 // directions, arrays of objects for lists, null for a missing optional.
 class JsonVisitor {
@@ -255,19 +305,7 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
     }
   }
 
-  s << "\nNulls (" << ToString(o.null_field) << " field below " << Db(o.null_threshold_db)
-    << " dB re peak; depth -inf = exact null)\n";
-  s << "  " << a.nulls.size() << " null" << (a.nulls.size() == 1 ? "" : "s")
-    << (a.nulls_truncated ? " (list truncated)" : "") << "\n";
-  if (!a.nulls.empty()) {
-    s << "      #   theta (deg)     phi (deg)   depth (dB)\n";
-    for (std::size_t i = 0; i < a.nulls.size(); ++i) {
-      const Null& n = a.nulls[i];
-      s << Printf("  %5zu  %12s  %12s  %11s%s\n", i, Angle(n.direction.theta_deg).c_str(),
-                  Angle(n.direction.phi_deg).c_str(), Db(n.level_db).c_str(),
-                  n.exact ? "  exact" : "");
-    }
-  }
+  s << NullLociText(a, o);
 
   if (!a.protected_directions.empty()) {
     s << "\nProtected directions (exact field; co/cross for reference "

@@ -40,6 +40,9 @@ std::string AnalysisBrief(const PatternAnalysis& analysis);
 std::string ReportText(const ReportContext& context, const PatternAnalysis& analysis,
                        const AnalysisOptions& options);
 
+// The null loci and their principal-plane crossings (part of ReportText).
+std::string NullLociText(const PatternAnalysis& analysis, const AnalysisOptions& options);
+
 // One JSON object; non-finite numbers are null (an infinite F/B or XPD, an exact
 // null's depth, an undefined angle), with flags saying which case applies.
 std::string ReportJson(const ReportContext& context, const PatternAnalysis& analysis,
