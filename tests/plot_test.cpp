@@ -590,8 +590,8 @@ TEST(PlotCli, ComputeWritesTheStandardSet) {
   EXPECT_FALSE(fs::exists(dir / "broadside-standard-polar-phi0.png"));
   // Without an analysis there are no principal planes: the grid's phi = 0 and 90 cuts.
   const fs::path bare = WorkDir() / "standard-set-bare";
-  fs::create_directories(bare);
   fs::remove_all(bare);
+  fs::create_directories(bare);
   ASSERT_EQ(
       RunCli("compute " + Quote(fs::path(LOBECAST_SAMPLES) / "broadside-line-8.toml") + " -o " +
                  Quote(WorkDir() / "bare.h5") + " --quiet --no-analysis --plots " + Quote(bare),
