@@ -7,7 +7,8 @@ packages=(
   build-essential cmake pkg-config
   libeigen3-dev libfftw3-dev libhdf5-dev libgtest-dev libgmock-dev
   libtomlplusplus-dev libcli11-dev libcairo2-dev
-  python3-numpy python3-scipy python3-h5py hdf5-tools clang-format
+  coinor-libclp-dev
+  python3-numpy python3-scipy python3-h5py python3-cvxopt hdf5-tools clang-format
 )
 
 missing=()

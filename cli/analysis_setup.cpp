@@ -5,6 +5,7 @@
 #include <string>
 
 #include "cli/enum_names.h"
+#include "cli/option_checks.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/polarization.h"
@@ -15,7 +16,8 @@ namespace lobecast::cli {
 
 std::vector<std::string> PolarizationReferenceNames() {
   return NamesOf({PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-                  PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular});
+                  PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular,
+                  PolarizationReference::kTheta, PolarizationReference::kPhi});
 }
 
 std::vector<std::string> ReferenceNames() {
@@ -28,8 +30,7 @@ std::optional<PolarizationReference> ParseReference(std::string_view text) {
   const std::string lower = Lower(text);
   if (lower == "auto") return std::nullopt;
   if (const auto r = PolarizationReferenceFromString(lower)) return r;
-  throw InvalidArgument("--reference '" + std::string(text) + "': expected " +
-                        JoinAlternatives(ReferenceNames()));
+  BadOption("--reference", "'" + std::string(text) + "'", JoinAlternatives(ReferenceNames()));
 }
 
 std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,
@@ -43,8 +44,7 @@ std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view
   const auto a = comma == std::string_view::npos ? std::nullopt : number(text.substr(0, comma));
   const auto b = comma == std::string_view::npos ? std::nullopt : number(text.substr(comma + 1));
   if (!a || !b) {
-    throw InvalidArgument(std::string(option) + " '" + std::string(text) + "': expected " +
-                          std::string(expected));
+    BadOption(std::string(option), "'" + std::string(text) + "'", std::string(expected));
   }
   return {*a, *b};
 }

@@ -16,20 +16,21 @@ namespace lobecast::cli {
 // Help text for --reference.
 inline constexpr const char* kReferenceHelp =
     "Polarization reference for co/cross-polar levels and XPD: x or y (Ludwig-3 linear), "
-    "rhcp or lhcp (circular), or auto: whichever of the four carries the most co-polar "
-    "field at the grid peak";
+    "rhcp or lhcp (circular), theta or phi (co = E_theta or E_phi), or auto: whichever "
+    "carries the most co-polar field at the grid peak (ties: theta/phi for a peak within "
+    "45 deg of the horizon, Ludwig-3 nearer the z axis)";
 
-// The name of every PolarizationReference: x, y, rhcp, lhcp.
+// The name of every PolarizationReference: x, y, rhcp, lhcp, theta, phi.
 std::vector<std::string> PolarizationReferenceNames();
 // What --reference accepts: those, then "auto".
 std::vector<std::string> ReferenceNames();
 
-// "auto" -> std::nullopt (resolve with AutoReference); throws InvalidArgument for an
-// unknown name.
+// "auto" -> std::nullopt (resolve with AutoReference); throws BadOption's InputError
+// for an unknown name.
 std::optional<PolarizationReference> ParseReference(std::string_view text);
 
 // "A,B" (two decimal numbers, spaces allowed) for the option named `option`;
-// throws InvalidArgument naming the option, what was found and what was expected.
+// throws BadOption's InputError naming the option, what was found and what was expected.
 std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,
                                          std::string_view expected);
 

@@ -13,5 +13,6 @@ void AddPlotCommand(CLI::App& app);
 void AddReportCommand(CLI::App& app);
 void AddExportCommand(CLI::App& app);
 void AddScanCommand(CLI::App& app);
+void AddSynthCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

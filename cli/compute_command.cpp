@@ -10,11 +10,12 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/enum_names.h"
-#include "cli/output_path.h"
+#include "cli/option_checks.h"
 #include "cli/progress_bar.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
+#include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
@@ -22,6 +23,7 @@
 #include "io/input/array_reader.h"
 #include "io/input/solve_circuit.h"
 #include "io/plot/plot.h"
+#include "io/safety_note.h"
 #include "io/text/coupling_text.h"
 #include "io/text/report_text.h"
 #include "io/text/summary_text.h"
@@ -40,7 +42,24 @@ struct ComputeArgs {
   std::string plots_dir;           // empty: no plots
   std::string reference = "auto";  // for the stored analysis
   bool no_analysis = false;
+  // Given on the command line (not just defaulted), for the options that only
+  // apply to some runs.
+  bool tolerance_given = false;
+  bool reference_given = false;
+  std::size_t max_nulls = AnalysisOptions{}.max_nulls;
 };
+
+// Refuses options that do not apply to what was asked (exit 2, before any work).
+void RefuseInapplicable(const ComputeArgs& args) {
+  if (args.tolerance_given && args.method == ToString(FieldMethod::kDirect)) {
+    BadOption("--tolerance", "it with --method direct (the exact sum has no tolerance)",
+              "--tolerance only with --method fast or auto");
+  }
+  if (args.reference_given && args.no_analysis) {
+    BadOption("--reference", "it with --no-analysis (no analysis to take a reference)",
+              "one of --reference and --no-analysis");
+  }
+}
 
 // RESULT defaults to the input's stem with .h5, in the current directory.
 std::string DefaultOutput(const std::string& input) {
@@ -48,9 +67,12 @@ std::string DefaultOutput(const std::string& input) {
 }
 
 void RunCompute(const ComputeArgs& args) {
+  RefuseInapplicable(args);
+  RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
+                      args.input);
   const auto t0 = std::chrono::steady_clock::now();
   ArrayDescription desc = ReadArrayDescription(args.input);
-  for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
+  PrintWarnings(desc.warnings);
   const std::optional<CouplingResult> coupling = SolveArrayCircuit(desc, args.threads);
 
   ProgressBar bar(!args.quiet);
@@ -70,10 +92,11 @@ void RunCompute(const ComputeArgs& args) {
   if (!args.no_analysis) {
     const auto ref = ParseReference(args.reference);
     analysis_options.reference = ref ? *ref : AutoReference(result);
+    analysis_options.max_nulls = args.max_nulls;
     try {
       analysis = AnalyzePattern(desc.array, desc.currents, result, analysis_options);
     } catch (const InvalidArgument& e) {
-      std::fprintf(stderr, "pattern analysis skipped: %s\n", e.what());
+      PrintWarnings({std::string("pattern analysis skipped: ") + e.what()});
     }
   }
 
@@ -94,9 +117,11 @@ void RunCompute(const ComputeArgs& args) {
   if (!args.plots_dir.empty()) {
     // Drawn from the file just written, so the plots show exactly what it holds.
     std::vector<std::string> skipped;
-    plot::WriteStandardPlots(ReadResult(output), args.plots_dir,
-                             std::filesystem::path(output).stem().string(), &skipped);
-    for (const std::string& s : skipped) std::fprintf(stderr, "plot skipped: %s\n", s.c_str());
+    const std::optional<StoredAnalysis> stored = ReadAnalysis(output);
+    plot::WriteStandardPlots(ReadResult(output), stored ? &stored->analysis : nullptr,
+                             args.plots_dir, std::filesystem::path(output).stem().string(),
+                             &skipped);
+    for (const std::string& s : skipped) PrintWarnings({"plot skipped: " + s});
   }
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
@@ -107,7 +132,9 @@ void RunCompute(const ComputeArgs& args) {
           stdout);
     }
     if (analysis) std::fputs(text::AnalysisBrief(*analysis).c_str(), stdout);
-    std::fputs(text::SafetyNote().c_str(), stdout);
+    std::fflush(stdout);
+    // The full note is in the file (root attribute safety_note) and the report.
+    std::fprintf(stderr, "%s\n", std::string(kSafetyLine).c_str());
   }
 }
 
@@ -120,42 +147,59 @@ void AddComputeCommand(CLI::App& app) {
       "Compute the far field rE (V), intensity (W/sr), directivity, polarization, radiated "
       "power (W) and resistances (ohm) of an array description on its grid, and write them "
       "to an HDF5 result file.");
-  cmd->add_option("ARRAY", args->input, "Array description (TOML)")
+  cmd->add_option("ARRAY", args->input,
+                  "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()
-      ->check(CLI::ExistingFile);
+      ->check(ExistingInput("an array description (TOML)"));
   cmd->add_option("-o,--output", args->output,
                   "Result file (HDF5); default: the array file's name with .h5, in the "
-                  "current directory. Written atomically: a failed run leaves it untouched.")
-      ->check(OutputFileInExistingFolder());
+                  "current directory. Written atomically: a failed run leaves it untouched. "
+                  "The folder must exist; '-' is refused (HDF5 is binary)")
+      ->check(BinaryOutput("an HDF5 result"));
   cmd->add_option("-t,--threads", args->threads,
                   "Threads for the field computation (count); 0 = all cores")
-      ->check(CLI::NonNegativeNumber);
+      ->check(WholeNumberAtLeast(0, "0 = all cores"));
   cmd->add_option("--method", args->method,
                   "Field method: direct (exact sum over every dipole-direction pair), fast "
                   "(non-uniform FFT, accurate to --tolerance of the pattern peak; a lattice "
                   "transform when the elements sit on a regular grid) or auto (fast only "
                   "where it is clearly cheaper)")
-      ->check(
-          CLI::IsMember(NamesOf({FieldMethod::kDirect, FieldMethod::kFast, FieldMethod::kAuto})))
+      ->check(OneOf(NamesOf({FieldMethod::kDirect, FieldMethod::kFast, FieldMethod::kAuto})))
       ->capture_default_str();
-  cmd->add_option("--tolerance", args->tolerance,
-                  "Fast method: error allowed in rE, relative to the pattern's peak |rE| (1)")
-      ->check(CLI::Range(1e-14, 1e-2))
-      ->capture_default_str();
+  CLI::Option* tolerance =
+      cmd->add_option("--tolerance", args->tolerance,
+                      "Fast method: error allowed in rE, relative to the pattern's peak |rE| "
+                      "(1e-14 .. 0.01); refused with --method direct")
+          ->check(NumberIn(1e-14, 1e-2, ""))
+          ->capture_default_str();
   cmd->add_flag("--resistance-matrix", args->resistance_matrix,
                 "Store the N x N mutual resistance matrix (ohm) even above 4096 dipoles, "
                 "where it is otherwise streamed (8 N^2 bytes)");
-  cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
+  cmd->add_flag("-q,--quiet", args->quiet,
+                "Print nothing but warnings and errors (no summary, no safety line)");
   cmd->add_option("--plots", args->plots_dir,
-                  "Also write a standard set of PNG plots into this folder: polar cuts phi = 0 "
-                  "and phi = 90 deg and a theta-phi directivity map (dBi)");
-  cmd->add_option("--reference", args->reference,
-                  std::string(kReferenceHelp) + "; for the analysis stored in the file")
-      ->check(CLI::IsMember(ReferenceNames(), CLI::ignore_case));
+                  "Also write a standard set of PNG plots into this folder (which must exist): "
+                  "polar cuts in the two principal planes of the analysis through the beam (phi = "
+                  "0 and 90 deg "
+                  "without an analysis) and a theta-phi directivity map (dBi)")
+      ->check(OutputFolder());
+  CLI::Option* reference =
+      cmd->add_option("--reference", args->reference,
+                      std::string(kReferenceHelp) + "; for the analysis stored in the file")
+          ->check(OneOf(ReferenceNames(), true));
+  cmd->add_option("--max-nulls", args->max_nulls,
+                  "List at most N null loci in the stored analysis (cones first, then the "
+                  "deepest)")
+      ->capture_default_str()
+      ->check(WholeNumberAtLeast(1, "null loci"));
   cmd->add_flag("--no-analysis", args->no_analysis,
                 "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
                 "is otherwise stored under /summary/analysis");
-  cmd->callback([args] { RunCompute(*args); });
+  cmd->callback([args, tolerance, reference] {
+    args->tolerance_given = tolerance->count() > 0;
+    args->reference_given = reference->count() > 0;
+    RunCompute(*args);
+  });
 }
 
 }  // namespace lobecast::cli

@@ -4,8 +4,6 @@
 // (io/text/export_samples.h); the formatting is io/text/pattern_export.h.
 #include <cmath>
 #include <cstdio>
-#include <fstream>
-#include <iostream>
 #include <memory>
 #include <string>
 #include <vector>
@@ -13,7 +11,8 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/enum_names.h"
-#include "cli/output_path.h"
+#include "cli/option_checks.h"
+#include "cli/text_output.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "io/hdf5/result_reader.h"
@@ -37,21 +36,34 @@ struct ExportArgs {
   double step_deg = 1.0;
   std::string at;  // empty: no single-direction lookup
   bool no_notes = false;
+  std::string notes = "column";
+  std::string precision = "display";
+  bool decimal_comma = false;
+  bool quiet = false;
+  bool step_given = false;
+  bool notes_given = false;
 };
 
 void RunExport(const ExportArgs& args) {
   PatternTableOptions table;
   const auto format = ExportFormatFromString(args.format);
   if (!format) {
-    throw InvalidArgument("--format '" + args.format + "': expected " +
-                          JoinAlternatives(NamesOf({ExportFormat::kCsv, ExportFormat::kTsv})));
+    BadOption("--format", "'" + args.format + "'",
+              JoinAlternatives(NamesOf({ExportFormat::kCsv, ExportFormat::kTsv})));
   }
   table.format = *format;
+  table.precision = *ExportPrecisionFromString(args.precision);  // checked by CLI11
+  table.decimal_comma = args.decimal_comma;
+  if (args.no_notes && args.notes_given && args.notes != "none") {
+    BadOption("--no-notes", "it with --notes " + args.notes, "one of the two");
+  }
+  table.notes_style = args.notes == "comments" ? NotesStyle::kComments : NotesStyle::kColumn;
+  const bool with_notes = !args.no_notes && args.notes != "none";
   const auto coords = ExportCoordinatesFromString(args.coords);
   if (!coords) {
-    throw InvalidArgument("--coords '" + args.coords + "': expected " +
-                          JoinAlternatives(NamesOf({ExportCoordinates::kThetaPhi,
-                                                    ExportCoordinates::kAzimuthElevation})));
+    BadOption("--coords", "'" + args.coords + "'",
+              JoinAlternatives(
+                  NamesOf({ExportCoordinates::kThetaPhi, ExportCoordinates::kAzimuthElevation})));
   }
   table.coordinates = *coords;
   const std::optional<PolarizationReference> fixed = ParseReference(args.reference);
@@ -59,12 +71,21 @@ void RunExport(const ExportArgs& args) {
   if (!args.cut.empty()) {
     std::string why;
     cut = ParseCutSpec(args.cut, &why);
-    if (!cut) throw InvalidArgument("--cut: " + why);
+    if (!cut) {
+      const std::size_t e = why.find("expected ");
+      BadOption("--cut", "'" + args.cut + "'", e == std::string::npos ? why : why.substr(e + 9));
+    }
+  }
+  if (args.step_given && !(cut && cut->kind == CutSpec::Kind::kGreatCircle)) {
+    BadOption("--step",
+              std::string("it with ") +
+                  (cut ? "--cut " + args.cut + " (a cut on the stored grid's own spacing)"
+                   : !args.at.empty() ? "--at (one direction)"
+                                      : "the whole grid"),
+              "--step only with --cut great-circle:THETA,PHI,HEADING");
   }
   if (!(args.step_deg > 0 && args.step_deg <= 90)) {
-    char found[32];
-    std::snprintf(found, sizeof found, "%g", args.step_deg);
-    throw InvalidArgument(std::string("--step ") + found + " deg: expected 0 < step <= 90 deg");
+    BadOption("--step", FormatBound(args.step_deg) + " deg", "0 < step <= 90 deg");
   }
   std::optional<std::pair<double, double>> at;
   const bool az_el = table.coordinates == ExportCoordinates::kAzimuthElevation;
@@ -74,15 +95,16 @@ void RunExport(const ExportArgs& args) {
         az_el ? "AZIMUTH,ELEVATION in deg (with --coords az-el)" : "THETA,PHI in deg");
     if (az_el) {
       if (!(d.second >= -90 && d.second <= 90)) {
-        throw InvalidArgument("--at '" + args.at + "': elevation must be within -90..90 deg");
+        BadOption("--at", "'" + args.at + "'", "an elevation within -90 .. 90 deg");
       }
       d = {90.0 - d.second, d.first};
     } else if (!(d.first >= 0 && d.first <= 180)) {
-      throw InvalidArgument("--at '" + args.at + "': theta must be within 0..180 deg");
+      BadOption("--at", "'" + args.at + "'", "a theta within 0 .. 180 deg");
     }
     at = d;
   }
 
+  RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult stored = ReadResult(args.input);
   table.reference = fixed ? *fixed : AutoReference(stored.result);
   table.radiated_power_w = stored.result.radiated_power_w;
@@ -107,7 +129,7 @@ void RunExport(const ExportArgs& args) {
     samples = GridSamples(stored);
     what = "the stored grid, theta-major";
   }
-  if (!args.no_notes) {
+  if (with_notes) {
     const std::string name = stored.metadata.name.empty() ? "(unnamed)" : stored.metadata.name;
     table.notes = {
         "lobecast export of " + args.input + ": " + name + ", " +
@@ -124,15 +146,8 @@ void RunExport(const ExportArgs& args) {
     };
   }
   // Straight into the stream: a full-grid table is not held in memory twice.
-  if (args.output.empty()) {
-    WritePatternTable(std::cout, samples, table);
-    std::cout.flush();
-    return;
-  }
-  std::ofstream out(args.output, std::ios::binary | std::ios::trunc);
-  WritePatternTable(out, samples, table);
-  out.close();
-  if (!out) throw IoError(args.output, "could not write the export");
+  WriteText(args.output, "the export",
+            [&](std::ostream& out) { WritePatternTable(out, samples, table); });
 }
 
 }  // namespace
@@ -147,28 +162,55 @@ void AddExportCommand(CLI::App& app) {
       "Directions off the stored grid are computed exactly, not interpolated.");
   cmd->add_option("RESULT", args->input, "Result file (HDF5) written by compute")
       ->required()
-      ->check(CLI::ExistingFile);
-  cmd->add_option("-o,--output", args->output, "Table file; default: standard output")
-      ->check(OutputFileInExistingFolder());
-  cmd->add_option("--format", args->format, "csv (default) or tsv");
+      ->check(ExistingInput("a result file (HDF5) written by 'lobecast compute'"));
+  cmd->add_option("-o,--output", args->output,
+                  "Table file, written atomically; default or '-': standard output")
+      ->check(TextOutput());
+  cmd->add_option("--format", args->format, "csv (default) or tsv")
+      ->check(OneOf(NamesOf({ExportFormat::kCsv, ExportFormat::kTsv}), true));
+  cmd->add_flag("--decimal-comma", args->decimal_comma,
+                "Write ',' as the decimal mark, for spreadsheets in locales that use one; CSV "
+                "cells are then separated by ';'");
+  cmd->add_option("--precision", args->precision,
+                  "display (default: angles and dB to 0.001, fields to 6 significant digits) or "
+                  "full (the shortest decimals that read back to the stored doubles)")
+      ->check(OneOf(NamesOf({ExportPrecision::kDisplay, ExportPrecision::kFull}), true));
   cmd->add_option("--coords", args->coords,
                   "theta-phi (default; theta from +z, phi from +x toward +y) or az-el "
-                  "(azimuth from +x toward +y in the xy plane, elevation above it)");
-  cmd->add_option("--reference", args->reference, kReferenceHelp);
+                  "(azimuth from +x toward +y in the xy plane, elevation above it)")
+      ->check(OneOf(NamesOf({ExportCoordinates::kThetaPhi, ExportCoordinates::kAzimuthElevation}),
+                    true));
+  cmd->add_option("--reference", args->reference, kReferenceHelp)
+      ->check(OneOf(ReferenceNames(), true));
   CLI::Option* cut = cmd->add_option(
       "--cut", args->cut,
       "One cut instead of the grid: phi=DEG (the plane through z; signed theta), theta=DEG "
       "(a cone), or great-circle:THETA,PHI,HEADING (deg: the great circle through that "
       "direction, leaving it HEADING deg from theta_hat toward phi_hat)");
-  cmd->add_option("--step", args->step_deg, "Spacing along a great-circle cut (deg; default 1)");
+  CLI::Option* step = cmd->add_option(
+      "--step", args->step_deg,
+      "Spacing along a great-circle cut (deg; default 1); refused with other cuts, whose "
+      "spacing is the grid's");
   CLI::Option* at = cmd->add_option(
       "--at", args->at,
       "One direction, computed exactly: THETA,PHI (deg), or AZIMUTH,ELEVATION (deg) with "
       "--coords az-el");
   at->excludes(cut);
-  cmd->add_flag("--no-notes", args->no_notes,
-                "Leave out the '#' note lines: only the header row and the data");
-  cmd->callback([args] { RunExport(*args); });
+  CLI::Option* notes = cmd->add_option(
+      "--notes", args->notes,
+      "Where the notes (source, coordinates, reference, safety note) go: column (default: a "
+      "last 'notes' column, one note per row, so the table stays rectangular for "
+      "spreadsheets), comments ('#' lines before the header, for readers that skip them) or "
+      "none");
+  notes->check(OneOf({"column", "comments", "none"}, true));
+  cmd->add_flag("--no-notes", args->no_notes, "The same as --notes none");
+  cmd->add_flag("-q,--quiet", args->quiet,
+                "Print nothing but warnings and errors besides the table itself");
+  cmd->callback([args, step, notes] {
+    args->step_given = step->count() > 0;
+    args->notes_given = notes->count() > 0;
+    RunExport(*args);
+  });
 }
 
 }  // namespace lobecast::cli

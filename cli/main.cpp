@@ -9,6 +9,7 @@
 
 #include "cli/commands.h"
 #include "cli/exit_code.h"
+#include "cli/option_checks.h"
 #include "io/version.h"
 
 int main(int argc, char** argv) {
@@ -21,17 +22,20 @@ int main(int argc, char** argv) {
       "lobecast"};
   app.set_version_flag("--version", "lobecast " + std::string(lobecast::SoftwareVersion()));
   app.require_subcommand(1);
+  // Before the subcommands: they copy the hook when they are created.
+  app.failure_message(lobecast::cli::FailureMessage);
   lobecast::cli::AddComputeCommand(app);
   lobecast::cli::AddCheckCommand(app);
   lobecast::cli::AddPlotCommand(app);
   lobecast::cli::AddReportCommand(app);
   lobecast::cli::AddExportCommand(app);
   lobecast::cli::AddScanCommand(app);
+  lobecast::cli::AddSynthCommand(app);
 
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
-    const int code = app.exit(e);  // prints help, version or the usage error
+    const int code = app.exit(e);  // help, version, or the usage error via FailureMessage
     return code == 0 ? lobecast::cli::kExitOk : lobecast::cli::kExitBadInput;
   } catch (...) {
     const lobecast::cli::ExitReport r = lobecast::cli::ReportFor(std::current_exception());

@@ -3,13 +3,16 @@
 #include <cmath>
 #include <cstdio>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/enum_names.h"
-#include "cli/output_path.h"
+#include "cli/option_checks.h"
+#include "engine/analysis/pattern_analysis.h"
+#include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
 #include "io/input_error.h"
 #include "io/plot/plot.h"
@@ -30,10 +33,64 @@ struct PlotArgs {
   double contour_step_db = 10.0;
   double axial_ratio_max_db = 30.0;
   bool normalized = false;
+  bool quiet = false;
+  // Options given on the command line, for those that apply to some kinds only.
+  std::vector<std::string> given;
+  std::size_t max_nulls = AnalysisOptions{}.max_nulls;
 };
 
+bool Given(const PlotArgs& a, const std::string& option) {
+  for (const std::string& g : a.given) {
+    if (g == option) return true;
+  }
+  return false;
+}
+
+// Options that do not apply to the kind of plot asked for are refused (exit 2).
+void RefuseInapplicable(const PlotArgs& a, plot::PlotKind kind) {
+  const bool cut = kind == plot::PlotKind::kPolar || kind == plot::PlotKind::kCartesian;
+  const std::string with = "it with --kind " + a.kind;
+  if (!cut && Given(a, "--cut")) {
+    BadOption("--cut", with + " (a map shows the whole grid)",
+              "--cut only with --kind polar or cartesian");
+  }
+  if (cut && Given(a, "--projection")) {
+    BadOption("--projection", with + " (a cut has no projection)",
+              "--projection only with --kind map or polarization");
+  }
+  if (kind != plot::PlotKind::kMap && Given(a, "--contour-db")) {
+    BadOption("--contour-db", with, "--contour-db only with --kind map");
+  }
+  if (kind != plot::PlotKind::kPolarization && Given(a, "--ar-max-db")) {
+    BadOption("--ar-max-db", with, "--ar-max-db only with --kind polarization");
+  }
+  if (Given(a, "--reference")) {
+    const auto q = plot::QuantityFromString(a.quantity);
+    const bool co_cross = q && (*q == plot::Quantity::kCo || *q == plot::Quantity::kCross);
+    if (kind == plot::PlotKind::kPolarization) {
+      BadOption("--reference", with + " (axial ratio and sense need no reference)",
+                "--reference only with co/cross levels");
+    }
+    if (Given(a, "--quantity") ? (q && !co_cross) : kind == plot::PlotKind::kMap) {
+      BadOption("--reference",
+                "it with --quantity " +
+                    (a.quantity.empty() ? "directivity (the map's default)" : a.quantity),
+                "--reference only with --quantity co or cross (or a cut, where it selects "
+                "them)");
+    }
+  }
+  if (kind == plot::PlotKind::kPolarization) {
+    for (const char* o : {"--quantity", "--normalize"}) {
+      if (Given(a, o)) {
+        BadOption(o, with + " (it maps axial ratio and sense, not a level)",
+                  std::string(o) + " only with --kind polar, cartesian or map");
+      }
+    }
+  }
+}
+
 [[noreturn]] void Bad(const char* option, const std::string& found, const std::string& expected) {
-  throw InputError(SourceLocation{option}, "found '" + found + "', expected " + expected);
+  BadOption(option, "'" + found + "'", expected);
 }
 
 plot::PlotOptions ToOptions(const PlotArgs& a) {
@@ -45,8 +102,11 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
                                   plot::PlotKind::kMap, plot::PlotKind::kPolarization})));
   }
   o.kind = *kind;
+  RefuseInapplicable(a, *kind);
   const auto cut = plot::CutSpecFromString(a.cut);
-  if (!cut) Bad("--cut", a.cut, "phi=DEG (a plane through z) or theta=DEG (a cone, 0..180)");
+  if (!cut)
+    Bad("--cut", a.cut,
+        "phi=DEG (a plane through z), theta=DEG (a cone, 0..180), elevation or orthogonal");
   o.cut = *cut;
   if (!a.quantity.empty()) {
     const auto q = plot::QuantityFromString(a.quantity);
@@ -100,8 +160,22 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
 
 void RunPlot(const PlotArgs& args) {
   const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
+  RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult result = ReadResult(args.input);
-  plot::WritePlot(result, options, args.output);
+  // The figures drawn are the stored analysis' (what `report` prints); a result without
+  // one (older, or computed with --no-analysis) gets one with the default options.
+  std::optional<StoredAnalysis> stored = ReadAnalysis(args.input);
+  if (!stored) {
+    AnalysisOptions o;
+    o.reference = AutoReference(result.result);
+    o.max_nulls = args.max_nulls;
+    stored = StoredAnalysis{AnalyzePattern(result.array, result.currents, result.result, o), o};
+  } else if (stored->options.max_nulls != args.max_nulls) {
+    AnalysisOptions o = stored->options;
+    o.max_nulls = args.max_nulls;
+    stored->analysis = AnalyzePattern(result.array, result.currents, result.result, o);
+  }
+  plot::WritePlot(result, &stored->analysis, options, args.output);
 }
 
 }  // namespace
@@ -115,18 +189,28 @@ void AddPlotCommand(CLI::App& app) {
       "dBi (partial directivity for co/cross/theta/phi) unless --normalize; angles in degrees.");
   cmd->add_option("RESULT", args->input, "Result file (HDF5) written by 'lobecast compute'")
       ->required()
-      ->check(CLI::ExistingFile);
-  cmd->add_option("-o,--output", args->output, "Image file: .png, .svg or .pdf")
+      ->check(ExistingInput("a result file (HDF5) written by 'lobecast compute'"));
+  cmd->add_option("-o,--output", args->output,
+                  "Image file: .png, .svg or .pdf, in an existing folder (not '-': images are "
+                  "binary)")
       ->required()
-      ->check(OutputFileInExistingFolder());
+      ->check(BinaryOutput("an image"));
   cmd->add_option("-k,--kind", args->kind,
                   "polar | cartesian (a cut), map (the grid as an image) | polarization "
                   "(axial ratio and sense maps); default polar");
-  cmd->add_option("--cut", args->cut,
-                  "Cut for polar/cartesian: phi=DEG, the plane through z containing phi = DEG "
-                  "(signed theta -180..180 deg, negative on the phi + 180 side), or theta=DEG, "
-                  "the cone at that theta (against phi); must lie on the grid. Default phi=0");
-  cmd->add_option("-q,--quantity", args->quantity,
+  cmd->add_option(
+      "--cut", args->cut,
+      "Cut for polar/cartesian: phi=DEG, the plane through z containing phi = DEG "
+      "(signed theta -180..180 deg, negative on the phi + 180 side), or theta=DEG, "
+      "the cone at that theta (against phi); must lie on the grid; or elevation / orthogonal, "
+      "the principal planes of the pattern analysis through the beam (exact off the "
+      "grid, against the offset from the peak). Default phi=0");
+  cmd->add_option("--max-nulls", args->max_nulls,
+                  "Mark at most N null loci of the analysis (recomputed when the stored one "
+                  "used another N)")
+      ->capture_default_str()
+      ->check(WholeNumberAtLeast(1, "null loci"));
+  cmd->add_option("--quantity", args->quantity,
                   "directivity (total) | co | cross (Ludwig-3 or circular, see --reference) | "
                   "theta | phi (partial directivity of E_theta / E_phi), in dBi; cuts draw the "
                   "pair (co with cross, theta with phi). Default: for cuts co/cross when "
@@ -134,7 +218,8 @@ void AddPlotCommand(CLI::App& app) {
                   "theta/phi; for maps directivity");
   cmd->add_option("--reference", args->reference,
                   "Polarization reference for co/cross: x | y (Ludwig-3 linear) | rhcp | lhcp | "
-                  "auto (the one with the largest co component at the peak); default auto");
+                  "theta | phi (co = E_theta / E_phi) | auto (the one with the largest co "
+                  "component at the peak, as in report); default auto");
   cmd->add_option("--floor-db", args->floor_db,
                   "Lowest level shown, dB below the plotted peak (1..200); default 40");
   cmd->add_flag("--normalize", args->normalized,
@@ -151,7 +236,13 @@ void AddPlotCommand(CLI::App& app) {
   cmd->add_option("--size", args->size,
                   "Image size WIDTHxHEIGHT in px (points for SVG/PDF), 320x240 .. 8000x8000; "
                   "default 800x600");
-  cmd->callback([args] { RunPlot(*args); });
+  cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
+  cmd->callback([args, cmd] {
+    for (const CLI::Option* o : cmd->get_options()) {
+      if (o->count() > 0) args->given.push_back(o->get_name());
+    }
+    RunPlot(*args);
+  });
 }
 
 }  // namespace lobecast::cli

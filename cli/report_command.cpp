@@ -13,6 +13,8 @@
 #include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/enum_names.h"
+#include "cli/option_checks.h"
+#include "cli/text_output.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "io/hdf5/analysis_reader.h"
@@ -32,11 +34,15 @@ struct ReportArgs {
   std::vector<std::string> toward;
   std::optional<double> side_lobe_threshold_db;
   std::optional<double> null_threshold_db;
+  std::optional<std::size_t> max_nulls;
   std::string null_field;  // empty: as stored
   bool recompute = false;
+  std::string output;  // empty or "-": standard output
+  bool quiet = false;
 };
 
 void RunReport(const ReportArgs& args) {
+  RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult stored = ReadResult(args.input);
   const std::optional<StoredAnalysis> saved = ReadAnalysis(args.input);
 
@@ -52,14 +58,22 @@ void RunReport(const ReportArgs& args) {
   } else if (!saved) {
     options.reference = AutoReference(stored.result);
   }
+  for (const auto& [option, value] :
+       {std::pair{"--side-lobe-threshold", args.side_lobe_threshold_db},
+        std::pair{"--null-threshold", args.null_threshold_db}}) {
+    if (value && !(std::isfinite(*value) && *value < 0)) {
+      BadOption(option, FormatBound(*value) + " dB", "a level below 0 dB (re the peak), e.g. -30");
+    }
+  }
   if (args.side_lobe_threshold_db)
     set(options.side_lobe_threshold_db, *args.side_lobe_threshold_db);
   if (args.null_threshold_db) set(options.null_threshold_db, *args.null_threshold_db);
+  if (args.max_nulls) set(options.max_nulls, *args.max_nulls);
   if (!args.null_field.empty()) {
     const auto f = NullFieldFromString(args.null_field);
     if (!f) {
-      throw InvalidArgument("--null-field '" + args.null_field + "': expected " +
-                            JoinAlternatives(NamesOf({NullField::kTotal, NullField::kCoPolar})));
+      BadOption("--null-field", "'" + args.null_field + "'",
+                JoinAlternatives(NamesOf({NullField::kTotal, NullField::kCoPolar})));
     }
     set(options.null_field, *f);
   }
@@ -68,7 +82,7 @@ void RunReport(const ReportArgs& args) {
     for (const std::string& t : args.toward) {
       const auto d = ParseAnglePair(t, "--toward", "THETA,PHI in deg, e.g. 90,45");
       if (!(d.first >= 0 && d.first <= 180)) {
-        throw InvalidArgument("--toward '" + t + "': theta must be within 0..180 deg");
+        BadOption("--toward", "'" + t + "'", "a theta within 0 .. 180 deg");
       }
       dirs.push_back(d);
     }
@@ -96,17 +110,17 @@ void RunReport(const ReportArgs& args) {
     context.coupling = &coupling->result;
     context.ports = &coupling->ports;
   }
-  const std::string text = args.json ? text::ReportJson(context, analysis, options)
-                                     : text::ReportText(context, analysis, options);
-  std::fputs(text.c_str(), stdout);
-  if (args.json) return;
-  if (coupling) {
-    std::fputs(("\n" + text::DescribeCoupling(coupling->result, coupling->ports,
-                                              stored.result.summary.peak_directivity))
-                   .c_str(),
-               stdout);
+  std::string text = args.json ? text::ReportJson(context, analysis, options)
+                               : text::ReportText(context, analysis, options);
+  if (!args.json) {
+    if (coupling) {
+      text += "\n" + text::DescribeCoupling(coupling->result, coupling->ports,
+                                            stored.result.summary.peak_directivity);
+    }
+    // A report is a document: it carries the full note, to a file or the terminal.
+    text += "\n" + text::SafetyNote();
   }
-  std::fputs(("\n" + text::SafetyNote()).c_str(), stdout);
+  WriteText(args.output, "the report", [&text](std::ostream& out) { out << text; });
 }
 
 }  // namespace
@@ -120,10 +134,17 @@ void AddReportCommand(CLI::App& app) {
       "nulls, field toward protected directions, XPD and axial ratio (dB).");
   cmd->add_option("RESULT", args->input, "Result file (HDF5) written by compute")
       ->required()
-      ->check(CLI::ExistingFile);
+      ->check(ExistingInput("a result file (HDF5) written by 'lobecast compute'"));
   cmd->add_flag("--json", args->json, "Print one JSON object instead of the table");
+  cmd->add_option("-o,--output", args->output,
+                  "Write the report (or JSON) to this file, atomically; default or '-': "
+                  "standard output")
+      ->check(TextOutput());
+  cmd->add_flag("-q,--quiet", args->quiet,
+                "Print nothing but warnings and errors besides the report itself");
   cmd->add_option("--reference", args->reference,
-                  std::string(kReferenceHelp) + " (default: the one stored by compute)");
+                  std::string(kReferenceHelp) + " (default: the one stored by compute)")
+      ->check(OneOf(ReferenceNames(), true));
   cmd->add_option("--toward", args->toward,
                   "THETA,PHI (deg): report the exact field toward this protected direction; "
                   "repeatable")
@@ -133,6 +154,9 @@ void AddReportCommand(CLI::App& app) {
                   "-30)");
   cmd->add_option("--null-threshold", args->null_threshold_db,
                   "List nulls below this level (dB relative to the peak; default -40)");
+  cmd->add_option("--max-nulls", args->max_nulls,
+                  "List at most N null loci (cones first, then the deepest; default 64)")
+      ->check(WholeNumberAtLeast(1, "null loci"));
   cmd->add_option("--null-field", args->null_field,
                   "Field the nulls are nulls of: total or co (co-polar for --reference)");
   cmd->add_flag("--recompute", args->recompute,

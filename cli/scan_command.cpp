@@ -3,15 +3,13 @@
 #include <cmath>
 #include <cstdio>
 #include <filesystem>
-#include <fstream>
 #include <memory>
 #include <string>
 #include <vector>
 
-#include <unistd.h>
-
 #include "cli/commands.h"
-#include "cli/output_path.h"
+#include "cli/option_checks.h"
+#include "cli/text_output.h"
 #include "engine/coupling/scan.h"
 #include "engine/error.h"
 #include "io/hdf5/scan_writer.h"
@@ -44,12 +42,16 @@ void RunScan(const ScanArgs& args) {
         SourceLocation{"--plot"},
         "found '" + args.plot + "', expected a file name ending in .png, .svg or .pdf");
   }
-  ArrayDescription desc = ReadArrayDescription(args.input);
-  for (const std::string& w : desc.warnings) std::fprintf(stderr, "%s\n", w.c_str());
-  if (!(args.step_deg > 0) || args.theta_stop_deg < args.theta_start_deg) {
-    throw InvalidArgument(
-        "--theta-start, --theta-stop, --step: expected start <= stop and a step > 0 (deg)");
+  if (args.theta_stop_deg < args.theta_start_deg) {
+    BadOption("--theta-stop",
+              FormatBound(args.theta_stop_deg) + " deg, below --theta-start " +
+                  FormatBound(args.theta_start_deg) + " deg",
+              "--theta-start <= --theta-stop");
   }
+  RefuseInputAsOutput("--output", args.output, args.input);
+  RefuseInputAsOutput("--plot", args.plot, args.input);
+  ArrayDescription desc = ReadArrayDescription(args.input);
+  PrintWarnings(desc.warnings);
   // The file's own circuit, solved once: Z with every element's self reactance (the
   // scan impedance is each element's input impedance, so none may be unknown) and
   // the currents whose magnitudes are the taper.
@@ -92,7 +94,10 @@ void RunScan(const ScanArgs& args) {
                      args.theta_start_deg);
   }
   const ScanImpedanceTable table = ScanImpedance(desc.array, z, amplitudes, theta, phi, reference);
-  if (!args.quiet) {
+  // With -o -, standard output is the CSV alone; the table and "wrote" lines go away.
+  const bool csv_to_stdout = args.output == kStdout;
+  const bool quiet = args.quiet || csv_to_stdout;
+  if (!quiet) {
     std::printf("array        %s, %zu dipoles; taper |I| from the file, phases from steering\n",
                 desc.name.empty() ? args.input.c_str() : desc.name.c_str(), desc.array.size());
     std::fputs(text::ScanTable(table, reference_text).c_str(), stdout);
@@ -105,26 +110,11 @@ void RunScan(const ScanArgs& args) {
     info.reference = reference_text;
     info.input_text = desc.source_text;
     WriteScanFile(args.output, table, info);
-    if (!args.quiet) std::printf("wrote        %s\n", args.output.c_str());
+    if (!quiet) std::printf("wrote        %s\n", args.output.c_str());
   } else if (!args.output.empty()) {
-    const std::string tmp = args.output + ".tmp-" + std::to_string(::getpid());
-    {
-      std::ofstream out(tmp, std::ios::binary | std::ios::trunc);
-      out << text::ScanCsv(table);
-      out.close();
-      if (!out) {
-        std::error_code ec;
-        std::filesystem::remove(tmp, ec);
-        throw IoError(args.output, "could not write the scan table");
-      }
-    }
-    std::error_code ec;
-    std::filesystem::rename(tmp, args.output, ec);
-    if (ec) {
-      std::filesystem::remove(tmp, ec);
-      throw IoError(args.output, "could not write the scan table: " + ec.message());
-    }
-    if (!args.quiet) std::printf("wrote        %s\n", args.output.c_str());
+    WriteText(args.output, "the scan table",
+              [&table](std::ostream& out) { out << text::ScanCsv(table); });
+    if (!quiet) std::printf("wrote        %s\n", args.output.c_str());
   }
   if (!args.plot.empty()) {
     plot::ScanPlotLabels labels;
@@ -133,7 +123,7 @@ void RunScan(const ScanArgs& args) {
     labels.frequency_hz = desc.array.frequency_hz;
     labels.reference = reference_text;
     plot::WriteScanPlot(table, labels, args.plot);
-    if (!args.quiet) std::printf("wrote        %s\n", args.plot.c_str());
+    if (!quiet) std::printf("wrote        %s\n", args.plot.c_str());
   }
 }
 
@@ -147,33 +137,35 @@ void AddScanCommand(CLI::App& app) {
       "as taper) along the plane phi = --phi from --theta-start to --theta-stop, and print "
       "each element's active reflection coefficient |Gamma| against the reference impedance "
       "(every dipole needs a radius or a reactance).");
-  cmd->add_option("ARRAY", args->input, "Array description (TOML)")
+  cmd->add_option("ARRAY", args->input,
+                  "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()
-      ->check(CLI::ExistingFile);
+      ->check(ExistingInput("an array description (TOML)"));
   cmd->add_option("-o,--output", args->output,
                   "CSV table (theta_deg, phi_deg, element, active impedance in ohm, |Gamma|, "
                   "phase, VSWR), or with a .h5 name an HDF5 file (/scan: the active impedance "
-                  "and reflection per angle and element); written atomically")
-      ->check(OutputFileInExistingFolder());
+                  "and reflection per angle and element); written atomically; '-': the CSV "
+                  "on standard output (and nothing else there)")
+      ->check(TextOutput());
   cmd->add_option("--plot", args->plot,
                   "|Gamma| against scan angle, one line per element (.png, .svg or .pdf), "
                   "written atomically")
-      ->check(OutputFileInExistingFolder());
+      ->check(BinaryOutput("an image"));
   cmd->add_option("--phi", args->phi_deg, "Scan plane: azimuth phi (deg)")->capture_default_str();
   cmd->add_option("--theta-start", args->theta_start_deg, "First scan angle theta (deg)")
-      ->check(CLI::Range(0.0, 180.0))
+      ->check(NumberIn(0.0, 180.0, "deg"))
       ->capture_default_str();
   cmd->add_option("--theta-stop", args->theta_stop_deg, "Last scan angle theta (deg)")
-      ->check(CLI::Range(0.0, 180.0))
+      ->check(NumberIn(0.0, 180.0, "deg"))
       ->capture_default_str();
   cmd->add_option("--step", args->step_deg, "Scan step (deg)")
-      ->check(CLI::Range(1e-3, 180.0))
+      ->check(NumberIn(1e-3, 180.0, "deg"))
       ->capture_default_str();
   cmd->add_option("--match", args->match,
                   "What Gamma is measured against: first (each element conjugate-matched at "
                   "the first scan angle: shows the mismatch scanning adds) or reference (the "
                   "file's real reference_impedance)")
-      ->check(CLI::IsMember({"first", "reference"}))
+      ->check(OneOf({"first", "reference"}))
       ->capture_default_str();
   cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
   cmd->callback([args] { RunScan(*args); });

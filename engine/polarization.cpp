@@ -76,6 +76,10 @@ std::string_view ToString(PolarizationReference r) {
       return "rhcp";
     case PolarizationReference::kLeftCircular:
       return "lhcp";
+    case PolarizationReference::kTheta:
+      return "theta";
+    case PolarizationReference::kPhi:
+      return "phi";
   }
   return "x";
 }
@@ -86,6 +90,8 @@ std::optional<PolarizationReference> PolarizationReferenceFromString(std::string
   if (lower == "y") return PolarizationReference::kLinearY;
   if (lower == "rhcp") return PolarizationReference::kRightCircular;
   if (lower == "lhcp") return PolarizationReference::kLeftCircular;
+  if (lower == "theta") return PolarizationReference::kTheta;
+  if (lower == "phi") return PolarizationReference::kPhi;
   return std::nullopt;
 }
 
@@ -103,6 +109,10 @@ CoCross CoCrossOf(Complex et, Complex ep, double phi_rad, PolarizationReference 
       return ref == PolarizationReference::kRightCircular ? CoCross{p.e_right, p.e_left}
                                                           : CoCross{p.e_left, p.e_right};
     }
+    case PolarizationReference::kTheta:
+      return {Floored(et, floor_v), Floored(ep, floor_v)};
+    case PolarizationReference::kPhi:
+      return {Floored(ep, floor_v), Floored(et, floor_v)};
   }
   return {et, ep};
 }

@@ -5,7 +5,11 @@
 //   E_R = (E_theta + j E_phi)/sqrt2,  E_L = (E_theta - j E_phi)/sqrt2.
 // Co/cross-polarization: Ludwig's third definition (A. C. Ludwig, "The definition
 // of cross polarization", IEEE Trans. Antennas Propag. AP-21, 1973) for a linear
-// x or y reference; for a circular reference co is the chosen hand.
+// x or y reference; for a circular reference co is the chosen hand; along theta_hat
+// ("theta": co = E_theta, cross = E_phi) or phi_hat ("phi": the reverse), the natural
+// reference for beams near the horizon and for vertical or horizontal elements
+// (CONVENTIONS §2). theta_hat and phi_hat are singular on the z axis, where the
+// components follow the grid's phi (theta_hat = x, phi_hat = y at phi = 0).
 #pragma once
 
 #include <cstdint>
@@ -43,9 +47,21 @@ inline constexpr double kLinearTolerance = 1e-12;
 // on an axis of the (theta_hat, phi_hat) frame is exactly 0, +-45 or 90 deg.
 Polarization PolarizationOf(Complex e_theta, Complex e_phi, double floor_v = 0.0);
 
-enum class PolarizationReference { kLinearX, kLinearY, kRightCircular, kLeftCircular };
+enum class PolarizationReference {
+  kLinearX,
+  kLinearY,
+  kRightCircular,
+  kLeftCircular,
+  kTheta,  // co = E_theta, cross = E_phi
+  kPhi,    // co = E_phi, cross = E_theta
+};
+// Every reference, in the order the names are listed to users.
+inline constexpr PolarizationReference kAllPolarizationReferences[] = {
+    PolarizationReference::kLinearX,       PolarizationReference::kLinearY,
+    PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular,
+    PolarizationReference::kTheta,         PolarizationReference::kPhi};
 std::string_view ToString(PolarizationReference r);
-// Accepts "x", "y", "rhcp", "lhcp" (case-insensitive).
+// Accepts "x", "y", "rhcp", "lhcp", "theta", "phi" (case-insensitive).
 std::optional<PolarizationReference> PolarizationReferenceFromString(std::string_view s);
 
 struct CoCross {
@@ -53,7 +69,8 @@ struct CoCross {
   Complex cross;  // V
 };
 // Ludwig-3 x reference: co = Et cos(phi) - Ep sin(phi), cross = Et sin(phi) + Ep cos(phi);
-// y reference: co = Et sin(phi) + Ep cos(phi), cross = Et cos(phi) - Ep sin(phi).
+// y reference: co = Et sin(phi) + Ep cos(phi), cross = Et cos(phi) - Ep sin(phi);
+// theta: co = Et, cross = Ep; phi: co = Ep, cross = Et (phi_rad unused).
 // floor_v: as for PolarizationOf; a co or cross part below it (the combinations can
 // cancel to rounding where the components do not) is exactly 0.
 CoCross CoCrossOf(Complex e_theta, Complex e_phi, double phi_rad, PolarizationReference ref,

@@ -33,4 +33,8 @@ class NotAResultError : public IoError {
   using IoError::IoError;
 };
 
+// How a NotAResultError's detail starts when the file is HDF5 but not all of a
+// lobecast result (truncated, damaged, another program's).
+inline constexpr const char* kIncompleteResult = "not a complete lobecast result: ";
+
 }  // namespace lobecast

@@ -29,13 +29,13 @@ TEST(EnumNames, EveryNameParsesBackToItsValue) {
   ASSERT_EQ(m.size(), methods.size());
   for (std::size_t i = 0; i < m.size(); ++i) EXPECT_EQ(FieldMethodFromString(m[i]), methods[i]);
 
-  const std::vector<PolarizationReference> refs = {
-      PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-      PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular};
+  const std::vector<PolarizationReference> refs(std::begin(kAllPolarizationReferences),
+                                                std::end(kAllPolarizationReferences));
   const std::vector<std::string> r =
       NamesOf({PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-               PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular});
-  EXPECT_EQ(JoinAlternatives(r), "x, y, rhcp or lhcp");
+               PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular,
+               PolarizationReference::kTheta, PolarizationReference::kPhi});
+  EXPECT_EQ(JoinAlternatives(r), "x, y, rhcp, lhcp, theta or phi");
   for (std::size_t i = 0; i < r.size(); ++i) {
     EXPECT_EQ(PolarizationReferenceFromString(r[i]), refs[i]) << r[i];
   }

@@ -211,6 +211,8 @@ def scan_csv(b, text, what):
     for row in table[1:]:
         for name, cell in zip(header, row):
             low = name.lower()
+            if cell == "":
+                continue  # an undefined number (README: an empty cell)
             if "dbi" in low:
                 b.dbi(float(cell), f"{what} {name}")
             elif low.endswith("_db") or "(db)" in low:

@@ -3,6 +3,7 @@
 // the off-grid refinement is what is being checked.
 #include "engine/analysis/pattern_analysis.h"
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 #include <string>
@@ -119,9 +120,10 @@ TEST(PatternAnalysis, HertzianDipole) {
   EXPECT_TRUE(std::isinf(r.orthogonal_cut.half_power_width_deg));
   // Symmetric pattern: the back direction has the peak directivity.
   EXPECT_NEAR(r.front_to_back.ratio_db, 0.0, 1e-9);
-  ASSERT_EQ(r.nulls.size(), 2u);
-  for (const Null& n : r.nulls) {
+  ASSERT_EQ(r.null_loci.size(), 2u);
+  for (const NullLocus& n : r.null_loci) {
     EXPECT_TRUE(n.exact);
+    EXPECT_TRUE(n.point);
     EXPECT_LT(std::min(n.direction.theta_deg, 180.0 - n.direction.theta_deg), 1e-9);
   }
   // The equator is one ring of maxima: no other lobes.
@@ -138,8 +140,9 @@ TEST(PatternAnalysis, TiltedDipoleNullsOffGrid) {
   const testing::TestArray a =
       testing::OneDipoleArray(MakeDipole(Vec3::Zero(), u, Lambda() / 100), 1.0);
   const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
-  ASSERT_EQ(r.nulls.size(), 2u);
-  for (const Null& n : r.nulls) {
+  ASSERT_EQ(r.null_loci.size(), 2u);
+  for (const NullLocus& n : r.null_loci) {
+    EXPECT_TRUE(n.point);
     const double d =
         std::min(Separation_deg(n.direction.theta_deg, n.direction.phi_deg, t0, p0),
                  Separation_deg(n.direction.theta_deg, n.direction.phi_deg, 180 - t0, p0 + 180));
@@ -227,7 +230,7 @@ TEST(PatternAnalysis, EndfirePairFrontToBack) {
   EXPECT_TRUE(std::isinf(r.front_to_back.ratio_db) && r.front_to_back.ratio_db > 0)
       << r.front_to_back.ratio_db;
   bool back_null = false;
-  for (const Null& nl : r.nulls)
+  for (const NullLocus& nl : r.null_loci)
     back_null |= Separation_deg(nl.direction.theta_deg, nl.direction.phi_deg, 90, 180) < 1e-4;
   EXPECT_TRUE(back_null);
   ASSERT_EQ(r.protected_directions.size(), 2u);
@@ -246,19 +249,127 @@ TEST(PatternAnalysis, SteeredPeakAndNullsOffGrid) {
   const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
   EXPECT_NEAR(r.peak.direction.phi_deg, phi0, 1e-4);
-  ASSERT_FALSE(r.nulls.empty());
+  ASSERT_FALSE(r.null_loci.empty());
   const double kd = 2 * kPi / Lambda() * d;
-  for (const Null& nl : r.nulls) {
-    const double st = std::sin(nl.direction.theta_deg * kDegree);
-    if (st < 1e-9) continue;  // the element's own null on the z axis
-    const double c = st * std::cos(nl.direction.phi_deg * kDegree);  // cos(angle from x)
-    // The nearest zero cone, and the angular distance to it.
+  int cones = 0;
+  for (const NullLocus& nl : r.null_loci) {
+    if (!nl.cone) {
+      // The element's own nulls on the z axis.
+      EXPECT_LT(std::sin(nl.direction.theta_deg * kDegree), 1e-9);
+      continue;
+    }
+    ++cones;
+    // A cone about the line's axis (x), at a zero of the array factor.
+    EXPECT_LT(Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 0), 1e-9);
+    const double c = std::cos(nl.half_angle_deg * kDegree);
     const double m = std::round(kd * (c - std::cos(phi0 * kDegree)) * n / (2 * kPi));
     const double c_zero = std::cos(phi0 * kDegree) + 2 * kPi * m / (n * kd);
     EXPECT_NE(std::fmod(m, n), 0.0);
-    EXPECT_LT(std::abs(std::acos(c) - std::acos(c_zero)) / kDegree, 1e-4)
-        << "null at " << nl.direction.theta_deg << ", " << nl.direction.phi_deg;
+    EXPECT_NEAR(nl.half_angle_deg, std::acos(c_zero) / kDegree, 1e-6) << "m = " << m;
+    EXPECT_TRUE(nl.exact);
   }
+  // u = kd (c - cos phi0) covers [-kd (1 + cos phi0), kd (1 - cos phi0)]: every 2 pi m / N
+  // inside it (m not a multiple of N) is one cone.
+  int expected = 0;
+  for (int m = -3 * n; m <= 3 * n; ++m) {
+    const double c = std::cos(phi0 * kDegree) + 2 * kPi * m / (n * kd);
+    if (m % n != 0 && std::abs(c) < 1.0) ++expected;
+  }
+  EXPECT_EQ(cones, expected);
+}
+
+// Cones of a uniform line along `axis`: N z dipoles spaced d, equal currents. The array
+// factor vanishes where N psi / 2 = n pi, psi = k d cos(angle from the axis), i.e. on the
+// cones cos(theta_n) = n lambda / (N d), n = +-1, +-2, ..., n not a multiple of N
+// (Balanis, Antenna Theory, 4th ed., ch. 6, uniform linear array nulls; from memory).
+void CheckLineCones(const Vec3& axis, int n_el, double d_lambda, double grid_step) {
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  for (int i = 0; i < n_el; ++i)
+    a.Add(axis * (i * d_lambda * Lambda()), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  const PatternAnalysis r =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(grid_step)));
+  std::vector<double> expected;  // half-angles about +axis, deg
+  for (int m = -3 * n_el; m <= 3 * n_el; ++m) {
+    const double c = m / (n_el * d_lambda);
+    if (m % n_el != 0 && std::abs(c) < 1.0) expected.push_back(std::acos(c) / kDegree);
+  }
+  std::vector<double> found;
+  for (const NullLocus& nl : r.null_loci) {
+    if (!nl.cone) continue;
+    EXPECT_TRUE(nl.exact);
+    const Vec3 ax(std::sin(nl.axis.theta_deg * kDegree) * std::cos(nl.axis.phi_deg * kDegree),
+                  std::sin(nl.axis.theta_deg * kDegree) * std::sin(nl.axis.phi_deg * kDegree),
+                  std::cos(nl.axis.theta_deg * kDegree));
+    const double sign = ax.dot(axis);
+    ASSERT_NEAR(std::abs(sign), 1.0, 1e-12) << "a cone about another axis";
+    found.push_back(sign > 0 ? nl.half_angle_deg : 180.0 - nl.half_angle_deg);
+  }
+  std::sort(expected.begin(), expected.end());
+  std::sort(found.begin(), found.end());
+  ASSERT_EQ(found.size(), expected.size());
+  for (std::size_t i = 0; i < found.size(); ++i) EXPECT_NEAR(found[i], expected[i], 1e-6);
+}
+
+TEST(PatternAnalysis, UniformLineNullsAreItsCones) {
+  CheckLineCones(Vec3::UnitZ(), 8, 0.5, 1.0);
+  CheckLineCones(Vec3(1, 1, 1).normalized(), 6, 0.4, 2.0);
+  CheckLineCones(Vec3::UnitY(), 5, 0.7, 3.0);
+}
+
+TEST(PatternAnalysis, PlanarArrayNullsAreBothFamilies) {
+  // 4 x 3 z dipoles in the xy plane, dx = lambda/2, dy = 0.7 lambda, equal currents: the
+  // array factor is the product of two uniform lines (Balanis 4th ed., ch. 6, planar
+  // arrays; from memory), so its zeros are the cones of both: cos = n / 2 about x and
+  // cos = n / 2.1 about y.
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  for (int i = 0; i < 4; ++i)
+    for (int j = 0; j < 3; ++j)
+      a.Add(Vec3(i * 0.5 * Lambda(), j * 0.7 * Lambda(), 0), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)));
+  std::vector<double> about_x, about_y;
+  for (const NullLocus& nl : r.null_loci) {
+    if (!nl.cone) continue;
+    if (Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 0) < 1e-9)
+      about_x.push_back(nl.half_angle_deg);
+    else if (Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 90) < 1e-9)
+      about_y.push_back(nl.half_angle_deg);
+    else
+      ADD_FAILURE() << "cone about " << nl.axis.theta_deg << ", " << nl.axis.phi_deg;
+  }
+  const std::vector<double> want_x = {60.0, 120.0};
+  const std::vector<double> want_y = {std::acos(2 / 2.1) / kDegree, std::acos(1 / 2.1) / kDegree,
+                                      std::acos(-1 / 2.1) / kDegree, std::acos(-2 / 2.1) / kDegree};
+  ASSERT_EQ(about_x.size(), want_x.size());
+  ASSERT_EQ(about_y.size(), want_y.size());
+  for (std::size_t i = 0; i < want_x.size(); ++i) EXPECT_NEAR(about_x[i], want_x[i], 1e-6);
+  for (std::size_t i = 0; i < want_y.size(); ++i) EXPECT_NEAR(about_y[i], want_y[i], 1e-6);
+  // Where the cones cross the principal planes, the crossings name them.
+  int on_cones = 0;
+  for (const NullCrossing& c : r.null_crossings) {
+    if (c.locus < 0) continue;
+    if (r.null_loci[static_cast<std::size_t>(c.locus)].cone) {
+      ++on_cones;
+      EXPECT_TRUE(c.exact);
+    }
+  }
+  EXPECT_GT(on_cones, 4);
+}
+
+TEST(PatternAnalysis, MaxNullsCapsTheLoci) {
+  const testing::TestArray a = ZLineAlongX(8, 0.5 * Lambda(), 90.0);
+  AnalysisOptions o;
+  o.max_nulls = 3;
+  const PatternAnalysis r =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)), o);
+  EXPECT_EQ(r.null_loci.size(), 3u);
+  EXPECT_TRUE(r.null_loci_truncated);
+  o.max_nulls = 64;
+  const PatternAnalysis all =
+      AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)), o);
+  EXPECT_GT(all.null_loci.size(), 3u);
+  EXPECT_FALSE(all.null_loci_truncated);
 }
 
 TEST(PatternAnalysis, VerticalDipoleOverGround) {
@@ -271,8 +382,8 @@ TEST(PatternAnalysis, VerticalDipoleOverGround) {
   const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(5.0)));
   EXPECT_NEAR(r.peak.directivity, 3.0, 1e-3);
   EXPECT_NEAR(r.peak.direction.theta_deg, 90.0, 1e-4);
-  ASSERT_EQ(r.nulls.size(), 1u);
-  EXPECT_LT(r.nulls[0].direction.theta_deg, 1e-6);
+  ASSERT_EQ(r.null_loci.size(), 1u);
+  EXPECT_LT(r.null_loci[0].direction.theta_deg, 1e-6);
   EXPECT_TRUE(r.elevation_cut.clipped_by_ground);
   EXPECT_NEAR(r.elevation_cut.half_power_width_deg, 45.0, 0.01);
   // The exactly opposite direction of a horizon peak is the horizon behind it (D = 3
@@ -404,6 +515,243 @@ TEST(PatternAnalysis, TurnstileAxialRatio) {
   // The nadir beam has the same directivity: a second major lobe.
   ASSERT_EQ(r.major_lobes.size(), 1u);
   EXPECT_GT(r.major_lobes[0].direction.theta_deg, 180 - 1e-4);
+}
+
+// Half-power angle (rad) of a pattern f on [0, hi] with f(0) its peak, by a dense scan
+// and bisection written here, independent of the engine.
+template <typename F>
+double HalfPowerAngle(F f, double hi) {
+  const double half = 0.5 * f(0.0);
+  double lo = 0.0;
+  const int n = 20000;
+  for (int i = 1; i <= n; ++i) {
+    const double x = hi * i / n;
+    if (f(x) < half) {
+      double a = hi * (i - 1) / n, b = x;
+      for (int it = 0; it < 100; ++it) {
+        const double m = 0.5 * (a + b);
+        (f(m) >= half ? a : b) = m;
+      }
+      return 0.5 * (a + b);
+    }
+    lo = x;
+  }
+  return lo;
+}
+
+// Nx x Ny dipoles of orientation u on the lattice (dx, dy), centred on (0, 0, h),
+// steered to (theta0, phi0) with exp(-j k r_hat0 . r_n) (CONVENTIONS §3).
+testing::TestArray Panel(int nx, int ny, double dx, double dy, const Vec3& u, double h,
+                         Ground ground, double theta0_deg, double phi0_deg) {
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  a.ground = ground;
+  const double k = 2 * kPi / Lambda();
+  const Vec3 r0(std::sin(theta0_deg * kDegree) * std::cos(phi0_deg * kDegree),
+                std::sin(theta0_deg * kDegree) * std::sin(phi0_deg * kDegree),
+                std::cos(theta0_deg * kDegree));
+  for (int i = 0; i < nx; ++i)
+    for (int j = 0; j < ny; ++j) {
+      const Vec3 p((i - 0.5 * (nx - 1)) * dx, (j - 0.5 * (ny - 1)) * dy, h);
+      a.Add(p, u, Lambda() / 100, std::polar(1.0, -k * r0.dot(p)));
+    }
+  return a;
+}
+
+// The analysis of one array on 0.5, 1 and 2 deg grids (theta to 90 deg over ground).
+std::vector<PatternAnalysis> OnThreeGrids(const testing::TestArray& a) {
+  std::vector<PatternAnalysis> out;
+  for (const double step : {0.5, 1.0, 2.0}) {
+    const AngularGrid g = AngularGrid::FromRanges(
+        {0.0, a.ground == Ground::kPec ? 90.0 : 180.0, step}, {0.0, 360.0, step});
+    out.push_back(AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, g)));
+  }
+  return out;
+}
+
+// The planes (kind, orientation) and their beamwidths agree across the grids to the
+// refine tolerance (1e-6 deg; 1e-5 allows for the peak's own refinement).
+void ExpectSamePlanes(const std::vector<PatternAnalysis>& r) {
+  for (std::size_t i = 1; i < r.size(); ++i) {
+    for (const auto& [a, b] : {std::pair{&r[0].elevation_cut, &r[i].elevation_cut},
+                               std::pair{&r[0].orthogonal_cut, &r[i].orthogonal_cut}}) {
+      EXPECT_EQ(a->plane, b->plane) << "grid " << i;
+      if (std::isnan(a->plane_phi_deg)) {
+        EXPECT_TRUE(std::isnan(b->plane_phi_deg));
+      } else {
+        EXPECT_NEAR(a->plane_phi_deg, b->plane_phi_deg, 1e-5) << "grid " << i;
+      }
+      EXPECT_EQ(a->half_power_found, b->half_power_found);
+      if (a->half_power_found) {
+        EXPECT_NEAR(a->half_power_width_deg, b->half_power_width_deg, 1e-5) << "grid " << i;
+      }
+    }
+  }
+}
+
+// E-plane at e_phi_deg and H-plane at h_phi_deg on every grid, with the half-power
+// widths 2 e_half_rad and 2 h_half_rad (the closed forms of the test).
+void ExpectEAndHPlanes(const std::vector<PatternAnalysis>& r, double e_phi_deg, double h_phi_deg,
+                       double e_half_rad, double h_half_rad) {
+  ExpectSamePlanes(r);
+  EXPECT_EQ(r[0].elevation_cut.plane, CutPlane::kE);
+  EXPECT_NEAR(r[0].elevation_cut.plane_phi_deg, e_phi_deg, 1e-9);
+  EXPECT_EQ(r[0].orthogonal_cut.plane, CutPlane::kH);
+  EXPECT_NEAR(r[0].orthogonal_cut.plane_phi_deg, h_phi_deg, 1e-9);
+  EXPECT_NEAR(r[0].elevation_cut.half_power_width_deg, 2 * e_half_rad / kDegree, 1e-5);
+  EXPECT_NEAR(r[0].orthogonal_cut.half_power_width_deg, 2 * h_half_rad / kDegree, 1e-5);
+}
+
+TEST(PrincipalPlanes, HorizontalDipoleOverGroundUsesEAndHPlanes) {
+  // x dipole lambda/4 over PEC: the image gives the factor sin(k h cos t) (Balanis 4th ed.,
+  // sec. 4.7, from memory; CONVENTIONS §1), the element |E|^2 is cos^2 t in the E-plane
+  // (xz, phi = 0) and 1 in the H-plane (yz). The zenith peak's phi is arbitrary, so the
+  // planes must come from the field: E-plane phi = 0, H-plane phi = 90, on every grid
+  // (before, the 1 and 2 deg grids swapped them).
+  const testing::TestArray a = testing::OneDipoleArray(
+      MakeDipole(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitX(), Lambda() / 100), 1.0, Ground::kPec);
+  const std::vector<PatternAnalysis> r = OnThreeGrids(a);
+  auto af = [](double t) { return std::pow(std::sin(0.5 * kPi * std::cos(t)), 2); };
+  const double e = HalfPowerAngle([&](double t) { return std::pow(std::cos(t), 2) * af(t); }, 1.5);
+  ExpectEAndHPlanes(r, 0.0, 90.0, e, HalfPowerAngle(af, 1.5));
+  // F/B over ground never looks below it, and a zenith beam has nothing behind it
+  // above the ground: undefined, not +inf and not the peak against itself.
+  EXPECT_TRUE(std::isnan(r[0].front_to_back.ratio_db)) << r[0].front_to_back.ratio_db;
+  EXPECT_TRUE(std::isnan(r[0].front_to_back.same_elevation_ratio_db));
+}
+
+TEST(PrincipalPlanes, BroadsidePanelWithUnequalSides) {
+  // 6 x 3 y dipoles, lambda/2 lattice, free space, in phase: twin beams on the z axis.
+  // E-plane (yz, phi = 90): element cos^2 t times the 3-element factor in y; H-plane
+  // (xz, phi = 0): the 6-element factor in x (uniform line, Balanis 4th ed. sec. 6.3,
+  // from memory). Half-power angles from UniformFactor by bisection here.
+  const testing::TestArray a =
+      Panel(6, 3, 0.5 * Lambda(), 0.5 * Lambda(), Vec3::UnitY(), 0.0, Ground::kNone, 0, 0);
+  const std::vector<PatternAnalysis> r = OnThreeGrids(a);
+  const double e = HalfPowerAngle(
+      [](double t) { return std::pow(std::cos(t), 2) * UniformFactor(3, kPi * std::sin(t)); }, 1.5);
+  const double h =
+      HalfPowerAngle([](double t) { return UniformFactor(6, kPi * std::sin(t)); }, 1.5);
+  ExpectEAndHPlanes(r, 90.0, 0.0, e, h);
+  // F/B: the nadir beam is the mirror image (0 dB); "behind at the same theta" of a
+  // zenith peak is the peak itself: undefined.
+  EXPECT_NEAR(r[0].front_to_back.ratio_db, 0.0, 1e-6);
+  EXPECT_TRUE(std::isnan(r[0].front_to_back.same_elevation_ratio_db));
+}
+
+TEST(PrincipalPlanes, SteeredAndGroundPanelsKeepElevationPlanes) {
+  // Off the axis the elevation plane (through the peak and z) is fixed by the peak:
+  // phi = the steering phi (the 4 x 4 ground panel of the samples, and a free-space
+  // 8 x 4 steered to (30, 40) deg).
+  const testing::TestArray ground = Panel(4, 4, 0.5 * Lambda(), 0.5 * Lambda(), Vec3::UnitX(),
+                                          0.25 * Lambda(), Ground::kPec, 20, 0);
+  const testing::TestArray steered =
+      Panel(8, 4, 0.5 * Lambda(), 0.5 * Lambda(), Vec3::UnitX(), 0.0, Ground::kNone, 30, 40);
+  for (const testing::TestArray* a : {&ground, &steered}) {
+    const std::vector<PatternAnalysis> r = OnThreeGrids(*a);
+    ExpectSamePlanes(r);
+    EXPECT_EQ(r[0].elevation_cut.plane, CutPlane::kElevation);
+    EXPECT_EQ(r[0].orthogonal_cut.plane, CutPlane::kOrthogonal);
+    EXPECT_NEAR(r[0].elevation_cut.plane_phi_deg, r[0].peak.direction.phi_deg, 1e-12);
+  }
+  // Over ground F/B is taken behind the peak at the same theta, never below the
+  // ground: finite here, and the same figure as the same-theta one.
+  const PatternAnalysis g = OnThreeGrids(ground)[1];
+  EXPECT_TRUE(std::isfinite(g.front_to_back.ratio_db)) << g.front_to_back.ratio_db;
+  EXPECT_EQ(g.front_to_back.ratio_db, g.front_to_back.same_elevation_ratio_db);
+  EXPECT_NEAR(g.front_to_back.back_direction.theta_deg, g.peak.direction.theta_deg, 1e-9);
+  EXPECT_NEAR(g.front_to_back.back_direction.phi_deg, 180.0, 1e-6);
+}
+
+TEST(PrincipalPlanes, CircularOnAxisUsesXzAndYz) {
+  // A turnstile (x and -j y) lambda/4 over PEC is circular at the zenith (IEEE Std
+  // 145-2013): no E-plane; the planes are xz and yz on every grid. (In free space its
+  // pattern falls to exactly half power on the horizon, a tie rounding decides.)
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  a.ground = Ground::kPec;
+  a.Add(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitX(), Lambda() / 100, 1.0);
+  a.Add(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitY(), Lambda() / 100, Complex(0, -1));
+  const std::vector<PatternAnalysis> r = OnThreeGrids(a);
+  ExpectSamePlanes(r);
+  EXPECT_EQ(r[0].elevation_cut.plane, CutPlane::kXZ);
+  EXPECT_EQ(r[0].orthogonal_cut.plane, CutPlane::kYZ);
+  EXPECT_EQ(r[0].elevation_cut.plane_phi_deg, 0.0);
+  EXPECT_EQ(r[0].orthogonal_cut.plane_phi_deg, 90.0);
+}
+
+TEST(AutoReference, ThetaForHorizonBeamsOfVerticalElements) {
+  // z dipoles radiate E_theta only (CONVENTIONS §1: r_hat x (r_hat x z) is along
+  // theta_hat), so with the theta reference the cross field is exactly zero everywhere:
+  // XPD +inf at the peak and over the beam. Ludwig-3 x or y mixes E_theta into both
+  // components off phi = 0 / 90 deg (before: XPD -0.00 dB at a ring's peak at phi 45,
+  // and a worst in-beam XPD of 19 dB for a broadside line).
+  const int n = 12;
+  testing::TestArray ring;
+  ring.frequency_hz = kTestFrequency_hz;
+  const double k = 2 * kPi / Lambda(), radius = 0.25 * Lambda();
+  for (int i = 0; i < n; ++i) {
+    const double p = 2 * kPi * i / n;
+    const Vec3 pos(radius * std::cos(p), radius * std::sin(p), 0);
+    ring.Add(pos, Vec3::UnitZ(), Lambda() / 100,
+             std::polar(1.0, -k * pos.dot(Vec3(std::cos(kPi / 4), std::sin(kPi / 4), 0))));
+  }
+  const testing::TestArray line = ZLineAlongX(8, 0.5 * Lambda(), 90.0);
+  for (const testing::TestArray* a : std::vector<const testing::TestArray*>{&ring, &line}) {
+    const PatternResult g = ComputePattern(*a, a->currents, Grid(2.0));
+    AnalysisOptions o;
+    o.reference = AutoReference(g);
+    EXPECT_EQ(o.reference, PolarizationReference::kTheta);
+    const PatternAnalysis r = AnalyzePattern(*a, a->currents, g, o);
+    EXPECT_TRUE(std::isinf(r.polarization.xpd_at_peak_db) && r.polarization.xpd_at_peak_db > 0)
+        << r.polarization.xpd_at_peak_db;
+    EXPECT_TRUE(std::isinf(r.polarization.worst_xpd_in_beam_db) &&
+                r.polarization.worst_xpd_in_beam_db > 0)
+        << r.polarization.worst_xpd_in_beam_db;
+  }
+}
+
+TEST(AutoReference, PhiForHorizonBeamsOfHorizontalElementsLudwigNearTheAxis) {
+  // y dipoles on the x axis, lambda/4 apart, 90 deg apart in phase (Kraus, Antennas, 2nd
+  // ed., 1988, from memory): an endfire beam toward +x on the horizon, where a y dipole's
+  // field is along phi_hat (y = phi_hat at phi = 0): "phi".
+  testing::TestArray pair;
+  pair.frequency_hz = kTestFrequency_hz;
+  pair.Add(Vec3::Zero(), Vec3::UnitY(), Lambda() / 100, 1.0);
+  pair.Add(Vec3(0.25 * Lambda(), 0, 0), Vec3::UnitY(), Lambda() / 100, Complex(0, -1));
+  EXPECT_EQ(AutoReference(ComputePattern(pair, pair.currents, Grid(5.0))),
+            PolarizationReference::kPhi);
+  // A zenith beam (x dipole over ground): at the pole E_theta(phi = 0) = E_x ties with
+  // Ludwig-3 x, and near the axis the tie goes to Ludwig-3.
+  const testing::TestArray over = testing::OneDipoleArray(
+      MakeDipole(Vec3(0, 0, 0.25 * Lambda()), Vec3::UnitX(), Lambda() / 100), 1.0, Ground::kPec);
+  EXPECT_EQ(AutoReference(ComputePattern(over, over.currents, Grid(5.0))),
+            PolarizationReference::kLinearX);
+}
+
+TEST(PatternAnalysis, WorstXpdOnlyInTheMainBeam) {
+  // Two z dipoles 16 lambda apart on the x axis, in phase: AF = cos(16 pi cos psi), psi
+  // from the x axis (two-element array, Balanis 4th ed. sec. 6.2, from memory), lobes
+  // where 16 cos psi is an integer, each above -3 dB within 1/4 of it. The peak is the
+  // endfire lobe toward +x (PeakIndex takes the first of the equal maxima). A horizon-only
+  // grid every 10 deg joins it to the next lobes (phi = 10 in the main lobe, 20 to 60 in
+  // others, each above -3 dB), which the worst in-beam XPD must leave out (before: -4.77
+  // dB, the XPD at phi = 60). Ludwig-3 x: co = Et cos phi,
+  // cross = Et sin phi (Ep = 0), XPD = -20 log10 |tan phi| whatever theta; in the main
+  // lobe |phi| is largest on the horizon at its half-power edge, 16 cos phi = 15.75.
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  a.Add(Vec3(-8 * Lambda(), 0, 0), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  a.Add(Vec3(8 * Lambda(), 0, 0), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  const AngularGrid g = AngularGrid::FromRanges({90.0, 90.0, 1.0}, {0.0, 350.0, 10.0});
+  AnalysisOptions o;
+  o.reference = PolarizationReference::kLinearX;
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, g), o);
+  ASSERT_LT(Separation_deg(r.peak.direction.theta_deg, r.peak.direction.phi_deg, 90, 0), 1e-4);
+  const double edge = std::acos(63.0 / 64.0);
+  EXPECT_NEAR(r.polarization.worst_xpd_in_beam_db, -20 * std::log10(std::tan(edge)), 1e-4)
+      << r.polarization.worst_xpd_direction.theta_deg << " "
+      << r.polarization.worst_xpd_direction.phi_deg;
 }
 
 TEST(PatternAnalysis, RejectsBadOptionsAndMismatchedResults) {

@@ -15,11 +15,13 @@
 #include <cstdio>
 #include <cstdlib>
 #include <filesystem>
+#include <list>
 #include <set>
 #include <string>
 #include <vector>
 
 #include "cli_util.h"
+#include "engine/analysis/pattern_analysis.h"
 #include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/colormap.h"
@@ -131,66 +133,6 @@ TEST(PlotColormap, OklabConversionsInvertEachOtherAndMapWhiteToL1) {
 }
 
 // ---------------------------------------------------------------------------
-// Beam figures from a sampled cut
-
-TEST(PlotCutFigures, HalfPowerBeamwidthOfCosSquaredInterpolatesTheCrossings) {
-  // cos^2(theta) on -90..90 in 1 deg steps: the exact -3 dB points are at
-  // +-acos(sqrt(10^-0.3)); linear interpolation in dB between 1 deg samples is
-  // good to a few thousandths of a degree there.
-  std::vector<double> a, db;
-  for (int k = -90; k <= 90; ++k) {
-    a.push_back(k);
-    const double c = std::cos(k * kPi / 180.0);
-    db.push_back(10 * std::log10(std::max(c * c, 1e-300)));
-  }
-  const BeamFigures b = AnalyzeCut(a, db);
-  const double exact = 2 * std::acos(std::sqrt(std::pow(10.0, -0.3))) * 180.0 / kPi;
-  ASSERT_TRUE(b.has_hpbw);
-  EXPECT_NEAR(b.hpbw_deg, exact, 0.01);
-  EXPECT_NEAR(b.hpbw_left_deg, -0.5 * exact, 0.01);
-  EXPECT_FALSE(b.has_side_lobe);  // one lobe, and the ends of an open cut are no lobes
-}
-
-TEST(PlotCutFigures, HighestSideLobeOfASincPattern) {
-  // (sin x / x)^2 with x = 10 sin(angle): the highest side lobe's level is found
-  // here by a dense independent search of the same function (about -13.26 dB,
-  // the uniform line source's first side lobe; Balanis 4th ed. sec. 6.3, from memory).
-  auto f = [](double deg) {
-    const double x = 10.0 * std::sin(deg * kPi / 180.0);
-    const double s = std::fabs(x) < 1e-12 ? 1.0 : std::sin(x) / x;
-    return 10 * std::log10(std::max(s * s, 1e-300));
-  };
-  std::vector<double> a, db;
-  for (double k = -90; k <= 90; k += 0.25) {
-    a.push_back(k);
-    db.push_back(f(k));
-  }
-  double reference = -1e9;
-  for (double x = kPi * 1.05; x < 2 * kPi * 0.98; x += 1e-5) {  // the first side lobe in x
-    const double s = std::sin(x) / x;
-    reference = std::max(reference, 10 * std::log10(s * s));
-  }
-  const BeamFigures b = AnalyzeCut(a, db);
-  ASSERT_TRUE(b.has_side_lobe);
-  EXPECT_NEAR(b.side_lobe_rel_db, reference, 0.05);
-  EXPECT_NEAR(std::fabs(a[b.side_lobe_index]), std::asin(4.4934 / 10) * 180 / kPi, 0.5);
-}
-
-TEST(PlotCutFigures, WrappedCutFindsTheBeamAcrossTheSeam) {
-  // A beam centred on phi = 0 of a 0..360 cone: its half-power points straddle the seam.
-  std::vector<double> a, db;
-  for (int k = 0; k <= 360; k += 2) {
-    a.push_back(k);
-    const double c = std::cos(0.5 * k * kPi / 180.0);
-    db.push_back(10 * std::log10(std::max(std::pow(c, 8), 1e-300)));
-  }
-  const BeamFigures b = AnalyzeCut(a, db);
-  ASSERT_TRUE(b.has_hpbw);
-  EXPECT_LT(b.hpbw_left_deg, 0.0);
-  EXPECT_NEAR(b.hpbw_left_deg, -b.hpbw_right_deg, 1e-9);
-}
-
-// ---------------------------------------------------------------------------
 // Every kind, every sample, every format
 
 struct FileChecks {
@@ -296,6 +238,20 @@ INSTANTIATE_TEST_SUITE_P(Samples, PlotEverySample, ::testing::ValuesIn(Samples()
 
 StoredResult ZDipole() { return ReadResult(ResultFor("single-dipole").string()); }
 
+// The analysis compute stores with a result (default options, auto reference): the
+// figures a plot draws.
+const PatternAnalysis* AnalysisOf(const StoredResult& r) {
+  static std::list<std::pair<std::string, PatternAnalysis>> cache;  // stable addresses
+  const std::string key = r.metadata.name + "|" + std::to_string(r.result.grid.size()) + "|" +
+                          std::to_string(r.result.radiated_power_w);
+  for (const auto& [k, a] : cache)
+    if (k == key) return &a;
+  AnalysisOptions o;
+  o.reference = AutoReference(r.result);
+  cache.emplace_back(key, AnalyzePattern(r.array, r.currents, r.result, o));
+  return &cache.back().second;
+}
+
 // The outermost pixel along a ray from (x0, y0) in direction (dx, dy) whose
 // colour is within `tol` of `c`; -1 when none. Distance in px from (x0, y0).
 double OutermostAlongRay(const RasterImage& img, double x0, double y0, double dx, double dy,
@@ -331,7 +287,7 @@ TEST(PlotPixels, PolarZDipoleTraceAt90DegLiesOnThe0dBRingAndTheAxisNullAtTheFloo
     o.normalized = normalized;
     const fs::path out =
         ReviewDir() / (std::string("pixel-polar-") + (normalized ? "norm" : "dbi") + ".png");
-    const PolarGeometry g = WritePlot(r, o, out.string()).polar;
+    const PolarGeometry g = WritePlot(r, AnalysisOf(r), o, out.string()).polar;
     const RasterImage img = ReadPng(out.string());
     // theta = +90 deg on the phi = 0 half: straight right of the centre.
     const double peak = normalized ? 0.0 : 10 * std::log10(1.5);
@@ -361,7 +317,7 @@ TEST(PlotPixels, CartesianZDipoleTraceAt90DegOnThe0dBLineAndTheAxisNullOnTheFloo
   o.quantity = Quantity::kDirectivity;
   o.normalized = true;
   const fs::path out = ReviewDir() / "pixel-cartesian-norm.png";
-  const CartesianGeometry g = WritePlot(r, o, out.string()).cartesian;
+  const CartesianGeometry g = WritePlot(r, AnalysisOf(r), o, out.string()).cartesian;
   const RasterImage img = ReadPng(out.string());
   // Down the column at theta = 90 deg: the trace is at the 0 dB line.
   const double x90 = g.XOf(90.0);
@@ -384,7 +340,7 @@ TEST(PlotPixels, MapZDipoleColoursFollowSinSquaredAndTheNullsAreMarked) {
     o.normalized = true;
     o.floor_db = 20;
     const fs::path out = ReviewDir() / ("pixel-map-" + std::string(ToString(proj)) + ".png");
-    const MapGeometry g = WritePlot(r, o, out.string()).map;
+    const MapGeometry g = WritePlot(r, AnalysisOf(r), o, out.string()).map;
     const RasterImage img = ReadPng(out.string());
     ASSERT_EQ(g.panels.size(), 1u);
     const MapPanel& p = g.panels[0];
@@ -418,7 +374,7 @@ TEST(PlotPixels, PolarizationMapShowsLinearForTheDipoleAndRightHandAtTheTurnstil
     o.kind = PlotKind::kPolarization;
     o.floor_db = 10;  // weak field (white) within 18.4 deg of the axis
     const fs::path out = ReviewDir() / "pixel-polarization-dipole.png";
-    const MapGeometry g = WritePlot(r, o, out.string()).map;
+    const MapGeometry g = WritePlot(r, AnalysisOf(r), o, out.string()).map;
     const RasterImage img = ReadPng(out.string());
     ASSERT_EQ(g.panels.size(), 2u);
     double x, y;
@@ -434,7 +390,7 @@ TEST(PlotPixels, PolarizationMapShowsLinearForTheDipoleAndRightHandAtTheTurnstil
     PlotOptions o;
     o.kind = PlotKind::kPolarization;
     const fs::path out = ReviewDir() / "pixel-polarization-turnstile.png";
-    const MapGeometry g = WritePlot(r, o, out.string()).map;
+    const MapGeometry g = WritePlot(r, AnalysisOf(r), o, out.string()).map;
     const RasterImage img = ReadPng(out.string());
     double x, y;
     // Near +z circular (AR ~ 0 dB: the light end) and right-hand; near -z left-hand.
@@ -457,11 +413,11 @@ TEST(PlotPixels, CutWithNoFieldDrawsNoTraceAndSaysSo) {
     o.kind = PlotKind::kPolar;
     o.cut = *CutSpecFromString("theta=90");
     o.normalized = normalized;
-    const CutTraces t = MakeCutTraces(r, o);
+    const CutTraces t = MakeCutTraces(r, AnalysisOf(r), o);
     EXPECT_TRUE(t.no_field);
     const fs::path out =
         ReviewDir() / (std::string("pixel-polar-no-field") + (normalized ? "-norm" : "") + ".png");
-    const PolarGeometry g = WritePlot(r, o, out.string()).polar;
+    const PolarGeometry g = WritePlot(r, AnalysisOf(r), o, out.string()).polar;
     const RasterImage img = ReadPng(out.string());
     // No trace inside the plot circle (the legend swatch lies outside it).
     int trace_px = 0;
@@ -476,9 +432,9 @@ TEST(PlotPixels, CutWithNoFieldDrawsNoTraceAndSaysSo) {
   PlotOptions o;
   o.kind = PlotKind::kCartesian;
   o.cut = *CutSpecFromString("theta=60");
-  EXPECT_FALSE(MakeCutTraces(r, o).no_field);
+  EXPECT_FALSE(MakeCutTraces(r, AnalysisOf(r), o).no_field);
   o.cut = *CutSpecFromString("theta=90");
-  WritePlot(r, o, (ReviewDir() / "pixel-cartesian-no-field.png").string());
+  WritePlot(r, AnalysisOf(r), o, (ReviewDir() / "pixel-cartesian-no-field.png").string());
 }
 
 TEST(PlotPixels, PolarRingLabelsSitOverTheTraces) {
@@ -491,7 +447,7 @@ TEST(PlotPixels, PolarRingLabelsSitOverTheTraces) {
   o.kind = PlotKind::kPolar;
   o.cut = *CutSpecFromString("theta=60");
   const fs::path out = ReviewDir() / "pixel-polar-ring-labels.png";
-  const PolarGeometry g = WritePlot(r, o, out.string()).polar;
+  const PolarGeometry g = WritePlot(r, AnalysisOf(r), o, out.string()).polar;
   const RasterImage img = ReadPng(out.string());
   const double step = DbLabelStep(g.db_top - g.db_floor);
   int rings = 0;
@@ -538,7 +494,7 @@ TEST(PlotPixels, TitleBlockIsNotClippedAtTheRightEdge) {
     }
     for (const Case& c : cases) {
       const fs::path out = WorkDir() / ("title-" + sample + "-" + c.name + ".png");
-      WritePlot(r, c.o, out.string());
+      WritePlot(r, AnalysisOf(r), c.o, out.string());
       const RasterImage img = ReadPng(out.string());
       const int margin = 6;  // px; the title starts 10 px from the left edge
       int ink = 0;
@@ -587,9 +543,39 @@ TEST(PlotCli, BadOptionsExitWith2AndWriteNothing) {
   EXPECT_EQ(RunCli("plot " + Quote(WorkDir() / "missing.h5") + " -o " + Quote(out), &err), 2);
 }
 
+TEST(PlotLayout, CartesianCutIsCentredOnAnEndfireBeam) {
+  // The endfire pair's beam is toward +x (phi = 0): on the theta = 90 cone (phi 0..360
+  // on the grid) it would be split across both edges; it is drawn in the middle.
+  const StoredResult r = ReadResult(ResultFor("endfire-pair").string());
+  PlotOptions o;
+  o.kind = PlotKind::kCartesian;
+  o.cut = *CutSpecFromString("theta=90");
+  const CartesianGeometry g =
+      WritePlot(r, AnalysisOf(r), o, (ReviewDir() / "layout-endfire-centred.png").string())
+          .cartesian;
+  EXPECT_LT(g.angle_min_deg, -90.0);
+  EXPECT_GT(g.angle_max_deg, 90.0);
+  EXPECT_NEAR(g.XOf(0.0), g.left_px + 0.5 * g.width_px, 0.02 * g.width_px);
+}
+
+TEST(PlotLayout, GroundArraysDrawTheUpperHalfOfAVerticalPolarCut) {
+  const StoredResult r = ReadResult(ResultFor("planar-4x4-ground").string());
+  for (const char* cut : {"elevation", "phi=0"}) {
+    PlotOptions o;
+    o.kind = PlotKind::kPolar;
+    o.cut = *CutSpecFromString(cut);
+    const PolarGeometry g =
+        WritePlot(r, AnalysisOf(r), o,
+                  (ReviewDir() / ("layout-ground-" + o.cut.ShortName() + ".png")).string())
+            .polar;
+    EXPECT_TRUE(g.upper_half) << cut;
+  }
+}
+
 TEST(PlotCli, ComputeWritesTheStandardSet) {
   const fs::path dir = WorkDir() / "standard-set";
   fs::remove_all(dir);
+  fs::create_directories(dir);  // lobecast does not create folders (tests/unix_cli_test.cpp)
   const fs::path h5 = WorkDir() / "broadside-standard.h5";
   std::string err;
   ASSERT_EQ(RunCli("compute " + Quote(fs::path(LOBECAST_SAMPLES) / "broadside-line-8.toml") +
@@ -597,9 +583,23 @@ TEST(PlotCli, ComputeWritesTheStandardSet) {
                    &err),
             0)
       << err;
-  for (const char* name : {"broadside-standard-polar-phi0.png",
-                           "broadside-standard-polar-phi90.png", "broadside-standard-map.png"})
+  // Cuts through the beam: the principal planes of the analysis, not fixed phi planes.
+  for (const char* name : {"broadside-standard-polar-elevation.png",
+                           "broadside-standard-polar-orthogonal.png", "broadside-standard-map.png"})
     FileChecks::Png(dir / name, 800, 600);
+  EXPECT_FALSE(fs::exists(dir / "broadside-standard-polar-phi0.png"));
+  // Without an analysis there are no principal planes: the grid's phi = 0 and 90 cuts.
+  const fs::path bare = WorkDir() / "standard-set-bare";
+  fs::remove_all(bare);
+  fs::create_directories(bare);
+  ASSERT_EQ(
+      RunCli("compute " + Quote(fs::path(LOBECAST_SAMPLES) / "broadside-line-8.toml") + " -o " +
+                 Quote(WorkDir() / "bare.h5") + " --quiet --no-analysis --plots " + Quote(bare),
+             &err),
+      0)
+      << err;
+  for (const char* name : {"bare-polar-phi0.png", "bare-polar-phi90.png", "bare-map.png"})
+    FileChecks::Png(bare / name, 800, 600);
 }
 
 }  // namespace

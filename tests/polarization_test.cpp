@@ -258,10 +258,24 @@ TEST(Polarization, ReferenceNames) {
   EXPECT_EQ(PolarizationReferenceFromString("Y"), PolarizationReference::kLinearY);
   EXPECT_EQ(PolarizationReferenceFromString("RHCP"), PolarizationReference::kRightCircular);
   EXPECT_EQ(PolarizationReferenceFromString("lhcp"), PolarizationReference::kLeftCircular);
+  EXPECT_EQ(PolarizationReferenceFromString("Theta"), PolarizationReference::kTheta);
+  EXPECT_EQ(PolarizationReferenceFromString("phi"), PolarizationReference::kPhi);
   EXPECT_FALSE(PolarizationReferenceFromString("z").has_value());
-  for (auto r : {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-                 PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular})
+  for (auto r : kAllPolarizationReferences)
     EXPECT_EQ(PolarizationReferenceFromString(ToString(r)), r);
+}
+
+TEST(Polarization, ThetaAndPhiReferences) {
+  // CONVENTIONS §2: "theta": co = E_theta, cross = E_phi; "phi": the reverse, whatever phi.
+  const Complex et(0.3, -1.2), ep(-0.7, 0.4);
+  for (const double phi : {0.0, 0.7, 2.5}) {
+    const CoCross t = CoCrossOf(et, ep, phi, PolarizationReference::kTheta);
+    const CoCross p = CoCrossOf(et, ep, phi, PolarizationReference::kPhi);
+    EXPECT_EQ(t.co, et);
+    EXPECT_EQ(t.cross, ep);
+    EXPECT_EQ(p.co, ep);
+    EXPECT_EQ(p.cross, et);
+  }
 }
 
 }  // namespace

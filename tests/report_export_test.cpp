@@ -10,6 +10,7 @@
 #include <cstdlib>
 #include <filesystem>
 #include <fstream>
+#include <limits>
 #include <map>
 #include <sstream>
 #include <string>
@@ -27,6 +28,7 @@
 #include "engine/polarization.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
+#include "io/plot/plot.h"
 
 namespace fs = std::filesystem;
 using ::testing::HasSubstr;
@@ -44,7 +46,14 @@ fs::path WorkDir(const std::string& name) {
 }
 
 // Runs `lobecast ARGS` (ARGS already quoted), stdout and stderr kept apart.
-RunOutput Lobecast(const std::string& args, const std::string& stdin_text = "") {
+RunOutput Lobecast(std::string args, const std::string& stdin_text = "") {
+  // These checks read exports back bit for bit, with their notes as '#' lines: the
+  // round-trip form (the default is rounded, with a notes column, for spreadsheets).
+  if (args.starts_with("export ")) {
+    args.insert(7, args.find("--no-notes") == std::string::npos ? "--precision full --notes "
+                                                                  "comments "
+                                                                : "--precision full ");
+  }
   static int counter = 0;
   const fs::path dir = WorkDir("io");
   const fs::path err = dir / ("stderr-" + std::to_string(counter++));
@@ -93,7 +102,8 @@ std::string Compute(const std::string& input, const std::string& extra = "") {
 }
 
 // A CSV/TSV export read back: '#' notes, the header row, and the rows as doubles
-// (std::strtod in the C locale reads "-inf", "inf" and "nan" too).
+// (std::strtod in the C locale reads "-inf" and "inf" too; an empty cell is an
+// undefined number, NaN).
 struct Table {
   std::vector<std::string> notes;
   std::vector<std::string> columns;
@@ -135,9 +145,13 @@ Table ParseTable(const std::string& text, char sep) {
     if (cells.size() != t.columns.size()) ++t.column_count_mismatches;
     std::vector<double> row;
     for (const std::string& c : cells) {
+      if (c.empty()) {
+        row.push_back(std::numeric_limits<double>::quiet_NaN());
+        continue;
+      }
       char* end = nullptr;
       row.push_back(std::strtod(c.c_str(), &end));
-      if (c.empty() || *end != '\0') ++t.unparsed_cells;
+      if (*end != '\0') ++t.unparsed_cells;
     }
     t.rows.push_back(row);
   }
@@ -174,10 +188,9 @@ TEST_P(SampleResult, ReportAndExportWork) {
   const RunOutput report = Lobecast("report " + Quote(result));
   ASSERT_EQ(report.exit_code, 0) << report.err;
   for (const char* label :
-       {"peak directivity (dBi)", "HPBW elevation plane (deg)", "HPBW orthogonal plane (deg)",
-        "FNBW elevation plane (deg)", "front-to-back (dB)", "highest side lobe (dB re peak)",
-        "XPD at peak (dB)", "worst XPD in -3 dB beam (dB)", "axial ratio at peak (dB)",
-        "stored by compute"}) {
+       {"peak directivity (dBi)", "HPBW ", "FNBW ", "front-to-back (dB)",
+        "highest side lobe (dB re peak)", "XPD at peak (dB)", "worst XPD in -3 dB beam (dB)",
+        "axial ratio at peak (dB)", "stored by compute"}) {
     EXPECT_THAT(report.out, HasSubstr(label));
   }
 
@@ -185,7 +198,7 @@ TEST_P(SampleResult, ReportAndExportWork) {
   ASSERT_EQ(json.exit_code, 0) << json.err;
   if (HavePython()) {
     const RunOutput py = PythonOnJson(
-        json.out, "d[\"source\"], repr(d[\"peak\"][\"directivity\"]), len(d[\"nulls\"])");
+        json.out, "d[\"source\"], repr(d[\"peak\"][\"directivity\"]), len(d[\"null_loci\"])");
     ASSERT_EQ(py.exit_code, 0) << py.out << "\n" << json.out;
     std::ostringstream expected;
     char peak[32];
@@ -266,10 +279,11 @@ TEST(Export, AtLookupEqualsTheEngine) {
     EXPECT_NEAR(t.At(0, "directivity_dBi"), Db(e.directivity), 1e-12) << args;
     EXPECT_NEAR(t.At(0, "rE_theta_V"), std::abs(e.e_theta), 1e-12 * std::abs(e.e_theta));
     EXPECT_NEAR(t.At(0, "phase_theta_deg"), std::arg(e.e_theta) / kDegree, 1e-10);
-    // Ludwig-3 y co-polar of a z-directed array (auto reference at a broadside peak
-    // on the y axis): co = Et sin(phi) + Ep cos(phi).
+    // The auto reference of a z-directed array with its beam on the horizon is theta
+    // (AutoReference; was Ludwig-3 y, which mixes E_theta into the cross field off the
+    // y axis): co = E_theta (CONVENTIONS §2).
     const CoCross cc =
-        CoCrossOf(e.e_theta, e.e_phi, 73.25 * kDegree, PolarizationReference::kLinearY);
+        CoCrossOf(e.e_theta, e.e_phi, 73.25 * kDegree, PolarizationReference::kTheta);
     const double per_v2 = 4.0 * kPi / (2.0 * kEta0_ohm * stored.result.radiated_power_w);
     EXPECT_NEAR(t.At(0, "co_dBi"), Db(per_v2 * std::norm(cc.co)), 1e-12);
   }
@@ -373,18 +387,85 @@ TEST(Report, HertzianDipoleBeamAndNulls) {
   ASSERT_TRUE(a.has_value());
   EXPECT_NEAR(a->analysis.elevation_cut.half_power_width_deg, 90.0, 1e-4);
   EXPECT_FALSE(a->analysis.orthogonal_cut.half_power_found);
-  ASSERT_FALSE(a->analysis.nulls.empty());
-  EXPECT_TRUE(a->analysis.nulls.front().exact);
-  EXPECT_TRUE(std::isinf(a->analysis.nulls.front().level_db));
+  ASSERT_FALSE(a->analysis.null_loci.empty());
+  EXPECT_TRUE(a->analysis.null_loci.front().exact);
+  EXPECT_TRUE(std::isinf(a->analysis.null_loci.front().level_db));
   if (HavePython()) {
     const RunOutput json = Lobecast("report --json " + Quote(result));
     const RunOutput py = PythonOnJson(
         json.out,
         "d[\"elevation_plane\"][\"half_power_width_deg\"], "
-        "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"nulls\"][0][\"exact\"]");
+        "d[\"orthogonal_plane\"][\"half_power_width_deg\"], d[\"null_loci\"][0][\"exact\"]");
     ASSERT_EQ(py.exit_code, 0) << py.out;
     EXPECT_THAT(py.out, HasSubstr("inf True"));  // an infinite width is the string "inf"
     EXPECT_NEAR(std::strtod(py.out.c_str(), nullptr), 90.0, 1e-4);
+  }
+}
+
+// The figures a cut plot draws are the report's numbers: every label of the plots of
+// both principal planes (what WritePlot says it drew) equals the field of `report
+// --json` it names, bit for bit (Python's repr round-trips doubles).
+TEST(Report, PlotLabelsAreTheReportsNumbers) {
+  if (!HavePython()) GTEST_SKIP() << "no " << LOBECAST_PYTHON;
+  for (const char* sample : {"broadside-line-8", "planar-4x4-ground", "endfire-pair"}) {
+    const std::string result = Compute(Sample(sample));
+    const RunOutput json = Lobecast("report --json " + Quote(result));
+    ASSERT_EQ(json.exit_code, 0) << json.err;
+    const StoredResult stored = ReadResult(result);
+    const std::optional<StoredAnalysis> a = ReadAnalysis(result);
+    ASSERT_TRUE(a.has_value());
+    for (const plot::CutPlane plane : {plot::CutPlane::kElevation, plot::CutPlane::kOrthogonal}) {
+      for (const plot::PlotKind kind : {plot::PlotKind::kPolar, plot::PlotKind::kCartesian}) {
+        plot::PlotOptions o;
+        o.kind = kind;
+        o.cut.plane = plane;
+        const fs::path out = WorkDir("labels") / (std::string(sample) + "-" + o.cut.ShortName() +
+                                                  "-" + std::string(plot::ToString(kind)) + ".png");
+        const std::vector<plot::CutLabel> labels =
+            plot::WritePlot(stored, &a->analysis, o, out.string()).labels;
+        ASSERT_FALSE(labels.empty());
+        // The JSON field each label names, as a Python expression on d.
+        std::string expr;
+        int crossing = 0;
+        const char* on_plane = plane == plot::CutPlane::kOrthogonal ? "True" : "False";
+        for (const plot::CutLabel& l : labels) {
+          std::string e;
+          if (l.key == "null_crossings.offset_deg") {
+            e = std::string(
+                    "[c[\"offset_deg\"] for c in d[\"null_crossings\"] if "
+                    "c[\"orthogonal_plane\"] == ") +
+                on_plane + "][" + std::to_string(crossing++) + "]";
+          } else if (l.key == "major_lobes.size") {
+            e = "len(d[\"major_lobes\"])";
+          } else {
+            const std::size_t dot = l.key.find('.');
+            ASSERT_NE(dot, std::string::npos) << l.key;
+            e = "d[\"" + l.key.substr(0, dot) + "\"]";
+            if (l.key.substr(0, dot) == "highest_side_lobe" && !std::isfinite(l.value)) {
+              e = "None if " + e + " is None else 1";  // no side lobe: null in the JSON
+            } else {
+              e += "[\"" + l.key.substr(dot + 1) + "\"]";
+            }
+          }
+          expr += (expr.empty() ? "" : ", ") + std::string("repr(") + e + ")";
+        }
+        const RunOutput py = PythonOnJson(json.out, expr);
+        ASSERT_EQ(py.exit_code, 0) << py.out;
+        std::istringstream tokens(py.out);
+        for (const plot::CutLabel& l : labels) {
+          std::string t;
+          ASSERT_TRUE(tokens >> t) << l.key;
+          if (t == "None") {
+            EXPECT_FALSE(std::isfinite(l.value)) << sample << " " << l.key;  // JSON null
+          } else {
+            EXPECT_EQ(std::strtod(t.c_str(), nullptr), l.value) << sample << " " << l.key;
+          }
+          // A twin main beam is another major lobe, never a "side lobe 0.0 dB".
+          EXPECT_EQ(l.text.find("side lobe 0.0"), std::string::npos) << l.text;
+          EXPECT_EQ(l.text.find("side lobe -0.0"), std::string::npos) << l.text;
+        }
+      }
+    }
   }
 }
 
@@ -405,7 +486,8 @@ TEST(Report, StoredAnalysisMatchesTheEngineAndRecomputesWhenAbsent) {
   EXPECT_EQ(s.elevation_cut.half_power_width_deg, fresh.elevation_cut.half_power_width_deg);
   EXPECT_EQ(s.orthogonal_cut.first_null_width_deg, fresh.orthogonal_cut.first_null_width_deg);
   EXPECT_EQ(s.front_to_back.ratio_db, fresh.front_to_back.ratio_db);
-  EXPECT_EQ(s.nulls.size(), fresh.nulls.size());
+  EXPECT_EQ(s.null_loci.size(), fresh.null_loci.size());
+  EXPECT_EQ(s.null_crossings.size(), fresh.null_crossings.size());
   EXPECT_EQ(s.polarization.xpd_at_peak_db, fresh.polarization.xpd_at_peak_db);
   EXPECT_EQ(s.polarization.axial_ratio_solid_angle_sr,
             fresh.polarization.axial_ratio_solid_angle_sr);
@@ -476,15 +558,16 @@ TEST(ReportExport, BadEnumNamesListTheAcceptedOnes) {
   const std::string r = " " + Quote(result);
   const std::string plot = "plot -o " + Quote((WorkDir("io") / "names.png").string());
   const std::pair<std::string, std::string> cases[] = {
-      {"export --reference z" + r, "expected x, y, rhcp, lhcp or auto"},
+      {"export --reference z" + r, "expected x, y, rhcp, lhcp, theta, phi or auto"},
       {"export --format xlsx" + r, "expected csv or tsv"},
       {"export --coords polar" + r, "expected theta-phi or az-el"},
       {"report --null-field cross" + r, "expected total or co"},
-      {"compute --method Fast " + Quote(Sample("single-dipole")), "{direct,fast,auto}"},
-      {"compute --reference q " + Quote(Sample("single-dipole")), "{x,y,rhcp,lhcp,auto}"},
+      {"compute --method Fast " + Quote(Sample("single-dipole")), "expected direct, fast or auto"},
+      {"compute --reference q " + Quote(Sample("single-dipole")),
+       "expected x, y, rhcp, lhcp, theta, phi or auto"},
       {plot + " --kind pie" + r, "expected polar, cartesian, map or polarization"},
       {plot + " --quantity x" + r, "expected directivity, co, cross, theta or phi"},
-      {plot + " --reference q" + r, "expected auto, x, y, rhcp or lhcp"},
+      {plot + " --reference q" + r, "expected auto, x, y, rhcp, lhcp, theta or phi"},
       {plot + " --kind map --projection merc" + r, "expected theta-phi, az-el or uv"}};
   for (const auto& [args, names] : cases) {
     const RunOutput run = Lobecast(args);

@@ -62,6 +62,8 @@ Lobe RandomLobe(Random& r) { return RandomLevels<Lobe>(r); }
 
 BeamCut RandomCut(Random& r) {
   BeamCut c;
+  c.plane = static_cast<CutPlane>(r.Int(0, 5));
+  c.plane_phi_deg = r.Number();
   c.half_power_found = r.Flag();
   c.half_power_width_deg = r.Number();
   c.half_power_lower_deg = r.Number();
@@ -71,6 +73,7 @@ BeamCut RandomCut(Random& r) {
   c.first_null_lower_deg = r.Number();
   c.first_null_upper_deg = r.Number();
   c.clipped_by_ground = r.Flag();
+  c.tangent = r.Direction();
   return c;
 }
 
@@ -95,14 +98,33 @@ PatternAnalysis RandomAnalysis(Random& r, bool empty_lists) {
   for (int i = r.Int(lists, 5 * lists); i > 0; --i) a.side_lobes.push_back(RandomLobe(r));
   a.side_lobes_truncated = r.Flag();
   for (int i = r.Int(lists, 5 * lists); i > 0; --i) {
-    Null n;
+    NullLocus n;
+    n.cone = r.Flag();
+    n.point = r.Flag();
+    n.axis = r.Direction();
+    n.half_angle_deg = r.Number();
     n.direction = r.Direction();
+    n.theta_min_deg = r.Number();
+    n.theta_max_deg = r.Number();
+    n.phi_min_deg = r.Number();
+    n.phi_max_deg = r.Number();
     n.directivity = r.Number();
     n.level_db = r.Number();
     n.exact = r.Flag();
-    a.nulls.push_back(n);
+    a.null_loci.push_back(n);
   }
-  a.nulls_truncated = r.Flag();
+  a.null_loci_truncated = r.Flag();
+  for (int i = r.Int(lists, 5 * lists); i > 0; --i) {
+    NullCrossing c;
+    c.locus = r.Number();
+    c.orthogonal_plane = r.Flag();
+    c.offset_deg = r.Number();
+    c.direction = r.Direction();
+    c.directivity = r.Number();
+    c.level_db = r.Number();
+    c.exact = r.Flag();
+    a.null_crossings.push_back(c);
+  }
   for (int i = r.Int(lists, 4 * lists); i > 0; --i) {
     ProtectedDirectionField f = RandomLevels<ProtectedDirectionField>(r);
     f.co_polar_dbi = r.Number();
@@ -111,7 +133,7 @@ PatternAnalysis RandomAnalysis(Random& r, bool empty_lists) {
     a.protected_directions.push_back(f);
   }
   PolarizationPurity& p = a.polarization;
-  p.reference = static_cast<PolarizationReference>(r.Int(0, 3));
+  p.reference = static_cast<PolarizationReference>(r.Int(0, 5));
   p.co_polar_dbi_at_peak = r.Number();
   p.cross_polar_dbi_at_peak = r.Number();
   p.xpd_at_peak_db = r.Number();
@@ -149,6 +171,8 @@ void Same(const Lobe& f, const Lobe& e, const std::string& what) {
 }
 
 void Same(const BeamCut& f, const BeamCut& e, const std::string& what) {
+  EXPECT_EQ(f.plane, e.plane) << what;
+  Same(f.plane_phi_deg, e.plane_phi_deg, what + ".plane_phi_deg");
   EXPECT_EQ(f.half_power_found, e.half_power_found) << what;
   Same(f.half_power_width_deg, e.half_power_width_deg, what + ".half_power_width_deg");
   Same(f.half_power_lower_deg, e.half_power_lower_deg, what + ".half_power_lower_deg");
@@ -158,6 +182,7 @@ void Same(const BeamCut& f, const BeamCut& e, const std::string& what) {
   Same(f.first_null_lower_deg, e.first_null_lower_deg, what + ".first_null_lower_deg");
   Same(f.first_null_upper_deg, e.first_null_upper_deg, what + ".first_null_upper_deg");
   EXPECT_EQ(f.clipped_by_ground, e.clipped_by_ground) << what;
+  Same(f.tangent, e.tangent, what + ".tangent");
 }
 
 void Same(const PatternAnalysis& f, const PatternAnalysis& e) {
@@ -186,15 +211,36 @@ void Same(const PatternAnalysis& f, const PatternAnalysis& e) {
     Same(f.side_lobes[i], e.side_lobes[i], "side_lobes[" + std::to_string(i) + "]");
   }
   EXPECT_EQ(f.side_lobes_truncated, e.side_lobes_truncated);
-  ASSERT_EQ(f.nulls.size(), e.nulls.size());
-  for (std::size_t i = 0; i < e.nulls.size(); ++i) {
-    const std::string w = "nulls[" + std::to_string(i) + "]";
-    Same(f.nulls[i].direction, e.nulls[i].direction, w + ".direction");
-    Same(f.nulls[i].directivity, e.nulls[i].directivity, w + ".directivity");
-    Same(f.nulls[i].level_db, e.nulls[i].level_db, w + ".level_db");
-    EXPECT_EQ(f.nulls[i].exact, e.nulls[i].exact) << w;
+  ASSERT_EQ(f.null_loci.size(), e.null_loci.size());
+  for (std::size_t i = 0; i < e.null_loci.size(); ++i) {
+    const std::string w = "null_loci[" + std::to_string(i) + "]";
+    const NullLocus &x = f.null_loci[i], &y = e.null_loci[i];
+    EXPECT_EQ(x.cone, y.cone) << w;
+    EXPECT_EQ(x.point, y.point) << w;
+    Same(x.axis, y.axis, w + ".axis");
+    Same(x.half_angle_deg, y.half_angle_deg, w + ".half_angle_deg");
+    Same(x.direction, y.direction, w + ".direction");
+    Same(x.theta_min_deg, y.theta_min_deg, w + ".theta_min_deg");
+    Same(x.theta_max_deg, y.theta_max_deg, w + ".theta_max_deg");
+    Same(x.phi_min_deg, y.phi_min_deg, w + ".phi_min_deg");
+    Same(x.phi_max_deg, y.phi_max_deg, w + ".phi_max_deg");
+    Same(x.directivity, y.directivity, w + ".directivity");
+    Same(x.level_db, y.level_db, w + ".level_db");
+    EXPECT_EQ(x.exact, y.exact) << w;
   }
-  EXPECT_EQ(f.nulls_truncated, e.nulls_truncated);
+  EXPECT_EQ(f.null_loci_truncated, e.null_loci_truncated);
+  ASSERT_EQ(f.null_crossings.size(), e.null_crossings.size());
+  for (std::size_t i = 0; i < e.null_crossings.size(); ++i) {
+    const std::string w = "null_crossings[" + std::to_string(i) + "]";
+    const NullCrossing &x = f.null_crossings[i], &y = e.null_crossings[i];
+    Same(x.locus, y.locus, w + ".locus");
+    EXPECT_EQ(x.orthogonal_plane, y.orthogonal_plane) << w;
+    Same(x.offset_deg, y.offset_deg, w + ".offset_deg");
+    Same(x.direction, y.direction, w + ".direction");
+    Same(x.directivity, y.directivity, w + ".directivity");
+    Same(x.level_db, y.level_db, w + ".level_db");
+    EXPECT_EQ(x.exact, y.exact) << w;
+  }
   ASSERT_EQ(f.protected_directions.size(), e.protected_directions.size());
   for (std::size_t i = 0; i < e.protected_directions.size(); ++i) {
     const std::string w = "protected_directions[" + std::to_string(i) + "]";
@@ -225,7 +271,7 @@ void Same(const PatternAnalysis& f, const PatternAnalysis& e) {
 
 AnalysisOptions RandomOptions(Random& r, const PatternAnalysis& a) {
   AnalysisOptions o;
-  o.reference = static_cast<PolarizationReference>(r.Int(0, 3));
+  o.reference = static_cast<PolarizationReference>(r.Int(0, 5));
   o.null_field = r.Flag() ? NullField::kCoPolar : NullField::kTotal;
   o.null_threshold_db = r.Number();
   o.side_lobe_threshold_db = r.Number();
@@ -348,16 +394,21 @@ TEST(Schema, TablesKeepTheColumnsOfVersionOne) {
   // The layout schema version 1 files have always had (the former hand-written
   // column lists of io/hdf5/analysis_writer.cpp); readers such as scripts rely on it.
   const auto lobe = [](auto& l, auto& v) { schema::VisitLobe(l, v); };
-  const auto null = [](auto& n, auto& v) { schema::VisitNull(n, v); };
+  const auto null = [](auto& n, auto& v) { schema::VisitNullLocus(n, v); };
   const auto prot = [](auto& f, auto& v) { schema::VisitProtected(f, v); };
   const schema::Columns l = schema::ColumnsOf<Lobe>(lobe);
-  const schema::Columns n = schema::ColumnsOf<Null>(null);
+  const schema::Columns n = schema::ColumnsOf<NullLocus>(null);
   const schema::Columns p = schema::ColumnsOf<ProtectedDirectionField>(prot);
   EXPECT_EQ(schema::Columns::Joined(l.names),
             "theta_deg, phi_deg, directivity, directivity_dbi, level_db");
   EXPECT_EQ(schema::Columns::Joined(l.units), "deg, deg, 1, dBi, dB");
-  EXPECT_EQ(schema::Columns::Joined(n.names), "theta_deg, phi_deg, directivity, level_db, exact");
-  EXPECT_EQ(schema::Columns::Joined(n.units), "deg, deg, 1, dB, 1");
+  // Version 2 replaced the point nulls by null loci.
+  EXPECT_EQ(schema::Columns::Joined(n.names),
+            "cone, point, axis_theta_deg, axis_phi_deg, half_angle_deg, theta_min_deg, "
+            "theta_max_deg, phi_min_deg, phi_max_deg, theta_deg, phi_deg, directivity, "
+            "level_db, exact");
+  EXPECT_EQ(schema::Columns::Joined(n.units),
+            "1, 1, deg, deg, deg, deg, deg, deg, deg, deg, deg, 1, dB, 1");
   EXPECT_EQ(schema::Columns::Joined(p.names),
             "theta_deg, phi_deg, directivity, directivity_dbi, level_db, co_polar_dbi, "
             "cross_polar_dbi, no_field");

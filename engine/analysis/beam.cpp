@@ -92,17 +92,22 @@ void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
 
 }  // namespace
 
-DirectionDeg ToDirectionDeg(const Vec3& r_hat, double axis_tolerance_rad) {
-  const SphericalAngles s = AnglesOf(r_hat);
-  // On the z axis (to the search's own tolerance) phi names nothing: undefined.
-  if (s.theta_rad <= axis_tolerance_rad || s.theta_rad == 0.0)
-    return {0.0, std::numeric_limits<double>::quiet_NaN()};
-  if (kPi - s.theta_rad <= axis_tolerance_rad || s.theta_rad == kPi)
-    return {180.0, std::numeric_limits<double>::quiet_NaN()};
+DirectionDeg AnglesDeg(const Vec3& v) {
+  const SphericalAngles s = AnglesOf(v);
   DirectionDeg d{s.theta_rad / kDegree, s.phi_rad / kDegree};
   // Rounding can leave phi a hair below 360; 1e-9 deg is far below any refinement
   // tolerance, so call it 0 rather than print 360.0000.
   if (d.phi_deg >= 360.0 - 1e-9) d.phi_deg = 0.0;
+  return d;
+}
+
+DirectionDeg ToDirectionDeg(const Vec3& r_hat, double axis_tolerance_rad) {
+  const DirectionDeg d = AnglesDeg(r_hat);
+  // On the z axis (to the search's own tolerance) phi names nothing: undefined.
+  if (d.theta_deg * kDegree <= axis_tolerance_rad || d.theta_deg == 0.0)
+    return {0.0, std::numeric_limits<double>::quiet_NaN()};
+  if (kPi - d.theta_deg * kDegree <= axis_tolerance_rad || d.theta_deg == 180.0)
+    return {180.0, std::numeric_limits<double>::quiet_NaN()};
   return d;
 }
 
@@ -307,32 +312,92 @@ BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tang
   return c;
 }
 
+bool OnAxis(const Vec3& peak) {
+  return std::atan2(std::hypot(peak.x(), peak.y()), std::abs(peak.z())) < kOnAxisDeg * kDegree;
+}
+
+std::pair<PrincipalPlane, PrincipalPlane> PrincipalPlanesAt(const PatternProbe& probe,
+                                                            const Vec3& peak,
+                                                            const DirectionDeg& peak_deg) {
+  if (!OnAxis(peak)) {
+    const LocalChart chart(peak);
+    return {{CutPlane::kElevation, peak_deg.phi_deg, chart.e1()},
+            {CutPlane::kOrthogonal, std::numeric_limits<double>::quiet_NaN(), chart.e2()}};
+  }
+  // The tangent toward phi = phi_deg: (cos phi, sin phi, 0) projected onto the tangent
+  // plane of the peak (exact on the axis itself; the peak may sit up to kOnAxisDeg off).
+  auto toward = [&](double phi_deg) {
+    const Vec3 u(std::cos(phi_deg * kDegree), std::sin(phi_deg * kDegree), 0.0);
+    return Vec3((u - u.dot(peak) * peak).normalized());
+  };
+  auto plane = [&](CutPlane p, double phi_deg) {
+    return PrincipalPlane{p, phi_deg, toward(phi_deg)};
+  };
+  const ProbeSample s = probe.At(peak);
+  const Polarization pol = PolarizationOf(s.e_theta, s.e_phi, s.floor_v);
+  if (!(pol.axial_ratio_db >= kEPlaneMinAxialRatioDb))  // also NaN: no field
+    return {plane(CutPlane::kXZ, 0.0), plane(CutPlane::kYZ, 90.0)};
+  // The major axis of the polarization ellipse, from the Cartesian field (smooth across
+  // the pole, unlike E_theta and E_phi): the real unit vector t in the xy plane that
+  // maximizes |E . t|^2 = A cos^2 a + B sin^2 a + 2 C sin a cos a, at
+  // a = atan2(2 C, A - B) / 2 (the same formula as the tilt, IEEE Std 145-2013).
+  const Eigen::Vector3cd e = s.FieldVector_v();
+  const double a = std::norm(e.x()), b = std::norm(e.y());
+  const double c = (e.x() * std::conj(e.y())).real();
+  double phi = 0.5 * std::atan2(2.0 * c, a - b) / kDegree;
+  // The plane holds both t and -t: name it by the phi in [0, 180).
+  phi = std::fmod(phi + 360.0, 180.0);
+  if (phi >= 180.0 - 1e-9) phi = 0.0;
+  const double h = phi < 90.0 ? phi + 90.0 : phi - 90.0;
+  return {plane(CutPlane::kE, phi), plane(CutPlane::kH, h)};
+}
+
+BeamCut AnalyzePlane(const PatternProbe& probe, const Vec3& peak, const PrincipalPlane& plane,
+                     double peak_directivity, const AnalysisOptions& options) {
+  BeamCut c = AnalyzeCut(probe, peak, plane.tangent, peak_directivity, options);
+  c.plane = plane.plane;
+  c.plane_phi_deg = plane.phi_deg;
+  c.tangent = AnglesDeg(plane.tangent);  // a vector to rebuild, not a reported direction
+  return c;
+}
+
 FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, const DirectionDeg& peak_deg,
                           double peak_directivity, double tolerance_rad) {
   FrontToBack f;
+  const bool pec = probe.array().ground == Ground::kPec;
   auto grazing_onto_horizon = [&](Vec3 r) {
-    if (probe.array().ground == Ground::kPec && r.z() < 0.0 &&
-        r.z() >= -std::max(tolerance_rad, 1e-12) && std::hypot(r.x(), r.y()) > 0.0) {
+    if (pec && r.z() < 0.0 && r.z() >= -std::max(tolerance_rad, 1e-12) &&
+        std::hypot(r.x(), r.y()) > 0.0) {
       r.z() = 0.0;
       r.normalize();
     }
     return r;
   };
-  const Vec3 back = grazing_onto_horizon(-peak);
   const Vec3 behind = grazing_onto_horizon(Vec3(-peak.x(), -peak.y(), peak.z()));
+  const Vec3 back = pec ? behind : grazing_onto_horizon(-peak);
   const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{back, behind});
   // phi + 180 in [0, 360); NaN (on the z axis) stays NaN.
   const double opposite_phi =
       peak_deg.phi_deg >= 180.0 ? peak_deg.phi_deg - 180.0 : peak_deg.phi_deg + 180.0;
-  const bool grazed = back != -peak;
-  f.back_direction = grazed ? ToDirectionDeg(back, tolerance_rad)
-                            : DirectionDeg{180.0 - peak_deg.theta_deg, opposite_phi};
   f.same_elevation_back_direction = behind.z() != peak.z() || std::isnan(opposite_phi)
                                         ? ToDirectionDeg(behind, tolerance_rad)
                                         : DirectionDeg{peak_deg.theta_deg, opposite_phi};
+  // In free space nothing grazes: the back direction is the exact antipode.
+  f.back_direction = pec ? f.same_elevation_back_direction
+                         : DirectionDeg{180.0 - peak_deg.theta_deg, opposite_phi};
   // The peak is > 0, so a zero (or rounding-level) back field gives +inf.
   f.ratio_db = PowerRatioDb(peak_directivity, s[0].directivity);
   f.same_elevation_ratio_db = PowerRatioDb(peak_directivity, s[1].directivity);
+  if (OnAxis(peak)) {
+    // "Behind at the same theta" of a peak on the axis is the peak itself.
+    constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
+    f.same_elevation_ratio_db = kNaN;
+    f.same_elevation_back_direction = {kNaN, kNaN};
+    if (pec) {
+      f.ratio_db = kNaN;
+      f.back_direction = {kNaN, kNaN};
+    }
+  }
   return f;
 }
 

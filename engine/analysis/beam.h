@@ -54,13 +54,38 @@ double CutStepRad(const PatternProbe& probe, const Vec3& peak, const Vec3& tange
 BeamCut AnalyzeCut(const PatternProbe& probe, const Vec3& peak, const Vec3& tangent,
                    double peak_directivity, const AnalysisOptions& options);
 
-// Over a PEC ground, a back direction within tolerance_rad below the ground plane (the
-// opposite of a peak on the horizon, tilted a hair down by rounding) is taken on the
-// horizon: the field there is not the zero below the ground.
-// peak_deg: the peak as reported; the back directions are reported from its angles by
-// exact arithmetic (180 - theta, phi + 180), not from the antipode vector's rounding.
+// True when the peak is within kOnAxisDeg of the z axis (either pole).
+bool OnAxis(const Vec3& peak);
+
+// The two principal planes through the peak (definitions in analysis_types.h,
+// PatternAnalysis): what each is, its plane_phi_deg, and its unit tangent at the peak
+// (the direction of positive offsets).
+struct PrincipalPlane {
+  CutPlane plane = CutPlane::kElevation;
+  double phi_deg = 0.0;  // NaN for kOrthogonal
+  Vec3 tangent = Vec3::UnitX();
+};
+// peak_deg: the peak as reported; the elevation plane's phi is its phi.
+std::pair<PrincipalPlane, PrincipalPlane> PrincipalPlanesAt(const PatternProbe& probe,
+                                                            const Vec3& peak,
+                                                            const DirectionDeg& peak_deg);
+
+// The cut along a principal plane, labelled with it.
+BeamCut AnalyzePlane(const PatternProbe& probe, const Vec3& peak, const PrincipalPlane& plane,
+                     double peak_directivity, const AnalysisOptions& options);
+
+// F/B as defined in analysis_types.h (FrontToBack). Over a PEC ground, a back direction
+// within tolerance_rad below the ground plane (behind a peak on the horizon, tilted a
+// hair down by rounding) is taken on the horizon: the field there is not the zero below
+// the ground. peak_deg: the peak as reported; the back directions are reported from its
+// angles by exact arithmetic (180 - theta, phi + 180), not from the antipode vector's
+// rounding.
 FrontToBack FrontToBackOf(const PatternProbe& probe, const Vec3& peak, const DirectionDeg& peak_deg,
                           double peak_directivity, double tolerance_rad);
+
+// The angles of any unit vector in degrees, phi in [0, 360) (atan2's on the z axis): for
+// vectors a plot rebuilds (cut tangents, cone axes), not for reported directions.
+DirectionDeg AnglesDeg(const Vec3& v);
 
 // Direction in degrees, phi in [0, 360); within axis_tolerance_rad of the z axis (a
 // search's own tolerance) theta is exactly 0 or 180 and phi NaN (undefined).

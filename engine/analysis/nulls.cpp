@@ -1,32 +1,54 @@
-// Nulls of the total or co-polar field (nulls.h).
+// Null loci of the total or co-polar field (nulls.h).
 #include "engine/analysis/nulls.h"
 
 #include <algorithm>
 #include <cmath>
 #include <limits>
 
+#include <Eigen/Eigenvalues>
 #include <Eigen/SVD>
 
 #include "engine/analysis/beam.h"
 #include "engine/analysis/local_search.h"
 #include "engine/decibels.h"
+#include "engine/ground.h"
 
 namespace lobecast {
 namespace {
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
+constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-// Grid local minima up to this far above the threshold are refined too: a point null
-// between grid points can sample well above its true depth (a dipole's axis 2.5 deg
-// off the nearest grid point samples at -27 dB).
+// Grid minima up to this far above the threshold are refined too: a point null between
+// grid points can sample well above its true depth (a dipole's axis 2.5 deg off the
+// nearest grid point samples at -27 dB).
 constexpr double kScreenMargin_db = 20.0;
-
-// Refined nulls closer than this are the same null, rad.
-constexpr double kSameNull_rad = 1e-4;
 
 // Central-difference step of the Gauss-Newton Jacobian, rad: the residual is linear in
 // the offset near a simple null, so only rounding (~eps |E| / h) limits the Jacobian.
 constexpr double kJacobianStep_rad = 1e-7;
+
+// Seeds refined per connected set of grid null directions (spread along it).
+constexpr std::size_t kSeedsPerSet = 24;
+
+// A refined point is a zero, fit for a cone, when its null field is below the numerical
+// floor (engine/rounding_floor.h: the probe floors it to exact zeros, level 0). A cone is
+// kept when every check around it is a zero too.
+bool IsZero(double level) { return level == 0.0; }
+// Checks around a candidate cone (evenly in the angle about its axis).
+constexpr int kConeChecks = 72;
+// Refined zeros whose cos(angle from the axis) agree this well are on one cone.
+constexpr double kSameConeCos = 1e-7;
+// A cone narrower than this (rad) is a point.
+constexpr double kPointCone_rad = 1e-5;
+// Grid directions within this many spacings of a kept cone are explained by it.
+constexpr double kExplainedSpacings = 1.5;
+// Samples of a cone's circle for its extent (pure geometry, no field evaluations).
+constexpr int kExtentSamples = 7200;
+// Null directions of one set closer than this many grid spacings are one locus.
+constexpr double kLinkSpacings = 2.5;
+// A crossing lies on a cone when its angle from the axis is this close (rad).
+constexpr double kOnCone_rad = 1e-6;
 
 // The null field as real residuals, scaled so that |residual|^2 = D_null / D_peak.
 // Total field: the Cartesian rE (smooth across the poles); co-polar: the co component.
@@ -41,6 +63,160 @@ Eigen::VectorXd Residual(const ProbeSample& s, const AnalysisOptions& options, d
   return r;
 }
 
+// What the searches share: the probe, the options, the level of a direction.
+struct NullProblem {
+  const PatternProbe& probe;
+  const AnalysisOptions& options;
+  double peak_directivity;
+  double scale;  // field -> residual
+
+  double Level(const Vec3& r) const {
+    const ProbeSample s = probe.At(r);
+    return s.no_field ? kInf : NullFieldDirectivity(probe, s, options) / peak_directivity;
+  }
+
+  // Gauss-Newton on the field from r (level v): the least-squares (minimum-norm) step
+  // toward a zero, which for a null curve lands on the curve. max_step bounds a step.
+  void Polish(Vec3* r, double* v, double max_step) const {
+    for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
+      const LocalChart lc(*r);
+      const double h = kJacobianStep_rad;
+      const std::vector<ProbeSample> s =
+          probe.At(std::vector<Vec3>{*r, lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)});
+      if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
+      const Eigen::VectorXd r0 = Residual(s[0], options, scale);
+      Eigen::MatrixXd jac(r0.size(), 2);
+      jac.col(0) = (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
+      jac.col(1) = (Residual(s[3], options, scale) - Residual(s[4], options, scale)) / (2 * h);
+      Eigen::JacobiSVD<Eigen::MatrixXd> svd(jac, Eigen::ComputeThinU | Eigen::ComputeThinV);
+      svd.setThreshold(1e-8);
+      const Eigen::Vector2d step = -svd.solve(r0);
+      if (!(step.norm() > 0.0) || step.norm() > max_step) break;
+      const Vec3 cand = lc.At(step[0], step[1]);
+      const double vc = Level(cand);
+      if (!(vc < *v)) break;
+      *r = cand;
+      *v = vc;
+      if (step.norm() < 1e-15) break;
+    }
+  }
+
+  // The same along a great circle (a 1-D Gauss-Newton on the offset s).
+  void PolishAlong(const Vec3& from, const Vec3& tangent, double* s_rad, double* v) const {
+    for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
+      const double h = kJacobianStep_rad;
+      const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{
+          AlongGreatCircle(from, tangent, *s_rad), AlongGreatCircle(from, tangent, *s_rad + h),
+          AlongGreatCircle(from, tangent, *s_rad - h)});
+      if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
+      const Eigen::VectorXd r0 = Residual(s[0], options, scale);
+      const Eigen::VectorXd j =
+          (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
+      if (!(j.squaredNorm() > 0.0)) break;
+      const double step = -j.dot(r0) / j.squaredNorm();
+      if (!(std::abs(step) > 0.0) || std::abs(step) > 1e-3) break;
+      const double vc = Level(AlongGreatCircle(from, tangent, *s_rad + step));
+      if (!(vc < *v)) break;
+      *s_rad += step;
+      *v = vc;
+    }
+  }
+
+  // Depth fields of a null of relative level v: exact zeros carry no depth.
+  void SetDepth(double v, double* directivity, double* level_db, bool* exact) const {
+    *exact = IsZero(v);
+    *directivity = *exact ? 0.0 : v * peak_directivity;
+    *level_db = *exact ? -kInf : ToDb(v);
+  }
+};
+
+// Candidate cone axes: x, y, z and the principal axes of the sources' positions (with
+// their images over a ground), one of each +-pair, the largest component positive.
+std::vector<Vec3> CandidateAxes(const Array& array) {
+  std::vector<Vec3> pos;
+  for (const Dipole& d : array.dipoles) {
+    pos.push_back(d.position_m);
+    if (array.ground == Ground::kPec)
+      pos.push_back(Vec3(d.position_m.x(), d.position_m.y(), -d.position_m.z()));
+  }
+  std::vector<Vec3> axes = {Vec3::UnitX(), Vec3::UnitY(), Vec3::UnitZ()};
+  if (pos.size() >= 2) {
+    Vec3 mean = Vec3::Zero();
+    for (const Vec3& p : pos) mean += p;
+    mean /= static_cast<double>(pos.size());
+    Eigen::Matrix3d cov = Eigen::Matrix3d::Zero();
+    for (const Vec3& p : pos) cov += (p - mean) * (p - mean).transpose();
+    const Eigen::SelfAdjointEigenSolver<Eigen::Matrix3d> es(cov);
+    const double top = es.eigenvalues().maxCoeff();
+    for (int i = 0; i < 3; ++i) {
+      if (!(es.eigenvalues()[i] > 1e-12 * top)) continue;
+      Vec3 a = es.eigenvectors().col(i).normalized();
+      Eigen::Index k = 0;
+      a.cwiseAbs().maxCoeff(&k);
+      if (a[k] < 0) a = -a;
+      const bool known = std::any_of(axes.begin(), axes.end(), [&](const Vec3& b) {
+        return std::abs(std::abs(a.dot(b)) - 1.0) < 1e-12;
+      });
+      if (!known) axes.push_back(a);
+    }
+  }
+  return axes;
+}
+
+// Two orthonormal vectors perpendicular to a.
+std::pair<Vec3, Vec3> PerpendicularPair(const Vec3& a) {
+  const Vec3 t = std::abs(a.x()) < 0.9 ? Vec3::UnitX() : Vec3::UnitY();
+  const Vec3 u = a.cross(t).normalized();
+  return {u, a.cross(u)};
+}
+
+Vec3 OnCone(const Vec3& a, const std::pair<Vec3, Vec3>& uv, double alpha, double psi) {
+  return std::cos(alpha) * a +
+         std::sin(alpha) * (std::cos(psi) * uv.first + std::sin(psi) * uv.second);
+}
+
+// Extent of a set of directions: theta range and the smallest phi arc holding the
+// phis (directions on a pole have no phi).
+void SetExtent(const std::vector<Vec3>& dirs, NullLocus* l) {
+  double tmin = kInf, tmax = -kInf;
+  std::vector<double> phis;
+  for (const Vec3& r : dirs) {
+    const SphericalAngles a = AnglesOf(r);
+    tmin = std::min(tmin, a.theta_rad / kDegree);
+    tmax = std::max(tmax, a.theta_rad / kDegree);
+    if (std::hypot(r.x(), r.y()) > 1e-12) phis.push_back(a.phi_rad / kDegree);
+  }
+  if (dirs.empty()) return;
+  l->theta_min_deg = tmin;
+  l->theta_max_deg = tmax;
+  if (phis.empty()) {
+    l->phi_min_deg = l->phi_max_deg = 0.0;
+    return;
+  }
+  std::sort(phis.begin(), phis.end());
+  // The largest gap between neighbouring phis (round the circle) is what the arc leaves out.
+  std::size_t gap_after = phis.size() - 1;
+  double gap = phis.front() + 360.0 - phis.back();
+  for (std::size_t i = 0; i + 1 < phis.size(); ++i) {
+    if (phis[i + 1] - phis[i] > gap) {
+      gap = phis[i + 1] - phis[i];
+      gap_after = i;
+    }
+  }
+  if (gap < 2.0) {  // round the circle (the samples are denser than this)
+    l->phi_min_deg = 0.0;
+    l->phi_max_deg = 360.0;
+    return;
+  }
+  l->phi_min_deg = phis[(gap_after + 1) % phis.size()];
+  l->phi_max_deg = phis[gap_after];
+}
+
+struct RefinedZero {
+  Vec3 r;
+  double value;
+};
+
 }  // namespace
 
 double NullFieldDirectivity(const PatternProbe& probe, const ProbeSample& s,
@@ -54,13 +230,18 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
                      const PatternResult& grid_result, double peak_directivity,
                      const AnalysisOptions& options) {
   NullSearch out;
+  out.spacing_rad = neighbours.spacing_rad();
+  const double tol = options.refine_tolerance_deg * kDegree;  // reported directions
   if (neighbours.num_nodes() == 0) return out;
-  const std::size_t np = grid_result.grid.phi_deg.size();
+  const AngularGrid& grid = grid_result.grid;
+  const std::size_t nt = grid.theta_deg.size(), np = grid.phi_deg.size();
+  const bool pec = probe.array().ground == Ground::kPec;
   // The null-field level relative to the peak, computed from the stored grid field
   // where it is needed (no per-direction copy).
-  const GridNeighbours::GridValue grid_level = [&](std::size_t g) {
+  auto grid_level = [&](std::size_t it, std::size_t ip) {
+    const std::size_t g = it * np + ip;
     ProbeSample s;
-    s.phi_rad = grid_result.grid.phi_deg[g % np] * kDegree;
+    s.phi_rad = grid.phi_deg[ip] * kDegree;
     s.e_theta = grid_result.field.e_theta[static_cast<Eigen::Index>(g)];
     s.e_phi = grid_result.field.e_phi[static_cast<Eigen::Index>(g)];
     s.floor_v = grid_result.field_floor_v;
@@ -69,99 +250,359 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
   };
   const double threshold = FromDb(options.null_threshold_db);
   const double screen = std::min(0.5, FromDb(options.null_threshold_db + kScreenMargin_db));
-  const auto components =
-      neighbours.Components(neighbours.LocalMinima(grid_level, 1e-9 * threshold));
-  struct Candidate {
-    std::size_t node;
-    double value;
+  const NullProblem problem{probe, options, peak_directivity,
+                            std::sqrt(probe.DirectivityOf(1.0) / peak_directivity)};
+
+  // Grid directions on a null: a minimum along their theta column or phi row.
+  const bool dup_seam =
+      np > 2 && std::abs(grid.phi_deg.back() - grid.phi_deg.front() - 360.0) < 1e-9;
+  const std::size_t columns = dup_seam ? np - 1 : np;
+  const bool periodic =
+      dup_seam || (np > 2 && std::abs(grid.phi_deg.back() - grid.phi_deg.front() +
+                                      (grid.phi_deg[1] - grid.phi_deg[0]) - 360.0) < 1e-9);
+  auto pole = [&](std::size_t it) { return std::sin(grid.theta_deg[it] * kDegree) < 1e-12; };
+  auto visible = [&](std::size_t it) {
+    return !BelowGround(probe.array().ground, grid.theta_deg[it] * kDegree);
   };
-  std::vector<Candidate> cands;
-  for (const auto& comp : components) {
-    std::size_t best = comp[0];
-    double best_level = grid_level(neighbours.representative(best));
-    for (std::size_t n : comp) {
-      const double l = grid_level(neighbours.representative(n));
+  const std::vector<bool> on_null = neighbours.NodesWhere([&](std::size_t g) {
+    const std::size_t it = g / np, ip = g % np;
+    const double l = grid_level(it, ip);
+    if (!(l < screen)) return false;
+    if (pole(it)) {  // below every direction of the next row(s)
+      bool any = false;
+      for (std::size_t jt : {it - 1, it + 1}) {
+        if (jt >= nt || !visible(jt)) continue;
+        any = true;
+        for (std::size_t jp = 0; jp < np; ++jp)
+          if (!(l < grid_level(jt, jp))) return false;
+      }
+      return any;
+    }
+    const bool theta_min = it > 0 && it + 1 < nt && visible(it + 1) && visible(it - 1) &&
+                           l < grid_level(it - 1, ip) && l < grid_level(it + 1, ip);
+    if (theta_min) return true;
+    if (columns < 3) return false;
+    const std::size_t c = ip % columns;
+    if (!periodic && (c == 0 || c + 1 == columns)) return false;
+    const std::size_t left = (c + columns - 1) % columns, right = (c + 1) % columns;
+    return l < grid_level(it, left) && l < grid_level(it, right);
+  });
+  std::vector<std::vector<std::size_t>> sets = neighbours.Components(on_null);
+  auto node_level = [&](std::size_t node) {
+    const std::size_t g = neighbours.representative(node);
+    return grid_level(g / np, g % np);
+  };
+  std::vector<std::pair<double, std::size_t>> order;  // deepest node level, set
+  for (std::size_t i = 0; i < sets.size(); ++i) {
+    double best = kInf;
+    for (std::size_t n : sets[i]) best = std::min(best, node_level(n));
+    order.emplace_back(best, i);
+  }
+  std::sort(order.begin(), order.end());
+  const std::size_t max_sets = 4 * options.max_nulls + 8;
+  if (order.size() > max_sets) {
+    order.resize(max_sets);
+    out.truncated = true;
+  }
+
+  // Seeds spread along each set, refined onto the null.
+  const double spacing = neighbours.spacing_rad();
+  std::vector<RefinedZero> zeros;
+  for (const auto& [lvl, i] : order) {
+    const std::vector<std::size_t>& set = sets[i];
+    const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
+    for (std::size_t k = 0; k < set.size(); k += stride) {
+      Vec3 r = neighbours.direction(set[k]);
+      double v = problem.Level(r);
+      problem.Polish(&r, &v, 2.0 * spacing);
+      if (IsZero(v)) zeros.push_back({r, v});
+    }
+  }
+
+  // Cones through the refined zeros, verified all round.
+  struct Cone {
+    Vec3 axis;
+    double cos_half;
+    Vec3 point;
+  };
+  std::vector<Cone> cones;
+  for (const Vec3& a : CandidateAxes(probe.array())) {
+    std::vector<std::pair<double, std::size_t>> c;
+    for (std::size_t i = 0; i < zeros.size(); ++i) c.emplace_back(a.dot(zeros[i].r), i);
+    std::sort(c.begin(), c.end());
+    const auto uv = PerpendicularPair(a);
+    const std::size_t first_of_axis = cones.size();
+    for (std::size_t b = 0; b < c.size();) {
+      std::size_t e = b + 1;
+      while (e < c.size() && c[e].first - c[e - 1].first < kSameConeCos) ++e;
+      const std::size_t count = e - b;
+      const double cos_half = c[b + count / 2].first;
+      const Vec3 first = zeros[c[b].second].r;
+      double spread = 0.0;
+      for (std::size_t k = b; k < e; ++k)
+        spread = std::max(spread, AngleBetween(first, zeros[c[k].second].r));
+      b = e;
+      const double alpha = std::acos(std::clamp(cos_half, -1.0, 1.0));
+      if (count < 2 || spread < 0.5 * spacing || alpha < kPointCone_rad ||
+          alpha > kPi - kPointCone_rad)
+        continue;
+      const bool known = std::any_of(cones.begin(), cones.end(), [&](const Cone& k) {
+        return std::abs(std::abs(k.axis.dot(a)) - 1.0) < 1e-12 &&
+               std::abs(k.cos_half - k.axis.dot(a) * cos_half) < kSameConeCos;
+      });
+      if (known) continue;
+      std::vector<Vec3> checks;
+      for (int k = 0; k < kConeChecks; ++k) {
+        const Vec3 r = OnCone(a, uv, alpha, 2 * kPi * (k + 0.5) / kConeChecks);
+        if (!probe.NoFieldAt(r)) checks.push_back(r);
+      }
+      if (checks.size() < kConeChecks / 8) continue;  // hardly visible: not a cone to report
+      double worst = 0.0;
+      for (const ProbeSample& s : probe.At(checks))
+        worst = std::max(worst, NullFieldDirectivity(probe, s, options) / peak_directivity);
+      if (IsZero(worst)) cones.push_back({a, cos_half, first});
+    }
+    // About each axis, the narrowest cone first.
+    std::sort(cones.begin() + static_cast<std::ptrdiff_t>(first_of_axis), cones.end(),
+              [](const Cone& x, const Cone& y) { return x.cos_half > y.cos_half; });
+  }
+
+  auto cone_distance = [](const Cone& k, const Vec3& r) {
+    return std::abs(std::acos(std::clamp(k.axis.dot(r), -1.0, 1.0)) -
+                    std::acos(std::clamp(k.cos_half, -1.0, 1.0)));
+  };
+  std::vector<std::pair<NullLocus, LocusShape>> found;
+  for (const Cone& k : cones) {
+    NullLocus l;
+    l.cone = true;
+    l.axis = AnglesDeg(k.axis);  // a vector the map rebuilds
+    const double alpha = std::acos(std::clamp(k.cos_half, -1.0, 1.0));
+    l.half_angle_deg = alpha / kDegree;
+    l.direction = ToDirectionDeg(k.point, tol);
+    const auto uv = PerpendicularPair(k.axis);
+    std::vector<Vec3> circle;
+    for (int i = 0; i < kExtentSamples; ++i) {
+      const Vec3 r = OnCone(k.axis, uv, alpha, 2 * kPi * i / kExtentSamples);
+      if (!(pec && r.z() < 0.0)) circle.push_back(r);
+    }
+    SetExtent(circle, &l);
+    // Zero all round (below the floor): a locus of zeros, whose depth is rounding.
+    l.exact = true;
+    l.directivity = 0.0;
+    l.level_db = -kInf;
+    LocusShape shape;
+    shape.cone = true;
+    shape.axis = k.axis;
+    shape.half_angle_rad = alpha;
+    found.emplace_back(l, shape);
+  }
+
+  // What no cone explains: grouped again, each refined to its deepest point.
+  std::vector<bool> rest(neighbours.num_nodes(), false);
+  for (const auto& [lvl, i] : order) {
+    for (std::size_t n : sets[i]) {
+      const Vec3 r = neighbours.direction(n);
+      rest[n] = std::none_of(cones.begin(), cones.end(), [&](const Cone& k) {
+        return cone_distance(k, r) < kExplainedSpacings * spacing;
+      });
+    }
+  }
+  std::vector<std::pair<NullLocus, LocusShape>> others;
+  for (const std::vector<std::size_t>& set : neighbours.Components(rest)) {
+    std::size_t best = set[0];
+    double best_level = node_level(best);
+    for (std::size_t n : set) {
+      const double l = node_level(n);
       if (l < best_level) {
         best = n;
         best_level = l;
       }
     }
-    if (best_level < screen) cands.push_back({best, best_level});
-  }
-  std::sort(cands.begin(), cands.end(),
-            [](const Candidate& a, const Candidate& b) { return a.value < b.value; });
-
-  const double scale = std::sqrt(probe.DirectivityOf(1.0) / peak_directivity);
-  auto objective = [&](const Vec3& r) {
-    const ProbeSample s = probe.At(r);
-    return s.no_field ? kInf : NullFieldDirectivity(probe, s, options) / peak_directivity;
-  };
-  struct Found {
-    Vec3 r_hat;
-    double level;
-    DirectionDeg reported;  // the grid angles when the search stayed at its start
-  };
-  const double tol = options.refine_tolerance_deg * kDegree;
-  std::vector<Found> found;
-  const std::size_t max_refined = 4 * options.max_nulls + 8;
-  std::size_t refined = 0;
-  for (const Candidate& c : cands) {
-    if (found.size() == options.max_nulls || refined == max_refined) {
-      out.truncated = true;
-      break;
-    }
-    ++refined;
-    const LocalChart chart(neighbours.direction(c.node));
+    const LocalChart chart(neighbours.direction(best));
     const PlaneMinimum m =
-        MinimizeOnPlane([&](double a, double b) { return objective(chart.At(a, b)); }, 0.0, 0.0,
-                        {0.5 * neighbours.spacing_rad(), options.refine_tolerance_deg * kDegree,
+        MinimizeOnPlane([&](double a, double b) { return problem.Level(chart.At(a, b)); }, 0.0, 0.0,
+                        {0.5 * spacing, options.refine_tolerance_deg * kDegree,
                          options.max_evaluations_per_search});
     Vec3 r = chart.At(m.a, m.b);
     double v = m.value;
-    // Gauss-Newton on the field: the least-squares (minimum-norm) step toward a zero,
-    // which for a null curve lands on the curve.
-    for (int iter = 0; iter < 8 && v > 0.0; ++iter) {
-      const LocalChart lc(r);
-      const double h = kJacobianStep_rad;
-      const std::vector<ProbeSample> s =
-          probe.At(std::vector<Vec3>{r, lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)});
-      if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
-      const Eigen::VectorXd r0 = Residual(s[0], options, scale);
-      Eigen::MatrixXd jac(r0.size(), 2);
-      jac.col(0) = (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
-      jac.col(1) = (Residual(s[3], options, scale) - Residual(s[4], options, scale)) / (2 * h);
-      Eigen::JacobiSVD<Eigen::MatrixXd> svd(jac, Eigen::ComputeThinU | Eigen::ComputeThinV);
-      svd.setThreshold(1e-8);
-      const Eigen::Vector2d step = -svd.solve(r0);
-      if (!(step.norm() > 0.0) || step.norm() > 10.0 * neighbours.spacing_rad()) break;
-      const Vec3 cand = lc.At(step[0], step[1]);
-      const double vc = objective(cand);
-      if (!(vc < v)) break;
-      r = cand;
-      v = vc;
-      if (step.norm() < 1e-15) break;
-    }
+    problem.Polish(&r, &v, 10.0 * spacing);
     if (!(v < threshold)) continue;
-    const DirectionDeg reported = ReportedDirection(r, neighbours.direction_deg(c.node), tol);
-    auto same = std::find_if(found.begin(), found.end(), [&](const Found& f) {
-      return AngleBetween(f.r_hat, r) < kSameNull_rad;
-    });
-    if (same != found.end()) {
-      if (v < same->level) *same = {r, v, reported};
-      continue;
+    if (std::any_of(cones.begin(), cones.end(),
+                    [&](const Cone& k) { return cone_distance(k, r) < kOnCone_rad; }))
+      continue;  // a stray of a cone's neighbourhood that refined onto it
+    // What of the set is a null: its refined deepest point, seeds spread over it and
+    // refined until they settle (a seed near a point null runs into it) that end below
+    // the threshold, and the grid directions below it. A set screened at a higher level
+    // may join separate nulls (a dipole's axis and an array-factor curve) through a
+    // trough that is no null: the members are grouped again by proximity, one locus each.
+    struct Member {
+      Vec3 r;
+      double v;
+      bool refined;
+    };
+    std::vector<Member> below = {{r, v, true}};
+    const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
+    for (std::size_t k = 0; k < set.size(); k += stride) {
+      Vec3 q = neighbours.direction(set[k]);
+      double vq = problem.Level(q);
+      problem.Polish(&q, &vq, 10.0 * spacing);
+      const bool on_cone = std::any_of(cones.begin(), cones.end(), [&](const Cone& c) {
+        return cone_distance(c, q) < kOnCone_rad;
+      });
+      if (vq < threshold && !on_cone) below.push_back({q, vq, true});
     }
-    found.push_back({r, v, reported});
+    for (std::size_t n : set) {
+      const double l = node_level(n);
+      if (l < threshold) below.push_back({neighbours.direction(n), l, false});
+    }
+    std::vector<int> group(below.size(), -1);
+    int groups = 0;
+    for (std::size_t i = 0; i < below.size(); ++i) {
+      if (group[i] >= 0) continue;
+      std::vector<std::size_t> stack = {i};
+      group[i] = groups;
+      while (!stack.empty()) {
+        const std::size_t a = stack.back();
+        stack.pop_back();
+        for (std::size_t b = 0; b < below.size(); ++b) {
+          if (group[b] < 0 && AngleBetween(below[a].r, below[b].r) < kLinkSpacings * spacing) {
+            group[b] = groups;
+            stack.push_back(b);
+          }
+        }
+      }
+      ++groups;
+    }
+    for (int g = 0; g < groups; ++g) {
+      std::size_t deepest = below.size();
+      std::vector<Vec3> members;
+      std::vector<Member> refined;
+      for (std::size_t i = 0; i < below.size(); ++i) {
+        if (group[i] != g) continue;
+        members.push_back(below[i].r);
+        if (below[i].refined) refined.push_back(below[i]);
+        if (deepest == below.size() || below[i].v < below[deepest].v) deepest = i;
+      }
+      Member d = below[deepest];
+      if (!d.refined) problem.Polish(&d.r, &d.v, 10.0 * spacing);
+      if (!(d.v < threshold)) continue;
+      if (std::any_of(cones.begin(), cones.end(),
+                      [&](const Cone& k) { return cone_distance(k, d.r) < kOnCone_rad; }))
+        continue;
+      // A curve: refined nulls away from the deepest, zeros as it is when it is one
+      // (grid directions below the threshold around a point null, or a search that
+      // stalled in its shoulder, do not make it one).
+      const bool zero = IsZero(d.v);
+      double reach = 0.0;
+      for (const Member& m : refined)
+        if (!zero || IsZero(m.v)) reach = std::max(reach, AngleBetween(m.r, d.r));
+      NullLocus l;
+      l.direction = ToDirectionDeg(d.r, tol);
+      l.point = reach <= kExplainedSpacings * spacing;
+      // Refined point nulls closer than the grid spacing are the same null.
+      const bool merged =
+          l.point && std::any_of(others.begin(), others.end(), [&](auto& o) {
+            if (!o.first.point || AngleBetween(o.second.points[0], d.r) > spacing) return false;
+            if (d.v < o.first.directivity / peak_directivity) {
+              o.first.direction = l.direction;
+              o.second.points[0] = d.r;
+              problem.SetDepth(d.v, &o.first.directivity, &o.first.level_db, &o.first.exact);
+            }
+            return true;
+          });
+      if (merged) continue;
+      SetExtent(l.point ? std::vector<Vec3>{d.r} : members, &l);
+      problem.SetDepth(d.v, &l.directivity, &l.level_db, &l.exact);
+      LocusShape shape;
+      shape.points = {d.r};
+      shape.points.insert(shape.points.end(), members.begin(), members.end());
+      others.emplace_back(l, std::move(shape));
+    }
   }
-  for (const auto& [r, v, reported] : found) {
-    Null n;
-    n.direction = reported;
-    n.directivity = v * peak_directivity;
-    n.level_db = ToDb(v);
-    n.exact = v == 0.0;  // the null field is below the floor: floored to exact zeros
-    out.nulls.push_back(n);
+  std::stable_sort(others.begin(), others.end(), [](const auto& a, const auto& b) {
+    return a.first.directivity < b.first.directivity;
+  });
+  for (auto& o : others) found.push_back(std::move(o));
+  if (found.size() > options.max_nulls) {
+    found.resize(options.max_nulls);
+    out.truncated = true;
   }
-  std::sort(out.nulls.begin(), out.nulls.end(),
-            [](const Null& a, const Null& b) { return a.directivity < b.directivity; });
+  for (auto& [l, s] : found) {
+    out.loci.push_back(l);
+    out.shapes.push_back(std::move(s));
+  }
+  return out;
+}
+
+std::vector<NullCrossing> FindNullCrossings(const PatternProbe& probe, const NullSearch& search,
+                                            const Vec3& peak, const Vec3& tangent,
+                                            bool orthogonal_plane, double peak_directivity,
+                                            const AnalysisOptions& options) {
+  const double tol = options.refine_tolerance_deg * kDegree;  // reported directions
+  const NullProblem problem{probe, options, peak_directivity,
+                            std::sqrt(probe.DirectivityOf(1.0) / peak_directivity)};
+  const double threshold = FromDb(options.null_threshold_db);
+  const double screen = std::min(0.5, FromDb(options.null_threshold_db + kScreenMargin_db));
+  const double step =
+      std::min(options.cut_step_deg * kDegree, search.spacing_rad > 0 ? search.spacing_rad : kInf);
+  const int n = static_cast<int>(std::ceil(2 * kPi / step));
+  const double h = 2 * kPi / n;
+  std::vector<Vec3> dirs(static_cast<std::size_t>(n));
+  for (int i = 0; i < n; ++i)
+    dirs[static_cast<std::size_t>(i)] = AlongGreatCircle(peak, tangent, -kPi + h * i);
+  std::vector<double> level(dirs.size());
+  {
+    const std::vector<ProbeSample> s = probe.At(dirs);
+    for (std::size_t i = 0; i < s.size(); ++i)
+      level[i] =
+          s[i].no_field ? kInf : NullFieldDirectivity(probe, s[i], options) / peak_directivity;
+  }
+  std::vector<NullCrossing> out;
+  const std::size_t m = level.size();
+  for (std::size_t i = 0; i < m; ++i) {
+    const double l = level[i], prev = level[(i + m - 1) % m], next = level[(i + 1) % m];
+    if (!(l < screen && l < prev && l <= next)) continue;
+    const double s0 = -kPi + h * static_cast<double>(i);
+    const LineMinimum lm = MinimizeOnInterval(
+        [&](double s) { return problem.Level(AlongGreatCircle(peak, tangent, s)); }, s0 - h, s0 + h,
+        options.refine_tolerance_deg * kDegree);
+    double s = lm.x, v = lm.value;
+    problem.PolishAlong(peak, tangent, &s, &v);
+    if (!(v < threshold)) continue;
+    NullCrossing c;
+    c.orthogonal_plane = orthogonal_plane;
+    const Vec3 r = AlongGreatCircle(peak, tangent, s);
+    c.offset_deg = std::remainder(s, 2 * kPi) / kDegree;
+    if (c.offset_deg <= -180.0) c.offset_deg += 360.0;
+    c.direction = ToDirectionDeg(r, tol);
+    problem.SetDepth(v, &c.directivity, &c.level_db, &c.exact);
+    double best = kInf;
+    for (std::size_t k = 0; k < search.shapes.size(); ++k) {
+      const LocusShape& sh = search.shapes[k];
+      double d = kInf;
+      if (sh.cone) {
+        d = std::abs(std::acos(std::clamp(sh.axis.dot(r), -1.0, 1.0)) - sh.half_angle_rad);
+        if (!(d < kOnCone_rad)) continue;
+      } else {
+        for (const Vec3& p : sh.points) d = std::min(d, AngleBetween(p, r));
+        if (!(d < kExplainedSpacings * search.spacing_rad)) continue;
+      }
+      if (d < best) {
+        best = d;
+        c.locus = static_cast<double>(k);
+      }
+    }
+    // On a verified cone the field is zero: what remains of v is rounding.
+    if (c.locus >= 0 && search.shapes[static_cast<std::size_t>(c.locus)].cone) {
+      c.exact = true;
+      c.directivity = 0.0;
+      c.level_db = -kInf;
+    }
+    out.push_back(c);
+  }
+  std::sort(out.begin(), out.end(), [](const NullCrossing& a, const NullCrossing& b) {
+    return a.offset_deg < b.offset_deg;
+  });
   return out;
 }
 

@@ -2,6 +2,7 @@
 #include "engine/analysis/pattern_analysis.h"
 
 #include <algorithm>
+#include <array>
 #include <chrono>
 #include <cmath>
 #include <sstream>
@@ -32,6 +33,31 @@ bool Fail(std::string* why, const char* field, T value, const char* rule) {
 }
 
 }  // namespace
+
+std::string_view ToString(CutPlane p) {
+  switch (p) {
+    case CutPlane::kElevation:
+      return "elevation";
+    case CutPlane::kOrthogonal:
+      return "orthogonal";
+    case CutPlane::kE:
+      return "E";
+    case CutPlane::kH:
+      return "H";
+    case CutPlane::kXZ:
+      return "xz";
+    case CutPlane::kYZ:
+      return "yz";
+  }
+  return "elevation";
+}
+
+std::optional<CutPlane> CutPlaneFromString(std::string_view s) {
+  for (const CutPlane p : {CutPlane::kElevation, CutPlane::kOrthogonal, CutPlane::kE, CutPlane::kH,
+                           CutPlane::kXZ, CutPlane::kYZ})
+    if (EqualsIgnoreCase(s, ToString(p))) return p;
+  return std::nullopt;
+}
 
 std::string_view ToString(NullField f) { return f == NullField::kCoPolar ? "co" : "total"; }
 
@@ -75,16 +101,23 @@ bool AnalysisOptions::IsValid(std::string* why) const {
 
 PolarizationReference AutoReference(const PatternResult& r) {
   const Eigen::Index peak = PeakIndex(r.directivity);
-  const double phi = r.grid.phi_deg[static_cast<std::size_t>(peak) % r.grid.phi_deg.size()];
-  PolarizationReference best = PolarizationReference::kLinearX;
+  const std::size_t np = r.grid.phi_deg.size();
+  const double theta = r.grid.theta_deg[static_cast<std::size_t>(peak) / np];
+  const double phi = r.grid.phi_deg[static_cast<std::size_t>(peak) % np];
+  using R = PolarizationReference;
+  const bool near_horizon = theta >= 45.0 && theta <= 135.0;
+  const std::array<R, 6> order =
+      near_horizon ? std::array<R, 6>{R::kTheta,   R::kPhi,           R::kLinearX,
+                                      R::kLinearY, R::kRightCircular, R::kLeftCircular}
+                   : std::array<R, 6>{R::kLinearX,      R::kLinearY, R::kRightCircular,
+                                      R::kLeftCircular, R::kTheta,   R::kPhi};
+  R best = order[0];
   double best_co = -1.0;
-  for (const PolarizationReference ref :
-       {PolarizationReference::kLinearX, PolarizationReference::kLinearY,
-        PolarizationReference::kRightCircular, PolarizationReference::kLeftCircular}) {
+  for (const R ref : order) {
     const double co = std::norm(
         CoCrossOf(r.field.e_theta[peak], r.field.e_phi[peak], phi * kDegree, ref, r.field_floor_v)
             .co);
-    // The relative margin keeps ties (a 45 deg linear field) on the first candidate.
+    // The relative margin keeps ties (a 45 deg linear field) on the earlier candidate.
     if (co > best_co * (1.0 + 1e-9)) {
       best_co = co;
       best = ref;
@@ -134,9 +167,9 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
   Vec3 peak;
   out.peak = RefinePeak(probe, grid_result.grid, grid_result.directivity, options, &peak);
   const double dp = out.peak.directivity;
-  const LocalChart chart(peak);
-  out.elevation_cut = AnalyzeCut(probe, peak, chart.e1(), dp, options);
-  out.orthogonal_cut = AnalyzeCut(probe, peak, chart.e2(), dp, options);
+  const auto [first_plane, second_plane] = PrincipalPlanesAt(probe, peak, out.peak.direction);
+  out.elevation_cut = AnalyzePlane(probe, peak, first_plane, dp, options);
+  out.orthogonal_cut = AnalyzePlane(probe, peak, second_plane, dp, options);
   out.front_to_back =
       FrontToBackOf(probe, peak, out.peak.direction, dp, options.refine_tolerance_deg * kDegree);
 
@@ -147,9 +180,15 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
   out.side_lobes = std::move(lobes.side_lobes);
   out.side_lobes_truncated = lobes.truncated;
 
-  NullSearch nulls = FindNulls(probe, neighbours, grid_result, dp, options);
-  out.nulls = std::move(nulls.nulls);
-  out.nulls_truncated = nulls.truncated;
+  const NullSearch nulls = FindNulls(probe, neighbours, grid_result, dp, options);
+  out.null_loci = nulls.loci;
+  out.null_loci_truncated = nulls.truncated;
+  for (const bool orthogonal : {false, true}) {
+    const std::vector<NullCrossing> c =
+        FindNullCrossings(probe, nulls, peak, (orthogonal ? second_plane : first_plane).tangent,
+                          orthogonal, dp, options);
+    out.null_crossings.insert(out.null_crossings.end(), c.begin(), c.end());
+  }
 
   std::vector<Vec3> prot;
   for (const auto& [t, p] : options.protected_directions_deg)
@@ -169,8 +208,8 @@ PatternAnalysis AnalyzePattern(const Array& array, const Eigen::VectorXcd& curre
     out.protected_directions.push_back(f);
   }
 
-  out.polarization =
-      AnalyzePolarization(probe, neighbours, grid_result, peak, out.peak.direction, dp, options);
+  out.polarization = AnalyzePolarization(probe, neighbours, grid_result, peak, out.peak.direction,
+                                         first_plane.tangent, dp, options);
   out.field_evaluations = probe.evaluations();
   out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   return out;

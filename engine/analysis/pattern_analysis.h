@@ -18,10 +18,22 @@
 
 namespace lobecast {
 
-// The polarization reference (x, y, RHCP, LHCP) with the largest co-polar
-// part at the grid peak (PeakIndex, so the beam the summary and the analysis
-// name); ties, as for a 45 deg linear field, go to the first in that order.
-// What "auto" means for compute, report, export and plot.
+// The polarization reference "auto" means (compute, report, export, plot): of the six
+// references, the one with the largest co-polar part |co|^2 at the grid peak
+// (PeakIndex, so the beam the summary and the analysis name). The peak's distance
+// from the z axis sets the order in which ties (within 1e-9 relative) are broken:
+//  - peak within 45 deg of the horizon (45 <= theta <= 135 deg): theta, phi, x, y,
+//    RHCP, LHCP. theta_hat / phi_hat follow the field of vertical and horizontal
+//    elements over the whole beam (CONVENTIONS §2): a vertical element's field is
+//    E_theta everywhere, where Ludwig-3 x and y mix it into both components as phi
+//    moves off 0 or 90 deg.
+//  - peak within 45 deg of the z axis: x, y, RHCP, LHCP, theta, phi. theta_hat and
+//    phi_hat turn by the full phi range around the pole (and are undefined on it),
+//    so the Ludwig-3 frame, smooth there, is the natural one. theta or phi is still
+//    chosen where it captures strictly more (a vertical element's beam tilted 30 deg
+//    from the axis at phi = 45 deg).
+// A 45 deg linear field on the horizon thus gets theta (co and cross equal in all
+// linear references); a circular one RHCP or LHCP.
 PolarizationReference AutoReference(const PatternResult& result);
 
 // grid_result must be ComputePattern(array, currents_a, ...) for this array and

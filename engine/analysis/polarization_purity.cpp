@@ -5,6 +5,8 @@
 #include <cmath>
 #include <limits>
 
+#include <Eigen/Geometry>
+
 #include "engine/analysis/beam.h"
 #include "engine/decibels.h"
 
@@ -28,8 +30,8 @@ bool WithinAxialRatio(const ProbeSample& s, const AnalysisOptions& options) {
 
 PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeighbours& neighbours,
                                        const PatternResult& grid_result, const Vec3& peak,
-                                       const DirectionDeg& peak_deg, double peak_directivity,
-                                       const AnalysisOptions& options) {
+                                       const DirectionDeg& peak_deg, const Vec3& first_tangent,
+                                       double peak_directivity, const AnalysisOptions& options) {
   PolarizationPurity out;
   out.reference = options.reference;
   out.axial_ratio_limit_db = options.axial_ratio_limit_db;
@@ -55,7 +57,19 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
     }
   };
 
-  // (a) grid directions of the beam.
+  const double half = 0.5 * peak_directivity * (1 - 1e-9);
+  auto ray_step = [&](const Vec3& t) {
+    return 4.0 * CutStepRad(probe, peak, t, peak_directivity, options);
+  };
+
+  const Vec3 e1 = first_tangent;
+  const Vec3 e2 = peak.cross(first_tangent).normalized();
+
+  // (a) grid directions of the main beam: a breadth-first walk from the grid maximum
+  // over neighbouring grid directions at or above half power, stepping from one to the
+  // next only when the great-circle segment between them stays there too (sampled at
+  // `step`), so lobes the grid alone would join across a dip between its nodes stay
+  // apart. Edges are checked a frontier at a time, in bounded batches.
   if (neighbours.num_nodes() > 0) {
     const std::size_t np = grid_result.grid.phi_deg.size();
     const auto& d = grid_result.directivity;
@@ -63,24 +77,73 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
         neighbours.MaxNode([&](std::size_t g) { return d[static_cast<Eigen::Index>(g)]; });
     const std::vector<bool> member = neighbours.NodesWhere(
         [&](std::size_t g) { return d[static_cast<Eigen::Index>(g)] >= 0.5 * peak_directivity; });
-    neighbours.VisitComponent(member, top, [&](std::size_t n) {
+    const double step = std::min(ray_step(e1), ray_step(e2));
+    auto visit = [&](std::size_t n) {
       const std::size_t g = neighbours.representative(n);
       const CoCross c = CoCrossOf(grid_result.field.e_theta[static_cast<Eigen::Index>(g)],
                                   grid_result.field.e_phi[static_cast<Eigen::Index>(g)],
                                   grid_result.grid.phi_deg[g % np] * kDegree, options.reference,
                                   grid_result.field_floor_v);
       consider(XpdDb(c), [&] { return neighbours.direction_deg(n); });
-    });
+    };
+    std::vector<bool> reached(neighbours.num_nodes(), false);
+    std::vector<std::size_t> frontier, next;
+    if (member[top]) {
+      reached[top] = true;
+      frontier.push_back(top);
+      visit(top);
+    }
+    struct Edge {
+      std::size_t to, first, count;  // target node, its samples in `pts`
+    };
+    std::vector<Edge> edges;
+    std::vector<Vec3> pts;
+    auto check = [&] {
+      const std::vector<ProbeSample> s = probe.At(pts);
+      for (const Edge& e : edges) {
+        if (reached[e.to]) continue;
+        bool inside = true;
+        for (std::size_t i = e.first; i < e.first + e.count && inside; ++i)
+          inside = !s[i].no_field && s[i].directivity >= half;
+        if (!inside) continue;
+        reached[e.to] = true;
+        next.push_back(e.to);
+        visit(e.to);
+      }
+      edges.clear();
+      pts.clear();
+    };
+    while (!frontier.empty()) {
+      for (const std::size_t n : frontier) {
+        const Vec3 a = neighbours.direction(n);
+        for (const std::size_t m : neighbours.neighbours(n)) {
+          if (!member[m] || reached[m]) continue;
+          const Vec3 b = neighbours.direction(m);
+          const double len = AngleBetween(a, b);
+          Edge e{m, pts.size(), 0};
+          if (len > 0.0 && len < kPi - 1e-9) {
+            const Vec3 t = (b - b.dot(a) * a).normalized();
+            const int k = static_cast<int>(std::ceil(len / step));
+            for (int i = 1; i < k; ++i) pts.push_back(AlongGreatCircle(a, t, len * i / k));
+          }
+          e.count = pts.size() - e.first;
+          edges.push_back(e);
+          // Small batches: the analysis must not grow with the grid (grid_neighbours_test).
+          if (pts.size() >= 4096 || edges.size() >= 4096) check();
+        }
+      }
+      check();
+      frontier.swap(next);
+      next.clear();
+    }
   }
 
   // (b) rays from the peak out to the half-power contour.
-  const LocalChart chart(peak);
   std::vector<Vec3> pts;
   for (int k = 0; k < options.beam_rays; ++k) {
     const double psi = 2.0 * kPi * k / options.beam_rays;
-    const Vec3 t = std::cos(psi) * chart.e1() + std::sin(psi) * chart.e2();
-    const double step = 4.0 * CutStepRad(probe, peak, t, peak_directivity, options);
-    const BeamRay ray = WalkBeamRay(probe, peak, t, peak_directivity, step, tol, false);
+    const Vec3 t = std::cos(psi) * e1 + std::sin(psi) * e2;
+    const BeamRay ray = WalkBeamRay(probe, peak, t, peak_directivity, ray_step(t), tol, false);
     // Stop short of a ground edge by the search tolerance, so the samples stay above it.
     const double edge = ray.clipped_by_ground ? ray.half_power_rad - 4 * tol : ray.half_power_rad;
     for (int i = 1; i <= options.beam_ray_samples; ++i)

@@ -11,16 +11,23 @@
 
 namespace lobecast {
 
-// The -3 dB main beam is the connected region around the peak where D >= D_peak / 2.
-// Its worst XPD is the lowest over (a) the grid directions of that region (the
-// grid's connected component holding the grid maximum) and (b) beam_rays great-circle
+// The -3 dB main beam is the connected region around the peak where D >= D_peak / 2
+// (analysis_types.h, worst_xpd_in_beam_db). Its worst XPD is the lowest over (a) the
+// grid directions reached from the grid maximum by steps between neighbouring grid
+// directions at or above half power, each step taken only when the great-circle
+// segment between the two stays at or above half power too, sampled at four times
+// the cut step (CutStepRad) (so a neighbouring lobe above -3 dB that the grid would
+// join across a dip between its nodes is left out), and (b) beam_rays great-circle
 // rays from the peak, each sampled beam_ray_samples times out to its first half-power
-// point (found by root finding). Every sample lies in the region, so the reported
-// value is an upper bound of the true minimum, tight to the sampling.
+// point (found by root finding); the rays start from `first_tangent` (the first
+// principal plane's tangent at the peak, so they do not depend on the grid). Every
+// sample lies in the main beam (to the sampling), so the reported value is an upper
+// bound of the true minimum, tight to the sampling. peak_deg: the peak as reported (the
+// worst direction when no sample is worse than the peak).
 PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeighbours& neighbours,
                                        const PatternResult& grid_result, const Vec3& peak,
-                                       const DirectionDeg& peak_deg, double peak_directivity,
-                                       const AnalysisOptions& options);
+                                       const DirectionDeg& peak_deg, const Vec3& first_tangent,
+                                       double peak_directivity, const AnalysisOptions& options);
 
 // Solid angle (sr) where AR <= options.axial_ratio_limit_db, counting for a circular
 // reference only the reference hand: the trapezoid rule over axial_ratio_phi_planes

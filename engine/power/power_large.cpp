@@ -71,12 +71,12 @@ RowSums RowFar(const Sources& s, const Dipole& m, double k) {
   return {lm * Complex(vr, vi), lm * Complex(wr, wi), std::abs(lm) * va};
 }
 
-}  // namespace
-
-StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
-                                    int num_threads) {
-  Validate(array);
-  ValidateCurrents(array, currents_a);
+// R I, (with_reactance) X' I and sum_s |R_ms| |I_s| (the rounding scale of R I),
+// row by row; the rows run over the sources in a fixed order, so the result does
+// not depend on the thread count.
+void StreamRows(const Array& array, const Eigen::VectorXcd& currents_a, int num_threads,
+                bool with_reactance, Eigen::VectorXcd& ri, Eigen::VectorXcd& xi,
+                Eigen::VectorXd& ra) {
   const double k = array.wavenumber_rad_m();
   const std::vector<Dipole> src = RadiatingSources(array);  // images after the dipoles
   Sources s;
@@ -92,8 +92,9 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   }
   const double scale = k * k * kEta0_ohm / (4.0 * kPi);
   const auto n = static_cast<std::ptrdiff_t>(array.size());
-  Eigen::VectorXcd ri(n), xi(n);  // R I and X' I
-  Eigen::VectorXd ra(n);          // sum_s |R_ms| |I_s|
+  ri.resize(n);
+  xi.resize(n);
+  ra.resize(n);
   const bool pec = array.ground == Ground::kPec;
   const int threads = ResolveThreads(num_threads);
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 8)
@@ -117,13 +118,25 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
         row.r_i += rr * c;
         row.r_abs += std::abs(rr) * s.ia[j];
       }
-      if (j == self || c == Complex(0.0)) continue;
+      if (!with_reactance || j == self || c == Complex(0.0)) continue;
       row.x_i += MutualImpedance(dm, src[j], k).imag() / scale * c;
     }
     ri[m] = scale * row.r_i;
     xi[m] = scale * row.x_i;
     ra[m] = scale * row.r_abs;
   }
+}
+
+}  // namespace
+
+StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
+                                    int num_threads) {
+  Validate(array);
+  ValidateCurrents(array, currents_a);
+  const auto n = static_cast<Eigen::Index>(array.size());
+  Eigen::VectorXcd ri, xi;  // R I and X' I
+  Eigen::VectorXd ra;       // sum_s |R_ms| |I_s|
+  StreamRows(array, currents_a, num_threads, true, ri, xi, ra);
   StreamedPower out;
   // P from R alone: I^H X' I is real, so j I^H X' I adds only rounding to Re.
   out.radiated_power_w = 0.5 * currents_a.dot(ri).real();  // dot conjugates the first
@@ -136,6 +149,16 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
                                        : ((ri[m] + Complex(0.0, 1.0) * xi[m]) / i).real();
   }
   return out;
+}
+
+Eigen::VectorXcd ResistanceProductStreamed(const Array& array, const Eigen::VectorXcd& x,
+                                           int num_threads) {
+  Validate(array);
+  ValidateCurrents(array, x);
+  Eigen::VectorXcd ri, unused;
+  Eigen::VectorXd unused_abs;
+  StreamRows(array, x, num_threads, false, ri, unused, unused_abs);
+  return ri;
 }
 
 }  // namespace lobecast

@@ -35,4 +35,10 @@ struct StreamedPower {
 StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
                                     int num_threads = 0);
 
+// R x (ohm times the units of x) row by row, the same sums as RadiatedPowerStreamed
+// without the reactances: for iterative solvers on R (engine/synthesis) where the
+// N x N matrix would not fit. x is checked as currents (ValidateCurrents).
+Eigen::VectorXcd ResistanceProductStreamed(const Array& array, const Eigen::VectorXcd& x,
+                                           int num_threads = 0);
+
 }  // namespace lobecast

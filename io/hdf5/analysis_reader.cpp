@@ -59,6 +59,12 @@ class FileVisitor {
       throw IoError(file_path_, "unknown polarization reference \"" + s + "\" in the analysis");
     v = *r;
   }
+  void Value(const Field& f, CutPlane& v) {
+    const std::string s = Text(f);
+    const auto r = CutPlaneFromString(s);
+    if (!r) throw IoError(file_path_, "unknown cut plane \"" + s + "\" in the analysis");
+    v = *r;
+  }
   void Value(const Field& f, NullField& v) {
     const std::string s = Text(f);
     const auto r = NullFieldFromString(s);
@@ -136,7 +142,8 @@ std::optional<StoredAnalysis> ReadAnalysis(const std::string& path) {
   if (!hdf5::Exists(file, root)) return std::nullopt;
   try {
     FileVisitor v(path, file, root);
-    if (v.Int(Field{schema::kAnalysisVersionAttribute, "1"}) > schema::kAnalysisVersion) {
+    // Another layout (a newer one, or version 1's point nulls): the caller recomputes.
+    if (v.Int(Field{schema::kAnalysisVersionAttribute, "1"}) != schema::kAnalysisVersion) {
       return std::nullopt;
     }
     StoredAnalysis out;
@@ -147,8 +154,7 @@ std::optional<StoredAnalysis> ReadAnalysis(const std::string& path) {
     }
     return out;
   } catch (const IoError& e) {
-    if (e.path() == path) throw;
-    throw IoError(path, e.detail());
+    throw NotAResultError(path, std::string(kIncompleteResult) + e.detail());
   }
 }
 

@@ -13,13 +13,14 @@ namespace lobecast {
 struct StoredAnalysis {
   PatternAnalysis analysis;
   // The options the analysis ran with, as far as the file records them: reference,
-  // null_field, null_threshold_db, side_lobe_threshold_db, major_lobe_tolerance_db,
+  // null_field, null_threshold_db, max_nulls, side_lobe_threshold_db, major_lobe_tolerance_db,
   // axial_ratio_limit_db and the protected directions. Everything else is default.
   AnalysisOptions options;
 };
 
-// std::nullopt when the file has no /summary/analysis group, or one of a newer
-// analysis_version than this lobecast reads (the caller can recompute). Throws
+// std::nullopt when the file has no /summary/analysis group, or one of another
+// analysis_version than this lobecast writes (version 1's point nulls, or a newer
+// one): the caller recomputes. Throws
 // IoError naming the path for a file that cannot be read or a malformed group.
 std::optional<StoredAnalysis> ReadAnalysis(const std::string& path);
 

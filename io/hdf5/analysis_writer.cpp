@@ -37,6 +37,7 @@ class FileVisitor {
   }
   void Value(const Field& f, const PolarizationReference& v) { Text(f, ToString(v)); }
   void Value(const Field& f, const NullField& v) { Text(f, ToString(v)); }
+  void Value(const Field& f, const CutPlane& v) { Text(f, ToString(v)); }
 
   template <typename Body>
   void Object(const schema::ObjectSpec& o, Body&& body) {

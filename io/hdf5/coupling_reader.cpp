@@ -13,18 +13,15 @@ template <typename T>
 Eigen::Matrix<T, Eigen::Dynamic, 1> Column(const std::vector<T>& v, std::size_t n,
                                            const std::string& path, std::string_view name) {
   if (v.size() != n) {
-    throw IoError(path, "not a valid lobecast result: " + S(name) + " has " +
-                            std::to_string(v.size()) + " values for " + std::to_string(n) +
-                            " dipoles");
+    throw IoError(path, S(name) + " has " + std::to_string(v.size()) + " values for " +
+                            std::to_string(n) + " dipoles");
   }
   return Eigen::Map<const Eigen::Matrix<T, Eigen::Dynamic, 1>>(v.data(),
                                                                static_cast<Eigen::Index>(n));
 }
 
-}  // namespace
-
-std::optional<StoredCoupling> ReadCoupling(const std::string& path, const Array& array,
-                                           const Eigen::VectorXcd& currents) {
+std::optional<StoredCoupling> ReadOpenCoupling(const std::string& path, const Array& array,
+                                               const Eigen::VectorXcd& currents) {
   namespace s = schema;
   hdf5::Handle file = hdf5::OpenFileReadOnly(path);
   if (!hdf5::Exists(file, S(s::kCouplingGroup))) return std::nullopt;
@@ -42,9 +39,8 @@ std::optional<StoredCoupling> ReadCoupling(const std::string& path, const Array&
   const Eigen::VectorXcd port_z =
       Column(hdf5::ReadComplex(file, S(s::kPortImpedance.path)), n, path, s::kPortImpedance.path);
   if (kinds.size() != n) {
-    throw IoError(path, "not a valid lobecast result: " + S(s::kPortKind.path) + " has " +
-                            std::to_string(kinds.size()) + " values for " + std::to_string(n) +
-                            " dipoles");
+    throw IoError(path, S(s::kPortKind.path) + " has " + std::to_string(kinds.size()) +
+                            " values for " + std::to_string(n) + " dipoles");
   }
   for (std::size_t m = 0; m < n; ++m) {
     Port p;
@@ -82,6 +78,20 @@ std::optional<StoredCoupling> ReadCoupling(const std::string& path, const Array&
                                 s::kElementSupplied.path);
   c.close_pairs = FindClosePairs(array);
   return out;
+}
+
+}  // namespace
+
+std::optional<StoredCoupling> ReadCoupling(const std::string& path, const Array& array,
+                                           const Eigen::VectorXcd& currents) {
+  hdf5::ErrorSilencer silencer;
+  try {
+    return ReadOpenCoupling(path, array, currents);
+  } catch (const NotAResultError&) {
+    throw;
+  } catch (const IoError& e) {
+    throw NotAResultError(path, std::string(kIncompleteResult) + e.detail());
+  }
 }
 
 }  // namespace lobecast

@@ -1,7 +1,10 @@
 #include "io/hdf5/hdf5_file.h"
 
 #include <algorithm>
+#include <cerrno>
+#include <cstring>
 #include <filesystem>
+#include <fstream>
 #include <system_error>
 
 #include "io/io_error.h"
@@ -149,9 +152,27 @@ std::string TakeErrorStack() {
   return out;
 }
 
+std::string TakeErrorCause() {
+  std::vector<std::string> lines;
+  H5Ewalk2(H5E_DEFAULT, H5E_WALK_DOWNWARD, CollectError, &lines);
+  H5Eclear2(H5E_DEFAULT);
+  for (const std::string& line : lines) {
+    // "unable to open file: name = '...', errno = 13, error message = 'Permission
+    // denied', flags = 13, o_flags = 242": the system's message alone.
+    const std::string key = "error message = '";
+    const std::size_t at = line.find(key);
+    if (at != std::string::npos) {
+      const std::size_t end = line.find('\'', at + key.size());
+      if (end != std::string::npos) return line.substr(at + key.size(), end - at - key.size());
+    }
+    if (line.find("truncated file") != std::string::npos) return "the file is truncated";
+  }
+  return "";
+}
+
 void Fail(const std::string& path, const std::string& what) {
-  const std::string stack = TakeErrorStack();
-  throw IoError(path, stack.empty() ? what : what + ": " + stack);
+  const std::string cause = TakeErrorCause();
+  throw IoError(path, cause.empty() ? what : what + ": " + cause);
 }
 
 std::string FileNameOf(hid_t loc) {
@@ -193,18 +214,28 @@ Handle OpenFileReadOnly(const std::string& path) {
                   ec && ec != std::errc::no_such_file_or_directory ? ec.message() : "no such file");
   }
   if (std::filesystem::is_directory(path, ec)) throw IoError(path, "is a directory, not a file");
+  {
+    // A file the system will not let us read is a failure to run (exit 1), not bad
+    // input; whatever HDF5 cannot open beyond that is not a complete result.
+    std::ifstream probe(path, std::ios::binary);
+    if (!probe) throw IoError(path, std::string("cannot read the file: ") + std::strerror(errno));
+  }
   const htri_t is_hdf5 = H5Fis_hdf5(path.c_str());
   if (is_hdf5 == 0) {
     H5Eclear2(H5E_DEFAULT);
     throw NotAResultError(path, "not an HDF5 file, so not a lobecast result file");
   }
-  if (is_hdf5 < 0) Fail(path, "cannot open the file");
   Handle fapl(H5Pcreate(H5P_FILE_ACCESS));
   if (!fapl.valid() || H5Pset_fclose_degree(fapl, H5F_CLOSE_STRONG) < 0) {
     Fail(path, "cannot set up file access properties");
   }
-  Handle file(H5Fopen(path.c_str(), H5F_ACC_RDONLY, fapl));
-  if (!file.valid()) Fail(path, "cannot open the file");
+  Handle file(is_hdf5 > 0 ? H5Fopen(path.c_str(), H5F_ACC_RDONLY, fapl) : -1);
+  if (!file.valid()) {
+    const std::string cause = TakeErrorCause();
+    throw NotAResultError(path, "not a complete lobecast result: HDF5 cannot open it (" +
+                                    (cause.empty() ? std::string("damaged") : cause) +
+                                    "; an interrupted copy or a file still being written?)");
+  }
   return file;
 }
 

@@ -64,10 +64,16 @@ class ErrorSilencer {
 };
 
 // The current HDF5 error stack as one line (innermost cause last), then cleared.
-// Empty when the stack is empty.
+// Empty when the stack is empty. For debugging: messages use TakeErrorCause.
 std::string TakeErrorStack();
 
-// Throws IoError(path, what + ": " + HDF5 error stack).
+// What a user can act on in the current HDF5 error stack, then cleared: the
+// system's message ("Permission denied", "No space left on device") or "the file
+// is truncated"; empty otherwise. The library's own text (internal names, flags,
+// temporary file names) never reaches a message.
+std::string TakeErrorCause();
+
+// Throws IoError(path, what + ": " + TakeErrorCause()) (just `what` without a cause).
 [[noreturn]] void Fail(const std::string& path, const std::string& what);
 // Name of the file that `loc` (any object in it) belongs to, for messages.
 std::string FileNameOf(hid_t loc);

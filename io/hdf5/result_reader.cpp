@@ -83,9 +83,13 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   const std::string format = OptionalString(root, S(schema::kFormatAttribute));
   if (format != kResultFormat) {
     throw NotAResultError(path,
-                          "not a lobecast result file (root attribute format is " +
+                          std::string(kIncompleteResult) + "the root attribute format is " +
                               (format.empty() ? std::string("missing") : "\"" + format + "\"") +
-                              ", expected \"" + std::string(kResultFormat) + "\")");
+                              ", expected \"" + std::string(kResultFormat) + "\" (" +
+                              (format.starts_with("lobecast.")
+                                   ? "another lobecast output, not a lobecast result file"
+                                   : "not a lobecast result file: another program's HDF5?") +
+                              ")");
   }
   const std::int64_t version = hdf5::ReadIntAttribute(root, S(schema::kFormatVersionAttribute));
   if (version > kResultFormatVersion) {
@@ -282,8 +286,9 @@ StoredResult ReadResult(const std::string& path) {
     if (e.path() == path) throw;
     throw NotAResultError(path, e.detail());
   } catch (const IoError& e) {
-    if (e.path() == path) throw;
-    throw IoError(path, e.detail());
+    // The file opened but does not hold what a result holds (a dataset missing or
+    // unreadable, a shape wrong): truncated, damaged or another program's file.
+    throw NotAResultError(path, std::string(kIncompleteResult) + e.detail());
   }
 }
 

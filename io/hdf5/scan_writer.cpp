@@ -26,6 +26,7 @@ std::vector<Complex> RowMajor(const Eigen::MatrixXcd& m) {
 
 void WriteScanFile(const std::string& path, const ScanImpedanceTable& t, const ScanFileInfo& info) {
   RequireReplaceable(path);
+  hdf5::ErrorSilencer silencer;
   const std::string temp = path + ".tmp-" + std::to_string(static_cast<long>(::getpid()));
   try {
     {
@@ -57,6 +58,10 @@ void WriteScanFile(const std::string& path, const ScanImpedanceTable& t, const S
     }
     if (std::rename(temp.c_str(), path.c_str()) != 0)
       throw IoError(path, "could not rename the finished scan file into place");
+  } catch (const IoError& e) {
+    std::remove(temp.c_str());
+    if (e.path() == path) throw;
+    throw IoError(path, e.detail());  // the target's name, never the temporary's
   } catch (...) {
     std::remove(temp.c_str());
     throw;

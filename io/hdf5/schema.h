@@ -13,7 +13,7 @@
 //
 // A visitor V of VisitAnalysis / VisitRecordedOptions provides:
 //   void Value(const Field& f, T& v)  for T = double, bool, int, std::size_t,
-//        DirectionDeg, PolarizationReference, NullField (const T when writing)
+//        DirectionDeg, PolarizationReference, NullField, CutPlane (const T when writing)
 //   void Object(const ObjectSpec& o, Body&& body)           body() visits the members
 //   void Optional(const ObjectSpec& o, std::optional<T>& v, Body&& body)
 //   void List(const ListSpec& l, std::vector<T>& items, bool* truncated, Body&& body)
@@ -192,7 +192,7 @@ void VisitSummary(Summary& s, V& v) {
 
 // ---- /summary/analysis: PatternAnalysis ---------------------------------------------
 
-inline constexpr int kAnalysisVersion = 1;
+inline constexpr int kAnalysisVersion = 2;  // 2: null loci and crossings, cut tangents
 inline constexpr std::string_view kAnalysisGroup = "/summary/analysis";
 inline constexpr std::string_view kAnalysisVersionAttribute = "analysis_version";
 inline constexpr std::string_view kDefinitionAttribute = "definition";
@@ -223,20 +223,28 @@ struct ListSpec {
 
 inline constexpr ObjectSpec kRecordedOptions{"", "options"};
 inline constexpr ObjectSpec kPeak{"peak", "peak"};
+// The names are those of a peak off the z axis; `plane` says which plane each cut is
+// (analysis_types.h, PatternAnalysis).
 inline constexpr ObjectSpec kElevationCut{
     "elevation_cut", "elevation_plane",
-    "great circle through the peak and the z axis (constant phi); offsets from the peak in "
-    "deg, positive toward theta_hat"};
+    "first principal plane (attribute plane): for a peak off the z axis the great circle "
+    "through the peak and the z axis (constant phi, plane_phi_deg), offsets from the peak "
+    "in deg positive toward theta_hat; for a peak on the axis the E-plane (through the "
+    "major axis of E at the peak) or, nearer circular, the xz plane, offsets positive "
+    "toward phi = plane_phi_deg"};
 inline constexpr ObjectSpec kOrthogonalCut{
     "orthogonal_cut", "orthogonal_plane",
-    "great circle through the peak perpendicular to the elevation cut; offsets from the "
-    "peak in deg, positive toward phi_hat"};
+    "second principal plane (attribute plane): for a peak off the z axis the great circle "
+    "through the peak perpendicular to the elevation plane, offsets from the peak in deg "
+    "positive toward phi_hat; for a peak on the axis the H-plane or, nearer circular, the "
+    "yz plane, offsets positive toward phi = plane_phi_deg"};
 inline constexpr ObjectSpec kFrontToBack{"front_to_back", "front_to_back"};
 inline constexpr ObjectSpec kHighestSideLobe{"highest_side_lobe", "highest_side_lobe"};
 inline constexpr ObjectSpec kPolarization{"polarization", "polarization"};
 inline constexpr ListSpec kMajorLobes{"major_lobes", "lobe"};
 inline constexpr ListSpec kSideLobes{"side_lobes", "lobe", "side_lobes_truncated"};
-inline constexpr ListSpec kNulls{"nulls", "null", "nulls_truncated"};
+inline constexpr ListSpec kNullLoci{"null_loci", "null_locus", "null_loci_truncated"};
+inline constexpr ListSpec kNullCrossings{"null_crossings", "null_crossing"};
 inline constexpr ListSpec kProtectedDirections{"protected_directions", "protected"};
 
 // The options a stored analysis records, so that a reader knows what its lists mean.
@@ -245,6 +253,7 @@ void VisitRecordedOptions(Options& o, V& v) {
   v.Value(Field{"reference", "1"}, o.reference);
   v.Value(Field{"null_field", "1"}, o.null_field);
   v.Value(Field{"null_threshold_db", "dB"}, o.null_threshold_db);
+  v.Value(Field{"max_nulls", "1"}, o.max_nulls);
   v.Value(Field{"side_lobe_threshold_db", "dB"}, o.side_lobe_threshold_db);
   v.Value(Field{"major_lobe_tolerance_db", "dB", Extra::kFileOnly}, o.major_lobe_tolerance_db);
   v.Value(Field{"axial_ratio_limit_db", "dB"}, o.axial_ratio_limit_db);
@@ -259,12 +268,34 @@ void VisitLobe(L& l, V& v) {
   v.Value(Field{"level_db", "dB"}, l.level_db);
 }
 
-template <typename N, typename V>  // N: Null, const or not
-void VisitNull(N& n, V& v) {
+// The columns a null locus and a null crossing end with: a direction and its depth.
+template <typename N, typename V>  // N: NullLocus or NullCrossing, const or not
+void VisitNullDepth(N& n, V& v) {
   v.Value(Field{"", "deg"}, n.direction);
   v.Value(Field{"directivity", "1"}, n.directivity);
   v.Value(Field{"level_db", "dB"}, n.level_db);
   v.Value(Field{"exact", "1"}, n.exact);
+}
+
+template <typename N, typename V>  // N: NullLocus, const or not
+void VisitNullLocus(N& n, V& v) {
+  v.Value(Field{"cone", "1"}, n.cone);
+  v.Value(Field{"point", "1"}, n.point);
+  v.Value(Field{"axis_", "deg"}, n.axis);
+  v.Value(Field{"half_angle_deg", "deg"}, n.half_angle_deg);
+  v.Value(Field{"theta_min_deg", "deg"}, n.theta_min_deg);
+  v.Value(Field{"theta_max_deg", "deg"}, n.theta_max_deg);
+  v.Value(Field{"phi_min_deg", "deg"}, n.phi_min_deg);
+  v.Value(Field{"phi_max_deg", "deg"}, n.phi_max_deg);
+  VisitNullDepth(n, v);
+}
+
+template <typename N, typename V>  // N: NullCrossing, const or not
+void VisitNullCrossing(N& n, V& v) {
+  v.Value(Field{"locus", "1"}, n.locus);
+  v.Value(Field{"orthogonal_plane", "1"}, n.orthogonal_plane);
+  v.Value(Field{"offset_deg", "deg"}, n.offset_deg);
+  VisitNullDepth(n, v);
 }
 
 template <typename P, typename V>  // P: ProtectedDirectionField, const or not
@@ -277,6 +308,8 @@ void VisitProtected(P& f, V& v) {
 
 template <typename C, typename V>  // C: BeamCut, const or not
 void VisitCut(C& c, V& v) {
+  v.Value(Field{"plane", "1"}, c.plane);
+  v.Value(Field{"plane_phi_deg", "deg"}, c.plane_phi_deg);
   v.Value(Field{"half_power_found", "1"}, c.half_power_found);
   v.Value(Field{"half_power_width_deg", "deg"}, c.half_power_width_deg);
   v.Value(Field{"half_power_lower_deg", "deg"}, c.half_power_lower_deg);
@@ -286,6 +319,7 @@ void VisitCut(C& c, V& v) {
   v.Value(Field{"first_null_lower_deg", "deg"}, c.first_null_lower_deg);
   v.Value(Field{"first_null_upper_deg", "deg"}, c.first_null_upper_deg);
   v.Value(Field{"clipped_by_ground", "1"}, c.clipped_by_ground);
+  v.Value(Field{"tangent_", "deg"}, c.tangent);
 }
 
 // Every field of a PatternAnalysis, in its declaration order (the JSON's order).
@@ -312,8 +346,10 @@ void VisitAnalysis(A& a, V& v) {
   v.List(kMajorLobes, a.major_lobes, nullptr, lobe);
   v.Optional(kHighestSideLobe, a.highest_side_lobe, lobe);
   v.List(kSideLobes, a.side_lobes, &a.side_lobes_truncated, lobe);
-  v.List(kNulls, a.nulls, &a.nulls_truncated,
-         [](auto& n, auto& visitor) { VisitNull(n, visitor); });
+  v.List(kNullLoci, a.null_loci, &a.null_loci_truncated,
+         [](auto& n, auto& visitor) { VisitNullLocus(n, visitor); });
+  v.List(kNullCrossings, a.null_crossings, nullptr,
+         [](auto& n, auto& visitor) { VisitNullCrossing(n, visitor); });
   v.List(kProtectedDirections, a.protected_directions, nullptr,
          [](auto& f, auto& visitor) { VisitProtected(f, visitor); });
   v.Object(kPolarization, [&] {

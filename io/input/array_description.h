@@ -4,6 +4,7 @@
 // sees files, and error messages can still point at a line.
 #pragma once
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -11,6 +12,7 @@
 #include "engine/coupling/coupling.h"
 #include "engine/grid.h"
 #include "engine/types.h"
+#include "io/input/design.h"
 #include "io/input_error.h"
 
 namespace lobecast {
@@ -58,6 +60,10 @@ struct ArrayDescription {
   // Accepted but worth saying, one line each, "FILE:LINE:COL: warning: ..."
   // (e.g. a dipole longer than lambda/10, a grid stop not on the step lattice).
   std::vector<std::string> warnings;
+
+  // Set when the file is a design (it has a [lattice] table): what it asked for and
+  // what was generated (io/input/design.h). Unset for a plain array description.
+  std::optional<DesignInfo> design;
 };
 
 }  // namespace lobecast

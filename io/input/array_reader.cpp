@@ -6,6 +6,7 @@
 #include <filesystem>
 #include <initializer_list>
 #include <optional>
+#include <string_view>
 #include <utility>
 #include <vector>
 
@@ -13,6 +14,8 @@
 
 #include "engine/error.h"
 #include "io/input/csv_dipoles.h"
+#include "io/input/design_reader.h"
+#include "io/input/excitation_synthesis.h"
 #include "io/input/text_file.h"
 #include "io/input/toml_values.h"
 #include "io/input/units.h"
@@ -49,9 +52,17 @@ class Reader : private TomlValues {
       throw InputError(At(e.source()), "TOML syntax error: " + std::string(e.description()));
     }
 
-    CheckKeys(root, "",
-              {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
-               "dipole", "reference_impedance"});
+    const bool design = IsDesign(root);
+    if (design) {
+      CheckKeys(root, "",
+                {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
+                 "dipole", "reference_impedance", "element", "lattice", "taper", "steer", "null",
+                 "objective"});
+    } else {
+      CheckKeys(root, "",
+                {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
+                 "dipole", "reference_impedance"});
+    }
     if (const toml::node* n = root.get("name")) out.name = String(*n, "name");
     if (const toml::node* n = root.get("description")) out.description = String(*n, "description");
 
@@ -76,6 +87,8 @@ class Reader : private TomlValues {
           Positive(*n, "reference_impedance", "a resistance in ohm", "a resistance");
     }
 
+    if (design)
+      AddGenerated(ReadDesignTables(root, path_, scale_, out.length_unit, out.array), out);
     if (const toml::node* n = root.get("dipole")) ReadDipoleTables(*n, out);
     if (const toml::node* n = root.get("dipoles_csv")) ReadCsv(*n, out);
 
@@ -106,6 +119,7 @@ class Reader : private TomlValues {
       const Port& p = out.ports[m];
       if (p.kind == PortKind::kCurrent) out.currents[static_cast<Eigen::Index>(m)] = p.current_a;
     }
+    if (out.design) ApplyExcitationSynthesis(out);
     try {
       Validate(out.array);
       ValidateCurrents(out.array, out.currents);
@@ -229,6 +243,27 @@ class Reader : private TomlValues {
     out.grid = AngularGrid::FromRanges(out.theta, out.phi);
   }
 
+  // The generated elements of a design, current-forced, ahead of the explicit ones.
+  void AddGenerated(GeneratedDipoles g, ArrayDescription& out) {
+    g.info.first_generated = out.array.dipoles.size();
+    for (std::size_t i = 0; i < g.dipoles.size(); ++i) {
+      out.array.dipoles.push_back(g.dipoles[i]);
+      out.ports.push_back(Port{PortKind::kCurrent, g.currents[i], 0.0, 0.0});
+      out.wires.push_back(g.wire);
+      out.dipole_locations.push_back(g.where);
+      sites_.push_back(DipoleSite{g.where, g.position, g.position_key, g.length, g.length_key});
+    }
+    for (const GratingLobe& lobe : g.info.grating_lobes) {
+      out.warnings.push_back(g.where.ToString() +
+                             ": warning: a grating lobe enters visible space at theta " +
+                             FormatApprox(lobe.theta_rad / kDegree, 4) + " deg, phi " +
+                             FormatApprox(lobe.phi_rad / kDegree, 4) +
+                             " deg, as strong as the main beam (spacing too wide for this beam "
+                             "direction)");
+    }
+    out.design = std::move(g.info);
+  }
+
   void ReadDipoleTables(const toml::node& n, ArrayDescription& out) {
     const toml::array* a = n.as_array();
     if (!a) throw InputError(At(n), "dipole", Describe(n), "an array of tables ([[dipole]])");
@@ -284,7 +319,7 @@ class Reader : private TomlValues {
 
       Port port = ReadPort(*t, key, out.reference_impedance_ohm);
       out.ports.push_back(port);
-      out.wires.push_back(ReadWire(*t, key, d, out.length_unit));
+      out.wires.push_back(ReadWire(*t, key, d.length_m, out.length_unit, scale_));
       const Wire& w = out.wires.back();
       if (w.radius_m > 0 && d.length_m < 30 * w.radius_m) {
         out.warnings.push_back(
@@ -383,33 +418,6 @@ class Reader : private TomlValues {
     return p;
   }
 
-  // radius (length unit), reactance (ohm), conductivity (S/m): all optional.
-  Wire ReadWire(const toml::table& t, const std::string& key, const Dipole& d,
-                const std::string& unit) const {
-    Wire w;
-    if (const toml::node* v = t.get("radius")) {
-      w.radius_m = Positive(*v, Join(key, "radius"), "a number (the wire radius in " + unit + ")",
-                            "a radius") *
-                   scale_;
-      if (w.radius_m >= 0.5 * d.length_m) {
-        throw InputError(At(*v), Join(key, "radius"), FormatApprox(w.radius_m) + " m",
-                         "a radius below half the length (" + FormatApprox(0.5 * d.length_m) +
-                             " m): a thin wire");
-      }
-    }
-    if (const toml::node* v = t.get("self_reactance"))
-      w.reactance_ohm = Number(*v, Join(key, "self_reactance"), "a self reactance in ohm");
-    if (const toml::node* v = t.get("conductivity")) {
-      w.conductivity_s_m = Positive(*v, Join(key, "conductivity"),
-                                    "a conductivity in S/m (copper about 5.8e7)", "a conductivity");
-      if (!(w.radius_m > 0)) {
-        throw InputError(At(*v), Join(key, "conductivity"), "a conductivity without a radius",
-                         "radius = <wire radius> as well (the loss depends on it)");
-      }
-    }
-    return w;
-  }
-
   Complex Current(const toml::node& n, const std::string& key) const {
     const toml::table* t = n.as_table();
     if (!t) throw InputError(At(n), key, Describe(n), "{ magnitude = <A peak>, phase = <deg> }");
@@ -440,6 +448,11 @@ class Reader : private TomlValues {
     if (!text) {
       throw InputError(At(n), "dipoles_csv", Quoted(name) + " (" + path + ": " + why + ")",
                        "a readable CSV file, relative to the TOML file's directory");
+    }
+    if (IsHdf5(*text)) {
+      throw InputError(At(n), "dipoles_csv", Quoted(name) + ", an HDF5 file (a lobecast result?)",
+                       "a CSV element table (header x, y, z, ux, uy, uz, length, magnitude, "
+                       "phase)");
     }
     const std::size_t first = out.array.dipoles.size();
     std::vector<CsvDipole> rows = ParseCsvDipoles(*text, path, scale_, first);
@@ -474,9 +487,11 @@ class Reader : private TomlValues {
                              " m; an elemental dipole model is meaningless beyond that");
       }
       if (d.length_m > 0.1 * lambda) {
-        out.warnings.push_back(s.length.ToString() + ": warning: key '" + s.length_key + "': " +
-                               found + " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) +
-                               " m; the short-dipole model holds for lengths well below lambda/10");
+        std::string w = s.length.ToString() + ": warning: key '" + s.length_key + "': " + found +
+                        " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) +
+                        " m; the short-dipole model holds for lengths well below lambda/10";
+        // Generated elements share one [element] length: say it once.
+        if (out.warnings.empty() || out.warnings.back() != w) out.warnings.push_back(std::move(w));
       }
       if (out.array.ground == Ground::kPec && !(d.position_m.z() > 0.0)) {
         throw InputError(s.position, s.position_key, "z = " + FormatApprox(d.position_m.z()) + " m",
@@ -503,6 +518,11 @@ ArrayDescription ReadArrayDescription(const std::string& path) {
   const auto text = ReadTextFile(path, &why);
   if (!text)
     throw InputError(SourceLocation{path, 0, 0}, "cannot read the array description: " + why);
+  if (IsHdf5(*text)) {
+    throw InputError(SourceLocation{path, 0, 0},
+                     "found an HDF5 file (a lobecast result?), expected an array description "
+                     "(TOML); a result is read by 'lobecast report', 'export' and 'plot'");
+  }
   const std::string base = std::filesystem::path(path).parent_path().string();
   return ParseArrayDescription(*text, path, base);
 }

@@ -84,6 +84,15 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
     if (first == std::string_view::npos || line[first] == '#') continue;
 
     const std::vector<Cell> cells = SplitRow(line);
+    if (!have_header && line.find(';') != std::string_view::npos) {
+      // A table saved by a spreadsheet in a locale with a decimal comma.
+      throw InputError(SourceLocation{path, line_no, static_cast<int>(line.find(';')) + 1},
+                       "header",
+                       "cells separated by ';' ('" + std::string(line.substr(first, 40)) +
+                           (line.size() - first > 40 ? "...'" : "'") + ")",
+                       "cells separated by ',' and numbers with a '.' decimal mark (save the "
+                       "table as CSV with ',' as the separator, e.g. in an English locale)");
+    }
     if (!have_header) {
       for (std::size_t i = 0; i < cells.size(); ++i) {
         const SourceLocation at{path, line_no, cells[i].column};

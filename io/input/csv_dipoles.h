@@ -12,7 +12,9 @@
 //   or a missing column: not given). Rows are current-forced (no drive or load). Unknown or
 //   repeated header names are errors, like unknown TOML keys.
 // - Cells are separated by commas and trimmed of blanks; there is no quoting (no
-//   cell ever needs a comma). Every row has exactly as many cells as the header.
+//   cell ever needs a comma). A header with ';' in it (a spreadsheet's export in a
+//   decimal-comma locale) is refused with a hint to save it with ',' separators. Every row has
+//   exactly as many cells as the header.
 // - x, y, z and length are in the description's length_unit; (ux, uy, uz) is any
 //   non-zero vector, normalized on read; magnitude is A peak (>= 0), phase degrees.
 //

@@ -38,4 +38,8 @@ std::optional<std::string> ReadTextFile(const std::string& path, std::string* wh
   return text;
 }
 
+bool IsHdf5(std::string_view bytes) {
+  return bytes.substr(0, 8) == std::string_view("\x89HDF\r\n\x1a\n", 8);
+}
+
 }  // namespace lobecast

@@ -145,4 +145,30 @@ Vec3 TomlValues::Vector3(const toml::node& n, const std::string& key, std::strin
   return v;
 }
 
+Wire TomlValues::ReadWire(const toml::table& t, const std::string& key, double length_m,
+                          const std::string& unit, double metres_per_unit) const {
+  Wire w;
+  if (const toml::node* v = t.get("radius")) {
+    w.radius_m = Positive(*v, Join(key, "radius"), "a number (the wire radius in " + unit + ")",
+                          "a radius") *
+                 metres_per_unit;
+    if (w.radius_m >= 0.5 * length_m) {
+      throw InputError(
+          At(*v), Join(key, "radius"), FormatApprox(w.radius_m) + " m",
+          "a radius below half the length (" + FormatApprox(0.5 * length_m) + " m): a thin wire");
+    }
+  }
+  if (const toml::node* v = t.get("self_reactance"))
+    w.reactance_ohm = Number(*v, Join(key, "self_reactance"), "a self reactance in ohm");
+  if (const toml::node* v = t.get("conductivity")) {
+    w.conductivity_s_m = Positive(*v, Join(key, "conductivity"),
+                                  "a conductivity in S/m (copper about 5.8e7)", "a conductivity");
+    if (!(w.radius_m > 0)) {
+      throw InputError(At(*v), Join(key, "conductivity"), "a conductivity without a radius",
+                       "radius = <wire radius> as well (the loss depends on it)");
+    }
+  }
+  return w;
+}
+
 }  // namespace lobecast

@@ -10,6 +10,7 @@
 
 #include <toml++/toml.h>
 
+#include "engine/coupling/coupling.h"
 #include "engine/types.h"
 #include "io/input_error.h"
 
@@ -42,6 +43,11 @@ class TomlValues {
   double Positive(const toml::node& n, const std::string& key, std::string_view type,
                   std::string_view what) const;
   Vec3 Vector3(const toml::node& n, const std::string& key, std::string_view what) const;
+  // The wire keys of a dipole table (or a design's [element]): radius (length unit,
+  // below half the dipole's length), self_reactance (ohm), conductivity (S/m, needs a
+  // radius); all optional.
+  Wire ReadWire(const toml::table& t, const std::string& key, double length_m,
+                const std::string& unit, double metres_per_unit) const;
 
   std::string path_;  // the file, for messages
 };

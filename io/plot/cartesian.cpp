@@ -4,11 +4,61 @@
 
 #include <algorithm>
 #include <cmath>
+#include <utility>
+#include <vector>
 
 #include "io/plot/cut_traces.h"
 #include "io/plot/frame.h"
 
 namespace lobecast::plot {
+namespace {
+
+// A cut that goes round the whole circle with its largest sample more than 90 deg from
+// the middle (near or across an edge), re-ordered so that sample is in the middle
+// (angles then run from the peak - 180 to the peak + 180 deg).
+void CentreOnPeak(CutTraces* t) {
+  Cut& cut = t->cut;
+  const std::size_t n = cut.angle_deg.size();
+  if (n < 3 || cut.spec.principal() || t->no_field) return;
+  const double step = cut.angle_deg[1] - cut.angle_deg[0];
+  if (cut.angle_deg.back() - cut.angle_deg.front() + step < 360.0 - 1e-6) return;
+  const double pa = cut.angle_deg[t->peak_index];
+  // A peak within 90 deg of the middle is well inside: the cut stays as it is.
+  if (std::fabs(pa - 0.5 * (cut.angle_deg.front() + cut.angle_deg.back())) <= 90.0) return;
+  std::vector<std::pair<double, std::size_t>> order;
+  for (std::size_t k = 0; k < n; ++k) {
+    const double a = pa + std::remainder(cut.angle_deg[k] - pa, 360.0);
+    if (std::any_of(order.begin(), order.end(),
+                    [&](const auto& o) { return std::fabs(o.first - a) < 1e-9; }))
+      continue;  // phi = 360 repeats phi = 0
+    order.emplace_back(a, k);
+  }
+  std::stable_sort(order.begin(), order.end(),
+                   [](const auto& x, const auto& y) { return x.first < y.first; });
+  auto pick = [&](const std::vector<double>& v) {
+    std::vector<double> out;
+    if (v.empty()) return out;
+    for (const auto& o : order) out.push_back(v[o.second]);
+    return out;
+  };
+  std::vector<double> angles;
+  for (const auto& o : order) angles.push_back(o.first);
+  std::vector<std::size_t> index;
+  for (const auto& o : order)
+    if (!cut.grid_index.empty()) index.push_back(cut.grid_index[o.second]);
+  cut.phi_deg = pick(cut.phi_deg);
+  t->main_db = pick(t->main_db);
+  t->companion_db = pick(t->companion_db);
+  cut.angle_deg = angles;
+  cut.grid_index = index;
+  for (std::size_t k = 0; k < order.size(); ++k)
+    if (order[k].second == t->peak_index) {
+      t->peak_index = k;
+      break;
+    }
+}
+
+}  // namespace
 
 double CartesianGeometry::XOf(double angle_deg) const {
   return left_px + width_px * (angle_deg - angle_min_deg) / (angle_max_deg - angle_min_deg);
@@ -19,8 +69,10 @@ double CartesianGeometry::YOf(double db) const {
   return top_px + height_px * (db_top - v) / (db_top - db_floor);
 }
 
-CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const PlotOptions& o) {
-  const CutTraces t = MakeCutTraces(r, o);
+CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r,
+                                const PatternAnalysis* analysis, const PlotOptions& o) {
+  CutTraces t = MakeCutTraces(r, analysis, o);
+  CentreOnPeak(&t);
   cairo_t* cr = c.cr();
   const double f = c.font_px();
   const double top_y = DrawTitleBlock(c, t.title_lines);
@@ -48,7 +100,8 @@ CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const Pl
     DrawGridColumn(c, box, g.XOf(a), Tick(a));
   DrawAxisTitlesAndOutline(
       c, box,
-      t.cut.spec.plane == CutPlane::kPhiConstant
+      t.cut.spec.principal() ? "offset from the peak (deg), + toward the plane's tangent"
+      : t.cut.spec.plane == CutPlane::kPhiConstant
           ? "signed theta (deg): + on the cut's phi half, - on the opposite half"
           : "phi (deg), from +x toward +y",
       t.units);
@@ -78,33 +131,30 @@ CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const Pl
     draw_trace(t.main_db, MainTraceColour(), 2.4);
   }
 
-  BeamFigures b = t.beam;
-  if (!(t.peak_db - 3.0 > g.db_floor)) b.has_hpbw = b.has_side_lobe = false;
-  if (b.has_hpbw) {
-    // Crossings on a wrapped cut may lie beyond an end: draw them folded back in.
-    auto fold = [&](double a) {
-      const double span = g.angle_max_deg - g.angle_min_deg;
-      while (a < g.angle_min_deg && span >= 359.999) a += 360.0;
-      while (a > g.angle_max_deg && span >= 359.999) a -= 360.0;
-      return a;
-    };
-    const double y = g.YOf(half);
-    const double xl = g.XOf(fold(b.hpbw_left_deg)), xr = g.XOf(fold(b.hpbw_right_deg));
-    c.SetColour(HalfPowerColour());
-    SetSolid(c, 1.2);
-    for (double x : {xl, xr}) {
-      cairo_move_to(cr, x, y - 0.6 * f);
-      cairo_line_to(cr, x, y + 0.6 * f);
-    }
-    cairo_stroke(cr);
-    if (xr > xl) {
+  // The analysis' half-power points and null crossings on a principal plane.
+  if (analysis && t.cut.spec.principal() && !t.no_field) {
+    const BeamCut& bc = t.cut.spec.plane == CutPlane::kElevation ? analysis->elevation_cut
+                                                                 : analysis->orthogonal_cut;
+    if (bc.half_power_found && half > g.db_floor) {
+      const double y = g.YOf(half);
+      const double xl = g.XOf(bc.half_power_lower_deg), xr = g.XOf(bc.half_power_upper_deg);
+      c.SetColour(HalfPowerColour());
+      SetSolid(c, 1.2);
+      for (double x : {xl, xr}) {
+        cairo_move_to(cr, x, y - 0.6 * f);
+        cairo_line_to(cr, x, y + 0.6 * f);
+      }
       cairo_move_to(cr, xl, y + 0.3 * f);
       cairo_line_to(cr, xr, y + 0.3 * f);
       cairo_stroke(cr);
+      c.SetColour(TextColour());
+      c.BoxedText(0.5 * (xl + xr), y + 0.9 * f, Format("HPBW %.2f°", bc.half_power_width_deg),
+                  0.9 * f, HAlign::kCentre, VAlign::kTop);
     }
-    c.SetColour(TextColour());
-    c.BoxedText(0.5 * (xl + xr), y + 0.9 * f, Format("HPBW %.1f°", b.hpbw_deg), 0.9 * f,
-                HAlign::kCentre, VAlign::kTop);
+    for (const CutLabel& l : t.labels) {
+      if (l.legend || l.value < g.angle_min_deg || l.value > g.angle_max_deg) continue;
+      DrawNullMark(c, g.XOf(l.value), g.top_px + g.height_px - 0.5 * f, 0.33 * f);
+    }
   }
   if (!t.main_db.empty() && !t.no_field) {
     const std::size_t p = t.peak_index;
@@ -114,23 +164,7 @@ CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const Pl
     cairo_arc(cr, g.XOf(t.cut.angle_deg[p]), g.YOf(t.main_db[p]), 4.5, 0, 2 * kPi);
     cairo_stroke(cr);
   }
-  if (b.has_side_lobe && t.main_db[b.side_lobe_index] > g.db_floor) {
-    const double x = g.XOf(t.cut.angle_deg[b.side_lobe_index]);
-    const double y = g.YOf(t.main_db[b.side_lobe_index]);
-    c.SetColour(MarkerColour());
-    SetSolid(c, 1.2);
-    cairo_move_to(cr, x, y - 5);
-    cairo_line_to(cr, x - 5, y - 13);
-    cairo_line_to(cr, x + 5, y - 13);
-    cairo_close_path(cr);
-    cairo_stroke(cr);
-    c.SetColour(TextColour());
-    c.BoxedText(x, y - 14, Format("side lobe %.1f dB", b.side_lobe_rel_db + 0.0), 0.85 * f,
-                HAlign::kCentre, VAlign::kBottom);
-  }
-
-  DrawCutLegend(c, t, c.width() - legend_w + 0.5 * f, top_y + 1.0 * f, legend_w - 1.0 * f,
-                /*with_beam_figures=*/true);
+  DrawCutLegend(c, t, c.width() - legend_w + 0.5 * f, top_y + 1.0 * f, legend_w - 1.0 * f);
   return g;
 }
 

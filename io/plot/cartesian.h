@@ -1,7 +1,7 @@
 // Cartesian cut: the same traces as the polar cut against the cut angle (deg),
 // levels in dBi (or dB below the cut's peak) from the floor up, with the -3 dB
-// level, the half-power beamwidth (between the linearly interpolated -3 dB
-// crossings) and the highest side lobe annotated.
+// level and the figures of the pattern analysis: on a principal plane its half-power
+// points and null crossings (offsets from the peak) are marked.
 #pragma once
 
 #include "io/hdf5/result_reader.h"
@@ -19,6 +19,10 @@ struct CartesianGeometry {
   double YOf(double db) const;
 };
 
-CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r, const PlotOptions& o);
+// The figures come from `analysis` (may be null: none drawn). A cut that goes round
+// the whole circle is drawn centred on its largest sample when that lies more than
+// 90 deg from the middle (an endfire beam at phi = 0 is not split across the edges).
+CartesianGeometry DrawCartesian(const Canvas& c, const StoredResult& r,
+                                const PatternAnalysis* analysis, const PlotOptions& o);
 
 }  // namespace lobecast::plot

@@ -30,103 +30,58 @@ Quantity CutQuantity(const StoredResult& r, const PlotOptions& o, PolarizationRe
              : Quantity::kPhi;
 }
 
-BeamFigures AnalyzeCut(const std::vector<double>& angle_deg, const std::vector<double>& db_in) {
-  BeamFigures b;
-  const std::size_t n = db_in.size();
-  if (n < 2) return b;
-  const bool wraps = std::fabs(angle_deg.back() - angle_deg.front() - 360.0) < 1e-6;
-  // On a wrapped cut the last sample repeats the first; walk the m unique ones.
-  const std::size_t m = wraps ? n - 1 : n;
-  std::size_t p = 0;
-  for (std::size_t k = 1; k < m; ++k)
-    if (db_in[k] > db_in[p]) p = k;
-  b.peak_index = p;
-  const double peak = db_in[p];
-  if (!std::isfinite(peak)) return b;
-  // Finite copy relative to the peak: zeros sit far below any level we look for.
-  std::vector<double> db(m);
-  for (std::size_t k = 0; k < m; ++k) db[k] = std::max(db_in[k] - peak, -400.0);
-
-  // Step s samples from the peak (s may be negative): index and unwrapped angle,
-  // or false past a non-wrapping end.
-  auto at = [&](long s, std::size_t* k, double* angle) {
-    long i = static_cast<long>(p) + s;
-    double shift = 0;
-    if (wraps) {
-      const long mm = static_cast<long>(m);
-      const long turns = (i >= 0) ? i / mm : -((-i + mm - 1) / mm);
-      i -= turns * mm;
-      shift = 360.0 * static_cast<double>(turns);
-    } else if (i < 0 || i >= static_cast<long>(m)) {
-      return false;
-    }
-    *k = static_cast<std::size_t>(i);
-    *angle = angle_deg[*k] + shift;
-    return true;
-  };
-  const long max_steps = static_cast<long>(m) - 1;
-
-  // -3 dB crossings.
-  auto crossing = [&](int dir, double* out) {
-    std::size_t k0 = p, k1;
-    double a0 = angle_deg[p], a1;
-    for (long s = 1; s <= max_steps; ++s) {
-      if (!at(dir * s, &k1, &a1)) return false;
-      if (db[k1] < -3.0) {
-        const double f = (-3.0 - db[k0]) / (db[k1] - db[k0]);
-        *out = a0 + f * (a1 - a0);
-        return true;
-      }
-      k0 = k1;
-      a0 = a1;
-    }
-    return false;
-  };
-  double left = 0, right = 0;
-  if (crossing(-1, &left) && crossing(+1, &right) && right - left < 360.0) {
-    b.has_hpbw = true;
-    b.hpbw_left_deg = left;
-    b.hpbw_right_deg = right;
-    b.hpbw_deg = right - left;
-  }
-
-  // Main lobe: down from the peak while the level does not rise.
-  std::vector<bool> in_main(m, false);
-  in_main[p] = true;
-  for (int dir : {-1, +1}) {
-    std::size_t prev = p, k;
-    double a;
-    for (long s = 1; s <= max_steps; ++s) {
-      if (!at(dir * s, &k, &a) || db[k] > db[prev] + 1e-12) break;
-      in_main[k] = true;
-      prev = k;
+std::vector<CutLabel> CutLabels(const PatternAnalysis& a, const CutSpec& spec) {
+  std::vector<CutLabel> out;
+  out.push_back({"peak.directivity_dbi", a.peak.directivity_dbi,
+                 Format("peak %.2f dBi at theta %.2f°, phi %.2f°", a.peak.directivity_dbi,
+                        a.peak.direction.theta_deg, a.peak.direction.phi_deg)});
+  if (spec.principal()) {
+    const bool elevation = spec.plane == CutPlane::kElevation;
+    const BeamCut& c = elevation ? a.elevation_cut : a.orthogonal_cut;
+    const std::string plane = elevation ? "elevation_plane." : "orthogonal_plane.";
+    out.push_back({plane + "half_power_width_deg", c.half_power_width_deg,
+                   c.half_power_found
+                       ? Format("HPBW %.2f° (%.2f° .. %.2f°)", c.half_power_width_deg,
+                                c.half_power_lower_deg, c.half_power_upper_deg)
+                       : std::string("HPBW: this plane never falls to half power")});
+    if (c.first_nulls_found)
+      out.push_back({plane + "first_null_width_deg", c.first_null_width_deg,
+                     Format("FNBW %.2f°", c.first_null_width_deg)});
+    for (const NullCrossing& n : a.null_crossings) {
+      if (n.orthogonal_plane == elevation) continue;
+      out.push_back({"null_crossings.offset_deg", n.offset_deg,
+                     Format("null at %.2f°", n.offset_deg), /*legend=*/false});
     }
   }
-  // Highest local maximum outside it.
-  for (std::size_t k = 0; k < m; ++k) {
-    if (in_main[k]) continue;
-    std::size_t kl, kr;
-    double a;
-    const bool hl = at(static_cast<long>(k) - static_cast<long>(p) - 1, &kl, &a);
-    const bool hr = at(static_cast<long>(k) - static_cast<long>(p) + 1, &kr, &a);
-    if (!hl || !hr) continue;  // the open end of a cut is no lobe
-    if (db[k] < db[kl] || db[k] < db[kr] || db[k] <= -399.0) continue;
-    if (!b.has_side_lobe || db[k] > b.side_lobe_rel_db) {
-      b.has_side_lobe = true;
-      b.side_lobe_index = k;
-      b.side_lobe_rel_db = db[k];
-    }
+  if (a.highest_side_lobe) {
+    const Lobe& l = *a.highest_side_lobe;
+    out.push_back({"highest_side_lobe.level_db", l.level_db,
+                   Format("highest side lobe %.2f dB at theta %.2f°, phi %.2f°", l.level_db,
+                          l.direction.theta_deg, l.direction.phi_deg)});
+  } else {
+    out.push_back(
+        {"highest_side_lobe.level_db", std::numeric_limits<double>::quiet_NaN(), "no side lobe"});
   }
-  return b;
+  if (!a.major_lobes.empty())
+    out.push_back(
+        {"major_lobes.size", static_cast<double>(a.major_lobes.size()),
+         Format("%zu other major lobe%s (as high as the peak), e.g. theta %.2f°, phi "
+                "%.2f°",
+                a.major_lobes.size(), a.major_lobes.size() == 1 ? "" : "s",
+                a.major_lobes[0].direction.theta_deg, a.major_lobes[0].direction.phi_deg)});
+  return out;
 }
 
 std::string CutAngleText(const CutSpec& spec, double angle_deg) {
+  if (spec.principal()) return Format("offset %.4g°", angle_deg);
   return Format(spec.plane == CutPlane::kPhiConstant ? "theta = %.4g°" : "phi = %.4g°", angle_deg);
 }
 
-CutTraces MakeCutTraces(const StoredResult& r, const PlotOptions& o) {
+CutTraces MakeCutTraces(const StoredResult& r, const PatternAnalysis* analysis,
+                        const PlotOptions& o) {
   CutTraces t;
-  t.cut = ExtractCut(r, o.cut);
+  t.cut = ExtractCut(r, o.cut, analysis);
+  if (analysis) t.labels = CutLabels(*analysis, o.cut);
   t.reference = ResolveReference(r, o.reference);
   t.main = CutQuantity(r, o, t.reference);
   t.companion = CompanionOf(t.main);
@@ -165,8 +120,15 @@ CutTraces MakeCutTraces(const StoredResult& r, const PlotOptions& o) {
   if (t.scale_top_db <= max_plotted - 1e-9) t.scale_top_db += step;
   t.floor_db = o.floor_db;
   t.scale_floor_db = max_plotted - o.floor_db;
-  t.beam = AnalyzeCut(t.cut.angle_deg, t.main_db);
-  t.peak_index = t.beam.peak_index;
+  // The largest sample of the main trace: where the trace's marker goes (the refined
+  // peak is the analysis' and is in the labels).
+  // On a principal plane the analysed peak is offset 0.
+  for (std::size_t k = 1; k < t.main_db.size(); ++k) {
+    const bool better =
+        o.cut.principal() ? std::fabs(t.cut.angle_deg[k]) < std::fabs(t.cut.angle_deg[t.peak_index])
+                          : t.main_db[k] > t.main_db[t.peak_index];
+    if (better) t.peak_index = k;
+  }
   t.peak_db = t.main_db.empty() ? 0 : t.main_db[t.peak_index];
 
   std::string what = t.main == Quantity::kDirectivity ? "Directivity" : "Partial directivity";
@@ -181,8 +143,7 @@ CutTraces MakeCutTraces(const StoredResult& r, const PlotOptions& o) {
   return t;
 }
 
-void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, double width,
-                   bool with_beam_figures) {
+void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, double width) {
   cairo_t* cr = c.cr();
   const double f = 0.92 * c.font_px();
   const double swatch = 2.4 * f;
@@ -224,23 +185,26 @@ void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, doub
   if (t.no_field)
     entry(kNoFieldInCutText);
   else if (!t.main_db.empty() && std::isfinite(t.main_db[p]))
-    entry(Format("peak %.2f %s at ", t.main_db[p], t.units.c_str()) +
+    entry(Format(t.cut.spec.principal() ? "%.2f %s at the analysed peak, " : "peak %.2f %s at ",
+                 t.main_db[p], t.units.c_str()) +
           CutAngleText(t.cut.spec, t.cut.angle_deg[p]));
   else
     entry("no radiation in this cut");
   y += 0.4 * f;
-  if (with_beam_figures && !t.no_field) {
-    const BeamFigures& b = t.beam;
-    if (b.has_hpbw)
-      entry(Format("half-power beamwidth %.1f° (%.1f° .. %.1f°)", b.hpbw_deg, b.hpbw_left_deg,
-                   b.hpbw_right_deg));
-    else
-      entry("half-power beamwidth: no -3 dB crossing on both sides within the cut");
-    if (b.has_side_lobe)
-      entry(Format("highest side lobe %.1f dB below the peak, at ", std::fabs(b.side_lobe_rel_db)) +
-            CutAngleText(t.cut.spec, t.cut.angle_deg[b.side_lobe_index]));
-    else
-      entry("no side lobe in this cut");
+  if (!t.no_field) {
+    bool nulls = false;
+    for (const CutLabel& l : t.labels) {
+      if (l.legend)
+        entry(l.text);
+      else
+        nulls = true;
+    }
+    if (nulls) {
+      c.SetColour(MarkerColour());
+      DrawNullMark(c, x + 0.5 * swatch, y, 0.33 * f);
+      entry("null crossings of the analysis");
+    }
+    if (t.labels.empty()) entry("no pattern analysis in the result: no figures");
   }
   if (t.companion && !t.no_field && !t.main_db.empty() && std::isfinite(t.peak_db)) {
     double worst = -kInf;

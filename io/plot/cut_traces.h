@@ -1,6 +1,6 @@
 // The data behind a cut plot (polar or cartesian): the cut, the main and
-// companion traces in plotted units, the scale, the title lines, and the beam
-// figures read off the sampled cut (half-power beamwidth, highest side lobe).
+// companion traces in plotted units, the scale, the title lines, and the figures
+// of the pattern analysis it shows (CutLabels).
 #pragma once
 
 #include <cstddef>
@@ -15,23 +15,21 @@
 
 namespace lobecast::plot {
 
-// Figures from a sampled cut, angles in the cut's own angle (deg), levels in dB
-// relative to the peak. Computed simply: the -3 dB crossings interpolate
-// linearly in dB between the two samples around them; the main lobe runs from
-// the peak to the first sample on each side where the level rises again; the
-// highest side lobe is the highest local maximum outside it. A cut whose ends
-// are the same direction (-180..180, or phi 0..360) is walked around.
-struct BeamFigures {
-  std::size_t peak_index = 0;
-  bool has_hpbw = false;     // both -3 dB crossings found
-  double hpbw_left_deg = 0;  // may lie beyond the cut's first angle on a wrapped cut
-  double hpbw_right_deg = 0;
-  double hpbw_deg = 0;
-  bool has_side_lobe = false;
-  std::size_t side_lobe_index = 0;
-  double side_lobe_rel_db = 0;  // <= 0
+// One figure a cut plot shows, taken from the pattern analysis as it is (a plot never
+// works out beamwidths, lobes or nulls from its samples), so plot and report agree:
+// `key` names the report's JSON field ("elevation_plane.half_power_width_deg"), `value`
+// is that field's value, `text` what the plot writes. Labels with `legend` false are
+// drawn as marks only (the null crossings).
+struct CutLabel {
+  std::string key;
+  double value = 0;
+  std::string text;
+  bool legend = true;
 };
-BeamFigures AnalyzeCut(const std::vector<double>& angle_deg, const std::vector<double>& db);
+// The labels of a cut: the refined peak, the highest side lobe and the other major
+// lobes of the whole pattern; on a principal plane also its beamwidths and its null
+// crossings (offsets).
+std::vector<CutLabel> CutLabels(const PatternAnalysis& a, const CutSpec& spec);
 
 struct CutTraces {
   Cut cut;
@@ -50,7 +48,7 @@ struct CutTraces {
   double scale_floor_db = 0;
   double floor_db = 40;  // dB below the cut's peak
   std::vector<std::string> title_lines;
-  BeamFigures beam;
+  std::vector<CutLabel> labels;  // empty without an analysis
   // The cut's largest value (either trace) is below kNoFieldInCutRatio of the whole
   // pattern's peak directivity: the field here is zero up to rounding (the horizon over
   // PEC for horizontal dipoles, ~-310 dBi of noise). The plots then draw no trace and
@@ -68,12 +66,13 @@ inline constexpr const char* kNoFieldInCutText = "no field in this cut (zero up 
 // the peak (against the other).
 Quantity CutQuantity(const StoredResult& r, const PlotOptions& o, PolarizationReference ref);
 
-// Throws InputError when the cut is not on the grid.
-CutTraces MakeCutTraces(const StoredResult& r, const PlotOptions& o);
+// Throws InputError when the cut is not on the grid. `analysis` may be null (a result
+// computed with --no-analysis): then no figures are drawn.
+CutTraces MakeCutTraces(const StoredResult& r, const PatternAnalysis* analysis,
+                        const PlotOptions& o);
 
 // The legend and figures column of a cut plot, drawn from (x, y) within width.
-void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, double width,
-                   bool with_beam_figures);
+void DrawCutLegend(const Canvas& c, const CutTraces& t, double x, double y, double width);
 
 // "theta = 90°" / "phi = 45°" for a cut angle (signed theta on a phi cut).
 std::string CutAngleText(const CutSpec& spec, double angle_deg);

@@ -6,6 +6,7 @@
 #include <cstdarg>
 #include <cstdio>
 #include <filesystem>
+#include <utility>
 
 #include "io/plot/colormap.h"
 
@@ -177,6 +178,21 @@ double DbLabelStep(double range_db) {
   if (range_db > 25) return 10;
   if (range_db > 10) return 5;
   return 2;
+}
+
+void DrawNullMark(const Canvas& c, double x, double y, double s) {
+  cairo_t* cr = c.cr();
+  for (const auto& [w, col] :
+       {std::pair{3.2, Colour{1, 1, 1, 1}}, std::pair{1.4, Colour{0, 0, 0, 1}}}) {
+    c.SetColour(col);
+    SetSolid(c, w);
+    cairo_move_to(cr, x - s, y - s);
+    cairo_line_to(cr, x + s, y + s);
+    cairo_move_to(cr, x - s, y + s);
+    cairo_line_to(cr, x + s, y - s);
+    cairo_stroke(cr);
+  }
+  SetSolid(c, 1.0);
 }
 
 }  // namespace lobecast::plot

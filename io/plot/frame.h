@@ -45,6 +45,8 @@ Colour MarkerColour();
 
 // Sets line width and dash for a trace or a guide line.
 void SetSolid(const Canvas& c, double width_px);
+// A null's mark: an x of half-size s px, black on a white halo, at (x, y).
+void DrawNullMark(const Canvas& c, double x, double y, double s);
 void SetDashed(const Canvas& c, double width_px, double dash_px);
 
 // Strokes a trace: the solid polyline through point_px(0) .. point_px(n - 1)

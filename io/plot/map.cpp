@@ -6,10 +6,13 @@
 #include <cmath>
 #include <limits>
 
+#include <Eigen/Geometry>
 #include "engine/decibels.h"
 #include "io/plot/colormap.h"
 #include "io/plot/frame.h"
-#include "io/plot/nulls.h"
+
+#include "engine/analysis/pattern_probe.h"
+#include "engine/ground.h"
 
 namespace lobecast::plot {
 
@@ -60,7 +63,31 @@ void DrawColourBar(const Canvas& c, const ColourBar& bar, double step, const std
            VAlign::kBottom);
 }
 
-MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PlotOptions& o) {
+std::vector<std::pair<double, double>> NullLocusMarks(const PatternAnalysis& a, Ground ground) {
+  std::vector<std::pair<double, double>> out;
+  for (const NullLocus& l : a.null_loci) {
+    if (!l.cone) {
+      out.emplace_back(l.direction.theta_deg, l.direction.phi_deg);
+      continue;
+    }
+    const Vec3 axis = UnitVectorAt(l.axis.theta_deg * kDegree, l.axis.phi_deg * kDegree);
+    const Vec3 t = std::fabs(axis.x()) < 0.9 ? Vec3::UnitX() : Vec3::UnitY();
+    const Vec3 u = axis.cross(t).normalized(), w = axis.cross(u);
+    const double alpha = l.half_angle_deg * kDegree;
+    for (int k = 0; k < 180; ++k) {
+      const double psi = 2 * kPi * k / 180;
+      const Vec3 p =
+          std::cos(alpha) * axis + std::sin(alpha) * (std::cos(psi) * u + std::sin(psi) * w);
+      const SphericalAngles s = AnglesOf(p);
+      if (BelowGround(ground, s.theta_rad)) continue;
+      out.emplace_back(s.theta_rad / kDegree, s.phi_rad / kDegree);
+    }
+  }
+  return out;
+}
+
+MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PatternAnalysis* analysis,
+                    const PlotOptions& o) {
   const AngularGrid& grid = r.result.grid;
   const Quantity q = o.quantity.value_or(Quantity::kDirectivity);  // cuts: CutQuantity
   const PolarizationReference ref = ResolveReference(r, o.reference);
@@ -84,7 +111,8 @@ MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PlotOptions& o
       std::string(q == Quantity::kDirectivity ? "Directivity" : "Partial directivity") + ", " +
       units + (q == Quantity::kDirectivity ? "" : ": " + QuantityLabel(q, ref));
   if (o.normalized) what += Format(" relative to the peak (%.2f dBi)", peak);
-  what += Format("; contours every %g dB, red -3 dB; × nulls below the floor", o.contour_step_db);
+  what += Format("; contours every %g dB, red -3 dB", o.contour_step_db);
+  if (analysis) what += "; × null loci of the analysis";
   const std::string map_line =
       ProjectionDescription(o.projection) + Format("; grid theta %g..%g°, phi %g..%g°",
                                                    grid.theta_deg.front(), grid.theta_deg.back(),
@@ -110,7 +138,6 @@ MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PlotOptions& o
   });
 
   // Contours: thin dark lines every step; the -3 dB one dashed in the half-power colour.
-  cairo_t* cr = c.cr();
   for (double level = g.db_top - o.contour_step_db; level > g.db_floor + 1e-9;
        level -= o.contour_step_db) {
     c.SetColour({0.05, 0.05, 0.05, 0.55});
@@ -124,14 +151,17 @@ MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PlotOptions& o
 
   // Nulls, at most one per 2.5 text heights so a null ring stays readable.
   std::vector<std::pair<double, double>> placed;
-  for (const NullSample& n : FindNulls(grid, db, o.floor_db)) {
+  const std::vector<std::pair<double, double>> marks =
+      analysis ? NullLocusMarks(*analysis, r.array.ground)
+               : std::vector<std::pair<double, double>>{};
+  for (const auto& [theta_deg, phi_deg] : marks) {
     // On theta-phi and az-el a pole is a whole edge: mark it in the middle.
-    const bool pole = std::fabs(std::sin(n.theta_deg * kPi / 180.0)) < 1e-9;
+    const bool pole = std::fabs(std::sin(theta_deg * kPi / 180.0)) < 1e-9;
     const double phi = pole && o.projection != MapProjection::kUv
                            ? 0.5 * (panel.phi_min_deg + panel.phi_max_deg)
-                           : n.phi_deg;
+                           : phi_deg;
     double x, y;
-    if (!panel.ToDevice(n.theta_deg, phi, &x, &y)) continue;
+    if (!panel.ToDevice(theta_deg, phi, &x, &y)) continue;
     if (x < panel.left_px || x > panel.left_px + panel.width_px || y < panel.top_px ||
         y > panel.top_px + panel.height_px)
       continue;
@@ -140,18 +170,8 @@ MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PlotOptions& o
       if (std::hypot(px - x, py - y) < 2.5 * f) crowded = true;
     if (crowded || placed.size() >= 400) continue;
     placed.emplace_back(x, y);
-    g.nulls_deg.emplace_back(n.theta_deg, n.phi_deg);
-    const double s = 0.33 * f;
-    for (const auto& [w, col] :
-         {std::pair{3.2, Colour{1, 1, 1, 1}}, std::pair{1.4, Colour{0, 0, 0, 1}}}) {
-      c.SetColour(col);
-      SetSolid(c, w);
-      cairo_move_to(cr, x - s, y - s);
-      cairo_line_to(cr, x + s, y + s);
-      cairo_move_to(cr, x - s, y + s);
-      cairo_line_to(cr, x + s, y - s);
-      cairo_stroke(cr);
-    }
+    g.nulls_deg.emplace_back(theta_deg, phi_deg);
+    DrawNullMark(c, x, y, 0.33 * f);
   }
   DrawPanelAxes(c, panel);
 

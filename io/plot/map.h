@@ -2,13 +2,14 @@
 // (theta-phi, azimuth-elevation or u-v), on the lobecast ramp
 // (plot_colormap.h) from the floor (dark) to the peak (light), with a colour
 // bar, contour lines every `contour_step_db` below the peak (the -3 dB one in
-// red), and nulls marked with a cross: sampled local minima below the scale's
-// floor, where the colour alone cannot show how deep they are.
+// red), and the pattern analysis' null loci marked with crosses (a cone as a dotted
+// curve), where the colour alone cannot show how deep they are.
 #pragma once
 
 #include <string>
 #include <vector>
 
+#include "engine/analysis/analysis_types.h"
 #include "io/hdf5/result_reader.h"
 #include "io/plot/canvas.h"
 #include "io/plot/map_panel.h"
@@ -33,6 +34,12 @@ struct MapGeometry {
   std::vector<std::pair<double, double>> nulls_deg;  // (theta, phi) marked
 };
 
-MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PlotOptions& o);
+// The nulls marked are the analysis' null loci (none when `analysis` is null).
+MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PatternAnalysis* analysis,
+                    const PlotOptions& o);
+
+// Directions (theta, phi deg) that mark the analysis' null loci on a map: a point or a
+// curve's deepest direction once, a cone every 2 deg around its axis (visible part).
+std::vector<std::pair<double, double>> NullLocusMarks(const PatternAnalysis& a, Ground ground);
 
 }  // namespace lobecast::plot

@@ -10,7 +10,8 @@
 
 namespace lobecast::plot {
 
-PlotGeometry WritePlot(const StoredResult& r, const PlotOptions& o, const std::string& path) {
+PlotGeometry WritePlot(const StoredResult& r, const PatternAnalysis* analysis, const PlotOptions& o,
+                       const std::string& path) {
   std::string why;
   if (!o.IsValid(&why)) throw InputError(SourceLocation{"plot options"}, why);
   if (r.result.grid.size() == 0)
@@ -20,13 +21,15 @@ PlotGeometry WritePlot(const StoredResult& r, const PlotOptions& o, const std::s
   g.kind = o.kind;
   switch (o.kind) {
     case PlotKind::kPolar:
-      g.polar = DrawPolar(canvas, r, o);
+      g.polar = DrawPolar(canvas, r, analysis, o);
+      if (analysis) g.labels = CutLabels(*analysis, o.cut);
       break;
     case PlotKind::kCartesian:
-      g.cartesian = DrawCartesian(canvas, r, o);
+      g.cartesian = DrawCartesian(canvas, r, analysis, o);
+      if (analysis) g.labels = CutLabels(*analysis, o.cut);
       break;
     case PlotKind::kMap:
-      g.map = DrawMap(canvas, r, o);
+      g.map = DrawMap(canvas, r, analysis, o);
       break;
     case PlotKind::kPolarization:
       g.map = DrawPolarizationMap(canvas, r, o);
@@ -36,22 +39,28 @@ PlotGeometry WritePlot(const StoredResult& r, const PlotOptions& o, const std::s
   return g;
 }
 
-std::vector<std::string> WriteStandardPlots(const StoredResult& r, const std::string& dir,
-                                            const std::string& stem,
+std::vector<std::string> WriteStandardPlots(const StoredResult& r, const PatternAnalysis* analysis,
+                                            const std::string& dir, const std::string& stem,
                                             std::vector<std::string>* skipped) {
   std::error_code ec;
   std::filesystem::create_directories(dir, ec);
   if (ec) throw IoError(dir, "cannot create the plot folder: " + ec.message());
   std::vector<std::string> written;
-  for (double phi : {0.0, 90.0}) {
+  std::vector<CutSpec> cuts(2);
+  if (analysis) {
+    cuts[0].plane = CutPlane::kElevation;
+    cuts[1].plane = CutPlane::kOrthogonal;
+  } else {
+    cuts[1].value_deg = 90.0;  // phi = 0 and 90 deg grid cuts
+  }
+  for (const CutSpec& cut : cuts) {
     PlotOptions o;
     o.kind = PlotKind::kPolar;
-    o.cut.plane = CutPlane::kPhiConstant;
-    o.cut.value_deg = phi;
+    o.cut = cut;
     const std::string path =
         (std::filesystem::path(dir) / (stem + "-polar-" + o.cut.ShortName() + ".png")).string();
     try {
-      WritePlot(r, o, path);
+      WritePlot(r, analysis, o, path);
       written.push_back(path);
     } catch (const InputError& e) {
       if (!skipped) throw;
@@ -61,7 +70,7 @@ std::vector<std::string> WriteStandardPlots(const StoredResult& r, const std::st
   PlotOptions o;
   o.kind = PlotKind::kMap;
   const std::string path = (std::filesystem::path(dir) / (stem + "-map.png")).string();
-  WritePlot(r, o, path);
+  WritePlot(r, analysis, o, path);
   written.push_back(path);
   return written;
 }

@@ -57,10 +57,16 @@ std::optional<ReferenceChoice> ReferenceChoiceFromString(std::string_view s) {
 
 double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, PolarizationReference ref) {
   const PatternResult& p = r.result;
-  const double d = p.directivity[static_cast<Eigen::Index>(k)];
+  const std::size_t np = p.grid.phi_deg.size();
+  return QuantityOf(p.directivity[static_cast<Eigen::Index>(k)],
+                    p.field.e_theta[static_cast<Eigen::Index>(k)],
+                    p.field.e_phi[static_cast<Eigen::Index>(k)],
+                    p.grid.phi_deg[k % np] * kPi / 180.0, q, ref, p.field_floor_v);
+}
+
+double QuantityOf(double d, Complex et, Complex ep, double phi_rad, Quantity q,
+                  PolarizationReference ref, double floor_v) {
   if (q == Quantity::kDirectivity) return d;
-  const Complex et = p.field.e_theta[static_cast<Eigen::Index>(k)];
-  const Complex ep = p.field.e_phi[static_cast<Eigen::Index>(k)];
   const double total = std::norm(et) + std::norm(ep);
   if (!(total > 0)) return 0.0;
   double part = 0;
@@ -69,9 +75,7 @@ double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, Polarization
   } else if (q == Quantity::kPhi) {
     part = std::norm(ep);
   } else {
-    const std::size_t np = p.grid.phi_deg.size();
-    const double phi_rad = p.grid.phi_deg[k % np] * kPi / 180.0;
-    const CoCross cc = CoCrossOf(et, ep, phi_rad, ref, p.field_floor_v);  // floored parts
+    const CoCross cc = CoCrossOf(et, ep, phi_rad, ref, floor_v);  // floored parts
     part = std::norm(q == Quantity::kCo ? cc.co : cc.cross);
   }
   return d * part / total;
@@ -101,6 +105,12 @@ std::string QuantityLabel(Quantity q, PolarizationReference ref) {
       break;
     case PolarizationReference::kLeftCircular:
       ref_text = "LHCP reference";
+      break;
+    case PolarizationReference::kTheta:
+      ref_text = "theta_hat reference";
+      break;
+    case PolarizationReference::kPhi:
+      ref_text = "phi_hat reference";
       break;
   }
   switch (q) {

@@ -32,11 +32,10 @@ struct ReferenceChoice {
   bool automatic = true;
   PolarizationReference fixed = PolarizationReference::kLinearX;
 };
-// "auto", "x", "y", "rhcp", "lhcp" (case-insensitive).
+// "auto", "x", "y", "rhcp", "lhcp", "theta", "phi" (case-insensitive).
 std::optional<ReferenceChoice> ReferenceChoiceFromString(std::string_view s);
 
-// auto: of x, y, rhcp and lhcp, the reference whose co component is largest at
-// the grid's directivity peak (ties go in that order).
+// auto: AutoReference (engine/analysis/pattern_analysis.h).
 PolarizationReference ResolveReference(const StoredResult& r, const ReferenceChoice& choice);
 
 // Human-readable label, e.g. "co-pol (Ludwig-3, x reference)", "E_theta part".
@@ -44,6 +43,10 @@ std::string QuantityLabel(Quantity q, PolarizationReference ref);
 
 // The quantity at flattened grid index k (theta-major), linear.
 double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, PolarizationReference ref);
+// The same from a direction's field (V), directivity and phi (rad); co and cross parts
+// below floor_v (PatternResult::field_floor_v) are exact zeros.
+double QuantityOf(double directivity, Complex e_theta, Complex e_phi, double phi_rad, Quantity q,
+                  PolarizationReference ref, double floor_v);
 // The quantity over the whole grid, linear, theta-major.
 std::vector<double> QuantityOnGrid(const StoredResult& r, Quantity q, PolarizationReference ref);
 

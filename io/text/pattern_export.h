@@ -1,9 +1,17 @@
 // Plain-text tables of pattern samples for spreadsheets and scripts: CSV or TSV,
-// optional '#' note lines first, then one header row, then one row per direction,
-// every row with the same number of columns. Numbers are the shortest decimal that
-// reads back to the same double (io/text/number_text.h), '.' as the decimal point
-// whatever the locale; "-inf" stands for the dB value of a zero, "nan" for an
-// undefined axial ratio or tilt (no field).
+// one header row, then one row per direction, every row with the same number of
+// columns. The notes (source, coordinates, reference, safety) go either into a last
+// `notes` column, one note per row from the first (the rest of the column empty; a
+// table shorter than its notes joins the remainder into its last row): a
+// rectangular table that spreadsheets, Python's csv module and pandas open as is;
+// or as '#' lines before the header, for readers that skip comments (numpy,
+// gnuplot); or not at all. Cells holding the separator or a quote are quoted as in
+// RFC 4180. Numbers never depend on the locale: '.' as the decimal mark, or ','
+// with `decimal_comma` (then CSV cells are separated by ';', the convention of
+// locales that write a decimal comma). Precision: kFull writes the shortest
+// decimal that reads back to the same double (io/text/number_text.h); kDisplay
+// rounds angles and dB values to 0.001 and fields to 6 significant digits. "-inf"
+// stands for the dB value of a zero, "nan" for an undefined axial ratio or tilt.
 //
 // Columns (units in the names):
 //   cut_angle_deg            phi and great-circle cuts only (io/text/export_samples.h)
@@ -29,12 +37,16 @@
 namespace lobecast {
 
 enum class ExportFormat { kCsv, kTsv };
+enum class ExportPrecision { kDisplay, kFull };
+enum class NotesStyle { kColumn, kComments };
 enum class ExportCoordinates { kThetaPhi, kAzimuthElevation };
 std::string_view ToString(ExportFormat f);       // "csv", "tsv"
 std::string_view ToString(ExportCoordinates c);  // "theta-phi", "az-el"
 // Case-insensitive; std::nullopt for an unknown name.
 std::optional<ExportFormat> ExportFormatFromString(std::string_view s);
 std::optional<ExportCoordinates> ExportCoordinatesFromString(std::string_view s);
+std::string_view ToString(ExportPrecision p);  // "display", "full"
+std::optional<ExportPrecision> ExportPrecisionFromString(std::string_view s);
 
 // One line defining the coordinates, for the notes: theta from +z and phi from +x
 // toward +y; or azimuth = phi (from +x toward +y in the xy plane) and elevation =
@@ -51,9 +63,15 @@ struct PatternTableOptions {
   // The numerical floor (PatternResult::field_floor_v): co and cross parts below it are
   // exact zeros (-inf dBi).
   double field_floor_v = 0.0;
-  // Written first, each as "# " + note (notes must not contain newlines).
+  // Notes without newlines, placed as notes_style says.
   std::vector<std::string> notes;
+  NotesStyle notes_style = NotesStyle::kComments;
+  ExportPrecision precision = ExportPrecision::kFull;
+  bool decimal_comma = false;
 };
+
+// The cell separator: '\t' for TSV, ';' for CSV with a decimal comma, else ','.
+char Separator(const PatternTableOptions& options);
 
 // The header row's column names, in order.
 std::vector<std::string> PatternTableColumns(const PatternTableOptions& options);

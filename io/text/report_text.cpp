@@ -57,9 +57,91 @@ std::string FirstNull(const BeamCut& c) {
 
 constexpr double kSphereSr = 4.0 * kPi;
 
-void Row(std::ostringstream& s, const char* label, const std::string& value) {
-  s << Printf("  %-30s ", label) << value << "\n";
+// "elevation plane", "orthogonal plane", "E-plane", "H-plane", "xz plane", "yz plane":
+// which plane a cut runs in (analysis_types.h).
+std::string PlaneName(const BeamCut& c) {
+  switch (c.plane) {
+    case CutPlane::kElevation:
+      return "elevation plane";
+    case CutPlane::kOrthogonal:
+      return "orthogonal plane";
+    case CutPlane::kE:
+      return "E-plane";
+    case CutPlane::kH:
+      return "H-plane";
+    case CutPlane::kXZ:
+      return "xz plane";
+    case CutPlane::kYZ:
+      return "yz plane";
+  }
+  return "?";
 }
+
+// "E-plane, phi 0.0000 deg": the plane and, when it contains the z axis, its phi.
+std::string PlaneWithPhi(const BeamCut& c) {
+  return std::isnan(c.plane_phi_deg) ? PlaneName(c)
+                                     : PlaneName(c) + ", phi " + Angle(c.plane_phi_deg) + " deg";
+}
+
+// The F/B value and its direction, or why it is undefined.
+std::string FrontToBackText(double ratio_db, const DirectionDeg& d) {
+  if (std::isnan(ratio_db)) return "undefined (peak on the z axis: no direction behind it)";
+  return DbBelowRounding(ratio_db, "dB", "back field zero or") + " toward " + Direction(d);
+}
+
+void Row(std::ostringstream& s, const std::string& label, const std::string& value) {
+  s << Printf("  %-30s ", label.c_str()) << value << "\n";
+}
+
+// A null's depth: "exact" for a zero (its depth is rounding, not physics), else dB.
+std::string Depth(bool exact, double level_db) { return exact ? "exact" : Db(level_db) + " dB"; }
+
+// "12.5 .. 80.25" for a locus' theta or phi extent (phi min > max: through phi = 0).
+std::string Range(double lo, double hi) { return Angle(lo) + " .. " + Angle(hi); }
+
+}  // namespace
+
+std::string NullLociText(const PatternAnalysis& a, const AnalysisOptions& o) {
+  std::ostringstream s;
+  s << "\nNull loci (" << ToString(o.null_field) << " field below " << Db(o.null_threshold_db)
+    << " dB re peak; exact = a zero, the field below rounding)\n";
+  s << "  " << a.null_loci.size() << (a.null_loci.size() == 1 ? " locus" : " loci")
+    << (a.null_loci_truncated ? ", list truncated (--max-nulls)" : "") << "\n";
+  for (std::size_t i = 0; i < a.null_loci.size(); ++i) {
+    const NullLocus& n = a.null_loci[i];
+    if (n.cone) {
+      s << Printf("  %5zu  cone about (theta %s, phi %s) deg, half-angle %s deg, %s\n", i,
+                  Angle(n.axis.theta_deg).c_str(), Angle(n.axis.phi_deg).c_str(),
+                  Printf("%.6f", n.half_angle_deg).c_str(), Depth(n.exact, n.level_db).c_str());
+    } else if (n.point) {
+      s << Printf("  %5zu  point at %s, %s\n", i, Direction(n.direction).c_str(),
+                  Depth(n.exact, n.level_db).c_str());
+    } else {
+      s << Printf("  %5zu  curve, deepest at %s, %s\n", i, Direction(n.direction).c_str(),
+                  Depth(n.exact, n.level_db).c_str());
+    }
+    if (!n.point) {
+      s << Printf("         theta %s deg, phi %s deg%s\n",
+                  Range(n.theta_min_deg, n.theta_max_deg).c_str(),
+                  Range(n.phi_min_deg, n.phi_max_deg).c_str(),
+                  n.phi_min_deg > n.phi_max_deg ? " (through phi = 0)" : "");
+    }
+  }
+  if (!a.null_crossings.empty()) {
+    s << "  where they cross the principal planes (offset from the peak):\n";
+    s << "      plane          offset (deg)   theta (deg)     phi (deg)         depth  locus\n";
+    for (const NullCrossing& c : a.null_crossings) {
+      s << Printf("      %-11s  %12s  %12s  %12s  %12s  %5s\n",
+                  c.orthogonal_plane ? "orthogonal" : "elevation",
+                  Printf("%.6f", c.offset_deg).c_str(), Angle(c.direction.theta_deg).c_str(),
+                  Angle(c.direction.phi_deg).c_str(), Depth(c.exact, c.level_db).c_str(),
+                  c.locus >= 0 ? Printf("%.0f", c.locus).c_str() : "-");
+    }
+  }
+  return s.str();
+}
+
+namespace {
 
 // The schema's visitor that writes the report's JSON: objects for groups and
 // directions, arrays of objects for lists, null for a missing optional.
@@ -87,6 +169,7 @@ class JsonVisitor {
   }
   void Value(const schema::Field& f, PolarizationReference v) { j_.Member(f.name, ToString(v)); }
   void Value(const schema::Field& f, NullField v) { j_.Member(f.name, ToString(v)); }
+  void Value(const schema::Field& f, CutPlane v) { j_.Member(f.name, ToString(v)); }
 
   template <typename Body>
   void Object(const schema::ObjectSpec& o, Body&& body) {
@@ -131,8 +214,9 @@ std::string AnalysisBrief(const PatternAnalysis& a) {
     return c.half_power_found ? Angle(c.half_power_width_deg) + " deg" : std::string("none");
   };
   s << "beam         D = " << Db(a.peak.directivity_dbi) << " dBi at "
-    << Direction(a.peak.direction) << " (refined); HPBW " << width(a.elevation_cut)
-    << " (elevation plane), " << width(a.orthogonal_cut) << " (orthogonal plane)\n";
+    << Direction(a.peak.direction) << " (refined); HPBW " << width(a.elevation_cut) << " ("
+    << PlaneWithPhi(a.elevation_cut) << "), " << width(a.orthogonal_cut) << " ("
+    << PlaneWithPhi(a.orthogonal_cut) << ")\n";
   if (a.highest_side_lobe) {
     s << "side lobe    highest " << Db(a.highest_side_lobe->level_db) << " dB re peak at "
       << Direction(a.highest_side_lobe->direction) << "\n";
@@ -155,14 +239,30 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
     << (c.recomputed ? "recomputed now from the stored array and field"
                      : "stored by compute in /summary/analysis")
     << Printf("; %zu exact field evaluations, %.3f s\n", a.field_evaluations, a.seconds);
-  s << "\nAngles in deg; levels in dB relative to the peak directivity unless marked dBi.\n"
-       "Elevation plane: the great circle through the peak and the z axis (constant phi).\n"
-       "Orthogonal plane: the great circle through the peak perpendicular to it.\n"
-       "Offsets: signed angles from the peak along a plane, + toward theta_hat (elevation)\n"
-       "or phi_hat (orthogonal). HPBW between the half-power points, FNBW between the first\n"
-       "minima beyond them; F/B = peak over the exactly opposite direction. On the z axis\n"
-       "phi is undefined. A field below the numerical floor is rounding, an exact zero:\n"
-       "-inf dB, and a ratio against it +-inf.\n";
+  s << "\nAngles in deg; levels in dB relative to the peak directivity unless marked dBi.\n";
+  if (a.elevation_cut.plane == CutPlane::kElevation) {
+    s << "Elevation plane: the great circle through the peak and the z axis (constant phi).\n"
+         "Orthogonal plane: the great circle through the peak perpendicular to it.\n"
+         "Offsets: signed angles from the peak along a plane, + toward theta_hat (elevation)\n"
+         "or phi_hat (orthogonal).";
+  } else {
+    s << (a.elevation_cut.plane == CutPlane::kE
+              ? "Peak on the z axis (its phi is arbitrary): the planes are the E-plane (through\n"
+                "the major axis of the field at the peak) and the H-plane perpendicular to it.\n"
+              : "Peak on the z axis (its phi is arbitrary) with a near-circular field (axial\n"
+                "ratio below " +
+                    Db(kEPlaneMinAxialRatioDb) +
+                    " dB): the planes are xz (phi 0) and yz (phi 90).\n")
+      << "Offsets: signed angles from the peak along a plane, + toward the plane's phi.";
+  }
+  s << (a.elevation_cut.plane == CutPlane::kElevation ? " " : "\n")
+    << "HPBW between the half-power points, FNBW between the first\nminima beyond them; "
+    << (c.ground == Ground::kPec
+            ? "F/B = peak over the direction behind it at the same theta\n(phi + 180): the "
+              "opposite direction is below the ground plane, where there is no field.\n"
+            : "F/B = peak over the exactly opposite direction.\n");
+  s << "On the z axis phi is undefined. A field below the numerical floor is rounding, an\n"
+       "exact zero: -inf dB, and a ratio against it +-inf.\n";
   s << Printf("floor   %.3g V: 1e-13 of (w mu0 / 4 pi) sum |I Le| over the sources\n",
               c.field_floor_v);
   const std::string digits = PowerDigitsNote(c.power_significant_digits);
@@ -174,16 +274,22 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
           Direction(a.peak.direction) + (a.peak.refined ? "" : " (search did not converge)"));
   Row(s, "grid maximum (dBi)",
       Db(ToDb(a.peak.grid_directivity)) + " dBi at " + Direction(a.peak.grid_direction));
-  Row(s, "HPBW elevation plane (deg)", HalfPower(a.elevation_cut));
-  Row(s, "HPBW orthogonal plane (deg)", HalfPower(a.orthogonal_cut));
-  Row(s, "FNBW elevation plane (deg)", FirstNull(a.elevation_cut));
-  Row(s, "FNBW orthogonal plane (deg)", FirstNull(a.orthogonal_cut));
+  for (const BeamCut* cut : {&a.elevation_cut, &a.orthogonal_cut})
+    Row(s, "HPBW " + PlaneName(*cut) + " (deg)", HalfPower(*cut));
+  for (const BeamCut* cut : {&a.elevation_cut, &a.orthogonal_cut})
+    Row(s, "FNBW " + PlaneName(*cut) + " (deg)", FirstNull(*cut));
+  for (const BeamCut* cut : {&a.elevation_cut, &a.orthogonal_cut}) {
+    if (!std::isnan(cut->plane_phi_deg))
+      Row(s, PlaneName(*cut) + " (deg)", "phi " + Angle(cut->plane_phi_deg) + " deg");
+  }
   Row(s, "front-to-back (dB)",
-      DbBelowRounding(a.front_to_back.ratio_db, "dB", "back field zero or") + " toward " +
-          Direction(a.front_to_back.back_direction));
-  Row(s, "F/B at the same theta (dB)",
-      DbBelowRounding(a.front_to_back.same_elevation_ratio_db, "dB", "back field zero or") +
-          " toward " + Direction(a.front_to_back.same_elevation_back_direction));
+      FrontToBackText(a.front_to_back.ratio_db, a.front_to_back.back_direction));
+  // Over ground F/B is already taken behind the peak at the same theta.
+  if (c.ground != Ground::kPec) {
+    Row(s, "F/B at the same theta (dB)",
+        FrontToBackText(a.front_to_back.same_elevation_ratio_db,
+                        a.front_to_back.same_elevation_back_direction));
+  }
   for (const Lobe& l : a.major_lobes) {
     Row(s, "another major lobe (dB)",
         Db(l.level_db) + " dB (" + Db(l.directivity_dbi) + " dBi) at " + Direction(l.direction));
@@ -210,19 +316,7 @@ std::string ReportText(const ReportContext& c, const PatternAnalysis& a, const A
     }
   }
 
-  s << "\nNulls (" << ToString(o.null_field) << " field below " << Db(o.null_threshold_db)
-    << " dB re peak; depth -inf = exact null, the field below rounding)\n";
-  s << "  " << a.nulls.size() << " null" << (a.nulls.size() == 1 ? "" : "s")
-    << (a.nulls_truncated ? " (list truncated)" : "") << "\n";
-  if (!a.nulls.empty()) {
-    s << "      #   theta (deg)     phi (deg)   depth (dB)\n";
-    for (std::size_t i = 0; i < a.nulls.size(); ++i) {
-      const Null& n = a.nulls[i];
-      s << Printf("  %5zu  %12s  %12s  %11s%s\n", i, Angle(n.direction.theta_deg).c_str(),
-                  Angle(n.direction.phi_deg).c_str(), Db(n.level_db).c_str(),
-                  n.exact ? "  exact" : "");
-    }
-  }
+  s << NullLociText(a, o);
 
   if (!a.protected_directions.empty()) {
     s << "\nProtected directions (exact field; co/cross for reference "

@@ -44,6 +44,9 @@ std::string AnalysisBrief(const PatternAnalysis& analysis);
 std::string ReportText(const ReportContext& context, const PatternAnalysis& analysis,
                        const AnalysisOptions& options);
 
+// The null loci and their principal-plane crossings (part of ReportText).
+std::string NullLociText(const PatternAnalysis& analysis, const AnalysisOptions& options);
+
 // One JSON object; infinities are the strings "inf" and "-inf" (an infinite F/B or
 // XPD, an exact null's depth), an undefined number (a phi on the z axis, the tilt of
 // a circular field) is null: README "JSON numbers".

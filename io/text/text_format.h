@@ -17,7 +17,7 @@ inline std::string Printf(const char* fmt, auto... args) {
   return buf;
 }
 
-// "x (Ludwig-3)", "y (Ludwig-3)", "RHCP", "LHCP".
+// "x (Ludwig-3)", "y (Ludwig-3)", "RHCP", "LHCP", "theta_hat", "phi_hat".
 inline std::string ReferenceName(PolarizationReference r) {
   switch (r) {
     case PolarizationReference::kLinearX:
@@ -28,6 +28,10 @@ inline std::string ReferenceName(PolarizationReference r) {
       return "RHCP";
     case PolarizationReference::kLeftCircular:
       return "LHCP";
+    case PolarizationReference::kTheta:
+      return "theta_hat (co E_theta)";
+    case PolarizationReference::kPhi:
+      return "phi_hat (co E_phi)";
   }
   return "?";
 }

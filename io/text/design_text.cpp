@@ -1,0 +1,238 @@
+#include "io/text/design_text.h"
+
+#include <cmath>
+#include <complex>
+
+#include "engine/constants.h"
+#include "engine/decibels.h"
+#include "io/text/number_text.h"
+#include "io/text/text_format.h"
+#include "io/version.h"
+
+namespace lobecast::text {
+namespace {
+
+std::string Num(double v) {
+  std::string s;
+  AppendShortest(s, v);
+  return s;
+}
+
+// A TOML basic string's content.
+std::string Escaped(const std::string& in) {
+  std::string out;
+  for (char ch : in) {
+    if (ch == '"' || ch == '\\') out += '\\';
+    if (ch == '\n') {
+      out += "\\n";
+      continue;
+    }
+    out += ch;
+  }
+  return out;
+}
+
+std::string Vec(const Vec3& v) {
+  std::string s = "[";
+  AppendShortest(s, v.x());
+  s += ", ";
+  AppendShortest(s, v.y());
+  s += ", ";
+  AppendShortest(s, v.z());
+  s += "]";
+  return s;
+}
+
+// Magnitude (A peak) and phase (deg) of dipole i: the design's own values where they
+// still give the current exactly, so the file reads back to the same bits.
+std::pair<double, double> PolarOf(const ArrayDescription& desc, std::size_t i) {
+  const Complex c = desc.currents[static_cast<Eigen::Index>(i)];
+  if (desc.design && i >= desc.design->first_generated &&
+      i - desc.design->first_generated < desc.design->polar_currents.size()) {
+    const auto p = desc.design->polar_currents[i - desc.design->first_generated];
+    if (std::polar(p.first, p.second * kDegree) == c) return p;
+  }
+  return {std::abs(c), std::arg(c) / kDegree};
+}
+
+std::string LatticeLine(const DesignInfo& d, double lambda) {
+  const LatticeSpec& l = d.lattice;
+  std::string s = "lattice      " + std::string(ToString(l.kind)) + ", ";
+  switch (l.kind) {
+    case LatticeKind::kLine:
+      s += Printf("%d elements, spacing %.6g m (%.4g wavelength)", l.count_x, l.spacing_x_m,
+                  l.spacing_x_m / lambda);
+      break;
+    case LatticeKind::kRectangular:
+    case LatticeKind::kTriangular:
+      s += Printf("%d x %d elements, spacing %.6g x %.6g m (%.4g x %.4g wavelength)", l.count_x,
+                  l.count_y, l.spacing_x_m, l.spacing_y_m, l.spacing_x_m / lambda,
+                  l.spacing_y_m / lambda);
+      break;
+    case LatticeKind::kRing:
+      for (std::size_t r = 0; r < l.ring_counts.size(); ++r)
+        s += Printf("%s%d at radius %.6g m (%.4g wavelength)", r ? ", " : "", l.ring_counts[r],
+                    l.ring_radii_m[r], l.ring_radii_m[r] / lambda);
+      break;
+  }
+  s += Printf("; %zu generated", d.generated);
+  if (d.generated != d.lattice_size) s += Printf(" (%zu removed)", d.lattice_size - d.generated);
+  return s + "\n";
+}
+
+std::string TaperLine(const DesignInfo& d) {
+  const TaperSpec& t = d.taper;
+  std::string s = "taper        " + std::string(ToString(t.kind));
+  switch (t.kind) {
+    case TaperKind::kChebyshev:
+      s += Printf(", side lobes %.6g dB", t.sidelobe_db);
+      break;
+    case TaperKind::kTaylor:
+    case TaperKind::kCircularTaylor:
+      s += Printf(", side lobes %.6g dB, nbar %d", t.sidelobe_db, t.nbar);
+      break;
+    case TaperKind::kCosine:
+      s += Printf(", pedestal %.6g dB", t.pedestal_db);
+      break;
+    default:
+      break;
+  }
+  if (t.kind != TaperKind::kUniform && t.kind != TaperKind::kBinomial &&
+      t.kind != TaperKind::kCosine && t.kind != TaperKind::kChebyshev)
+    s += " (the design level; a sampled Taylor taper meets it only approximately)";
+  s += Printf("; peak current %.6g A\n", d.peak_current_a);
+  s += Printf("efficiency   %.6f (%.3f dB): |sum a|^2 / (N sum a^2)\n", d.taper_efficiency,
+              ToDb(d.taper_efficiency));
+  return s;
+}
+
+}  // namespace
+
+std::string DescribeDesign(const ArrayDescription& desc) {
+  if (!desc.design) return "";
+  const DesignInfo& d = *desc.design;
+  std::string s = LatticeLine(d, desc.array.wavelength_m());
+  if (d.first_generated + d.generated < desc.array.size())
+    s += Printf("explicit     %zu dipole%s as written (neither tapered nor steered)\n",
+                desc.array.size() - d.generated, desc.array.size() - d.generated == 1 ? "" : "s");
+  s += TaperLine(d);
+  if (d.steering) {
+    s += Printf("steering     theta %.6g deg, phi %.6g deg, %s", d.steer_theta_deg, d.steer_phi_deg,
+                d.steering->mode == SteeringMode::kPhase
+                    ? "phase (exact at the design frequency; the beam squints off it)"
+                    : "true time delay (no squint over frequency)");
+    s += "\n";
+  } else {
+    s += "steering     none (broadside)\n";
+  }
+  if (d.grating_lobes.empty()) {
+    s += "grating      none in visible space at the beam direction\n";
+  } else {
+    for (const GratingLobe& g : d.grating_lobes)
+      s += Printf(
+          "grating      WARNING: a lobe as strong as the main beam at theta %.4g deg, phi %.4g "
+          "deg\n",
+          g.theta_rad / kDegree, g.phi_rad / kDegree);
+  }
+  for (const std::string& n : d.notes) s += n + "\n";
+  return s;
+}
+
+bool WritesCsv(const ArrayDescription& desc) {
+  if (desc.array.size() <= kCsvThreshold) return false;
+  for (const Port& p : desc.ports)
+    if (p.kind != PortKind::kCurrent) return false;
+  return true;
+}
+
+ArrayFileText ArrayFile(const ArrayDescription& desc, const std::string& csv_name) {
+  ArrayFileText out;
+  std::string& t = out.toml;
+  t += "# Explicit array description written by lobecast " + std::string(SoftwareVersion()) +
+       " synth from the design\n# " + desc.source_path +
+       "; edit freely. Lengths in metres, currents A peak and degrees.\n#\n";
+  std::string summary = DescribeDesign(desc);
+  std::size_t start = 0;
+  while (start < summary.size()) {
+    const std::size_t end = summary.find('\n', start);
+    t += "# " + summary.substr(start, end - start) + "\n";
+    start = end + 1;
+  }
+  if (desc.design && desc.design->steering && desc.design->steering->mode == SteeringMode::kDelay)
+    t += "# The phases below are the true-time-delay steering at the design frequency.\n";
+  t += "\n";
+  if (!desc.name.empty()) t += "name = \"" + Escaped(desc.name) + "\"\n";
+  if (!desc.description.empty()) t += "description = \"" + Escaped(desc.description) + "\"\n";
+  t += "frequency = " + Num(desc.array.frequency_hz) + "   # Hz\n";
+  t += "ground = \"" + std::string(ToString(desc.array.ground)) + "\"\n";
+  t += "length_unit = \"m\"\n";
+  if (desc.reference_impedance_ohm != 50)
+    t += "reference_impedance = " + Num(desc.reference_impedance_ohm) + "\n";
+  const bool csv = !csv_name.empty() && WritesCsv(desc);
+  if (csv)
+    t += "dipoles_csv = \"" + csv_name + "\"   # " + std::to_string(desc.array.size()) +
+         " dipoles\n";
+  auto range = [](const AngleRange& r) {
+    return "{ start = " + Num(r.start_deg) + ", stop = " + Num(r.stop_deg) +
+           ", step = " + Num(r.step_deg) + " }";
+  };
+  t += "\n[grid]\ntheta = " + range(desc.theta) + "\nphi = " + range(desc.phi) + "\n";
+
+  bool any_radius = false, any_x = false, any_sigma = false;
+  for (const Wire& w : desc.wires) {
+    any_radius = any_radius || w.radius_m > 0;
+    any_x = any_x || !std::isnan(w.reactance_ohm);
+    any_sigma = any_sigma || w.conductivity_s_m > 0;
+  }
+  if (csv) {
+    std::string& c = out.csv;
+    c += "# Dipoles of " + desc.source_path + " (lobecast synth): metres, A peak, degrees\n";
+    c += "x, y, z, ux, uy, uz, length, magnitude, phase, distribution";
+    if (any_radius) c += ", radius";
+    if (any_x) c += ", self_reactance";
+    if (any_sigma) c += ", conductivity";
+    c += "\n";
+    for (std::size_t i = 0; i < desc.array.size(); ++i) {
+      const Dipole& d = desc.array.dipoles[i];
+      const auto [mag, ph] = PolarOf(desc, i);
+      c += Num(d.position_m.x()) + ", " + Num(d.position_m.y()) + ", " + Num(d.position_m.z()) +
+           ", " + Num(d.orientation.x()) + ", " + Num(d.orientation.y()) + ", " +
+           Num(d.orientation.z()) + ", " + Num(d.length_m) + ", " + Num(mag) + ", " + Num(ph) +
+           ", " + std::string(ToString(d.distribution));
+      const Wire& w = desc.wires[i];
+      if (any_radius) c += ", " + (w.radius_m > 0 ? Num(w.radius_m) : "");
+      if (any_x) c += ", " + (std::isnan(w.reactance_ohm) ? "" : Num(w.reactance_ohm));
+      if (any_sigma) c += ", " + (w.conductivity_s_m > 0 ? Num(w.conductivity_s_m) : "");
+      c += "\n";
+    }
+    return out;
+  }
+  for (std::size_t i = 0; i < desc.array.size(); ++i) {
+    const Dipole& d = desc.array.dipoles[i];
+    t += "\n[[dipole]]   # " + std::to_string(i) + "\n";
+    t += "position = " + Vec(d.position_m) + "\n";
+    t += "orientation = " + Vec(d.orientation) + "\n";
+    t += "length = " + Num(d.length_m) + "\n";
+    t += "distribution = \"" + std::string(ToString(d.distribution)) + "\"\n";
+    const Wire& w = desc.wires[i];
+    if (w.radius_m > 0) t += "radius = " + Num(w.radius_m) + "\n";
+    if (!std::isnan(w.reactance_ohm)) t += "self_reactance = " + Num(w.reactance_ohm) + "\n";
+    if (w.conductivity_s_m > 0) t += "conductivity = " + Num(w.conductivity_s_m) + "\n";
+    const Port& p = desc.ports[i];
+    if (p.kind == PortKind::kCurrent) {
+      const auto [mag, ph] = PolarOf(desc, i);
+      t += "current = { magnitude = " + Num(mag) + ", phase = " + Num(ph) + " }\n";
+    } else if (p.kind == PortKind::kDrive) {
+      t += "drive = { voltage = " + Num(std::abs(p.voltage_v)) +
+           ", phase = " + Num(std::arg(p.voltage_v) / kDegree) +
+           ", resistance = " + Num(p.impedance_ohm.real()) +
+           ", reactance = " + Num(p.impedance_ohm.imag()) + " }\n";
+    } else {
+      t += "load = { resistance = " + Num(p.impedance_ohm.real()) +
+           ", reactance = " + Num(p.impedance_ohm.imag()) + " }\n";
+    }
+  }
+  return out;
+}
+
+}  // namespace lobecast::text
