@@ -139,6 +139,31 @@ def scan_json(b, node, path=""):
             scan_json(b, v, f"{path}[{i}]")
 
 
+def check_loci_and_planes(b, d):
+    """The null loci, their plane crossings and the principal planes in the JSON: a
+    depth is exact exactly when the null field is below the floor, written as
+    directivity 0 and level "-inf"; any other depth is a finite level above the floor
+    (scan_json bounds it); the elevation plane of an off-axis peak is the peak's phi."""
+    for key in ("null_loci", "null_crossings"):
+        check(isinstance(d.get(key), list), f"{b.name}: JSON has no {key} list")
+        for i, n in enumerate(d.get(key) or []):
+            where = f"{b.name}: JSON {key}[{i}]"
+            if n["exact"]:
+                check(n["directivity"] == 0 and n["level_db"] == "-inf",
+                      f"{where} exact with directivity {n['directivity']}, level {n['level_db']}")
+            else:
+                check(isinstance(n["level_db"], (int, float)) and n["directivity"] > 0,
+                      f"{where} not exact with level {n['level_db']!r}")
+    pk = d["peak"]["direction"]
+    for key in ("elevation_plane", "orthogonal_plane"):
+        check(key in d, f"{b.name}: JSON has no {key}")
+    ep = d.get("elevation_plane", {})
+    if ep.get("plane") == "elevation":
+        check(ep["plane_phi_deg"] == pk["phi_deg"],
+              f"{b.name}: elevation plane phi {ep['plane_phi_deg']} is not the peak's "
+              f"{pk['phi_deg']}")
+
+
 def infinities(node, out):
     if isinstance(node, dict):
         for v in node.values():
@@ -233,6 +258,9 @@ def main():
             f.write(text)
         inputs.append(path)
 
+    # The design samples (a [lattice] table: dipoles generated) go through every output too.
+    designs = [p for p in inputs if os.path.basename(p).startswith("design-")]
+    check(len(designs) >= 4, f"expected the design samples among the inputs, found {designs}")
     for src in inputs:
         name = os.path.splitext(os.path.basename(src))[0]
         h5 = os.path.join(a.workdir, name + ".h5")
@@ -249,6 +277,7 @@ def main():
                                  "180,0", "--toward", "90,45"])
         d = json.loads(jtext[:jtext.rindex("}") + 1])
         scan_json(b, d)
+        check_loci_and_planes(b, d)
         # Round trip: every "inf"/"-inf" string is an infinity with its sign.
         infs = []
         infinities(d, infs)
