@@ -86,9 +86,10 @@ void AddSynthCommand(CLI::App& app) {
   auto args = std::make_shared<SynthArgs>();
   CLI::App* cmd = app.add_subcommand(
       "synth",
-      "Generate a design file's elements (lattice, element template, taper, steering) and "
-      "write them as an explicit, commented array description; print what was designed "
-      "(taper efficiency, steering, grating lobes). Above " +
+      "Generate a design file's elements and currents (lattice, element template, taper or "
+      "objective, steering, nulls) and write them as an explicit, commented array "
+      "description; print what was designed (taper efficiency, steering, grating lobes, "
+      "null depths, directivity). Above " +
           std::to_string(text::kCsvThreshold) +
           " dipoles the elements go to a CSV table beside it (ARRAY's name with .csv).");
   cmd->add_option("DESIGN", args->input, "Design file (TOML with a [lattice] table)")

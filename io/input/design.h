@@ -11,8 +11,11 @@
 #include <utility>
 #include <vector>
 
+#include "engine/synthesis/envelope.h"
 #include "engine/synthesis/grating_lobes.h"
 #include "engine/synthesis/lattice_generator.h"
+#include "engine/synthesis/max_directivity.h"
+#include "engine/synthesis/null_placement.h"
 #include "engine/synthesis/steering.h"
 #include "engine/synthesis/taper.h"
 #include "io/input_error.h"
@@ -42,12 +45,16 @@ struct MaskRegion {
 struct DesignObjective {
   ObjectiveKind kind = ObjectiveKind::kMaxDirectivity;
   // max-directivity: Tikhonov regularization of the near-singular resistance
-  // matrix, relative to its largest diagonal entry (>= 0; unset: the engine's choice).
+  // matrix, relative to its mean self resistance tr R / N (>= 0; unset: the engine's
+  // choice, MaxDirectivityOptions).
   std::optional<double> regularization;
   // sidelobe-envelope: the highest side lobe allowed re the peak (dB < 0; unset:
   // as low as possible), and mask regions that override it where they apply.
   std::optional<double> sidelobe_db;
   std::vector<MaskRegion> mask;
+  // sidelobe-envelope: the main beam left free, as a multiple of the first-null
+  // radius of the uniform excitation (excitation_synthesis.h); > 0.
+  double main_beam_factor = 1.5;
   SourceLocation where;  // the [objective] table
 };
 
@@ -73,9 +80,16 @@ struct DesignInfo {
   std::vector<GratingLobe> grating_lobes;
 
   std::vector<DesignNull> nulls;
+  // [[null]] method = "phase-only": |I_n| kept, phases free (phase-shifter-only
+  // arrays); otherwise the least-squares change of the complex currents.
+  bool phase_only_nulls = false;
   std::optional<DesignObjective> objective;
-  // Lines the excitation synthesis adds to the design text (achieved depths, D, ...).
-  std::vector<std::string> notes;
+  // What the excitation synthesis achieved (excitation_synthesis.h), for the design
+  // text: one of the objectives' results, and the null placement's.
+  std::optional<MaxDirectivityResult> max_directivity;
+  std::optional<EnvelopeResult> envelope;
+  std::size_t envelope_samples = 0;  // side-lobe directions the LP sampled
+  std::optional<NullResult> null_placement;
 
   SourceLocation lattice_where;  // the [lattice] table
 };

@@ -419,7 +419,7 @@ class DesignReader : private TomlValues {
       const std::string key = "null[" + std::to_string(i) + "]";
       const toml::table* t = a->get(i)->as_table();
       if (!t) throw InputError(At(*a->get(i)), key, Describe(*a->get(i)), "a table ([[null]])");
-      CheckKeys(*t, key, {"theta", "phi"});
+      CheckKeys(*t, key, {"theta", "phi", "method"});
       DesignNull d;
       d.where = At(*t);
       d.theta_deg = Angle(Require(*t, key, "theta", "<deg>"), Join(key, "theta"), 180);
@@ -429,12 +429,25 @@ class DesignReader : private TomlValues {
                          "theta <= 90 with ground = \"pec\" (below the plane the field is zero "
                          "already)");
       }
+      bool phase_only = false;
+      if (const toml::node* m = t->get("method")) {
+        const std::string method = String(*m, Join(key, "method"));
+        if (method != "least-squares" && method != "phase-only")
+          throw InputError(At(*m), Join(key, "method"), Quoted(method),
+                           "\"least-squares\" (default) or \"phase-only\"");
+        phase_only = method == "phase-only";
+      }
+      if (i > 0 && phase_only != info.phase_only_nulls)
+        throw InputError(At(*t), Join(key, "method"), "a method unlike null[0]'s",
+                         "one method for every [[null]] (they are placed together)");
+      info.phase_only_nulls = phase_only;
       info.nulls.push_back(d);
     }
   }
 
   void ReadObjective(const toml::table& t, DesignInfo& info) {
-    CheckKeys(t, "objective", {"kind", "regularization", "sidelobe_db", "mask"});
+    CheckKeys(t, "objective",
+              {"kind", "regularization", "sidelobe_db", "mask", "main_beam_factor"});
     DesignObjective o;
     o.where = At(t);
     const toml::node& kind_node = Require(t, "objective", "kind", "\"max-directivity\"");
@@ -448,6 +461,7 @@ class DesignReader : private TomlValues {
     if (o.kind == ObjectiveKind::kMaxDirectivity) {
       Forbid(t, "objective", "sidelobe_db", with);
       Forbid(t, "objective", "mask", with);
+      Forbid(t, "objective", "main_beam_factor", with);
       if (const toml::node* v = t.get("regularization")) {
         const double r = Number(*v, "objective.regularization", "a number >= 0");
         if (!(r >= 0 && r < 1))
@@ -457,6 +471,14 @@ class DesignReader : private TomlValues {
       }
     } else {
       Forbid(t, "objective", "regularization", with);
+      if (const toml::node* v = t.get("main_beam_factor")) {
+        const double f = Number(*v, "objective.main_beam_factor", "a number > 0");
+        if (!(f > 0 && f <= 10))
+          throw InputError(At(*v), "objective.main_beam_factor", FormatNumber(f),
+                           "a number in (0, 10]: the free main beam in first-null radii of "
+                           "the uniform excitation");
+        o.main_beam_factor = f;
+      }
       if (const toml::node* v = t.get("sidelobe_db"))
         o.sidelobe_db = NegativeDb(*v, "objective.sidelobe_db");
       if (const toml::node* m = t.get("mask")) {

@@ -9,9 +9,9 @@
 namespace lobecast {
 
 // Changes desc.currents (and the generated ports and design->polar_currents) as the
-// nulls and objective ask, and adds lines to design->notes. Does nothing without
-// nulls or an objective. Throws InputError (located at the [[null]] or [objective]
-// table) for a design that cannot be met.
+// nulls and objective ask, and keeps what the engine achieved in design->max_directivity, envelope
+// and null_placement (for the design text). Does nothing without nulls or an objective. Throws
+// InputError (located at the [[null]] or [objective] table) for a design that cannot be met.
 void ApplyExcitationSynthesis(ArrayDescription& desc);
 
 }  // namespace lobecast

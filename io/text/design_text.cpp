@@ -80,8 +80,79 @@ std::string LatticeLine(const DesignInfo& d, double lambda) {
   return s + "\n";
 }
 
+// "-inf (below rounding)" for an exact zero, else the level to 0.01 dB.
+std::string DepthText(double db) {
+  return std::isinf(db) ? (db < 0 ? "-inf (below rounding)" : "+inf") : Printf("%.2f", db);
+}
+
+// What the excitation synthesis achieved (io/input/excitation_synthesis.h).
+std::string SynthesisLines(const DesignInfo& d) {
+  const std::string more = "             ";  // a continuation line
+  std::string s;
+  if (d.max_directivity) {
+    const MaxDirectivityResult& r = *d.max_directivity;
+    s += Printf(
+        "objective    maximum directivity toward the beam: D %.3f dBi (%.3f dBi in the "
+        "elements' polarization)\n",
+        ToDb(r.directivity), ToDb(r.partial_directivity));
+    s += more + Printf("regularization %.3g of the mean self resistance; solver %s",
+                       r.regularization, std::string(ToString(r.solver_used)).c_str());
+    if (r.solver_used == DirectivitySolver::kConjugateGradient)
+      s += Printf(" (%d iterations, residual %.2g)", r.cg_iterations, r.cg_residual_relative);
+    s += "\n";
+    s += Printf(
+        "sensitivity  %.4g = %.4g x the uniform array's 1/N (sum |I|^2 over the beam's "
+        "field power)\n",
+        r.sensitivity_factor, r.sensitivity_re_uniform);
+    if (r.superdirective) {
+      s += more + "WARNING: superdirective: losses, bandwidth and tolerances make these\n";
+      s += more + "currents impractical; raise objective.regularization\n";
+    }
+    if (r.digits_in_power < 9)
+      s += Printf(
+          "precision    the radiated power of these currents keeps about %s%.0f "
+          "significant digits (its terms cancel)\n",
+          r.digits_is_lower_bound ? "at least " : "", std::floor(r.digits_in_power));
+  }
+  if (d.envelope) {
+    const EnvelopeResult& r = *d.envelope;
+    const bool mask = d.objective && (d.objective->sidelobe_db || !d.objective->mask.empty());
+    s += Printf(
+        "objective    side-lobe envelope, %zu directions sampled outside the free main "
+        "beam (%.3g first-null radii of the uniform excitation)\n",
+        d.envelope_samples, d.objective ? d.objective->main_beam_factor : 0.0);
+    s += more +
+         Printf("%s %.2f dB (LP bound %.2f dB, %d rounds)\n",
+                mask ? "margin to the mask (< 0: met)" : "highest sampled side lobe re the beam",
+                r.margin_db, r.lp_bound_db, r.rounds);
+  }
+  const std::vector<double>* depths = d.null_placement ? &d.null_placement->depth_db
+                                      : d.envelope     ? &d.envelope->null_depth_db
+                                                       : nullptr;
+  for (std::size_t j = 0; depths && j < depths->size() && j < d.nulls.size(); ++j)
+    s += Printf("null         theta %.6g deg, phi %.6g deg: %s dB re the beam\n",
+                d.nulls[j].theta_deg, d.nulls[j].phi_deg, DepthText((*depths)[j]).c_str());
+  if (d.null_placement) {
+    const NullResult& r = *d.null_placement;
+    s += Printf(
+        "nulling      %s: currents changed by %.3g (relative norm); %.3f dB of "
+        "directivity toward the beam lost\n",
+        d.phase_only_nulls ? "phase only (magnitudes kept)" : "least squares", r.change_relative,
+        r.directivity_lost_db);
+    if (d.phase_only_nulls && !r.converged)
+      s += more + "WARNING: the phases did not reach the target depth (see above)\n";
+  }
+  return s;
+}
+
 std::string TaperLine(const DesignInfo& d) {
   const TaperSpec& t = d.taper;
+  if (d.objective) {
+    return Printf("currents     set by the objective (%s); peak current %.6g A\n",
+                  std::string(ToString(d.objective->kind)).c_str(), d.peak_current_a) +
+           Printf("efficiency   %.6f (%.3f dB): |sum a|^2 / (N sum a^2) of the amplitudes\n",
+                  d.taper_efficiency, ToDb(d.taper_efficiency));
+  }
   std::string s = "taper        " + std::string(ToString(t.kind));
   switch (t.kind) {
     case TaperKind::kChebyshev:
@@ -134,8 +205,7 @@ std::string DescribeDesign(const ArrayDescription& desc) {
           "deg\n",
           g.theta_rad / kDegree, g.phi_rad / kDegree);
   }
-  for (const std::string& n : d.notes) s += n + "\n";
-  return s;
+  return s + SynthesisLines(d);
 }
 
 bool WritesCsv(const ArrayDescription& desc) {
