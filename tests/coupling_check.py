@@ -19,7 +19,6 @@ Runs `lobecast compute` on the sample with driven and loaded dipoles
     active impedances and power-wave reflections (Kurokawa 1965).
 Exit status 0 when every check passes; failures print both values.
 """
-import argparse
 import os
 import subprocess
 import sys
@@ -30,18 +29,13 @@ import numpy as np
 from scipy import integrate
 from scipy.special import spherical_jn, spherical_yn
 
+from check_common import arguments, check, summary
+
 C0 = 299792458.0
 MU0 = 1.25663706212e-6  # CODATA 2018
 ETA0 = MU0 * C0
 EPS0 = 1 / (MU0 * C0 * C0)
 
-failures = []
-
-
-def check(ok, what):
-    print(("ok   " if ok else "FAIL ") + what)
-    if not ok:
-        failures.append(what)
 
 
 def text(v):
@@ -118,12 +112,7 @@ def main():
     # dblquad reports "roundoff error" near its requested 1e-11: the result is still
     # far inside the 1e-7 the check asks.
     warnings.simplefilter("ignore", integrate.IntegrationWarning)
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--lobecast", required=True)
-    ap.add_argument("--samples", required=True)
-    ap.add_argument("--workdir", required=True)
-    a = ap.parse_args()
-    os.makedirs(a.workdir, exist_ok=True)
+    a = arguments()
     sample = os.path.join(a.samples, "parasitic-beacon.toml")
     out = os.path.join(a.workdir, "parasitic-beacon.h5")
     subprocess.run([a.lobecast, "compute", sample, "-o", out, "-q"], check=True)
@@ -209,10 +198,8 @@ def main():
         e = float(np.max(np.abs(gr - d * p_rad / p_avail)) / np.max(d))
         check(e < 1e-12, f"realized gain = D P_rad / P_available: rel err {e:.1e}")
     check_scan(a)
-    if failures:
-        print(f"{len(failures)} check(s) failed", file=sys.stderr)
-        sys.exit(1)
+    return summary("coupling check")
 
 
 if __name__ == "__main__":
-    main()
+    sys.exit(main())

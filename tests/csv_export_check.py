@@ -17,7 +17,6 @@ For two samples (one over ground, one in free space):
   * --notes comments: the '#' lines come first, then the same table.
 Exit status 0 when every check passes; failures print both values.
 """
-import argparse
 import csv
 import io
 import math
@@ -28,13 +27,8 @@ import sys
 import h5py
 import numpy as np
 
-failures = []
+from check_common import arguments, check, summary
 
-
-def check(ok, what):
-    if not ok:
-        failures.append(what)
-        print("FAIL:", what)
 
 
 def run(exe, *args):
@@ -74,12 +68,7 @@ def same(a, b):
 
 
 def main():
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--lobecast", required=True)
-    ap.add_argument("--samples", required=True)
-    ap.add_argument("--workdir", required=True)
-    a = ap.parse_args()
-    os.makedirs(a.workdir, exist_ok=True)
+    a = arguments()
 
     for sample in ("planar-4x4-ground.toml", "turnstile.toml"):
         result = os.path.join(a.workdir, sample.replace(".toml", ".h5"))
@@ -156,11 +145,7 @@ def main():
         check(hc == header and same(rowsc, rows) and notesc is None,
               f"{sample}: --notes comments table differs")
 
-    if failures:
-        print(f"{len(failures)} failure(s)")
-        return 1
-    print("csv export check: all passed")
-    return 0
+    return summary("csv export check")
 
 
 if __name__ == "__main__":

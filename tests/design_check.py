@@ -14,7 +14,6 @@ the written array description (tomllib; the CSV table for large arrays) back:
     rounding, 1e-12 of the peak |rE|).
 Exit status 0 when every check passes; failures print both values.
 """
-import argparse
 import os
 import subprocess
 import sys
@@ -26,14 +25,9 @@ import numpy as np
 from scipy.signal.windows import chebwin, taylor
 from scipy.special import comb
 
+from check_common import arguments, check, summary
+
 C0 = 299792458.0
-failures = []
-
-
-def check(ok, what):
-    print(("ok   " if ok else "FAIL ") + what)
-    if not ok:
-        failures.append(what)
 
 
 def design_text(n, taper, steer=""):
@@ -138,19 +132,11 @@ def reproduction(a):
 
 
 def main():
-    p = argparse.ArgumentParser()
-    p.add_argument("--lobecast", required=True)
-    p.add_argument("--samples", required=True)
-    p.add_argument("--workdir", required=True)
-    a = p.parse_args()
-    os.makedirs(a.workdir, exist_ok=True)
+    a = arguments()
     tapers(a)
     steering(a)
     reproduction(a)
-    if failures:
-        print(f"{len(failures)} check(s) failed", file=sys.stderr)
-        return 1
-    return 0
+    return summary("design check")
 
 
 if __name__ == "__main__":

@@ -29,7 +29,6 @@ anti-phase pair 1e-6 wavelength apart) go through `lobecast check`, `compute`,
   * a peak on the z axis has no phi: null in the JSON, "phi undefined" in the text.
 Exit status 0 when every check passes; failures print both values.
 """
-import argparse
 import csv
 import glob
 import io
@@ -43,18 +42,13 @@ import sys
 import h5py
 import numpy as np
 
+from check_common import arguments, check, summary
+
 C0 = 299792458.0
 MU0 = 1.25663706212e-6  # CODATA 2018
 ETA0 = MU0 * C0
 MARGIN_DB = 0.01  # printed values carry two decimals
 
-failures = []
-
-
-def check(ok, what):
-    if not ok:
-        failures.append(what)
-        print("FAIL:", what)
 
 
 def run(exe, args, expect=0):
@@ -245,12 +239,7 @@ def scan_csv(b, text, what):
 
 
 def main():
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--lobecast", required=True)
-    ap.add_argument("--samples", required=True)
-    ap.add_argument("--workdir", required=True)
-    a = ap.parse_args()
-    os.makedirs(a.workdir, exist_ok=True)
+    a = arguments()
     inputs = sorted(glob.glob(os.path.join(a.samples, "*.toml")))
     for name, text in OWN.items():
         path = os.path.join(a.workdir, name + ".toml")
@@ -318,11 +307,7 @@ def main():
             check(d["polarization"]["tilt_at_peak_deg"] is None,
                   f"{name}: JSON tilt at peak {d['polarization']['tilt_at_peak_deg']}")
 
-    if failures:
-        print(f"{len(failures)} failure(s)")
-        return 1
-    print("floor check: every output within the floor")
-    return 0
+    return summary("floor check")
 
 
 if __name__ == "__main__":

@@ -18,7 +18,6 @@ check, independently of the C++ code,
     (trapezoid in theta and phi; loose tolerance: the grid is coarse).
 Exit status 0 when every check passes; failures print both values.
 """
-import argparse
 import glob
 import os
 import subprocess
@@ -28,17 +27,12 @@ import h5py
 import numpy as np
 from scipy.special import spherical_jn, spherical_yn
 
+from check_common import arguments, check, summary
+
 C0 = 299792458.0
 MU0 = 1.25663706212e-6  # CODATA 2018
 ETA0 = MU0 * C0
 
-failures = []
-
-
-def check(ok, what):
-    if not ok:
-        failures.append(what)
-        print("FAIL:", what)
 
 
 def rel(a, b):
@@ -212,12 +206,7 @@ def check_file(path, name):
 
 
 def main():
-    ap = argparse.ArgumentParser()
-    ap.add_argument("--lobecast", required=True)
-    ap.add_argument("--samples", required=True)
-    ap.add_argument("--workdir", required=True)
-    a = ap.parse_args()
-    os.makedirs(a.workdir, exist_ok=True)
+    a = arguments()
     samples = sorted(glob.glob(os.path.join(a.samples, "*.toml")))
     check(len(samples) >= 5, f"only {len(samples)} sample arrays")
     for s in samples:
@@ -228,10 +217,7 @@ def main():
         check(run.returncode == 0, f"{name}: compute exit {run.returncode}: {run.stderr}")
         if run.returncode == 0:
             check_file(out, name)
-    if failures:
-        print(f"{len(failures)} failure(s)")
-        return 1
-    return 0
+    return summary("result file check")
 
 
 if __name__ == "__main__":

@@ -23,6 +23,25 @@ namespace lobecast::testing {
 
 // The frequency the tests use unless they say otherwise (the example in CONVENTIONS §3).
 inline constexpr double kTestFrequency_hz = 433.92e6;
+inline double TestWavelength_m() { return kSpeedOfLight_m_s / kTestFrequency_hz; }
+
+// Angle between two directions given in degrees, deg.
+inline double Separation_deg(double t1, double p1, double t2, double p2) {
+  const Vec3 a(std::sin(t1 * kDegree) * std::cos(p1 * kDegree),
+               std::sin(t1 * kDegree) * std::sin(p1 * kDegree), std::cos(t1 * kDegree));
+  const Vec3 b(std::sin(t2 * kDegree) * std::cos(p2 * kDegree),
+               std::sin(t2 * kDegree) * std::sin(p2 * kDegree), std::cos(t2 * kDegree));
+  return std::atan2(a.cross(b).norm(), a.dot(b)) / kDegree;
+}
+
+// |AF|^2 / N^2 of a uniform line, u = k d cos(angle from the line axis) + phase step
+// (the closed form, Balanis 4th ed. ch. 6, from memory).
+inline double UniformFactor(int n, double u) {
+  const double s = std::sin(0.5 * u);
+  if (std::abs(s) < 1e-300) return 1.0;
+  const double r = std::sin(0.5 * n * u) / (n * s);
+  return r * r;
+}
 
 // The exact direct sum (far_field.h), for checks tighter than the fast path's tolerance.
 inline FieldOptions DirectMethod(int num_threads = 0) {
