@@ -519,8 +519,26 @@ std::vector<NullCrossing> FindNullCrossings(const PatternProbe& probe, const Nul
         c.locus = static_cast<double>(k);
       }
     }
-    // On a verified cone the field is zero: what remains of v is rounding.
+    // On a verified cone the field is zero: what remains of v is rounding. The search
+    // stops anywhere in the band where the field is floored to zero (wide at a double
+    // zero such as the horizon over a ground), so the crossing is put on the cone
+    // itself: along the cut a . r(s) = A cos s + B sin s = cos(half-angle).
     if (c.locus >= 0 && search.shapes[static_cast<std::size_t>(c.locus)].cone) {
+      const LocusShape& sh = search.shapes[static_cast<std::size_t>(c.locus)];
+      const double a = sh.axis.dot(peak), b = sh.axis.dot(tangent), rr = std::hypot(a, b);
+      const double ca = std::cos(sh.half_angle_rad);
+      if (rr > 0 && std::abs(ca) <= rr) {
+        const double base = std::atan2(b, a), delta = std::acos(ca / rr);
+        const auto gap = [&](double t) { return std::abs(std::remainder(t - s, 2 * kPi)); };
+        const double on = gap(base + delta) <= gap(base - delta) ? base + delta : base - delta;
+        if (gap(on) < kOnCone_rad) {
+          s = on;
+          const Vec3 r_on = AlongGreatCircle(peak, tangent, s);
+          c.offset_deg = std::remainder(s, 2 * kPi) / kDegree;
+          if (c.offset_deg <= -180.0) c.offset_deg += 360.0;
+          c.direction = ToDirectionDeg(r_on, tol);
+        }
+      }
       c.exact = true;
       c.directivity = 0.0;
       c.level_db = -kInf;
