@@ -122,6 +122,7 @@ DirectionDeg ReportedDirection(const Vec3& r_hat, const DirectionDeg& start_deg,
   double dphi = std::abs(d.phi_deg - start_deg.phi_deg);
   dphi = std::min(dphi, 360.0 - dphi);
   if (dphi * std::sin(d.theta_deg * kDegree) <= tol_deg) d.phi_deg = start_deg.phi_deg;
+  if (d.phi_deg >= 360.0) d.phi_deg -= 360.0;  // a grid ending at 360: phi is in [0, 360)
   return d;
 }
 
