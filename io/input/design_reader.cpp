@@ -26,13 +26,6 @@ std::optional<ObjectiveKind> ObjectiveKindFromString(std::string_view s) {
 
 namespace {
 
-// The phase in degrees in (-180, 180], from radians.
-double WrappedDegrees(double rad) {
-  double deg = std::remainder(rad / kDegree, 360.0);
-  if (deg <= -180.0) deg += 360.0;
-  return deg;
-}
-
 class DesignReader : private TomlValues {
  public:
   DesignReader(const toml::table& root, std::string path, double scale, std::string_view unit,
