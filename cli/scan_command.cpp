@@ -60,9 +60,18 @@ void RunScan(const ScanArgs& args) {
   const CouplingResult ref = SolveCoupling(desc.array, desc.ports, desc.wires, options);
   for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size(); ++m) {
     if (std::isnan(ref.self_reactance_ohm[m])) {
+      const SourceLocation& at = desc.dipole_locations[static_cast<std::size_t>(m)];
+      // A generated dipole takes its wire from the design's [element] template.
+      const bool generated = desc.design && at.line == desc.design->lattice_where.line &&
+                             at.column == desc.design->lattice_where.column;
+      if (generated) {
+        throw InputError(desc.design->element_where, "element", "no self reactance",
+                         "radius = <wire radius> (triangular current) or self_reactance = "
+                         "<ohm> in [element]: the scan impedance is each element's input "
+                         "impedance");
+      }
       throw InputError(
-          desc.dipole_locations[static_cast<std::size_t>(m)], "dipole[" + std::to_string(m) + "]",
-          "no self reactance",
+          at, "dipole[" + std::to_string(m) + "]", "no self reactance",
           "radius = <wire radius> (triangular current) or self_reactance = <ohm> on every "
           "dipole: the scan impedance is each element's input impedance");
     }

@@ -199,6 +199,25 @@ TEST(ImpedanceMatrix, GroundAddsTheImageCouplingAndSelfReactanceGoesOnTheDiagona
   }
 }
 
+// A horizontal dipole 1e-7 wavelength over PEC: it and its reversed image nearly
+// cancel, so R = (k^2 eta0 Le^2 / 4 pi)(2/3 - (j0(x) - j1(x)/x)) with x = 2 k h is a
+// difference of two numbers 10^12 times larger. Against the power series of j0 and j1
+// (DLMF 10.53.1; equation number from memory): 2/3 - (j0 - j1/x) = 2x^2/15 - x^4/140 +
+// O(x^6). Adding the image's term to the free-space self term loses ~4 of the digits.
+TEST(ImpedanceMatrix, DipoleLowOverGroundKeepsTheDigitsOfItsResistance) {
+  const double lambda = Lambda();
+  const double h = 1e-7 * lambda;
+  const testing::TestArray a = OneDipoleArray(
+      MakeDipole(Vec3(0.0, 0.0, h), Vec3::UnitX(), 0.01 * lambda), 1.0, Ground::kPec);
+  const Eigen::MatrixXcd z = ImpedanceMatrix(a, Eigen::VectorXd::Zero(1));
+  const double x = 2.0 * K() * h;
+  const double le = a.dipoles[0].effective_length_m();
+  const double series =
+      K() * K() * kEta0_ohm / (4.0 * kPi) * le * le * (2.0 * x * x / 15.0 - std::pow(x, 4) / 140.0);
+  EXPECT_NEAR(z(0, 0).real(), series, 1e-12 * series);
+  EXPECT_EQ(z(0, 0).real(), ResistanceMatrix(a)(0, 0));
+}
+
 TEST(ActiveResistance, EndfirePairNeedsTheMutualReactance) {
   // Two parallel z dipoles lambda/4 apart, currents 1 and -j (the endfire sample).
   // Independent computation: Z12 from the vector potential by differences, then

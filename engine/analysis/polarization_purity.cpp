@@ -13,6 +13,10 @@
 namespace lobecast {
 namespace {
 
+// A step to a direction whose directivity exceeds the one it comes from by more than
+// rounding goes uphill, into another lobe (the main beam's walks stop there).
+constexpr double kUphill = 1 + 1e-9;
+
 // XPD in dB of a co/cross pair (floored by CoCrossOf): +inf for a co-polar field whose
 // cross part is below the floor, -inf for the opposite, NaN for no field.
 double XpdDb(const CoCross& c) { return PowerRatioDb(std::norm(c.co), std::norm(c.cross)); }
@@ -67,9 +71,12 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
 
   // (a) grid directions of the main beam: a breadth-first walk from the grid maximum
   // over neighbouring grid directions at or above half power, stepping from one to the
-  // next only when the great-circle segment between them stays there too (sampled at
-  // `step`), so lobes the grid alone would join across a dip between its nodes stay
-  // apart. Edges are checked a frontier at a time, in bounded batches.
+  // next only downhill (not above the one it comes from: the main lobe, not another
+  // lobe that a saddle at half power joins to it, as the turnstile's horizon joins its
+  // two hemispheres) and when the great-circle segment between them stays at or above
+  // half power too (sampled at `step`), so lobes the grid alone would join across a dip
+  // between its nodes stay apart. Edges are checked a frontier at a time, in bounded
+  // batches.
   if (neighbours.num_nodes() > 0) {
     const std::size_t np = grid_result.grid.phi_deg.size();
     const auto& d = grid_result.directivity;
@@ -116,8 +123,10 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
     while (!frontier.empty()) {
       for (const std::size_t n : frontier) {
         const Vec3 a = neighbours.direction(n);
+        const double dn = d[static_cast<Eigen::Index>(neighbours.representative(n))];
         for (const std::size_t m : neighbours.neighbours(n)) {
           if (!member[m] || reached[m]) continue;
+          if (d[static_cast<Eigen::Index>(neighbours.representative(m))] > dn * kUphill) continue;
           const Vec3 b = neighbours.direction(m);
           const double len = AngleBetween(a, b);
           Edge e{m, pts.size(), 0};
@@ -149,8 +158,17 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
     for (int i = 1; i <= options.beam_ray_samples; ++i)
       pts.push_back(AlongGreatCircle(peak, t, edge * i / options.beam_ray_samples));
   }
+  // Along each ray only up to where it turns uphill: beyond a minimum is another lobe
+  // (a ray that never falls to half power runs on to the antipode).
   const std::vector<ProbeSample> s = probe.At(pts);
+  const std::size_t per_ray = static_cast<std::size_t>(options.beam_ray_samples);
   for (std::size_t i = 0; i < s.size(); ++i) {
+    const std::size_t along = i % per_ray;
+    if (along > 0 && !s[i - 1].no_field && !s[i].no_field &&
+        s[i].directivity > s[i - 1].directivity * kUphill) {
+      i += per_ray - 1 - along;  // the rest of this ray
+      continue;
+    }
     if (s[i].no_field || s[i].directivity < 0.5 * peak_directivity * (1 - 1e-9)) continue;
     consider(XpdDb(s[i].CoCrossFor(options.reference)),
              [&] { return ToDirectionDeg(pts[i], tol); });

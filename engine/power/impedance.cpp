@@ -77,6 +77,10 @@ Eigen::MatrixXcd ImpedanceMatrix(const Array& array, const Eigen::VectorXd& self
                          : KernelBetween(dm, dq, k);
       // The coupling to images is symmetric (reflection keeps u.u' and the R terms).
       if (pec) v += KernelBetween(dm, images[static_cast<std::size_t>(q)], k);
+      // A dipole and its own image: the resistance from the series that keeps its
+      // digits when the two nearly cancel (a horizontal dipole low over the ground,
+      // radiated_power.h), as the resistance matrix has it.
+      if (pec && q == m) v.real(SelfResistanceOverGround(dm, k) / scale);
       z(m, q) = scale * v;
       z(q, m) = scale * v;
     }

@@ -92,6 +92,7 @@ struct DesignInfo {
   std::optional<NullResult> null_placement;
 
   SourceLocation lattice_where;  // the [lattice] table
+  SourceLocation element_where;  // the [element] table (the template of generated dipoles)
 };
 
 }  // namespace lobecast

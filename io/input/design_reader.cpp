@@ -46,6 +46,7 @@ class DesignReader : private TomlValues {
                        "[element] with orientation and length: the template of every "
                        "generated dipole");
     }
+    info.element_where = At(Table("element"));
     Dipole templ = ReadElement(Table("element"), out);
 
     if (const toml::node* t = root_.get("taper")) {

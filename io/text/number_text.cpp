@@ -33,4 +33,14 @@ std::optional<double> ParseFiniteNumber(std::string_view s) {
   return v;
 }
 
+double ReportedAngleDeg(double angle_deg) {
+  if (!std::isfinite(angle_deg)) return angle_deg;
+  // Times and over the exact 1e9: the nearest double to the rounded decimal, which
+  // prints as that decimal (times 1e-9 would not).
+  constexpr double kPerDeg = 1e9;
+  static_assert(kReportedAngle_deg == 1.0 / kPerDeg);
+  const double r = std::round(angle_deg * kPerDeg) / kPerDeg;
+  return r == 0.0 ? 0.0 : r;  // no -0
+}
+
 }  // namespace lobecast

@@ -18,4 +18,12 @@ void AppendShortest(std::string& out, double value);
 // inf, nan and values out of range.
 std::optional<double> ParseFiniteNumber(std::string_view s);
 
+// An analysed angle (deg) as the JSON report gives it: rounded to kReportedAngle_deg.
+// The analysis refines directions to 1e-6 deg (AnalysisOptions::refine_tolerance_deg),
+// so the digits beyond 1e-9 deg are rounding of the search, not physics: without the
+// rounding an exact horizon crossing would read 89.99999999995661. Infinities and NaN
+// pass through.
+inline constexpr double kReportedAngle_deg = 1e-9;
+double ReportedAngleDeg(double angle_deg);
+
 }  // namespace lobecast

@@ -13,6 +13,7 @@
 #include "io/hdf5/schema.h"
 #include "io/safety_note.h"
 #include "io/text/json_writer.h"
+#include "io/text/number_text.h"
 #include "io/text/summary_text.h"
 #include "io/text/text_format.h"
 
@@ -153,7 +154,7 @@ class JsonVisitor {
     if (f.extra == schema::Extra::kFileOnly) return;
     // The safety note has always come just before the analysis' seconds.
     if (depth_ == 0 && f.name == schema::kSecondsKey) j_.Member("safety_note", kSafetyNote);
-    j_.Member(f.name, v);
+    j_.Member(f.name, f.unit == "deg" ? ReportedAngleDeg(v) : v);
   }
   void Value(const schema::Field& f, bool v) { j_.MemberBool(f.name, v); }
   void Value(const schema::Field& f, int v) { j_.MemberInt(f.name, v); }
@@ -163,8 +164,8 @@ class JsonVisitor {
   void Value(const schema::Field& f, const DirectionDeg& d) {
     j_.Key(schema::DirectionKey(f.name));
     j_.BeginObject();
-    j_.Member(schema::kThetaKey, d.theta_deg);
-    j_.Member(schema::kPhiKey, d.phi_deg);
+    j_.Member(schema::kThetaKey, ReportedAngleDeg(d.theta_deg));
+    j_.Member(schema::kPhiKey, ReportedAngleDeg(d.phi_deg));
     j_.EndObject();
   }
   void Value(const schema::Field& f, PolarizationReference v) { j_.Member(f.name, ToString(v)); }
