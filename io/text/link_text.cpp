@@ -62,6 +62,7 @@ void JsonEnd(JsonWriter& j, const LinkEnd& e) {
   j.MemberBool("largest_dimension_is_bound", e.region.largest_dimension_is_bound);
   j.Member("fraunhofer_distance_m", e.region.region.fraunhofer_m);
   j.Member("far_field_from_m", e.region.region.start_m());
+  j.Member("ground", e.ground_pec ? "pec" : "none");
 }
 
 // ", directivity D dBi" when the gain is not the directivity itself.
@@ -176,6 +177,11 @@ std::string LinkText(const LinkReport& r) {
              "%.6g m\n",
              g.largest_dimension_m, e->region.largest_dimension_is_bound ? " (bound)" : "",
              g.fraunhofer_m, kFarFieldMinWavelengths, g.few_wavelengths_m, g.start_m());
+    if (e->ground_pec) {
+      s << "ground       " << (e == &r.tx ? "transmitter" : "receiver")
+        << " over PEC ground: its pattern holds the ground reflection above it (theta < 90 "
+           "deg)\n";
+    }
   }
   for (const std::string& c : r.cautions) s << WrappedNote("caution:", c);
   s << SafetyNote();
