@@ -69,6 +69,12 @@ TEST(Friis, RefusesWhatIsNotALink) {
   g = in;
   g.polarization_loss_factor = std::nan("");
   EXPECT_TRUE(std::isnan(Friis(g).received_w));
+  // A null toward the receiver: no field, no polarization, nothing received.
+  g.tx_gain = 0;
+  EXPECT_EQ(Friis(g).received_w, 0.0);
+  g.tx_gain = 1;
+  g.rx_gain = 0;
+  EXPECT_EQ(Friis(g).received_w, 0.0);
 }
 
 // Polarization loss factor (IEEE Std 145-2013, polarization efficiency; Balanis

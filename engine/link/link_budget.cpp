@@ -42,7 +42,8 @@ LinkBudget Friis(const LinkInputs& in) {
   LinkBudget b;
   b.path_loss = FreeSpacePathLoss(in.distance_m, in.wavelength_m);
   b.eirp_w = in.power_w * in.tx_gain;
-  b.received_w = b.eirp_w * in.rx_gain * plf / b.path_loss;
+  // No field at one end: nothing is received, whatever the (then undefined) PLF.
+  b.received_w = b.eirp_w == 0 || in.rx_gain == 0 ? 0.0 : b.eirp_w * in.rx_gain * plf / b.path_loss;
   return b;
 }
 

@@ -35,7 +35,8 @@ struct LinkBudget {
 };
 
 // Throws InvalidArgument naming the input that is out of range. A PLF that is NaN
-// (a polarization undefined because a field is zero) gives a NaN received power.
+// (a polarization undefined because a field is zero) gives a NaN received power,
+// except where a gain is 0 (that zero field): then nothing is received, exactly 0.
 LinkBudget Friis(const LinkInputs& in);
 
 // Polarization loss factor between a wave and a receiving antenna, both given as

@@ -26,7 +26,7 @@ std::string EndName(const LinkEnd& e) {
 }
 
 std::string PolarizationWords(const Polarization& p) {
-  if (std::isnan(p.axial_ratio_db)) return "no field";
+  if (std::isnan(p.axial_ratio_db)) return "zero (below rounding)";
   if (p.sense == 0) return Printf("linear, tilt %.2f deg from theta_hat", p.tilt_deg);
   return SenseName(p.sense) + (p.axial_ratio_db == 0 ? " circular" : " elliptical") +
          ", axial ratio " + Db(p.axial_ratio_db) + " dB";
