@@ -14,5 +14,8 @@ void AddReportCommand(CLI::App& app);
 void AddExportCommand(CLI::App& app);
 void AddScanCommand(CLI::App& app);
 void AddSynthCommand(CLI::App& app);
+// link budgets and RF-exposure distances (issue 17)
+void AddLinkCommand(CLI::App& app);
+void AddExposureCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

@@ -31,6 +31,8 @@ int main(int argc, char** argv) {
   lobecast::cli::AddExportCommand(app);
   lobecast::cli::AddScanCommand(app);
   lobecast::cli::AddSynthCommand(app);
+  lobecast::cli::AddLinkCommand(app);
+  lobecast::cli::AddExposureCommand(app);
 
   try {
     app.parse(argc, argv);

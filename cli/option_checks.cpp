@@ -127,6 +127,18 @@ CLI::Validator NumberIn(double lo, double hi, const std::string& unit) {
       "[" + range + "]", "NumberIn");
 }
 
+CLI::Validator NumberAbove(double lo, const std::string& unit) {
+  const std::string expected = "a number > " + FormatBound(lo) + (unit.empty() ? "" : " " + unit);
+  return CLI::Validator(
+      [lo, expected](std::string& text) -> std::string {
+        const auto v = ParseFiniteNumber(text);
+        if (!v) return "found " + Quoted(text) + ", expected " + expected;
+        if (!(*v > lo)) return "found " + text + ", expected " + expected;
+        return "";
+      },
+      "[> " + FormatBound(lo) + (unit.empty() ? "" : " " + unit) + "]", "NumberAbove");
+}
+
 CLI::Validator WholeNumberAtLeast(long lo, const std::string& meaning) {
   const std::string expected =
       "a whole number >= " + std::to_string(lo) + (meaning.empty() ? "" : " (" + meaning + ")");

@@ -18,6 +18,8 @@ std::string FormatBound(double v);
 
 // A number within [lo, hi]; `unit` follows the bounds in the message ("deg", "").
 CLI::Validator NumberIn(double lo, double hi, const std::string& unit);
+// A finite number > lo (strictly); `unit` follows the bound in the message ("W", "m").
+CLI::Validator NumberAbove(double lo, const std::string& unit);
 // A whole number >= lo; `meaning` is appended in parentheses, e.g. "0 = all cores".
 CLI::Validator WholeNumberAtLeast(long lo, const std::string& meaning);
 // One of `names` (case-insensitive when ignore_case); the message lists them.

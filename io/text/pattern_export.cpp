@@ -81,7 +81,8 @@ void AppendNumber(std::string& out, double v, Rounding r, const PatternTableOpti
     std::replace(out.begin() + static_cast<std::ptrdiff_t>(start), out.end(), '.', ',');
 }
 
-// A text cell, quoted (RFC 4180) when it holds the separator, a quote or a newline.
+}  // namespace
+
 void AppendText(std::string& out, const std::string& text, char sep) {
   if (text.find_first_of(std::string{sep, '"', '\n', '\r'}) == std::string::npos) {
     out += text;
@@ -94,8 +95,6 @@ void AppendText(std::string& out, const std::string& text, char sep) {
   }
   out += '"';
 }
-
-}  // namespace
 
 std::string CoordinateDefinition(ExportCoordinates c) {
   if (c == ExportCoordinates::kAzimuthElevation) {

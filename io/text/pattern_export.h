@@ -73,6 +73,10 @@ struct PatternTableOptions {
 // The cell separator: '\t' for TSV, ';' for CSV with a decimal comma, else ','.
 char Separator(const PatternTableOptions& options);
 
+// Appends a text cell, quoted (RFC 4180) when it holds the separator, a quote or a
+// newline (also for the link and exposure tables).
+void AppendText(std::string& out, const std::string& text, char sep);
+
 // The header row's column names, in order.
 std::vector<std::string> PatternTableColumns(const PatternTableOptions& options);
 

@@ -157,16 +157,19 @@ std::string PowerLine(const ArrayDescription& desc, double radiated_power_w,
   return out;
 }
 
-std::string SafetyNote() {
-  // kSafetyNote wrapped at about 88 columns under a "note: " prefix.
-  std::string out = "note:";
+std::string SafetyNote() { return WrappedNote("note:", kSafetyNote); }
+
+std::string WrappedNote(std::string_view label, std::string_view text) {
+  // `text` wrapped at about 88 columns after the label.
+  std::string out(label);
   std::size_t column = out.size();
-  std::istringstream words{std::string(kSafetyNote)};
+  std::istringstream words{std::string(text)};
   std::string w;
   while (words >> w) {
     if (column + 1 + w.size() > 88) {
-      out += "\n     ";  // continuation lines align under the first word
-      column = 5;
+      out += '\n';  // continuation lines align under the first word
+      out.append(label.size(), ' ');
+      column = label.size();
     }
     out += " " + w;
     column += 1 + w.size();

@@ -3,6 +3,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 
 #include "engine/pattern.h"
 #include "io/input/array_description.h"
@@ -25,6 +26,9 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& re
 
 // The safety note printed with every result (CONVENTIONS §5).
 std::string SafetyNote();
+// A note for people: `label` ("note:"), then `text` wrapped at about 88 columns with
+// continuation lines under its first word.
+std::string WrappedNote(std::string_view label, std::string_view text);
 
 // The power line of `check` and `compute`: "power  P W radiated for the given (or
 // solved) currents (closed form)", and a caution line when P keeps fewer than
