@@ -31,6 +31,7 @@ int main(int argc, char** argv) {
   lobecast::cli::AddExportCommand(app);
   lobecast::cli::AddScanCommand(app);
   lobecast::cli::AddSynthCommand(app);
+  lobecast::cli::AddSizeCommand(app);
 
   try {
     app.parse(argc, argv);
