@@ -73,18 +73,19 @@ void AddSizeCommand(CLI::App& app) {
   auto args = std::make_shared<SizeArgs>();
   CLI::App* cmd = app.add_subcommand(
       "size",
-      "Size an array from requirements: for rectangular and triangular lattices and Taylor "
-      "and Dolph-Chebyshev tapers, the largest spacing without grating lobes over the scan "
+      "Size an array from requirements: for rectangular lattices with Taylor, "
+      "Dolph-Chebyshev and circular Taylor tapers and triangular ones with circular Taylor, "
+      "the largest spacing without grating lobes over the scan "
       "range, the taper for the side-lobe level and the element counts for the directivity "
       "or beamwidths; each candidate is computed with the engine at broadside and at the "
       "scan edges (principal planes), ranked (meeting everything first, then fewest elements, "
       "then grating-lobe margin) and written as DIR/candidate-1.toml, ... (design files for "
-      "synth and compute). Prints a table (dBi, dB, deg, wavelengths, mm) or, with --json, "
+      "synth and compute). Prints a table (dBi, dB, deg, wavelengths, mm or m) or, with --json, "
       "the same as JSON.");
   cmd->add_option("REQUIREMENTS", args->input,
                   "Requirements file (TOML): frequency, directivity_dbi and/or beamwidth_deg, "
                   "sidelobe_db, scan_deg, ground, polarization, lattice, max_elements, "
-                  "max_aperture (keys in io/input/requirements_reader.h)")
+                  "max_aperture, element_length, length_unit (README, Sizing an array)")
       ->required()
       ->check(ExistingInput("a requirements file (TOML)"));
   cmd->add_option("-o,--output", args->folder,

@@ -103,16 +103,19 @@ LatticeSpacing LargestSpacing(LatticeKind kind, const ScanRegion& region, double
     }
     return lo;
   };
-  constexpr int kSamples = 40;
+  // Row pitches from 0.7 dy_max up: below 1/sqrt(3) of it the same lattices come back
+  // turned by 90 deg (rows along y), which the generator does not build that way round.
+  constexpr int kSamples = 30;
+  constexpr double kLowest = 0.7;
   LatticeSpacing best;
-  for (int i = 0; i <= kSamples; ++i) {
-    const double dy = dy_max * (0.4 + 0.6 * i / kSamples);
+  for (int i = kSamples; i >= 0; --i) {
+    const double dy = dy_max * (kLowest + (1 - kLowest) * i / kSamples);
     const double dx = dx_at(dy);
     if (dx * dy > best.dx * best.dy) best = {dx, dy};
   }
   // Refine around the best row pitch.
-  const double step = 0.6 * dy_max / kSamples;
-  double lo = std::max(0.4 * dy_max, best.dy - step), hi = std::min(dy_max, best.dy + step);
+  const double step = (1 - kLowest) * dy_max / kSamples;
+  double lo = std::max(kLowest * dy_max, best.dy - step), hi = std::min(dy_max, best.dy + step);
   for (int i = 0; i < 40; ++i) {
     const double a = lo + (hi - lo) / 3, b = hi - (hi - lo) / 3;
     if (a * dx_at(a) < b * dx_at(b))

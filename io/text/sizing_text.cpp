@@ -33,6 +33,17 @@ std::string Escaped(const std::string& in) {
   return out;
 }
 
+// "433.92 MHz", "10.5 GHz": the frequency in the unit that reads best.
+std::string Frequency(double hz) {
+  if (hz >= 1e9) return Printf("%.6g GHz", hz / 1e9);
+  if (hz >= 1e6) return Printf("%.6g MHz", hz / 1e6);
+  if (hz >= 1e3) return Printf("%.6g kHz", hz / 1e3);
+  return Printf("%.6g Hz", hz);
+}
+
+// A length in mm below a metre, else in m.
+std::string Length(double m) { return m < 1 ? Printf("%.5g mm", m * 1e3) : Printf("%.5g m", m); }
+
 std::string Axis(const Vec3& o) { return o.x() != 0 ? "x" : "y"; }
 
 std::string TaperText(const TaperSpec& t) {
@@ -57,8 +68,8 @@ std::string Db(double v) { return std::isinf(v) ? (v < 0 ? "none" : "+inf") : Pr
 std::string RequirementLines(const RequirementsFile& rf, const std::string& lead) {
   const SizingRequirements& r = rf.requirements;
   const double lambda = r.wavelength_m();
-  std::string s = lead + Printf("frequency %.6g GHz (wavelength %.5g mm)\n", r.frequency_hz / 1e9,
-                                lambda * 1e3);
+  std::string s =
+      lead + "frequency " + Frequency(r.frequency_hz) + " (wavelength " + Length(lambda) + ")\n";
   if (r.directivity_dbi)
     s += lead + Printf("directivity >= %g dBi at broadside\n", *r.directivity_dbi);
   if (r.beamwidth_xz_deg)
@@ -69,16 +80,16 @@ std::string RequirementLines(const RequirementsFile& rf, const std::string& lead
   s += lead + Printf("scan %g deg (xz plane) x %g deg (yz plane) from broadside\n", r.scan_xz_deg,
                      r.scan_yz_deg);
   s += lead + (r.ground == Ground::kPec
-                   ? Printf("ground pec, elements %.5g mm (%.4g wavelength) above it\n",
-                            r.ground_height_m * 1e3, r.ground_height_m / lambda)
+                   ? Printf("ground pec, elements %s (%.4g wavelength) above it\n",
+                            Length(r.ground_height_m).c_str(), r.ground_height_m / lambda)
                    : std::string("ground none (free space)\n"));
-  s += lead + Printf("elements short dipoles along %s, %.5g mm; lattice %s\n",
-                     Axis(r.polarization).c_str(), r.element_length_m * 1e3,
+  s += lead + Printf("elements short dipoles along %s, %s long; lattice %s\n",
+                     Axis(r.polarization).c_str(), Length(r.element_length_m).c_str(),
                      std::string(ToString(r.lattice)).c_str());
   if (r.max_elements) s += lead + Printf("max_elements %ld\n", *r.max_elements);
   if (r.max_aperture_x_m)
-    s += lead + Printf("max aperture %.5g x %.5g mm (element centres)\n", *r.max_aperture_x_m * 1e3,
-                       *r.max_aperture_y_m * 1e3);
+    s += lead + "max aperture " + Length(*r.max_aperture_x_m) + " x " +
+         Length(*r.max_aperture_y_m) + " (element centres)\n";
   return s;
 }
 
@@ -166,7 +177,7 @@ std::string CandidateDesign(const RequirementsFile& rf, const SizingCandidate& c
   t += "\n[taper]\nkind = \"" + std::string(ToString(c.taper.kind)) + "\"\n";
   if (c.taper.kind != TaperKind::kUniform)
     t += "sidelobe_db = " + Num(c.taper.sidelobe_db) +
-         "   # the design level, below the requirement by the guard the cuts needed\n";
+         "   # design parameter, lowered until the predicted cuts met the requirement\n";
   if (c.taper.kind == TaperKind::kTaylor || c.taper.kind == TaperKind::kCircularTaylor)
     t += "nbar = " + std::to_string(c.taper.nbar) + "\n";
   return t;
@@ -181,16 +192,15 @@ std::string SizingTable(const RequirementsFile& rf, const SizingResult& res,
   for (LatticeKind k : {LatticeKind::kRectangular, LatticeKind::kTriangular}) {
     const LatticeSpacing sp = LargestSpacing(
         k, {std::sin(r.scan_xz_deg * kDegree), std::sin(r.scan_yz_deg * kDegree)}, 0);
-    s += Printf(
-        "  %-11s  %.4f x %.4f wavelength (%.4g x %.4g mm), %.4g elements per square "
-        "wavelength\n",
-        std::string(ToString(k)).c_str(), sp.dx, sp.dy, sp.dx * lambda * 1e3, sp.dy * lambda * 1e3,
-        1 / (sp.dx * sp.dy));
+    s += Printf("  %-11s  %.4f x %.4f wavelength (%s x %s), %.4g elements per square wavelength\n",
+                std::string(ToString(k)).c_str(), sp.dx, sp.dy, Length(sp.dx * lambda).c_str(),
+                Length(sp.dy * lambda).c_str(), 1 / (sp.dx * sp.dy));
   }
-  s += "\nrank  lattice      elements        spacing (wavelength)  taper (design level)       "
+  s += "\nrank  lattice      elements        spacing (wavelength)  taper (design level)           "
        "eff     margin  D broadside (dBi)  worst SLL (dB)  status\n";
-  s += "                                                                                        "
-       "(sine)  pred    computed   pred   computed\n";
+  s +=
+      "                                                                                            "
+      "(sine)  pred    computed   pred   computed\n";
   for (std::size_t i = 0; i < res.candidates.size(); ++i) {
     const SizingCandidate& c = res.candidates[i];
     double comp_d = NAN, comp_sll = NAN;
@@ -199,7 +209,7 @@ std::string SizingTable(const RequirementsFile& rf, const SizingResult& res,
       comp_sll = std::isnan(comp_sll) ? b.sidelobe_db : std::max(comp_sll, b.sidelobe_db);
     }
     s += Printf(
-        "%-4zu  %-11s  %4d x %-4d %5zu  %.4f x %.4f       %-25s  %.4f  %.4f  %6.2f  %8s   "
+        "%-4zu  %-11s  %4d x %-4d %5zu  %.4f x %.4f       %-29s  %.4f  %.4f  %6.2f  %8s   "
         "%6s %9s  %s\n",
         i + 1, std::string(ToString(c.lattice)).c_str(), c.count_x, c.count_y, c.elements(),
         c.spacing_x_m / lambda, c.spacing_y_m / lambda, TaperText(c.taper).c_str(),
@@ -213,11 +223,11 @@ std::string SizingTable(const RequirementsFile& rf, const SizingResult& res,
     if (!folder.empty())
       s += "  -> " + (std::filesystem::path(folder) / CandidateFileName(i + 1)).string();
     s += "\n";
-    s += Printf(
-        "  lattice      %s, %d x %d = %zu elements, spacing %.5g x %.5g mm, aperture "
-        "%.5g x %.5g mm (element centres)\n",
-        std::string(ToString(c.lattice)).c_str(), c.count_x, c.count_y, c.elements(),
-        c.spacing_x_m * 1e3, c.spacing_y_m * 1e3, c.aperture_x_m() * 1e3, c.aperture_y_m() * 1e3);
+    s += Printf("  lattice      %s, %d x %d = %zu elements, spacing %s x %s, ",
+                std::string(ToString(c.lattice)).c_str(), c.count_x, c.count_y, c.elements(),
+                Length(c.spacing_x_m).c_str(), Length(c.spacing_y_m).c_str()) +
+         "aperture " + Length(c.aperture_x_m()) + " x " + Length(c.aperture_y_m()) +
+         " (element centres)\n";
     s += Printf("  taper        %s; efficiency %.4f (%.2f dB)\n", TaperText(c.taper).c_str(),
                 c.taper_efficiency, ToDb(c.taper_efficiency));
     s += Printf(
