@@ -3,6 +3,7 @@
 // directivity estimate, and every sized candidate's computed figures against its
 // requirements; the candidate design files read back to the array that was checked.
 #include <cmath>
+#include <cstdio>
 #include <filesystem>
 #include <string>
 
@@ -109,6 +110,10 @@ TEST(GratingFree, BruteForceSearchOfComputedPatternsAgrees) {
         HighestOtherLobeDb(k.kind, 0.95 * d.dx, 0.95 * d.dy, theta_s, k.phi_s * kDegree);
     const double outside =
         HighestOtherLobeDb(k.kind, 1.05 * d.dx, 1.05 * d.dy, theta_s, k.phi_s * kDegree);
+    std::printf(
+        "%s, scan 45 deg at phi %g: highest other lobe %.2f dB at 0.95 of the spacing, "
+        "%.2f dB at 1.05\n",
+        std::string(ToString(k.kind)).c_str(), k.phi_s, inside, outside);
     EXPECT_LT(inside, -1.0) << ToString(k.kind) << " phi " << k.phi_s;
     EXPECT_GT(outside, -1.0) << ToString(k.kind) << " phi " << k.phi_s;
   }
