@@ -4,36 +4,12 @@
 #include <cmath>
 #include <limits>
 
+#include "engine/analysis/local_search.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 
 namespace lobecast {
 namespace {
-
-// Golden-section minimum of f on [lo, hi].
-template <typename F>
-double GoldenMin(F f, double lo, double hi, int iterations) {
-  const double g = 0.5 * (std::sqrt(5.0) - 1.0);
-  double a = lo, b = hi;
-  double c = b - g * (b - a), d = a + g * (b - a);
-  double fc = f(c), fd = f(d);
-  for (int i = 0; i < iterations; ++i) {
-    if (fc < fd) {
-      b = d;
-      d = c;
-      fd = fc;
-      c = b - g * (b - a);
-      fc = f(c);
-    } else {
-      a = c;
-      c = d;
-      fc = fd;
-      d = a + g * (b - a);
-      fd = f(d);
-    }
-  }
-  return std::min(fc, fd);
-}
 
 void CheckRegion(const ScanRegion& r) {
   if (!(r.sin_xz >= 0 && r.sin_xz < 1 && r.sin_yz >= 0 && r.sin_yz < 1))
@@ -59,7 +35,8 @@ double DistanceToRegion(double pu, double pv, const ScanRegion& region) {
     if (d < best_d) best_d = d, best = i;
   }
   const double step = 2 * kPi / kSamples;
-  return std::min(best_d, GoldenMin(dist, (best - 1) * step, (best + 1) * step, 60));
+  return std::min(best_d,
+                  MinimizeOnInterval(dist, (best - 1) * step, (best + 1) * step, 1e-12).value);
 }
 
 double GratingLobeMargin(LatticeKind kind, double dx, double dy, const ScanRegion& region) {

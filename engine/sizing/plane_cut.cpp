@@ -5,6 +5,7 @@
 #include <complex>
 #include <limits>
 
+#include "engine/analysis/local_search.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 
@@ -13,20 +14,10 @@ namespace {
 
 constexpr double kTwoPi = 2 * kPi;
 
-// Golden-section search for the minimum of f on [lo, hi]; returns the abscissa.
+// The abscissa of the minimum of f on [lo, hi] (golden sections, local_search.h).
 template <typename F>
 double ArgMin(F f, double lo, double hi) {
-  const double g = 0.5 * (std::sqrt(5.0) - 1.0);
-  double a = lo, b = hi, c = b - g * (b - a), d = a + g * (b - a);
-  double fc = f(c), fd = f(d);
-  for (int i = 0; i < 50; ++i) {
-    if (fc < fd) {
-      b = d, d = c, fd = fc, c = b - g * (b - a), fc = f(c);
-    } else {
-      a = c, c = d, fc = fd, d = a + g * (b - a), fd = f(d);
-    }
-  }
-  return fc < fd ? c : d;
+  return MinimizeOnInterval(f, lo, hi, 1e-10 * std::max(1.0, std::abs(hi - lo))).x;
 }
 
 // |sum w_n exp(j 2 pi s x_n)|.

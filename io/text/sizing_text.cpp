@@ -6,6 +6,7 @@
 #include "engine/constants.h"
 #include "engine/decibels.h"
 #include "engine/sizing/grating_free.h"
+#include "io/text/design_text.h"
 #include "io/text/json_writer.h"
 #include "io/text/number_text.h"
 #include "io/text/text_format.h"
@@ -13,25 +14,6 @@
 
 namespace lobecast::text {
 namespace {
-
-std::string Num(double v) {
-  std::string s;
-  AppendShortest(s, v);
-  return s;
-}
-
-std::string Escaped(const std::string& in) {
-  std::string out;
-  for (char ch : in) {
-    if (ch == '"' || ch == '\\') out += '\\';
-    if (ch == '\n') {
-      out += "\\n";
-      continue;
-    }
-    out += ch;
-  }
-  return out;
-}
 
 // "433.92 MHz", "10.5 GHz": the frequency in the unit that reads best.
 std::string Frequency(double hz) {
@@ -151,32 +133,32 @@ std::string CandidateDesign(const RequirementsFile& rf, const SizingCandidate& c
   for (const Shortfall& f : c.shortfalls) t += "# MISSES: " + ShortfallText(f) + "\n";
   t += "# Steer it with a [steer] table (theta, phi); lengths below are metres.\n\n";
   t += "name = \"" +
-       Escaped((rf.name.empty() ? std::string("sized array") : rf.name) + ", candidate " +
-               std::to_string(rank)) +
+       TomlEscaped((rf.name.empty() ? std::string("sized array") : rf.name) + ", candidate " +
+                   std::to_string(rank)) +
        "\"\n";
-  if (!rf.description.empty()) t += "description = \"" + Escaped(rf.description) + "\"\n";
-  t += "frequency = " + Num(r.frequency_hz) + "   # Hz\n";
+  if (!rf.description.empty()) t += "description = \"" + TomlEscaped(rf.description) + "\"\n";
+  t += "frequency = " + ShortestNumber(r.frequency_hz) + "   # Hz\n";
   t += "ground = \"" + std::string(ToString(r.ground)) + "\"\n";
   t += "length_unit = \"m\"\n";
   const double step = CheckGridStepDeg(c);
   t += "\n[grid]   # the grid the check computed on\n";
   t += "theta = { start = 0, stop = " + std::string(r.ground == Ground::kPec ? "90" : "180") +
-       ", step = " + Num(step) + " }\n";
-  t += "phi = { start = 0, stop = 360, step = " + Num(step) + " }\n";
+       ", step = " + ShortestNumber(step) + " }\n";
+  t += "phi = { start = 0, stop = 360, step = " + ShortestNumber(step) + " }\n";
   t += "\n[element]\norientation = [" +
        std::string(r.polarization.x() != 0 ? "1, 0, 0" : "0, 1, 0") + "]\n";
-  t += "length = " + Num(r.element_length_m) +
+  t += "length = " + ShortestNumber(r.element_length_m) +
        Printf("   # %.4g wavelength\n", r.element_length_m / lambda);
   t += "distribution = \"uniform\"\n";
   t += "\n[lattice]\nkind = \"" + std::string(ToString(c.lattice)) + "\"\n";
   t += "count = [" + std::to_string(c.count_x) + ", " + std::to_string(c.count_y) + "]   # " +
        std::to_string(c.elements()) + " elements\n";
-  t += "spacing = [" + Num(c.spacing_x_m) + ", " + Num(c.spacing_y_m) +
+  t += "spacing = [" + ShortestNumber(c.spacing_x_m) + ", " + ShortestNumber(c.spacing_y_m) +
        Printf("]   # %.4f x %.4f wavelength\n", c.spacing_x_m / lambda, c.spacing_y_m / lambda);
-  if (r.ground == Ground::kPec) t += "center = [0, 0, " + Num(r.ground_height_m) + "]\n";
+  if (r.ground == Ground::kPec) t += "center = [0, 0, " + ShortestNumber(r.ground_height_m) + "]\n";
   t += "\n[taper]\nkind = \"" + std::string(ToString(c.taper.kind)) + "\"\n";
   if (c.taper.kind != TaperKind::kUniform)
-    t += "sidelobe_db = " + Num(c.taper.sidelobe_db) +
+    t += "sidelobe_db = " + ShortestNumber(c.taper.sidelobe_db) +
          "   # design parameter, lowered until the predicted cuts met the requirement\n";
   if (c.taper.kind == TaperKind::kTaylor || c.taper.kind == TaperKind::kCircularTaylor)
     t += "nbar = " + std::to_string(c.taper.nbar) + "\n";
@@ -282,26 +264,24 @@ std::string SizingJson(const RequirementsFile& rf, const SizingResult& res,
   j.Member("format", "lobecast.sizing");
   j.Member("software_version", SoftwareVersion());
   j.Member("requirements_file", rf.source_path);
+  const auto pair = [&](const char* key, double a, double b) {
+    j.Key(key);
+    j.BeginArray();
+    j.Number(a);
+    j.Number(b);
+    j.EndArray();
+  };
   j.Key("requirements");
   j.BeginObject();
   j.Member("frequency_hz", r.frequency_hz);
   j.Key("directivity_dbi");
   r.directivity_dbi ? j.Number(*r.directivity_dbi) : j.Null();
-  j.Key("beamwidth_deg");
-  if (r.beamwidth_xz_deg) {
-    j.BeginArray();
-    j.Number(*r.beamwidth_xz_deg);
-    j.Number(*r.beamwidth_yz_deg);
-    j.EndArray();
-  } else {
-    j.Null();
-  }
+  if (r.beamwidth_xz_deg)
+    pair("beamwidth_deg", *r.beamwidth_xz_deg, *r.beamwidth_yz_deg);
+  else
+    j.Key("beamwidth_deg"), j.Null();
   j.Member("sidelobe_db", r.sidelobe_db);
-  j.Key("scan_deg");
-  j.BeginArray();
-  j.Number(r.scan_xz_deg);
-  j.Number(r.scan_yz_deg);
-  j.EndArray();
+  pair("scan_deg", r.scan_xz_deg, r.scan_yz_deg);
   j.Member("ground", ToString(r.ground));
   j.Member("ground_height_m", r.ground_height_m);
   j.Member("polarization", Axis(r.polarization));
@@ -339,16 +319,8 @@ std::string SizingJson(const RequirementsFile& rf, const SizingResult& res,
     j.Int(c.count_y);
     j.EndArray();
     j.MemberInt("elements", static_cast<long long>(c.elements()));
-    j.Key("spacing_m");
-    j.BeginArray();
-    j.Number(c.spacing_x_m);
-    j.Number(c.spacing_y_m);
-    j.EndArray();
-    j.Key("largest_spacing_m");
-    j.BeginArray();
-    j.Number(c.largest_spacing_x_m);
-    j.Number(c.largest_spacing_y_m);
-    j.EndArray();
+    pair("spacing_m", c.spacing_x_m, c.spacing_y_m);
+    pair("largest_spacing_m", c.largest_spacing_x_m, c.largest_spacing_y_m);
     j.Key("taper");
     j.BeginObject();
     j.Member("kind", ToString(c.taper.kind));
