@@ -35,12 +35,13 @@ void RunSize(const SizeArgs& args) {
   const auto path_of = [&](std::size_t rank) {
     return (std::filesystem::path(args.folder) / text::CandidateFileName(rank)).string();
   };
+  // Refuse a path that cannot be replaced before any work.
+  for (std::size_t i = 1; i <= kMaxSizingCandidates; ++i) RequireReplaceable(path_of(i));
   SizingOptions options;
   options.check = !args.no_check;
   options.threads = args.threads;
   const SizingResult result = SizeArray(req.requirements, options);
   const std::size_t count = result.candidates.size();
-  for (std::size_t i = 0; i < count; ++i) RequireReplaceable(path_of(i + 1));
 
   // Every file complete before any is moved into place.
   std::vector<std::string> temporaries;

@@ -8,6 +8,7 @@
 #include <limits>
 
 #include "engine/analysis/pattern_analysis.h"
+#include "engine/check.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
@@ -471,6 +472,7 @@ SizingResult SizeArray(const SizingRequirements& req, const SizingOptions& optio
       out.candidates.push_back(c);
     }
   }
+  LOBECAST_CHECK_LE(out.candidates.size(), kMaxSizingCandidates);
   std::stable_sort(out.candidates.begin(), out.candidates.end(), Better);
   const SizingCandidate& best = out.candidates.front();
   const bool best_meets = best.checked ? best.meets : best.predicted_shortfalls.empty();

@@ -119,6 +119,9 @@ struct SizingResult {
   double seconds = 0;
 };
 
+// Candidates SizeArray returns at most: rectangular with three tapers, triangular with one.
+inline constexpr std::size_t kMaxSizingCandidates = 4;
+
 // Throws InvalidArgument for invalid requirements (Validate).
 SizingResult SizeArray(const SizingRequirements& req, const SizingOptions& options = {});
 
