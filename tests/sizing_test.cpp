@@ -281,6 +281,27 @@ max_elements = 100
   EXPECT_GT(f.reached, 24.5);
 }
 
+TEST(Sizing, AMaxApertureThatBindsTheBeamwidthIsNamed) {
+  const SizingRequirements req = Requirements(R"(frequency = "10 GHz"
+beamwidth_deg = [5, 30]
+sidelobe_db = -20
+ground = "pec"
+lattice = "rectangular"
+max_aperture = [0.1, 0.5]
+)");
+  SizingOptions o;
+  o.check = false;
+  const SizingResult res = SizeArray(req, o);
+  ASSERT_FALSE(res.binding.empty());
+  const Shortfall& f = res.binding.front();
+  EXPECT_EQ(f.what, Requirement::kBeamwidthXZ);
+  EXPECT_EQ(f.bound_by, Constraint::kMaxApertureX);
+  EXPECT_EQ(f.asked, 5);
+  // 0.1 m is 3.3 wavelengths: a tapered beam about 50.8 deg / 3.3 wide, or more.
+  EXPECT_GT(f.reached, 50.8 / 3.34);
+  for (const SizingCandidate& c : res.candidates) EXPECT_LE(c.aperture_x_m(), 0.1 + 1e-12);
+}
+
 // The design file of every candidate reads back (through the design reader, as synth
 // and compute read it) to exactly the array and currents the check computed.
 TEST(SizingText, CandidateFilesReadBackToTheCheckedArray) {
