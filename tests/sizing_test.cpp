@@ -143,6 +143,9 @@ double ComputedDirectivityDbi(TaperKind taper, double theta0_deg, Ground ground)
   const double t0 = theta0_deg;
   const PatternResult r =
       ComputePattern(ca.array, i, AngularGrid::FromRanges({t0, t0, 1}, {0, 0, 1}));
+  std::printf("32 x 32 %s, %s, theta0 %g deg: D %.3f dBi\n", std::string(ToString(taper)).c_str(),
+              ground == Ground::kPec ? "pec" : "free space", theta0_deg,
+              10 * std::log10(r.directivity[0]));
   return 10 * std::log10(r.directivity[0]);
 }
 

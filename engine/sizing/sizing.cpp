@@ -266,9 +266,15 @@ Sized SizeOnce(const SizingRequirements& req, LatticeKind kind, TaperKind taper_
   if (req.beamwidth_yz_deg && !(c.beamwidth_yz_deg <= *req.beamwidth_yz_deg))
     miss.push_back({Requirement::kBeamwidthYZ, *req.beamwidth_yz_deg, c.beamwidth_yz_deg, 0,
                     ScanPlane::kYZ, s.elements_capped ? Constraint::kMaxElements : s.capped_y});
-  if (c.sidelobe_db > req.sidelobe_db)
-    miss.push_back({Requirement::kSidelobes, req.sidelobe_db, c.sidelobe_db, 0, ScanPlane::kXZ,
-                    Constraint::kTaper});
+  if (c.sidelobe_db > req.sidelobe_db) {
+    // Named at the beam state of the worst predicted cut.
+    Shortfall f{Requirement::kSidelobes, req.sidelobe_db,   c.sidelobe_db, 0,
+                ScanPlane::kXZ,          Constraint::kTaper};
+    if (c.sidelobe_scan_xz_db == c.sidelobe_db) f.scan_theta_deg = req.scan_xz_deg;
+    if (c.sidelobe_scan_yz_db == c.sidelobe_db)
+      f.scan_theta_deg = req.scan_yz_deg, f.scan_plane = ScanPlane::kYZ;
+    miss.push_back(f);
+  }
   return s;
 }
 

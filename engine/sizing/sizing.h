@@ -45,6 +45,8 @@ namespace lobecast {
 enum class Requirement { kDirectivity, kBeamwidthXZ, kBeamwidthYZ, kSidelobes, kGratingLobes };
 std::string_view ToString(Requirement r);  // "directivity", "beamwidth_xz", ...
 
+// kTaper: the taper's design level reached its floor (-80 dB) and the predicted side
+// lobes still miss (the outline, not the taper, sets them).
 enum class Constraint { kNone, kMaxElements, kMaxApertureX, kMaxApertureY, kTaper };
 std::string_view ToString(Constraint c);  // "none", "max_elements", "max_aperture_x", ...
 

@@ -98,7 +98,10 @@ std::string ShortfallText(const Shortfall& f) {
                  static_cast<int>(f.reached), beam.c_str());
       break;
   }
-  if (f.bound_by != Constraint::kNone) s += "; bound by " + std::string(ToString(f.bound_by));
+  if (f.bound_by == Constraint::kTaper)
+    s += "; the taper's design level is at its floor (-80 dB): the outline sets these lobes";
+  else if (f.bound_by != Constraint::kNone)
+    s += "; bound by " + std::string(ToString(f.bound_by));
   return s;
 }
 
