@@ -17,5 +17,6 @@ void AddSynthCommand(CLI::App& app);
 // link budgets and RF-exposure distances (issue 17)
 void AddLinkCommand(CLI::App& app);
 void AddExposureCommand(CLI::App& app);
+void AddSizeCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

@@ -33,6 +33,7 @@ int main(int argc, char** argv) {
   lobecast::cli::AddSynthCommand(app);
   lobecast::cli::AddLinkCommand(app);
   lobecast::cli::AddExposureCommand(app);
+  lobecast::cli::AddSizeCommand(app);
 
   try {
     app.parse(argc, argv);

@@ -48,11 +48,19 @@ inline std::filesystem::path TempWorkDir(const std::string& prefix, const std::s
   return d;
 }
 
-// The sample arrays (*.toml in LOBECAST_SAMPLES), full paths in sorted order.
+// Requirements files for `lobecast size` (requirements-*.toml) sit among the samples
+// but are not arrays.
+inline bool IsRequirementsSample(const std::filesystem::path& p) {
+  return p.filename().string().rfind("requirements-", 0) == 0;
+}
+
+// The sample arrays (*.toml in LOBECAST_SAMPLES but requirements-*.toml), full paths in
+// sorted order.
 inline std::vector<std::string> SampleArrays() {
   std::vector<std::string> v;
   for (const auto& e : std::filesystem::directory_iterator(LOBECAST_SAMPLES)) {
-    if (e.path().extension() == ".toml") v.push_back(e.path().string());
+    if (e.path().extension() == ".toml" && !IsRequirementsSample(e.path()))
+      v.push_back(e.path().string());
   }
   std::sort(v.begin(), v.end());
   return v;

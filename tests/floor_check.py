@@ -240,7 +240,8 @@ def scan_csv(b, text, what):
 
 def main():
     a = arguments()
-    inputs = sorted(glob.glob(os.path.join(a.samples, "*.toml")))
+    inputs = sorted(p for p in glob.glob(os.path.join(a.samples, "*.toml"))
+                   if not os.path.basename(p).startswith("requirements-"))  # not arrays
     for name, text in OWN.items():
         path = os.path.join(a.workdir, name + ".toml")
         with open(path, "w") as f:

@@ -10,16 +10,14 @@
 #include "io/version.h"
 
 namespace lobecast::text {
-namespace {
 
-std::string Num(double v) {
+std::string ShortestNumber(double v) {
   std::string s;
   AppendShortest(s, v);
   return s;
 }
 
-// A TOML basic string's content.
-std::string Escaped(const std::string& in) {
+std::string TomlEscaped(const std::string& in) {
   std::string out;
   for (char ch : in) {
     if (ch == '"' || ch == '\\') out += '\\';
@@ -31,6 +29,8 @@ std::string Escaped(const std::string& in) {
   }
   return out;
 }
+
+namespace {
 
 std::string Vec(const Vec3& v) {
   std::string s = "[";
@@ -231,20 +231,20 @@ ArrayFileText ArrayFile(const ArrayDescription& desc, const std::string& csv_nam
   if (desc.design && desc.design->steering && desc.design->steering->mode == SteeringMode::kDelay)
     t += "# The phases below are the true-time-delay steering at the design frequency.\n";
   t += "\n";
-  if (!desc.name.empty()) t += "name = \"" + Escaped(desc.name) + "\"\n";
-  if (!desc.description.empty()) t += "description = \"" + Escaped(desc.description) + "\"\n";
-  t += "frequency = " + Num(desc.array.frequency_hz) + "   # Hz\n";
+  if (!desc.name.empty()) t += "name = \"" + TomlEscaped(desc.name) + "\"\n";
+  if (!desc.description.empty()) t += "description = \"" + TomlEscaped(desc.description) + "\"\n";
+  t += "frequency = " + ShortestNumber(desc.array.frequency_hz) + "   # Hz\n";
   t += "ground = \"" + std::string(ToString(desc.array.ground)) + "\"\n";
   t += "length_unit = \"m\"\n";
   if (desc.reference_impedance_ohm != 50)
-    t += "reference_impedance = " + Num(desc.reference_impedance_ohm) + "\n";
+    t += "reference_impedance = " + ShortestNumber(desc.reference_impedance_ohm) + "\n";
   const bool csv = !csv_name.empty() && WritesCsv(desc);
   if (csv)
     t += "dipoles_csv = \"" + csv_name + "\"   # " + std::to_string(desc.array.size()) +
          " dipoles\n";
   auto range = [](const AngleRange& r) {
-    return "{ start = " + Num(r.start_deg) + ", stop = " + Num(r.stop_deg) +
-           ", step = " + Num(r.step_deg) + " }";
+    return "{ start = " + ShortestNumber(r.start_deg) + ", stop = " + ShortestNumber(r.stop_deg) +
+           ", step = " + ShortestNumber(r.step_deg) + " }";
   };
   t += "\n[grid]\ntheta = " + range(desc.theta) + "\nphi = " + range(desc.phi) + "\n";
 
@@ -265,14 +265,15 @@ ArrayFileText ArrayFile(const ArrayDescription& desc, const std::string& csv_nam
     for (std::size_t i = 0; i < desc.array.size(); ++i) {
       const Dipole& d = desc.array.dipoles[i];
       const auto [mag, ph] = PolarOf(desc, i);
-      c += Num(d.position_m.x()) + ", " + Num(d.position_m.y()) + ", " + Num(d.position_m.z()) +
-           ", " + Num(d.orientation.x()) + ", " + Num(d.orientation.y()) + ", " +
-           Num(d.orientation.z()) + ", " + Num(d.length_m) + ", " + Num(mag) + ", " + Num(ph) +
+      c += ShortestNumber(d.position_m.x()) + ", " + ShortestNumber(d.position_m.y()) + ", " +
+           ShortestNumber(d.position_m.z()) + ", " + ShortestNumber(d.orientation.x()) + ", " +
+           ShortestNumber(d.orientation.y()) + ", " + ShortestNumber(d.orientation.z()) + ", " +
+           ShortestNumber(d.length_m) + ", " + ShortestNumber(mag) + ", " + ShortestNumber(ph) +
            ", " + std::string(ToString(d.distribution));
       const Wire& w = desc.wires[i];
-      if (any_radius) c += ", " + (w.radius_m > 0 ? Num(w.radius_m) : "");
-      if (any_x) c += ", " + (std::isnan(w.reactance_ohm) ? "" : Num(w.reactance_ohm));
-      if (any_sigma) c += ", " + (w.conductivity_s_m > 0 ? Num(w.conductivity_s_m) : "");
+      if (any_radius) c += ", " + (w.radius_m > 0 ? ShortestNumber(w.radius_m) : "");
+      if (any_x) c += ", " + (std::isnan(w.reactance_ohm) ? "" : ShortestNumber(w.reactance_ohm));
+      if (any_sigma) c += ", " + (w.conductivity_s_m > 0 ? ShortestNumber(w.conductivity_s_m) : "");
       c += "\n";
     }
     return out;
@@ -282,24 +283,26 @@ ArrayFileText ArrayFile(const ArrayDescription& desc, const std::string& csv_nam
     t += "\n[[dipole]]   # " + std::to_string(i) + "\n";
     t += "position = " + Vec(d.position_m) + "\n";
     t += "orientation = " + Vec(d.orientation) + "\n";
-    t += "length = " + Num(d.length_m) + "\n";
+    t += "length = " + ShortestNumber(d.length_m) + "\n";
     t += "distribution = \"" + std::string(ToString(d.distribution)) + "\"\n";
     const Wire& w = desc.wires[i];
-    if (w.radius_m > 0) t += "radius = " + Num(w.radius_m) + "\n";
-    if (!std::isnan(w.reactance_ohm)) t += "self_reactance = " + Num(w.reactance_ohm) + "\n";
-    if (w.conductivity_s_m > 0) t += "conductivity = " + Num(w.conductivity_s_m) + "\n";
+    if (w.radius_m > 0) t += "radius = " + ShortestNumber(w.radius_m) + "\n";
+    if (!std::isnan(w.reactance_ohm))
+      t += "self_reactance = " + ShortestNumber(w.reactance_ohm) + "\n";
+    if (w.conductivity_s_m > 0) t += "conductivity = " + ShortestNumber(w.conductivity_s_m) + "\n";
     const Port& p = desc.ports[i];
     if (p.kind == PortKind::kCurrent) {
       const auto [mag, ph] = PolarOf(desc, i);
-      t += "current = { magnitude = " + Num(mag) + ", phase = " + Num(ph) + " }\n";
+      t += "current = { magnitude = " + ShortestNumber(mag) + ", phase = " + ShortestNumber(ph) +
+           " }\n";
     } else if (p.kind == PortKind::kDrive) {
-      t += "drive = { voltage = " + Num(std::abs(p.voltage_v)) +
-           ", phase = " + Num(std::arg(p.voltage_v) / kDegree) +
-           ", resistance = " + Num(p.impedance_ohm.real()) +
-           ", reactance = " + Num(p.impedance_ohm.imag()) + " }\n";
+      t += "drive = { voltage = " + ShortestNumber(std::abs(p.voltage_v)) +
+           ", phase = " + ShortestNumber(std::arg(p.voltage_v) / kDegree) +
+           ", resistance = " + ShortestNumber(p.impedance_ohm.real()) +
+           ", reactance = " + ShortestNumber(p.impedance_ohm.imag()) + " }\n";
     } else {
-      t += "load = { resistance = " + Num(p.impedance_ohm.real()) +
-           ", reactance = " + Num(p.impedance_ohm.imag()) + " }\n";
+      t += "load = { resistance = " + ShortestNumber(p.impedance_ohm.real()) +
+           ", reactance = " + ShortestNumber(p.impedance_ohm.imag()) + " }\n";
     }
   }
   return out;

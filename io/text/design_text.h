@@ -10,6 +10,12 @@
 
 namespace lobecast::text {
 
+// The shortest text that reads back as v ("0.01", "1.05e+10"), and the content of a
+// TOML basic string (quotes, backslashes and newlines escaped): for every file written
+// from a design (ArrayFile, the sizing candidates).
+std::string ShortestNumber(double v);
+std::string TomlEscaped(const std::string& in);
+
 // Lines: lattice and element count, taper and its efficiency, steering, grating
 // lobes, notes of the excitation synthesis. Empty for a plain array description.
 std::string DescribeDesign(const ArrayDescription& desc);
