@@ -14,5 +14,6 @@ void AddReportCommand(CLI::App& app);
 void AddExportCommand(CLI::App& app);
 void AddScanCommand(CLI::App& app);
 void AddSynthCommand(CLI::App& app);
+void AddToleranceCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

@@ -31,6 +31,7 @@ int main(int argc, char** argv) {
   lobecast::cli::AddExportCommand(app);
   lobecast::cli::AddScanCommand(app);
   lobecast::cli::AddSynthCommand(app);
+  lobecast::cli::AddToleranceCommand(app);
 
   try {
     app.parse(argc, argv);
