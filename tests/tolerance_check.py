@@ -22,11 +22,11 @@ def run(*args):
     return subprocess.run([a.lobecast, *args], capture_output=True, text=True)
 
 
-def study(name, *extra):
+def study(name, *extra, seed="7"):
     out = os.path.join(work, name)
     if os.path.exists(out):
         os.remove(out)
-    r = run("tolerance", sample, "--trials", "40", "--seed", "7", "--amplitude-db", "0.5",
+    r = run("tolerance", sample, "--trials", "40", "--seed", seed, "--amplitude-db", "0.5",
             "--phase-deg", "5", "--position", "0.1 mm", "--failed-count", "2", "-q", "-o", out,
             *extra)
     check(r.returncode == 0, f"tolerance {name} exits 0 (got {r.returncode}: {r.stderr.strip()})")
@@ -37,7 +37,7 @@ plots = os.path.join(work, "plots")
 os.makedirs(plots, exist_ok=True)
 one = study("one.h5", "--threads", "1", "--plots", plots)
 two = study("two.h5", "--threads", "2")
-other = study("other.h5", "--threads", "2", "--seed", "8")
+other = study("other.h5", "--threads", "2", seed="8")
 computed = os.path.join(work, "compute.h5")
 r = run("compute", sample, "-q", "--method", "direct", "-o", computed)
 check(r.returncode == 0, "compute of the sample")
