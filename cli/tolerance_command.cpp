@@ -9,6 +9,7 @@
 #include <string>
 #include <vector>
 
+#include "cli/analysis_setup.h"
 #include "cli/commands.h"
 #include "cli/enum_names.h"
 #include "cli/option_checks.h"
@@ -20,13 +21,11 @@
 #include "engine/grid.h"
 #include "engine/tolerance/tolerance.h"
 #include "io/hdf5/analysis_writer.h"
-#include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
 #include "io/hdf5/schema.h"
 #include "io/hdf5/tolerance_writer.h"
 #include "io/input/array_reader.h"
-#include "io/input/solve_circuit.h"
 #include "io/input/units.h"
 #include "io/plot/tolerance_plot.h"
 #include "io/safety_note.h"
@@ -121,25 +120,16 @@ void RunTolerance(const ToleranceArgs& args) {
 
   // The error-free result is a full result file (report, plot and export read it),
   // with its analysis, and the study under /tolerance.
-  std::optional<PatternAnalysis> analysis;
   AnalysisOptions analysis_options;
   analysis_options.reference = AutoReference(study.baseline);
-  try {
-    analysis = AnalyzePattern(desc.array, desc.currents, study.baseline, analysis_options);
-  } catch (const InvalidArgument& e) {
-    PrintWarnings({std::string("pattern analysis skipped: ") + e.what()});
-  }
-  ResultMetadata meta;
-  meta.name = desc.name;
-  meta.description = desc.description;
-  meta.input_text = desc.source_text;
-  meta.input_path = desc.source_path;
+  const std::optional<PatternAnalysis> analysis =
+      AnalyzeOrWarn(desc, study.baseline, analysis_options);
   ResultWriteOptions write_options;
   write_options.before_finish = [&](PatternFileWriter& w) {
     if (analysis) WriteAnalysis(w, *analysis, analysis_options);
     WriteTolerance(w, study, o, desc.array.wavelength_m());
   };
-  WriteResult(output, desc.array, desc.currents, study.baseline, meta, write_options);
+  WriteResult(output, desc.array, desc.currents, study.baseline, MetadataOf(desc), write_options);
 
   if (!args.plots_dir.empty()) {
     // The baseline as the file holds it; the statistics as written from memory.

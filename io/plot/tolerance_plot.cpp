@@ -156,6 +156,9 @@ double EnvelopeGeometry::YOf(double dbi) const {
 }
 
 CutSpec EnvelopeCut(const StoredResult& baseline, const Vec3& beam) {
+  // A grid of one theta row (a cone, e.g. the horizon) is cut along it.
+  if (baseline.result.grid.theta_deg.size() == 1)
+    return {CutPlane::kThetaConstant, baseline.result.grid.theta_deg.front()};
   const double rho = std::hypot(beam.x(), beam.y());
   double phi = rho == 0.0 ? 0.0 : std::atan2(beam.y(), beam.x()) / kDegree;
   if (phi < 0) phi += 360.0;
@@ -220,7 +223,10 @@ EnvelopeGeometry WriteEnvelopePlot(const StoredResult& baseline, const Tolerance
   for (double a = x_step * std::ceil(g.angle_min_deg / x_step - 1e-9); a <= g.angle_max_deg + 1e-9;
        a += x_step)
     DrawGridColumn(c, box, g.XOf(a), Tick(a));
-  DrawAxisTitlesAndOutline(c, box, "signed theta (deg); negative on the phi + 180 side",
+  DrawAxisTitlesAndOutline(c, box,
+                           spec.plane == CutPlane::kThetaConstant
+                               ? "phi (deg), from +x toward +y"
+                               : "signed theta (deg); negative on the phi + 180 side",
                            "directivity (dBi)");
 
   cairo_save(cr);

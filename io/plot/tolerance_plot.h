@@ -44,8 +44,9 @@ struct EnvelopeGeometry {
   double YOf(double dbi) const;  // clamped to the frame
 };
 
-// The cut through the beam for the envelope: the grid phi nearest to the beam's
-// (0 when the beam is on the z axis).
+// The cut through the beam for the envelope: the phi = P plane with P the grid phi
+// nearest to the beam's (0 when the beam is on the z axis); the theta cone of a grid
+// with one theta row.
 CutSpec EnvelopeCut(const StoredResult& baseline, const Vec3& beam_r_hat);
 
 EnvelopeGeometry WriteEnvelopePlot(const StoredResult& baseline, const ToleranceResult& study,
