@@ -141,16 +141,17 @@ void RunTolerance(const ToleranceArgs& args) {
     const std::filesystem::path dir(args.plots_dir);
     plot::WriteEnvelopePlot(stored, study, plot::EnvelopeCut(stored, study.beam_r_hat), line,
                             (dir / (stem + "-envelope.png")).string());
-    schema::VisitTrialScalars<TrialFigures>(
-        [&](const schema::Dataset& d, const char* what, auto value) {
-          // A count is the same in every trial: its histogram would say nothing.
-          if (d.name() == "failed_elements" && o.errors.failure_probability == 0) return;
-          std::vector<double> v;
-          for (const TrialFigures& t : study.trials) v.push_back(value(t));
-          plot::WriteHistogram(stored, v, value(study.baseline_figures), what,
-                               std::string(what) + " (" + std::string(d.units) + ")", line,
-                               (dir / (stem + "-" + std::string(d.name()) + ".png")).string());
-        });
+    schema::VisitTrialScalars<TrialFigures>([&](const schema::Dataset& d, const char* what,
+                                                auto value) {
+      // A count is the same in every trial: its histogram would say nothing.
+      if (d.name() == "failed_elements" && o.errors.failure_probability == 0) return;
+      std::vector<double> v;
+      for (const TrialFigures& t : study.trials) v.push_back(value(t));
+      plot::WriteHistogram(stored, v, value(study.baseline_figures), what,
+                           d.units == "1" ? std::string(what)
+                                          : std::string(what) + " (" + std::string(d.units) + ")",
+                           line, (dir / (stem + "-" + std::string(d.name()) + ".png")).string());
+    });
   }
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {

@@ -21,7 +21,9 @@ std::string Cell(double v) {
 // One table row: name (unit), baseline, mean, std, min, percentiles, max.
 std::string Row(const std::string& what, const std::string& unit, double baseline,
                 const ScalarStatistics& st, bool with_std = true) {
-  std::string s = Printf("  %-46s", (what + " (" + unit + ")").c_str());
+  // Dimensionless figures ("1") name no unit.
+  const std::string label = unit == "1" ? what : what + " (" + unit + ")";
+  std::string s = Printf("  %-46s", label.c_str());
   s += Cell(baseline) + Cell(st.mean) + (with_std ? Cell(st.std_dev) : Printf("%11s", "-")) +
        Cell(st.min);
   for (double p : st.percentiles) s += Cell(p);
