@@ -6,6 +6,7 @@
 
 #include "cli/enum_names.h"
 #include "cli/option_checks.h"
+#include "engine/analysis/pattern_analysis.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/polarization.h"
@@ -47,6 +48,26 @@ std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view
     BadOption(std::string(option), "'" + std::string(text) + "'", std::string(expected));
   }
   return {*a, *b};
+}
+
+std::optional<PatternAnalysis> AnalyzeOrWarn(const ArrayDescription& desc,
+                                             const PatternResult& result,
+                                             const AnalysisOptions& options) {
+  try {
+    return AnalyzePattern(desc.array, desc.currents, result, options);
+  } catch (const InvalidArgument& e) {
+    PrintWarnings({std::string("pattern analysis skipped: ") + e.what()});
+    return std::nullopt;
+  }
+}
+
+ResultMetadata MetadataOf(const ArrayDescription& desc) {
+  ResultMetadata meta;
+  meta.name = desc.name;
+  meta.description = desc.description;
+  meta.input_text = desc.source_text;
+  meta.input_path = desc.source_path;
+  return meta;
 }
 
 }  // namespace lobecast::cli

@@ -10,6 +10,8 @@
 
 #include "engine/analysis/analysis_types.h"
 #include "engine/pattern.h"
+#include "io/hdf5/result_writer.h"
+#include "io/input/array_description.h"
 
 namespace lobecast::cli {
 
@@ -33,6 +35,16 @@ std::optional<PolarizationReference> ParseReference(std::string_view text);
 // throws BadOption's InputError naming the option, what was found and what was expected.
 std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view option,
                                          std::string_view expected);
+
+// The pattern analysis a result file stores (compute, tolerance): AnalyzePattern, or
+// std::nullopt with a warning on stderr when it cannot be made (a failed analysis
+// costs the analysis, not the result).
+std::optional<PatternAnalysis> AnalyzeOrWarn(const ArrayDescription& desc,
+                                             const PatternResult& result,
+                                             const AnalysisOptions& options);
+
+// What a result file records about its input: the description's name, text and path.
+ResultMetadata MetadataOf(const ArrayDescription& desc);
 
 // The automatic choice described in kReferenceHelp: lobecast::AutoReference
 // (engine/analysis/pattern_analysis.h).

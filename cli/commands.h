@@ -18,5 +18,6 @@ void AddSynthCommand(CLI::App& app);
 void AddLinkCommand(CLI::App& app);
 void AddExposureCommand(CLI::App& app);
 void AddSizeCommand(CLI::App& app);
+void AddToleranceCommand(CLI::App& app);
 
 }  // namespace lobecast::cli

@@ -93,19 +93,11 @@ void RunCompute(const ComputeArgs& args) {
     const auto ref = ParseReference(args.reference);
     analysis_options.reference = ref ? *ref : AutoReference(result);
     analysis_options.max_nulls = args.max_nulls;
-    try {
-      analysis = AnalyzePattern(desc.array, desc.currents, result, analysis_options);
-    } catch (const InvalidArgument& e) {
-      PrintWarnings({std::string("pattern analysis skipped: ") + e.what()});
-    }
+    analysis = AnalyzeOrWarn(desc, result, analysis_options);
   }
 
   const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
-  ResultMetadata meta;
-  meta.name = desc.name;
-  meta.description = desc.description;
-  meta.input_text = desc.source_text;
-  meta.input_path = desc.source_path;
+  const ResultMetadata meta = MetadataOf(desc);
   ResultWriteOptions write_options;
   if (analysis || coupling) {
     write_options.before_finish = [&](PatternFileWriter& w) {

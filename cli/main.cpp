@@ -34,6 +34,7 @@ int main(int argc, char** argv) {
   lobecast::cli::AddLinkCommand(app);
   lobecast::cli::AddExposureCommand(app);
   lobecast::cli::AddSizeCommand(app);
+  lobecast::cli::AddToleranceCommand(app);
 
   try {
     app.parse(argc, argv);

@@ -132,6 +132,46 @@ inline constexpr Dataset kVswr{"/coupling/vswr", "1"};
 inline constexpr Dataset kElementAccepted{"/coupling/accepted_w", "W"};
 inline constexpr Dataset kElementSupplied{"/coupling/supplied_w", "W"};
 
+// ---- /tolerance: a Monte Carlo tolerance study (io/hdf5/tolerance_writer.h) ------
+// Per trial (K) and per protected direction (J); per direction of the grid (Nt, Np);
+// percentiles (P) first. Attributes of the group: tolerance_writer.h.
+inline constexpr std::string_view kToleranceGroup = "/tolerance";
+inline constexpr Dataset kTolPercent{"/tolerance/percentile", "%"};                // (P)
+inline constexpr Dataset kTolDirectivityMean{"/tolerance/directivity_mean", "1"};  // (Nt, Np)
+inline constexpr Dataset kTolDirectivityPercentile{"/tolerance/directivity_percentile",
+                                                   "1"};                          // (P, Nt, Np)
+inline constexpr Dataset kTolIntensityMean{"/tolerance/intensity_mean", "W/sr"};  // (Nt, Np)
+inline constexpr Dataset kTolMainBeam{"/tolerance/main_beam", "1"};  // (Nt, Np) 1 = in it, else 0
+inline constexpr Dataset kTolProtectedTheta{"/tolerance/protected_theta_deg", "deg"};  // (J)
+inline constexpr Dataset kTolProtectedPhi{"/tolerance/protected_phi_deg", "deg"};      // (J)
+inline constexpr Dataset kTolProtectedIntensity{"/tolerance/protected_intensity_w_sr",
+                                                "W/sr"};                     // (K, J)
+inline constexpr Dataset kTolNullDepth{"/tolerance/null_depth_db", "dB"};    // (K, J)
+inline constexpr Dataset kTolPeakTheta{"/tolerance/peak_theta_deg", "deg"};  // (K)
+inline constexpr Dataset kTolPeakPhi{"/tolerance/peak_phi_deg", "deg"};      // (K)
+inline constexpr Dataset kTolSummary{"/tolerance/summary", "1"};  // (S, 5 + P), units per row
+inline constexpr Dataset kTolSummaryRows{"/tolerance/summary_rows", "1"};    // (S) strings
+inline constexpr Dataset kTolSummaryUnits{"/tolerance/summary_units", "1"};  // (S) strings
+// The per-trial scalars (K each), in table order: f(dataset, what, value of a trial).
+// The baseline's value of each is the group attribute baseline_<name>.
+template <class Figures, class F>
+void VisitTrialScalars(F&& f) {
+  f(Dataset{"/tolerance/beam_directivity", "1"}, "beam directivity (linear)",
+    [](const Figures& t) { return t.beam_directivity; });
+  f(Dataset{"/tolerance/directivity_loss_db", "dB"}, "directivity loss toward the beam",
+    [](const Figures& t) { return t.directivity_loss_db; });
+  f(Dataset{"/tolerance/peak_sidelobe_db", "dB"}, "peak side lobe re the trial's peak",
+    [](const Figures& t) { return t.peak_sidelobe_db; });
+  f(Dataset{"/tolerance/pointing_error_deg", "deg"}, "pointing error (refined peak)",
+    [](const Figures& t) { return t.pointing_error_deg; });
+  f(Dataset{"/tolerance/peak_directivity", "1"}, "peak directivity (linear, refined)",
+    [](const Figures& t) { return t.peak_directivity; });
+  f(Dataset{"/tolerance/radiated_w", "W"}, "radiated power",
+    [](const Figures& t) { return t.radiated_w; });
+  f(Dataset{"/tolerance/failed_elements", "1"}, "failed elements",
+    [](const Figures& t) { return static_cast<double>(t.failed_elements); });
+}
+
 // ---- Fields of the walks ----------------------------------------------------------
 
 enum class Extra {
