@@ -15,11 +15,13 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
+#include "engine/sweep/frequency_sweep.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "io/hdf5/sweep_writer.h"
 #include "io/input/array_reader.h"
 #include "io/input/solve_circuit.h"
 #include "io/plot/plot.h"
@@ -27,6 +29,7 @@
 #include "io/text/coupling_text.h"
 #include "io/text/report_text.h"
 #include "io/text/summary_text.h"
+#include "io/text/sweep_text.h"
 
 namespace lobecast::cli {
 namespace {
@@ -66,6 +69,52 @@ std::string DefaultOutput(const std::string& input) {
   return std::filesystem::path(input).stem().string() + ".h5";
 }
 
+// How the file describes the sweep's excitation.
+SweepFileInfo SweepInfoOf(const ArrayDescription& desc,
+                          const std::optional<CouplingResult>& coupling) {
+  SweepFileInfo info;
+  if (desc.design && desc.design->steering) info.steering = ToString(desc.design->steering->mode);
+  info.coupled = coupling.has_value();
+  if (coupling) info.gain_definition = RealizedGainReferenceOf(*coupling).definition;
+  return info;
+}
+
+// Every frequency of the description, the design one (already computed) first. The
+// progress bar covers the whole sweep; a line per frequency would drown short ones.
+FrequencySweep RunSweep(const ArrayDescription& desc, const PatternResult& result,
+                        const PatternAnalysis* analysis, const CouplingResult* coupling,
+                        const PatternOptions& options, const AnalysisOptions& analysis_options,
+                        bool quiet) {
+  SweepExcitation excitation;
+  excitation.design_currents_a = desc.currents;
+  if (desc.design && desc.design->steering) {
+    excitation.steering = desc.design->steering;
+    excitation.steered_first = desc.design->first_generated;
+    excitation.steered_count = desc.design->generated;
+  }
+  excitation.coupled = coupling != nullptr;
+  excitation.ports = desc.ports;
+  excitation.wires = desc.wires;
+  excitation.coupling.reference_impedance_ohm = desc.reference_impedance_ohm;
+  excitation.coupling.num_threads = options.field.num_threads;
+  SweepOptions sweep_options;
+  sweep_options.pattern = options;
+  sweep_options.analysis = analysis_options;
+  ProgressBar bar(!quiet);
+  sweep_options.progress = [&bar](std::size_t, double f) { bar.Update(f); };
+  try {
+    FrequencySweep sweep =
+        RunFrequencySweep(desc.array, desc.frequencies_hz, excitation, desc.grid, sweep_options,
+                          DesignPoint{&result, analysis, coupling});
+    bar.Finish();
+    return sweep;
+  } catch (const InvalidArgument& e) {
+    bar.Finish();
+    throw InputError(SourceLocation{desc.source_path, 1, 1},
+                     std::string("frequency sweep rejected: ") + e.what());
+  }
+}
+
 void RunCompute(const ComputeArgs& args) {
   RefuseInapplicable(args);
   RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
@@ -100,6 +149,13 @@ void RunCompute(const ComputeArgs& args) {
     }
   }
 
+  // A frequency sweep (`frequencies`): the design frequency above, then the others.
+  std::optional<FrequencySweep> sweep;
+  if (!desc.frequencies_hz.empty()) {
+    sweep = RunSweep(desc, result, analysis ? &*analysis : nullptr, coupling ? &*coupling : nullptr,
+                     options, analysis_options, args.quiet);
+  }
+
   const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
   ResultMetadata meta;
   meta.name = desc.name;
@@ -107,10 +163,11 @@ void RunCompute(const ComputeArgs& args) {
   meta.input_text = desc.source_text;
   meta.input_path = desc.source_path;
   ResultWriteOptions write_options;
-  if (analysis || coupling) {
+  if (analysis || coupling || sweep) {
     write_options.before_finish = [&](PatternFileWriter& w) {
       if (coupling) WriteCoupling(w, *coupling, desc.ports, result);
       if (analysis) WriteAnalysis(w, *analysis, analysis_options);
+      if (sweep) WriteSweep(w, *sweep, desc.grid, SweepInfoOf(desc, coupling));
     };
   }
   WriteResult(output, desc.array, desc.currents, result, meta, write_options);
@@ -132,6 +189,15 @@ void RunCompute(const ComputeArgs& args) {
           stdout);
     }
     if (analysis) std::fputs(text::AnalysisBrief(*analysis).c_str(), stdout);
+    if (sweep) {
+      const SweepFileInfo info = SweepInfoOf(desc, coupling);
+      StoredSweep table;
+      table.points = sweep->points;
+      table.design_frequency_hz = desc.array.frequency_hz;
+      table.steering = std::string(info.steering);
+      table.coupled = info.coupled;
+      std::fputs(text::SweepTable(table).c_str(), stdout);
+    }
     std::fflush(stdout);
     // The full note is in the file (root attribute safety_note) and the report.
     std::fprintf(stderr, "%s\n", std::string(kSafetyLine).c_str());
