@@ -177,7 +177,7 @@ void RunSweepPlot(const PlotArgs& args) {
   plot::ImageSize size = plot::kSweepPlotSize;
   if (Given(args, "--size")) {
     const auto s = plot::ImageSizeFromString(args.size);
-    if (!s) Bad("--size", args.size, "WIDTHxHEIGHT in px, e.g. 800x1000");
+    if (!s) Bad("--size", args.size, "WIDTHxHEIGHT in px, e.g. 800x1100");
     std::string why;
     if (!s->IsValid(&why)) Bad("--size", args.size, why.substr(why.find("expected ") + 9));
     size = *s;
@@ -274,7 +274,7 @@ void AddPlotCommand(CLI::App& app) {
                   "default 30");
   cmd->add_option("--size", args->size,
                   "Image size WIDTHxHEIGHT in px (points for SVG/PDF), 320x240 .. 8000x8000; "
-                  "default 800x600 (sweep: 800x1000)");
+                  "default 800x600 (sweep: 800x1100)");
   cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
   cmd->callback([args, cmd] {
     for (const CLI::Option* o : cmd->get_options()) {

@@ -40,6 +40,7 @@ ScanPoint Steer(const Array& array, const Eigen::VectorXcd& amplitudes, double t
     p.pointing_error_deg = std::atan2(peak.cross(steer).norm(), peak.dot(steer)) / kDegree;
     p.half_power_first_deg = a.elevation_cut.half_power_width_deg;
     p.half_power_second_deg = a.orthogonal_cut.half_power_width_deg;
+    p.other_major_lobes = static_cast<int>(a.major_lobes.size());
     p.sidelobe_db = a.highest_side_lobe ? a.highest_side_lobe->level_db
                                         : -std::numeric_limits<double>::infinity();
   } catch (const InvalidArgument&) {

@@ -37,6 +37,9 @@ struct ScanPoint {
   double scan_loss_db = kNaN;
   double half_power_first_deg = kNaN, half_power_second_deg = kNaN;  // +inf: not reached
   double sidelobe_db = kNaN;  // highest side lobe re the peak; -inf: none
+  // Other lobes as high as the main beam (PatternAnalysis::major_lobes: a mirror
+  // beam, a full-height grating lobe), which the side-lobe level leaves out.
+  int other_major_lobes = -1;
   // Grating lobes of the lattice in visible space at this steering (-1: no lattice).
   int grating_lobes = -1;
   bool analysed = false;

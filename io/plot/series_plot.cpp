@@ -73,7 +73,7 @@ std::vector<SeriesPanelGeometry> WriteSeriesPlot(const SeriesPlotSpec& spec,
   const double left = std::round(4.6 * f);
   const double width = std::round(c.width() - legend_w - left - 1.0 * f);
   const double bottom_room = 3.4 * f + 1.25 * 0.9 * f * static_cast<double>(caption_lines.size());
-  const double gap = 1.6 * f;
+  const double gap = 2.2 * f;
   const std::size_t np = std::max<std::size_t>(spec.panels.size(), 1);
   const double avail = c.height() - (top_y + 0.6 * f) - bottom_room - gap * (np - 1);
   const double panel_h = std::floor(avail / np);
@@ -101,7 +101,7 @@ std::vector<SeriesPanelGeometry> WriteSeriesPlot(const SeriesPlotSpec& spec,
       DrawGridColumn(c, box, g.XOf(v), last ? Tick(v) : "");
     DrawAxisTitlesAndOutline(c, box, last ? spec.x_title : "", panel.y_title);
     if (spec.marked_x) {
-      c.SetColour(GridColour());
+      c.SetColour(MarkerColour());
       SetDashed(c, 1.4, 5.0);
       cairo_move_to(cr, g.XOf(*spec.marked_x), g.top_px);
       cairo_line_to(cr, g.XOf(*spec.marked_x), g.top_px + g.height_px);

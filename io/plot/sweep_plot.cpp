@@ -28,6 +28,7 @@ SeriesPlotSpec SweepPlotSpec(const StoredResult& result, const StoredSweep& swee
   Series d{"peak directivity", {}},
       gain{design.gain_is_realized ? "realized gain at the peak" : "gain at the peak", {}};
   Series theta{"peak theta", {}}, phi{"peak phi", {}};
+  Series squint{"angle of the peak from the design frequency's", {}};
   Series hp1{"HPBW " + std::string(ToString(design.first_plane)) + " plane", {}};
   Series hp2{"HPBW " + std::string(ToString(design.second_plane)) + " plane", {}};
   Series sll{"highest side lobe", {}};
@@ -37,6 +38,7 @@ SeriesPlotSpec SweepPlotSpec(const StoredResult& result, const StoredSweep& swee
     gain.y.push_back(p.gain_dbi);
     theta.y.push_back(p.peak_theta_deg);
     phi.y.push_back(p.peak_phi_deg);
+    squint.y.push_back(SquintDeg(p, design));
     hp1.y.push_back(p.half_power_first_deg);
     hp2.y.push_back(p.half_power_second_deg);
     sll.y.push_back(p.sidelobe_db);

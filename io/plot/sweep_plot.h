@@ -1,6 +1,6 @@
 // `plot --kind sweep`: a frequency sweep's figures against frequency (series_plot.h):
 // peak directivity (and with a circuit the gain at the peak), the beam direction
-// (theta and phi of the refined peak: the squint of phase steering shows here), the
+// (theta and phi of the refined peak) and its squint from the design frequency's, the
 // half-power beamwidths in the two principal planes, and the side-lobe level. The
 // numbers are the stored /sweep datasets, those `report` prints.
 #pragma once
@@ -15,8 +15,8 @@
 
 namespace lobecast::plot {
 
-// The default size of a sweep plot (four panels): taller than a cut's.
-inline constexpr ImageSize kSweepPlotSize{800, 1000};
+// The default size of a sweep or scan plot (five panels): taller than a cut's.
+inline constexpr ImageSize kSweepPlotSize{800, 1100};
 
 // The plot's content (tests compare it with the stored sweep).
 SeriesPlotSpec SweepPlotSpec(const StoredResult& result, const StoredSweep& sweep);
