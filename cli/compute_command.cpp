@@ -212,7 +212,9 @@ void AddComputeCommand(CLI::App& app) {
       "compute",
       "Compute the far field rE (V), intensity (W/sr), directivity, polarization, radiated "
       "power (W) and resistances (ohm) of an array description on its grid, and write them "
-      "to an HDF5 result file.");
+      "to an HDF5 result file. A file with 'frequencies' is a frequency sweep: every frequency "
+      "is computed and analysed (peak, squint, beamwidths, side-lobe level) into /sweep, the "
+      "first (design) frequency into the usual datasets.");
   cmd->add_option("ARRAY", args->input,
                   "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()

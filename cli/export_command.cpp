@@ -45,11 +45,17 @@ struct ExportArgs {
   bool quiet = false;
   bool step_given = false;
   bool notes_given = false;
-  bool sweep = false;  // the per-frequency table of a sweep instead of the pattern
+  bool sweep = false;              // the per-frequency table of a sweep instead of the pattern
+  std::vector<std::string> given;  // options given on the command line
 };
 
 // `--sweep`: the /sweep table as CSV (io/text/sweep_text.h).
 void RunSweepExport(const ExportArgs& args) {
+  for (const std::string& o : args.given) {
+    if (o != "--sweep" && o != "--output" && o != "--quiet" && o != "RESULT")
+      BadOption(o, "it with --sweep (the sweep's table has one layout)",
+                "only -o and -q with --sweep");
+  }
   RefuseInputAsOutput("--output", args.output, args.input);
   (void)ReadResult(args.input);  // a complete result, or the usual message
   const std::optional<StoredSweep> sweep = ReadSweep(args.input);
@@ -224,16 +230,13 @@ void AddExportCommand(CLI::App& app) {
   cmd->add_flag("--no-notes", args->no_notes, "The same as --notes none");
   cmd->add_flag("-q,--quiet", args->quiet,
                 "Print nothing but warnings and errors besides the table itself");
-  CLI::Option* sweep = cmd->add_flag(
-      "--sweep", args->sweep,
-      "A frequency sweep's table instead of the pattern (CSV): per frequency the peak "
-      "directivity (dBi), its direction and squint (deg), radiated power (W), half-power "
-      "beamwidths (deg), side-lobe level (dB), and with a circuit gain and input match");
-  for (CLI::Option* o : {cut, step, at, notes}) sweep->excludes(o);
-  for (const char* name :
-       {"--format", "--decimal-comma", "--precision", "--coords", "--reference", "--no-notes"})
-    sweep->excludes(cmd->get_option(name));
-  cmd->callback([args, step, notes] {
+  cmd->add_flag("--sweep", args->sweep,
+                "A frequency sweep's table instead of the pattern (CSV): per frequency the peak "
+                "directivity (dBi), its direction and squint (deg), radiated power (W), half-power "
+                "beamwidths (deg), side-lobe level (dB), and with a circuit gain and input match");
+  cmd->callback([args, step, notes, cmd] {
+    for (const CLI::Option* o : cmd->get_options())
+      if (o->count() > 0) args->given.push_back(o->get_name());
     args->step_given = step->count() > 0;
     args->notes_given = notes->count() > 0;
     RunExport(*args);
