@@ -21,10 +21,12 @@
 #include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "io/hdf5/sweep_reader.h"
 #include "io/hdf5/sweep_writer.h"
 #include "io/input/array_reader.h"
 #include "io/input/solve_circuit.h"
 #include "io/plot/plot.h"
+#include "io/plot/sweep_plot.h"
 #include "io/safety_note.h"
 #include "io/text/coupling_text.h"
 #include "io/text/report_text.h"
@@ -179,6 +181,13 @@ void RunCompute(const ComputeArgs& args) {
                              args.plots_dir, std::filesystem::path(output).stem().string(),
                              &skipped);
     for (const std::string& s : skipped) PrintWarnings({"plot skipped: " + s});
+    // A sweep adds its figures against frequency, "<stem>-sweep.png".
+    if (sweep) {
+      const std::string stem = std::filesystem::path(output).stem().string();
+      plot::WriteSweepPlot(
+          ReadResult(output), *ReadSweep(output),
+          (std::filesystem::path(args.plots_dir) / (stem + "-sweep.png")).string());
+    }
   }
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
@@ -249,7 +258,8 @@ void AddComputeCommand(CLI::App& app) {
                   "Also write a standard set of PNG plots into this folder (which must exist): "
                   "polar cuts in the two principal planes of the analysis through the beam (phi = "
                   "0 and 90 deg "
-                  "without an analysis) and a theta-phi directivity map (dBi)")
+                  "without an analysis) and a theta-phi directivity map (dBi); for a sweep also "
+                  "its figures against frequency")
       ->check(OutputFolder());
   CLI::Option* reference =
       cmd->add_option("--reference", args->reference,

@@ -49,6 +49,9 @@ for mode in ("phase", "delay"):
         check(freq[0] == F0 and f["/sweep"].attrs["design_frequency_hz"] == F0,
               f"{mode}: the design frequency first")
         check(f["/sweep"].attrs["steering"] == mode, f"{mode}: steering attribute")
+        # The list in the file's order; the band (delay sample) evenly spaced, stop exact,
+        # the design frequency moved first.
+        check(list(freq) == [10e9, 9e9, 9.5e9, 10.5e9, 11e9], f"{mode}: frequencies {list(freq)}")
         for name, unit in [("peak_directivity_dbi", "dBi"), ("peak_theta_deg", "deg"),
                            ("peak_phi_deg", "deg"), ("radiated_w", "W"),
                            ("half_power_first_deg", "deg"), ("half_power_second_deg", "deg"),
