@@ -100,10 +100,11 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
   plot::PlotOptions o;
   const auto kind = plot::PlotKindFromString(a.kind);
   if (!kind) {
-    std::vector<std::string> kinds = NamesOf({plot::PlotKind::kPolar, plot::PlotKind::kCartesian,
-                                              plot::PlotKind::kMap, plot::PlotKind::kPolarization});
-    kinds.push_back("sweep");  // RunSweepPlot
-    Bad("--kind", a.kind, JoinAlternatives(kinds));
+    // The pattern kinds, then the sweep's (RunSweepPlot), which reads another part of the file.
+    Bad("--kind", a.kind,
+        JoinAlternatives(NamesOf({plot::PlotKind::kPolar, plot::PlotKind::kCartesian,
+                                  plot::PlotKind::kMap, plot::PlotKind::kPolarization})) +
+            " (or sweep, for a frequency sweep's figures)");
   }
   o.kind = *kind;
   RefuseInapplicable(a, *kind);

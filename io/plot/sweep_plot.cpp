@@ -49,6 +49,7 @@ SeriesPlotSpec SweepPlotSpec(const StoredResult& result, const StoredSweep& swee
     directivity.series.push_back(gain);
   }
   s.panels = {directivity, SeriesPanel{"beam direction (deg)", {theta, phi}},
+              SeriesPanel{"beam squint (deg)", {squint}},
               SeriesPanel{"half-power beamwidth (deg)", {hp1, hp2}},
               SeriesPanel{"side-lobe level (dB re peak)", {sll}}};
   s.caption =
