@@ -15,18 +15,23 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
+#include "engine/sweep/frequency_sweep.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "io/hdf5/sweep_reader.h"
+#include "io/hdf5/sweep_writer.h"
 #include "io/input/array_reader.h"
 #include "io/input/solve_circuit.h"
 #include "io/plot/plot.h"
+#include "io/plot/sweep_plot.h"
 #include "io/safety_note.h"
 #include "io/text/coupling_text.h"
 #include "io/text/report_text.h"
 #include "io/text/summary_text.h"
+#include "io/text/sweep_text.h"
 
 namespace lobecast::cli {
 namespace {
@@ -66,6 +71,52 @@ std::string DefaultOutput(const std::string& input) {
   return std::filesystem::path(input).stem().string() + ".h5";
 }
 
+// How the file describes the sweep's excitation.
+SweepFileInfo SweepInfoOf(const ArrayDescription& desc,
+                          const std::optional<CouplingResult>& coupling) {
+  SweepFileInfo info;
+  if (desc.design && desc.design->steering) info.steering = ToString(desc.design->steering->mode);
+  info.coupled = coupling.has_value();
+  if (coupling) info.gain_definition = RealizedGainReferenceOf(*coupling).definition;
+  return info;
+}
+
+// Every frequency of the description, the design one (already computed) first. The
+// progress bar covers the whole sweep; a line per frequency would drown short ones.
+FrequencySweep RunSweep(const ArrayDescription& desc, const PatternResult& result,
+                        const PatternAnalysis* analysis, const CouplingResult* coupling,
+                        const PatternOptions& options, const AnalysisOptions& analysis_options,
+                        bool quiet) {
+  SweepExcitation excitation;
+  excitation.design_currents_a = desc.currents;
+  if (desc.design && desc.design->steering) {
+    excitation.steering = desc.design->steering;
+    excitation.steered_first = desc.design->first_generated;
+    excitation.steered_count = desc.design->generated;
+  }
+  excitation.coupled = coupling != nullptr;
+  excitation.ports = desc.ports;
+  excitation.wires = desc.wires;
+  excitation.coupling.reference_impedance_ohm = desc.reference_impedance_ohm;
+  excitation.coupling.num_threads = options.field.num_threads;
+  SweepOptions sweep_options;
+  sweep_options.pattern = options;
+  sweep_options.analysis = analysis_options;
+  ProgressBar bar(!quiet);
+  sweep_options.progress = [&bar](std::size_t, double f) { bar.Update(f); };
+  try {
+    FrequencySweep sweep =
+        RunFrequencySweep(desc.array, desc.frequencies_hz, excitation, desc.grid, sweep_options,
+                          DesignPoint{&result, analysis, coupling});
+    bar.Finish();
+    return sweep;
+  } catch (const InvalidArgument& e) {
+    bar.Finish();
+    throw InputError(SourceLocation{desc.source_path, 1, 1},
+                     std::string("frequency sweep rejected: ") + e.what());
+  }
+}
+
 void RunCompute(const ComputeArgs& args) {
   RefuseInapplicable(args);
   RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
@@ -96,13 +147,21 @@ void RunCompute(const ComputeArgs& args) {
     analysis = AnalyzeOrWarn(desc, result, analysis_options);
   }
 
+  // A frequency sweep (`frequencies`): the design frequency above, then the others.
+  std::optional<FrequencySweep> sweep;
+  if (!desc.frequencies_hz.empty()) {
+    sweep = RunSweep(desc, result, analysis ? &*analysis : nullptr, coupling ? &*coupling : nullptr,
+                     options, analysis_options, args.quiet);
+  }
+
   const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
   const ResultMetadata meta = MetadataOf(desc);
   ResultWriteOptions write_options;
-  if (analysis || coupling) {
+  if (analysis || coupling || sweep) {
     write_options.before_finish = [&](PatternFileWriter& w) {
       if (coupling) WriteCoupling(w, *coupling, desc.ports, result);
       if (analysis) WriteAnalysis(w, *analysis, analysis_options);
+      if (sweep) WriteSweep(w, *sweep, desc.grid, SweepInfoOf(desc, coupling));
     };
   }
   WriteResult(output, desc.array, desc.currents, result, meta, write_options);
@@ -114,6 +173,13 @@ void RunCompute(const ComputeArgs& args) {
                              args.plots_dir, std::filesystem::path(output).stem().string(),
                              &skipped);
     for (const std::string& s : skipped) PrintWarnings({"plot skipped: " + s});
+    // A sweep adds its figures against frequency, "<stem>-sweep.png".
+    if (sweep) {
+      const std::string stem = std::filesystem::path(output).stem().string();
+      plot::WriteSweepPlot(
+          ReadResult(output), *ReadSweep(output),
+          (std::filesystem::path(args.plots_dir) / (stem + "-sweep.png")).string());
+    }
   }
   const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   if (!args.quiet) {
@@ -124,6 +190,15 @@ void RunCompute(const ComputeArgs& args) {
           stdout);
     }
     if (analysis) std::fputs(text::AnalysisBrief(*analysis).c_str(), stdout);
+    if (sweep) {
+      const SweepFileInfo info = SweepInfoOf(desc, coupling);
+      StoredSweep table;
+      table.points = sweep->points;
+      table.design_frequency_hz = desc.array.frequency_hz;
+      table.steering = std::string(info.steering);
+      table.coupled = info.coupled;
+      std::fputs(text::SweepTable(table).c_str(), stdout);
+    }
     std::fflush(stdout);
     // The full note is in the file (root attribute safety_note) and the report.
     std::fprintf(stderr, "%s\n", std::string(kSafetyLine).c_str());
@@ -138,7 +213,9 @@ void AddComputeCommand(CLI::App& app) {
       "compute",
       "Compute the far field rE (V), intensity (W/sr), directivity, polarization, radiated "
       "power (W) and resistances (ohm) of an array description on its grid, and write them "
-      "to an HDF5 result file.");
+      "to an HDF5 result file. A file with 'frequencies' is a frequency sweep: every frequency "
+      "is computed and analysed (peak, squint, beamwidths, side-lobe level) into /sweep, the "
+      "first (design) frequency into the usual datasets.");
   cmd->add_option("ARRAY", args->input,
                   "Array description or design file (TOML; a design has a [lattice] table)")
       ->required()
@@ -173,7 +250,8 @@ void AddComputeCommand(CLI::App& app) {
                   "Also write a standard set of PNG plots into this folder (which must exist): "
                   "polar cuts in the two principal planes of the analysis through the beam (phi = "
                   "0 and 90 deg "
-                  "without an analysis) and a theta-phi directivity map (dBi)")
+                  "without an analysis) and a theta-phi directivity map (dBi); for a sweep also "
+                  "its figures against frequency")
       ->check(OutputFolder());
   CLI::Option* reference =
       cmd->add_option("--reference", args->reference,

@@ -5,6 +5,7 @@
 #include <cmath>
 #include <cstdio>
 #include <memory>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -16,11 +17,13 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "io/hdf5/result_reader.h"
+#include "io/hdf5/sweep_reader.h"
 #include "io/io_error.h"
 #include "io/safety_note.h"
 #include "io/text/export_samples.h"
 #include "io/text/pattern_export.h"
 #include "io/text/summary_text.h"
+#include "io/text/sweep_text.h"
 #include "io/text/text_format.h"
 
 namespace lobecast::cli {
@@ -42,9 +45,30 @@ struct ExportArgs {
   bool quiet = false;
   bool step_given = false;
   bool notes_given = false;
+  bool sweep = false;              // the per-frequency table of a sweep instead of the pattern
+  std::vector<std::string> given;  // options given on the command line
 };
 
+// `--sweep`: the /sweep table as CSV (io/text/sweep_text.h).
+void RunSweepExport(const ExportArgs& args) {
+  for (const std::string& o : args.given) {
+    if (o != "--sweep" && o != "--output" && o != "--quiet" && o != "RESULT")
+      BadOption(o, "it with --sweep (the sweep's table has one layout)",
+                "only -o and -q with --sweep");
+  }
+  RefuseInputAsOutput("--output", args.output, args.input);
+  (void)ReadResult(args.input);  // a complete result, or the usual message
+  const std::optional<StoredSweep> sweep = ReadSweep(args.input);
+  if (!sweep) {
+    BadOption("--sweep", "a result of one frequency (no /sweep group)",
+              "a sweep result: compute a file that gives 'frequencies'");
+  }
+  const std::string csv = text::SweepCsv(*sweep);
+  WriteText(args.output, "the export", [&](std::ostream& out) { out << csv; });
+}
+
 void RunExport(const ExportArgs& args) {
+  if (args.sweep) return RunSweepExport(args);
   PatternTableOptions table;
   const auto format = ExportFormatFromString(args.format);
   if (!format) {
@@ -206,7 +230,13 @@ void AddExportCommand(CLI::App& app) {
   cmd->add_flag("--no-notes", args->no_notes, "The same as --notes none");
   cmd->add_flag("-q,--quiet", args->quiet,
                 "Print nothing but warnings and errors besides the table itself");
-  cmd->callback([args, step, notes] {
+  cmd->add_flag("--sweep", args->sweep,
+                "A frequency sweep's table instead of the pattern (CSV): per frequency the peak "
+                "directivity (dBi), its direction and squint (deg), radiated power (W), half-power "
+                "beamwidths (deg), side-lobe level (dB), and with a circuit gain and input match");
+  cmd->callback([args, step, notes, cmd] {
+    for (const CLI::Option* o : cmd->get_options())
+      if (o->count() > 0) args->given.push_back(o->get_name());
     args->step_given = step->count() > 0;
     args->notes_given = notes->count() > 0;
     RunExport(*args);

@@ -12,10 +12,13 @@
 #include "cli/enum_names.h"
 #include "cli/option_checks.h"
 #include "engine/analysis/pattern_analysis.h"
+#include "engine/text_case.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
+#include "io/hdf5/sweep_reader.h"
 #include "io/input_error.h"
 #include "io/plot/plot.h"
+#include "io/plot/sweep_plot.h"
 
 namespace lobecast::cli {
 namespace {
@@ -97,9 +100,11 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
   plot::PlotOptions o;
   const auto kind = plot::PlotKindFromString(a.kind);
   if (!kind) {
+    // The pattern kinds, then the sweep's (RunSweepPlot), which reads another part of the file.
     Bad("--kind", a.kind,
         JoinAlternatives(NamesOf({plot::PlotKind::kPolar, plot::PlotKind::kCartesian,
-                                  plot::PlotKind::kMap, plot::PlotKind::kPolarization})));
+                                  plot::PlotKind::kMap, plot::PlotKind::kPolarization})) +
+            " (or sweep, for a frequency sweep's figures)");
   }
   o.kind = *kind;
   RefuseInapplicable(a, *kind);
@@ -158,7 +163,40 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
   return o;
 }
 
+// `--kind sweep`: a frequency sweep's figures against frequency (io/plot/sweep_plot.h).
+// Only the output, --size and -q apply.
+bool IsSweepKind(const std::string& kind) { return EqualsIgnoreCase(kind, "sweep"); }
+
+void RunSweepPlot(const PlotArgs& args) {
+  for (const char* o : {"--cut", "--quantity", "--reference", "--projection", "--floor-db",
+                        "--normalize", "--contour-db", "--ar-max-db", "--max-nulls"}) {
+    if (Given(args, o)) {
+      BadOption(o, "it with --kind sweep (figures against frequency)",
+                std::string(o) + " only with --kind polar, cartesian, map or polarization");
+    }
+  }
+  plot::ImageSize size = plot::kSweepPlotSize;
+  if (Given(args, "--size")) {
+    const auto s = plot::ImageSizeFromString(args.size);
+    if (!s) Bad("--size", args.size, "WIDTHxHEIGHT in px, e.g. 800x1100");
+    std::string why;
+    if (!s->IsValid(&why)) Bad("--size", args.size, why.substr(why.find("expected ") + 9));
+    size = *s;
+  }
+  if (!plot::ImageFormatFromPath(args.output))
+    Bad("--output", args.output, "a file name ending in .png, .svg or .pdf");
+  RefuseInputAsOutput("--output", args.output, args.input);
+  const StoredResult result = ReadResult(args.input);
+  const std::optional<StoredSweep> sweep = ReadSweep(args.input);
+  if (!sweep) {
+    BadOption("--kind", "sweep for a result of one frequency (no /sweep group)",
+              "a sweep result: compute a file that gives 'frequencies'");
+  }
+  plot::WriteSweepPlot(result, *sweep, args.output, size);
+}
+
 void RunPlot(const PlotArgs& args) {
+  if (IsSweepKind(args.kind)) return RunSweepPlot(args);
   const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
   RefuseInputAsOutput("--output", args.output, args.input);
   const StoredResult result = ReadResult(args.input);
@@ -197,7 +235,9 @@ void AddPlotCommand(CLI::App& app) {
       ->check(BinaryOutput("an image"));
   cmd->add_option("-k,--kind", args->kind,
                   "polar | cartesian (a cut), map (the grid as an image) | polarization "
-                  "(axial ratio and sense maps); default polar");
+                  "(axial ratio and sense maps) | sweep (a frequency sweep's peak directivity, "
+                  "beam direction, beamwidths and side-lobe level against frequency); default "
+                  "polar");
   cmd->add_option(
       "--cut", args->cut,
       "Cut for polar/cartesian: phi=DEG, the plane through z containing phi = DEG "
@@ -235,7 +275,7 @@ void AddPlotCommand(CLI::App& app) {
                   "default 30");
   cmd->add_option("--size", args->size,
                   "Image size WIDTHxHEIGHT in px (points for SVG/PDF), 320x240 .. 8000x8000; "
-                  "default 800x600");
+                  "default 800x600 (sweep: 800x1100)");
   cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
   cmd->callback([args, cmd] {
     for (const CLI::Option* o : cmd->get_options()) {

@@ -20,9 +20,11 @@
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/coupling_reader.h"
 #include "io/hdf5/result_reader.h"
+#include "io/hdf5/sweep_reader.h"
 #include "io/text/coupling_text.h"
 #include "io/text/report_text.h"
 #include "io/text/summary_text.h"
+#include "io/text/sweep_text.h"
 
 namespace lobecast::cli {
 namespace {
@@ -110,6 +112,9 @@ void RunReport(const ReportArgs& args) {
     context.coupling = &coupling->result;
     context.ports = &coupling->ports;
   }
+  // A frequency sweep: its per-frequency table after the design frequency's report.
+  const std::optional<StoredSweep> sweep = ReadSweep(args.input);
+  if (sweep) context.sweep = &*sweep;
   std::string text = args.json ? text::ReportJson(context, analysis, options)
                                : text::ReportText(context, analysis, options);
   if (!args.json) {
@@ -117,6 +122,7 @@ void RunReport(const ReportArgs& args) {
       text += "\n" + text::DescribeCoupling(coupling->result, coupling->ports,
                                             stored.result.summary.peak_directivity);
     }
+    if (sweep) text += "\n" + text::SweepTable(*sweep);
     // A report is a document: it carries the full note, to a file or the terminal.
     text += "\n" + text::SafetyNote();
   }

@@ -9,15 +9,21 @@
 
 #include "cli/commands.h"
 #include "cli/option_checks.h"
+#include "cli/progress_bar.h"
 #include "cli/text_output.h"
+#include "engine/constants.h"
 #include "engine/coupling/scan.h"
 #include "engine/error.h"
+#include "engine/sweep/scan_sweep.h"
+#include "engine/synthesis/beam_setup.h"
 #include "io/hdf5/scan_writer.h"
 #include "io/input/array_reader.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
 #include "io/plot/canvas.h"
+#include "io/plot/frame.h"
 #include "io/plot/scan_plot.h"
+#include "io/plot/sweep_plot.h"
 #include "io/text/scan_text.h"
 #include "io/text/text_format.h"
 
@@ -34,14 +40,61 @@ struct ScanArgs {
   double step_deg = 5;
   std::string match = "first";
   bool quiet = false;
+  // The pattern at every steering angle (engine/sweep/scan_sweep.h).
+  bool pattern = false;
+  std::string pattern_csv;   // empty: none
+  std::string pattern_plot;  // empty: none
+  // Given on the command line, for the options that belong to the scan impedance.
+  bool match_given = false;
 };
 
-void RunScan(const ScanArgs& args) {
-  if (!args.plot.empty() && !plot::ImageFormatFromPath(args.plot)) {
-    throw InputError(
-        SourceLocation{"--plot"},
-        "found '" + args.plot + "', expected a file name ending in .png, .svg or .pdf");
+// The pattern figures at every steering direction, as a table, a CSV and a plot.
+void RunScanPattern(const ScanArgs& args, const ArrayDescription& desc,
+                    const Eigen::VectorXcd& amplitudes, const std::vector<double>& theta,
+                    const std::vector<double>& phi, bool quiet) {
+  ScanSweepOptions options;
+  std::string broadside = "+z";
+  if (desc.design) {
+    options.lattice = desc.design->lattice;
+    options.broadside = UnsteeredBeam(desc.design->lattice, desc.array.dipoles.front().orientation);
+    broadside =
+        text::Printf("the lattice's broadside, theta %.4g deg, phi %.4g deg",
+                     std::acos(options.broadside.z()) / kDegree,
+                     WrappedDegrees(std::atan2(options.broadside.y(), options.broadside.x())));
   }
+  ProgressBar bar(!args.quiet);
+  options.progress = [&bar](double f) { bar.Update(f); };
+  const ScanSweep sweep = RunScanSweep(desc.array, amplitudes, theta, phi, desc.grid, options);
+  bar.Finish();
+  if (!quiet) std::fputs(text::ScanPatternTable(sweep, broadside).c_str(), stdout);
+  if (!args.pattern_csv.empty()) {
+    WriteText(args.pattern_csv, "the scan pattern table",
+              [&sweep](std::ostream& out) { out << text::ScanPatternCsv(sweep); });
+    if (!quiet && args.pattern_csv != kStdout)
+      std::printf("wrote        %s\n", args.pattern_csv.c_str());
+  }
+  if (!args.pattern_plot.empty()) {
+    const std::string name =
+        desc.name.empty() ? std::filesystem::path(args.input).stem().string() : desc.name;
+    plot::WriteScanPatternPlot(sweep,
+                               name + " - " + plot::FormatFrequency(desc.array.frequency_hz) +
+                                   ", " + std::to_string(desc.array.size()) +
+                                   (desc.array.size() == 1 ? " dipole" : " dipoles"),
+                               broadside, args.pattern_plot);
+    if (!quiet) std::printf("wrote        %s\n", args.pattern_plot.c_str());
+  }
+}
+
+void RunScan(const ScanArgs& args) {
+  for (const std::string* image : {&args.plot, &args.pattern_plot}) {
+    if (!image->empty() && !plot::ImageFormatFromPath(*image)) {
+      throw InputError(SourceLocation{image == &args.plot ? "--plot" : "--pattern-plot"},
+                       "found '" + *image + "', expected a file name ending in .png, .svg or .pdf");
+    }
+  }
+  const bool pattern = args.pattern || !args.pattern_csv.empty() || !args.pattern_plot.empty();
+  if (args.output == kStdout && args.pattern_csv == kStdout)
+    BadOption("--pattern-csv", "'-' with -o -", "standard output for one of the two tables");
   if (args.theta_stop_deg < args.theta_start_deg) {
     BadOption("--theta-stop",
               FormatBound(args.theta_stop_deg) + " deg, below --theta-start " +
@@ -50,6 +103,8 @@ void RunScan(const ScanArgs& args) {
   }
   RefuseInputAsOutput("--output", args.output, args.input);
   RefuseInputAsOutput("--plot", args.plot, args.input);
+  RefuseInputAsOutput("--pattern-csv", args.pattern_csv, args.input);
+  RefuseInputAsOutput("--pattern-plot", args.pattern_plot, args.input);
   ArrayDescription desc = ReadArrayDescription(args.input);
   PrintWarnings(desc.warnings);
   // The file's own circuit, solved once: Z with every element's self reactance (the
@@ -58,7 +113,23 @@ void RunScan(const ScanArgs& args) {
   CouplingOptions options;
   options.reference_impedance_ohm = desc.reference_impedance_ohm;
   const CouplingResult ref = SolveCoupling(desc.array, desc.ports, desc.wires, options);
-  for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size(); ++m) {
+  // With --pattern an array without wire data gets the pattern alone.
+  bool impedance = true;
+  for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size(); ++m)
+    impedance = impedance && !std::isnan(ref.self_reactance_ohm[m]);
+  if (pattern && !impedance) {
+    for (const auto& [given, option] :
+         {std::pair{!args.output.empty(), "--output"}, std::pair{!args.plot.empty(), "--plot"},
+          std::pair{args.match_given, "--match"}}) {
+      if (given) {
+        BadOption(option,
+                  "it for an array without wire data (no radius or self_reactance: no scan "
+                  "impedance)",
+                  "--pattern-csv and --pattern-plot for the pattern figures");
+      }
+    }
+  }
+  for (Eigen::Index m = 0; m < ref.self_reactance_ohm.size() && !pattern; ++m) {
     if (std::isnan(ref.self_reactance_ohm[m])) {
       const SourceLocation& at = desc.dipole_locations[static_cast<std::size_t>(m)];
       // A generated dipole takes its wire from the design's [element] template.
@@ -80,14 +151,26 @@ void RunScan(const ScanArgs& args) {
   // solves); their phases are replaced by the steering. The input impedance
   // includes the wire's loss resistance.
   const Eigen::VectorXcd amplitudes = ref.circuit.current_a.cwiseAbs().cast<Complex>();
-  Eigen::MatrixXcd z = ref.impedance_ohm;
-  z.diagonal().real() += ref.loss_resistance_ohm;
   std::vector<double> theta, phi;
   for (double t = args.theta_start_deg; t <= args.theta_stop_deg + 1e-9 * args.step_deg;
        t += args.step_deg) {
     theta.push_back(t * kDegree);
     phi.push_back(args.phi_deg * kDegree);
   }
+  const bool to_stdout = args.output == kStdout || args.pattern_csv == kStdout;
+  if (!impedance) {
+    if (!args.quiet && !to_stdout) {
+      std::printf("array        %s, %zu dipoles; taper |I| from the file, phases from steering\n",
+                  desc.name.empty() ? args.input.c_str() : desc.name.c_str(), desc.array.size());
+      std::printf(
+          "scan         no wire data (radius or self_reactance): the pattern only, "
+          "no scan impedance\n");
+    }
+    RunScanPattern(args, desc, amplitudes, theta, phi, args.quiet || to_stdout);
+    return;
+  }
+  Eigen::MatrixXcd z = ref.impedance_ohm;
+  z.diagonal().real() += ref.loss_resistance_ohm;
   const auto n = static_cast<Eigen::Index>(desc.array.size());
   Eigen::VectorXcd reference = Eigen::VectorXcd::Constant(n, desc.reference_impedance_ohm);
   std::string reference_text =
@@ -104,7 +187,7 @@ void RunScan(const ScanArgs& args) {
   }
   const ScanImpedanceTable table = ScanImpedance(desc.array, z, amplitudes, theta, phi, reference);
   // With -o -, standard output is the CSV alone; the table and "wrote" lines go away.
-  const bool csv_to_stdout = args.output == kStdout;
+  const bool csv_to_stdout = to_stdout;
   const bool quiet = args.quiet || csv_to_stdout;
   if (!quiet) {
     std::printf("array        %s, %zu dipoles; taper |I| from the file, phases from steering\n",
@@ -134,6 +217,7 @@ void RunScan(const ScanArgs& args) {
     plot::WriteScanPlot(table, labels, args.plot);
     if (!quiet) std::printf("wrote        %s\n", args.plot.c_str());
   }
+  if (pattern) RunScanPattern(args, desc, amplitudes, theta, phi, quiet);
 }
 
 }  // namespace
@@ -177,7 +261,24 @@ void AddScanCommand(CLI::App& app) {
       ->check(OneOf({"first", "reference"}))
       ->capture_default_str();
   cmd->add_flag("-q,--quiet", args->quiet, "Print nothing but warnings and errors");
-  cmd->callback([args] { RunScan(*args); });
+  cmd->add_flag("--pattern", args->pattern,
+                "Also compute the pattern (on the file's grid) at every steering angle and "
+                "print its figures: peak directivity (dBi), scan loss re broadside (dB), beam "
+                "direction and pointing error (deg), half-power beamwidths (deg), side-lobe "
+                "level (dB) and, for a design's lattice, grating lobes and their onset. "
+                "Needs no wire data: without it the pattern figures come alone");
+  cmd->add_option("--pattern-csv", args->pattern_csv,
+                  "The pattern figures as CSV, one row per steering angle (implies --pattern); "
+                  "written atomically; '-': standard output")
+      ->check(TextOutput());
+  cmd->add_option("--pattern-plot", args->pattern_plot,
+                  "The pattern figures against steering angle (.png, .svg or .pdf; implies "
+                  "--pattern), the grating-lobe onset marked")
+      ->check(BinaryOutput("an image"));
+  cmd->callback([args, cmd] {
+    args->match_given = cmd->get_option("--match")->count() > 0;
+    RunScan(*args);
+  });
 }
 
 }  // namespace lobecast::cli

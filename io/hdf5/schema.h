@@ -450,4 +450,37 @@ Columns ColumnsOf(Body& body) {
   return c;
 }
 
+// ---- /sweep: a frequency sweep (io/hdf5/sweep_writer.h) ---------------------------
+
+inline constexpr std::string_view kSweepGroup = "/sweep";
+inline constexpr std::string_view kSweepDesignFrequencyAttribute = "design_frequency_hz";
+// "phase", "delay" (how the steered currents follow frequency) or "none" (fixed currents).
+inline constexpr std::string_view kSweepSteeringAttribute = "steering";
+// With a circuit: what the gain column is (the /pattern gain definition of coupling_writer.h).
+inline constexpr std::string_view kSweepGainDefinitionAttribute = "gain_definition";
+inline constexpr std::string_view kSweepGainRealizedAttribute = "gain_is_realized";
+inline constexpr Dataset kSweepDirectivity{"/sweep/directivity", "1"};   // (F, Nt, Np) linear
+inline constexpr Dataset kSweepFirstPlane{"/sweep/first_plane", "1"};    // (F) strings
+inline constexpr Dataset kSweepSecondPlane{"/sweep/second_plane", "1"};  // (F) strings
+inline constexpr std::string_view kSweepJsonKey = "sweep";
+
+// The per-frequency columns of a sweep (FrequencyPoint, engine/sweep/frequency_sweep.h),
+// each an (F) dataset under /sweep, a JSON key and a CSV column (name and unit), in
+// this order; the circuit's columns only when the sweep has a circuit.
+template <typename Point, typename F>  // Point: FrequencyPoint, const or not
+void VisitSweepColumns(Point& p, bool coupled, F&& f) {
+  f(Dataset{"/sweep/frequency_hz", "Hz"}, p.frequency_hz);
+  f(Dataset{"/sweep/peak_directivity_dbi", "dBi"}, p.peak_directivity_dbi);
+  f(Dataset{"/sweep/peak_theta_deg", "deg"}, p.peak_theta_deg);
+  f(Dataset{"/sweep/peak_phi_deg", "deg"}, p.peak_phi_deg);
+  f(Dataset{"/sweep/radiated_w", "W"}, p.radiated_w);
+  f(Dataset{"/sweep/half_power_first_deg", "deg"}, p.half_power_first_deg);
+  f(Dataset{"/sweep/half_power_second_deg", "deg"}, p.half_power_second_deg);
+  f(Dataset{"/sweep/sidelobe_db", "dB"}, p.sidelobe_db);
+  if (!coupled) return;
+  f(Dataset{"/sweep/gain_dbi", "dBi"}, p.gain_dbi);
+  f(Dataset{"/sweep/worst_reflection", "1"}, p.worst_reflection);
+  f(Dataset{"/sweep/worst_vswr", "1"}, p.worst_vswr);
+}
+
 }  // namespace lobecast::schema

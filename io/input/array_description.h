@@ -37,6 +37,10 @@ struct ArrayDescription {
   std::string length_unit = "m";
 
   Array array;  // frequency, ground and dipoles, SI; orientations are unit vectors
+  // A frequency sweep (`frequencies`): every frequency to compute, in the file's order,
+  // the first the design frequency (== array.frequency_hz: steering, wavelength units).
+  // Empty when the file gives `frequency`.
+  std::vector<double> frequencies_hz;
   // The terminal currents (A, complex peak), one per dipole, kept apart from the
   // geometry: the given currents, and 0 for driven and loaded dipoles until
   // SolveArrayCircuit (solve_circuit.h) fills them from the solved circuit.

@@ -57,16 +57,19 @@ class Reader : private TomlValues {
       CheckKeys(root, "",
                 {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
                  "dipole", "reference_impedance", "element", "lattice", "taper", "steer", "null",
-                 "objective"});
+                 "objective", "frequencies"});
     } else {
       CheckKeys(root, "",
                 {"name", "description", "frequency", "ground", "length_unit", "dipoles_csv", "grid",
-                 "dipole", "reference_impedance"});
+                 "dipole", "reference_impedance", "frequencies"});
     }
     if (const toml::node* n = root.get("name")) out.name = String(*n, "name");
     if (const toml::node* n = root.get("description")) out.description = String(*n, "description");
 
-    ReadFrequency(root, out.array);
+    if (root.get("frequencies"))
+      ReadFrequencies(root, out);
+    else
+      ReadFrequency(root, out.array);
     ReadGround(root, out.array);
 
     LengthUnit unit = LengthUnit::kMetre;
@@ -137,26 +140,105 @@ class Reader : private TomlValues {
           SourceLocation{path_, 1, 1}, "frequency", "no frequency key",
           "frequency = <Hz> or \"<number> <unit>\" (unit " + std::string(kFrequencyUnitList) + ")");
     }
+    array.frequency_hz = FrequencyValue(*n, "frequency");
+  }
+
+  // One frequency: a number in Hz or a string with a unit, finite and > 0.
+  double FrequencyValue(const toml::node& n, const std::string& key) const {
     double f = 0.0;
-    if (n->is_string()) {
-      const std::string s = n->as_string()->get();
+    if (n.is_string()) {
+      const std::string s = n.as_string()->get();
       const auto hz = FrequencyFromString(s);
       if (!hz) {
-        throw InputError(At(*n), "frequency", Describe(*n),
+        throw InputError(At(n), key, Describe(n),
                          "a number followed by a unit, one of " + std::string(kFrequencyUnitList) +
                              " (e.g. \"433.92 MHz\")");
       }
       f = *hz;
-      if (!std::isfinite(f))
-        throw InputError(At(*n), "frequency", Describe(*n), "a finite frequency");
+      if (!std::isfinite(f)) throw InputError(At(n), key, Describe(n), "a finite frequency");
     } else {
-      f = Number(*n, "frequency", "a frequency in Hz or a string such as \"433.92 MHz\"");
+      f = Number(n, key, "a frequency in Hz or a string such as \"433.92 MHz\"");
     }
     if (!(f > 0.0)) {
-      throw InputError(At(*n), "frequency", n->is_string() ? Describe(*n) : FormatNumber(f) + " Hz",
+      throw InputError(At(n), key, n.is_string() ? Describe(n) : FormatNumber(f) + " Hz",
                        "a frequency > 0");
     }
-    array.frequency_hz = f;
+    return f;
+  }
+
+  // `frequencies` (a sweep, CONVENTIONS §3 "Frequency sweeps"), instead of `frequency`:
+  //   frequencies = ["9.5 GHz", "10 GHz", 10.5e9]      a list; the first is the design
+  //                                                    frequency (steering, wavelengths)
+  //   frequencies = { start = "9 GHz", stop = "11 GHz", count = 21, design = "10 GHz" }
+  //                                                    count points from start to stop,
+  //                                                    evenly spaced (stop exact); the
+  //                                                    design frequency (default start) first
+  // Every frequency distinct and > 0; a list has at least one.
+  void ReadFrequencies(const toml::table& root, ArrayDescription& out) const {
+    const toml::node& n = *root.get("frequencies");
+    if (const toml::node* f = root.get("frequency")) {
+      throw InputError(At(*f), "frequency", "both 'frequency' and 'frequencies'",
+                       "one of them: the first of 'frequencies' is the design frequency");
+    }
+    std::vector<double> list;
+    std::vector<const toml::node*> where;
+    if (const toml::array* a = n.as_array()) {
+      if (a->empty()) {
+        throw InputError(At(n), "frequencies", "an empty list",
+                         "at least one frequency, e.g. [\"9.5 GHz\", \"10 GHz\"]");
+      }
+      for (std::size_t i = 0; i < a->size(); ++i) {
+        list.push_back(FrequencyValue(*a->get(i), "frequencies[" + std::to_string(i) + "]"));
+        where.push_back(a->get(i));
+      }
+    } else if (const toml::table* t = n.as_table()) {
+      CheckKeys(*t, "frequencies", {"start", "stop", "count", "design"});
+      for (const char* k : {"start", "stop", "count"}) {
+        if (!t->get(k)) {
+          throw InputError(At(*t), Join("frequencies", k), std::string("no ") + k + " key",
+                           "{ start = <f>, stop = <f>, count = <n> } (design optional)");
+        }
+      }
+      const double start = FrequencyValue(*t->get("start"), "frequencies.start");
+      const double stop = FrequencyValue(*t->get("stop"), "frequencies.stop");
+      const toml::node& c = *t->get("count");
+      const auto* ci = c.as_integer();
+      if (!ci || ci->get() < 1 || ci->get() > 100000) {
+        throw InputError(At(c), "frequencies.count", Describe(c), "a whole number in [1, 100000]");
+      }
+      const auto count = static_cast<std::size_t>(ci->get());
+      if (count > 1 && !(stop > start)) {
+        throw InputError(At(*t->get("stop")), "frequencies.stop", FormatNumber(stop) + " Hz",
+                         "a stop above start (" + FormatNumber(start) + " Hz)");
+      }
+      std::optional<double> design;
+      if (const toml::node* d = t->get("design")) design = FrequencyValue(*d, "frequencies.design");
+      if (design) list.push_back(*design);
+      for (std::size_t i = 0; i < count; ++i) {
+        const double f = i + 1 == count && count > 1
+                             ? stop
+                             : start + (stop - start) * static_cast<double>(i) /
+                                           static_cast<double>(count > 1 ? count - 1 : 1);
+        if (design && std::abs(f - *design) <= 1e-9 * *design) continue;  // listed first
+        list.push_back(f);
+      }
+      where.assign(list.size(), &n);
+    } else {
+      throw InputError(At(n), "frequencies", Describe(n),
+                       "a list of frequencies, e.g. [\"9.5 GHz\", \"10 GHz\"], or "
+                       "{ start = <f>, stop = <f>, count = <n> }");
+    }
+    for (std::size_t i = 0; i < list.size(); ++i) {
+      for (std::size_t j = 0; j < i; ++j) {
+        // Within 1e-9 relative: the same frequency typed twice (9.5 GHz and 9500 MHz).
+        if (std::abs(list[i] - list[j]) <= 1e-9 * list[j]) {
+          throw InputError(At(*where[i]), "frequencies", FormatNumber(list[i]) + " Hz twice",
+                           "distinct frequencies (the first is the design frequency)");
+        }
+      }
+    }
+    out.frequencies_hz = list;
+    out.array.frequency_hz = list.front();
   }
 
   void ReadGround(const toml::table& root, Array& array) const {
@@ -474,8 +556,15 @@ class Reader : private TomlValues {
   }
 
   // Checks that need the whole array: lengths against the wavelength, the ground.
+  // In a sweep, the shortest wavelength (the highest frequency) decides.
   void CheckDipoles(ArrayDescription& out) const {
-    const double lambda = out.array.wavelength_m();
+    double lambda = out.array.wavelength_m();
+    std::string at;  // which frequency, in a sweep
+    if (out.frequencies_hz.size() > 1) {
+      const double f_max = *std::max_element(out.frequencies_hz.begin(), out.frequencies_hz.end());
+      lambda = kSpeedOfLight_m_s / f_max;
+      at = " at the highest frequency, " + FormatNumber(f_max) + " Hz";
+    }
     for (std::size_t i = 0; i < out.array.dipoles.size(); ++i) {
       const Dipole& d = out.array.dipoles[i];
       const DipoleSite& s = sites_[i];
@@ -483,13 +572,13 @@ class Reader : private TomlValues {
           FormatApprox(d.length_m) + " m (" + FormatApprox(d.length_m / lambda, 4) + " wavelength)";
       if (d.length_m > 0.5 * lambda) {
         throw InputError(s.length, s.length_key, found,
-                         "a length <= lambda/2 = " + FormatApprox(0.5 * lambda) +
-                             " m; an elemental dipole model is meaningless beyond that");
+                         "a length <= lambda/2 = " + FormatApprox(0.5 * lambda) + " m" + at +
+                             "; an elemental dipole model is meaningless beyond that");
       }
       if (d.length_m > 0.1 * lambda) {
         std::string w = s.length.ToString() + ": warning: key '" + s.length_key + "': " + found +
-                        " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) +
-                        " m; the short-dipole model holds for lengths well below lambda/10";
+                        " is longer than lambda/10 = " + FormatApprox(0.1 * lambda) + " m" + at +
+                        "; the short-dipole model holds for lengths well below lambda/10";
         // Generated elements share one [element] length: say it once.
         if (out.warnings.empty() || out.warnings.back() != w) out.warnings.push_back(std::move(w));
       }

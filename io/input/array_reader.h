@@ -9,6 +9,17 @@
 //   frequency    = 433.92e6    REQUIRED. A number is Hz; a string carries its unit:
 //                  "433.92 MHz" with unit Hz, kHz, MHz, GHz or THz, spelled
 //                  exactly so ("mHz" is rejected, never read as MHz). > 0, finite.
+//   frequencies  = ["9.5 GHz", "10 GHz", 10.5e9]
+//                              instead of `frequency` (both: an error): a frequency
+//                              sweep. Each value as `frequency`; at least one, all
+//                              distinct (1e-9 relative). The FIRST is the design
+//                              frequency: steering, length_unit = "wavelength", the
+//                              usual result datasets. Or a band:
+//                  { start = "9 GHz", stop = "11 GHz", count = 21, design = "10 GHz" }
+//                              count (>= 1) points from start to stop (> start when
+//                              count > 1), evenly spaced; design (optional, default
+//                              start) goes first and is not repeated. Lengths are
+//                              checked against the highest frequency's wavelength.
 //   ground       = "none"      "none" (default) or "pec" (the plane z = 0; every
 //                              dipole must then be at z > 0). Case-insensitive.
 //   length_unit  = "m"         unit of every position and length, in TOML and CSV:

@@ -230,6 +230,12 @@ ArrayFileText ArrayFile(const ArrayDescription& desc, const std::string& csv_nam
   }
   if (desc.design && desc.design->steering && desc.design->steering->mode == SteeringMode::kDelay)
     t += "# The phases below are the true-time-delay steering at the design frequency.\n";
+  if (!desc.frequencies_hz.empty()) {
+    t += "# The design's frequency sweep (" + std::to_string(desc.frequencies_hz.size()) +
+         " frequencies) is not carried over: this file holds the design frequency, and its\n"
+         "# currents are fixed phasors (as phase steering); compute the design file itself for "
+         "the sweep.\n";
+  }
   t += "\n";
   if (!desc.name.empty()) t += "name = \"" + TomlEscaped(desc.name) + "\"\n";
   if (!desc.description.empty()) t += "description = \"" + TomlEscaped(desc.description) + "\"\n";

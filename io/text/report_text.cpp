@@ -15,6 +15,7 @@
 #include "io/text/json_writer.h"
 #include "io/text/number_text.h"
 #include "io/text/summary_text.h"
+#include "io/text/sweep_text.h"
 #include "io/text/text_format.h"
 
 namespace lobecast::text {
@@ -415,6 +416,7 @@ std::string ReportJson(const ReportContext& c, const PatternAnalysis& a, const A
   v.Object(schema::kRecordedOptions, [&] { schema::VisitRecordedOptions(o, v); });
   schema::VisitAnalysis(a, v);
   if (c.coupling && c.ports) WriteCouplingJson(j, *c.coupling, *c.ports);
+  if (c.sweep) WriteSweepJson(j, *c.sweep);
   j.EndObject();
   return j.text();
 }

@@ -18,6 +18,7 @@
 #include "engine/analysis/analysis_types.h"
 #include "engine/coupling/coupling.h"
 #include "engine/types.h"
+#include "io/hdf5/sweep_reader.h"
 
 namespace lobecast::text {
 
@@ -36,6 +37,9 @@ struct ReportContext {
   // The JSON then gains a "coupling" object named as the file's /coupling group.
   const CouplingResult* coupling = nullptr;
   const std::vector<Port>* ports = nullptr;
+  // A frequency sweep (io/hdf5/sweep_reader.h); null otherwise. The JSON then gains a
+  // "sweep" object (io/text/sweep_text.h).
+  const StoredSweep* sweep = nullptr;
 };
 
 // Three lines for `compute`: beamwidths, highest side lobe, XPD and AR at the peak.

@@ -71,3 +71,96 @@ std::string ScanCsv(const ScanImpedanceTable& t) {
 }
 
 }  // namespace lobecast::text
+
+namespace lobecast::text {
+namespace {
+
+// The scan pattern's numeric columns (the CSV's, in order).
+template <typename F>
+void VisitScanPatternColumns(const ScanPoint& p, F&& f) {
+  f("steer_theta_deg", p.steer_theta_deg);
+  f("steer_phi_deg", p.steer_phi_deg);
+  f("peak_directivity_dbi", p.peak_directivity_dbi);
+  f("scan_loss_db", p.scan_loss_db);
+  f("peak_theta_deg", p.peak_theta_deg);
+  f("peak_phi_deg", p.peak_phi_deg);
+  f("pointing_error_deg", p.pointing_error_deg);
+  f("half_power_first_deg", p.half_power_first_deg);
+  f("half_power_second_deg", p.half_power_second_deg);
+  f("sidelobe_db", p.sidelobe_db);
+}
+
+std::string PatternCell(double v, const char* fmt, const char* if_inf) {
+  if (std::isnan(v)) return Printf("%9s", "n/a");
+  if (std::isinf(v)) return Printf("%9s", v > 0 ? if_inf : "-inf");
+  return Printf(fmt, v);
+}
+
+}  // namespace
+
+std::string ScanPatternTable(const ScanSweep& s, const std::string& broadside) {
+  std::string out =
+      Printf("Scan pattern: %zu steering directions; scan loss re broadside (%s, %.3f dBi)\n",
+             s.points.size(), broadside.c_str(), s.broadside_directivity_dbi);
+  out += Printf("  %8s %8s %9s %9s %9s %9s %9s %9s %9s %9s %7s %7s\n", "steer", "steer", "peak",
+                "scan loss", "beam", "beam", "pointing", "HPBW", "HPBW", "SLL", "major", "grating");
+  out += Printf("  %8s %8s %9s %9s %9s %9s %9s %9s %9s %9s %7s %7s\n", "theta", "phi", "dBi", "dB",
+                "theta", "phi", "error", "first", "second", "dB", "lobes", "lobes");
+  for (std::size_t i = 0; i < s.points.size(); ++i) {
+    const ScanPoint& p = s.points[i];
+    out += Printf("%c %8.3f %8.3f", s.grating_onset && *s.grating_onset == i ? '!' : ' ',
+                  p.steer_theta_deg, p.steer_phi_deg);
+    out += " " + PatternCell(p.peak_directivity_dbi, "%9.3f", "inf");
+    out += " " + PatternCell(p.scan_loss_db, "%9.3f", "inf");
+    out += " " + PatternCell(p.peak_theta_deg, "%9.3f", "inf");
+    out += " " + PatternCell(p.peak_phi_deg, "%9.3f", "inf");
+    out += " " + PatternCell(p.pointing_error_deg, "%9.3f", "inf");
+    out += " " + PatternCell(p.half_power_first_deg, "%9.3f", "none");
+    out += " " + PatternCell(p.half_power_second_deg, "%9.3f", "none");
+    out += " " + PatternCell(p.sidelobe_db, "%9.2f", "inf");
+    for (int count : {p.other_major_lobes, p.grating_lobes})
+      out += count < 0 ? Printf(" %7s", "n/a") : Printf(" %7d", count);
+    out += "\n";
+  }
+  out +=
+      "  (HPBW in the principal planes of each beam's analysis, first: elevation, second: "
+      "orthogonal; none: the beam does not fall to half power there; SLL -inf: no side lobe; "
+      "major lobes: other lobes as high as the beam (the mirror beam, a full grating lobe), "
+      "which the SLL leaves out; grating lobes: the lattice's in visible space)\n";
+  if (s.points.front().grating_lobes < 0)
+    out += "  grating lobes: n/a (an explicit array: no lattice to take them from)\n";
+  else if (s.grating_onset)
+    out += Printf(
+        "  grating-lobe onset (!): a grating lobe enters visible space at steering "
+        "theta %.3f deg\n",
+        s.points[*s.grating_onset].steer_theta_deg);
+  else
+    out += "  no grating lobe in visible space at any steering angle\n";
+  return out;
+}
+
+std::string ScanPatternCsv(const ScanSweep& s) {
+  std::string out;
+  bool first = true;
+  VisitScanPatternColumns(s.points.front(), [&](const char* name, double) {
+    out += (first ? "" : ",") + std::string(name);
+    first = false;
+  });
+  out += ",other_major_lobes,grating_lobes\n";
+  for (const ScanPoint& p : s.points) {
+    first = true;
+    VisitScanPatternColumns(p, [&](const char*, double v) {
+      if (!first) out += ",";
+      if (!std::isnan(v)) AppendShortest(out, v);
+      first = false;
+    });
+    for (int count : {p.other_major_lobes, p.grating_lobes}) {
+      out += ",";
+      if (count >= 0) out += std::to_string(count);
+    }
+    out += "\n";
+  }
+  return out;
+}
+
+}  // namespace lobecast::text

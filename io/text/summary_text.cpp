@@ -55,6 +55,20 @@ std::string FormatDb(double linear) {
   return std::isinf(db) && db < 0 ? "-inf" : Printf("%.2f", db);
 }
 
+namespace {
+
+// "sweep        5 frequencies, 9 GHz .. 11 GHz; design (first) 10 GHz\n" for a
+// frequency sweep; "" otherwise.
+std::string SweepLine(const ArrayDescription& desc) {
+  if (desc.frequencies_hz.empty()) return "";
+  const auto [lo, hi] = std::minmax_element(desc.frequencies_hz.begin(), desc.frequencies_hz.end());
+  return "sweep        " + std::to_string(desc.frequencies_hz.size()) + " frequencies, " +
+         FormatFrequency(*lo) + " .. " + FormatFrequency(*hi) + "; design (first) " +
+         FormatFrequency(desc.frequencies_hz.front()) + "\n";
+}
+
+}  // namespace
+
 std::string DescribeArray(const ArrayDescription& desc) {
   const Array& a = desc.array;
   std::ostringstream s;
@@ -62,7 +76,8 @@ std::string DescribeArray(const ArrayDescription& desc) {
     << desc.source_path << "]\n";
   if (!desc.description.empty()) s << "description  " << desc.description << "\n";
   s << "frequency    " << FormatFrequency(a.frequency_hz)
-    << Printf("   wavelength %.6g m   k = %.6g rad/m\n", a.wavelength_m(), a.wavenumber_rad_m());
+    << Printf("   wavelength %.6g m   k = %.6g rad/m\n", a.wavelength_m(), a.wavenumber_rad_m())
+    << SweepLine(desc);
   s << "ground       "
     << (a.ground == Ground::kPec ? "PEC plane z = 0 (image theory)" : "none (free space)") << "\n";
   s << "grid         theta " << FormatRange(desc.grid.theta_deg, desc.theta.step_deg) << ", phi "
@@ -96,7 +111,7 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     << a.size() << " dipole" << (a.size() == 1 ? "" : "s") << ", ground " << ToString(a.ground)
     << "\n";
   s << "frequency    " << FormatFrequency(a.frequency_hz)
-    << Printf("   wavelength %.6g m\n", a.wavelength_m());
+    << Printf("   wavelength %.6g m\n", a.wavelength_m()) << SweepLine(desc);
   s << "grid         " << r.grid.theta_deg.size() << " theta x " << r.grid.phi_deg.size()
     << " phi = " << sm.num_directions << " directions\n";
 
