@@ -3,6 +3,7 @@
 #pragma once
 
 #include <string>
+#include <string_view>
 
 #include "engine/pattern.h"
 #include "io/input/array_description.h"
@@ -28,8 +29,9 @@ std::string SafetyNote();
 
 // The power line of `check` and `compute`: "power  P W radiated for the given (or
 // solved) currents (closed form)", and a caution line when P keeps fewer than
-// kPowerDigitsWanted digits (PowerDigitsNote).
+// kPowerDigitsWanted digits (PowerDigitsNote). how replaces "closed form" (e.g. the
+// quadrature and its bound).
 std::string PowerLine(const ArrayDescription& desc, double radiated_power_w,
-                      double power_significant_digits);
+                      double power_significant_digits, std::string_view how = "closed form");
 
 }  // namespace lobecast::text
