@@ -181,6 +181,16 @@ std::size_t ForEachBlock(const Array& array, const Eigen::VectorXcd& currents,
   return blocks;
 }
 
+// What both quadratures need besides the blocks: the rule, the sources, w mu0 / 4 pi,
+// S1 = sum |x_s| |m_s| and k max |r_s| (the direct sums' phase scale).
+struct Setup {
+  SphereRule rule;
+  std::vector<Dipole> sources;
+  double pref = 0, s1 = 0, k_r_max = 0;
+};
+Setup MakeSetup(const Array& array, const Eigen::VectorXcd& x,
+                const PowerQuadratureOptions& options);
+
 void CheckOptions(const PowerQuadratureOptions& options) {
   std::string why;
   if (!options.IsValid(&why)) throw InvalidArgument("power quadrature options: " + why);
@@ -252,16 +262,29 @@ SphereRule PowerQuadratureRule(const Array& array, const PowerQuadratureOptions&
   return rule;
 }
 
+namespace {
+
+Setup MakeSetup(const Array& array, const Eigen::VectorXcd& x,
+                const PowerQuadratureOptions& options) {
+  ValidateCurrents(array, x);
+  Setup s;
+  s.rule = PowerQuadratureRule(array, options);
+  s.sources = RadiatingSources(array);
+  s.pref = array.angular_frequency_rad_s() * kMu0_H_m / (4.0 * kPi);
+  s.s1 = SourceL1(s.sources, x, array.size());
+  s.k_r_max = array.wavenumber_rad_m() * MaxAbsCoordinate(s.sources);
+  return s;
+}
+
+}  // namespace
+
 QuadraturePower RadiatedPowerByQuadrature(const Array& array, const Eigen::VectorXcd& currents_a,
                                           const PowerQuadratureOptions& options) {
-  ValidateCurrents(array, currents_a);
+  const Setup setup = MakeSetup(array, currents_a, options);
   QuadraturePower out;
-  out.rule = PowerQuadratureRule(array, options);
+  out.rule = setup.rule;
   const SphereRule& rule = out.rule;
-  const std::vector<Dipole> sources = RadiatingSources(array);
-  const double pref = array.angular_frequency_rad_s() * kMu0_H_m / (4.0 * kPi);
-  const double s1 = SourceL1(sources, currents_a, array.size());
-  const double k_r_max = array.wavenumber_rad_m() * MaxAbsCoordinate(sources);
+  const double pref = setup.pref, s1 = setup.s1, k_r_max = setup.k_r_max;
   double sum = 0, field_error = 0;  // sum w |E|^2 and sum w delta (2|E| + delta)
   out.blocks =
       ForEachBlock(array, currents_a, rule, options,
@@ -289,15 +312,13 @@ QuadraturePower RadiatedPowerByQuadrature(const Array& array, const Eigen::Vecto
 QuadratureResistanceProduct ResistanceProductByQuadrature(const Array& array,
                                                           const Eigen::VectorXcd& x,
                                                           const PowerQuadratureOptions& options) {
-  ValidateCurrents(array, x);
+  const Setup setup = MakeSetup(array, x, options);
   QuadratureResistanceProduct out;
-  out.rule = PowerQuadratureRule(array, options);
+  out.rule = setup.rule;
   const SphereRule& rule = out.rule;
-  const std::vector<Dipole> sources = RadiatingSources(array);
+  const std::vector<Dipole>& sources = setup.sources;
   const std::size_t n = array.size();
-  const double pref = array.angular_frequency_rad_s() * kMu0_H_m / (4.0 * kPi);
-  const double s1 = SourceL1(sources, x, n);
-  const double k_r_max = array.wavenumber_rad_m() * MaxAbsCoordinate(sources);
+  const double pref = setup.pref, s1 = setup.s1, k_r_max = setup.k_r_max;
   // M_m: the moments' sizes of dipole m's sources.
   Eigen::VectorXd moment = Eigen::VectorXd::Zero(static_cast<Eigen::Index>(n));
   for (std::size_t s = 0; s < sources.size(); ++s) {
