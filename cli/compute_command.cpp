@@ -52,6 +52,9 @@ struct ComputeArgs {
   bool tolerance_given = false;
   bool reference_given = false;
   std::size_t max_nulls = AnalysisOptions{}.max_nulls;
+  std::string power_method = "auto";
+  double power_tolerance = PowerQuadratureOptions{}.target_relative;
+  bool power_tolerance_given = false;
 };
 
 // Refuses options that do not apply to what was asked (exit 2, before any work).
@@ -59,6 +62,14 @@ void RefuseInapplicable(const ComputeArgs& args) {
   if (args.tolerance_given && args.method == ToString(FieldMethod::kDirect)) {
     BadOption("--tolerance", "it with --method direct (the exact sum has no tolerance)",
               "--tolerance only with --method fast or auto");
+  }
+  if (args.resistance_matrix && args.power_method == ToString(PowerMethod::kQuadrature)) {
+    BadOption("--resistance-matrix", "it with --power-method quadrature (which builds no matrix)",
+              "--resistance-matrix only with --power-method closed or auto");
+  }
+  if (args.power_tolerance_given && args.power_method == ToString(PowerMethod::kClosed)) {
+    BadOption("--power-tolerance", "it with --power-method closed (the closed form has none)",
+              "--power-tolerance only with --power-method quadrature or auto");
   }
   if (args.reference_given && args.no_analysis) {
     BadOption("--reference", "it with --no-analysis (no analysis to take a reference)",
@@ -132,6 +143,8 @@ void RunCompute(const ComputeArgs& args) {
   options.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
   options.field.tolerance_relative = args.tolerance;
   options.store_resistance_matrix = args.resistance_matrix;
+  options.power_method = *PowerMethodFromString(args.power_method);  // validated by CLI11
+  options.power_quadrature.target_relative = args.power_tolerance;
   options.progress = [&bar](double f) { bar.Update(f); };
   const PatternResult result = ComputePattern(desc.array, desc.currents, desc.grid, options);
   bar.Finish();
@@ -244,6 +257,20 @@ void AddComputeCommand(CLI::App& app) {
   cmd->add_flag("--resistance-matrix", args->resistance_matrix,
                 "Store the N x N mutual resistance matrix (ohm) even above 4096 dipoles, "
                 "where it is otherwise streamed (8 N^2 bytes)");
+  cmd->add_option("--power-method", args->power_method,
+                  "Radiated power: closed (the closed-form sum over dipole pairs, O(N^2), with "
+                  "the active resistances), quadrature (over directions, exact for the "
+                  "pattern's band limit to --power-tolerance, through the fast field path; no "
+                  "active resistances) or auto (the closed form unless it would take seconds "
+                  "and the quadrature is well below it)")
+      ->check(OneOf(NamesOf({PowerMethod::kClosed, PowerMethod::kQuadrature, PowerMethod::kAuto})))
+      ->capture_default_str();
+  CLI::Option* power_tolerance =
+      cmd->add_option("--power-tolerance", args->power_tolerance,
+                      "Quadrature power: the error aimed at, relative to P (1e-14 .. 0.01); the "
+                      "bound met is reported; refused with --power-method closed")
+          ->check(NumberIn(1e-14, 1e-2, ""))
+          ->capture_default_str();
   cmd->add_flag("-q,--quiet", args->quiet,
                 "Print nothing but warnings and errors (no summary, no safety line)");
   cmd->add_option("--plots", args->plots_dir,
@@ -265,8 +292,9 @@ void AddComputeCommand(CLI::App& app) {
   cmd->add_flag("--no-analysis", args->no_analysis,
                 "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
                 "is otherwise stored under /summary/analysis");
-  cmd->callback([args, tolerance, reference] {
+  cmd->callback([args, tolerance, reference, power_tolerance] {
     args->tolerance_given = tolerance->count() > 0;
+    args->power_tolerance_given = power_tolerance->count() > 0;
     args->reference_given = reference->count() > 0;
     RunCompute(*args);
   });

@@ -16,6 +16,7 @@
 #include "engine/intensity.h"
 #include "engine/polarization.h"
 #include "engine/power/power_large.h"
+#include "engine/power/power_quadrature.h"
 #include "engine/power/radiated_power.h"
 #include "engine/rounding_floor.h"
 #include "engine/text_case.h"
@@ -24,6 +25,10 @@ namespace lobecast {
 namespace {
 
 using Clock = std::chrono::steady_clock;
+
+constexpr const char* kQuadratureActiveNote =
+    "active resistances not computed (NaN): they need the mutual reactances, whose sum "
+    "is O(N^2) (engine/power/power_quadrature.h)";
 double SecondsSince(Clock::time_point t0) {
   return std::chrono::duration<double>(Clock::now() - t0).count();
 }
@@ -40,7 +45,7 @@ std::string Format(const char* format, ...) {
 
 // Why the routes came out as they did, for ComputeSummary::message.
 std::string RouteMessage(const ComputeSummary& s, std::size_t fast_blocks, std::size_t blocks,
-                         const PatternOptions& options) {
+                         const PatternOptions& options, const std::string& power_why) {
   std::vector<std::string> notes;
   if (s.field_method_given == FieldMethod::kAuto) {
     if (fast_blocks == 0) {
@@ -57,11 +62,13 @@ std::string RouteMessage(const ComputeSummary& s, std::size_t fast_blocks, std::
     notes.push_back("blocks differ in fast transform: " +
                     FastTransformsToString(s.fast_transforms_used));
   }
+  if (!power_why.empty()) notes.push_back(power_why);
   if (s.power_route == PowerRoute::kStreamed) {
     notes.push_back(
         "power streamed without the resistance matrix: " + std::to_string(s.num_dipoles) +
         " dipoles exceed " + std::to_string(options.resistance_matrix_max_dipoles));
   }
+  if (s.power_route == PowerRoute::kQuadrature) notes.push_back(kQuadratureActiveNote);
   std::string out;
   for (const std::string& n : notes) {
     if (!out.empty()) out += "; ";
@@ -71,17 +78,6 @@ std::string RouteMessage(const ComputeSummary& s, std::size_t fast_blocks, std::
 }
 
 }  // namespace
-
-std::string_view ToString(PowerRoute r) {
-  return r == PowerRoute::kStreamed ? "streamed" : "matrix";
-}
-
-std::optional<PowerRoute> PowerRouteFromString(std::string_view s) {
-  for (PowerRoute r : {PowerRoute::kMatrix, PowerRoute::kStreamed}) {
-    if (EqualsIgnoreCase(s, ToString(r))) return r;
-  }
-  return std::nullopt;
-}
 
 std::string FastTransformsToString(const std::vector<FastTransform>& transforms) {
   if (transforms.empty()) return std::string(ToString(FastTransform::kNone));
@@ -117,8 +113,13 @@ std::string ComputeSummary::BriefReport() const {
     s += Format(", %s transform, error bound %.2g of the peak |rE|",
                 FastTransformsToString(fast_transforms_used).c_str(), field_error_bound_relative);
   }
-  s += "; power " + std::string(ToString(power_route)) +
-       (power_route == PowerRoute::kStreamed ? " (no resistance matrix stored)" : " (closed form)");
+  s += "; power " + std::string(ToString(power_route));
+  if (power_route == PowerRoute::kQuadrature) {
+    s += Format(" (degree %d, %zu nodes, error bound %.2g of P)", power_quadrature_degree,
+                power_quadrature_nodes, power_error_bound_relative);
+  } else {
+    s += power_route == PowerRoute::kStreamed ? " (no resistance matrix stored)" : " (closed form)";
+  }
   return s;
 }
 
@@ -199,7 +200,27 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   s.num_dipoles = array.size();
 
   auto t0 = Clock::now();
-  if (array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix) {
+  PowerQuadratureOptions quadrature = options.power_quadrature;
+  quadrature.num_threads = options.field.num_threads;
+  const PowerChoice power = ChoosePowerRoute(
+      array, options.power_method,
+      array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix,
+      options.store_resistance_matrix, quadrature);
+  if (power.route == PowerRoute::kQuadrature) {
+    const QuadraturePower q = RadiatedPowerByQuadrature(array, currents, quadrature);
+    r.radiated_power_w = q.radiated_power_w;
+    s.power_error_bound_relative = q.error_bound_relative;
+    s.power_quadrature_degree = q.rule.exact_degree();
+    s.power_quadrature_nodes = q.rule.num_nodes();
+    // The digits the bound leaves (at most those of a double).
+    s.power_significant_digits =
+        q.error_bound_relative > 0
+            ? std::min(PowerSignificantDigits(1.0, 1.0), -std::log10(q.error_bound_relative))
+            : PowerSignificantDigits(1.0, 1.0);
+    r.active_resistance_ohm = Eigen::VectorXd::Constant(static_cast<Eigen::Index>(array.size()),
+                                                        std::numeric_limits<double>::quiet_NaN());
+    s.power_route = PowerRoute::kQuadrature;
+  } else if (power.route == PowerRoute::kMatrix) {
     r.resistance_ohm = ResistanceMatrix(array, options.field.num_threads);
     r.radiated_power_w = RadiatedPower(r.resistance_ohm, currents);
     s.power_significant_digits =
@@ -275,7 +296,7 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
     s.seconds_field += SecondsSince(tb);
   }
   s.field_method_used = fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
-  s.message = RouteMessage(s, fast_blocks, blocks, options);
+  s.message = RouteMessage(s, fast_blocks, blocks, options, power.why);
   s.num_directions = n;
   s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
 

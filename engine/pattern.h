@@ -14,6 +14,7 @@
 
 #include "engine/field/far_field.h"
 #include "engine/grid.h"
+#include "engine/power/power_cost.h"
 #include "engine/types.h"
 
 namespace lobecast {
@@ -30,6 +31,13 @@ struct PatternOptions {
   // empty, unless store_resistance_matrix asks for it anyway.
   std::size_t resistance_matrix_max_dipoles = 4096;
   bool store_resistance_matrix = false;
+  // The power's route: the closed form (matrix or streamed, as above), the
+  // band-limited quadrature (engine/power/power_quadrature.h: no matrix and no
+  // active resistances, which are then NaN), or auto (power_cost.h: the closed
+  // form unless it is estimated slow and the quadrature well below it). The
+  // quadrature's threads are field.num_threads.
+  PowerMethod power_method = PowerMethod::kAuto;
+  PowerQuadratureOptions power_quadrature;
   // The grid is planned and computed in blocks of whole theta rows of about this
   // many directions, bounding the plan's memory (~100 bytes per direction) on
   // large grids. The result does not depend on it beyond the fast path's tolerance
@@ -40,14 +48,8 @@ struct PatternOptions {
   std::function<void(double)> progress;
 };
 
-// How the radiated power and the active resistances were obtained.
-enum class PowerRoute {
-  kMatrix,    // the closed-form N x N resistance matrix, built (and stored)
-  kStreamed,  // row by row in O(N) memory; no matrix stored
-};
-std::string_view ToString(PowerRoute r);  // "matrix", "streamed"
-// Case-insensitive; std::nullopt for an unknown name.
-std::optional<PowerRoute> PowerRouteFromString(std::string_view s);
+// PowerRoute (how the radiated power and the active resistances were obtained),
+// PowerMethod (what was asked) and their cost model: engine/power/power_cost.h.
 
 // ComputeSummary::fast_transforms_used as one name: "none" when empty, else the
 // transforms' names joined with "+" ("lattice", "lattice+type-3"). The result
@@ -66,6 +68,11 @@ struct ComputeSummary {
   std::vector<FastTransform> fast_transforms_used;
   double field_error_bound_relative = 0;  // fast path: bound met, relative to the peak
   PowerRoute power_route = PowerRoute::kMatrix;
+  // The quadrature route only (0 otherwise; stored only then): the bound of
+  // |P - P_exact| relative to P, the rule's exact degree and its nodes evaluated.
+  double power_error_bound_relative = 0;
+  int power_quadrature_degree = 0;
+  std::size_t power_quadrature_nodes = 0;
   int threads_used = 0;
   std::size_t num_dipoles = 0;
   std::size_t num_sources = 0;  // dipoles plus images

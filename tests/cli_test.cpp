@@ -1,6 +1,7 @@
 // End to end through the `lobecast` executable: every sample array computed and
 // its HDF5 result checked against the engine run in-process; the bad-input corpus
 // rejected with exit code 2, a located message, and no output file.
+#include <cmath>
 #include <filesystem>
 #include <fstream>
 #include <string>
@@ -276,6 +277,42 @@ TEST(Cli, CheckRejectsCurrentsThatOverflow) {
   EXPECT_EQ(run.exit_code, 2) << run.out;
   EXPECT_THAT(run.out, HasSubstr("overflows"));
   EXPECT_FALSE(fs::exists(dir / "huge.h5"));
+}
+
+TEST(Cli, PowerMethodQuadratureIsStoredAndItsMisusesRefused) {
+  // --power-method quadrature: P within the bound the file stores of the closed
+  // form's, no active resistances (NaN, with the note); the options that cannot go
+  // with it are refused before any work (exit 2, nothing written).
+  const fs::path dir = WorkDir("power_method");
+  const std::string toml = std::string(LOBECAST_SAMPLES) + "/planar-4x4-ground.toml";
+  const std::string exe = std::string(LOBECAST_EXE) + " compute " + Quote(toml) + " --no-analysis";
+  const RunOutput q =
+      RunCommand(exe + " --power-method quadrature -o " + Quote((dir / "q.h5").string()));
+  ASSERT_EQ(q.exit_code, 0) << q.out;
+  EXPECT_THAT(q.out, HasSubstr("band-limited quadrature, within"));
+  EXPECT_THAT(q.out, HasSubstr("active resistance: not computed"));
+  const RunOutput c =
+      RunCommand(exe + " --power-method closed -q -o " + Quote((dir / "c.h5").string()));
+  ASSERT_EQ(c.exit_code, 0) << c.out;
+  const StoredResult sq = ReadResult((dir / "q.h5").string());
+  const StoredResult sc = ReadResult((dir / "c.h5").string());
+  EXPECT_EQ(sq.result.summary.power_route, PowerRoute::kQuadrature);
+  EXPECT_GT(sq.result.summary.power_error_bound_relative, 0.0);
+  EXPECT_LE(std::abs(sq.result.radiated_power_w - sc.result.radiated_power_w),
+            sq.result.summary.power_error_bound_relative * sq.result.radiated_power_w +
+                1e-14 * sc.result.radiated_power_w);
+  EXPECT_TRUE(sq.result.active_resistance_ohm.array().isNaN().all());
+  EXPECT_EQ(sc.result.summary.power_route, PowerRoute::kMatrix);
+  for (const std::string& bad :
+       {std::string(" --power-method quadrature --resistance-matrix"),
+        std::string(" --power-method closed --power-tolerance 1e-8"),
+        std::string(" --power-method numeric"), std::string(" --power-tolerance 0.5")}) {
+    const fs::path out = dir / "bad.h5";
+    const RunOutput r = RunCommand(exe + bad + " -o " + Quote(out.string()));
+    EXPECT_EQ(r.exit_code, 2) << bad << ": " << r.out;
+    EXPECT_THAT(r.out, HasSubstr("lobecast: ")) << bad;
+    EXPECT_FALSE(fs::exists(out)) << bad;
+  }
 }
 
 }  // namespace

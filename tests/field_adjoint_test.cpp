@@ -183,6 +183,47 @@ TEST(FieldAdjoint, FastMeetsItsBoundAndTheDotProductTest) {
   }
 }
 
+// With one fixed transform tolerance (FieldOptions::fixed_pass_tolerance, the
+// quadrature of engine/power/power_quadrature.h) the forward and adjoint fast
+// passes use the same transform, whose adjoint is exact as computed
+// (PointSum::Adjoint), so the dot-product test holds to rounding: 1e-12 of
+// |A I| |x|, as for the direct sums; and each meets its reported bound.
+TEST(FieldAdjoint, FixedPassFastPassesTheDotProductTest) {
+  TestRng rng(57);
+  const Directions dirs = SphereGrid(2.0);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    const Array arrays[] = {RandomArray(rng, 200, g, 6.0), ZLattice(rng, 12, g)};
+    for (const Array& a : arrays) {
+      for (double eps : {1e-6, 1e-12}) {
+        FieldOptions o = MethodOptions(FieldMethod::kFast);
+        o.fixed_pass_tolerance = eps;
+        const FieldPlan fast(a, dirs, o);
+        const FieldPlan direct(a, dirs, MethodOptions(FieldMethod::kDirect));
+        const std::string name = std::string(ToString(fast.fast_transform())) + ", " +
+                                 std::string(ToString(g)) + ", eps " + std::to_string(eps);
+        const Eigen::VectorXcd current = RandomVector(rng, a.size());
+        const FarField x = RandomField(rng, dirs.size());
+        const FarField f = fast.Execute(current);
+        const DipoleSums y = fast.ExecuteAdjoint(x);
+        EXPECT_LT(std::abs(Dot(f, x) - current.dot(y.values)) / (Norm(f) * Norm(x)), 1e-12) << name;
+        // Against the exact sums, within the bounds reported (relative to the peaks).
+        const FarField fd = direct.Execute(current);
+        double peak = 0, err = 0;
+        for (Eigen::Index i = 0; i < f.e_theta.size(); ++i) {
+          peak = std::max(peak, std::hypot(std::abs(f.e_theta[i]), std::abs(f.e_phi[i])));
+          err = std::max(err, std::hypot(std::abs(f.e_theta[i] - fd.e_theta[i]),
+                                         std::abs(f.e_phi[i] - fd.e_phi[i])));
+        }
+        EXPECT_GT(f.error_bound_relative, 0.0) << name;
+        EXPECT_LE(err, f.error_bound_relative * peak) << name;
+        EXPECT_LE(MaxRelative(y.values, direct.ExecuteAdjoint(x).values),
+                  y.error_bound_relative * (1 + 1e-6))
+            << name;
+      }
+    }
+  }
+}
+
 TEST(FieldAdjoint, DoesNotDependOnThreads) {
   TestRng rng(54);
   const Directions dirs = SphereGrid(3.0);

@@ -528,6 +528,46 @@ print("h5py check ok")
   EXPECT_EQ(RunPython(dir, script, path), 0);
 }
 
+// The quadrature's bound and rule (schema::VisitPowerQuadrature) and the note on the
+// active resistances are written only when the power took the quadrature, and read
+// back then; a closed-form result has neither (its file is as before).
+TEST(ResultIoH5py, QuadraturePowerAttributesOnlyWhenUsed) {
+  const fs::path dir = FreshDir("quadrature_power");
+  const Array a = MakeArray();
+  PatternResult closed = MakeResult();
+  PatternResult quadrature = MakeResult();
+  quadrature.resistance_ohm.resize(0, 0);
+  quadrature.active_resistance_ohm.setConstant(kNaN);
+  quadrature.summary.power_route = PowerRoute::kQuadrature;
+  quadrature.summary.power_error_bound_relative = 3.5e-12;
+  quadrature.summary.power_quadrature_degree = 371;
+  quadrature.summary.power_quadrature_nodes = 34503;
+  for (const PatternResult* r : {&closed, &quadrature}) {
+    const std::string path = dir / (r == &quadrature ? "q.h5" : "c.h5");
+    WriteResult(path, a, MakeCurrents(), *r, MakeMeta());
+    const ComputeSummary back = ReadResult(path).result.summary;
+    EXPECT_EQ(back.power_route, r->summary.power_route);
+    EXPECT_EQ(back.power_error_bound_relative, r->summary.power_error_bound_relative);
+    EXPECT_EQ(back.power_quadrature_degree, r->summary.power_quadrature_degree);
+    EXPECT_EQ(back.power_quadrature_nodes, r->summary.power_quadrature_nodes);
+  }
+  if (!PythonHasH5py()) GTEST_SKIP() << LOBECAST_PYTHON << " lacks h5py";
+  const std::string script = R"PY(
+import sys, h5py
+names = ("power_error_bound_relative", "power_quadrature_degree", "power_quadrature_nodes")
+for path, quadrature in ((sys.argv[1] + "/q.h5", True), (sys.argv[1] + "/c.h5", False)):
+    f = h5py.File(path, "r")
+    s = f["/summary"].attrs
+    assert all((n in s) == quadrature for n in names), (path, list(s))
+    assert ("active_resistance_ohm_omitted" in f["/power"].attrs) == quadrature, path
+    assert s["power_method"] == ("quadrature" if quadrature else "matrix"), s["power_method"]
+    if quadrature:
+        assert s["power_error_bound_relative"] == 3.5e-12 and s["power_quadrature_nodes"] == 34503
+print("h5py check ok")
+)PY";
+  EXPECT_EQ(RunPython(dir, script, dir.string()), 0);
+}
+
 TEST(ResultIoH5py, ReaderRejectsAForeignHdf5File) {
   if (!PythonHasH5py()) GTEST_SKIP() << LOBECAST_PYTHON << " lacks h5py";
   const fs::path dir = FreshDir("foreign");

@@ -85,9 +85,19 @@ struct FieldOptions {
   // Fast path: take the lattice transform when the sources sit on a lattice and
   // it is estimated cheaper; false always runs type 3 (for comparisons).
   bool use_lattice = true;
+  // Fast path only: when > 0, one transform pass at this tolerance (relative to
+  // sum |I Le|, rounded down to a power of ten, 1e-14 to 1e-1) instead of the
+  // scout pass and the search relative to the peak, and no direct fallback; the
+  // auto choice costs that one pass. For quadratures of quadratic forms
+  // (engine/power/power_quadrature.h), whose error is set by an absolute bound on
+  // every sample rather than one relative to the peak; error_bound_relative still
+  // reports the bound met relative to the peak (infinite when the peak is 0), and
+  // tolerance_relative is then unused.
+  double fixed_pass_tolerance = 0;
 
   // False (with a message naming the field, the value and the rule) unless
-  // num_threads >= 0 and 1e-14 <= tolerance_relative <= 1e-2.
+  // num_threads >= 0, 1e-14 <= tolerance_relative <= 1e-2 and
+  // fixed_pass_tolerance is 0 or 1e-14 to 1e-1.
   bool IsValid(std::string* why) const;
 };
 
@@ -139,6 +149,14 @@ class FieldPlan {
 
   // kDirect or kFast: what options.method (kAuto resolved) led to.
   FieldMethod method_used() const { return method_used_; }
+  // The cost model's seconds (threads counted) and peak bytes of executing the
+  // plan, as if it had num_directions directions spread as its own are (the
+  // transform's grid as it is, the per-direction work scaled): for jobs that plan
+  // a sample of their directions to cost them (engine/power/power_cost.h). method:
+  // the direct sum, the fast path, or what auto would pick at that size. A plan
+  // built with kDirect, or that chose it, costs its fast path by type 3.
+  double EstimatedSeconds(double num_directions, FieldMethod method = FieldMethod::kAuto) const;
+  double EstimatedBytes(double num_directions, FieldMethod method = FieldMethod::kAuto) const;
   // The fast path's transform (kNone for the direct path): the lattice one when
   // the sources sit on a lattice and it is estimated cheaper than type 3.
   FastTransform fast_transform() const { return fast_transform_; }
@@ -172,9 +190,10 @@ class FieldPlan {
   DipoleSums AdjointFast(const Eigen::Matrix3Xcd& v) const;
 
   // The cost model behind kAuto and the transform choice (method_cost.cpp).
-  double EstimatedDirectSeconds() const;
-  double EstimatedType3Seconds() const;
-  double EstimatedLatticeSeconds() const;
+  // direction_scale: as if the plan had that many times its directions.
+  double EstimatedDirectSeconds(double direction_scale = 1.0) const;
+  double EstimatedType3Seconds(double direction_scale = 1.0) const;
+  double EstimatedLatticeSeconds(double direction_scale = 1.0) const;
 
   std::size_t num_dipoles_ = 0;
   Ground ground_ = Ground::kNone;
@@ -190,6 +209,7 @@ class FieldPlan {
   std::vector<double> signed_moment_m_;     // Le * (u . axis), collinear only
   std::array<std::vector<double>, 6> soa_;  // x, y, z (m); moment x, y, z (m, general only)
   double tolerance_relative_ = 1e-9;
+  double fixed_pass_tolerance_ = 0;  // FieldOptions::fixed_pass_tolerance
   FieldMethod method_used_ = FieldMethod::kDirect;
   FastTransform fast_transform_ = FastTransform::kNone;
   // The sources' lattice, when they have one (fast path only): its phase error

@@ -5,6 +5,7 @@
 #include <cmath>
 #include <functional>
 #include <iterator>
+#include <limits>
 #include <optional>
 
 #include "engine/field/far_field.h"
@@ -26,10 +27,18 @@ namespace {
 // met relative to the peak, or std::nullopt when the peak is so far below unit
 // (near-total cancellation) that double precision cannot reach the tolerance:
 // then the caller sums directly.
-std::optional<double> SearchTolerance(double tolerance, double unit, double placement,
+//
+// With a fixed pass tolerance (> 0), one pass at it (rounded down), whatever the
+// peak: the bound relative to the peak (infinite for a zero peak), never nullopt.
+std::optional<double> SearchTolerance(double tolerance, double fixed, double unit, double placement,
                                       const std::function<double(double)>& pass) {
   const auto bound = [&](double eps) { return unit * (kErrorModel * eps + placement); };
   const auto round_down = [](double e) { return std::pow(10.0, std::floor(std::log10(e))); };
+  if (fixed > 0) {
+    const double eps = std::max(1e-14, round_down(fixed));
+    const double peak = pass(eps);
+    return peak > 0 ? bound(eps) / peak : std::numeric_limits<double>::infinity();
+  }
   double eps = round_down(std::max(tolerance, kScoutTolerance));
   double peak = pass(eps);
   if (bound(eps) > tolerance * peak) {
@@ -110,8 +119,9 @@ void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t firs
     };
     // Error in |rE| at tolerance eps, by the error model (same for every
     // direction), plus the lattice's placement error when it has one.
-    const std::optional<double> met = SearchTolerance(
-        tolerance_relative_, prefactor_ * std::sqrt(comps) * l1, lattice_phase_error_, pass);
+    const std::optional<double> met =
+        SearchTolerance(tolerance_relative_, fixed_pass_tolerance_,
+                        prefactor_ * std::sqrt(comps) * l1, lattice_phase_error_, pass);
     if (met) {
       cache.error_bound = *met;
     } else {
@@ -179,7 +189,7 @@ DipoleSums FieldPlan::AdjointFast(const Eigen::Matrix3Xcd& v) const {
     return y.size() ? y.cwiseAbs().maxCoeff() : 0.0;
   };
   const std::optional<double> met =
-      SearchTolerance(tolerance_relative_, unit, lattice_phase_error_, pass);
+      SearchTolerance(tolerance_relative_, fixed_pass_tolerance_, unit, lattice_phase_error_, pass);
   if (met) return DipoleSums{y, *met};
   return DipoleSums{AdjointDirect(v), 0.0};
 }

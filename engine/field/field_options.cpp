@@ -44,6 +44,10 @@ bool FieldOptions::IsValid(std::string* why) const {
     m << "num_threads: found " << num_threads << ", expected 0 (OpenMP default) or more";
   } else if (!(tolerance_relative >= 1e-14 && tolerance_relative <= 1e-2)) {
     m << "tolerance_relative: found " << tolerance_relative << ", expected 1e-14 to 1e-2";
+  } else if (!(fixed_pass_tolerance == 0 ||
+               (fixed_pass_tolerance >= 1e-14 && fixed_pass_tolerance <= 1e-1))) {
+    m << "fixed_pass_tolerance: found " << fixed_pass_tolerance
+      << ", expected 0 (search) or 1e-14 to 1e-1";
   } else {
     return true;
   }

@@ -3,6 +3,7 @@
 // sums (direct_sum.cpp) or the fast path (fast_path.cpp).
 #include <algorithm>
 #include <cmath>
+#include <limits>
 #include <sstream>
 
 #include <Eigen/Geometry>
@@ -48,6 +49,7 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
     : num_dipoles_(array.size()),
       ground_(array.ground),
       tolerance_relative_(options.tolerance_relative),
+      fixed_pass_tolerance_(options.fixed_pass_tolerance),
       num_threads_(options.num_threads) {
   Validate(array);
   std::string why;
@@ -89,8 +91,16 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
   dirs_ = MakeDirectionData(directions);
 
   if (options.method != FieldMethod::kDirect) {
-    // A lattice within kLatticeOffsetPhase * tolerance of phase of every source.
-    const double max_offset = kLatticeOffsetPhase * tolerance_relative_ / k;
+    // A lattice within kLatticeOffsetPhase * tolerance of phase of every source;
+    // with a fixed pass tolerance eps, within eps plus the rounding of the
+    // coordinates themselves (64 ulp of the largest, in phase), which the
+    // placement error then adds to the bound.
+    double max_offset = kLatticeOffsetPhase * tolerance_relative_ / k;
+    if (fixed_pass_tolerance_ > 0) {
+      const double extent = source_pos_.size() ? source_pos_.cwiseAbs().maxCoeff() : 0.0;
+      max_offset =
+          fixed_pass_tolerance_ / k + 64.0 * std::numeric_limits<double>::epsilon() * extent;
+    }
     const double max_sites = kMaxSitesPerSource * static_cast<double>(num_sources()) + 1024.0;
     auto lat =
         options.use_lattice ? FindAxisLattice(source_pos_, max_offset, max_sites) : std::nullopt;

@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <array>
 #include <cmath>
+#include <vector>
 
 #include "engine/field/far_field.h"
 #include "engine/field/fast_path.h"
@@ -29,45 +30,48 @@ constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
 
 }  // namespace
 
-double FieldPlan::EstimatedDirectSeconds() const {
+double FieldPlan::EstimatedDirectSeconds(double direction_scale) const {
   std::size_t live = 0;
   for (unsigned char z : dirs_.zeroed) live += z ? 0 : 1;
   const double per = collinear_ ? kSecondsPerPairCollinear : kSecondsPerPairGeneral;
   const int threads = ResolveThreads(num_threads_);
-  return static_cast<double>(live) * static_cast<double>(num_sources()) * per / threads;
+  return direction_scale * static_cast<double>(live) * static_cast<double>(num_sources()) * per /
+         threads;
 }
 
 // A scout pass, then one about three digits tighter than asked (the peak is
 // below sum |c|, often well below for irregular currents, and the error model
 // carries a factor 10): the tolerances both fast estimates cost.
-std::array<double, 2> PassTolerances(double tolerance_relative) {
+// With a fixed pass tolerance, that one pass.
+std::vector<double> PassTolerances(double tolerance_relative, double fixed_pass_tolerance) {
+  if (fixed_pass_tolerance > 0) return {fixed_pass_tolerance};
   return {kScoutTolerance, std::max(1e-14, 1e-3 * tolerance_relative)};
 }
 
-double FieldPlan::EstimatedType3Seconds() const {
+double FieldPlan::EstimatedType3Seconds(double direction_scale) const {
   const double comps = collinear_ ? 1.0 : 3.0;
   const int threads = ResolveThreads(num_threads_);
+  const double nd = direction_scale * static_cast<double>(num_directions());
   double total = 0;
-  for (double eps : PassTolerances(tolerance_relative_)) {
+  for (double eps : PassTolerances(tolerance_relative_, fixed_pass_tolerance_)) {
     const NufftGeometry g = Nufft3::GeometryFor(source_pos_, dirs_.k_r_hat, eps);
     if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
     const double spread = static_cast<double>(num_sources()) * g.kernel_points() * comps;
-    const double interp =
-        static_cast<double>(num_directions()) * g.kernel_points() * comps / threads;
+    const double interp = nd * g.kernel_points() * comps / threads;
     const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
     total += (spread + interp) * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog +
-             static_cast<double>(num_directions()) * kSecondsPerTargetPass / threads;
+             nd * kSecondsPerTargetPass / threads;
   }
   return total;
 }
 
-double FieldPlan::EstimatedLatticeSeconds() const {
+double FieldPlan::EstimatedLatticeSeconds(double direction_scale) const {
   if (!lattice_) return 1e300;
   const double comps = collinear_ ? 1.0 : 3.0;
   const int threads = ResolveThreads(num_threads_);
-  const auto nd = static_cast<double>(num_directions());
+  const double nd = direction_scale * static_cast<double>(num_directions());
   double total = 0;
-  for (double eps : PassTolerances(tolerance_relative_)) {
+  for (double eps : PassTolerances(tolerance_relative_, fixed_pass_tolerance_)) {
     const LatticeShape shape = LatticeSum::ShapeFor(*lattice_, eps);
     const NufftGeometry& g = shape.per_layer;
     if (g.fft_points() * comps * 16.0 > kMaxFastGridBytes) return 1e300;
@@ -78,6 +82,36 @@ double FieldPlan::EstimatedLatticeSeconds() const {
              nd * kSecondsPerLatticeTarget / threads;
   }
   return total;
+}
+
+double FieldPlan::EstimatedSeconds(double num_directions, FieldMethod method) const {
+  const double scale = this->num_directions() ? num_directions / this->num_directions() : 0.0;
+  const double direct = EstimatedDirectSeconds(scale);
+  if (method == FieldMethod::kDirect) return direct;
+  const double fast = fast_transform_ == FastTransform::kLattice ? EstimatedLatticeSeconds(scale)
+                                                                 : EstimatedType3Seconds(scale);
+  if (method == FieldMethod::kFast) return fast;
+  return fast < 0.5 * direct ? fast : direct;
+}
+
+double FieldPlan::EstimatedBytes(double num_directions, FieldMethod method) const {
+  // Per direction: the plan's unit vectors (73 bytes), the field kept and handed
+  // out (64), and on the fast path the transform's targets, factors and output
+  // (about 100); the fast path's FFT grid besides.
+  const double direct = 137.0 * num_directions;
+  if (method == FieldMethod::kDirect) return direct;
+  if (method == FieldMethod::kAuto) {
+    const double scale = this->num_directions() ? num_directions / this->num_directions() : 0.0;
+    const double fast = fast_transform_ == FastTransform::kLattice ? EstimatedLatticeSeconds(scale)
+                                                                   : EstimatedType3Seconds(scale);
+    if (!(fast < 0.5 * EstimatedDirectSeconds(scale))) return direct;
+  }
+  const double comps = collinear_ ? 1.0 : 3.0;
+  const double eps = PassTolerances(tolerance_relative_, fixed_pass_tolerance_).back();
+  const double grid = fast_transform_ == FastTransform::kLattice
+                          ? LatticeSum::ShapeFor(*lattice_, eps).per_layer.fft_points()
+                          : Nufft3::GeometryFor(source_pos_, dirs_.k_r_hat, eps).fft_points();
+  return 237.0 * num_directions + 16.0 * comps * grid;
 }
 
 }  // namespace lobecast

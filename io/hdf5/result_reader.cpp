@@ -219,6 +219,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   if (hdf5::Exists(file, S(schema::kSummaryGroup))) {
     SummaryReader v{path, hdf5::OpenGroup(file, S(schema::kSummaryGroup))};
     schema::VisitSummary(r.summary, v);
+    schema::VisitPowerQuadrature(r.summary, v);
     out.has_summary = true;
   }
   // The numerical floor again, from the stored array and currents (not stored), for

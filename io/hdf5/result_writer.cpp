@@ -311,7 +311,8 @@ void PatternFileWriter::WriteRows(std::size_t first_theta_row, const PatternRows
 }
 
 void PatternFileWriter::WritePower(double radiated_power_w, const Eigen::MatrixXd& resistance_ohm,
-                                   const Eigen::VectorXd& active_resistance_ohm) {
+                                   const Eigen::VectorXd& active_resistance_ohm,
+                                   std::string_view active_resistance_omitted) {
   Impl& w = *impl_;
   w.Step([&] {
     const auto n = static_cast<std::size_t>(w.num_dipoles);
@@ -337,6 +338,10 @@ void PatternFileWriter::WritePower(double radiated_power_w, const Eigen::MatrixX
                                  "(lobecast compute --resistance-matrix stores it)");
     }
     Write(g, schema::kActiveResistance, {n}, active_resistance_ohm.data());
+    if (!active_resistance_omitted.empty()) {
+      hdf5::WriteStringAttribute(g, S(schema::kActiveResistanceOmittedAttribute),
+                                 S(active_resistance_omitted));
+    }
     w.power_written = true;
   });
 }
@@ -347,6 +352,7 @@ void PatternFileWriter::WriteSummary(const ComputeSummary& s) {
     w.Hook(schema::kSummaryGroup);
     SummaryWriter v{w.Group(S(schema::kSummaryGroup))};
     schema::VisitSummary(s, v);
+    if (s.power_route == PowerRoute::kQuadrature) schema::VisitPowerQuadrature(s, v);
   });
 }
 
@@ -495,7 +501,12 @@ void WriteResult(const std::string& path, const Array& array, const Eigen::Vecto
   for (std::size_t first = 0; first < nt; first += block) {
     writer.WriteRows(first, RowsOf(result, first, std::min(block, nt - first)));
   }
-  writer.WritePower(result.radiated_power_w, result.resistance_ohm, result.active_resistance_ohm);
+  writer.WritePower(result.radiated_power_w, result.resistance_ohm, result.active_resistance_ohm,
+                    result.summary.power_route == PowerRoute::kQuadrature
+                        ? "the power came from the band-limited quadrature, which gives no "
+                          "mutual reactances; the active resistances need them (O(N^2)): "
+                          "lobecast compute --power-method closed computes them"
+                        : "");
   writer.WriteSummary(result.summary);
   if (options.before_finish) options.before_finish(writer);
   writer.Finish();

@@ -109,8 +109,11 @@ class PatternFileWriter {
   PatternFileWriter& operator=(PatternFileWriter&&) noexcept;
 
   void WriteRows(std::size_t first_theta_row, const PatternRows& rows);
+  // active_resistance_omitted: when not empty, the /power attribute saying why the
+  // active resistances are NaN.
   void WritePower(double radiated_power_w, const Eigen::MatrixXd& resistance_ohm,
-                  const Eigen::VectorXd& active_resistance_ohm);
+                  const Eigen::VectorXd& active_resistance_ohm,
+                  std::string_view active_resistance_omitted = {});
   void WriteSummary(const ComputeSummary& summary);
 
   // Extra attributes and small tables (later analyses store theirs under

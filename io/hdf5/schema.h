@@ -230,6 +230,18 @@ void VisitSummary(Summary& s, V& v) {
   v.Value(Field{"peak_phi_deg", "deg"}, s.peak_phi_deg);
 }
 
+// Written only when the power took the band-limited quadrature
+// (PowerRoute::kQuadrature); read whenever present.
+template <typename Summary, typename V>  // Summary: ComputeSummary, const or not
+void VisitPowerQuadrature(Summary& s, V& v) {
+  v.Value(Field{"power_error_bound_relative", "1"}, s.power_error_bound_relative);
+  v.Value(Field{"power_quadrature_degree", "1"}, s.power_quadrature_degree);
+  v.Value(Field{"power_quadrature_nodes", "1"}, s.power_quadrature_nodes);
+}
+// The /power attribute that says why active_resistance_ohm is NaN (quadrature).
+inline constexpr std::string_view kActiveResistanceOmittedAttribute =
+    "active_resistance_ohm_omitted";
+
 // ---- /summary/analysis: PatternAnalysis ---------------------------------------------
 
 inline constexpr int kAnalysisVersion = 2;  // 2: null loci and crossings, cut tangents

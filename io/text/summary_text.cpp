@@ -131,10 +131,17 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     << (std::isnan(r.tilt_deg[peak])
             ? std::string(", tilt undefined (circular)\n")
             : Printf(", tilt %.2f deg from theta_hat toward phi_hat\n", r.tilt_deg[peak]));
-  s << PowerLine(desc, r.radiated_power_w, sm.power_significant_digits);
+  s << PowerLine(
+      desc, r.radiated_power_w, sm.power_significant_digits,
+      sm.power_route == PowerRoute::kQuadrature
+          ? Printf("band-limited quadrature, within %.2g of P", sm.power_error_bound_relative)
+          : std::string("closed form"));
 
   const Eigen::VectorXd& ra = r.active_resistance_ohm;
-  if (a.size() <= kFullTableUpTo) {
+  if (sm.power_route == PowerRoute::kQuadrature) {
+    s << "active resistance: not computed (the quadrature gives no mutual reactances; "
+         "--power-method closed computes them in O(N^2))\n";
+  } else if (a.size() <= kFullTableUpTo) {
     s << "active (driving-point) resistance per element:\n"
       << "     #          |I|        phase   R_active (ohm)   R_self (ohm)\n";
     for (std::size_t n = 0; n < a.size(); ++n) {
@@ -164,9 +171,9 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
 }
 
 std::string PowerLine(const ArrayDescription& desc, double radiated_power_w,
-                      double power_significant_digits) {
-  std::string out = Printf("power        %.6g W radiated for the %s currents (closed form)\n",
-                           radiated_power_w, CurrentsWord(desc));
+                      double power_significant_digits, std::string_view how) {
+  std::string out = Printf("power        %.6g W radiated for the %s currents (%s)\n",
+                           radiated_power_w, CurrentsWord(desc), std::string(how).c_str());
   const std::string note = PowerDigitsNote(power_significant_digits);
   if (!note.empty()) out += "caution      " + note + "\n";
   return out;

@@ -32,8 +32,9 @@ std::string WrappedNote(std::string_view label, std::string_view text);
 
 // The power line of `check` and `compute`: "power  P W radiated for the given (or
 // solved) currents (closed form)", and a caution line when P keeps fewer than
-// kPowerDigitsWanted digits (PowerDigitsNote).
+// kPowerDigitsWanted digits (PowerDigitsNote). how replaces "closed form" (e.g. the
+// quadrature and its bound).
 std::string PowerLine(const ArrayDescription& desc, double radiated_power_w,
-                      double power_significant_digits);
+                      double power_significant_digits, std::string_view how = "closed form");
 
 }  // namespace lobecast::text
