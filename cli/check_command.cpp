@@ -5,6 +5,7 @@
 
 #include "cli/commands.h"
 #include "cli/option_checks.h"
+#include "cli/run_limits.h"
 #include "engine/pattern.h"
 #include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
@@ -19,6 +20,7 @@ namespace lobecast::cli {
 void AddCheckCommand(CLI::App& app) {
   auto input = std::make_shared<std::string>();
   auto quiet = std::make_shared<bool>(false);
+  auto limits = std::make_shared<RunLimits>();
   CLI::App* cmd = app.add_subcommand(
       "check",
       "Read and validate an array description and describe it (frequency in Hz, "
@@ -31,9 +33,14 @@ void AddCheckCommand(CLI::App& app) {
   cmd->add_flag("-q,--quiet", *quiet,
                 "Print nothing but warnings and errors: the exit code alone says valid (0) or "
                 "rejected (2)");
-  cmd->callback([input, quiet] {
+  AddRunLimitOptions(cmd, *limits);
+  cmd->callback([input, quiet, limits] {
     ArrayDescription desc = ReadArrayDescription(*input);
     PrintWarnings(desc.warnings);
+    RunSize size;  // the power alone: no pattern, the matrix streamed
+    size.dipoles = desc.array.size();
+    size.ground = desc.array.ground;
+    CheckRunLimits(EstimateRun(size), *limits, *input, *quiet);
     // Driven and loaded dipoles: the table shows the currents the circuit gives.
     const auto coupling = SolveArrayCircuit(desc, 0);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches

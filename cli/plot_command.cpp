@@ -15,6 +15,7 @@
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/result_reader.h"
 #include "io/input_error.h"
+#include "io/output_file.h"
 #include "io/plot/plot.h"
 
 namespace lobecast::cli {
@@ -161,6 +162,7 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
 void RunPlot(const PlotArgs& args) {
   const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
   RefuseInputAsOutput("--output", args.output, args.input);
+  CheckOutputWritable(args.output);  // an unwritable folder is found before the work
   const StoredResult result = ReadResult(args.input);
   // The figures drawn are the stored analysis' (what `report` prints); a result without
   // one (older, or computed with --no-analysis) gets one with the default options.

@@ -16,6 +16,7 @@
 #include "io/input/array_reader.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
+#include "io/output_file.h"
 #include "io/plot/canvas.h"
 #include "io/plot/scan_plot.h"
 #include "io/text/scan_text.h"
@@ -50,6 +51,9 @@ void RunScan(const ScanArgs& args) {
   }
   RefuseInputAsOutput("--output", args.output, args.input);
   RefuseInputAsOutput("--plot", args.plot, args.input);
+  // An unwritable folder is found before the work.
+  CheckTextOutput(args.output);
+  if (!args.plot.empty()) CheckOutputWritable(args.plot);
   ArrayDescription desc = ReadArrayDescription(args.input);
   PrintWarnings(desc.warnings);
   // The file's own circuit, solved once: Z with every element's self reactance (the
