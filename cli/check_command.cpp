@@ -5,6 +5,7 @@
 
 #include "cli/commands.h"
 #include "cli/option_checks.h"
+#include "cli/progress_bar.h"
 #include "cli/run_limits.h"
 #include "engine/pattern.h"
 #include "engine/power/power_large.h"
@@ -40,13 +41,16 @@ void AddCheckCommand(CLI::App& app) {
     RunSize size;  // the power alone: no pattern, the matrix streamed
     size.dipoles = desc.array.size();
     size.ground = desc.array.ground;
-    CheckRunLimits(EstimateRun(size), *limits, *input, *quiet);
+    const RunEstimate estimate = EstimateRun(size);
+    CheckRunLimits(estimate, *limits, *input, *quiet);
     // Driven and loaded dipoles: the table shows the currents the circuit gives.
     const auto coupling = SolveArrayCircuit(desc, 0);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
     // currents that cancel or overflow before anyone waits for a compute; before
     // printing, so a rejected array prints nothing on stdout.
-    const StreamedPower p = RadiatedPowerStreamed(desc.array, desc.currents);
+    StreamedPower p;
+    RunWithTimedProgress(estimate.seconds(), !*quiet,
+                         [&] { p = RadiatedPowerStreamed(desc.array, desc.currents); });
     CheckRadiatedPower(p.radiated_power_w);
     const double digits = PowerSignificantDigits(p.radiated_power_w, p.term_magnitudes_w);
     if (*quiet) {

@@ -11,12 +11,13 @@ namespace {
 // CPU seconds per unit on one core, measured on the development machine (AMD EPYC
 // 2.1 GHz): the streamed power's inner loop from `lobecast check` on 2e4 and 4e4
 // random dipoles (9.1 s and 38 s of user time: 2.3e-8 and 2.4e-8 s a pair); the
-// direct field sum and the fast path's per-point cost from the cost model of
-// engine/field/method_cost.cpp (4.5e8 general pairs a second; about 2e-5 s a
-// source or direction for the two passes of a fast transform at tight tolerance).
+// direct field sum from the cost model of engine/field/method_cost.cpp (4.5e8
+// general pairs a second); the fast path from README "Speed" (about 1.2 s on 2
+// threads for a 1 M-direction grid whatever N: 2.4e-6 CPU s a direction, counted
+// for the sources too).
 constexpr double kSecondsPerPowerPair = 2.4e-8;
 constexpr double kSecondsPerFieldPair = 1.0 / 4.5e8;
-constexpr double kSecondsPerFastPoint = 2.0e-5;
+constexpr double kSecondsPerFastPoint = 2.4e-6;
 
 // Bytes: PatternResult holds ~65 a direction (two complex field components,
 // intensity, directivity, axial ratio, tilt, sense), the analysis 2 more; the
@@ -67,7 +68,7 @@ RunEstimate EstimateRun(const RunSize& size) {
   if (m > 0) {
     e.field_pairs = sources * m;
     const double direct = e.field_pairs * kSecondsPerFieldPair / threads;
-    const double fast = (sources + m) * kSecondsPerFastPoint;
+    const double fast = (sources + m) * kSecondsPerFastPoint / threads;
     e.field_seconds = size.method == FieldMethod::kDirect ? direct : std::min(direct, fast);
   }
   e.memory_bytes = m * kBytesPerDirection +
