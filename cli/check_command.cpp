@@ -6,6 +6,8 @@
 
 #include "cli/commands.h"
 #include "cli/option_checks.h"
+#include "cli/progress_bar.h"
+#include "cli/run_limits.h"
 #include "engine/pattern.h"
 #include "engine/power/power_cost.h"
 #include "engine/power/power_large.h"
@@ -22,6 +24,7 @@ namespace lobecast::cli {
 void AddCheckCommand(CLI::App& app) {
   auto input = std::make_shared<std::string>();
   auto quiet = std::make_shared<bool>(false);
+  auto limits = std::make_shared<RunLimits>();
   CLI::App* cmd = app.add_subcommand(
       "check",
       "Read and validate an array description and describe it (frequency in Hz, "
@@ -34,9 +37,15 @@ void AddCheckCommand(CLI::App& app) {
   cmd->add_flag("-q,--quiet", *quiet,
                 "Print nothing but warnings and errors: the exit code alone says valid (0) or "
                 "rejected (2)");
-  cmd->callback([input, quiet] {
+  AddRunLimitOptions(cmd, *limits);
+  cmd->callback([input, quiet, limits] {
     ArrayDescription desc = ReadArrayDescription(*input);
     PrintWarnings(desc.warnings);
+    RunSize size;  // the power alone: no pattern, the matrix streamed
+    size.dipoles = desc.array.size();
+    size.ground = desc.array.ground;
+    const RunEstimate estimate = EstimateRun(size);
+    CheckRunLimits(estimate, *limits, *input, *quiet);
     // Driven and loaded dipoles: the table shows the currents the circuit gives.
     const auto coupling = SolveArrayCircuit(desc, 0);
     // Closed-form power in O(N) memory: cheap next to a pattern, and it catches
@@ -56,7 +65,9 @@ void AddCheckCommand(CLI::App& app) {
                     q.error_bound_relative);
       how = b;
     } else {
-      const StreamedPower p = RadiatedPowerStreamed(desc.array, desc.currents);
+      StreamedPower p;
+      RunWithTimedProgress(estimate.seconds(), !*quiet,
+                           [&] { p = RadiatedPowerStreamed(desc.array, desc.currents); });
       power_w = p.radiated_power_w;
       digits = PowerSignificantDigits(p.radiated_power_w, p.term_magnitudes_w);
     }

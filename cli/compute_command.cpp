@@ -12,6 +12,7 @@
 #include "cli/enum_names.h"
 #include "cli/option_checks.h"
 #include "cli/progress_bar.h"
+#include "cli/run_limits.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
@@ -25,6 +26,7 @@
 #include "io/hdf5/sweep_writer.h"
 #include "io/input/array_reader.h"
 #include "io/input/solve_circuit.h"
+#include "io/output_file.h"
 #include "io/plot/plot.h"
 #include "io/plot/sweep_plot.h"
 #include "io/safety_note.h"
@@ -55,6 +57,7 @@ struct ComputeArgs {
   std::string power_method = "auto";
   double power_tolerance = PowerQuadratureOptions{}.target_relative;
   bool power_tolerance_given = false;
+  RunLimits limits;
 };
 
 // Refuses options that do not apply to what was asked (exit 2, before any work).
@@ -132,11 +135,24 @@ void RunCompute(const ComputeArgs& args) {
   RefuseInapplicable(args);
   RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
                       args.input);
+  // An unwritable folder is found before the work, not after it.
+  CheckOutputWritable(args.output.empty() ? DefaultOutput(args.input) : args.output);
+  if (!args.plots_dir.empty()) CheckFolderWritable(args.plots_dir);
   const auto t0 = std::chrono::steady_clock::now();
   ArrayDescription desc = ReadArrayDescription(args.input);
   PrintWarnings(desc.warnings);
+  RunSize size;
+  size.dipoles = desc.array.size();
+  size.ground = desc.array.ground;
+  size.directions = desc.grid.size();
+  size.method = *FieldMethodFromString(args.method);  // validated by CLI11
+  size.resistance_matrix =
+      args.resistance_matrix || size.dipoles <= PatternOptions{}.resistance_matrix_max_dipoles;
+  size.threads = args.threads;
+  CheckRunLimits(EstimateRun(size), args.limits, args.input, args.quiet);
   const std::optional<CouplingResult> coupling = SolveArrayCircuit(desc, args.threads);
 
+  StopForTestAt("compute");  // test hook (io/output_file.h)
   ProgressBar bar(!args.quiet);
   PatternOptions options;
   options.field.num_threads = args.threads;
@@ -289,6 +305,7 @@ void AddComputeCommand(CLI::App& app) {
                   "deepest)")
       ->capture_default_str()
       ->check(WholeNumberAtLeast(1, "null loci"));
+  AddRunLimitOptions(cmd, args->limits);
   cmd->add_flag("--no-analysis", args->no_analysis,
                 "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
                 "is otherwise stored under /summary/analysis");

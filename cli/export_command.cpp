@@ -129,6 +129,7 @@ void RunExport(const ExportArgs& args) {
   }
 
   RefuseInputAsOutput("--output", args.output, args.input);
+  CheckTextOutput(args.output);  // an unwritable folder is found before the work
   const StoredResult stored = ReadResult(args.input);
   table.reference = fixed ? *fixed : AutoReference(stored.result);
   table.radiated_power_w = stored.result.radiated_power_w;

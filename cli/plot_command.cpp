@@ -17,6 +17,7 @@
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/sweep_reader.h"
 #include "io/input_error.h"
+#include "io/output_file.h"
 #include "io/plot/plot.h"
 #include "io/plot/sweep_plot.h"
 
@@ -199,6 +200,7 @@ void RunPlot(const PlotArgs& args) {
   if (IsSweepKind(args.kind)) return RunSweepPlot(args);
   const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
   RefuseInputAsOutput("--output", args.output, args.input);
+  CheckOutputWritable(args.output);  // an unwritable folder is found before the work
   const StoredResult result = ReadResult(args.input);
   // The figures drawn are the stored analysis' (what `report` prints); a result without
   // one (older, or computed with --no-analysis) gets one with the default options.

@@ -1,6 +1,8 @@
 #include "cli/progress_bar.h"
 
+#include <algorithm>
 #include <cstdio>
+#include <future>
 #include <string>
 
 #include <unistd.h>
@@ -35,6 +37,24 @@ void ProgressBar::Finish() {
     std::fflush(stderr);
     drawn_ = false;
   }
+}
+
+void RunWithTimedProgress(double expected_seconds, bool enabled,
+                          const std::function<void()>& work) {
+  if (!enabled || !(expected_seconds > 0)) {
+    work();
+    return;
+  }
+  ProgressBar bar(true);
+  const auto start = std::chrono::steady_clock::now();
+  std::future<void> done = std::async(std::launch::async, work);
+  while (done.wait_for(std::chrono::milliseconds(200)) != std::future_status::ready) {
+    const double elapsed =
+        std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
+    bar.Update(std::min(0.99, elapsed / expected_seconds));
+  }
+  bar.Finish();
+  done.get();
 }
 
 }  // namespace lobecast::cli

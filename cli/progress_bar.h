@@ -3,6 +3,7 @@
 #pragma once
 
 #include <chrono>
+#include <functional>
 
 namespace lobecast::cli {
 
@@ -21,5 +22,10 @@ class ProgressBar {
   int last_percent_ = -1;
   std::chrono::steady_clock::time_point start_;
 };
+
+// Runs `work` on a helper thread while a bar (when `enabled`) advances with the time
+// elapsed over `expected_seconds`, held at 99% until it ends: for work that
+// reports no progress of its own (check's O(N^2) power). Rethrows what `work` throws.
+void RunWithTimedProgress(double expected_seconds, bool enabled, const std::function<void()>& work);
 
 }  // namespace lobecast::cli

@@ -45,6 +45,7 @@ struct ReportArgs {
 
 void RunReport(const ReportArgs& args) {
   RefuseInputAsOutput("--output", args.output, args.input);
+  CheckTextOutput(args.output);  // an unwritable folder is found before the work
   const StoredResult stored = ReadResult(args.input);
   const std::optional<StoredAnalysis> saved = ReadAnalysis(args.input);
 

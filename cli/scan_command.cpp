@@ -20,6 +20,7 @@
 #include "io/input/array_reader.h"
 #include "io/input_error.h"
 #include "io/io_error.h"
+#include "io/output_file.h"
 #include "io/plot/canvas.h"
 #include "io/plot/frame.h"
 #include "io/plot/scan_plot.h"
@@ -103,6 +104,11 @@ void RunScan(const ScanArgs& args) {
   }
   RefuseInputAsOutput("--output", args.output, args.input);
   RefuseInputAsOutput("--plot", args.plot, args.input);
+  // An unwritable folder is found before the work.
+  CheckTextOutput(args.output);
+  if (!args.plot.empty()) CheckOutputWritable(args.plot);
+  if (!args.pattern_csv.empty()) CheckTextOutput(args.pattern_csv);
+  if (!args.pattern_plot.empty()) CheckOutputWritable(args.pattern_plot);
   RefuseInputAsOutput("--pattern-csv", args.pattern_csv, args.input);
   RefuseInputAsOutput("--pattern-plot", args.pattern_plot, args.input);
   ArrayDescription desc = ReadArrayDescription(args.input);

@@ -5,6 +5,7 @@
 #include <cstdio>
 #include <filesystem>
 #include <memory>
+#include <optional>
 #include <string>
 #include <system_error>
 
@@ -27,6 +28,7 @@ struct SynthArgs {
 };
 
 void RunSynth(const SynthArgs& args) {
+  CheckTextOutput(args.output);  // before the design is worked out
   const ArrayDescription desc = ReadArrayDescription(args.input);
   if (!desc.design) {
     throw InputError(SourceLocation{args.input, 1, 1}, "lattice", "no [lattice] table",
@@ -54,21 +56,19 @@ void RunSynth(const SynthArgs& args) {
     return;  // standard output carries the array; the summary would corrupt it
   }
 
-  // Both files complete before either is moved into place.
-  const std::string toml_tmp =
-      WriteTemporaryText(args.output, "the array description", put(files.toml));
+  // Both files complete (written and synced) before either is moved into place; a
+  // failure abandons both.
+  OutputFile toml(args.output, "the array description");
+  toml.stream() << files.toml;
+  toml.Complete();
+  std::optional<OutputFile> table;
   if (csv) {
-    std::string csv_tmp;
-    try {
-      csv_tmp = WriteTemporaryText(csv_path, "the element table", put(files.csv));
-    } catch (...) {
-      std::error_code ec;
-      std::filesystem::remove(toml_tmp, ec);
-      throw;
-    }
-    MoveIntoPlace(csv_tmp, csv_path, "the element table");
+    table.emplace(csv_path, "the element table");
+    table->stream() << files.csv;
+    table->Complete();
+    table->Commit();
   }
-  MoveIntoPlace(toml_tmp, args.output, "the array description");
+  toml.Commit();
 
   if (!args.quiet) {
     std::fputs(text::DescribeDesign(desc).c_str(), stdout);

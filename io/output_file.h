@@ -1,35 +1,100 @@
-// The rule for output paths: lobecast writes a temporary beside the target and
-// renames it into place, so it must only ever replace a regular file. A device
-// (`-o /dev/null`), folder or pipe at the path would be replaced by the rename
-// (as root, that destroys the device): it is refused as bad input instead.
+// Every file lobecast writes (results, scan files, CSV/TSV, reports, JSON, plots,
+// array descriptions) goes through OutputFile: the bytes go to a temporary beside
+// the target, which is synced and renamed onto the target only when complete, so
+// a failed or interrupted run never leaves a half-written file or clobbers an
+// existing one (CONVENTIONS §4).
+//
+//   - The temporary is a short hidden name in the target's folder
+//     (".lobecast-<pid>-<n>.tmp"), so a target name of any valid length works.
+//   - It is removed on every failure path, and on SIGINT, SIGTERM and SIGHUP by a
+//     handler that unlinks the registered temporaries and re-raises the signal
+//     (io/temporary_registry.h).
+//   - `-o LINK` on a symbolic link follows the link: the file it points to is
+//     replaced atomically in that file's folder; the link itself is kept.
+//   - Errors are IoError (exit 1) naming the path given and the system's reason
+//     ("No space left on device", "Permission denied").
+//
+// The output path must only ever name a new or regular file: a device
+// (`-o /dev/null`), folder or pipe would be replaced by the rename (as root, that
+// destroys the device), so it is refused as bad input instead.
+//
+// Test hook: when the environment variable LOBECAST_TEST_FAIL_WRITE_AFTER is a
+// byte count B, a temporary fails with "No space left on device" as soon as it
+// would hold more than B bytes (lobecast's own writes at once, files written by a
+// library, such as HDF5, when they are committed). A second hook,
+// LOBECAST_TEST_STOP_AT=STAGE, makes the process stop itself (SIGSTOP) at a named
+// stage so a test can signal it there without timing: "commit" (an output
+// complete in its temporary, before the rename) and "compute" (cli: the outputs
+// checked, the work about to start). Only this file reads them.
 #pragma once
 
-#include <filesystem>
+#include <cstddef>
+#include <memory>
+#include <ostream>
 #include <string>
-#include <system_error>
-
-#include "io/input_error.h"
 
 namespace lobecast {
 
-// Empty when `path` does not exist or is a regular file; otherwise why not.
-inline std::string WhyNotReplaceable(const std::string& path) {
-  std::error_code ec;
-  const auto status = std::filesystem::symlink_status(path, ec);
-  if (ec || !std::filesystem::exists(status)) return "";
-  if (std::filesystem::is_regular_file(status)) return "";
-  if (std::filesystem::is_symlink(status)) {
-    const auto target = std::filesystem::status(path, ec);
-    if (!ec && std::filesystem::is_regular_file(target)) return "";
-  }
-  return "exists and is not a regular file (a device, folder or pipe); lobecast writes "
-         "output only to new or regular files";
-}
+// Empty when `path` does not exist or is a regular file (or a link to one);
+// otherwise why not.
+std::string WhyNotReplaceable(const std::string& path);
 
 // Throws InputError (exit 2) naming the path unless WhyNotReplaceable is empty.
-inline void RequireReplaceable(const std::string& path) {
-  const std::string why = WhyNotReplaceable(path);
-  if (!why.empty()) throw InputError(SourceLocation{path}, why);
-}
+void RequireReplaceable(const std::string& path);
+
+// The file an output to `path` really replaces: `path` itself, or for a symbolic
+// link the file at the end of its chain of links (which need not exist yet).
+std::string ResolveOutputTarget(const std::string& path);
+
+// Checks, before any work starts, that an output can be written at `path`: it is
+// replaceable (else InputError, exit 2), and a probe temporary can be created and
+// removed in its folder (else IoError naming `path` with the system's reason).
+void CheckOutputWritable(const std::string& path);
+// The same for a folder that will receive several outputs (--plots).
+void CheckFolderWritable(const std::string& folder);
+
+// The LOBECAST_TEST_STOP_AT hook: stops the process when `stage` is the one named.
+void StopForTestAt(const std::string& stage);
+
+class OutputFile {
+ public:
+  // Refuses a path that is not replaceable (InputError); creates nothing yet.
+  // `what` names the output in messages ("the export", "the result").
+  OutputFile(const std::string& path, std::string what);
+  // Removes the temporary unless committed.
+  ~OutputFile();
+  OutputFile(const OutputFile&) = delete;
+  OutputFile& operator=(const OutputFile&) = delete;
+
+  const std::string& path() const;       // as given: what messages name
+  const std::string& temporary() const;  // the temporary's full name
+  const std::string& what() const;
+
+  // lobecast's own bytes: the temporary is created on first use. A failed write
+  // is remembered and reported by Commit (streams) or thrown at once (Write).
+  std::ostream& stream();
+  void Write(const void* data, std::size_t size);
+  // True when a write has failed (for callbacks that may not throw, e.g. cairo's).
+  bool failed() const;
+
+  // For a library that writes the temporary itself (HDF5): marks it as created.
+  void CreatedByLibrary();
+
+  // Completes the temporary: flushes, syncs and closes it (for outputs that come
+  // in sets: every one complete before any is renamed). Throws like Commit.
+  void Complete();
+  // Completes the file if not yet done, renames it onto the target and syncs the
+  // folder. Throws IoError naming path() with the reason; the temporary is then
+  // removed and the target left as it was.
+  void Commit();
+  // Removes the temporary now; the target is left as it was.
+  void Abandon() noexcept;
+  // Abandons and throws IoError(path(), "could not write " + what() + ": " + reason).
+  [[noreturn]] void Fail(const std::string& reason);
+
+ private:
+  struct Impl;
+  std::unique_ptr<Impl> impl_;
+};
 
 }  // namespace lobecast

@@ -12,6 +12,14 @@
 namespace lobecast::hdf5 {
 namespace {
 
+// HDF5 1.10 keeps a file whose close failed (a full disk: the last flush fails) in
+// its table of open objects, half torn down, and its exit handler
+// (H5_term_library) then crashes closing it again: `compute` on a full disk
+// printed its error and died of SIGSEGV. lobecast closes every file it opens
+// through Handle, so that handler has nothing to do: it is turned off before the
+// library starts (H5dont_atexit must precede every other HDF5 call).
+[[maybe_unused]] const herr_t kNoExitHandler = H5dont_atexit();
+
 herr_t CollectError(unsigned /*n*/, const H5E_error2_t* err, void* data) {
   auto* lines = static_cast<std::vector<std::string>*>(data);
   if (err->desc != nullptr && err->desc[0] != '\0') {
@@ -188,7 +196,12 @@ std::string FileNameOf(hid_t loc) {
 }
 
 hid_t Check(hid_t status, hid_t loc, const std::string& what) {
-  if (status < 0) Fail(FileNameOf(loc), what);
+  if (status < 0) {
+    // The cause first: every HDF5 API call, H5Fget_name in FileNameOf too, clears
+    // the error stack (a full disk said "writing rows" with no reason).
+    const std::string cause = TakeErrorCause();
+    throw IoError(FileNameOf(loc), cause.empty() ? what : what + ": " + cause);
+  }
   return status;
 }
 

@@ -1,8 +1,5 @@
 #include "io/hdf5/result_writer.h"
 
-#include <unistd.h>
-
-#include <fcntl.h>
 #include <algorithm>
 #include <cerrno>
 #include <chrono>
@@ -22,10 +19,6 @@ namespace lobecast {
 namespace {
 
 using hdf5::Handle;
-
-std::string TemporaryPathFor(const std::string& path) {
-  return path + ".tmp-" + std::to_string(static_cast<long>(::getpid()));
-}
 
 std::size_t ChunkRows(const ResultWriteOptions& options, std::size_t nt, std::size_t np) {
   std::size_t rows = options.chunk_theta_rows;
@@ -106,6 +99,7 @@ PatternRows RowsOf(const PatternResult& result, std::size_t first_row, std::size
 struct PatternFileWriter::Impl {
   std::string path;
   std::string temp_path;
+  std::unique_ptr<OutputFile> out;  // the temporary, its cleanup and the rename
   ResultMetadata meta;
   ResultWriteOptions options;
   std::size_t num_dipoles = 0;
@@ -128,7 +122,7 @@ struct PatternFileWriter::Impl {
     e_theta.Reset(), e_phi.Reset(), intensity.Reset(), directivity.Reset();
     axial_ratio.Reset(), tilt.Reset(), sense.Reset(), complex_file_type.Reset();
     file.Reset();
-    std::remove(temp_path.c_str());
+    if (out) out->Abandon();
   }
 
   // Runs one step; on any failure removes the temporary file, marks the writer
@@ -228,9 +222,9 @@ PatternFileWriter::PatternFileWriter(const std::string& path, const Array& array
                                      const ResultMetadata& meta, const ResultWriteOptions& options)
     : impl_(std::make_unique<Impl>()) {
   Impl& w = *impl_;
-  RequireReplaceable(path);  // the rename below must not replace a device
+  w.out = std::make_unique<OutputFile>(path, "the result");  // refuses a device
   w.path = path;
-  w.temp_path = TemporaryPathFor(path);
+  w.temp_path = w.out->temporary();
   w.meta = meta;
   if (w.meta.created.empty()) w.meta.created = Iso8601UtcNow();
   w.options = options;
@@ -244,6 +238,7 @@ PatternFileWriter::PatternFileWriter(const std::string& path, const Array& array
 
   w.Step([&] {
     w.Hook("create");
+    w.out->CreatedByLibrary();
     w.file = hdf5::CreateFile(w.temp_path);
     w.complex_file_type = Handle(H5Tcreate(H5T_COMPOUND, 2 * sizeof(double)));
     hdf5::Check(w.complex_file_type.get(), w.file, "building the complex type");
@@ -461,22 +456,11 @@ void PatternFileWriter::Finish() {
 
     w.e_theta.Reset(), w.e_phi.Reset(), w.intensity.Reset(), w.directivity.Reset();
     w.axial_ratio.Reset(), w.tilt.Reset(), w.sense.Reset(), w.complex_file_type.Reset();
-    if (w.file.Close() < 0) hdf5::Fail(w.path, "closing the temporary file " + w.temp_path);
+    if (w.file.Close() < 0) hdf5::Fail(w.path, "closing the file");
 
-    // Make the data durable before the name points at it.
-    const int fd = ::open(w.temp_path.c_str(), O_RDONLY);
-    if (fd < 0 || ::fsync(fd) != 0) {
-      const int err = errno;
-      if (fd >= 0) ::close(fd);
-      throw IoError(w.path, "syncing " + w.temp_path + ": " + std::strerror(err));
-    }
-    ::close(fd);
-
+    // Synced, then renamed onto the target (io/output_file.h).
     w.Hook("rename");
-    if (std::rename(w.temp_path.c_str(), w.path.c_str()) != 0) {
-      const int err = errno;
-      throw IoError(w.path, "renaming " + w.temp_path + " into place: " + std::strerror(err));
-    }
+    w.out->Commit();
     w.finished = true;
     w.dead = true;
   });

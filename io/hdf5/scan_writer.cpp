@@ -1,8 +1,5 @@
 #include "io/hdf5/scan_writer.h"
 
-#include <unistd.h>
-
-#include <cstdio>
 #include <vector>
 
 #include "io/hdf5/hdf5_file.h"
@@ -25,12 +22,12 @@ std::vector<Complex> RowMajor(const Eigen::MatrixXcd& m) {
 }  // namespace
 
 void WriteScanFile(const std::string& path, const ScanImpedanceTable& t, const ScanFileInfo& info) {
-  RequireReplaceable(path);
+  OutputFile out(path, "the scan file");
   hdf5::ErrorSilencer silencer;
-  const std::string temp = path + ".tmp-" + std::to_string(static_cast<long>(::getpid()));
   try {
     {
-      hdf5::Handle file = hdf5::CreateFile(temp);
+      out.CreatedByLibrary();
+      hdf5::Handle file = hdf5::CreateFile(out.temporary());
       const auto s = static_cast<hsize_t>(t.theta_rad.size());
       const auto n = static_cast<hsize_t>(t.reflection.cols());
       hdf5::Handle g = hdf5::CreateGroup(file, "/scan");
@@ -55,16 +52,15 @@ void WriteScanFile(const std::string& path, const ScanImpedanceTable& t, const S
       hdf5::WriteStringAttribute(file, "input", info.input_text);
       hdf5::WriteStringAttribute(file, "format", kScanFormat);
       hdf5::WriteIntAttribute(file, "format_version", 1);
+      g.Reset();
+      // Closing flushes: a full disk shows here, and the file is closed either way.
+      if (file.Close() < 0) hdf5::Fail(path, "closing the scan file");
     }
-    if (std::rename(temp.c_str(), path.c_str()) != 0)
-      throw IoError(path, "could not rename the finished scan file into place");
+    out.Commit();
   } catch (const IoError& e) {
-    std::remove(temp.c_str());
+    out.Abandon();
     if (e.path() == path) throw;
     throw IoError(path, e.detail());  // the target's name, never the temporary's
-  } catch (...) {
-    std::remove(temp.c_str());
-    throw;
   }
 }
 

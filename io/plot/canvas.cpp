@@ -1,10 +1,8 @@
 #include "io/plot/canvas.h"
-#include "io/output_file.h"
 
 #include <cairo-pdf.h>
 #include <cairo-svg.h>
 #include <cairo.h>
-#include <unistd.h>
 
 #include <algorithm>
 #include <charconv>
@@ -22,6 +20,17 @@ namespace lobecast::plot {
 namespace {
 
 constexpr const char* kFontFace = "DejaVu Sans";
+
+// cairo's write callback: the bytes go to the output's temporary; a failure is
+// remembered there (its reason) and reported by Finish.
+cairo_status_t WriteToOutput(void* closure, const unsigned char* data, unsigned int length) {
+  try {
+    static_cast<OutputFile*>(closure)->Write(data, length);
+    return CAIRO_STATUS_SUCCESS;
+  } catch (...) {
+    return CAIRO_STATUS_WRITE_ERROR;
+  }
+}
 
 void SelectFont(cairo_t* cr, double size_px, bool bold) {
   cairo_select_font_face(cr, kFontFace, CAIRO_FONT_SLANT_NORMAL,
@@ -79,7 +88,7 @@ std::optional<ImageSize> ImageSizeFromString(std::string_view s) {
 
 struct Canvas::Impl {
   std::string path;
-  std::string temporary;
+  std::unique_ptr<OutputFile> out;
   ImageFormat format = ImageFormat::kPng;
   double width = 0, height = 0;
   cairo_surface_t* surface = nullptr;
@@ -101,35 +110,29 @@ Canvas::Canvas(const std::string& path, const ImageSize& size) : impl_(std::make
                      "unknown image type: expected a file name ending in .png, .svg or .pdf");
   std::string why;
   if (!size.IsValid(&why)) throw InputError(SourceLocation{"--size"}, why);
-  RequireReplaceable(path);  // the finished image is renamed into place
+  impl_->out = std::make_unique<OutputFile>(path, "the image");  // refuses a device
   impl_->path = path;
   impl_->format = *format;
   impl_->width = size.width_px;
   impl_->height = size.height_px;
-  // The extension stays last so viewers still recognize a stray temporary.
-  const std::filesystem::path p(path);
-  impl_->temporary = (p.parent_path() / (p.stem().string() + ".tmp-" + std::to_string(::getpid()) +
-                                         p.extension().string()))
-                         .string();
   switch (*format) {
     case ImageFormat::kPng:
       impl_->surface =
           cairo_image_surface_create(CAIRO_FORMAT_ARGB32, size.width_px, size.height_px);
       break;
     case ImageFormat::kSvg:
-      impl_->surface =
-          cairo_svg_surface_create(impl_->temporary.c_str(), size.width_px, size.height_px);
+      impl_->surface = cairo_svg_surface_create_for_stream(WriteToOutput, impl_->out.get(),
+                                                           size.width_px, size.height_px);
       break;
     case ImageFormat::kPdf:
-      impl_->surface =
-          cairo_pdf_surface_create(impl_->temporary.c_str(), size.width_px, size.height_px);
+      impl_->surface = cairo_pdf_surface_create_for_stream(WriteToOutput, impl_->out.get(),
+                                                           size.width_px, size.height_px);
       break;
   }
   if (cairo_surface_status(impl_->surface) != CAIRO_STATUS_SUCCESS) {
     const std::string msg = cairo_status_to_string(cairo_surface_status(impl_->surface));
     impl_->Release();
-    std::remove(impl_->temporary.c_str());
-    throw IoError(path, "cannot create the image: " + msg);
+    impl_->out->Fail("cannot create the image: " + msg);
   }
   impl_->cr = cairo_create(impl_->surface);
   cairo_set_source_rgb(impl_->cr, 1, 1, 1);
@@ -139,9 +142,7 @@ Canvas::Canvas(const std::string& path, const ImageSize& size) : impl_(std::make
 
 Canvas::~Canvas() {
   if (!impl_) return;
-  const bool vector = impl_->format != ImageFormat::kPng;
-  impl_->Release();
-  if (!impl_->finished && vector) std::remove(impl_->temporary.c_str());
+  impl_->Release();  // the OutputFile then removes an unfinished temporary
 }
 
 cairo_t* Canvas::cr() const { return impl_->cr; }
@@ -218,21 +219,16 @@ void Canvas::Finish() {
   cairo_surface_flush(m.surface);
   cairo_status_t status = cairo_status(m.cr);
   if (status == CAIRO_STATUS_SUCCESS && m.format == ImageFormat::kPng)
-    status = cairo_surface_write_to_png(m.surface, m.temporary.c_str());
+    status = cairo_surface_write_to_png_stream(m.surface, WriteToOutput, m.out.get());
   cairo_surface_finish(m.surface);
   if (status == CAIRO_STATUS_SUCCESS) status = cairo_surface_status(m.surface);
   m.Release();
   m.finished = true;
-  if (status != CAIRO_STATUS_SUCCESS) {
-    std::remove(m.temporary.c_str());
-    throw IoError(m.path, std::string("cannot write the image: ") + cairo_status_to_string(status));
+  // A failed write says why (the system's reason); another cairo failure says cairo's.
+  if (status != CAIRO_STATUS_SUCCESS && !m.out->failed()) {
+    m.out->Fail(std::string("cannot draw the image: ") + cairo_status_to_string(status));
   }
-  std::error_code ec;
-  std::filesystem::rename(m.temporary, m.path, ec);
-  if (ec) {
-    std::remove(m.temporary.c_str());
-    throw IoError(m.path, "cannot rename the finished image into place: " + ec.message());
-  }
+  m.out->Commit();
 }
 
 RasterImage ReadPng(const std::string& path) {
