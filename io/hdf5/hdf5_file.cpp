@@ -189,7 +189,10 @@ void WalkGlobalHeaps(const std::string& path) {
       p += need;
     }
   });
-  for (const auto& [address, objects] : heaps) {
+  for (const auto& heap : heaps) {
+    // Not a structured binding: clang 14 cannot capture one in the lambda below.
+    const std::uint64_t address = heap.first;
+    const auto& objects = heap.second;
     char needle[8];
     for (int k = 0; k < 8; ++k) needle[k] = static_cast<char>((address >> (8 * k)) & 0xff);
     ForEachOccurrence(path, std::string_view(needle, 8), [&](std::uint64_t at) {
