@@ -9,6 +9,10 @@ packages=(
   libtomlplusplus-dev libcli11-dev libcairo2-dev
   coinor-libclp-dev
   python3-numpy python3-scipy python3-h5py python3-cvxopt hdf5-tools clang-format
+  # The fuzz targets (.ci/run): clang, its libFuzzer and sanitizer runtimes
+  # (libclang_rt.fuzzer*.a: libclang-rt-14-dev, pulled by libclang-rt-dev), OpenMP
+  # for clang (libomp-dev) and llvm-symbolizer for readable sanitizer stacks (llvm).
+  clang libclang-rt-dev libomp-dev llvm
 )
 
 missing=()

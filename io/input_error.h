@@ -5,6 +5,8 @@
 #include <stdexcept>
 #include <string>
 
+#include "io/echo_text.h"
+
 namespace lobecast {
 
 // A place in an input file. Lines and columns are 1-based, as toml++ and text
@@ -20,6 +22,8 @@ struct SourceLocation {
 
 // A rejected input. what() is one line, ready for stderr:
 //   FILE:LINE:COL: key 'K': found X, expected Y
+// The key is echoed through EchoText (a 1 MB unknown key prints its first 60
+// bytes), the rest escaped (EchoText without a cut).
 // Keys are dotted paths from the document root with 0-based array indices, the
 // same indices the engine and the HDF5 datasets use: 'dipole[2].position'.
 // TOML syntax errors keep toml++'s own position and description:

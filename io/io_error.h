@@ -36,5 +36,10 @@ class NotAResultError : public IoError {
 // How a NotAResultError's detail starts when the file is HDF5 but not all of a
 // lobecast result (truncated, damaged, another program's).
 inline constexpr const char* kIncompleteResult = "not a complete lobecast result: ";
+// How it starts when the file claims something a result cannot hold: a damaged
+// structure (a global heap that does not add up, a dataset of the wrong type,
+// more values than the file can store) or values no computation writes (a NaN
+// grid, a zero orientation). Such a file is refused before it is read further.
+inline constexpr const char* kInvalidResult = "not a valid lobecast result: ";
 
 }  // namespace lobecast

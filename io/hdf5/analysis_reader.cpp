@@ -4,6 +4,7 @@
 #include <string>
 #include <vector>
 
+#include "io/echo_text.h"
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/hdf5_file.h"
 #include "io/hdf5/schema.h"
@@ -56,13 +57,14 @@ class FileVisitor {
     const std::string s = Text(f);
     const auto r = PolarizationReferenceFromString(s);
     if (!r)
-      throw IoError(file_path_, "unknown polarization reference \"" + s + "\" in the analysis");
+      throw IoError(file_path_,
+                    "unknown polarization reference \"" + EchoText(s) + "\" in the analysis");
     v = *r;
   }
   void Value(const Field& f, CutPlane& v) {
     const std::string s = Text(f);
     const auto r = CutPlaneFromString(s);
-    if (!r) throw IoError(file_path_, "unknown cut plane \"" + s + "\" in the analysis");
+    if (!r) throw IoError(file_path_, "unknown cut plane \"" + EchoText(s) + "\" in the analysis");
     v = *r;
   }
   void Value(const Field& f, NullField& v) {
@@ -70,7 +72,7 @@ class FileVisitor {
     const auto r = NullFieldFromString(s);
     if (!r) {
       throw IoError(file_path_,
-                    "unknown " + std::string(f.name) + " \"" + s + "\" in the analysis");
+                    "unknown " + std::string(f.name) + " \"" + EchoText(s) + "\" in the analysis");
     }
     v = *r;
   }
@@ -153,6 +155,8 @@ std::optional<StoredAnalysis> ReadAnalysis(const std::string& path) {
       out.options.protected_directions_deg.emplace_back(f.direction.theta_deg, f.direction.phi_deg);
     }
     return out;
+  } catch (const NotAResultError&) {
+    throw;  // says what it is already
   } catch (const IoError& e) {
     throw NotAResultError(path, std::string(kIncompleteResult) + e.detail());
   }

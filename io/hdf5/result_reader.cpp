@@ -2,9 +2,11 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <type_traits>
 
 #include "engine/rounding_floor.h"
+#include "io/echo_text.h"
 #include "io/hdf5/hdf5_file.h"
 #include "io/hdf5/schema.h"
 
@@ -44,6 +46,128 @@ std::string OptionalString(hid_t obj, const std::string& name) {
 
 std::string S(std::string_view s) { return std::string(s); }
 
+// --- what a result can hold (CONVENTIONS §3) ------------------------------------
+//
+// A file that is well-formed HDF5 but holds what no computation writes (a NaN
+// grid, theta running backwards, a zero orientation, frequency 0) is refused
+// as bad input naming the dataset, before anything is drawn or reported from it.
+
+[[noreturn]] void Refuse(const std::string& path, const std::string& where,
+                         const std::string& what) {
+  throw NotAResultError(path, std::string(kInvalidResult) + where + " " + what);
+}
+
+std::string DatasetName(const schema::Dataset& d) { return "dataset '" + S(d.path) + "'"; }
+
+std::string ValueText(double v) {
+  char buffer[32];
+  std::snprintf(buffer, sizeof buffer, "%.17g", v);
+  return buffer;
+}
+std::string ValueText(const Complex& v) {
+  return "(" + ValueText(v.real()) + ", " + ValueText(v.imag()) + ")";
+}
+
+// Every value of `values` satisfies `ok`; else the first that does not is named.
+template <typename T, typename Ok>
+void ExpectEach(const std::string& path, const schema::Dataset& d, const T& values, Ok ok,
+                const std::string& expected) {
+  for (Eigen::Index k = 0; k < static_cast<Eigen::Index>(values.size()); ++k) {
+    if (!ok(values[k])) {
+      Refuse(path, DatasetName(d),
+             "holds " + ValueText(values[k]) + " at index " + std::to_string(k) + ", expected " +
+                 expected);
+    }
+  }
+}
+
+// An axis of the grid: at least one angle, each finite and in [0, max_deg], rising.
+void ExpectAxis(const std::string& path, const schema::Dataset& d, const std::vector<double>& v,
+                double max_deg) {
+  if (v.empty()) Refuse(path, DatasetName(d), "is empty, expected at least one angle");
+  const std::string bounds = "angles in [0, " + ValueText(max_deg) + "] deg";
+  ExpectEach(
+      path, d, v, [&](double x) { return x >= 0.0 && x <= max_deg; }, bounds);
+  for (std::size_t k = 1; k < v.size(); ++k) {
+    if (!(v[k] > v[k - 1])) {
+      Refuse(path, DatasetName(d),
+             "goes from " + ValueText(v[k - 1]) + " to " + ValueText(v[k]) + " at index " +
+                 std::to_string(k) + ", expected strictly increasing angles");
+    }
+  }
+}
+
+bool Finite(double v) { return std::isfinite(v); }
+bool FiniteComplex(const Complex& v) { return std::isfinite(v.real()) && std::isfinite(v.imag()); }
+
+// The array and its currents, as soon as they are read.
+void ValidateArray(const std::string& path, const StoredResult& out) {
+  const Array& a = out.array;
+  if (!(std::isfinite(a.frequency_hz) && a.frequency_hz > 0.0)) {
+    Refuse(path, S(schema::kArrayGroup) + " attribute " + S(schema::kFrequencyAttribute),
+           "is " + ValueText(a.frequency_hz) + ", expected a finite frequency > 0 (Hz)");
+  }
+  for (std::size_t k = 0; k < a.dipoles.size(); ++k) {
+    const Dipole& d = a.dipoles[k];
+    const std::string row = " in row " + std::to_string(k);
+    if (!d.position_m.allFinite()) {
+      Refuse(path, DatasetName(schema::kPosition), "is not finite" + row);
+    }
+    if (a.ground == Ground::kPec && !(d.position_m.z() > 0.0)) {
+      Refuse(path, DatasetName(schema::kPosition),
+             "has z = " + ValueText(d.position_m.z()) + row + ", expected z > 0 over pec ground");
+    }
+    const double norm = d.orientation.norm();
+    if (!d.orientation.allFinite() || !(std::abs(norm - 1.0) <= 1e-9)) {
+      Refuse(path, DatasetName(schema::kOrientation),
+             "has length " + ValueText(norm) + row + ", expected a unit vector");
+    }
+    if (!(std::isfinite(d.length_m) && d.length_m > 0.0)) {
+      Refuse(path, DatasetName(schema::kLength),
+             "holds " + ValueText(d.length_m) + row + ", expected a finite length > 0 (m)");
+    }
+    if (!FiniteComplex(out.currents[static_cast<Eigen::Index>(k)])) {
+      Refuse(path, DatasetName(schema::kCurrent), "is not finite" + row);
+    }
+  }
+}
+
+// The grid, before the datasets whose shape it gives are read.
+void ValidateGrid(const std::string& path, const AngularGrid& grid) {
+  ExpectAxis(path, schema::kTheta, grid.theta_deg, 180.0);
+  ExpectAxis(path, schema::kPhi, grid.phi_deg, 360.0);
+}
+
+// Everything computed on the grid, and the power.
+void ValidateValues(const std::string& path, const PatternResult& r) {
+  ExpectEach(path, schema::kETheta, r.field.e_theta, FiniteComplex, "a finite field");
+  ExpectEach(path, schema::kEPhi, r.field.e_phi, FiniteComplex, "a finite field");
+  const auto finite_non_negative = [](double v) { return std::isfinite(v) && v >= 0.0; };
+  ExpectEach(path, schema::kIntensity, r.intensity_w_sr, finite_non_negative,
+             "a finite intensity >= 0");
+  ExpectEach(path, schema::kDirectivity, r.directivity, finite_non_negative,
+             "a finite directivity >= 0");
+  // Linear polarization has an infinite axial ratio, and no field no ratio (NaN).
+  ExpectEach(
+      path, schema::kAxialRatio, r.axial_ratio_db, [](double v) { return !(v < 0.0); },
+      "an axial ratio >= 0 dB");
+  ExpectEach(
+      path, schema::kTilt, r.tilt_deg, [](double v) { return !std::isinf(v); },
+      "a finite tilt (or NaN where there is no field)");
+  ExpectEach(
+      path, schema::kSense, r.sense, [](std::int8_t v) { return v >= -1 && v <= 1; },
+      "-1, 0 or +1");
+  if (!(std::isfinite(r.radiated_power_w) && r.radiated_power_w > 0.0)) {
+    Refuse(path, DatasetName(schema::kRadiatedPower),
+           "is " + ValueText(r.radiated_power_w) + ", expected a finite power > 0 (W)");
+  }
+  ExpectEach(path, schema::kResistance, r.resistance_ohm.reshaped(), Finite, "a finite resistance");
+  // A dipole without current has no active resistance (NaN).
+  ExpectEach(
+      path, schema::kActiveResistance, r.active_resistance_ohm,
+      [](double v) { return !std::isinf(v); }, "a finite resistance (or NaN without current)");
+}
+
 // The schema's visitor that reads /summary: attributes that are missing keep their
 // defaults (files from before they were added); an unknown enum name is an IoError.
 struct SummaryReader {
@@ -70,8 +194,8 @@ struct SummaryReader {
     const std::string text = hdf5::ReadStringAttribute(g, S(f.name));
     const auto value = from_string(text);
     if (!value) {
-      throw IoError(path, S(schema::kSummaryGroup) + " attribute " + S(f.name) + " is \"" + text +
-                              "\", which this lobecast does not know");
+      throw IoError(path, S(schema::kSummaryGroup) + " attribute " + S(f.name) + " is \"" +
+                              EchoText(text) + "\", which this lobecast does not know");
     }
     out = *value;
   }
@@ -82,14 +206,14 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   Handle root = hdf5::OpenGroup(file, "/");
   const std::string format = OptionalString(root, S(schema::kFormatAttribute));
   if (format != kResultFormat) {
-    throw NotAResultError(path,
-                          std::string(kIncompleteResult) + "the root attribute format is " +
-                              (format.empty() ? std::string("missing") : "\"" + format + "\"") +
-                              ", expected \"" + std::string(kResultFormat) + "\" (" +
-                              (format.starts_with("lobecast.")
-                                   ? "another lobecast output, not a lobecast result file"
-                                   : "not a lobecast result file: another program's HDF5?") +
-                              ")");
+    throw NotAResultError(
+        path, std::string(kIncompleteResult) + "the root attribute format is " +
+                  (format.empty() ? std::string("missing") : "\"" + EchoText(format) + "\"") +
+                  ", expected \"" + std::string(kResultFormat) + "\" (" +
+                  (format.starts_with("lobecast.")
+                       ? "another lobecast output, not a lobecast result file"
+                       : "not a lobecast result file: another program's HDF5?") +
+                  ")");
   }
   const std::int64_t version = hdf5::ReadIntAttribute(root, S(schema::kFormatVersionAttribute));
   if (version > kResultFormatVersion) {
@@ -116,7 +240,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   const auto g = GroundFromString(ground);
   if (!g)
     throw IoError(path, S(schema::kArrayGroup) + " attribute " + S(schema::kGroundAttribute) +
-                            " is \"" + ground + "\", expected none or pec");
+                            " is \"" + EchoText(ground) + "\", expected none or pec");
   out.array.ground = *g;
 
   std::vector<hsize_t> dims;
@@ -153,7 +277,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
       const auto dist = DistributionFromString(distribution[k]);
       if (!dist) {
         throw IoError(path, S(schema::kDistribution.path) + "[" + std::to_string(k) + "] is \"" +
-                                distribution[k] + "\", expected uniform or triangular");
+                                EchoText(distribution[k]) + "\", expected uniform or triangular");
       }
       d.distribution = *dist;
       d.length_m = length[k];
@@ -165,12 +289,15 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     }
   }
 
+  ValidateArray(path, out);
+
   // /grid
   PatternResult& r = out.result;
   r.grid.theta_deg = hdf5::ReadDoubles(file, S(schema::kTheta.path), &dims);
   ExpectShape(path, S(schema::kTheta.path), dims, {r.grid.theta_deg.size()});
   r.grid.phi_deg = hdf5::ReadDoubles(file, S(schema::kPhi.path), &dims);
   ExpectShape(path, S(schema::kPhi.path), dims, {r.grid.phi_deg.size()});
+  ValidateGrid(path, r.grid);
   const std::vector<hsize_t> grid_shape = {r.grid.theta_deg.size(), r.grid.phi_deg.size()};
 
   auto complex2d = [&](const schema::Dataset& d) {
@@ -222,6 +349,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
     schema::VisitPowerQuadrature(r.summary, v);
     out.has_summary = true;
   }
+  ValidateValues(path, r);
   // The numerical floor again, from the stored array and currents (not stored), for
   // everything derived from the field after reading (analysis, exports, plots). The
   // stored field is floored already (DeriveFromField); flooring it again changes

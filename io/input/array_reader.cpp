@@ -5,6 +5,7 @@
 #include <complex>
 #include <filesystem>
 #include <initializer_list>
+#include <limits>
 #include <optional>
 #include <string_view>
 #include <utility>
@@ -13,6 +14,7 @@
 #include <toml++/toml.h>
 
 #include "engine/error.h"
+#include "engine/power/radiated_power.h"
 #include "io/input/csv_dipoles.h"
 #include "io/input/design_reader.h"
 #include "io/input/excitation_synthesis.h"
@@ -123,6 +125,7 @@ class Reader : private TomlValues {
       if (p.kind == PortKind::kCurrent) out.currents[static_cast<Eigen::Index>(m)] = p.current_a;
     }
     if (out.design) ApplyExcitationSynthesis(out);
+    CheckDipolePowers(out);
     try {
       Validate(out.array);
       ValidateCurrents(out.array, out.currents);
@@ -133,7 +136,7 @@ class Reader : private TomlValues {
   }
 
  private:
-  void ReadFrequency(const toml::table& root, Array& array) const {
+  void ReadFrequency(const toml::table& root, Array& array) {
     const toml::node* n = root.get("frequency");
     if (!n) {
       throw InputError(
@@ -141,6 +144,7 @@ class Reader : private TomlValues {
           "frequency = <Hz> or \"<number> <unit>\" (unit " + std::string(kFrequencyUnitList) + ")");
     }
     array.frequency_hz = FrequencyValue(*n, "frequency");
+    frequency_at_ = At(*n);
   }
 
   // One frequency: a number in Hz or a string with a unit, finite and > 0.
@@ -174,7 +178,7 @@ class Reader : private TomlValues {
   //                                                    evenly spaced (stop exact); the
   //                                                    design frequency (default start) first
   // Every frequency distinct and > 0; a list has at least one.
-  void ReadFrequencies(const toml::table& root, ArrayDescription& out) const {
+  void ReadFrequencies(const toml::table& root, ArrayDescription& out) {
     const toml::node& n = *root.get("frequencies");
     if (const toml::node* f = root.get("frequency")) {
       throw InputError(At(*f), "frequency", "both 'frequency' and 'frequencies'",
@@ -239,6 +243,7 @@ class Reader : private TomlValues {
     }
     out.frequencies_hz = list;
     out.array.frequency_hz = list.front();
+    frequency_at_ = At(*where.front());
   }
 
   void ReadGround(const toml::table& root, Array& array) const {
@@ -555,6 +560,60 @@ class Reader : private TomlValues {
     out.csv_text = std::move(*text);
   }
 
+  // The array's power a double cannot hold because of one dipole's own power: 0 W
+  // when every dipole with a given current radiates below the smallest normal
+  // double (frequency = 1e-300, length = 1e-300), inf when one radiates more than
+  // the largest (magnitude = 1e300). The power check would report "the array
+  // radiates 0 W" with no place; instead the key that takes the power out of range
+  // is named: of frequency (k), length (Le) and current (|I|), the one farthest
+  // from 1 in decades (P = |I|^2 R / 2 with R ~ (k Le)^2). Drive ports get their
+  // currents later (the circuit), so an array with one is left to the power check.
+  void CheckDipolePowers(const ArrayDescription& out) const {
+    const double k = out.array.wavenumber_rad_m();
+    std::optional<std::size_t> underflow;
+    bool any_representable = false;
+    for (std::size_t i = 0; i < out.array.dipoles.size() && i < out.ports.size(); ++i) {
+      if (out.ports[i].kind == PortKind::kDrive) return;
+      const double current = std::abs(out.currents[static_cast<Eigen::Index>(i)]);
+      if (out.ports[i].kind != PortKind::kCurrent || !(current > 0.0)) continue;
+      const Dipole& d = out.array.dipoles[i];
+      const double power = 0.5 * current * current * MutualResistance(d, d, k);
+      if (std::isinf(power)) Blame(out, i, current, "a power that overflows a double");
+      if (std::isfinite(power) && power >= std::numeric_limits<double>::min()) {
+        any_representable = true;
+      } else if (!underflow) {
+        underflow = i;
+      }
+    }
+    if (underflow && !any_representable) {
+      const std::size_t i = *underflow;
+      Blame(out, i, std::abs(out.currents[static_cast<Eigen::Index>(i)]),
+            "a power that underflows a double to 0 W");
+    }
+  }
+
+  [[noreturn]] void Blame(const ArrayDescription& out, std::size_t i, double current,
+                          const std::string& radiates) const {
+    const Dipole& d = out.array.dipoles[i];
+    const std::string fate = "dipole[" + std::to_string(i) + "] radiates " + radiates;
+    const std::string expected =
+        "a frequency, length and current whose radiated power is a representable number of "
+        "watts";
+    const auto decades = [](double v) { return std::abs(std::log10(v)); };
+    const double by_frequency = decades(out.array.wavenumber_rad_m()),
+                 by_length = decades(d.effective_length_m()), by_current = decades(current);
+    if (by_frequency >= by_length && by_frequency >= by_current) {
+      throw InputError(frequency_at_, "frequency",
+                       FormatNumber(out.array.frequency_hz) + " Hz, at which " + fate, expected);
+    }
+    if (by_length >= by_current && i < sites_.size()) {
+      throw InputError(sites_[i].length, sites_[i].length_key,
+                       FormatApprox(d.length_m) + " m, with which " + fate, expected);
+    }
+    throw InputError(out.dipole_locations[i], "dipole[" + std::to_string(i) + "].current",
+                     "a current of " + FormatNumber(current) + " A, with which " + fate, expected);
+  }
+
   // Checks that need the whole array: lengths against the wavelength, the ground.
   // In a sweep, the shortest wavelength (the highest frequency) decides.
   void CheckDipoles(ArrayDescription& out) const {
@@ -568,6 +627,11 @@ class Reader : private TomlValues {
     for (std::size_t i = 0; i < out.array.dipoles.size(); ++i) {
       const Dipole& d = out.array.dipoles[i];
       const DipoleSite& s = sites_[i];
+      if (!d.position_m.allFinite()) {
+        // A finite number of length units that overflows in metres.
+        throw InputError(s.position, s.position_key, "a position that overflows a double in metres",
+                         "coordinates of a physical size");
+      }
       const std::string found =
           FormatApprox(d.length_m) + " m (" + FormatApprox(d.length_m / lambda, 4) + " wavelength)";
       if (d.length_m > 0.5 * lambda) {
@@ -592,6 +656,7 @@ class Reader : private TomlValues {
   std::string_view text_;
   std::string base_dir_;
   double scale_ = 1.0;  // metres per length_unit
+  SourceLocation frequency_at_;
   std::vector<DipoleSite> sites_;
 };
 

@@ -57,7 +57,7 @@ std::vector<Cell> SplitRow(std::string_view line) {
   return cells;
 }
 
-std::string Quoted(std::string_view s) { return "'" + std::string(s) + "'"; }
+std::string Quoted(std::string_view s) { return "'" + EchoText(s) + "'"; }
 
 }  // namespace
 
@@ -88,8 +88,7 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
       // A table saved by a spreadsheet in a locale with a decimal comma.
       throw InputError(SourceLocation{path, line_no, static_cast<int>(line.find(';')) + 1},
                        "header",
-                       "cells separated by ';' ('" + std::string(line.substr(first, 40)) +
-                           (line.size() - first > 40 ? "...'" : "'") + ")",
+                       "cells separated by ';' ('" + EchoText(line.substr(first), 40) + "')",
                        "cells separated by ',' and numbers with a '.' decimal mark (save the "
                        "table as CSV with ',' as the separator, e.g. in an English locale)");
     }
@@ -153,8 +152,12 @@ std::vector<CsvDipole> ParseCsvDipoles(std::string_view text, const std::string&
     d.row = SourceLocation{path, line_no, 1};
     d.z_cell = where(kZ);
     d.length_cell = where(kLength);
-    d.dipole.position_m = Vec3(number(kX), number(kY), number(kZ)) * metres_per_unit;
-    const Vec3 u(number(kUx), number(kUy), number(kUz));
+    // One cell after the other (a constructor's arguments are evaluated in no fixed
+    // order): with two bad cells the first is reported on every compiler.
+    const double x = number(kX), y = number(kY), z = number(kZ);
+    d.dipole.position_m = Vec3(x, y, z) * metres_per_unit;
+    const double ux = number(kUx), uy = number(kUy), uz = number(kUz);
+    const Vec3 u(ux, uy, uz);
     if (!(u.stableNorm() > 0.0)) {
       throw InputError(where(kUx), prefix + ".ux/uy/uz", "the zero vector (0, 0, 0)",
                        "a non-zero orientation vector");

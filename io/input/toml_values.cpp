@@ -38,14 +38,7 @@ std::size_t EditDistance(std::string_view a, std::string_view b) {
 
 }  // namespace
 
-std::string Quoted(std::string_view s) {
-  std::string out;
-  out.reserve(s.size() + 2);
-  out += '"';
-  out += s;
-  out += '"';
-  return out;
-}
+std::string Quoted(std::string_view s) { return '"' + EchoText(s) + '"'; }
 
 // What a node holds, for "found X".
 std::string Describe(const toml::node& n) {
