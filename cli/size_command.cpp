@@ -37,27 +37,22 @@ void RunSize(const SizeArgs& args) {
   };
   // Refuse a path that cannot be replaced before any work.
   for (std::size_t i = 1; i <= kMaxSizingCandidates; ++i) RequireReplaceable(path_of(i));
+  CheckFolderWritable(args.folder);  // an unwritable folder is found before the work
   SizingOptions options;
   options.check = !args.no_check;
   options.threads = args.threads;
   const SizingResult result = SizeArray(req.requirements, options);
   const std::size_t count = result.candidates.size();
 
-  // Every file complete before any is moved into place.
-  std::vector<std::string> temporaries;
-  try {
-    for (std::size_t i = 0; i < count; ++i) {
-      const std::string design = text::CandidateDesign(req, result.candidates[i], i + 1, count);
-      temporaries.push_back(WriteTemporaryText(path_of(i + 1), "the candidate design",
-                                               [&](std::ostream& out) { out << design; }));
-    }
-  } catch (...) {
-    std::error_code ec;
-    for (const std::string& t : temporaries) std::filesystem::remove(t, ec);
-    throw;
+  // Every file complete (written and synced) before any is moved into place; a
+  // failure abandons them all (OutputFile's destructor).
+  std::vector<std::unique_ptr<OutputFile>> files;
+  for (std::size_t i = 0; i < count; ++i) {
+    files.push_back(std::make_unique<OutputFile>(path_of(i + 1), "the candidate design"));
+    files.back()->stream() << text::CandidateDesign(req, result.candidates[i], i + 1, count);
+    files.back()->Complete();
   }
-  for (std::size_t i = 0; i < count; ++i)
-    MoveIntoPlace(temporaries[i], path_of(i + 1), "the candidate design");
+  for (const auto& f : files) f->Commit();
 
   const std::string out = args.json ? text::SizingJson(req, result, args.folder)
                                     : text::SizingTable(req, result, args.folder);
