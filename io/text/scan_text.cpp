@@ -110,14 +110,14 @@ std::string ScanPatternTable(const ScanSweep& s, const std::string& broadside) {
     const ScanPoint& p = s.points[i];
     out += Printf("%c %8.3f %8.3f", s.grating_onset && *s.grating_onset == i ? '!' : ' ',
                   p.steer_theta_deg, p.steer_phi_deg);
-    out += " " + PatternCell(p.peak_directivity_dbi, "%9.3f", "inf");
-    out += " " + PatternCell(p.scan_loss_db, "%9.3f", "inf");
-    out += " " + PatternCell(p.peak_theta_deg, "%9.3f", "inf");
-    out += " " + PatternCell(p.peak_phi_deg, "%9.3f", "inf");
-    out += " " + PatternCell(p.pointing_error_deg, "%9.3f", "inf");
-    out += " " + PatternCell(p.half_power_first_deg, "%9.3f", "none");
-    out += " " + PatternCell(p.half_power_second_deg, "%9.3f", "none");
-    out += " " + PatternCell(p.sidelobe_db, "%9.2f", "inf");
+    (out += ' ') += PatternCell(p.peak_directivity_dbi, "%9.3f", "inf");
+    (out += ' ') += PatternCell(p.scan_loss_db, "%9.3f", "inf");
+    (out += ' ') += PatternCell(p.peak_theta_deg, "%9.3f", "inf");
+    (out += ' ') += PatternCell(p.peak_phi_deg, "%9.3f", "inf");
+    (out += ' ') += PatternCell(p.pointing_error_deg, "%9.3f", "inf");
+    (out += ' ') += PatternCell(p.half_power_first_deg, "%9.3f", "none");
+    (out += ' ') += PatternCell(p.half_power_second_deg, "%9.3f", "none");
+    (out += ' ') += PatternCell(p.sidelobe_db, "%9.2f", "inf");
     for (int count : {p.other_major_lobes, p.grating_lobes})
       out += count < 0 ? Printf(" %7s", "n/a") : Printf(" %7d", count);
     out += "\n";
@@ -143,7 +143,9 @@ std::string ScanPatternCsv(const ScanSweep& s) {
   std::string out;
   bool first = true;
   VisitScanPatternColumns(s.points.front(), [&](const char* name, double) {
-    out += (first ? "" : ",") + std::string(name);
+    // Appended piece by piece (GCC 12 warns falsely on operator+ of short strings).
+    if (!first) out += ',';
+    out += name;
     first = false;
   });
   out += ",other_major_lobes,grating_lobes\n";

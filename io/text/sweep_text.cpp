@@ -64,17 +64,17 @@ std::string SweepTable(const StoredSweep& s) {
         planes_vary || p.first_plane != design.first_plane || p.second_plane != design.second_plane;
     out += Printf("%c %12s", &p == &design ? '*' : ' ',
                   Printf("%.6g", p.frequency_hz / unit.hz).c_str());
-    out += " " + Cell(p.peak_directivity_dbi, "%10.3f", "n/a", "inf");
-    out += " " + Cell(p.peak_theta_deg, "%10.3f", "n/a", "inf");
-    out += " " + Cell(p.peak_phi_deg, "%10.3f", "undefined", "inf");
-    out += " " + Cell(SquintDeg(p, design), "%10.3f", "n/a", "inf");
-    out += " " + Cell(p.half_power_first_deg, "%10.3f", "n/a", "none");
-    out += " " + Cell(p.half_power_second_deg, "%10.3f", "n/a", "none");
-    out += " " + Cell(p.sidelobe_db, "%10.2f", "n/a", "inf");
+    (out += ' ') += Cell(p.peak_directivity_dbi, "%10.3f", "n/a", "inf");
+    (out += ' ') += Cell(p.peak_theta_deg, "%10.3f", "n/a", "inf");
+    (out += ' ') += Cell(p.peak_phi_deg, "%10.3f", "undefined", "inf");
+    (out += ' ') += Cell(SquintDeg(p, design), "%10.3f", "n/a", "inf");
+    (out += ' ') += Cell(p.half_power_first_deg, "%10.3f", "n/a", "none");
+    (out += ' ') += Cell(p.half_power_second_deg, "%10.3f", "n/a", "none");
+    (out += ' ') += Cell(p.sidelobe_db, "%10.2f", "n/a", "inf");
     if (s.coupled) {
-      out += " " + Cell(p.gain_dbi, "%10.3f", "n/a", "inf");
-      out += " " + Cell(p.worst_reflection, "%10.4f", "n/a", "inf");
-      out += " " + Cell(p.worst_vswr, "%10.3f", "n/a", "inf");
+      (out += ' ') += Cell(p.gain_dbi, "%10.3f", "n/a", "inf");
+      (out += ' ') += Cell(p.worst_reflection, "%10.4f", "n/a", "inf");
+      (out += ' ') += Cell(p.worst_vswr, "%10.3f", "n/a", "inf");
     }
     out += "\n";
   }
