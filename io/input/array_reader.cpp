@@ -74,15 +74,7 @@ class Reader : private TomlValues {
       ReadFrequency(root, out.array);
     ReadGround(root, out.array);
 
-    LengthUnit unit = LengthUnit::kMetre;
-    if (const toml::node* n = root.get("length_unit")) {
-      const std::string s = String(*n, "length_unit");
-      const auto u = LengthUnitFromString(s);
-      if (!u)
-        throw InputError(At(*n), "length_unit", Quoted(s),
-                         "one of " + std::string(kLengthUnitList));
-      unit = *u;
-    }
+    const LengthUnit unit = ReadLengthUnit(root);
     out.length_unit = std::string(ToString(unit));
     scale_ = MetresPer(unit, out.array.wavelength_m());
 

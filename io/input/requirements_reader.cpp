@@ -43,14 +43,10 @@ class RequirementsReader : private TomlValues {
     const double lambda = r.wavelength_m();
 
     double scale = 1.0;
-    if (const toml::node* n = root.get("length_unit")) {
-      const std::string s = String(*n, "length_unit");
-      const auto u = LengthUnitFromString(s);
-      if (!u)
-        throw InputError(At(*n), "length_unit", Quoted(s),
-                         "one of " + std::string(kLengthUnitList));
-      out.length_unit = std::string(ToString(*u));
-      scale = MetresPer(*u, lambda);
+    if (root.get("length_unit")) {
+      const LengthUnit u = ReadLengthUnit(root);
+      out.length_unit = std::string(ToString(u));
+      scale = MetresPer(u, lambda);
     }
     const std::string unit = " (" + out.length_unit + ")";
 

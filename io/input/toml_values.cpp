@@ -104,6 +104,16 @@ void TomlValues::CheckKeys(const toml::table& t, std::string_view prefix,
   throw InputError(where, Join(prefix, worst->str()), "unknown key", expected);
 }
 
+LengthUnit TomlValues::ReadLengthUnit(const toml::table& root) const {
+  const toml::node* n = root.get("length_unit");
+  if (!n) return LengthUnit::kMetre;
+  const std::string s = String(*n, "length_unit");
+  const auto u = LengthUnitFromString(s);
+  if (!u)
+    throw InputError(At(*n), "length_unit", Quoted(s), "one of " + std::string(kLengthUnitList));
+  return *u;
+}
+
 std::string TomlValues::String(const toml::node& n, const std::string& key) const {
   if (!n.is_string()) throw InputError(At(n), key, Describe(n), "a string");
   return n.as_string()->get();

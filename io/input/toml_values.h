@@ -12,6 +12,7 @@
 
 #include "engine/coupling/coupling.h"
 #include "engine/types.h"
+#include "io/input/units.h"
 #include "io/input_error.h"
 
 namespace lobecast {
@@ -43,6 +44,8 @@ class TomlValues {
   double Positive(const toml::node& n, const std::string& key, std::string_view type,
                   std::string_view what) const;
   Vec3 Vector3(const toml::node& n, const std::string& key, std::string_view what) const;
+  // The file's `length_unit` key (m, cm, mm, wavelength); metres when absent.
+  LengthUnit ReadLengthUnit(const toml::table& root) const;
   // The wire keys of a dipole table (or a design's [element]): radius (length unit,
   // below half the dipole's length), self_reactance (ohm), conductivity (S/m, needs a
   // radius); all optional.
