@@ -1,0 +1,35 @@
+// A result file is input: a damaged one must be refused, never crash or hang the
+// reader. HDF5 checks the structure it parses, but not everything that a damaged
+// file can claim, so what the library would trust is checked first
+// (io/hdf5/hdf5_file.cpp calls these before it reads). Internal to io/hdf5.
+#pragma once
+
+#include <cstddef>
+#include <string>
+
+#include <hdf5.h>
+
+#include "io/hdf5/hdf5_file.h"
+
+namespace lobecast::hdf5 {
+
+// Throws NotAResultError(path, "not a valid lobecast result: " + what).
+[[noreturn]] void Invalid(const std::string& path, const std::string& what);
+
+// Walks every global-heap collection of the file the way HDF5 1.10 does and checks
+// every variable-length string's reference into them (see the .cpp); Invalid when
+// one would make the library spin or read past an object.
+void CheckGlobalHeaps(const std::string& path);
+
+// What a dataset or attribute must hold before HDF5 converts it to ours.
+enum class Stored { kReal, kInteger, kComplex, kString };
+
+// Invalid unless `type` stores `kind` in a standard layout (and, for fixed-length
+// strings, a size the file can hold).
+void ExpectType(hid_t loc, hid_t type, Stored kind, const std::string& what);
+
+// The number of values in `space`; Invalid when reading them as `bytes_each` bytes
+// could not come from the file.
+std::size_t BoundedCount(hid_t loc, hid_t space, std::size_t bytes_each, const std::string& what);
+
+}  // namespace lobecast::hdf5
