@@ -10,6 +10,7 @@
 #include "io/safety_note.h"
 #include "io/text/exposure_text.h"
 #include "io/text/link_text.h"
+#include "io/text/text_format.h"
 
 namespace lobecast::text {
 namespace {
@@ -101,6 +102,27 @@ TEST(ExposureText, CautionsAndTheExposureNote) {
   EXPECT_THAT(ExposureCautions(r)[0], HasSubstr("inside the far-field distance 7 m"));
   r.rows[0].distance_to_limit_m = 8;
   EXPECT_TRUE(ExposureCautions(r).empty());
+  // A row whose limit falls inside the far-field distance is marked in every form,
+  // even when the worst direction's is outside it.
+  ExposureRow side = row;
+  side.kind = "cut";
+  side.distance_to_limit_m = 0.5;
+  r.rows.push_back(side);
+  ASSERT_EQ(ExposureCautions(r).size(), 1u);
+  EXPECT_THAT(ExposureCautions(r)[0], HasSubstr("1 of 2 rows reach the limit inside"));
+  // Whole (Printf once cut every text at 255 bytes).
+  EXPECT_EQ(Printf("%s.", std::string(1000, 'a').c_str()), std::string(1000, 'a') + ".");
+  EXPECT_THAT(ExposureCautions(r)[0], testing::EndsWith("is outside it"));
+  EXPECT_THAT(ExposureText(r), HasSubstr("0.5*"));
+  EXPECT_THAT(ExposureText(r), HasSubstr("* inside the far-field distance 7 m"));
+  EXPECT_THAT(ExposureJson(r), HasSubstr("\"limit_in_far_field\": false"));
+  EXPECT_THAT(ExposureJson(r), HasSubstr("\"limit_in_far_field\": true"));
+  const std::vector<std::string> csv = Lines(ExposureCsv(r));
+  ASSERT_GE(csv.size(), 3u);
+  EXPECT_THAT(csv[0], HasSubstr("distance_to_limit_m,limit_in_far_field"));
+  EXPECT_THAT(csv[1], HasSubstr(",8,true"));
+  EXPECT_THAT(csv[2], HasSubstr(",0.5,false"));
+  r.rows.pop_back();
   r.distance_m = 3.0;
   EXPECT_EQ(ExposureCautions(r).size(), 1u);
   EXPECT_THAT(ExposureGroundNote(Ground::kPec), HasSubstr("theta < 90 deg"));

@@ -20,6 +20,12 @@ std::string DbCell(double linear) {
   return std::isinf(db) ? "-inf" : Printf("%.2f", db);
 }
 
+// The limit is reached closer than the far-field distance: the row's distance is
+// outside the model's validity (0, a limit never reached, is not).
+bool LimitInsideFarField(const ExposureReport& r, const ExposureRow& row) {
+  return row.distance_to_limit_m > 0 && row.distance_to_limit_m < r.region.region.start_m();
+}
+
 std::vector<std::string> Notes(const ExposureReport& r) {
   std::vector<std::string> notes = {
       "lobecast exposure of " + r.result_path + ": " + (r.name.empty() ? "(unnamed)" : r.name) +
@@ -41,7 +47,11 @@ std::vector<std::string> Notes(const ExposureReport& r) {
 std::vector<std::string> ExposureCautions(const ExposureReport& r) {
   std::vector<std::string> out;
   double worst = 0;
-  for (const ExposureRow& row : r.rows) worst = std::max(worst, row.distance_to_limit_m);
+  std::size_t inside = 0;
+  for (const ExposureRow& row : r.rows) {
+    worst = std::max(worst, row.distance_to_limit_m);
+    if (LimitInsideFarField(r, row)) ++inside;
+  }
   const double start = r.region.region.start_m();
   if (worst > 0 && worst < start) {
     out.push_back(
@@ -49,6 +59,13 @@ std::vector<std::string> ExposureCautions(const ExposureReport& r) {
                "there the far-field estimate does not hold and the near field can be "
                "stronger; assess the near field by other means",
                worst, start));
+  } else if (inside > 0) {
+    out.push_back(
+        Printf("%zu of %zu rows reach the limit inside the far-field distance %.6g m (marked): "
+               "their distances are not valid, and the near field there can be stronger than "
+               "the far-field estimate; the largest distance (%.6g m, the worst direction) is "
+               "outside it",
+               inside, r.rows.size(), start, worst));
   }
   if (r.distance_m && *r.distance_m < start) {
     out.push_back(
@@ -103,10 +120,19 @@ std::string ExposureText(const ExposureReport& r) {
       s << (std::isnan(row.cut_angle_deg) ? Printf(" %9s", "")
                                           : Printf(" %9.3f", row.cut_angle_deg));
     }
-    s << Printf(" %9s %9s %12.6g %12.6g", DbCell(row.directivity).c_str(), DbCell(row.gain).c_str(),
-                row.eirp_w, row.distance_to_limit_m);
+    // A distance inside the far-field distance is marked: not valid there.
+    const bool inside = LimitInsideFarField(r, row);
+    s << Printf(" %9s %9s %12.6g %11.6g%s", DbCell(row.directivity).c_str(),
+                DbCell(row.gain).c_str(), row.eirp_w, row.distance_to_limit_m, inside ? "*" : " ");
     if (r.distance_m) s << Printf(" %14.6g", row.density_w_m2);
     s << "\n";
+  }
+  for (const ExposureRow& row : r.rows) {
+    if (LimitInsideFarField(r, row)) {
+      s << Printf("* inside the far-field distance %.6g m: not valid there\n",
+                  r.region.region.start_m());
+      break;
+    }
   }
   s << "\n";
   for (const std::string& c : r.cautions) s << WrappedNote("caution:", c);
@@ -117,7 +143,7 @@ std::string ExposureText(const ExposureReport& r) {
 std::string ExposureCsv(const ExposureReport& r) {
   std::string header =
       "kind,theta_deg,phi_deg,cut_angle_deg,directivity_dBi,gain_dBi,eirp_W,limit_W_m2,"
-      "distance_to_limit_m";
+      "distance_to_limit_m,limit_in_far_field";
   if (r.distance_m) header += ",distance_m,density_W_m2";
   std::vector<std::string> rows;
   for (const ExposureRow& row : r.rows) {
@@ -134,6 +160,7 @@ std::string ExposureCsv(const ExposureReport& r) {
     num(row.eirp_w);
     num(r.limit_w_m2);
     num(row.distance_to_limit_m);
+    line += LimitInsideFarField(r, row) ? ",false" : ",true";
     if (r.distance_m) {
       num(*r.distance_m);
       num(row.density_w_m2);
@@ -171,6 +198,9 @@ std::string ExposureJson(const ExposureReport& r) {
     j.Member("gain_dbi", ToDb(row.gain));
     j.Member("eirp_w", row.eirp_w);
     j.Member("distance_to_limit_m", row.distance_to_limit_m);
+    // false: the limit is reached inside the far-field distance, where the
+    // far-field estimate does not hold.
+    j.MemberBool("limit_in_far_field", !LimitInsideFarField(r, row));
     if (r.distance_m) j.Member("density_w_m2", row.density_w_m2);
     j.MemberBool("exact", row.exact);
     j.EndObject();

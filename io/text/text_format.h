@@ -10,11 +10,17 @@
 
 namespace lobecast::text {
 
-// std::snprintf into a string; the texts formatted here are short (< 256 bytes).
+// std::snprintf into a string, of any length.
 inline std::string Printf(const char* fmt, auto... args) {
+  // Any length: a fixed buffer would cut long sentences short.
   char buf[256];
-  std::snprintf(buf, sizeof buf, fmt, args...);
-  return buf;
+  const int n = std::snprintf(buf, sizeof buf, fmt, args...);
+  if (n < 0) return {};
+  if (static_cast<std::size_t>(n) < sizeof buf) return std::string(buf, n);
+  std::string out(static_cast<std::size_t>(n) + 1, '\0');
+  std::snprintf(out.data(), out.size(), fmt, args...);
+  out.resize(static_cast<std::size_t>(n));
+  return out;
 }
 
 // "x (Ludwig-3)", "y (Ludwig-3)", "RHCP", "LHCP", "theta_hat", "phi_hat".
