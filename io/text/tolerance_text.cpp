@@ -13,9 +13,11 @@
 namespace lobecast::text {
 namespace {
 
+// 12 characters, the first always a space: "%.5g" of a negative number below 1e-4
+// takes 11 (-0.00012814), and columns must not run together.
 std::string Cell(double v) {
-  if (std::isnan(v)) return Printf("%11s", "undefined");
-  return Printf("%11.5g", v);
+  if (std::isnan(v)) return Printf(" %11s", "undefined");
+  return Printf(" %11.5g", v);
 }
 
 // One table row: name (unit), baseline, mean, std, min, percentiles, max.
@@ -24,7 +26,7 @@ std::string Row(const std::string& what, const std::string& unit, double baselin
   // Dimensionless figures ("1") name no unit.
   const std::string label = unit == "1" ? what : what + " (" + unit + ")";
   std::string s = Printf("  %-46s", label.c_str());
-  s += Cell(baseline) + Cell(st.mean) + (with_std ? Cell(st.std_dev) : Printf("%11s", "-")) +
+  s += Cell(baseline) + Cell(st.mean) + (with_std ? Cell(st.std_dev) : Printf("%12s", "-")) +
        Cell(st.min);
   for (double p : st.percentiles) s += Cell(p);
   return s + Cell(st.max) + "\n";
@@ -47,9 +49,9 @@ std::string DescribeTolerance(const ArrayDescription& desc, const ToleranceResul
        (r.beam_from_design ? " (the design's)" : " (the error-free refined peak)") + "\n";
   s += "side lobes   outside the error-free main beam (down to its first minima), grid maximum "
        "re the trial's grid maximum\n";
-  s += Printf("  %-46s%11s%11s%11s%11s", "per trial", "error-free", "mean", "std", "min");
-  for (double p : r.percentiles) s += Printf("%11s", Printf("p%g", p).c_str());
-  s += Printf("%11s\n", "max");
+  s += Printf("  %-46s%12s%12s%12s%12s", "per trial", "error-free", "mean", "std", "min");
+  for (double p : r.percentiles) s += Printf("%12s", Printf("p%g", p).c_str());
+  s += Printf("%12s\n", "max");
   schema::VisitTrialScalars<TrialFigures>([&](const schema::Dataset& d, const char* what,
                                               auto value) {
     std::vector<double> v;
