@@ -153,6 +153,16 @@ void RunScan(const ScanArgs& args) {
           "dipole: the scan impedance is each element's input impedance");
     }
   }
+  if (impedance && ref.impedance_ohm.size() == 0) {
+    // Above the coupling limit the file's own circuit was streamed (coupling.h);
+    // the table over steering angles works on the matrix.
+    throw InvalidArgument(
+        "scan: " + std::to_string(desc.array.size()) +
+        " dipoles: the scan impedance is "
+        "computed with the whole impedance matrix, built up to " +
+        std::to_string(CouplingOptions{}.max_dipoles) +
+        " dipoles; compute gives the active impedance of one excitation at any size");
+  }
   // The taper: the magnitudes of the currents the file gives (or its circuit
   // solves); their phases are replaced by the steering. The input impedance
   // includes the wire's loss resistance.
