@@ -110,6 +110,16 @@ TEST(CouplingCli, LargeCurrentForcedArraysStreamTheirImpedances) {
                                               std::to_string(rows) + " True "))
         << h5.out;
   }
+  // The scan table streams too: every element's active impedance per direction.
+  const fs::path scan_csv = dir / "scan.csv";
+  const auto scan =
+      Lobecast("scan " + Quote((dir / "panel4160.toml").string()) +
+               " --phi 0 --theta-stop 10 --step 10 -q -o " + Quote(scan_csv.string()));
+  ASSERT_EQ(scan.exit_code, 0) << scan.out;
+  std::ifstream table(scan_csv);
+  std::size_t rows = 0;
+  for (std::string line; std::getline(table, line);) rows += !line.empty() && line[0] != '#';
+  EXPECT_EQ(rows, 1u + 2u * 4160u);  // a header, then every element at both directions
   const fs::path driven = WritePanel(dir, "driven4160", 4160, 1);
   const auto refused =
       Lobecast("compute " + Quote(driven.string()) + " -q -o " + Quote((dir / "d.h5").string()));
