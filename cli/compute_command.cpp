@@ -113,6 +113,7 @@ FrequencySweep RunSweep(const ArrayDescription& desc, const PatternResult& resul
   excitation.wires = desc.wires;
   excitation.coupling.reference_impedance_ohm = desc.reference_impedance_ohm;
   excitation.coupling.num_threads = options.field.num_threads;
+  excitation.coupling.force_matrix = options.store_resistance_matrix;
   SweepOptions sweep_options;
   sweep_options.pattern = options;
   sweep_options.analysis = analysis_options;
@@ -150,7 +151,8 @@ void RunCompute(const ComputeArgs& args) {
       args.resistance_matrix || size.dipoles <= PatternOptions{}.resistance_matrix_max_dipoles;
   size.threads = args.threads;
   CheckRunLimits(EstimateRun(size), args.limits, args.input, args.quiet);
-  const std::optional<CouplingResult> coupling = SolveArrayCircuit(desc, args.threads);
+  const std::optional<CouplingResult> coupling =
+      SolveArrayCircuit(desc, args.threads, args.resistance_matrix);
 
   StopForTestAt("compute");  // test hook (io/output_file.h)
   ProgressBar bar(!args.quiet);
@@ -272,7 +274,8 @@ void AddComputeCommand(CLI::App& app) {
           ->capture_default_str();
   cmd->add_flag("--resistance-matrix", args->resistance_matrix,
                 "Store the N x N mutual resistance matrix (ohm) even above 4096 dipoles, "
-                "where it is otherwise streamed (8 N^2 bytes)");
+                "where it is otherwise streamed (8 N^2 bytes); with a circuit, the impedance "
+                "matrix too (16 N^2 bytes), which driven and loaded ports need above 4096");
   cmd->add_option("--power-method", args->power_method,
                   "Radiated power: closed (the closed-form sum over dipole pairs, O(N^2), with "
                   "the active resistances), quadrature (over directions, exact for the "

@@ -14,6 +14,7 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/text_case.h"
 #include "io/hdf5/analysis_reader.h"
+#include "io/hdf5/coupling_reader.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/sweep_reader.h"
 #include "io/input_error.h"
@@ -118,9 +119,9 @@ plot::PlotOptions ToOptions(const PlotArgs& a) {
     const auto q = plot::QuantityFromString(a.quantity);
     if (!q) {
       Bad("--quantity", a.quantity,
-          JoinAlternatives(
-              NamesOf({plot::Quantity::kDirectivity, plot::Quantity::kCo, plot::Quantity::kCross,
-                       plot::Quantity::kTheta, plot::Quantity::kPhi})));
+          JoinAlternatives(NamesOf({plot::Quantity::kDirectivity, plot::Quantity::kCo,
+                                    plot::Quantity::kCross, plot::Quantity::kTheta,
+                                    plot::Quantity::kPhi, plot::Quantity::kRealizedGain})));
     }
     o.quantity = *q;
   }
@@ -198,10 +199,24 @@ void RunSweepPlot(const PlotArgs& args) {
 
 void RunPlot(const PlotArgs& args) {
   if (IsSweepKind(args.kind)) return RunSweepPlot(args);
-  const plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
+  plot::PlotOptions options = ToOptions(args);  // reject bad options before reading
   RefuseInputAsOutput("--output", args.output, args.input);
   CheckOutputWritable(args.output);  // an unwritable folder is found before the work
   const StoredResult result = ReadResult(args.input);
+  if (options.quantity == plot::Quantity::kRealizedGain) {
+    // 4 pi U / P_available = D P_rad / P_available, as /pattern/realized_gain holds it.
+    const std::optional<StoredCoupling> c = ReadCoupling(args.input, result.array, result.currents);
+    if (!c || !(c->result.available_w > 0)) {
+      BadOption("--quantity",
+                "realized-gain for " + args.input +
+                    (c ? ", whose sources have no available power (current-forced "
+                         "ports: the file holds /pattern/gain)"
+                       : ", which has no circuit (no drive, load or wire keys)"),
+                "realized-gain for a result with voltage sources (drive keys); directivity "
+                "otherwise");
+    }
+    options.realized_gain_factor = c->result.radiated_w / c->result.available_w;
+  }
   // The figures drawn are the stored analysis' (what `report` prints); a result without
   // one (older, or computed with --no-analysis) gets one with the default options.
   std::optional<StoredAnalysis> stored = ReadAnalysis(args.input);
@@ -255,7 +270,8 @@ void AddPlotCommand(CLI::App& app) {
   cmd->add_option("--quantity", args->quantity,
                   "directivity (total) | co | cross (Ludwig-3 or circular, see --reference) | "
                   "theta | phi (partial directivity of E_theta / E_phi), in dBi; cuts draw the "
-                  "pair (co with cross, theta with phi). Default: for cuts co/cross when "
+                  "pair (co with cross, theta with phi); realized-gain (4 pi U / P_available, "
+                  "a result with voltage sources). Default: for cuts co/cross when "
                   "--reference is given or the peak is within 45 deg of the z axis, else "
                   "theta/phi; for maps directivity");
   cmd->add_option("--reference", args->reference,

@@ -175,15 +175,26 @@ void RunScan(const ScanArgs& args) {
     RunScanPattern(args, desc, amplitudes, theta, phi, args.quiet || to_stdout);
     return;
   }
+  // Above the coupling limit the file's circuit was streamed (no matrix): so is
+  // every scan direction's Z I (scan.h).
+  const bool streamed = ref.impedance_ohm.size() == 0;
   Eigen::MatrixXcd z = ref.impedance_ohm;
-  z.diagonal().real() += ref.loss_resistance_ohm;
+  if (!streamed) z.diagonal().real() += ref.loss_resistance_ohm;
+  Eigen::VectorXcd diagonal(ref.self_reactance_ohm.size());
+  for (Eigen::Index m = 0; m < diagonal.size(); ++m)
+    diagonal[m] = Complex(ref.loss_resistance_ohm[m], ref.self_reactance_ohm[m]);
+  auto scan_table = [&](const std::vector<double>& th, const std::vector<double>& ph,
+                        const Eigen::VectorXcd& reference_ohm) {
+    return streamed ? ScanImpedanceStreamed(desc.array, diagonal, amplitudes, th, ph, reference_ohm)
+                    : ScanImpedance(desc.array, z, amplitudes, th, ph, reference_ohm);
+  };
   const auto n = static_cast<Eigen::Index>(desc.array.size());
   Eigen::VectorXcd reference = Eigen::VectorXcd::Constant(n, desc.reference_impedance_ohm);
   std::string reference_text =
       text::Printf("%g ohm (reference_impedance)", desc.reference_impedance_ohm);
   if (args.match == "first") {
     // Each element conjugate-matched to its own impedance at the first scan angle.
-    reference = ScanImpedance(desc.array, z, amplitudes, {theta.front()}, {phi.front()}, reference)
+    reference = scan_table({theta.front()}, {phi.front()}, reference)
                     .active_impedance_ohm.row(0)
                     .transpose()
                     .conjugate();
@@ -191,7 +202,7 @@ void RunScan(const ScanArgs& args) {
         text::Printf("each element's conjugate match at theta %g deg (power waves, Kurokawa 1965)",
                      args.theta_start_deg);
   }
-  const ScanImpedanceTable table = ScanImpedance(desc.array, z, amplitudes, theta, phi, reference);
+  const ScanImpedanceTable table = scan_table(theta, phi, reference);
   // With -o -, standard output is the CSV alone; the table and "wrote" lines go away.
   const bool csv_to_stdout = to_stdout;
   const bool quiet = args.quiet || csv_to_stdout;

@@ -21,6 +21,7 @@
 #include "engine/constants.h"
 #include "io/input/array_reader.h"
 #include "io/input/csv_dipoles.h"
+#include "io/input/solve_circuit.h"
 #include "io/input/units.h"
 #include "io/input_error.h"
 #include "io/text/number_text.h"
@@ -405,6 +406,45 @@ TEST(ArrayReader, CouplingKeysAndTheThickWireWarning) {
   ASSERT_EQ(d.warnings.size(), 1u);
   EXPECT_NE(d.warnings[0].find("arr.toml:8:10: warning: key 'dipole[0].radius'"), std::string::npos)
       << d.warnings[0];
+}
+
+// The parasitic beacon sample written as a CSV table with a port column reads to
+// the same ports and wires as its [[dipole]] tables, and its circuit solves to the
+// same currents bit for bit (the same numbers reach the same solver).
+TEST(ArrayReader, CsvPortRowsEqualTheirTomlTables) {
+  const ArrayDescription toml =
+      ReadArrayDescription(std::string(LOBECAST_SAMPLES) + "/parasitic-beacon.toml");
+  const fs::path dir = fs::temp_directory_path() / "lobecast_csv_ports_test";
+  fs::create_directories(dir);
+  {
+    std::ofstream csv(dir / "beacon.csv");
+    csv << "x, y, z, ux, uy, uz, length, distribution, radius, conductivity, port, magnitude, "
+           "phase, voltage, resistance, reactance\n"
+           "0, 0, 0, 0, 0, 1, 0.05, triangular, 0.0015, 5.8e7, drive, , 0, 1.0, 0.5, 1436\n"
+           "-0.15, 0, 0, 0, 0, 1, 0.05, triangular, 0.0015, 5.8e7, load, , , , , 1435.5\n"
+           "0.15, 0, 0, 0, 0, 1, 0.05, triangular, 0.0015, 5.8e7, load, , , , , 1436\n";
+    std::ofstream t(dir / "beacon.toml");
+    t << "frequency = \"433.92 MHz\"\nlength_unit = \"wavelength\"\nreference_impedance = 50\n"
+         "dipoles_csv = \"beacon.csv\"\n[grid]\ntheta = { start = 0, stop = 180, step = 1 }\n"
+         "phi = { start = 0, stop = 360, step = 1 }\n";
+  }
+  ArrayDescription from_csv = ReadArrayDescription((dir / "beacon.toml").string());
+  ASSERT_EQ(from_csv.ports.size(), toml.ports.size());
+  for (std::size_t m = 0; m < toml.ports.size(); ++m) {
+    EXPECT_EQ(from_csv.ports[m].kind, toml.ports[m].kind) << m;
+    EXPECT_EQ(from_csv.ports[m].voltage_v, toml.ports[m].voltage_v) << m;
+    EXPECT_EQ(from_csv.ports[m].impedance_ohm, toml.ports[m].impedance_ohm) << m;
+    EXPECT_EQ(from_csv.wires[m].radius_m, toml.wires[m].radius_m) << m;
+    EXPECT_EQ(from_csv.wires[m].conductivity_s_m, toml.wires[m].conductivity_s_m) << m;
+  }
+  ArrayDescription from_toml = toml;
+  ASSERT_TRUE(SolveArrayCircuit(from_csv, 1).has_value());
+  ASSERT_TRUE(SolveArrayCircuit(from_toml, 1).has_value());
+  for (Eigen::Index m = 0; m < from_toml.currents.size(); ++m) {
+    EXPECT_EQ(from_csv.currents[m], from_toml.currents[m]) << m;
+    EXPECT_NE(from_csv.currents[m], Complex(0.0)) << m;  // solved, not left at 0
+  }
+  fs::remove_all(dir);
 }
 
 }  // namespace

@@ -124,7 +124,104 @@ TEST(Coupling, ClosePairsAndSizeLimit) {
   for (int m = 0; m < 4; ++m) ports[m].current_a = 1.0;
   CouplingOptions small;
   small.max_dipoles = 3;
-  EXPECT_THROW(SolveCoupling(a, ports, std::vector<Wire>(4), small), InvalidArgument);
+  // Above the limit current-forced ports stream (no matrix); a driven port, which
+  // needs the matrix for its solve, is refused with the limit and the way to raise it.
+  EXPECT_EQ(SolveCoupling(a, ports, std::vector<Wire>(4), small).impedance_ohm.size(), 0);
+  ports[3] = Port{PortKind::kDrive, 0.0, 1.0, 50.0};
+  std::vector<Wire> wires(4);
+  wires[3].reactance_ohm = -900;
+  try {
+    SolveCoupling(a, ports, wires, small);
+    ADD_FAILURE() << "a driven port above the limit was solved";
+  } catch (const InvalidArgument& e) {
+    const std::string what = e.what();
+    EXPECT_NE(what.find("dipole 3 is driven"), std::string::npos) << what;
+    EXPECT_NE(what.find("built up to 3 dipoles"), std::string::npos) << what;
+    EXPECT_NE(what.find("--resistance-matrix"), std::string::npos) << what;
+  }
+  small.force_matrix = true;  // asked for: the matrix and the LU solve at any size
+  EXPECT_EQ(SolveCoupling(a, ports, wires, small).impedance_ohm.rows(), 4);
+}
+
+// Above the limit a current-forced array's Z-based figures come from rows summed
+// one at a time (power_large.h); with the matrix forced they come from Z. The two
+// routes sum the same closed forms in different orders, so they agree to rounding
+// (1e-13 relative; the stored active resistance bit for bit, one code path).
+void ExpectStreamedEqualsMatrix(const Array& a, const std::vector<Port>& ports,
+                                const std::vector<Wire>& wires, std::size_t limit) {
+  CouplingOptions streamed_options, matrix_options;
+  streamed_options.max_dipoles = limit;
+  matrix_options.max_dipoles = limit;
+  matrix_options.force_matrix = true;
+  const CouplingResult s = SolveCoupling(a, ports, wires, streamed_options);
+  const CouplingResult m = SolveCoupling(a, ports, wires, matrix_options);
+  ASSERT_EQ(s.impedance_ohm.size(), 0);
+  ASSERT_EQ(m.impedance_ohm.rows(), static_cast<Eigen::Index>(a.size()));
+  auto close = [](const Eigen::VectorXcd& x, const Eigen::VectorXcd& y, const char* what) {
+    ASSERT_EQ(x.size(), y.size());
+    const double scale = y.cwiseAbs().maxCoeff();
+    for (Eigen::Index e = 0; e < x.size(); ++e) {
+      if (std::isnan(y[e].real()) || std::isnan(y[e].imag())) {
+        EXPECT_TRUE(std::isnan(x[e].real())) << what << " " << e;
+        continue;
+      }
+      EXPECT_LE(std::abs(x[e] - y[e]), 1e-13 * scale)
+          << what << " " << e << ": " << x[e] << " vs " << y[e];
+    }
+  };
+  close(s.active_impedance_ohm, m.active_impedance_ohm, "active impedance");
+  close(s.circuit.input_impedance_ohm, m.circuit.input_impedance_ohm, "input impedance");
+  close(s.circuit.terminal_voltage_v, m.circuit.terminal_voltage_v, "terminal voltage");
+  close(s.reflection, m.reflection, "reflection");
+  EXPECT_EQ(s.circuit.current_a, m.circuit.current_a);
+  EXPECT_NEAR(s.radiated_w, m.radiated_w, 1e-13 * m.radiated_w);
+  // The accepted power sums 1/2 Re(V I*) over the ports, V dominated by the self
+  // reactances: its rounding scale is 1/2 sum |V| |I| (here ~1e3 times the result).
+  double reactive = 0;
+  for (Eigen::Index e = 0; e < m.circuit.current_a.size(); ++e) {
+    const Complex v = m.circuit.terminal_voltage_v[e];
+    if (!std::isnan(v.imag())) reactive += 0.5 * std::abs(v) * std::abs(m.circuit.current_a[e]);
+  }
+  EXPECT_NEAR(s.accepted_w, m.accepted_w, 1e-13 * reactive);
+  EXPECT_NEAR(s.ohmic_w, m.ohmic_w, 1e-13 * m.ohmic_w);
+  EXPECT_NEAR(s.efficiency, m.efficiency, 1e-13 * reactive / m.accepted_w);
+  ASSERT_EQ(s.self_reactance_ohm.size(), m.self_reactance_ohm.size());
+  for (Eigen::Index e = 0; e < s.self_reactance_ohm.size(); ++e) {
+    EXPECT_TRUE(s.self_reactance_ohm[e] == m.self_reactance_ohm[e] ||
+                (std::isnan(s.self_reactance_ohm[e]) && std::isnan(m.self_reactance_ohm[e])))
+        << e;
+  }
+}
+
+TEST(Coupling, StreamedImpedancesEqualTheMatrixRoute) {
+  TestRng rng(4097);
+  for (Ground g : {Ground::kNone, Ground::kPec}) {
+    testing::TestArray a = RandomArray(rng, 600, g, 6.0);
+    std::vector<Port> ports(a.size());
+    std::vector<Wire> wires(a.size());
+    for (std::size_t m = 0; m < a.size(); ++m) {
+      a.dipoles[m].distribution = Distribution::kTriangular;
+      ports[m].current_a = m % 97 == 5 ? Complex(0.0) : a.currents[static_cast<Eigen::Index>(m)];
+      if (m % 50 == 7) continue;  // no wire: its reactance and V unknown (NaN)
+      wires[m].radius_m = a.dipoles[m].length_m / 300;
+      wires[m].conductivity_s_m = 3.5e7;
+    }
+    ExpectStreamedEqualsMatrix(a, ports, wires, 599);
+  }
+}
+
+// The default threshold itself: 4097 dipoles, one above it (a 268 MB matrix).
+TEST(Coupling, StreamedImpedancesAtTheDefaultLimit) {
+  TestRng rng(77);
+  const std::size_t limit = CouplingOptions{}.max_dipoles;
+  testing::TestArray a = RandomArray(rng, static_cast<int>(limit) + 1, Ground::kNone, 12.0);
+  std::vector<Port> ports(a.size());
+  std::vector<Wire> wires(a.size());
+  for (std::size_t m = 0; m < a.size(); ++m) {
+    ports[m].current_a = a.currents[static_cast<Eigen::Index>(m)];
+    wires[m].reactance_ohm = -1000.0 - static_cast<double>(m % 13);
+  }
+  ExpectStreamedEqualsMatrix(a, ports, wires, limit);
 }
 
 }  // namespace

@@ -144,3 +144,88 @@ TEST(CsvDipoles, WireColumnsAreOptionalPerCell) {
 
 }  // namespace
 }  // namespace lobecast
+
+namespace lobecast {
+namespace {
+
+// The port column (csv_dipoles.h): rows driven or loaded as [[dipole]] tables'
+// drive and load keys (CONVENTIONS §3), with their defaults.
+TEST(CsvDipoles, PortColumnGivesDriveAndLoadRows) {
+  const std::string text =
+      "x,y,z,ux,uy,uz,length,distribution,radius,port,magnitude,phase,voltage,resistance,"
+      "reactance\n"
+      "0,0,0,0,0,1,10,triangular,0.1,drive,,30,2,,\n"        // R default: the reference
+      "25,0,0,0,0,1,10,triangular,0.1,DRIVE,,,1,0.5,1436\n"  // phase default 0
+      "-25,0,0,0,0,1,10,triangular,0.1,load,,,,,-300\n"      // R default 0
+      "50,0,0,0,0,1,10,triangular,0.1,load,,,,,\n"           // both empty: a short
+      "75,0,0,0,0,1,10,uniform,,current,0.5,90,,,\n"
+      "99,0,0,0,0,1,10,uniform,,,2,,,,\n";  // empty port: current, phase 0
+  const std::vector<CsvDipole> d = ParseCsvDipoles(text, "p.csv", 0.01, 0, 75.0);
+  ASSERT_EQ(d.size(), 6u);
+  EXPECT_EQ(d[0].port.kind, PortKind::kDrive);
+  EXPECT_NEAR(std::abs(d[0].port.voltage_v - std::polar(2.0, 30 * kDegree)), 0.0, 1e-15);
+  EXPECT_EQ(d[0].port.impedance_ohm, Complex(75.0, 0.0));
+  EXPECT_EQ(d[0].current_a, Complex(0.0));
+  EXPECT_EQ(d[1].port.kind, PortKind::kDrive);
+  EXPECT_EQ(d[1].port.voltage_v, Complex(1.0, 0.0));
+  EXPECT_EQ(d[1].port.impedance_ohm, Complex(0.5, 1436.0));
+  EXPECT_EQ(d[2].port.kind, PortKind::kLoad);
+  EXPECT_EQ(d[2].port.impedance_ohm, Complex(0.0, -300.0));
+  EXPECT_EQ(d[3].port.kind, PortKind::kLoad);
+  EXPECT_EQ(d[3].port.impedance_ohm, Complex(0.0, 0.0));
+  EXPECT_EQ(d[4].port.kind, PortKind::kCurrent);
+  EXPECT_NEAR(std::abs(d[4].port.current_a - std::polar(0.5, 90 * kDegree)), 0.0, 1e-15);
+  EXPECT_EQ(d[4].current_a, d[4].port.current_a);
+  EXPECT_EQ(d[5].port.kind, PortKind::kCurrent);
+  EXPECT_EQ(d[5].port.current_a, Complex(2.0, 0.0));
+}
+
+TEST(CsvDipoles, InconsistentPortRowsAreLocated) {
+  const std::string h =
+      "x,y,z,ux,uy,uz,length,distribution,self_reactance,port,magnitude,phase,voltage,"
+      "resistance,reactance\n";
+  auto expect = [&](const std::string& row, const std::string& where, const std::string& found) {
+    try {
+      ParseCsvDipoles(h + row, "p.csv", 1.0, 4);
+      ADD_FAILURE() << "parsed: " << row;
+    } catch (const InputError& e) {
+      const std::string what = e.what();
+      EXPECT_NE(what.find(where), std::string::npos) << what;
+      EXPECT_NE(what.find(found), std::string::npos) << what;
+    }
+  };
+  expect("0,0,0,0,0,1,1,,-900,drive,1,,1,,\n", "p.csv:2:27: key 'dipole[4].magnitude'",
+         "a magnitude cell in a drive row");
+  expect("0,0,0,0,0,1,1,,-900,load,,,1,,\n", "p.csv:2:28: key 'dipole[4].voltage'",
+         "a voltage cell in a load row");
+  expect("0,0,0,0,0,1,1,,-900,load,,5,,,\n", "p.csv:2:27: key 'dipole[4].phase'",
+         "a phase cell in a load row");
+  expect("0,0,0,0,0,1,1,,,current,1,0,,,7\n", "key 'dipole[4].reactance'",
+         "a reactance cell in a current row");
+  expect("0,0,0,0,0,1,1,,-900,drive,,,,50,\n", "key 'dipole[4].voltage'",
+         "a drive row without a voltage");
+  expect("0,0,0,0,0,1,1,,-900,load,,,,-1,\n", "key 'dipole[4].resistance'", "-1");
+  expect("0,0,0,0,0,1,1,,-900,drive,,,-1,,\n", "key 'dipole[4].voltage'", "-1");
+  expect("0,0,0,0,0,1,1,,-900,source,,,1,,\n", "p.csv:2:21: key 'dipole[4].port'", "'source'");
+  expect("0,0,0,0,0,1,1,,,current,,,,,\n", "key 'dipole[4].magnitude'", "an empty cell");
+  // A driven row needs its self reactance, as a [[dipole]] table does.
+  expect("0,0,0,0,0,1,1,,,drive,,,1,,\n", "p.csv:2:17: key 'dipole[4].port'",
+         "a drive row without a self reactance");
+  // A port column without a magnitude column: current rows have nothing to read.
+  try {
+    ParseCsvDipoles("x,y,z,ux,uy,uz,length,port\n0,0,0,0,0,1,1,current\n", "p.csv", 1.0, 0);
+    ADD_FAILURE() << "parsed";
+  } catch (const InputError& e) {
+    EXPECT_NE(std::string(e.what()).find("no 'magnitude' column"), std::string::npos) << e.what();
+  }
+  // Without a port column, magnitude and phase stay required, as before.
+  try {
+    ParseCsvDipoles("x,y,z,ux,uy,uz,length,magnitude\n", "p.csv", 1.0, 0);
+    ADD_FAILURE() << "parsed";
+  } catch (const InputError& e) {
+    EXPECT_EQ(e.key, "phase");
+  }
+}
+
+}  // namespace
+}  // namespace lobecast

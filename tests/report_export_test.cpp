@@ -574,7 +574,7 @@ TEST(ReportExport, BadEnumNamesListTheAcceptedOnes) {
       {"compute --reference q " + Quote(Sample("single-dipole")),
        "expected x, y, rhcp, lhcp, theta, phi or auto"},
       {plot + " --kind pie" + r, "expected polar, cartesian, map or polarization"},
-      {plot + " --quantity x" + r, "expected directivity, co, cross, theta or phi"},
+      {plot + " --quantity x" + r, "expected directivity, co, cross, theta, phi or realized-gain"},
       {plot + " --reference q" + r, "expected auto, x, y, rhcp, lhcp, theta or phi"},
       {plot + " --kind map --projection merc" + r, "expected theta-phi, az-el or uv"}};
   for (const auto& [args, names] : cases) {

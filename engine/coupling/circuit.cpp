@@ -4,6 +4,7 @@
 #include <cmath>
 #include <limits>
 #include <sstream>
+#include <utility>
 
 #include <Eigen/LU>
 
@@ -83,8 +84,18 @@ CircuitSolution SolveCircuit(const Eigen::MatrixXcd& z, const std::vector<Port>&
     }
     for (Eigen::Index i = 0; i < nu; ++i) out.current_a[unknown[i]] = x[i];
   }
+  return CircuitFromVoltages(ports, std::move(out.current_a), z * out.current_a);
+}
+
+CircuitSolution CircuitFromVoltages(const std::vector<Port>& ports, Eigen::VectorXcd current_a,
+                                    Eigen::VectorXcd terminal_voltage_v) {
+  const auto n = static_cast<Eigen::Index>(ports.size());
+  LOBECAST_CHECK_EQ(current_a.size(), n);
+  LOBECAST_CHECK_EQ(terminal_voltage_v.size(), n);
+  CircuitSolution out;
+  out.current_a = std::move(current_a);
+  out.terminal_voltage_v = std::move(terminal_voltage_v);
   const Eigen::VectorXcd& i = out.current_a;
-  out.terminal_voltage_v = z * i;
   out.input_impedance_ohm.resize(n);
   out.accepted_w.resize(n);
   out.supplied_w.resize(n);

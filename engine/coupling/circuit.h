@@ -47,4 +47,11 @@ struct CircuitSolution {
 // circuit is singular (no unique currents: e.g. lossless resonant loads).
 CircuitSolution SolveCircuit(const Eigen::MatrixXcd& impedance_ohm, const std::vector<Port>& ports);
 
+// The per-port figures (input impedance, accepted, supplied and port-loss powers)
+// from the currents and the terminal voltages V = Z I, however V was found: the tail
+// of SolveCircuit, and the whole of it for current-forced arrays whose V is summed
+// row by row without the matrix (coupling.h).
+CircuitSolution CircuitFromVoltages(const std::vector<Port>& ports, Eigen::VectorXcd current_a,
+                                    Eigen::VectorXcd terminal_voltage_v);
+
 }  // namespace lobecast

@@ -10,6 +10,7 @@
 #include "engine/error.h"
 #include "engine/ground.h"
 #include "engine/power/impedance.h"
+#include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
 
 namespace lobecast {
@@ -103,15 +104,25 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
                              const std::vector<Wire>& wires, const CouplingOptions& options) {
   Validate(array);
   const std::size_t n = array.size();
-  if (n > options.max_dipoles) {
-    std::ostringstream s;
-    s << "coupling: " << n << " dipoles with driven or loaded ports or wires; the circuit is "
-      << "solved with the whole impedance matrix (" << 16.0 * n * n / 1e9 << " GB), so at most "
-      << options.max_dipoles << " dipoles are supported";
-    throw InvalidArgument(s.str());
-  }
   LOBECAST_CHECK_EQ(ports.size(), n);
   LOBECAST_CHECK_EQ(wires.size(), n);
+  // Above the limit a current-forced array streams V = Z I row by row (O(N) memory);
+  // driven and loaded ports need the matrix for their solve.
+  const bool streamed = n > options.max_dipoles && !options.force_matrix;
+  if (streamed) {
+    for (std::size_t m = 0; m < n; ++m) {
+      if (ports[m].kind == PortKind::kCurrent) continue;
+      std::ostringstream s;
+      s << "coupling: " << n << " dipoles, dipole " << m << " is "
+        << (ports[m].kind == PortKind::kDrive ? "driven" : "loaded")
+        << ": driven and loaded ports are solved with the whole impedance matrix ("
+        << 16.0 * static_cast<double>(n) * static_cast<double>(n) / 1e9 << " GB), built up to "
+        << options.max_dipoles
+        << " dipoles unless asked for (compute --resistance-matrix builds it for any size); "
+           "current-forced arrays of any size need no matrix";
+      throw InvalidArgument(s.str());
+    }
+  }
   const double z0 = options.reference_impedance_ohm;
   if (!std::isfinite(z0) || z0 <= 0) {
     std::ostringstream s;
@@ -158,16 +169,31 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
   for (Eigen::Index e = 0; e < xs.size(); ++e)
     if (std::isnan(xs[e])) xs[e] = 0;
   CheckCoincident(array, ports);
-  Eigen::MatrixXcd z = ImpedanceMatrix(array, xs, options.num_threads);
-  Eigen::MatrixXcd z_loss = z;
-  z_loss.diagonal().real() += r.loss_resistance_ohm;
-  r.circuit = SolveCircuit(z_loss, ports);
+  Eigen::MatrixXcd z;
+  if (streamed) {
+    // Every current is given: V = (R + j X') I + j X_mm I_m + R_loss I_m, the rows
+    // summed as the active resistances are (engine/power/power_large.h).
+    Eigen::VectorXcd i(static_cast<Eigen::Index>(n));
+    for (std::size_t m = 0; m < n; ++m) i[static_cast<Eigen::Index>(m)] = ports[m].current_a;
+    const StreamedPower sp = RadiatedPowerStreamed(array, i, options.num_threads);
+    Eigen::VectorXcd v = sp.impedance_product_v;
+    for (Eigen::Index e = 0; e < v.size(); ++e)
+      v[e] += Complex(r.loss_resistance_ohm[e], xs[e]) * i[e];
+    r.circuit = CircuitFromVoltages(ports, std::move(i), std::move(v));
+    r.radiated_w = sp.radiated_power_w;
+  } else {
+    z = ImpedanceMatrix(array, xs, options.num_threads);
+    Eigen::MatrixXcd z_loss = z;
+    z_loss.diagonal().real() += r.loss_resistance_ohm;
+    r.circuit = SolveCircuit(z_loss, ports);
+    r.radiated_w = RadiatedPower(z.real(), r.circuit.current_a);  // Re Z = R (impedance.h)
+  }
   const double nan = std::numeric_limits<double>::quiet_NaN();
   r.active_impedance_ohm = r.circuit.input_impedance_ohm;
   r.active_impedance_ohm.real() -= r.loss_resistance_ohm;
   for (Eigen::Index e = 0; e < xs.size(); ++e) {
     if (!std::isnan(r.self_reactance_ohm[e])) continue;
-    z(e, e) = Complex(z(e, e).real(), nan);
+    if (!streamed) z(e, e) = Complex(z(e, e).real(), nan);
     r.circuit.terminal_voltage_v[e] = Complex(nan, nan);
     r.circuit.input_impedance_ohm[e] = Complex(nan, nan);
     r.active_impedance_ohm[e] = Complex(nan, nan);
@@ -188,7 +214,6 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
     r.reflection[e] = PowerWaveReflection(r.circuit.input_impedance_ohm[e], z0);
     r.vswr[e] = Vswr(r.reflection[e]);
   }
-  r.radiated_w = RadiatedPower(r.impedance_ohm.real(), i);  // Re Z = R (impedance.h)
   r.ohmic_w = 0.5 * (r.loss_resistance_ohm.array() * i.cwiseAbs2().array()).sum();
   r.supplied_w = r.circuit.supplied_w.sum();
   for (std::size_t m = 0; m < n; ++m) {

@@ -39,10 +39,15 @@ struct Wire {
 struct CouplingOptions {
   double reference_impedance_ohm = 50;  // Z0 for Gamma and VSWR, real, > 0
   int num_threads = 0;
-  // The impedance matrix is built whole (16 N^2 bytes) and the driven and loaded
-  // ports are solved by LU (O(N^3)); beyond this many dipoles SolveCoupling refuses
-  // rather than run out of memory or time.
+  // Up to this many dipoles the impedance matrix is built whole (16 N^2 bytes) and
+  // the driven and loaded ports are solved by LU (O(N^3)). Beyond it, unless
+  // force_matrix: a current-forced array (wires only) gets V = Z I, the active and
+  // input impedances and the power budget from rows summed one at a time (O(N^2)
+  // time, O(N) memory; CouplingResult::impedance_ohm is then empty), and an array
+  // with driven or loaded ports is refused (an iterative solve on streamed products
+  // is not implemented: near-resonant loads make Z_UU + Z_L ill-conditioned).
   std::size_t max_dipoles = 4096;
+  bool force_matrix = false;  // build the matrix whatever the size (asked for)
 };
 
 // Pairs of dipoles closer than their longer length: the point-dipole mutual
@@ -58,7 +63,8 @@ ClosePairs FindClosePairs(const Array& array);
 
 struct CouplingResult {
   // Z (CONVENTIONS §1: Re Z = R exactly), self reactances on the diagonal (NaN
-  // where unknown); the loss resistances are apart, the circuit adds them.
+  // where unknown); the loss resistances are apart, the circuit adds them. Empty
+  // (0 x 0) above CouplingOptions::max_dipoles without force_matrix.
   Eigen::MatrixXcd impedance_ohm;
   Eigen::VectorXd self_reactance_ohm;  // X_self per dipole (NaN where unknown)
   Eigen::VectorXd loss_resistance_ohm;

@@ -37,4 +37,16 @@ ScanImpedanceTable ScanImpedance(const Array& array, const Eigen::MatrixXcd& imp
                                  const std::vector<double>& phi_rad,
                                  const Eigen::VectorXcd& reference_impedance_ohm);
 
+// The same table without the N x N matrix, for arrays above
+// CouplingOptions::max_dipoles: each direction's Z I summed row by row
+// (RadiatedPowerStreamed, engine/power/power_large.h), O(S N^2) time and O(N)
+// memory. diagonal_ohm is what the circuit's Z adds on its diagonal beyond the
+// radiation terms: j X_self + R_loss per dipole (finite).
+ScanImpedanceTable ScanImpedanceStreamed(const Array& array, const Eigen::VectorXcd& diagonal_ohm,
+                                         const Eigen::VectorXcd& amplitudes,
+                                         const std::vector<double>& theta_rad,
+                                         const std::vector<double>& phi_rad,
+                                         const Eigen::VectorXcd& reference_impedance_ohm,
+                                         int num_threads = 0);
+
 }  // namespace lobecast

@@ -142,11 +142,12 @@ StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& 
   out.radiated_power_w = 0.5 * currents_a.dot(ri).real();  // dot conjugates the first
   out.term_magnitudes_w = 0.5 * currents_a.cwiseAbs().dot(ra);
   out.active_resistance_ohm.resize(n);
+  out.impedance_product_v.resize(n);
   for (Eigen::Index m = 0; m < n; ++m) {
     const Complex i = currents_a[m];
-    out.active_resistance_ohm[m] = i == Complex(0.0)
-                                       ? std::numeric_limits<double>::quiet_NaN()
-                                       : ((ri[m] + Complex(0.0, 1.0) * xi[m]) / i).real();
+    out.impedance_product_v[m] = ri[m] + Complex(0.0, 1.0) * xi[m];
+    out.active_resistance_ohm[m] = i == Complex(0.0) ? std::numeric_limits<double>::quiet_NaN()
+                                                     : (out.impedance_product_v[m] / i).real();
   }
   return out;
 }

@@ -28,6 +28,10 @@ struct StreamedPower {
   // Re Z_act,m (impedance.h); NaN where I_m = 0, or where a dipole at the same
   // point couples with no finite reactance.
   Eigen::VectorXd active_resistance_ohm;
+  // ((R + j X') I)_m (V): Z I with every self reactance left out (X'_mm = 0 in free
+  // space, m's own image over PEC), so V_m = this + j X_mm I_m for a known X_mm, and
+  // Z_act,m = V_m / I_m (impedance.h): the active impedance without the matrix.
+  Eigen::VectorXcd impedance_product_v;
 };
 
 // Throws InvalidArgument for an invalid array or currents (ValidateCurrents).

@@ -28,7 +28,8 @@ void WriteCoupling(PatternFileWriter& w, const CouplingResult& c, const std::vec
     w.WriteTable(std::string(d.path), dims, data, d.units);
   };
   // Eigen is column-major; Z is symmetric, so the row-major file layout is the same.
-  table(s::kImpedance, {n, n}, c.impedance_ohm.data());
+  // Above the coupling limit the impedances were streamed: no matrix to store.
+  if (c.impedance_ohm.size() > 0) table(s::kImpedance, {n, n}, c.impedance_ohm.data());
   table(s::kActiveImpedance, {n}, c.active_impedance_ohm.data());
 
   // Realized gain where the sources have an available power, else the gain.

@@ -3,7 +3,9 @@
 //
 //   /power/impedance_ohm        (N,N) complex ohm: Z (Re Z = /power/resistance_ohm),
 //                               self reactances on the diagonal (NaN imaginary part
-//                               where unknown); no loss resistance
+//                               where unknown); no loss resistance. Absent above
+//                               the coupling limit (4096 dipoles, current-forced
+//                               arrays: streamed) unless compute --resistance-matrix
 //   /power/active_impedance_ohm (N) complex ohm: sum_n Z_mn I_n / I_m (CONVENTIONS §1)
 //   /pattern/realized_gain      (Nt,Np) linear: 4 pi U / P_available, when every source
 //                               is a voltage source with resistance; otherwise

@@ -5,6 +5,7 @@
 #include <cstring>
 #include <filesystem>
 #include <fstream>
+#include <iterator>
 #include <map>
 #include <memory>
 #include <optional>
@@ -127,11 +128,13 @@ static void WalkGlobalHeaps(const std::string& path) {
   constexpr std::uint64_t kHeader = 16;  // collection header, and object header
   // Collection address -> (object index -> object size).
   std::map<std::uint64_t, std::map<std::uint64_t, std::uint64_t>> heaps;
+  std::map<std::uint64_t, std::uint64_t> collection_ends;  // start -> end
   ForEachOccurrence(path, kSignature, [&](std::uint64_t at) {
     unsigned char head[kHeader];
     if (!ReadAt(in, at, head, kHeader)) return;
     const std::uint64_t size = LittleEndian(head + 8, 8);
     if (size > file_size - at) return;  // HDF5 refuses a collection past the file's end
+    collection_ends[at] = at + size;
     auto& objects = heaps[at];
     std::uint64_t p = kHeader;
     while (p < size) {
@@ -156,6 +159,13 @@ static void WalkGlobalHeaps(const std::string& path) {
       p += need;
     }
   });
+  // A collection's own bytes hold no string references, but its object headers
+  // (index u16, references u16, 4 zero bytes) can spell a collection's address
+  // (index 0x0A00 beside a collection at 0x10A00): matches inside one are skipped.
+  auto inside_a_collection = [&](std::uint64_t at) {
+    auto next = collection_ends.upper_bound(at);
+    return next != collection_ends.begin() && at < std::prev(next)->second;
+  };
   for (const auto& heap : heaps) {
     // Not a structured binding: clang 14 cannot capture one in the lambda below.
     const std::uint64_t address = heap.first;
@@ -164,7 +174,7 @@ static void WalkGlobalHeaps(const std::string& path) {
     for (int k = 0; k < 8; ++k) needle[k] = static_cast<char>((address >> (8 * k)) & 0xff);
     ForEachOccurrence(path, std::string_view(needle, 8), [&](std::uint64_t at) {
       unsigned char ref[16];
-      if (at < 4 || !ReadAt(in, at - 4, ref, sizeof ref)) return;
+      if (at < 4 || inside_a_collection(at - 4) || !ReadAt(in, at - 4, ref, sizeof ref)) return;
       const std::uint64_t length = LittleEndian(ref, 4);
       const std::uint64_t index = LittleEndian(ref + 12, 4);
       // The address's 8 bytes also turn up in other structures (a collection at

@@ -48,8 +48,8 @@ struct ArrayDescription {
 
   // What drives each dipole (one per dipole): a forced current (its value is also in
   // `currents`), a voltage source behind an impedance, or a load; and each dipole's
-  // wire (radius, self reactance, conductivity; all optional). CSV rows are
-  // current-forced, with no wire.
+  // wire (radius, self reactance, conductivity; all optional); CSV rows as
+  // [[dipole]] tables (io/input/csv_dipoles.h: the port column).
   std::vector<Port> ports;
   std::vector<Wire> wires;
   double reference_impedance_ohm = 50;  // `reference_impedance`: Z0 for reflection and VSWR

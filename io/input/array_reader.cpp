@@ -534,11 +534,12 @@ class Reader : private TomlValues {
                        "phase)");
     }
     const std::size_t first = out.array.dipoles.size();
-    std::vector<CsvDipole> rows = ParseCsvDipoles(*text, path, scale_, first);
+    std::vector<CsvDipole> rows =
+        ParseCsvDipoles(*text, path, scale_, first, out.reference_impedance_ohm);
     for (std::size_t i = 0; i < rows.size(); ++i) {
       const std::string key = "dipole[" + std::to_string(first + i) + "]";
       out.array.dipoles.push_back(rows[i].dipole);
-      out.ports.push_back(Port{PortKind::kCurrent, rows[i].current_a, 0.0, 0.0});
+      out.ports.push_back(rows[i].port);
       out.wires.push_back(rows[i].wire);
       out.dipole_locations.push_back(rows[i].row);
       sites_.push_back(DipoleSite{rows[i].row, rows[i].z_cell, key + ".z", rows[i].length_cell,

@@ -10,6 +10,9 @@
 
 namespace lobecast {
 
-std::optional<CouplingResult> SolveArrayCircuit(ArrayDescription& desc, int num_threads);
+// force_matrix: CouplingOptions::force_matrix (the impedance matrix whatever the
+// size; compute --resistance-matrix).
+std::optional<CouplingResult> SolveArrayCircuit(ArrayDescription& desc, int num_threads,
+                                                bool force_matrix = false);
 
 }  // namespace lobecast

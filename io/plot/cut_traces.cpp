@@ -82,12 +82,24 @@ CutTraces MakeCutTraces(const StoredResult& r, const PatternAnalysis* analysis,
   CutTraces t;
   t.cut = ExtractCut(r, o.cut, analysis);
   if (analysis) t.labels = CutLabels(*analysis, o.cut);
+  if (analysis && o.quantity == Quantity::kRealizedGain) {
+    // The peak label keeps the report's number (the directivity) and adds the gain.
+    const PatternAnalysis& a = *analysis;
+    t.labels.front().text =
+        Format("peak realized gain %.2f dBi (directivity %.2f dBi) at theta %.2f°, phi %.2f°",
+               ToDb(a.peak.directivity * o.realized_gain_factor), a.peak.directivity_dbi,
+               a.peak.direction.theta_deg, a.peak.direction.phi_deg);
+  }
   t.reference = ResolveReference(r, o.reference);
   t.main = CutQuantity(r, o, t.reference);
   t.companion = CompanionOf(t.main);
   t.main_label = QuantityLabel(t.main, t.reference);
-  auto to_db = [](std::vector<double> v) {
-    for (double& x : v) x = ToDb(x);
+  // The realized gain is the directivity times P_rad / P_available (quantity.h),
+  // scaled before the dB conversion as the stored /pattern/realized_gain is.
+  const bool realized = t.main == Quantity::kRealizedGain;
+  const double scale = realized ? o.realized_gain_factor : 1.0;
+  auto to_db = [scale](std::vector<double> v) {
+    for (double& x : v) x = ToDb(x * scale);
     return v;
   };
   t.main_db = to_db(CutValues(r, t.cut, t.main, t.reference));
@@ -99,7 +111,7 @@ CutTraces MakeCutTraces(const StoredResult& r, const PatternAnalysis* analysis,
   for (double v : t.main_db) top = std::max(top, v);
   for (double v : t.companion_db) top = std::max(top, v);
   const double pattern_peak =
-      r.result.directivity.size() > 0 ? r.result.directivity.maxCoeff() : 0.0;
+      r.result.directivity.size() > 0 ? r.result.directivity.maxCoeff() * scale : 0.0;
   t.no_field = !(top > ToDb(kNoFieldInCutRatio * pattern_peak));
   if (t.no_field) {
     // Nothing to draw: no trace, and a scale just below the pattern's peak.
@@ -131,13 +143,16 @@ CutTraces MakeCutTraces(const StoredResult& r, const PatternAnalysis* analysis,
   }
   t.peak_db = t.main_db.empty() ? 0 : t.main_db[t.peak_index];
 
-  std::string what = t.main == Quantity::kDirectivity ? "Directivity" : "Partial directivity";
+  std::string what = t.main == Quantity::kDirectivity ? "Directivity"
+                     : realized ? "Realized gain 4 pi U / P_available (mismatch and losses "
+                                  "included)"
+                                : "Partial directivity";
   what += ", " + t.units;
   if (o.normalized)
     what += Format(t.no_field ? " relative to the pattern's peak (%.2f dBi)"
                               : " relative to the cut's peak (%.2f dBi)",
                    top);
-  what += ": " + t.main_label;
+  if (!realized) what += ": " + t.main_label;
   if (t.companion) what += " and " + QuantityLabel(*t.companion, t.reference);
   t.title_lines = {ArrayLine(r), what, "Cut: " + t.cut.spec.Describe()};
   return t;

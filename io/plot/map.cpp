@@ -92,7 +92,9 @@ MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PatternAnalysi
   const Quantity q = o.quantity.value_or(Quantity::kDirectivity);  // cuts: CutQuantity
   const PolarizationReference ref = ResolveReference(r, o.reference);
   std::vector<double> db = QuantityOnGrid(r, q, ref);
-  for (double& v : db) v = ToDb(v);
+  // The realized gain: the directivity times P_rad / P_available (quantity.h).
+  const double scale = q == Quantity::kRealizedGain ? o.realized_gain_factor : 1.0;
+  for (double& v : db) v = ToDb(v * scale);
   double peak = -std::numeric_limits<double>::infinity();
   for (double v : db) peak = std::max(peak, v);
   if (!std::isfinite(peak)) peak = 0;
@@ -107,9 +109,12 @@ MapGeometry DrawMap(const Canvas& c, const StoredResult& r, const PatternAnalysi
   for (double& v : clamped) v = std::clamp(std::isnan(v) ? g.db_floor : v, g.db_floor, g.db_top);
 
   const std::string units = o.normalized ? "dB" : "dBi";
-  std::string what =
-      std::string(q == Quantity::kDirectivity ? "Directivity" : "Partial directivity") + ", " +
-      units + (q == Quantity::kDirectivity ? "" : ": " + QuantityLabel(q, ref));
+  const bool partial = q != Quantity::kDirectivity && q != Quantity::kRealizedGain;
+  std::string what = std::string(q == Quantity::kDirectivity ? "Directivity"
+                                 : partial                   ? "Partial directivity"
+                                           : "Realized gain 4 pi U / P_available (mismatch and "
+                                             "losses included)") +
+                     ", " + units + (partial ? ": " + QuantityLabel(q, ref) : "");
   if (o.normalized) what += Format(" relative to the peak (%.2f dBi)", peak);
   what += Format("; contours every %g dB, red -3 dB", o.contour_step_db);
   if (analysis) what += "; × null loci of the analysis";

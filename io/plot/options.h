@@ -32,6 +32,9 @@ struct PlotOptions {
   // Unset: for cuts co/cross or E_theta/E_phi (see CutQuantity in
   // plot_cut_traces.h), for maps total directivity.
   std::optional<Quantity> quantity;
+  // For Quantity::kRealizedGain: P_rad / P_available from the result's /coupling
+  // (the realized gain is the directivity times it); unused otherwise.
+  double realized_gain_factor = 0;
   ReferenceChoice reference;  // for co/cross; auto by default
   // The lowest level shown, dB below the plotted peak. 40 dB keeps side lobes
   // of ordinary tapers in view without letting nulls flatten the scale.

@@ -20,14 +20,16 @@ std::string_view ToString(Quantity q) {
       return "theta";
     case Quantity::kPhi:
       return "phi";
+    case Quantity::kRealizedGain:
+      return "realized-gain";
   }
   return "?";
 }
 
 std::optional<Quantity> QuantityFromString(std::string_view s) {
   const std::string l = Lower(s);
-  for (Quantity q :
-       {Quantity::kDirectivity, Quantity::kCo, Quantity::kCross, Quantity::kTheta, Quantity::kPhi})
+  for (Quantity q : {Quantity::kDirectivity, Quantity::kCo, Quantity::kCross, Quantity::kTheta,
+                     Quantity::kPhi, Quantity::kRealizedGain})
     if (l == ToString(q)) return q;
   return std::nullopt;
 }
@@ -43,6 +45,7 @@ std::optional<Quantity> CompanionOf(Quantity q) {
     case Quantity::kPhi:
       return Quantity::kTheta;
     case Quantity::kDirectivity:
+    case Quantity::kRealizedGain:
       break;
   }
   return std::nullopt;
@@ -66,7 +69,7 @@ double QuantityAt(const StoredResult& r, std::size_t k, Quantity q, Polarization
 
 double QuantityOf(double d, Complex et, Complex ep, double phi_rad, Quantity q,
                   PolarizationReference ref, double floor_v) {
-  if (q == Quantity::kDirectivity) return d;
+  if (q == Quantity::kDirectivity || q == Quantity::kRealizedGain) return d;  // see quantity.h
   const double total = std::norm(et) + std::norm(ep);
   if (!(total > 0)) return 0.0;
   double part = 0;
@@ -116,6 +119,8 @@ std::string QuantityLabel(Quantity q, PolarizationReference ref) {
   switch (q) {
     case Quantity::kDirectivity:
       return "directivity";
+    case Quantity::kRealizedGain:
+      return "realized gain";
     case Quantity::kCo:
       return "co-pol (" + ref_text + ")";
     case Quantity::kCross:

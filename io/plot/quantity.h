@@ -19,8 +19,13 @@
 
 namespace lobecast::plot {
 
-enum class Quantity { kDirectivity, kCo, kCross, kTheta, kPhi };
-std::string_view ToString(Quantity q);  // "directivity", "co", "cross", "theta", "phi"
+// kRealizedGain: 4 pi U / P_available (/pattern/realized_gain of a result with voltage
+// sources, coupling.h), i.e. the directivity times P_rad / P_available
+// (PlotOptions::realized_gain_factor): QuantityOf gives the directivity, and the cut
+// and the map multiply by the factor.
+enum class Quantity { kDirectivity, kCo, kCross, kTheta, kPhi, kRealizedGain };
+// "directivity", "co", "cross", "theta", "phi", "realized-gain"
+std::string_view ToString(Quantity q);
 // Case-insensitive; std::nullopt for an unknown name.
 std::optional<Quantity> QuantityFromString(std::string_view s);
 // The component a trace is drawn against: co <-> cross, theta <-> phi;
