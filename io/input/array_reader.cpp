@@ -7,6 +7,7 @@
 #include <initializer_list>
 #include <limits>
 #include <optional>
+#include <set>
 #include <string_view>
 #include <utility>
 #include <vector>
@@ -28,6 +29,8 @@ namespace {
 // Grids beyond this many directions are almost certainly a mistyped step; they would
 // need gigabytes before the first field value.
 constexpr double kMaxDirections = 1e8;
+// The most frequencies of a sweep (a list or a count): each is a whole job.
+constexpr std::size_t kMaxFrequencies = 100000;
 
 struct DipoleSite {
   SourceLocation where;     // table header or CSV row
@@ -183,6 +186,10 @@ class Reader : private TomlValues {
         throw InputError(At(n), "frequencies", "an empty list",
                          "at least one frequency, e.g. [\"9.5 GHz\", \"10 GHz\"]");
       }
+      if (a->size() > kMaxFrequencies) {
+        throw InputError(At(n), "frequencies", std::to_string(a->size()) + " frequencies",
+                         "at most " + std::to_string(kMaxFrequencies));
+      }
       for (std::size_t i = 0; i < a->size(); ++i) {
         list.push_back(FrequencyValue(*a->get(i), "frequencies[" + std::to_string(i) + "]"));
         where.push_back(a->get(i));
@@ -199,8 +206,9 @@ class Reader : private TomlValues {
       const double stop = FrequencyValue(*t->get("stop"), "frequencies.stop");
       const toml::node& c = *t->get("count");
       const auto* ci = c.as_integer();
-      if (!ci || ci->get() < 1 || ci->get() > 100000) {
-        throw InputError(At(c), "frequencies.count", Describe(c), "a whole number in [1, 100000]");
+      if (!ci || ci->get() < 1 || ci->get() > static_cast<std::int64_t>(kMaxFrequencies)) {
+        throw InputError(At(c), "frequencies.count", Describe(c),
+                         "a whole number in [1, " + std::to_string(kMaxFrequencies) + "]");
       }
       const auto count = static_cast<std::size_t>(ci->get());
       if (count > 1 && !(stop > start)) {
@@ -224,18 +232,26 @@ class Reader : private TomlValues {
                        "a list of frequencies, e.g. [\"9.5 GHz\", \"10 GHz\"], or "
                        "{ start = <f>, stop = <f>, count = <n> }");
     }
+    // Within 1e-9 relative: the same frequency typed twice (9.5 GHz and 9500 MHz). The
+    // first frequency that repeats an earlier one is named; the earlier ones are kept
+    // sorted, so 100000 frequencies cost O(n log n), not 5e9 comparisons.
+    std::multiset<double> earlier;
     for (std::size_t i = 0; i < list.size(); ++i) {
-      for (std::size_t j = 0; j < i; ++j) {
-        // Within 1e-9 relative: the same frequency typed twice (9.5 GHz and 9500 MHz).
-        if (std::abs(list[i] - list[j]) <= 1e-9 * list[j]) {
+      // |f_i - f_j| <= 1e-9 f_j puts f_j in [f_i / (1 + 1e-9), f_i / (1 - 1e-9)]; the
+      // search starts a little below that and tests each candidate exactly.
+      for (auto j = earlier.lower_bound(list[i] / (1.0 + 1e-9) * (1.0 - 1e-12));
+           j != earlier.end() && *j <= list[i] / (1.0 - 1e-9) * (1.0 + 1e-12); ++j) {
+        if (std::abs(list[i] - *j) <= 1e-9 * *j) {
           throw InputError(At(*where[i]), "frequencies", FormatNumber(list[i]) + " Hz twice",
                            "distinct frequencies (the first is the design frequency)");
         }
       }
+      earlier.insert(list[i]);
     }
     out.frequencies_hz = list;
     out.array.frequency_hz = list.front();
     frequency_at_ = At(*where.front());
+    frequencies_at_ = At(n);
   }
 
   void ReadGround(const toml::table& root, Array& array) const {
@@ -300,7 +316,7 @@ class Reader : private TomlValues {
     return r;
   }
 
-  void ReadGrid(const toml::table& root, ArrayDescription& out) const {
+  void ReadGrid(const toml::table& root, ArrayDescription& out) {
     out.theta = AngleRange{0.0, 180.0, 1.0};
     out.phi = AngleRange{0.0, 360.0, 1.0};
     if (const toml::node* g = root.get("grid")) {
@@ -320,6 +336,17 @@ class Reader : private TomlValues {
       }
     }
     out.grid = AngularGrid::FromRanges(out.theta, out.phi);
+    // A sweep keeps the directivity of every direction at every frequency.
+    const double stored =
+        static_cast<double>(out.frequencies_hz.size()) * static_cast<double>(out.grid.size());
+    if (stored > kMaxDirections) {
+      throw InputError(frequencies_at_, "frequencies",
+                       std::to_string(out.frequencies_hz.size()) + " frequencies x " +
+                           std::to_string(out.grid.size()) + " directions",
+                       "at most " + FormatNumber(kMaxDirections) +
+                           " directions over all frequencies (fewer frequencies or a coarser "
+                           "grid)");
+    }
   }
 
   // The generated elements of a design, current-forced, ahead of the explicit ones.
@@ -523,7 +550,7 @@ class Reader : private TomlValues {
     if (p.is_relative() && !base_dir_.empty()) p = std::filesystem::path(base_dir_) / p;
     const std::string path = p.lexically_normal().string();
     std::string why;
-    auto text = ReadTextFile(path, &why);
+    auto text = ReadTextFile(path, &why, kMaxCsvBytes);
     if (!text) {
       throw InputError(At(n), "dipoles_csv", Quoted(name) + " (" + path + ": " + why + ")",
                        "a readable CSV file, relative to the TOML file's directory");
@@ -649,6 +676,7 @@ class Reader : private TomlValues {
   std::string base_dir_;
   double scale_ = 1.0;  // metres per length_unit
   SourceLocation frequency_at_;
+  SourceLocation frequencies_at_;  // the key of a sweep
   std::vector<DipoleSite> sites_;
 };
 
