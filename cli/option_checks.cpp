@@ -186,6 +186,10 @@ CLI::Validator ExistingInput(const std::string& what) {
         if (std::filesystem::is_directory(status)) {
           return "found " + Quoted(path) + ", a folder; expected " + what;
         }
+        if (!std::filesystem::is_regular_file(status)) {  // /dev/zero, a pipe: never ends
+          return "found " + Quoted(path) + ", not a regular file (a device, pipe or socket); " +
+                 "expected " + what;
+        }
         return "";
       },
       "FILE", "ExistingInput");

@@ -7,6 +7,7 @@
 #include <cmath>
 #include <cstdarg>
 #include <cstdio>
+#include <functional>
 #include <limits>
 
 #include <omp.h>
@@ -19,6 +20,7 @@
 #include "engine/power/power_quadrature.h"
 #include "engine/power/radiated_power.h"
 #include "engine/rounding_floor.h"
+#include "engine/run_estimate.h"
 #include "engine/text_case.h"
 
 namespace lobecast {
@@ -199,6 +201,19 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   s.threads_used = ResolveThreads(options.field.num_threads);
   s.num_dipoles = array.size();
 
+  // One progress bar over the power and the field, each its share of the run's
+  // estimated time (the O(N^2) power of a large array stalled the bar at 0).
+  double power_share = 0.0;
+  if (options.progress) {
+    const RunEstimate estimate =
+        EstimateRun(RunSize{array.size(), array.ground, grid.size(), options.field.method, false,
+                            options.field.num_threads});
+    if (estimate.seconds() > 0.0) power_share = estimate.power_seconds / estimate.seconds();
+  }
+  const std::function<void(double)> power_progress = [&](double x) {
+    if (options.progress) options.progress(power_share * x);
+  };
+
   auto t0 = Clock::now();
   PowerQuadratureOptions quadrature = options.power_quadrature;
   quadrature.num_threads = options.field.num_threads;
@@ -228,10 +243,12 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
     // The active resistances need the mutual reactances too: summed row by row
     // (O(N) memory) rather than from a second, complex N x N matrix.
     r.active_resistance_ohm =
-        RadiatedPowerStreamed(array, currents, options.field.num_threads).active_resistance_ohm;
+        RadiatedPowerStreamed(array, currents, options.field.num_threads, power_progress)
+            .active_resistance_ohm;
     s.power_route = PowerRoute::kMatrix;
   } else {
-    const StreamedPower sp = RadiatedPowerStreamed(array, currents, options.field.num_threads);
+    const StreamedPower sp =
+        RadiatedPowerStreamed(array, currents, options.field.num_threads, power_progress);
     r.radiated_power_w = sp.radiated_power_w;
     s.power_significant_digits = PowerSignificantDigits(sp.radiated_power_w, sp.term_magnitudes_w);
     r.active_resistance_ohm = sp.active_resistance_ohm;
@@ -239,6 +256,7 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   }
   s.radiated_power_w = r.radiated_power_w;
   s.seconds_power = SecondsSince(t0);
+  power_progress(1.0);
   CheckRadiatedPower(r.radiated_power_w);
 
   // The grid is planned and computed in blocks of whole theta rows, so the plan's
@@ -290,7 +308,9 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
       r.field.e_theta.segment(at, len) = part.e_theta;
       r.field.e_phi.segment(at, len) = part.e_phi;
       if (options.progress) {
-        options.progress(static_cast<double>(offset + first + count) / static_cast<double>(n));
+        options.progress(power_share + (1.0 - power_share) *
+                                           static_cast<double>(offset + first + count) /
+                                           static_cast<double>(n));
       }
     }
     s.seconds_field += SecondsSince(tb);

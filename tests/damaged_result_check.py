@@ -11,7 +11,9 @@ endfire-pair.toml on a 30 deg grid (7 x 13 directions):
     global heap's free space zeroed (HDF5 1.10 spun forever), a string's length
     past its heap object (ran away), a string naming a heap object that is not
     there, a complex member's offset past the compound (segfault in the
-    conversion), a string that is not UTF-8 (cairo refused it, exit 1);
+    conversion), a string that is not UTF-8 (cairo refused it, exit 1), an
+    attribute message whose name, datatype or dataspace claims more than the
+    message (HDF5 copied the value from past it: a heap overflow);
   - a sweep: one byte inverted at every --stride-th position, two bytes zeroed at
     every --stride-th position (offset by half a stride) and the file truncated at
     every 8 * --stride-th; every command must exit 0 (damage in the data itself
@@ -79,9 +81,12 @@ for name, cmd in commands(good).items():
     check(rc == 0, f"{name} of the undamaged result: exit {rc} {err}")
 
 
-def expect_refused(path, what, *needles):
-    """Every command exits 2 with 'not a valid lobecast result' and the needles."""
+def expect_refused(path, what, *needles, only=None):
+    """Every command (or those in `only`) exits 2 with 'not a valid lobecast result'
+    and the needles."""
     for name, cmd in commands(path).items():
+        if only and name not in only:
+            continue
         rc, err = run(cmd)
         ok = rc == 2 and "not a valid lobecast result" in err and all(n in err for n in needles)
         check(ok, f"{what}: {name} exit {rc}, expected 2 naming {needles}: {err.strip()}")
@@ -129,6 +134,15 @@ expect_refused(edited("zero-orientation", lambda h: set_value(h, "array/orientat
                "zero orientation", "/array/orientation")
 expect_refused(edited("sense-5", lambda h: set_value(h, "polarization/sense", (1, 1), 5)),
                "a sense of 5", "/polarization/sense")
+
+# Counts read back from the file (issue 12: a stored max_nulls of -1 became 2^64 - 1).
+expect_refused(edited("max-nulls-negative",
+                      lambda h: h["summary/analysis"].attrs.modify("max_nulls", np.int64(-1))),
+               "max_nulls -1", "max_nulls", "[0, 1000000000]",
+               only=("report", "plot"))  # export does not read the stored analysis
+expect_refused(edited("directions-negative",
+                      lambda h: h["summary"].attrs.modify("num_directions", np.int64(-1))),
+               "num_directions -1", "num_directions", "[0, 1000000000]")
 
 
 # --- structures HDF5 trusts ------------------------------------------------------------
@@ -189,6 +203,20 @@ index = next(k for k, (p, s) in objects.items() if original[p + 16:p + 16 + s] =
 d = bytearray(original)
 d[objects[index][0] + 16] = 0xFF
 expect_refused(damaged("name-not-utf8", d), "a name that is not UTF-8", "not UTF-8", "\\xff")
+
+# Attribute messages whose parts claim more than the message holds (issue 12: HDF5
+# 1.10.8 copied the value from past the message, a heap overflow under
+# AddressSanitizer from H5Aexists; found by this sweep at byte 41071, the dataspace
+# size of the analysis option `reference`). Each attribute message starts (HDF5 File
+# Format Specification 2.0, IV.A.2.m, version 1) version, reserved, name size,
+# datatype size, dataspace size (u16 each), then the name.
+attribute = original.find(b"\x01\x00\x0a\x00\x14\x00\x08\x00reference\x00")
+check(attribute > 0, "the result has the attribute message of `reference`")
+for part, offset in (("name", 2), ("datatype", 4), ("dataspace", 6)):
+    d = bytearray(original)
+    d[attribute + offset + 1] = 0xFF  # the size's most significant byte
+    expect_refused(damaged(f"attribute-{part}-size", d), f"an attribute's {part} past its message",
+                   "damaged attribute message")
 
 # --- the sweep ------------------------------------------------------------------------
 runs = 0

@@ -181,6 +181,26 @@ TEST(Pattern, ProgressIsMonotoneWithinZeroToOne) {
   }
 }
 
+TEST(Pattern, PowerStageReportsProgress) {
+  // The O(N^2) power of a large array ran before the first progress call: the bar
+  // stalled at 0. Streamed rows (no matrix) report between slabs of 64 rows.
+  TestRng rng(86);
+  const testing::TestArray a = testing::RandomArray(rng, 300, Ground::kNone);
+  std::vector<double> seen;
+  PatternOptions o;
+  o.resistance_matrix_max_dipoles = 0;  // the streamed route
+  o.progress = [&](double x) { seen.push_back(x); };
+  const PatternResult r =
+      ComputePattern(a, a.currents, AngularGrid::FromRanges({0, 180, 10}, {0, 350, 10}), o);
+  ASSERT_EQ(r.summary.power_route, PowerRoute::kStreamed);
+  // 300 rows in slabs of 64: 5 calls, then the power's end, then the field's.
+  ASSERT_GE(seen.size(), 7u);
+  EXPECT_GT(seen[0], 0.0);
+  for (std::size_t i = 1; i < 5; ++i) EXPECT_GT(seen[i], seen[i - 1]);
+  EXPECT_LT(seen[4], 1.0);
+  EXPECT_EQ(seen.back(), 1.0);
+}
+
 TEST(Pattern, RejectsArraysThatRadiateNothing) {
   TestRng rng(85);
   testing::TestArray a = testing::RandomArray(rng, 3, Ground::kNone);

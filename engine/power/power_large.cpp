@@ -74,9 +74,11 @@ RowSums RowFar(const Sources& s, const Dipole& m, double k) {
 // R I, (with_reactance) X' I and sum_s |R_ms| |I_s| (the rounding scale of R I),
 // row by row; the rows run over the sources in a fixed order, so the result does
 // not depend on the thread count.
+// The rows run in slabs of about 1/256 of them, each slab in parallel, so that
+// `progress` (when given) is called between slabs on the calling thread only.
 void StreamRows(const Array& array, const Eigen::VectorXcd& currents_a, int num_threads,
                 bool with_reactance, Eigen::VectorXcd& ri, Eigen::VectorXcd& xi,
-                Eigen::VectorXd& ra) {
+                Eigen::VectorXd& ra, const std::function<void(double)>& progress = {}) {
   const double k = array.wavenumber_rad_m();
   const std::vector<Dipole> src = RadiatingSources(array);  // images after the dipoles
   Sources s;
@@ -97,46 +99,52 @@ void StreamRows(const Array& array, const Eigen::VectorXcd& currents_a, int num_
   ra.resize(n);
   const bool pec = array.ground == Ground::kPec;
   const int threads = ResolveThreads(num_threads);
+  const std::ptrdiff_t slab =
+      progress ? std::max<std::ptrdiff_t>(64, (n + 255) / 256) : std::max<std::ptrdiff_t>(n, 1);
+  for (std::ptrdiff_t first = 0; first < n; first += slab) {
+    const std::ptrdiff_t last = std::min(n, first + slab);
 #pragma omp parallel for num_threads(threads) schedule(dynamic, 8)
-  for (std::ptrdiff_t m = 0; m < n; ++m) {
-    const Dipole& dm = array.dipoles[static_cast<std::size_t>(m)];
-    RowSums row = RowFar(s, dm, k);
-    // Near pairs (x < 2) through the series, in source order. The self term adds
-    // R_mm only (the active resistance does not need X_mm); a source without
-    // current couples nothing (and may have no finite X_mn, impedance.h).
-    const std::size_t self = static_cast<std::size_t>(m);
-    const std::size_t own_image = ImageIndexOf(self, array.size());
-    const bool image_near = pec && 2.0 * k * dm.position_m.z() < kKernelSeriesBelow;
-    for (std::size_t j = 0; j < src.size(); ++j) {
-      const double x = k * (dm.position_m - src[j].position_m).norm();
-      if (x >= kKernelSeriesBelow) continue;
-      const Complex c(s.ir[j], s.ii[j]);
-      // The own image's resistance is part of the self term (no cancellation).
-      if (!(image_near && j == own_image)) {
-        const double rr = image_near && j == self ? SelfResistanceOverGround(dm, k) / scale
-                                                  : MutualResistance(dm, src[j], k) / scale;
-        row.r_i += rr * c;
-        row.r_abs += std::abs(rr) * s.ia[j];
+    for (std::ptrdiff_t m = first; m < last; ++m) {
+      const Dipole& dm = array.dipoles[static_cast<std::size_t>(m)];
+      RowSums row = RowFar(s, dm, k);
+      // Near pairs (x < 2) through the series, in source order. The self term adds
+      // R_mm only (the active resistance does not need X_mm); a source without
+      // current couples nothing (and may have no finite X_mn, impedance.h).
+      const std::size_t self = static_cast<std::size_t>(m);
+      const std::size_t own_image = ImageIndexOf(self, array.size());
+      const bool image_near = pec && 2.0 * k * dm.position_m.z() < kKernelSeriesBelow;
+      for (std::size_t j = 0; j < src.size(); ++j) {
+        const double x = k * (dm.position_m - src[j].position_m).norm();
+        if (x >= kKernelSeriesBelow) continue;
+        const Complex c(s.ir[j], s.ii[j]);
+        // The own image's resistance is part of the self term (no cancellation).
+        if (!(image_near && j == own_image)) {
+          const double rr = image_near && j == self ? SelfResistanceOverGround(dm, k) / scale
+                                                    : MutualResistance(dm, src[j], k) / scale;
+          row.r_i += rr * c;
+          row.r_abs += std::abs(rr) * s.ia[j];
+        }
+        if (!with_reactance || j == self || c == Complex(0.0)) continue;
+        row.x_i += MutualImpedance(dm, src[j], k).imag() / scale * c;
       }
-      if (!with_reactance || j == self || c == Complex(0.0)) continue;
-      row.x_i += MutualImpedance(dm, src[j], k).imag() / scale * c;
+      ri[m] = scale * row.r_i;
+      xi[m] = scale * row.x_i;
+      ra[m] = scale * row.r_abs;
     }
-    ri[m] = scale * row.r_i;
-    xi[m] = scale * row.x_i;
-    ra[m] = scale * row.r_abs;
+    if (progress) progress(static_cast<double>(last) / static_cast<double>(n));
   }
 }
 
 }  // namespace
 
 StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
-                                    int num_threads) {
+                                    int num_threads, const std::function<void(double)>& progress) {
   Validate(array);
   ValidateCurrents(array, currents_a);
   const auto n = static_cast<Eigen::Index>(array.size());
   Eigen::VectorXcd ri, xi;  // R I and X' I
   Eigen::VectorXd ra;       // sum_s |R_ms| |I_s|
-  StreamRows(array, currents_a, num_threads, true, ri, xi, ra);
+  StreamRows(array, currents_a, num_threads, true, ri, xi, ra, progress);
   StreamedPower out;
   // P from R alone: I^H X' I is real, so j I^H X' I adds only rounding to Re.
   out.radiated_power_w = 0.5 * currents_a.dot(ri).real();  // dot conjugates the first

@@ -14,6 +14,8 @@
 // takes SelfResistanceOverGround (no cancellation between the two).
 #pragma once
 
+#include <functional>
+
 #include <Eigen/Core>
 
 #include "engine/types.h"
@@ -36,8 +38,11 @@ struct StreamedPower {
 
 // Throws InvalidArgument for an invalid array or currents (ValidateCurrents).
 // num_threads: 0 uses the OpenMP default.
+// progress (optional) is called on the calling thread with the fraction of rows
+// summed, rising to 1, a few hundred times at most.
 StreamedPower RadiatedPowerStreamed(const Array& array, const Eigen::VectorXcd& currents_a,
-                                    int num_threads = 0);
+                                    int num_threads = 0,
+                                    const std::function<void(double)>& progress = {});
 
 // R x (ohm times the units of x) row by row, the same sums as RadiatedPowerStreamed
 // without the reactances: for iterative solvers on R (engine/synthesis) where the

@@ -1,6 +1,7 @@
 #include "io/hdf5/analysis_reader.h"
 
 #include <cstdint>
+#include <limits>
 #include <string>
 #include <vector>
 
@@ -8,11 +9,13 @@
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/hdf5_file.h"
 #include "io/hdf5/schema.h"
+#include "io/hdf5/untrusted_file.h"
 
 namespace lobecast {
 namespace {
 
 using hdf5::Handle;
+using hdf5::kMaxStoredCount;
 using schema::Field;
 
 // A (count, columns) table, or no rows when count is 0 (such tables are not written).
@@ -47,8 +50,14 @@ class FileVisitor {
     v = row_ ? row_[column_++] : hdf5::ReadDoubleAttribute(g_, Require(f));
   }
   void Value(const Field& f, bool& v) { v = row_ ? row_[column_++] != 0.0 : Int(f) != 0; }
-  void Value(const Field& f, int& v) { v = static_cast<int>(Int(f)); }
-  void Value(const Field& f, std::size_t& v) { v = static_cast<std::size_t>(Int(f)); }
+  void Value(const Field& f, int& v) {
+    v = static_cast<int>(
+        Bounded(f, std::numeric_limits<int>::min(), std::numeric_limits<int>::max()));
+  }
+  // Counts (max_nulls, field_evaluations): a damaged -1 would become 2^64 - 1.
+  void Value(const Field& f, std::size_t& v) {
+    v = static_cast<std::size_t>(Bounded(f, 0, kMaxStoredCount));
+  }
   void Value(const Field& f, DirectionDeg& d) {
     Value(Field{schema::ThetaName(f.name), f.unit}, d.theta_deg);
     Value(Field{schema::PhiName(f.name), f.unit}, d.phi_deg);
@@ -95,7 +104,8 @@ class FileVisitor {
   }
   template <typename T, typename Body>
   void List(const schema::ListSpec& l, std::vector<T>& items, bool* truncated, Body&& body) {
-    const std::int64_t count = Int(Field{schema::CountAttribute(l.name), "1"});
+    const std::int64_t count =
+        Bounded(Field{schema::CountAttribute(l.name), "1"}, 0, kMaxStoredCount);
     if (truncated) Value(Field{l.truncated, "1"}, *truncated);
     const std::size_t columns = schema::ColumnsOf<T>(body).size();
     const std::vector<double> t =
@@ -112,6 +122,15 @@ class FileVisitor {
   }
 
   std::int64_t Int(const Field& f) { return hdf5::ReadIntAttribute(g_, Require(f)); }
+  std::int64_t Bounded(const Field& f, std::int64_t low, std::int64_t high) {
+    const std::int64_t v = Int(f);
+    if (v < low || v > high) {
+      hdf5::Invalid(file_path_, "attribute " + std::string(f.name) + " of '" + name_ + "' is " +
+                                    std::to_string(v) + ", expected a whole number in [" +
+                                    std::to_string(low) + ", " + std::to_string(high) + "]");
+    }
+    return v;
+  }
   std::string Text(const Field& f) { return hdf5::ReadStringAttribute(g_, Require(f)); }
 
  private:

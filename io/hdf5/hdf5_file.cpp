@@ -251,6 +251,12 @@ Handle OpenFileReadOnly(const std::string& path) {
                   ec && ec != std::errc::no_such_file_or_directory ? ec.message() : "no such file");
   }
   if (std::filesystem::is_directory(path, ec)) throw IoError(path, "is a directory, not a file");
+  if (!std::filesystem::is_regular_file(path, ec)) {
+    // A device or a pipe: reading it would never end (or wait for a writer).
+    throw NotAResultError(path,
+                          "not a regular file (a device, pipe or socket), so not a "
+                          "lobecast result file");
+  }
   {
     // A file the system will not let us read is a failure to run (exit 1), not bad
     // input; whatever HDF5 cannot open beyond that is not a complete result.
@@ -274,6 +280,7 @@ Handle OpenFileReadOnly(const std::string& path) {
                                     (cause.empty() ? std::string("damaged") : cause) +
                                     "; an interrupted copy or a file still being written?)");
   }
+  CheckObjectHeaders(file, path);
   return file;
 }
 

@@ -3,12 +3,14 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdio>
+#include <limits>
 #include <type_traits>
 
 #include "engine/rounding_floor.h"
 #include "io/echo_text.h"
 #include "io/hdf5/hdf5_file.h"
 #include "io/hdf5/schema.h"
+#include "io/hdf5/untrusted_file.h"
 
 namespace lobecast {
 namespace {
@@ -181,7 +183,19 @@ struct SummaryReader {
   template <typename Int>
   requires std::is_integral_v<Int>
   void Value(const schema::Field& f, Int& v) {
-    if (Has(f)) v = static_cast<Int>(hdf5::ReadIntAttribute(g, S(f.name)));
+    if (!Has(f)) return;
+    // A damaged -1 must not become 2^64 - 1 (threads_used, num_directions, ...).
+    const std::int64_t value = hdf5::ReadIntAttribute(g, S(f.name));
+    const std::int64_t high = static_cast<std::uint64_t>(std::numeric_limits<Int>::max()) <
+                                      static_cast<std::uint64_t>(hdf5::kMaxStoredCount)
+                                  ? static_cast<std::int64_t>(std::numeric_limits<Int>::max())
+                                  : hdf5::kMaxStoredCount;
+    if (value < 0 || value > high) {
+      hdf5::Invalid(path, S(schema::kSummaryGroup) + " attribute " + S(f.name) + " is " +
+                              std::to_string(value) + ", expected a whole number in [0, " +
+                              std::to_string(high) + "]");
+    }
+    v = static_cast<Int>(value);
   }
   void Value(const schema::Field& f, FieldMethod& v) { Enum(f, FieldMethodFromString, v); }
   void Value(const schema::Field& f, PowerRoute& v) { Enum(f, PowerRouteFromString, v); }

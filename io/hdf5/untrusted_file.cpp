@@ -88,6 +88,31 @@ static void WalkGlobalHeaps(const std::string& path);
 // every collection is walked the same way here, and every reference to one must
 // name an object that exists and holds its length. Addresses and lengths are
 // 8 bytes in every file lobecast writes (the superblock says so; checked).
+//
+// The collections are walked exactly. The references are found by a heuristic:
+// the file is not parsed down to every variable-length value, but searched for
+// each collection's 8-byte address, and the 4 bytes before and after each match
+// are taken for a reference's length and index. So, precisely:
+//  - caught: a reference whose address is intact and whose length is larger than
+//    the object its index names (the run-away read); a reference whose address and
+//    length are intact and whose index names no object of the collection (the
+//    segfault), when the length equals the size of some object of that collection
+//    (an undamaged length always does);
+//  - not caught, and harmless to HDF5: a damaged address (HDF5 finds no "GCOL"
+//    signature there and fails cleanly); an index damaged to another object that
+//    holds at least the length (a wrong string, read within bounds);
+//  - not caught, possibly harmful: a reference whose index and length are both
+//    damaged so that the length matches no object of the collection (the index
+//    check is skipped); and matches of an index past 16 bits, 0, or a length of 0,
+//    which are never taken for references;
+//  - false alarms: the address's 8 bytes inside other data (a chunk of doubles),
+//    followed by bytes that read as an index <= 0xFFFF with a length too large, or
+//    naming a missing object with a length some object has, refuse a valid file.
+//    Matches inside a collection's own bytes are skipped (its object headers once
+//    spelled an address in a 4000-dipole coupled result); no other false alarm has
+//    been seen in lobecast's results (the tests compute every sample).
+// An exact check would read each variable-length value where its attribute
+// (object_headers.cpp walks them) or dataset storage holds it.
 void CheckGlobalHeaps(const std::string& path) {
   // report, export and plot open one file up to three times: the last file walked
   // is remembered (path, size, modification time) and not walked again.

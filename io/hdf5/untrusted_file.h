@@ -5,6 +5,7 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <string>
 
 #include <hdf5.h>
@@ -20,6 +21,16 @@ namespace lobecast::hdf5 {
 // every variable-length string's reference into them (see the .cpp); Invalid when
 // one would make the library spin or read past an object.
 void CheckGlobalHeaps(const std::string& path);
+
+// Walks the object header of every object `file` links to (object_headers.cpp) and
+// checks that its dataspace, datatype and attribute messages fit where they claim
+// to be; Invalid when one would make HDF5 read past a message.
+void CheckObjectHeaders(hid_t file, const std::string& path);
+
+// The largest count or index a result file may store (max_nulls, list lengths,
+// numbers of dipoles and directions): far above any run lobecast can make, far
+// below what would overflow when it is multiplied or converted.
+inline constexpr std::int64_t kMaxStoredCount = 1'000'000'000;
 
 // What a dataset or attribute must hold before HDF5 converts it to ours.
 enum class Stored { kReal, kInteger, kComplex, kString };

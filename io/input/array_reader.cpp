@@ -18,16 +18,13 @@
 #include "io/input/csv_dipoles.h"
 #include "io/input/design_reader.h"
 #include "io/input/excitation_synthesis.h"
+#include "io/input/frequency_grid_reader.h"
 #include "io/input/text_file.h"
 #include "io/input/toml_values.h"
 #include "io/input/units.h"
 
 namespace lobecast {
 namespace {
-
-// Grids beyond this many directions are almost certainly a mistyped step; they would
-// need gigabytes before the first field value.
-constexpr double kMaxDirections = 1e8;
 
 struct DipoleSite {
   SourceLocation where;     // table header or CSV row
@@ -37,10 +34,11 @@ struct DipoleSite {
   std::string length_key;
 };
 
-class Reader : private TomlValues {
+// The frequencies and the grid are read by the base (frequency_grid_reader.h).
+class Reader : private FrequencyGridReader {
  public:
   Reader(std::string_view text, std::string path, std::string base_dir)
-      : TomlValues(std::move(path)), text_(text), base_dir_(std::move(base_dir)) {}
+      : FrequencyGridReader(std::move(path)), text_(text), base_dir_(std::move(base_dir)) {}
 
   ArrayDescription Read() {
     ArrayDescription out;
@@ -128,116 +126,6 @@ class Reader : private TomlValues {
   }
 
  private:
-  void ReadFrequency(const toml::table& root, Array& array) {
-    const toml::node* n = root.get("frequency");
-    if (!n) {
-      throw InputError(
-          SourceLocation{path_, 1, 1}, "frequency", "no frequency key",
-          "frequency = <Hz> or \"<number> <unit>\" (unit " + std::string(kFrequencyUnitList) + ")");
-    }
-    array.frequency_hz = FrequencyValue(*n, "frequency");
-    frequency_at_ = At(*n);
-  }
-
-  // One frequency: a number in Hz or a string with a unit, finite and > 0.
-  double FrequencyValue(const toml::node& n, const std::string& key) const {
-    double f = 0.0;
-    if (n.is_string()) {
-      const std::string s = n.as_string()->get();
-      const auto hz = FrequencyFromString(s);
-      if (!hz) {
-        throw InputError(At(n), key, Describe(n),
-                         "a number followed by a unit, one of " + std::string(kFrequencyUnitList) +
-                             " (e.g. \"433.92 MHz\")");
-      }
-      f = *hz;
-      if (!std::isfinite(f)) throw InputError(At(n), key, Describe(n), "a finite frequency");
-    } else {
-      f = Number(n, key, "a frequency in Hz or a string such as \"433.92 MHz\"");
-    }
-    if (!(f > 0.0)) {
-      throw InputError(At(n), key, n.is_string() ? Describe(n) : FormatNumber(f) + " Hz",
-                       "a frequency > 0");
-    }
-    return f;
-  }
-
-  // `frequencies` (a sweep, CONVENTIONS §3 "Frequency sweeps"), instead of `frequency`:
-  //   frequencies = ["9.5 GHz", "10 GHz", 10.5e9]      a list; the first is the design
-  //                                                    frequency (steering, wavelengths)
-  //   frequencies = { start = "9 GHz", stop = "11 GHz", count = 21, design = "10 GHz" }
-  //                                                    count points from start to stop,
-  //                                                    evenly spaced (stop exact); the
-  //                                                    design frequency (default start) first
-  // Every frequency distinct and > 0; a list has at least one.
-  void ReadFrequencies(const toml::table& root, ArrayDescription& out) {
-    const toml::node& n = *root.get("frequencies");
-    if (const toml::node* f = root.get("frequency")) {
-      throw InputError(At(*f), "frequency", "both 'frequency' and 'frequencies'",
-                       "one of them: the first of 'frequencies' is the design frequency");
-    }
-    std::vector<double> list;
-    std::vector<const toml::node*> where;
-    if (const toml::array* a = n.as_array()) {
-      if (a->empty()) {
-        throw InputError(At(n), "frequencies", "an empty list",
-                         "at least one frequency, e.g. [\"9.5 GHz\", \"10 GHz\"]");
-      }
-      for (std::size_t i = 0; i < a->size(); ++i) {
-        list.push_back(FrequencyValue(*a->get(i), "frequencies[" + std::to_string(i) + "]"));
-        where.push_back(a->get(i));
-      }
-    } else if (const toml::table* t = n.as_table()) {
-      CheckKeys(*t, "frequencies", {"start", "stop", "count", "design"});
-      for (const char* k : {"start", "stop", "count"}) {
-        if (!t->get(k)) {
-          throw InputError(At(*t), Join("frequencies", k), std::string("no ") + k + " key",
-                           "{ start = <f>, stop = <f>, count = <n> } (design optional)");
-        }
-      }
-      const double start = FrequencyValue(*t->get("start"), "frequencies.start");
-      const double stop = FrequencyValue(*t->get("stop"), "frequencies.stop");
-      const toml::node& c = *t->get("count");
-      const auto* ci = c.as_integer();
-      if (!ci || ci->get() < 1 || ci->get() > 100000) {
-        throw InputError(At(c), "frequencies.count", Describe(c), "a whole number in [1, 100000]");
-      }
-      const auto count = static_cast<std::size_t>(ci->get());
-      if (count > 1 && !(stop > start)) {
-        throw InputError(At(*t->get("stop")), "frequencies.stop", FormatNumber(stop) + " Hz",
-                         "a stop above start (" + FormatNumber(start) + " Hz)");
-      }
-      std::optional<double> design;
-      if (const toml::node* d = t->get("design")) design = FrequencyValue(*d, "frequencies.design");
-      if (design) list.push_back(*design);
-      for (std::size_t i = 0; i < count; ++i) {
-        const double f = i + 1 == count && count > 1
-                             ? stop
-                             : start + (stop - start) * static_cast<double>(i) /
-                                           static_cast<double>(count > 1 ? count - 1 : 1);
-        if (design && std::abs(f - *design) <= 1e-9 * *design) continue;  // listed first
-        list.push_back(f);
-      }
-      where.assign(list.size(), &n);
-    } else {
-      throw InputError(At(n), "frequencies", Describe(n),
-                       "a list of frequencies, e.g. [\"9.5 GHz\", \"10 GHz\"], or "
-                       "{ start = <f>, stop = <f>, count = <n> }");
-    }
-    for (std::size_t i = 0; i < list.size(); ++i) {
-      for (std::size_t j = 0; j < i; ++j) {
-        // Within 1e-9 relative: the same frequency typed twice (9.5 GHz and 9500 MHz).
-        if (std::abs(list[i] - list[j]) <= 1e-9 * list[j]) {
-          throw InputError(At(*where[i]), "frequencies", FormatNumber(list[i]) + " Hz twice",
-                           "distinct frequencies (the first is the design frequency)");
-        }
-      }
-    }
-    out.frequencies_hz = list;
-    out.array.frequency_hz = list.front();
-    frequency_at_ = At(*where.front());
-  }
-
   void ReadGround(const toml::table& root, Array& array) const {
     const toml::node* n = root.get("ground");
     if (!n) return;  // default: free space
@@ -245,81 +133,6 @@ class Reader : private TomlValues {
     const auto g = GroundFromString(s);
     if (!g) throw InputError(At(*n), "ground", Quoted(s), "\"none\" or \"pec\"");
     array.ground = *g;
-  }
-
-  AngleRange Range(const toml::node& n, const std::string& key, double max_deg,
-                   std::vector<std::string>& warnings) const {
-    const std::string bounds = "[0, " + FormatNumber(max_deg) + "] degrees";
-    auto in_bounds = [&](const toml::node& v, const std::string& k) {
-      const double x = Number(v, k, "an angle in degrees");
-      if (x < 0.0 || x > max_deg)
-        throw InputError(At(v), k, FormatNumber(x), "an angle in " + bounds);
-      return x;
-    };
-    AngleRange r;
-    if (n.is_number()) {
-      r.start_deg = r.stop_deg = in_bounds(n, key);
-      return r;
-    }
-    const toml::table* t = n.as_table();
-    if (!t) {
-      throw InputError(At(n), key, Describe(n),
-                       "{ start = <deg>, stop = <deg>, step = <deg> } or one angle in degrees");
-    }
-    CheckKeys(*t, key, {"start", "stop", "step"});
-    const toml::node* start = t->get("start");
-    const toml::node* stop = t->get("stop");
-    for (auto [node, name] : {std::pair{start, "start"}, std::pair{stop, "stop"}}) {
-      if (!node) {
-        throw InputError(
-            At(*t), Join(key, name), std::string("no ") + name + " key",
-            "{ start = <deg>, stop = <deg>, step = <deg> } (step optional, default 1)");
-      }
-    }
-    r.start_deg = in_bounds(*start, Join(key, "start"));
-    r.stop_deg = in_bounds(*stop, Join(key, "stop"));
-    if (r.stop_deg < r.start_deg) {
-      throw InputError(At(*stop), Join(key, "stop"), FormatNumber(r.stop_deg),
-                       "stop >= start (" + FormatNumber(r.start_deg) + ")");
-    }
-    if (const toml::node* step = t->get("step")) {
-      r.step_deg = Positive(*step, Join(key, "step"), "a number (degrees)", "a step");
-      if ((r.stop_deg - r.start_deg) / r.step_deg > kMaxDirections) {
-        throw InputError(At(*step), Join(key, "step"), FormatNumber(r.step_deg),
-                         "a step giving at most " + FormatNumber(kMaxDirections) + " angles");
-      }
-    }
-    // Same tolerance as AngleRange::Values (1e-9 of a step).
-    const double n_steps = (r.stop_deg - r.start_deg) / r.step_deg;
-    const double whole = std::floor(n_steps + 1e-9);
-    if (n_steps - whole > 1e-9) {
-      warnings.push_back(At(*stop).ToString() + ": warning: key '" + Join(key, "stop") + "': " +
-                         FormatNumber(r.stop_deg) + " is not start + n * step; the last angle is " +
-                         FormatNumber(r.start_deg + whole * r.step_deg));
-    }
-    return r;
-  }
-
-  void ReadGrid(const toml::table& root, ArrayDescription& out) const {
-    out.theta = AngleRange{0.0, 180.0, 1.0};
-    out.phi = AngleRange{0.0, 360.0, 1.0};
-    if (const toml::node* g = root.get("grid")) {
-      const toml::table* t = g->as_table();
-      if (!t) throw InputError(At(*g), "grid", Describe(*g), "a [grid] table");
-      CheckKeys(*t, "grid", {"theta", "phi"});
-      if (const toml::node* n = t->get("theta"))
-        out.theta = Range(*n, "grid.theta", 180.0, out.warnings);
-      if (const toml::node* n = t->get("phi")) out.phi = Range(*n, "grid.phi", 360.0, out.warnings);
-      auto count = [](const AngleRange& r) {
-        return std::floor((r.stop_deg - r.start_deg) / r.step_deg + 1e-9) + 1.0;
-      };
-      if (count(out.theta) * count(out.phi) > kMaxDirections) {
-        throw InputError(
-            At(*g), "grid", FormatNumber(count(out.theta) * count(out.phi)) + " directions",
-            "at most " + FormatNumber(kMaxDirections) + " directions (use a coarser step)");
-      }
-    }
-    out.grid = AngularGrid::FromRanges(out.theta, out.phi);
   }
 
   // The generated elements of a design, current-forced, ahead of the explicit ones.
@@ -523,7 +336,7 @@ class Reader : private TomlValues {
     if (p.is_relative() && !base_dir_.empty()) p = std::filesystem::path(base_dir_) / p;
     const std::string path = p.lexically_normal().string();
     std::string why;
-    auto text = ReadTextFile(path, &why);
+    auto text = ReadTextFile(path, &why, kMaxCsvBytes);
     if (!text) {
       throw InputError(At(n), "dipoles_csv", Quoted(name) + " (" + path + ": " + why + ")",
                        "a readable CSV file, relative to the TOML file's directory");
@@ -649,7 +462,6 @@ class Reader : private TomlValues {
   std::string_view text_;
   std::string base_dir_;
   double scale_ = 1.0;  // metres per length_unit
-  SourceLocation frequency_at_;
   std::vector<DipoleSite> sites_;
 };
 

@@ -206,6 +206,11 @@ class DesignReader : private TomlValues {
       spec.ring_counts = OneOrList<int>(
           count, "lattice.count",
           [&](const toml::node& v, const std::string& key) { return Integer(v, key, 1); });
+      double total = 0.0;  // each ring is bounded; so are all of them together
+      for (const int c : spec.ring_counts) total += c;
+      if (total > 10'000'000)
+        throw InputError(At(count), "lattice.count", "more than 10000000 elements",
+                         "at most 10000000 elements");
       const toml::node& radius = Require(t, "lattice", "radius", "<ring radius>");
       spec.ring_radii_m = OneOrList<double>(radius, "lattice.radius", positive_length);
       if (spec.ring_radii_m.size() != spec.ring_counts.size()) {

@@ -17,6 +17,10 @@ int main(int argc, char** argv) {
   std::vector<std::filesystem::path> files;
   for (int k = 1; k < argc; ++k) {
     const std::filesystem::path p(argv[k]);
+    if (!std::filesystem::exists(p)) {  // a missing folder ran no case and passed
+      std::fprintf(stderr, "%s: no such file or folder\n", argv[k]);
+      return 1;
+    }
     if (std::filesystem::is_directory(p)) {
       for (const auto& e : std::filesystem::directory_iterator(p)) {
         if (e.is_regular_file()) files.push_back(e.path());

@@ -1,0 +1,369 @@
+// The object headers of a result file, checked before HDF5 decodes their messages
+// (untrusted_file.h, CheckObjectHeaders).
+//
+// HDF5 1.10.8 decodes an attribute message (H5O_attr_decode, reached from H5Aexists
+// through H5O__msg_iterate) by the sizes the message claims, without comparing them
+// with the message's own size: a name, datatype or dataspace size past the message,
+// or a datatype or dataspace whose encoding runs past the size given for it, makes
+// the library copy the attribute's value from beyond its buffer (AddressSanitizer:
+// heap-buffer-overflow; a release build reads whatever lies there, or crashes). The
+// same holds for the datatype and dataspace messages of a dataset. So every object
+// header HDF5 can reach by a link is walked here first, from the file's bytes, the
+// way the HDF5 File Format Specification (version 2.0, sections IV.A.1 and IV.A.2)
+// lays it out, and every such message must fit:
+//   - the header (version 1, or version 2 "OHDR"), its continuation chunks and each
+//     message lie inside the file and inside their chunk;
+//   - a dataspace message (0x0001): rank <= 32, its dimensions inside the message;
+//   - a datatype message (0x0003): its encoding, nested types included (compound
+//     members, enumeration names and values, array dimensions, the base of a
+//     variable-length type, an opaque tag), inside the message;
+//   - an attribute message (0x000C): the name (NUL-terminated), the datatype and the
+//     dataspace each inside their stated sizes, those inside the message, and the
+//     value (elements x element size, as HDF5 computes it) inside what is left.
+// Refused outright, because they cannot be checked from the header alone and
+// lobecast never writes them: attributes with a shared datatype or dataspace, and
+// attributes in dense storage (an attribute-info message naming a fractal heap).
+// What this does not check: the messages HDF5 decodes with bounds of its own or
+// which lobecast's reads never reach (links, layouts, fill values, filters, B-trees
+// and heaps other than the global heap, which CheckGlobalHeaps walks).
+#include <algorithm>
+#include <cstdint>
+#include <fstream>
+#include <set>
+#include <string>
+#include <vector>
+
+#include "io/hdf5/untrusted_file.h"
+
+namespace lobecast::hdf5 {
+namespace {
+
+std::uint64_t LittleEndianAt(const unsigned char* p, int bytes) {
+  std::uint64_t v = 0;
+  for (int k = bytes - 1; k >= 0; --k) v = (v << 8) | p[k];
+  return v;
+}
+
+std::uint64_t Align8(std::uint64_t n) { return (n + 7) / 8 * 8; }
+
+// A message's bytes with the reader's position: every read is bounded by the
+// message, and a read past it marks the message bad instead of reading on.
+struct Cursor {
+  const unsigned char* data;
+  std::uint64_t size;
+  std::uint64_t at = 0;
+  bool bad = false;
+
+  bool Has(std::uint64_t n) {
+    if (bad || n > size - at) bad = true;
+    return !bad;
+  }
+  std::uint64_t Take(int bytes) {
+    if (!Has(static_cast<std::uint64_t>(bytes))) return 0;
+    const std::uint64_t v = LittleEndianAt(data + at, bytes);
+    at += static_cast<std::uint64_t>(bytes);
+    return v;
+  }
+  void Skip(std::uint64_t n) {
+    if (Has(n)) at += n;
+  }
+  // A NUL-terminated name, padded to a multiple of 8 bytes when `padded`.
+  void Name(bool padded) {
+    if (bad) return;
+    const unsigned char* end = std::find(data + at, data + size, 0);
+    if (end == data + size) {
+      bad = true;
+      return;
+    }
+    const auto length = static_cast<std::uint64_t>(end - (data + at)) + 1;
+    Skip(padded ? Align8(length) : length);
+  }
+};
+
+// The encoded datatype at the cursor (spec IV.A.2.d), nested types included; returns
+// the size of one element as HDF5 holds it in the file (a variable-length value and
+// a reference take their on-disk size, not the stored size field). Marks the cursor
+// bad when the encoding runs past it or nests deeper than HDF5 would sensibly go.
+std::uint64_t Datatype(Cursor& c, int depth = 0) {
+  if (depth > 16) {
+    c.bad = true;
+    return 0;
+  }
+  const std::uint64_t class_and_version = c.Take(1);
+  const std::uint64_t bits = c.Take(3);
+  const std::uint64_t size = c.Take(4);
+  const unsigned type_class = class_and_version & 0x0f;
+  const unsigned version = static_cast<unsigned>(class_and_version >> 4);
+  switch (type_class) {
+    case 0:  // fixed-point: bit offset, precision
+    case 4:  // bitfield: the same
+      c.Skip(4);
+      return size;
+    case 1:  // floating point: offset, precision, exponent and mantissa fields, bias
+      c.Skip(12);
+      return size;
+    case 2:  // time: precision
+      c.Skip(2);
+      return size;
+    case 3:  // string: no properties
+      return size;
+    case 5:  // opaque: an ASCII tag of (bits & 0xff) bytes, padded to 8
+      c.Skip(bits & 0xff);
+      return size;
+    case 6: {  // compound: members
+      const std::uint64_t members = bits & 0xffff;
+      if (members == 0) c.bad = true;
+      for (std::uint64_t m = 0; m < members && !c.bad; ++m) {
+        c.Name(version < 3);
+        if (version == 1) {
+          c.Skip(4 + 1 + 3 + 4 + 4 + 16);  // offset, rank, reserved, permutation, 4 sizes
+        } else if (version == 2) {
+          c.Skip(4);  // offset
+        } else {
+          int offset_bytes = 1;  // the fewest bytes that hold the compound's size
+          while (offset_bytes < 8 && (size >> (8 * offset_bytes)) != 0) ++offset_bytes;
+          c.Skip(static_cast<std::uint64_t>(offset_bytes));
+        }
+        Datatype(c, depth + 1);
+      }
+      return size;
+    }
+    case 7:  // reference: object (an address) or dataset region (4 + address)
+      return (bits & 0x0f) == 1 ? 12 : 8;
+    case 8: {  // enumeration: base type, names, values
+      const std::uint64_t members = bits & 0xffff;
+      const std::uint64_t base = Datatype(c, depth + 1);
+      for (std::uint64_t m = 0; m < members && !c.bad; ++m) c.Name(version < 3);
+      if (!c.bad && members > 0 && base > (c.size - c.at) / members) c.bad = true;
+      c.Skip(members * base);
+      return size;
+    }
+    case 9:  // variable-length: the base type; (length u32, heap address, index u32)
+      Datatype(c, depth + 1);
+      return 16;
+    case 10: {  // array: rank, dimensions (u32), permutation before version 3, base
+      const std::uint64_t rank = c.Take(1);
+      if (rank == 0 || rank > 32) c.bad = true;
+      c.Skip(version < 3 ? 3 + rank * 8 : rank * 4);
+      Datatype(c, depth + 1);
+      return size;
+    }
+    default:
+      c.bad = true;  // HDF5 refuses an unknown class itself, but without a bound
+      return 0;
+  }
+}
+
+// The encoded dataspace at the cursor (spec IV.A.2.b); returns its number of
+// elements, or marks the cursor bad (a rank over 32, dimensions past the message,
+// a count that overflows).
+std::uint64_t Dataspace(Cursor& c) {
+  const std::uint64_t version = c.Take(1);
+  const std::uint64_t rank = c.Take(1);
+  const std::uint64_t flags = c.Take(1);
+  std::uint64_t kind = 1;  // version 1: simple (rank 0 is a scalar)
+  if (version == 1) {
+    c.Skip(5);
+  } else {
+    kind = c.Take(1);  // 0 scalar, 1 simple, 2 null
+  }
+  if (c.bad || rank > 32) {
+    c.bad = true;
+    return 0;
+  }
+  std::uint64_t count = 1;
+  bool overflow = false;
+  for (std::uint64_t d = 0; d < rank && !c.bad; ++d) {
+    const std::uint64_t n = c.Take(8);
+    if (n != 0 && count > UINT64_MAX / n) overflow = true;
+    count *= n;
+  }
+  if ((flags & 1) != 0) c.Skip(rank * 8);  // maximum dimensions
+  if (overflow) c.bad = true;
+  if (version >= 2 && kind == 2) return 0;
+  return count;
+}
+
+class HeaderWalker {
+ public:
+  HeaderWalker(const std::string& path, std::uint64_t base)
+      : path_(path), base_(base), in_(path, std::ios::binary) {
+    in_.seekg(0, std::ios::end);
+    file_size_ = in_ ? static_cast<std::uint64_t>(in_.tellg()) : 0;
+  }
+
+  void Header(std::uint64_t relative) {
+    const std::uint64_t at = base_ + relative;
+    if (!seen_.insert(at).second) return;
+    unsigned char head[16];
+    if (!Read(at, head, 4)) Bad(at, "lies past the end of the file");
+    if (head[0] == 1) {
+      if (!Read(at, head, 16)) Bad(at, "lies past the end of the file");
+      Chunks(at, at + 16, LittleEndianAt(head + 8, 4), false);
+    } else if (std::string(reinterpret_cast<char*>(head), 4) == "OHDR") {
+      HeaderVersion2(at);
+    } else {
+      Bad(at, "is neither a version 1 nor a version 2 object header");
+    }
+  }
+
+ private:
+  [[noreturn]] void Bad(std::uint64_t at, const std::string& what) const {
+    Invalid(path_, "the object header at byte " + std::to_string(at) + " " + what);
+  }
+
+  bool Read(std::uint64_t offset, unsigned char* out, std::uint64_t n) {
+    if (offset > file_size_ || n > file_size_ - offset) return false;
+    in_.clear();
+    in_.seekg(static_cast<std::streamoff>(offset));
+    in_.read(reinterpret_cast<char*>(out), static_cast<std::streamsize>(n));
+    return static_cast<std::uint64_t>(in_.gcount()) == n;
+  }
+
+  void HeaderVersion2(std::uint64_t at) {
+    unsigned char head[6 + 16 + 4 + 8];
+    if (!Read(at, head, 6)) Bad(at, "lies past the end of the file");
+    const unsigned flags = head[5];
+    std::uint64_t p = 6 + ((flags & 0x20) ? 16 : 0) + ((flags & 0x10) ? 4 : 0);
+    const int size_bytes = 1 << (flags & 3);
+    if (!Read(at, head, p + static_cast<std::uint64_t>(size_bytes)))
+      Bad(at, "lies past the end of the file");
+    const std::uint64_t chunk = LittleEndianAt(head + p, size_bytes);
+    p += static_cast<std::uint64_t>(size_bytes);
+    creation_order_ = (flags & 0x04) != 0;
+    Chunks(at, at + p, chunk, true);
+  }
+
+  // Walks the chunk [start, start + size) and every continuation it names.
+  void Chunks(std::uint64_t header, std::uint64_t start, std::uint64_t size, bool v2) {
+    std::vector<std::pair<std::uint64_t, std::uint64_t>> chunks{{start, size}};
+    for (std::size_t k = 0; k < chunks.size(); ++k) {
+      if (chunks.size() > 4096) Bad(header, "has more than 4096 continuation chunks");
+      auto [begin, length] = chunks[k];
+      if (k > 0 && v2) {  // "OCHK" before the messages
+        unsigned char sig[4];
+        if (!Read(begin, sig, 4) || std::string(reinterpret_cast<char*>(sig), 4) != "OCHK")
+          Bad(header, "names a continuation chunk without its signature");
+        begin += 4;
+        length = length >= 4 ? length - 4 : 0;
+      }
+      if (k > 0 && v2) length = length >= 4 ? length - 4 : 0;  // the checksum
+      if (begin > file_size_ || length > file_size_ - begin)
+        Bad(header, "has a chunk of " + std::to_string(length) + " bytes past the end of the file");
+      std::vector<unsigned char> bytes(length);
+      if (!Read(begin, bytes.data(), length)) Bad(header, "cannot be read");
+      const std::uint64_t message_header = v2 ? 4 + (creation_order_ ? 2 : 0) : 8;
+      std::uint64_t p = 0;
+      while (length - p >= message_header) {
+        const unsigned char* m = bytes.data() + p;
+        const std::uint64_t type = v2 ? m[0] : LittleEndianAt(m, 2);
+        const std::uint64_t data_size = v2 ? LittleEndianAt(m + 1, 2) : LittleEndianAt(m + 2, 2);
+        const unsigned flags = v2 ? m[3] : m[4];
+        p += message_header;
+        if (data_size > length - p) {
+          Bad(header, "has a message of " + std::to_string(data_size) + " bytes at byte " +
+                          std::to_string(begin + p) + ", past the end of its chunk");
+        }
+        Message(header, begin + p, type, flags, bytes.data() + p, data_size, chunks);
+        p += data_size;
+      }
+    }
+  }
+
+  void Message(std::uint64_t header, std::uint64_t at, std::uint64_t type, unsigned flags,
+               const unsigned char* data, std::uint64_t size,
+               std::vector<std::pair<std::uint64_t, std::uint64_t>>& chunks) {
+    const bool shared = (flags & 0x02) != 0;  // the message is elsewhere: a reference
+    auto bad = [&](const std::string& what) {
+      Bad(header, "has a damaged " + what + " message at byte " + std::to_string(at));
+    };
+    if (type == 0x0010) {  // continuation: offset and length of the next chunk
+      if (size < 16) bad("continuation");
+      chunks.emplace_back(base_ + LittleEndianAt(data, 8), LittleEndianAt(data + 8, 8));
+    } else if (type == 0x0001 && !shared) {
+      Cursor c{data, size};
+      Dataspace(c);
+      if (c.bad) bad("dataspace");
+    } else if (type == 0x0003 && !shared) {
+      Cursor c{data, size};
+      Datatype(c);
+      if (c.bad) bad("datatype");
+    } else if (type == 0x000C) {
+      if (shared) bad("attribute (shared, which lobecast never writes)");
+      if (!Attribute(data, size)) bad("attribute");
+    } else if (type == 0x0015 && size >= 2 + 8) {  // attribute info: dense storage?
+      const unsigned info_flags = data[1];
+      const std::uint64_t heap = LittleEndianAt(data + 2 + ((info_flags & 1) ? 2 : 0), 8);
+      if (heap != UINT64_MAX)
+        bad("attribute info (dense attribute storage, which lobecast never writes)");
+    }
+  }
+
+  // Spec IV.A.2.m: version 1 pads name, datatype and dataspace to 8 bytes; version
+  // 3 adds the name's character set. HDF5 copies elements x element size bytes of
+  // value from after the dataspace.
+  bool Attribute(const unsigned char* data, std::uint64_t size) {
+    Cursor c{data, size};
+    const std::uint64_t version = c.Take(1);
+    const std::uint64_t flags = c.Take(1);
+    const std::uint64_t name_size = c.Take(2);
+    const std::uint64_t type_size = c.Take(2);
+    const std::uint64_t space_size = c.Take(2);
+    if (version == 3) c.Skip(1);
+    if (c.bad || version < 1 || version > 3 || (flags & 0x03) != 0 || name_size == 0) return false;
+    const auto padded = [&](std::uint64_t n) { return version == 1 ? Align8(n) : n; };
+    // The name: NUL-terminated within its size (HDF5 copies it up to the NUL).
+    if (!c.Has(padded(name_size)) || data[c.at + name_size - 1] != 0) return false;
+    if (std::find(data + c.at, data + c.at + name_size, 0) != data + c.at + name_size - 1)
+      return false;
+    c.at += padded(name_size);
+    if (!c.Has(padded(type_size))) return false;
+    Cursor type{data + c.at, type_size};
+    const std::uint64_t element = Datatype(type);
+    if (type.bad) return false;
+    c.at += padded(type_size);
+    if (!c.Has(padded(space_size))) return false;
+    Cursor space{data + c.at, space_size};
+    const std::uint64_t count = Dataspace(space);
+    if (space.bad) return false;
+    c.at += padded(space_size);
+    const std::uint64_t left = size - c.at;
+    return element == 0 || count <= left / element;
+  }
+
+  const std::string& path_;
+  std::uint64_t base_;
+  std::ifstream in_;
+  std::uint64_t file_size_ = 0;
+  std::set<std::uint64_t> seen_;
+  bool creation_order_ = false;
+};
+
+herr_t VisitObject(hid_t /*obj*/, const char* /*name*/, const H5O_info_t* info, void* data) {
+  static_cast<std::vector<std::uint64_t>*>(data)->push_back(info->addr);
+  return 0;
+}
+
+// The base address that object addresses are relative to (superblock versions 0
+// and 1: byte 24; 2 and 3: byte 12), 0 when the superblock cannot say.
+std::uint64_t BaseAddress(const std::string& path) {
+  std::ifstream in(path, std::ios::binary);
+  unsigned char super[32] = {};
+  in.read(reinterpret_cast<char*>(super), sizeof super);
+  if (in.gcount() != sizeof super) return 0;
+  return super[8] >= 2 ? LittleEndianAt(super + 12, 8) : LittleEndianAt(super + 24, 8);
+}
+
+}  // namespace
+
+void CheckObjectHeaders(hid_t file, const std::string& path) {
+  std::vector<std::uint64_t> addresses;
+  // H5O_INFO_BASIC: address and type only; HDF5 decodes no attribute for them.
+  if (H5Ovisit2(file, H5_INDEX_NAME, H5_ITER_NATIVE, VisitObject, &addresses, H5O_INFO_BASIC) < 0) {
+    Invalid(path, "HDF5 cannot walk its groups (a damaged group or link)");
+  }
+  HeaderWalker walker(path, BaseAddress(path));
+  for (const std::uint64_t address : addresses) walker.Header(address);
+}
+
+}  // namespace lobecast::hdf5
