@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <unordered_map>
 
 #include <Eigen/Eigenvalues>
 #include <Eigen/SVD>
@@ -86,7 +87,9 @@ struct NullProblem {
 
   // Gauss-Newton on the field from r (level v): the least-squares (minimum-norm) step
   // toward a zero, which for a null curve lands on the curve. max_step bounds a step.
-  void Polish(Vec3* r, double* v, double max_step) const {
+  // Returns the length of the longest step it refused for that bound, 0 when none: the
+  // same search with a larger bound then ends exactly where this one did.
+  double Polish(Vec3* r, double* v, double max_step) const {
     for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
       const LocalChart lc(*r);
       const double h = kJacobianStep_rad;
@@ -100,7 +103,8 @@ struct NullProblem {
       Eigen::JacobiSVD<Eigen::MatrixXd> svd(jac, Eigen::ComputeThinU | Eigen::ComputeThinV);
       svd.setThreshold(1e-8);
       const Eigen::Vector2d step = -svd.solve(r0);
-      if (!(step.norm() > 0.0) || step.norm() > max_step) break;
+      if (step.norm() > max_step) return step.norm();
+      if (!(step.norm() > 0.0)) break;
       const Vec3 cand = lc.At(step[0], step[1]);
       const double vc = Level(cand);
       if (!(vc < *v)) break;
@@ -108,6 +112,7 @@ struct NullProblem {
       *v = vc;
       if (step.norm() < 1e-15) break;
     }
+    return 0.0;
   }
 
   // The same along a great circle (a 1-D Gauss-Newton on the offset s).
@@ -232,8 +237,15 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     out.truncated = true;
   }
 
-  // Seeds spread along each set, refined onto the null.
+  // Seeds spread along each set, refined onto the null. Each seed's search is kept:
+  // the second pass below starts from the same grid directions with a larger bound on
+  // the step, and a search that never met the smaller one ends where it did.
   const double spacing = neighbours.spacing_rad();
+  struct Polished {
+    Vec3 r;
+    double v;
+  };
+  std::unordered_map<std::size_t, Polished> polished;  // by node, searches bound by nothing
   std::vector<RefinedZero> zeros;
   for (const auto& [lvl, i] : order) {
     const std::vector<std::size_t>& set = sets[i];
@@ -241,7 +253,7 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     for (std::size_t k = 0; k < set.size(); k += stride) {
       Vec3 r = neighbours.direction(set[k]);
       double v = problem.Level(r);
-      problem.Polish(&r, &v, 2.0 * spacing);
+      if (problem.Polish(&r, &v, 2.0 * spacing) == 0.0) polished[set[k]] = {r, v};
       if (IsZero(v)) zeros.push_back({r, v});
     }
   }
@@ -370,9 +382,16 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     std::vector<Member> below = {{r, v, true}};
     const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
     for (std::size_t k = 0; k < set.size(); k += stride) {
-      Vec3 q = neighbours.direction(set[k]);
-      double vq = problem.Level(q);
-      problem.Polish(&q, &vq, 10.0 * spacing);
+      Vec3 q;
+      double vq;
+      if (const auto it = polished.find(set[k]); it != polished.end()) {
+        q = it->second.r;
+        vq = it->second.v;
+      } else {
+        q = neighbours.direction(set[k]);
+        vq = problem.Level(q);
+        problem.Polish(&q, &vq, 10.0 * spacing);
+      }
       const bool on_cone = std::any_of(cones.begin(), cones.end(), [&](const Cone& c) {
         return cone_distance(c, q) < kOnCone_rad;
       });
