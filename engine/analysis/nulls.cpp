@@ -361,7 +361,7 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     const PlaneMinimum m =
         MinimizeOnPlane([&](double a, double b) { return problem.Level(chart.At(a, b)); }, 0.0, 0.0,
                         {0.5 * spacing, options.refine_tolerance_deg * kDegree,
-                         options.max_evaluations_per_search});
+                         options.max_evaluations_per_search, true});
     Vec3 r = chart.At(m.a, m.b);
     double v = m.value;
     problem.Polish(&r, &v, 10.0 * spacing);

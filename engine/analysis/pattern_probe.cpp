@@ -10,6 +10,18 @@
 #include "engine/rounding_floor.h"
 
 namespace lobecast {
+namespace {
+
+// Batches of at least this many directions, of arrays of at least this many sources
+// (images counted), go through a FieldPlan of their own with the auto method: the
+// fast path's error (1e-9 of the batch's largest |rE|) does not move what these
+// batches decide (which samples bracket a beam edge, a null or an axial-ratio edge;
+// the sequential refinements after them stay exact), and below these sizes the direct
+// sum is the cheaper route anyway (engine/field/method_cost.cpp).
+constexpr std::size_t kFastBatchDirections = 4096;
+constexpr std::size_t kFastBatchSources = 8192;
+
+}  // namespace
 
 SphericalAngles AnglesOf(const Vec3& r) {
   SphericalAngles s;
@@ -79,8 +91,13 @@ std::vector<ProbeSample> PatternProbe::At(const std::vector<Vec3>& r_hat) const 
     theta[i] = s.theta_rad;
     phi[i] = s.phi_rad;
   }
-  // Exact sums (null depths reach rounding) on the plan built once for the sources.
-  const FarField f = plan_->ExecuteAt(currents_, Directions::FromAngles(theta, phi));
+  // Exact sums (null depths reach rounding) on the plan built once for the sources; a
+  // large batch of a large array (a cut's samples, the axial-ratio sampling) gets a plan
+  // of its own, whose auto choice takes the fast path where it is cheaper.
+  const FarField f =
+      r_hat.size() >= kFastBatchDirections && plan_->num_sources() >= kFastBatchSources
+          ? FieldPlan(array_, Directions::FromAngles(theta, phi), FieldOptions{}).Execute(currents_)
+          : plan_->ExecuteAt(currents_, Directions::FromAngles(theta, phi));
   evaluations_ += r_hat.size();
   for (std::size_t i = 0; i < r_hat.size(); ++i) {
     ProbeSample& s = out[i];
