@@ -34,6 +34,19 @@ bool WithinAxialRatio(const ProbeSample& s, const AnalysisOptions& options) {
   return true;
 }
 
+// True when every source, images included, lies along one axis: rE is then a complex
+// scalar times the real vector r x (r x u) in every direction, linear (AR = +inf)
+// wherever it is not zero, so no direction is within any finite axial-ratio limit.
+// A PEC image of a dipole along u runs along (-ux, -uy, uz): on the same axis only
+// for vertical and horizontal u.
+bool LinearEverywhere(const Array& array) {
+  if (array.dipoles.empty()) return false;
+  const Vec3& u = array.dipoles.front().orientation;
+  if (array.ground == Ground::kPec && u.z() != 0.0 && (u.x() != 0.0 || u.y() != 0.0)) return false;
+  return std::all_of(array.dipoles.begin(), array.dipoles.end(),
+                     [&](const Dipole& d) { return d.orientation == u || d.orientation == -u; });
+}
+
 }  // namespace
 
 PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeighbours& neighbours,
@@ -184,6 +197,7 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
 }
 
 double AxialRatioSolidAngle(const PatternProbe& probe, const AnalysisOptions& options) {
+  if (LinearEverywhere(probe.array())) return 0.0;  // no sampling needed
   const int nphi = options.axial_ratio_phi_planes;
   const double theta_max = probe.array().ground == Ground::kPec ? 0.5 * kPi : kPi;
   const int nt = std::max(
