@@ -47,6 +47,8 @@ bool IsZero(double level) { return level < kZeroRelative; }
 bool BelowFloor(double level) { return level == 0.0; }
 // Checks around a candidate cone (evenly in the angle about its axis).
 constexpr int kConeChecks = 72;
+// Of those, every this many are evaluated first (8 of 72).
+constexpr std::size_t kConeFirstCheckStride = 9;
 // Refined zeros whose cos(angle from the axis) agree this well are on one cone.
 constexpr double kSameConeCos = 1e-7;
 // A cone narrower than this (rad) is a point.
@@ -296,9 +298,18 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
         if (!probe.NoFieldAt(r)) checks.push_back(r);
       }
       if (checks.size() < kConeChecks / 8) continue;  // hardly visible: not a cone to report
+      // Every check must be a zero: a few spread round the circle first, the rest only
+      // when those are (most candidates, zeros that merely share a cosine about an axis
+      // by symmetry, fail at once).
+      std::vector<Vec3> first_checks, other_checks;
+      for (std::size_t k = 0; k < checks.size(); ++k)
+        (k % kConeFirstCheckStride == 0 ? first_checks : other_checks).push_back(checks[k]);
       double worst = 0.0;
-      for (const ProbeSample& s : probe.At(checks))
-        worst = std::max(worst, NullFieldDirectivity(probe, s, options) / peak_directivity);
+      for (const std::vector<Vec3>* batch : {&first_checks, &other_checks}) {
+        for (const ProbeSample& s : probe.At(*batch))
+          worst = std::max(worst, NullFieldDirectivity(probe, s, options) / peak_directivity);
+        if (!IsZero(worst)) break;
+      }
       if (IsZero(worst)) cones.push_back({a, cos_half, first});
     }
     // About each axis, the narrowest cone first.
@@ -347,7 +358,19 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     }
   }
   std::vector<std::pair<NullLocus, LocusShape>> others;
+  // The list keeps the cones, then the deepest of the rest; exact zeros (depth 0) tie
+  // and keep the order they were found in. Once more exact zeros are found than the
+  // list has room for after the cones, nothing found later can enter it (a later point
+  // merged into an exact one leaves it as it is), and the list is known to be
+  // truncated: the remaining sets are not refined.
+  const std::size_t room = options.max_nulls - std::min(options.max_nulls, cones.size());
   for (const std::vector<std::size_t>& set : neighbours.Components(rest)) {
+    const auto exact_others = static_cast<std::size_t>(
+        std::count_if(others.begin(), others.end(), [](const auto& o) { return o.first.exact; }));
+    if (cones.size() > options.max_nulls || exact_others > room) {
+      out.truncated = true;
+      break;
+    }
     std::size_t best = set[0];
     double best_level = node_level(best);
     for (std::size_t n : set) {
