@@ -4,6 +4,7 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <optional>
 #include <unordered_map>
 
 #include <Eigen/Eigenvalues>
@@ -82,21 +83,26 @@ struct NullProblem {
   double peak_directivity;
   double scale;  // field -> residual
 
-  double Level(const Vec3& r) const {
-    const ProbeSample s = probe.At(r);
+  double LevelOf(const ProbeSample& s) const {
     return s.no_field ? kInf : NullFieldDirectivity(probe, s, options) / peak_directivity;
   }
+  double Level(const Vec3& r) const { return LevelOf(probe.At(r)); }
 
   // Gauss-Newton on the field from r (level v): the least-squares (minimum-norm) step
   // toward a zero, which for a null curve lands on the curve. max_step bounds a step.
   // Returns the length of the longest step it refused for that bound, 0 when none: the
-  // same search with a larger bound then ends exactly where this one did.
-  double Polish(Vec3* r, double* v, double max_step) const {
+  // same search with a larger bound then ends exactly where this one did. `at_r`, when
+  // given, is the sample at r already evaluated (v its level); each accepted step's
+  // sample is the next iteration's centre, so no direction is evaluated twice.
+  double Polish(Vec3* r, double* v, double max_step,
+                std::optional<ProbeSample> at_r = std::nullopt) const {
     for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
       const LocalChart lc(*r);
       const double h = kJacobianStep_rad;
-      const std::vector<ProbeSample> s =
-          probe.At(std::vector<Vec3>{*r, lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)});
+      std::vector<Vec3> dirs = {lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)};
+      if (!at_r) dirs.insert(dirs.begin(), *r);
+      std::vector<ProbeSample> s = probe.At(dirs);
+      if (at_r) s.insert(s.begin(), *at_r);
       if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
       const Eigen::VectorXd r0 = Residual(s[0], options, scale);
       Eigen::MatrixXd jac(r0.size(), 2);
@@ -108,10 +114,12 @@ struct NullProblem {
       if (step.norm() > max_step) return step.norm();
       if (!(step.norm() > 0.0)) break;
       const Vec3 cand = lc.At(step[0], step[1]);
-      const double vc = Level(cand);
+      const ProbeSample at_cand = probe.At(cand);
+      const double vc = LevelOf(at_cand);
       if (!(vc < *v)) break;
       *r = cand;
       *v = vc;
+      at_r = at_cand;
       if (step.norm() < 1e-15) break;
     }
     return 0.0;
@@ -119,11 +127,14 @@ struct NullProblem {
 
   // The same along a great circle (a 1-D Gauss-Newton on the offset s).
   void PolishAlong(const Vec3& from, const Vec3& tangent, double* s_rad, double* v) const {
+    std::optional<ProbeSample> at_s;
     for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
       const double h = kJacobianStep_rad;
-      const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{
-          AlongGreatCircle(from, tangent, *s_rad), AlongGreatCircle(from, tangent, *s_rad + h),
-          AlongGreatCircle(from, tangent, *s_rad - h)});
+      std::vector<Vec3> dirs = {AlongGreatCircle(from, tangent, *s_rad + h),
+                                AlongGreatCircle(from, tangent, *s_rad - h)};
+      if (!at_s) dirs.insert(dirs.begin(), AlongGreatCircle(from, tangent, *s_rad));
+      std::vector<ProbeSample> s = probe.At(dirs);
+      if (at_s) s.insert(s.begin(), *at_s);
       if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
       const Eigen::VectorXd r0 = Residual(s[0], options, scale);
       const Eigen::VectorXd j =
@@ -131,10 +142,12 @@ struct NullProblem {
       if (!(j.squaredNorm() > 0.0)) break;
       const double step = -j.dot(r0) / j.squaredNorm();
       if (!(std::abs(step) > 0.0) || std::abs(step) > 1e-3) break;
-      const double vc = Level(AlongGreatCircle(from, tangent, *s_rad + step));
+      const ProbeSample at_step = probe.At(AlongGreatCircle(from, tangent, *s_rad + step));
+      const double vc = LevelOf(at_step);
       if (!(vc < *v)) break;
       *s_rad += step;
       *v = vc;
+      at_s = at_step;
     }
   }
 
@@ -254,8 +267,9 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
     for (std::size_t k = 0; k < set.size(); k += stride) {
       Vec3 r = neighbours.direction(set[k]);
-      double v = problem.Level(r);
-      if (problem.Polish(&r, &v, 2.0 * spacing) == 0.0) polished[set[k]] = {r, v};
+      const ProbeSample at_r = probe.At(r);
+      double v = problem.LevelOf(at_r);
+      if (problem.Polish(&r, &v, 2.0 * spacing, at_r) == 0.0) polished[set[k]] = {r, v};
       if (IsZero(v)) zeros.push_back({r, v});
     }
   }
@@ -412,8 +426,9 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
         vq = it->second.v;
       } else {
         q = neighbours.direction(set[k]);
-        vq = problem.Level(q);
-        problem.Polish(&q, &vq, 10.0 * spacing);
+        const ProbeSample at_q = probe.At(q);
+        vq = problem.LevelOf(at_q);
+        problem.Polish(&q, &vq, 10.0 * spacing, at_q);
       }
       const bool on_cone = std::any_of(cones.begin(), cones.end(), [&](const Cone& c) {
         return cone_distance(c, q) < kOnCone_rad;
