@@ -48,8 +48,8 @@ bool IsZero(double level) { return level < kZeroRelative; }
 bool BelowFloor(double level) { return level == 0.0; }
 // Checks around a candidate cone (evenly in the angle about its axis).
 constexpr int kConeChecks = 72;
-// Of those, every this many are evaluated first (8 of 72).
-constexpr std::size_t kConeFirstCheckStride = 9;
+// Of those, every this many are evaluated first (3 of 72).
+constexpr std::size_t kConeFirstCheckStride = 24;
 // Refined zeros whose cos(angle from the axis) agree this well are on one cone.
 constexpr double kSameConeCos = 1e-7;
 // A cone narrower than this (rad) is a point.
