@@ -104,5 +104,27 @@ TEST(MinimizeOnPlane, StopsAtTheEvaluationLimit) {
   EXPECT_LE(m.evaluations, 50 + 2);  // a step may finish the simplex it started
 }
 
+TEST(MinimizeOnPlane, StopsAtAnExactZeroWhenAsked) {
+  // A valley of exact zeros along the line b = 2 a (a null curve): a level >= 0 cannot
+  // go deeper than 0, so the search asked to stop there ends on the line at once
+  // instead of wandering along it to the evaluation limit.
+  auto valley = [](double a, double b) {
+    const double d = b - 2.0 * a;
+    return std::abs(d) < 1e-3 ? 0.0 : d * d;
+  };
+  PlaneSearchOptions o;
+  o.initial_step = 0.05;
+  o.tolerance = 1e-12;
+  o.max_evaluations = 2000;
+  const PlaneMinimum plain = MinimizeOnPlane(valley, 0.3, 0.0, o);
+  o.stop_at_zero = true;
+  const PlaneMinimum stopped = MinimizeOnPlane(valley, 0.3, 0.0, o);
+  EXPECT_EQ(stopped.value, 0.0);
+  EXPECT_TRUE(stopped.converged);
+  EXPECT_LT(std::abs(stopped.b - 2.0 * stopped.a), 1e-3);
+  EXPECT_LT(stopped.evaluations, plain.evaluations);
+  EXPECT_LT(stopped.evaluations, 100);
+}
+
 }  // namespace
 }  // namespace lobecast

@@ -22,6 +22,9 @@ constexpr double kInf = std::numeric_limits<double>::infinity();
 // 0.1 deg) and the Hessian's rounding error ~eps D / h^2 ~ 2e-6 D.
 constexpr double kNewtonStep_rad = 1e-5;
 
+// The first batch of samples a walk along a great circle evaluates (WalkBeamRay).
+constexpr std::size_t kFirstWalkBatch = 64;
+
 // Along each principal direction v of the peak, moves to where D(s + h) = D(s - h),
 // with h wide enough that D falls by ~1e-6 relative over it. Near a quadratic peak this
 // is a Newton step free of rounding; near a flat (quartic) one, where function values
@@ -232,10 +235,25 @@ BeamRay WalkBeamRay(const PatternProbe& probe, const Vec3& peak, const Vec3& tan
     return Vec3(h / h.norm());
   };
   // Samples 0..n reach the antipode; one more lets a minimum sitting there be bracketed.
-  std::vector<Vec3> pts(static_cast<std::size_t>(n) + 2);
-  for (int k = 0; k <= n + 1; ++k) pts[static_cast<std::size_t>(k)] = point(k * step);
-  const std::vector<ProbeSample> s = probe.At(pts);
-  auto at = [&](int k) -> const ProbeSample& { return s[static_cast<std::size_t>(k)]; };
+  // They are evaluated a batch at a time, each batch twice the last, as far as the walk
+  // reads them: a narrow beam's edge and first null come long before the antipode.
+  std::vector<ProbeSample> s;
+  // By value: a later batch may move the samples.
+  auto at = [&](int k) -> ProbeSample {
+    const auto want = static_cast<std::size_t>(k);
+    if (want >= s.size()) {
+      const std::size_t total = static_cast<std::size_t>(n) + 2;
+      const std::size_t end =
+          std::min(total, std::max(want + 1, std::max<std::size_t>(kFirstWalkBatch, 2 * s.size())));
+      std::vector<Vec3> pts;
+      pts.reserve(end - s.size());
+      for (std::size_t j = s.size(); j < end; ++j)
+        pts.push_back(point(static_cast<double>(j) * step));
+      const std::vector<ProbeSample> more = probe.At(pts);
+      s.insert(s.end(), more.begin(), more.end());
+    }
+    return s[want];
+  };
   const double half = 0.5 * peak_directivity;
   auto excess = [&](double alpha) {
     const ProbeSample p = probe.At(point(alpha));

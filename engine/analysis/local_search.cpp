@@ -121,6 +121,11 @@ PlaneMinimum MinimizeOnPlane(const std::function<double(double, double)>& f, dou
       converged = true;
       break;
     }
+    // f >= 0 (a level) reached 0: nothing lies deeper, the search is over.
+    if (options.stop_at_zero && s[0].v == 0.0) {
+      converged = true;
+      break;
+    }
     const double ca = 0.5 * (s[0].a + s[1].a), cb = 0.5 * (s[0].b + s[1].b);  // centroid
     const Vertex r = eval(2.0 * ca - s[2].a, 2.0 * cb - s[2].b);
     if (r.v < s[0].v) {

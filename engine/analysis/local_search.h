@@ -39,6 +39,10 @@ struct PlaneSearchOptions {
   double tolerance = 1e-9;
   // Hard stop, counted in evaluations of f.
   int max_evaluations = 2000;
+  // For f >= 0: stop at the first vertex where f is exactly 0 (a null below the
+  // numerical floor; on a null curve the simplex would otherwise wander along it to
+  // max_evaluations).
+  bool stop_at_zero = false;
 };
 
 struct PlaneMinimum {

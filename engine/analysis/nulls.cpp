@@ -4,6 +4,8 @@
 #include <algorithm>
 #include <cmath>
 #include <limits>
+#include <optional>
+#include <unordered_map>
 
 #include <Eigen/Eigenvalues>
 #include <Eigen/SVD>
@@ -46,6 +48,8 @@ bool IsZero(double level) { return level < kZeroRelative; }
 bool BelowFloor(double level) { return level == 0.0; }
 // Checks around a candidate cone (evenly in the angle about its axis).
 constexpr int kConeChecks = 72;
+// Of those, every this many are evaluated first (3 of 72).
+constexpr std::size_t kConeFirstCheckStride = 24;
 // Refined zeros whose cos(angle from the axis) agree this well are on one cone.
 constexpr double kSameConeCos = 1e-7;
 // A cone narrower than this (rad) is a point.
@@ -79,19 +83,26 @@ struct NullProblem {
   double peak_directivity;
   double scale;  // field -> residual
 
-  double Level(const Vec3& r) const {
-    const ProbeSample s = probe.At(r);
+  double LevelOf(const ProbeSample& s) const {
     return s.no_field ? kInf : NullFieldDirectivity(probe, s, options) / peak_directivity;
   }
+  double Level(const Vec3& r) const { return LevelOf(probe.At(r)); }
 
   // Gauss-Newton on the field from r (level v): the least-squares (minimum-norm) step
   // toward a zero, which for a null curve lands on the curve. max_step bounds a step.
-  void Polish(Vec3* r, double* v, double max_step) const {
+  // Returns the length of the longest step it refused for that bound, 0 when none: the
+  // same search with a larger bound then ends exactly where this one did. `at_r`, when
+  // given, is the sample at r already evaluated (v its level); each accepted step's
+  // sample is the next iteration's centre, so no direction is evaluated twice.
+  double Polish(Vec3* r, double* v, double max_step,
+                std::optional<ProbeSample> at_r = std::nullopt) const {
     for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
       const LocalChart lc(*r);
       const double h = kJacobianStep_rad;
-      const std::vector<ProbeSample> s =
-          probe.At(std::vector<Vec3>{*r, lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)});
+      std::vector<Vec3> dirs = {lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)};
+      if (!at_r) dirs.insert(dirs.begin(), *r);
+      std::vector<ProbeSample> s = probe.At(dirs);
+      if (at_r) s.insert(s.begin(), *at_r);
       if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
       const Eigen::VectorXd r0 = Residual(s[0], options, scale);
       Eigen::MatrixXd jac(r0.size(), 2);
@@ -100,23 +111,30 @@ struct NullProblem {
       Eigen::JacobiSVD<Eigen::MatrixXd> svd(jac, Eigen::ComputeThinU | Eigen::ComputeThinV);
       svd.setThreshold(1e-8);
       const Eigen::Vector2d step = -svd.solve(r0);
-      if (!(step.norm() > 0.0) || step.norm() > max_step) break;
+      if (step.norm() > max_step) return step.norm();
+      if (!(step.norm() > 0.0)) break;
       const Vec3 cand = lc.At(step[0], step[1]);
-      const double vc = Level(cand);
+      const ProbeSample at_cand = probe.At(cand);
+      const double vc = LevelOf(at_cand);
       if (!(vc < *v)) break;
       *r = cand;
       *v = vc;
+      at_r = at_cand;
       if (step.norm() < 1e-15) break;
     }
+    return 0.0;
   }
 
   // The same along a great circle (a 1-D Gauss-Newton on the offset s).
   void PolishAlong(const Vec3& from, const Vec3& tangent, double* s_rad, double* v) const {
+    std::optional<ProbeSample> at_s;
     for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
       const double h = kJacobianStep_rad;
-      const std::vector<ProbeSample> s = probe.At(std::vector<Vec3>{
-          AlongGreatCircle(from, tangent, *s_rad), AlongGreatCircle(from, tangent, *s_rad + h),
-          AlongGreatCircle(from, tangent, *s_rad - h)});
+      std::vector<Vec3> dirs = {AlongGreatCircle(from, tangent, *s_rad + h),
+                                AlongGreatCircle(from, tangent, *s_rad - h)};
+      if (!at_s) dirs.insert(dirs.begin(), AlongGreatCircle(from, tangent, *s_rad));
+      std::vector<ProbeSample> s = probe.At(dirs);
+      if (at_s) s.insert(s.begin(), *at_s);
       if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
       const Eigen::VectorXd r0 = Residual(s[0], options, scale);
       const Eigen::VectorXd j =
@@ -124,10 +142,12 @@ struct NullProblem {
       if (!(j.squaredNorm() > 0.0)) break;
       const double step = -j.dot(r0) / j.squaredNorm();
       if (!(std::abs(step) > 0.0) || std::abs(step) > 1e-3) break;
-      const double vc = Level(AlongGreatCircle(from, tangent, *s_rad + step));
+      const ProbeSample at_step = probe.At(AlongGreatCircle(from, tangent, *s_rad + step));
+      const double vc = LevelOf(at_step);
       if (!(vc < *v)) break;
       *s_rad += step;
       *v = vc;
+      at_s = at_step;
     }
   }
 
@@ -232,16 +252,24 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     out.truncated = true;
   }
 
-  // Seeds spread along each set, refined onto the null.
+  // Seeds spread along each set, refined onto the null. Each seed's search is kept:
+  // the second pass below starts from the same grid directions with a larger bound on
+  // the step, and a search that never met the smaller one ends where it did.
   const double spacing = neighbours.spacing_rad();
+  struct Polished {
+    Vec3 r;
+    double v;
+  };
+  std::unordered_map<std::size_t, Polished> polished;  // by node, searches bound by nothing
   std::vector<RefinedZero> zeros;
   for (const auto& [lvl, i] : order) {
     const std::vector<std::size_t>& set = sets[i];
     const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
     for (std::size_t k = 0; k < set.size(); k += stride) {
       Vec3 r = neighbours.direction(set[k]);
-      double v = problem.Level(r);
-      problem.Polish(&r, &v, 2.0 * spacing);
+      const ProbeSample at_r = probe.At(r);
+      double v = problem.LevelOf(at_r);
+      if (problem.Polish(&r, &v, 2.0 * spacing, at_r) == 0.0) polished[set[k]] = {r, v};
       if (IsZero(v)) zeros.push_back({r, v});
     }
   }
@@ -284,9 +312,18 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
         if (!probe.NoFieldAt(r)) checks.push_back(r);
       }
       if (checks.size() < kConeChecks / 8) continue;  // hardly visible: not a cone to report
+      // Every check must be a zero: a few spread round the circle first, the rest only
+      // when those are (most candidates, zeros that merely share a cosine about an axis
+      // by symmetry, fail at once).
+      std::vector<Vec3> first_checks, other_checks;
+      for (std::size_t k = 0; k < checks.size(); ++k)
+        (k % kConeFirstCheckStride == 0 ? first_checks : other_checks).push_back(checks[k]);
       double worst = 0.0;
-      for (const ProbeSample& s : probe.At(checks))
-        worst = std::max(worst, NullFieldDirectivity(probe, s, options) / peak_directivity);
+      for (const std::vector<Vec3>* batch : {&first_checks, &other_checks}) {
+        for (const ProbeSample& s : probe.At(*batch))
+          worst = std::max(worst, NullFieldDirectivity(probe, s, options) / peak_directivity);
+        if (!IsZero(worst)) break;
+      }
       if (IsZero(worst)) cones.push_back({a, cos_half, first});
     }
     // About each axis, the narrowest cone first.
@@ -335,7 +372,19 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     }
   }
   std::vector<std::pair<NullLocus, LocusShape>> others;
+  // The list keeps the cones, then the deepest of the rest; exact zeros (depth 0) tie
+  // and keep the order they were found in. Once more exact zeros are found than the
+  // list has room for after the cones, nothing found later can enter it (a later point
+  // merged into an exact one leaves it as it is), and the list is known to be
+  // truncated: the remaining sets are not refined.
+  const std::size_t room = options.max_nulls - std::min(options.max_nulls, cones.size());
   for (const std::vector<std::size_t>& set : neighbours.Components(rest)) {
+    const auto exact_others = static_cast<std::size_t>(
+        std::count_if(others.begin(), others.end(), [](const auto& o) { return o.first.exact; }));
+    if (cones.size() > options.max_nulls || exact_others > room) {
+      out.truncated = true;
+      break;
+    }
     std::size_t best = set[0];
     double best_level = node_level(best);
     for (std::size_t n : set) {
@@ -349,7 +398,7 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     const PlaneMinimum m =
         MinimizeOnPlane([&](double a, double b) { return problem.Level(chart.At(a, b)); }, 0.0, 0.0,
                         {0.5 * spacing, options.refine_tolerance_deg * kDegree,
-                         options.max_evaluations_per_search});
+                         options.max_evaluations_per_search, true});
     Vec3 r = chart.At(m.a, m.b);
     double v = m.value;
     problem.Polish(&r, &v, 10.0 * spacing);
@@ -370,9 +419,17 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     std::vector<Member> below = {{r, v, true}};
     const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
     for (std::size_t k = 0; k < set.size(); k += stride) {
-      Vec3 q = neighbours.direction(set[k]);
-      double vq = problem.Level(q);
-      problem.Polish(&q, &vq, 10.0 * spacing);
+      Vec3 q;
+      double vq;
+      if (const auto it = polished.find(set[k]); it != polished.end()) {
+        q = it->second.r;
+        vq = it->second.v;
+      } else {
+        q = neighbours.direction(set[k]);
+        const ProbeSample at_q = probe.At(q);
+        vq = problem.LevelOf(at_q);
+        problem.Polish(&q, &vq, 10.0 * spacing, at_q);
+      }
       const bool on_cone = std::any_of(cones.begin(), cones.end(), [&](const Cone& c) {
         return cone_distance(c, q) < kOnCone_rad;
       });

@@ -7,7 +7,9 @@
 // exact field evaluations around the whole circle stay at zero; what no cone explains
 // is grouped again and refined to its deepest point (simplex, then Gauss-Newton), as a
 // point or a curve with its extent. The ground's no-field region takes no part: its
-// zeros are not nulls.
+// zeros are not nulls. Cost: a candidate cone is checked at 3 of its points before the
+// rest; the sets no cone explains stop being refined once the list (--max-nulls) is
+// full of exact zeros, which nothing found later can displace.
 //
 // FindNullCrossings then walks a principal plane's whole great circle and refines each
 // minimum of the null field on it: where the loci cross the plane (what a cut plot marks).

@@ -10,6 +10,20 @@
 #include "engine/rounding_floor.h"
 
 namespace lobecast {
+namespace {
+
+// Batches of at least this many directions, of arrays of at least this many sources
+// (images counted), go through a FieldPlan of their own with the auto method: the
+// fast path's error (1e-9 of the batch's largest |rE|) does not move what these
+// batches decide (which samples bracket a beam edge, a null or an axial-ratio edge;
+// the sequential refinements after them stay exact), and below these sizes the direct
+// sum is the cheaper route anyway (engine/field/method_cost.cpp).
+constexpr std::size_t kFastBatchDirections = 4096;
+// Smaller batches run on one thread (PatternProbe::At).
+constexpr std::size_t kParallelBatchDirections = 1024;
+constexpr std::size_t kFastBatchSources = 8192;
+
+}  // namespace
 
 SphericalAngles AnglesOf(const Vec3& r) {
   SphericalAngles s;
@@ -60,9 +74,10 @@ PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_
                            double radiated_power_w)
     : array_(array),
       currents_(currents_a),
-      // Sources only: every At() call brings its own directions (direct sums).
+      // Sources only: every At() call brings its own directions (direct sums, one
+      // thread; large batches get a plan of their own).
       plan_(std::make_shared<const FieldPlan>(array, Directions::FromAngles({}, {}),
-                                              FieldOptions{0, FieldMethod::kDirect})),
+                                              FieldOptions{1, FieldMethod::kDirect})),
       per_v2_(DirectivityPerSquaredField(radiated_power_w)),
       floor_v_(FieldFloor_v(array, currents_a)) {}
 
@@ -79,8 +94,22 @@ std::vector<ProbeSample> PatternProbe::At(const std::vector<Vec3>& r_hat) const 
     theta[i] = s.theta_rad;
     phi[i] = s.phi_rad;
   }
-  // Exact sums (null depths reach rounding) on the plan built once for the sources.
-  const FarField f = plan_->ExecuteAt(currents_, Directions::FromAngles(theta, phi));
+  // Exact sums (null depths reach rounding) on the plan built once for the sources; a
+  // large batch of a large array (a cut's samples, the axial-ratio sampling) gets a plan
+  // of its own, whose auto choice takes the fast path where it is cheaper.
+  // Batches below kParallelBatchDirections run on one thread: the refinements'
+  // thousands of small calls would otherwise keep a second thread spinning between
+  // them (OpenMP's wait policy) for no gain.
+  FarField f;
+  if (r_hat.size() < kParallelBatchDirections) {
+    f = plan_->ExecuteAt(currents_, Directions::FromAngles(theta, phi));
+  } else {
+    FieldOptions o;
+    o.method = r_hat.size() >= kFastBatchDirections && plan_->num_sources() >= kFastBatchSources
+                   ? FieldMethod::kAuto
+                   : FieldMethod::kDirect;
+    f = FieldPlan(array_, Directions::FromAngles(theta, phi), o).Execute(currents_);
+  }
   evaluations_ += r_hat.size();
   for (std::size_t i = 0; i < r_hat.size(); ++i) {
     ProbeSample& s = out[i];

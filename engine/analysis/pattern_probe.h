@@ -1,8 +1,9 @@
 // Exact pattern values in arbitrary directions, for the off-grid refinement of the
 // pattern analysis. Directions are unit vectors here, not (theta, phi): searches
 // move in a local chart around a point, so the poles and the phi seam need no
-// special cases. Every evaluation runs the direct (exact) sum on one FieldPlan of
-// the sources, built once (FieldPlan::ExecuteAt).
+// special cases. Evaluations run the direct (exact) sum on one FieldPlan of the
+// sources, built once (FieldPlan::ExecuteAt); large batches of large arrays get a plan
+// of their own with the auto method (the fast path where cheaper, pattern_probe.cpp).
 #pragma once
 
 #include <cstddef>

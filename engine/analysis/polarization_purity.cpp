@@ -17,6 +17,10 @@ namespace {
 // rounding goes uphill, into another lobe (the main beam's walks stop there).
 constexpr double kUphill = 1 + 1e-9;
 
+// The axial-ratio edges are located to this bracket in theta, rad: their share of the
+// solid angle is then known to ~1e-12 sr each, far below the 6 digits printed.
+constexpr double kEdgeTolerance_rad = 1e-12;
+
 // XPD in dB of a co/cross pair (floored by CoCrossOf): +inf for a co-polar field whose
 // cross part is below the floor, -inf for the opposite, NaN for no field.
 double XpdDb(const CoCross& c) { return PowerRatioDb(std::norm(c.co), std::norm(c.cross)); }
@@ -28,6 +32,19 @@ bool WithinAxialRatio(const ProbeSample& s, const AnalysisOptions& options) {
   if (options.reference == PolarizationReference::kRightCircular) return p.sense == 1;
   if (options.reference == PolarizationReference::kLeftCircular) return p.sense == -1;
   return true;
+}
+
+// True when every source, images included, lies along one axis: rE is then a complex
+// scalar times the real vector r x (r x u) in every direction, linear (AR = +inf)
+// wherever it is not zero, so no direction is within any finite axial-ratio limit.
+// A PEC image of a dipole along u runs along (-ux, -uy, uz): on the same axis only
+// for vertical and horizontal u.
+bool LinearEverywhere(const Array& array) {
+  if (array.dipoles.empty()) return false;
+  const Vec3& u = array.dipoles.front().orientation;
+  if (array.ground == Ground::kPec && u.z() != 0.0 && (u.x() != 0.0 || u.y() != 0.0)) return false;
+  return std::all_of(array.dipoles.begin(), array.dipoles.end(),
+                     [&](const Dipole& d) { return d.orientation == u || d.orientation == -u; });
 }
 
 }  // namespace
@@ -180,6 +197,7 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
 }
 
 double AxialRatioSolidAngle(const PatternProbe& probe, const AnalysisOptions& options) {
+  if (LinearEverywhere(probe.array())) return 0.0;  // no sampling needed
   const int nphi = options.axial_ratio_phi_planes;
   const double theta_max = probe.array().ground == Ground::kPec ? 0.5 * kPi : kPi;
   const int nt = std::max(
@@ -193,32 +211,82 @@ double AxialRatioSolidAngle(const PatternProbe& probe, const AnalysisOptions& op
   std::vector<bool> in(s.size());
   for (std::size_t i = 0; i < s.size(); ++i) in[i] = WithinAxialRatio(s[i], options);
 
+  // Each edge's bracket [lo, hi] holds a change of the in/out predicate; it shrinks by
+  // false position (the Illinois variant: G. Dahlquist and A. Bjorck, Numerical
+  // Methods, 1974, sec. 6.2.3) on the smooth margin q - q_limit of the edge's
+  // endpoints, with q = ||E_R| - |E_L|| / (|E_R| + |E_L|) = 1 / AR (in limit where
+  // q >= q_limit), and by bisection wherever the margin does not agree with the
+  // predicate (a zero field, the hand of a circular reference) or the bracket shrinks
+  // too slowly. Every edge stops once its bracket is below kEdgeTolerance_rad; all
+  // edges advance together, one engine call per round.
   struct Edge {
     int plane;
     double lo, hi;
     bool in_lo;
+    double g_lo, g_hi;  // margins at lo and hi (NaN: none usable)
+    int retained = 0;   // -1 / +1: lo / hi kept by the last step (Illinois halving)
+    bool bisect = false;
+  };
+  const double q_limit = FromDb(-0.5 * options.axial_ratio_limit_db);  // an amplitude ratio
+  auto margin = [&](const ProbeSample& p) {
+    if (p.no_field) return std::numeric_limits<double>::quiet_NaN();
+    const Polarization pol = PolarizationOf(p.e_theta, p.e_phi, p.floor_v);
+    const double r = std::abs(pol.e_right), l = std::abs(pol.e_left);
+    if (!(r + l > 0.0)) return std::numeric_limits<double>::quiet_NaN();
+    return std::abs(r - l) / (r + l) - q_limit;
   };
   std::vector<Edge> edges;
   for (int k = 0; k < nphi; ++k) {
     for (int i = 0; i < nt; ++i) {
       const std::size_t a = static_cast<std::size_t>(k) * static_cast<std::size_t>(nt + 1) +
                             static_cast<std::size_t>(i);
-      if (in[a] != in[a + 1]) edges.push_back({k, i * dt, (i + 1) * dt, static_cast<bool>(in[a])});
+      if (in[a] != in[a + 1])
+        edges.push_back(
+            {k, i * dt, (i + 1) * dt, static_cast<bool>(in[a]), margin(s[a]), margin(s[a + 1])});
     }
   }
-  // Bisection on the in/out predicate, all edges at once (one engine call per halving).
-  for (int iter = 0; iter < 48 && !edges.empty(); ++iter) {
-    std::vector<Vec3> mid(edges.size());
-    for (std::size_t e = 0; e < edges.size(); ++e)
-      mid[e] = UnitVectorAt(0.5 * (edges[e].lo + edges[e].hi), 2.0 * kPi * edges[e].plane / nphi);
-    const std::vector<ProbeSample> m = probe.At(mid);
-    for (std::size_t e = 0; e < edges.size(); ++e) {
-      const double c = 0.5 * (edges[e].lo + edges[e].hi);
-      if (WithinAxialRatio(m[e], options) == edges[e].in_lo)
-        edges[e].lo = c;
-      else
-        edges[e].hi = c;
+  std::vector<std::size_t> open(edges.size());
+  for (std::size_t e = 0; e < edges.size(); ++e) open[e] = e;
+  for (int iter = 0; iter < 200 && !open.empty(); ++iter) {
+    std::vector<Vec3> mid(open.size());
+    std::vector<double> at(open.size());
+    for (std::size_t o = 0; o < open.size(); ++o) {
+      Edge& e = edges[open[o]];
+      // The margin must say "in" (>= 0) on the inside end and "out" on the other.
+      const double g_in = e.in_lo ? e.g_lo : e.g_hi, g_out = e.in_lo ? e.g_hi : e.g_lo;
+      const bool usable = !e.bisect && g_in >= 0.0 && g_out < 0.0;
+      double x = 0.5 * (e.lo + e.hi);
+      if (usable) {
+        x = e.lo + (e.hi - e.lo) * e.g_lo / (e.g_lo - e.g_hi);
+        // Keep clear of the ends by a tenth of the tolerance, so the bracket shrinks.
+        const double guard = 0.1 * kEdgeTolerance_rad;
+        x = std::clamp(x, e.lo + guard, e.hi - guard);
+      }
+      at[o] = x;
+      mid[o] = UnitVectorAt(x, 2.0 * kPi * e.plane / nphi);
     }
+    const std::vector<ProbeSample> m = probe.At(mid);
+    std::vector<std::size_t> still;
+    for (std::size_t o = 0; o < open.size(); ++o) {
+      Edge& e = edges[open[o]];
+      const double x = at[o], g = margin(m[o]);
+      const double width = e.hi - e.lo;
+      if (WithinAxialRatio(m[o], options) == e.in_lo) {
+        e.lo = x;
+        e.g_lo = g;
+        if (e.retained == 1) e.g_hi *= 0.5;  // the same end kept twice: Illinois
+        e.retained = 1;
+      } else {
+        e.hi = x;
+        e.g_hi = g;
+        if (e.retained == -1) e.g_lo *= 0.5;
+        e.retained = -1;
+      }
+      // A step that kept more than half of the bracket: the next one bisects.
+      e.bisect = e.hi - e.lo > 0.5 * width;
+      if (e.hi - e.lo > kEdgeTolerance_rad) still.push_back(open[o]);
+    }
+    open.swap(still);
   }
   // Per plane: int sin(theta) dtheta over the in-limit intervals = sum (cos a - cos b).
   std::vector<double> plane(static_cast<std::size_t>(nphi), 0.0);

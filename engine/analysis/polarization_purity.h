@@ -33,8 +33,10 @@ PolarizationPurity AnalyzePolarization(const PatternProbe& probe, const GridNeig
 // reference only the reference hand: the trapezoid rule over axial_ratio_phi_planes
 // phi planes (spectrally accurate for the periodic integrand) of the exact integral
 // of sin(theta) over the in-limit theta intervals of each plane, whose edges are
-// found by bisection from a axial_ratio_theta_step_deg sampling. Zero-field
-// directions and the ground's no-field region count as outside.
+// found from a axial_ratio_theta_step_deg sampling (false position and bisection,
+// all edges in one engine call per round). Zero-field directions and the ground's
+// no-field region count as outside. Sources all along one axis (images included)
+// radiate a linear field everywhere: 0 without sampling.
 double AxialRatioSolidAngle(const PatternProbe& probe, const AnalysisOptions& options);
 
 }  // namespace lobecast

@@ -3,6 +3,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <functional>
+#include <queue>
 
 #include "engine/analysis/beam.h"
 #include "engine/decibels.h"
@@ -17,6 +19,10 @@ constexpr double kSameLobe_rad = 1e-4;
 // Grid candidates this far below the listing threshold are refined only while looking
 // for the highest side lobe: a coarse grid can undersample a lobe by several dB.
 constexpr double kCandidateMargin_db = 10.0;
+
+// The least rise (dB) from a grid value to the refined lobe that the early stop of a
+// full side-lobe list allows for (FindLobes).
+constexpr double kRiseFloor_db = 3.0;
 
 }  // namespace
 
@@ -61,8 +67,25 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
   std::vector<Vec3> accepted;
   std::vector<Lobe> sides;
   std::size_t refined = 0;
+  // The largest rise from a candidate's grid value to its refined maximum so far.
+  double rise = 1.0;
+  // The max_side_lobes + 1 highest side-lobe levels found, lowest on top.
+  std::priority_queue<double, std::vector<double>, std::greater<>> listed;
   for (const Candidate& c : cands) {
     if (c.value < worth && out.highest_side_lobe) break;
+    // Once the list is full (and so truncated), a candidate whose grid value, raised by
+    // the square of the largest rise met (in dB twice it; at least kRiseFloor_db, at
+    // most kCandidateMargin_db), stays below the lowest listed lobe can neither enter
+    // the list nor be the highest: the candidates come highest first, so the rest are
+    // not refined.
+    if (listed.size() > options.max_side_lobes) {
+      const double reach =
+          std::clamp(rise * rise, FromDb(kRiseFloor_db), FromDb(kCandidateMargin_db));
+      if (c.value * reach < listed.top()) {
+        out.truncated = true;
+        break;
+      }
+    }
     if (refined == max_refined) {
       out.truncated = true;
       break;
@@ -71,6 +94,7 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
     const RefinedMaximum m =
         RefineMaximum(probe, neighbours.direction(c.node), 0.5 * neighbours.spacing_rad(),
                       options.refine_tolerance_deg * kDegree, options.max_evaluations_per_search);
+    if (c.value > 0.0) rise = std::max(rise, m.directivity / c.value);
     if (AngleBetween(m.r_hat, peak) < kSameLobe_rad) continue;
     if (std::any_of(accepted.begin(), accepted.end(),
                     [&](const Vec3& r) { return AngleBetween(r, m.r_hat) < kSameLobe_rad; }))
@@ -88,7 +112,11 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
     }
     if (!out.highest_side_lobe || lobe.directivity > out.highest_side_lobe->directivity)
       out.highest_side_lobe = lobe;
-    if (m.directivity >= listing) sides.push_back(lobe);
+    if (m.directivity >= listing) {
+      sides.push_back(lobe);
+      listed.push(m.directivity);
+      if (listed.size() > options.max_side_lobes + 1) listed.pop();
+    }
   }
   auto by_level = [](const Lobe& a, const Lobe& b) { return a.directivity > b.directivity; };
   std::sort(sides.begin(), sides.end(), by_level);
