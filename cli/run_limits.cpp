@@ -39,6 +39,10 @@ void AddRunLimitOptions(CLI::App* cmd, RunLimits& limits) {
       ->check(NumberIn(1e-6, 1e9, "GB"));
 }
 
+double MemoryLimitBytes(const RunLimits& limits) {
+  return 1e9 * (limits.max_memory_gb > 0 ? limits.max_memory_gb : PhysicalMemoryGb());
+}
+
 void CheckRunLimits(const RunEstimate& estimate, const RunLimits& limits, const std::string& input,
                     bool quiet) {
   const double memory_gb = limits.max_memory_gb > 0 ? limits.max_memory_gb : PhysicalMemoryGb();

@@ -20,6 +20,9 @@ struct RunSize {
   FieldMethod method = FieldMethod::kAuto;
   bool resistance_matrix = false;  // the N x N matrix stored (--resistance-matrix, or N <= 4096)
   int threads = 0;                 // 0: all cores (ResolveThreads)
+  // Streamed (ComputePatternBlocks into the file, engine/pattern_stream.h): the
+  // result is never whole in memory, only a block and the analysis' view.
+  bool streamed = false;
 };
 
 struct RunEstimate {
