@@ -1,7 +1,5 @@
 #include "cli/run_limits.h"
 
-#include <unistd.h>
-
 #include <cstdio>
 
 #include "cli/option_checks.h"
@@ -13,11 +11,7 @@ namespace {
 // A run expected to take longer than this is announced before it starts.
 constexpr double kAnnounceSeconds = 5;
 
-double PhysicalMemoryGb() {
-  const long pages = ::sysconf(_SC_PHYS_PAGES);
-  const long page = ::sysconf(_SC_PAGESIZE);
-  return pages > 0 && page > 0 ? static_cast<double>(pages) * static_cast<double>(page) / 1e9 : 0;
-}
+double PhysicalMemoryGb() { return PhysicalMemoryBytes() / 1e9; }
 
 std::string Number(double v) {
   char buf[32];

@@ -1,5 +1,7 @@
 #include "engine/run_estimate.h"
 
+#include <unistd.h>
+
 #include <algorithm>
 #include <cstdio>
 
@@ -58,6 +60,12 @@ std::string RunEstimate::Describe() const {
   char mem[48];
   std::snprintf(mem, sizeof mem, "%.2g GB", memory_bytes / 1e9);
   return std::string(buf) + ": about " + Duration(seconds()) + " and " + mem + " of memory";
+}
+
+double PhysicalMemoryBytes() {
+  const long pages = ::sysconf(_SC_PHYS_PAGES);
+  const long page = ::sysconf(_SC_PAGESIZE);
+  return pages > 0 && page > 0 ? static_cast<double>(pages) * static_cast<double>(page) : 0;
 }
 
 RunEstimate EstimateRun(const RunSize& size) {

@@ -42,4 +42,8 @@ struct RunEstimate {
 // chooses it, and every limit follows.
 RunEstimate EstimateRun(const RunSize& size);
 
+// The machine's physical memory, bytes (0 when unknown): the default memory limit of
+// a run (cli/run_limits.h) and of reading a whole result (io/hdf5/result_reader.h).
+double PhysicalMemoryBytes();
+
 }  // namespace lobecast

@@ -15,8 +15,10 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/pattern.h"
 #include "engine/pattern_stream.h"
+#include "engine/run_estimate.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "io/input_error.h"
 #include "test_util.h"
 
 namespace lobecast {
@@ -224,6 +226,47 @@ TEST(PatternStream, SubGridAnalysisAgreesWithTheWholeGrid) {
       }
     }
   }
+}
+
+// A result whose grid would not fit in memory is refused by the reader (report,
+// export, plot, link, exposure read the whole grid) before its grid datasets are
+// read, naming both sizes; one that fits is read as before.
+TEST(PatternStream, ReaderRefusesAGridLargerThanTheMemory) {
+  const fs::path dir = testing::TempWorkDir("pattern-stream", "reader");
+  const Case c = Cases()[0];
+  const AngularGrid grid = Grid(2.0);
+  const std::string path = (dir / "r.h5").string();
+  WriteResult(path, c.array, c.array.currents,
+              ComputePattern(c.array, c.array.currents, grid, Options(c.method)), ResultMetadata{});
+  const double need = kReadBytesPerDirection * static_cast<double>(grid.size());
+  EXPECT_EQ(ReadResult(path, need).result.grid.size(), grid.size());
+  try {
+    ReadResult(path, need / 2);
+    ADD_FAILURE() << "a grid above the limit was read";
+  } catch (const InputError& e) {
+    EXPECT_THAT(e.what(), HasSubstr("16471 directions needs about 0.00133 GB"));
+    EXPECT_THAT(e.what(), HasSubstr("above the 0.000667 GB available"));
+  }
+}
+
+// The estimate behind the automatic choice: in memory a 1e8-direction grid needs
+// its ~65 bytes a direction; streamed only a block and the view, whatever the grid.
+TEST(PatternStream, StreamedEstimateIsBoundedByTheBlock) {
+  RunSize size;
+  size.dipoles = 16;
+  size.directions = 100'000'000;
+  const double in_memory = EstimateRun(size).memory_bytes;
+  size.streamed = true;
+  const double streamed = EstimateRun(size).memory_bytes;
+  EXPECT_GT(in_memory, 65e8);
+  EXPECT_LT(streamed, 0.5e9);
+  size.directions *= 10;
+  EXPECT_EQ(EstimateRun(size).memory_bytes, streamed);
+  // A grid within one block costs no more streamed than in memory, beyond the view.
+  size.directions = 1000;
+  const double small_streamed = EstimateRun(size).memory_bytes;
+  size.streamed = false;
+  EXPECT_LE(small_streamed, 2 * EstimateRun(size).memory_bytes);
 }
 
 // ------------------------------------------------------------------ the command
