@@ -184,7 +184,7 @@ void RunStreamed(const ComputeArgs& args, const ArrayDescription& desc,
       desc.array, desc.currents, desc.grid, with_bar,
       [&](std::size_t first_row, const PatternResult& rows) {
         writer.WriteRows(first_row, RowsOf(rows, 0, rows.grid.theta_deg.size()));
-        if (!args.no_analysis) sampler.Add(first_row, rows);
+        sampler.Add(first_row, rows);
       });
   bar.Finish();
   WriteResultTail(writer, header);
@@ -193,8 +193,8 @@ void RunStreamed(const ComputeArgs& args, const ArrayDescription& desc,
 
   std::optional<PatternAnalysis> analysis;
   AnalysisOptions analysis_options;
-  // The summary's text reads the view (it holds the peak); without an analysis the
-  // view is still built from the peak's rows.
+  // The summary's text reads the view (it holds the peak), so it is built with or
+  // without an analysis.
   const PatternResult view = sampler.Finish(desc.array, desc.currents, header, options.field);
   const std::string seen =
       sampler.stride() == 1

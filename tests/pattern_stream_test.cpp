@@ -26,6 +26,7 @@ namespace {
 
 namespace fs = std::filesystem;
 using ::testing::HasSubstr;
+using ::testing::Not;
 using testing::TestArray;
 
 template <typename V>
@@ -322,6 +323,17 @@ TEST(PatternStream, TooSmallADiskIsRefusedBeforeTheWork) {
                "LOBECAST_TEST_FREE_BYTES=7000000")
           .exit_code,
       0);
+}
+
+// Without an analysis the summary still names the grid peak (from the view).
+TEST(PatternStream, StreamWithoutAnalysisStillPrintsThePeak) {
+  const fs::path dir = testing::TempWorkDir("pattern-stream", "no-analysis");
+  const auto r =
+      Lobecast("compute --stream --no-analysis " + testing::Quote(Sample("broadside-line-8.toml")) +
+               " -o " + (dir / "r.h5").string());
+  ASSERT_EQ(r.exit_code, 0) << r.out;
+  EXPECT_THAT(r.out, HasSubstr("peak         D = "));
+  EXPECT_THAT(r.out, Not(HasSubstr("analysis on")));
 }
 
 // What cannot stream yet is refused when asked for.
