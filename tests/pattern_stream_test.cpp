@@ -8,6 +8,7 @@
 
 #include <cstring>
 #include <filesystem>
+#include <fstream>
 #include <string>
 #include <vector>
 
@@ -323,6 +324,27 @@ TEST(PatternStream, TooSmallADiskIsRefusedBeforeTheWork) {
                "LOBECAST_TEST_FREE_BYTES=7000000")
           .exit_code,
       0);
+}
+
+// Above the memory limit the run streams by itself (where it was refused before)
+// and says why: a 0.15 deg grid (2.9 M directions) needs ~0.3 GB in memory by the
+// estimate, ~0.23 GB streamed (engine/run_estimate.cpp).
+TEST(PatternStream, RunAboveTheMemoryLimitStreamsByItself) {
+  const fs::path dir = testing::TempWorkDir("pattern-stream", "auto");
+  const fs::path input = dir / "fine.toml";
+  std::ofstream(input) << "frequency = 433.92e6\n[grid]\n"
+                          "theta = { start = 0, stop = 180, step = 0.15 }\n"
+                          "phi = { start = 0, stop = 360, step = 0.15 }\n"
+                          "[[dipole]]\nposition = [0, 0, 0]\norientation = [1, 0, 0]\n"
+                          "length = 0.01\ncurrent = { magnitude = 1.0, phase = 0.0 }\n";
+  const std::string out = (dir / "fine.h5").string();
+  const auto r = Lobecast("compute --max-memory-gb 0.26 " + input.string() + " -o " + out);
+  ASSERT_EQ(r.exit_code, 0) << r.out;
+  EXPECT_THAT(r.out, HasSubstr("streamed     to the file in blocks of theta rows as they were "
+                               "finished (the in-memory estimate of 0.298 GB is above the memory "
+                               "limit of 0.26 GB)"));
+  EXPECT_THAT(r.out, HasSubstr("analysis on  a 1-in-4 sub-grid of the streamed grid"));
+  EXPECT_EQ(ReadResult(out).result.grid.size(), 1201u * 2401u);
 }
 
 // Without an analysis the summary still names the grid peak (from the view).
