@@ -226,40 +226,23 @@ std::vector<std::size_t> PeakTracker::candidate_indices() const {
   return out;
 }
 
-PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
-                             const AngularGrid& grid, const PatternOptions& options) {
-  PatternResult all;
-  const auto n = static_cast<Eigen::Index>(grid.size());
-  const PatternBlockSink gather = [&](std::size_t first_row, const PatternResult& b) {
-    if (all.intensity_w_sr.size() == 0) {
-      all.field.e_theta.resize(n), all.field.e_phi.resize(n);
-      all.intensity_w_sr.resize(n), all.directivity.resize(n);
-      all.axial_ratio_db.resize(n), all.tilt_deg.resize(n);
-      all.sense.resize(static_cast<std::size_t>(n));
-    }
-    const auto at = static_cast<Eigen::Index>(first_row * grid.phi_deg.size());
-    const Eigen::Index len = b.directivity.size();
-    all.field.e_theta.segment(at, len) = b.field.e_theta;
-    all.field.e_phi.segment(at, len) = b.field.e_phi;
-    all.intensity_w_sr.segment(at, len) = b.intensity_w_sr;
-    all.directivity.segment(at, len) = b.directivity;
-    all.axial_ratio_db.segment(at, len) = b.axial_ratio_db;
-    all.tilt_deg.segment(at, len) = b.tilt_deg;
-    std::copy(b.sense.begin(), b.sense.end(), all.sense.begin() + at);
-  };
-  PatternResult r = ComputePatternBlocks(array, currents, grid, options, gather);
-  r.field = std::move(all.field);
-  r.intensity_w_sr = std::move(all.intensity_w_sr);
-  r.directivity = std::move(all.directivity);
-  r.axial_ratio_db = std::move(all.axial_ratio_db);
-  r.tilt_deg = std::move(all.tilt_deg);
-  r.sense = std::move(all.sense);
-  return r;
+namespace {
+
+// The grid peak (PeakIndex's) into the summary; phi undefined on the z axis.
+void SetPeak(ComputeSummary& s, const AngularGrid& grid, std::size_t at, double value) {
+  const std::size_t np = grid.phi_deg.size();
+  s.peak_directivity = value;
+  s.peak_theta_deg = grid.theta_deg[at / np];
+  s.peak_phi_deg = grid.phi_deg[at % np];
+  if (s.peak_theta_deg == 0.0 || s.peak_theta_deg == 180.0)
+    s.peak_phi_deg = std::numeric_limits<double>::quiet_NaN();  // on the z axis
 }
 
-PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& currents,
-                                   const AngularGrid& grid, const PatternOptions& options,
-                                   const PatternBlockSink& sink) {
+// ComputePatternBlocks; with finish_blocks false the blocks carry only their
+// unfloored field and the summary no peak (ComputePattern finishes the whole grid).
+PatternResult RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
+                        const AngularGrid& grid, const PatternOptions& options,
+                        const PatternBlockSink& sink, bool finish_blocks) {
   Validate(array);
   ValidateCurrents(array, currents);
   std::string why;
@@ -335,59 +318,104 @@ PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& c
     const std::size_t rows = std::min(rows_per_block, grid.theta_deg.size() - row);
     b.grid.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
                             grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
-    const FieldPlan plan(array, Directions::FromGrid(b.grid), options.field);
+    // Held only while the block's field is computed: gone before the block is
+    // finished and handed over, so plan and finished rows never coexist.
+    std::optional<FieldPlan> plan;
+    plan.emplace(array, Directions::FromGrid(b.grid), options.field);
     s.seconds_plan += SecondsSince(tb);
     tb = Clock::now();
-    s.num_sources = plan.num_sources();
-    const bool fast = plan.method_used() == FieldMethod::kFast;
+    s.num_sources = plan->num_sources();
+    const bool fast = plan->method_used() == FieldMethod::kFast;
     ++blocks;
     if (fast) ++fast_blocks;
     std::vector<FastTransform>& used = s.fast_transforms_used;
-    const FastTransform transform = plan.fast_transform();
+    const FastTransform transform = plan->fast_transform();
     if (transform != FastTransform::kNone &&
         std::find(used.begin(), used.end(), transform) == used.end()) {
       used.push_back(transform);
     }
     // Sub-chunks only so progress can be reported; the fast path transforms the
     // whole block at once, so it runs as one.
-    const std::size_t nb = plan.num_directions();
-    b.field.e_theta.resize(static_cast<Eigen::Index>(nb));
-    b.field.e_phi.resize(static_cast<Eigen::Index>(nb));
+    const std::size_t nb = plan->num_directions();
     const std::size_t chunk =
         fast ? nb
-             : std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan.num_sources()));
+             : std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan->num_sources()));
+    if (chunk < nb) {
+      b.field.e_theta.resize(static_cast<Eigen::Index>(nb));
+      b.field.e_phi.resize(static_cast<Eigen::Index>(nb));
+    }
     const std::size_t offset = row * np;
     for (std::size_t first = 0; first < nb; first += chunk) {
       const std::size_t count = std::min(chunk, nb - first);
-      plan.ExecuteRange(currents, first, count, part);
+      plan->ExecuteRange(currents, first, count, part);
       s.field_error_bound_relative =
           std::max(s.field_error_bound_relative, part.error_bound_relative);
-      const auto at = static_cast<Eigen::Index>(first);
-      const auto len = static_cast<Eigen::Index>(count);
-      b.field.e_theta.segment(at, len) = part.e_theta;
-      b.field.e_phi.segment(at, len) = part.e_phi;
+      if (count == nb) {  // the block in one chunk: taken over, not copied
+        b.field.e_theta.swap(part.e_theta);
+        b.field.e_phi.swap(part.e_phi);
+        part = FarField();
+      } else {
+        const auto at = static_cast<Eigen::Index>(first);
+        const auto len = static_cast<Eigen::Index>(count);
+        b.field.e_theta.segment(at, len) = part.e_theta;
+        b.field.e_phi.segment(at, len) = part.e_phi;
+      }
       if (options.progress) {
         options.progress(static_cast<double>(offset + first + count) / static_cast<double>(n));
       }
     }
+    plan.reset();
     s.seconds_field += SecondsSince(tb);
     tb = Clock::now();
-    DeriveFromField(b, options.field.num_threads);
-    peak.Add(offset, b.directivity);
+    if (finish_blocks) {
+      DeriveFromField(b, options.field.num_threads);
+      peak.Add(offset, b.directivity);
+    }
     s.seconds_polarization += SecondsSince(tb);
     sink(row, b);
+    // One field buffer per block at a time: a block taken over whole is released
+    // before the next is computed.
+    if (chunk >= nb) b.field = FarField();
   }
   s.field_method_used = fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
   s.message = RouteMessage(s, fast_blocks, blocks, options, power.why);
   s.num_directions = n;
   s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
 
-  const std::size_t at = peak.index();
-  s.peak_directivity = peak.value();
-  s.peak_theta_deg = grid.theta_deg[at / np];
-  s.peak_phi_deg = grid.phi_deg[at % np];
-  if (s.peak_theta_deg == 0.0 || s.peak_theta_deg == 180.0)
-    s.peak_phi_deg = std::numeric_limits<double>::quiet_NaN();  // on the z axis
+  if (finish_blocks) SetPeak(s, grid, peak.index(), peak.value());
+  return r;
+}
+
+}  // namespace
+
+PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& currents,
+                                   const AngularGrid& grid, const PatternOptions& options,
+                                   const PatternBlockSink& sink) {
+  return RunBlocks(array, currents, grid, options, sink, true);
+}
+
+PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
+                             const AngularGrid& grid, const PatternOptions& options) {
+  // The same blocks, gathered; finished (floor, U, D, polarization: per direction,
+  // so the same bits as the streamed blocks') once the plans are gone, so the
+  // grid's derived quantities never sit beside a block's plan: the peak stays the
+  // in-memory result plus one plan. The peak by PeakIndex on the whole grid
+  // (PeakTracker gives the same index, tests/pattern_stream_test.cpp).
+  FarField all;
+  const auto n = static_cast<Eigen::Index>(grid.size());
+  const PatternBlockSink gather = [&](std::size_t first_row, const PatternResult& b) {
+    if (all.e_theta.size() == 0) all.e_theta.resize(n), all.e_phi.resize(n);
+    const auto at = static_cast<Eigen::Index>(first_row * grid.phi_deg.size());
+    all.e_theta.segment(at, b.field.e_theta.size()) = b.field.e_theta;
+    all.e_phi.segment(at, b.field.e_phi.size()) = b.field.e_phi;
+  };
+  PatternResult r = RunBlocks(array, currents, grid, options, gather, false);
+  const auto t0 = Clock::now();
+  r.field = std::move(all);
+  DeriveFromField(r, options.field.num_threads);
+  const Eigen::Index peak = PeakIndex(r.directivity);
+  SetPeak(r.summary, grid, static_cast<std::size_t>(peak), r.directivity[peak]);
+  r.summary.seconds_polarization += SecondsSince(t0);
   return r;
 }
 

@@ -148,8 +148,10 @@ Eigen::Index PeakIndex(const Eigen::VectorXd& directivity);
 // currents_a: the terminal currents (A peak), one per dipole (ValidateCurrents).
 // Throws InvalidArgument for an invalid array, currents or grid, or when the
 // currents radiate no power (directivity undefined).
-// All blocks of ComputePatternBlocks gathered into one result: the in-memory and
-// the streamed job are one code path, so their values agree bit for bit.
+// The blocks of ComputePatternBlocks gathered into one result and finished once
+// the plans are gone (so the grid's derived quantities never sit beside a plan):
+// the same blocks and the same per-direction DeriveFromField as the streamed job,
+// so their values agree bit for bit (tests/pattern_stream_test.cpp).
 PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents_a,
                              const AngularGrid& grid, const PatternOptions& options = {});
 
