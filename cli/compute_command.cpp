@@ -16,12 +16,14 @@
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
+#include "engine/pattern_stream.h"
 #include "engine/sweep/frequency_sweep.h"
 #include "io/hdf5/analysis_reader.h"
 #include "io/hdf5/analysis_writer.h"
 #include "io/hdf5/coupling_writer.h"
 #include "io/hdf5/result_reader.h"
 #include "io/hdf5/result_writer.h"
+#include "io/hdf5/schema.h"
 #include "io/hdf5/sweep_reader.h"
 #include "io/hdf5/sweep_writer.h"
 #include "io/input/array_reader.h"
@@ -34,6 +36,7 @@
 #include "io/text/report_text.h"
 #include "io/text/summary_text.h"
 #include "io/text/sweep_text.h"
+#include "io/text/text_format.h"
 
 namespace lobecast::cli {
 namespace {
@@ -58,6 +61,7 @@ struct ComputeArgs {
   double power_tolerance = PowerQuadratureOptions{}.target_relative;
   bool power_tolerance_given = false;
   RunLimits limits;
+  bool stream = false;  // --stream
 };
 
 // Refuses options that do not apply to what was asked (exit 2, before any work).
@@ -132,6 +136,101 @@ FrequencySweep RunSweep(const ArrayDescription& desc, const PatternResult& resul
   }
 }
 
+// ---- Streaming: the grid in blocks of theta rows straight into the file ----
+
+// Why a run streams: "" (in memory), "--stream", or the in-memory estimate above
+// the memory limit. What cannot stream yet is refused when asked, and left to the
+// memory limit's refusal when not.
+std::string WhyStream(const ComputeArgs& args, const ArrayDescription& desc,
+                      const RunEstimate& in_memory) {
+  std::string why;
+  const double limit = MemoryLimitBytes(args.limits);
+  if (args.stream) {
+    why = "asked: --stream";
+  } else if (limit > 0 && in_memory.memory_bytes > limit) {
+    why = text::Printf("the in-memory estimate of %.3g GB is above the memory limit of %.3g GB",
+                       in_memory.memory_bytes / 1e9, limit / 1e9);
+  } else {
+    return "";
+  }
+  const auto cannot = [&](const char* option, const char* what) {
+    if (!args.stream) return std::string();  // the memory limit refuses it instead
+    BadOption("--stream", std::string("it with ") + what,
+              std::string("--stream without ") + option);
+  };
+  if (!args.plots_dir.empty()) return cannot("--plots", "--plots (plots read the whole grid)");
+  if (!desc.frequencies_hz.empty()) {
+    return cannot("a frequency sweep",
+                  "a frequency sweep ('frequencies': every frequency in memory)");
+  }
+  if (NeedsCoupling(desc.ports, desc.wires)) {
+    return cannot("a port circuit",
+                  "a port circuit (drive, load or wire keys: its gain table is written whole)");
+  }
+  return why;
+}
+
+// The streamed compute: each finished block of rows goes to the file and to the
+// analysis' view (engine/pattern_stream.h), then is dropped; the file appears
+// under its name only when complete (PatternFileWriter, io/output_file.h).
+void RunStreamed(const ComputeArgs& args, const ArrayDescription& desc,
+                 const PatternOptions& options, const std::string& why, const std::string& output,
+                 std::chrono::steady_clock::time_point t0) {
+  ProgressBar bar(!args.quiet);
+  PatternOptions with_bar = options;
+  with_bar.progress = [&bar](double f) { bar.Update(f); };
+  PatternFileWriter writer(output, desc.array, desc.currents, desc.grid, MetadataOf(desc));
+  PatternSampler sampler(desc.grid, kStreamViewDirections);
+  const PatternResult header = ComputePatternBlocks(
+      desc.array, desc.currents, desc.grid, with_bar,
+      [&](std::size_t first_row, const PatternResult& rows) {
+        writer.WriteRows(first_row, RowsOf(rows, 0, rows.grid.theta_deg.size()));
+        sampler.Add(first_row, rows);
+      });
+  bar.Finish();
+  WriteResultTail(writer, header);
+  writer.WriteStringAttribute(std::string(schema::kSummaryGroup),
+                              std::string(schema::kStreamedAttribute), why);
+
+  std::optional<PatternAnalysis> analysis;
+  AnalysisOptions analysis_options;
+  // The summary's text reads the view (it holds the peak), so it is built with or
+  // without an analysis.
+  const PatternResult view = sampler.Finish(desc.array, desc.currents, header, options.field);
+  const std::string seen =
+      sampler.stride() == 1
+          ? std::string("the whole streamed grid")
+          : text::Printf(
+                "a 1-in-%zu sub-grid of the streamed grid (%zu theta x %zu phi, with the "
+                "peak's row and column), refined exactly",
+                sampler.stride(), view.grid.theta_deg.size(), view.grid.phi_deg.size());
+  if (!args.no_analysis) {
+    const auto ref = ParseReference(args.reference);
+    analysis_options.reference = ref ? *ref : AutoReference(view);
+    analysis_options.max_nulls = args.max_nulls;
+    analysis = AnalyzeOrWarn(desc, view, analysis_options);
+    if (analysis) {
+      WriteAnalysis(writer, *analysis, analysis_options);
+      writer.WriteStringAttribute(std::string(schema::kAnalysisGroup),
+                                  std::string(schema::kAnalysisGridAttribute),
+                                  "analysis on " + seen);
+    }
+  }
+  writer.Finish();
+  const double wall = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+  if (!args.quiet) {
+    std::fputs(text::DescribeResult(desc, view, output, wall, &desc.grid).c_str(), stdout);
+    std::printf("streamed     to the file in blocks of theta rows as they were finished (%s)\n",
+                why.c_str());
+    if (analysis) {
+      std::printf("analysis on  %s\n", seen.c_str());
+      std::fputs(text::AnalysisBrief(*analysis).c_str(), stdout);
+    }
+    std::fflush(stdout);
+    std::fprintf(stderr, "%s\n", std::string(kSafetyLine).c_str());
+  }
+}
+
 void RunCompute(const ComputeArgs& args) {
   RefuseInapplicable(args);
   RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
@@ -150,12 +249,19 @@ void RunCompute(const ComputeArgs& args) {
   size.resistance_matrix =
       args.resistance_matrix || size.dipoles <= PatternOptions{}.resistance_matrix_max_dipoles;
   size.threads = args.threads;
+  const std::string stream_why = WhyStream(args, desc, EstimateRun(size));
+  size.streamed = !stream_why.empty();
   CheckRunLimits(EstimateRun(size), args.limits, args.input, args.quiet);
+  const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
+  if (size.streamed) {
+    CheckOutputFits(output,
+                    EstimatedResultBytes(size.dipoles, size.directions, size.resistance_matrix),
+                    "the streamed result");
+  }
   const std::optional<CouplingResult> coupling =
       SolveArrayCircuit(desc, args.threads, args.resistance_matrix);
 
   StopForTestAt("compute");  // test hook (io/output_file.h)
-  ProgressBar bar(!args.quiet);
   PatternOptions options;
   options.field.num_threads = args.threads;
   options.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
@@ -163,6 +269,8 @@ void RunCompute(const ComputeArgs& args) {
   options.store_resistance_matrix = args.resistance_matrix;
   options.power_method = *PowerMethodFromString(args.power_method);  // validated by CLI11
   options.power_quadrature.target_relative = args.power_tolerance;
+  if (size.streamed) return RunStreamed(args, desc, options, stream_why, output, t0);
+  ProgressBar bar(!args.quiet);
   options.progress = [&bar](double f) { bar.Update(f); };
   const PatternResult result = ComputePattern(desc.array, desc.currents, desc.grid, options);
   bar.Finish();
@@ -185,7 +293,6 @@ void RunCompute(const ComputeArgs& args) {
                      options, analysis_options, args.quiet);
   }
 
-  const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
   const ResultMetadata meta = MetadataOf(desc);
   ResultWriteOptions write_options;
   if (analysis || coupling || sweep) {
@@ -309,6 +416,13 @@ void AddComputeCommand(CLI::App& app) {
       ->capture_default_str()
       ->check(WholeNumberAtLeast(1, "null loci"));
   AddRunLimitOptions(cmd, args->limits);
+  cmd->add_flag("--stream", args->stream,
+                "Compute the grid in blocks of theta rows, each written to the result file as "
+                "it is finished (memory: a block and the array, not the grid); the analysis "
+                "sees a sub-grid of at most 2^18 directions plus the peak's row and column, "
+                "refined exactly. Chosen by itself when the in-memory estimate is above the "
+                "memory limit. Refused with --plots, a frequency sweep or driven/loaded ports; "
+                "a result that would not fit on the disk is refused before the work");
   cmd->add_flag("--no-analysis", args->no_analysis,
                 "Skip the pattern analysis (beams, lobes, nulls, polarization purity) that "
                 "is otherwise stored under /summary/analysis");

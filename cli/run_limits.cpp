@@ -1,7 +1,5 @@
 #include "cli/run_limits.h"
 
-#include <unistd.h>
-
 #include <cstdio>
 
 #include "cli/option_checks.h"
@@ -13,11 +11,7 @@ namespace {
 // A run expected to take longer than this is announced before it starts.
 constexpr double kAnnounceSeconds = 5;
 
-double PhysicalMemoryGb() {
-  const long pages = ::sysconf(_SC_PHYS_PAGES);
-  const long page = ::sysconf(_SC_PAGESIZE);
-  return pages > 0 && page > 0 ? static_cast<double>(pages) * static_cast<double>(page) / 1e9 : 0;
-}
+double PhysicalMemoryGb() { return PhysicalMemoryBytes() / 1e9; }
 
 std::string Number(double v) {
   char buf[32];
@@ -37,6 +31,10 @@ void AddRunLimitOptions(CLI::App* cmd, RunLimits& limits) {
                   "Refuse a run estimated to need more memory than this (GB) before it starts; "
                   "default: the machine's physical memory")
       ->check(NumberIn(1e-6, 1e9, "GB"));
+}
+
+double MemoryLimitBytes(const RunLimits& limits) {
+  return 1e9 * (limits.max_memory_gb > 0 ? limits.max_memory_gb : PhysicalMemoryGb());
 }
 
 void CheckRunLimits(const RunEstimate& estimate, const RunLimits& limits, const std::string& input,

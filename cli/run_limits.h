@@ -27,4 +27,9 @@ void AddRunLimitOptions(CLI::App* cmd, RunLimits& limits);
 void CheckRunLimits(const RunEstimate& estimate, const RunLimits& limits, const std::string& input,
                     bool quiet);
 
+// Streaming: the memory limit in bytes (--max-memory-gb, else the machine's physical
+// memory; 0 when unknown), the one `compute` compares its in-memory estimate with to
+// decide whether to stream.
+double MemoryLimitBytes(const RunLimits& limits);
+
 }  // namespace lobecast::cli

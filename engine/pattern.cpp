@@ -188,8 +188,63 @@ Eigen::Index PeakIndex(const Eigen::VectorXd& directivity) {
   return i;
 }
 
-PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
-                             const AngularGrid& grid, const PatternOptions& options) {
+void PeakTracker::Add(std::size_t first_index, const Eigen::VectorXd& values) {
+  for (Eigen::Index k = 0; k < values.size(); ++k) {
+    const double v = values[k];
+    if (!(v > max_)) continue;  // not a new prefix maximum
+    max_ = v;
+    // PeakIndex's threshold for this maximum; candidates below it can never qualify.
+    const double threshold = max_ * (1.0 - 1e-9);
+    // Values ascend, so those below it are at the front.
+    std::size_t keep = 0;
+    while (keep < candidates_.size() && candidates_[keep].value < threshold) ++keep;
+    candidates_.erase(candidates_.begin(), candidates_.begin() + static_cast<std::ptrdiff_t>(keep));
+    candidates_.push_back({first_index + static_cast<std::size_t>(k), v});
+  }
+}
+
+const PeakTracker::Candidate* PeakTracker::Peak() const {
+  // Ascending values: the first one within 1e-9 of the maximum.
+  const double threshold = max_ * (1.0 - 1e-9);
+  for (const Candidate& c : candidates_) {
+    if (!(c.value < threshold)) return &c;
+  }
+  return nullptr;
+}
+
+std::size_t PeakTracker::index() const {
+  const Candidate* c = Peak();
+  return c ? c->index : 0;
+}
+
+double PeakTracker::value() const {
+  const Candidate* c = Peak();
+  return c ? c->value : 0.0;
+}
+
+std::vector<std::size_t> PeakTracker::candidate_indices() const {
+  std::vector<std::size_t> out;
+  for (const Candidate& c : candidates_) out.push_back(c.index);
+  return out;
+}
+
+namespace {
+
+// The grid peak (PeakIndex's) into the summary; phi undefined on the z axis.
+void SetPeak(ComputeSummary& s, const AngularGrid& grid, std::size_t at, double value) {
+  const std::size_t np = grid.phi_deg.size();
+  s.peak_directivity = value;
+  s.peak_theta_deg = grid.theta_deg[at / np];
+  s.peak_phi_deg = grid.phi_deg[at % np];
+  if (s.peak_theta_deg == 0.0 || s.peak_theta_deg == 180.0)
+    s.peak_phi_deg = std::numeric_limits<double>::quiet_NaN();  // on the z axis
+}
+
+// ComputePatternBlocks; with finish_blocks false the blocks carry only their
+// unfloored field and the summary no peak (ComputePattern finishes the whole grid).
+PatternResult RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
+                        const AngularGrid& grid, const PatternOptions& options,
+                        const PatternBlockSink& sink, bool finish_blocks) {
   Validate(array);
   ValidateCurrents(array, currents);
   std::string why;
@@ -261,75 +316,126 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
 
   // The grid is planned and computed in blocks of whole theta rows, so the plan's
   // per-direction data (unit vectors, fast-path buffers) is bounded by the block,
-  // not the grid: peak memory is the result itself plus O(block + N). A grid up
-  // to block_directions is one block, exactly as one plan over the whole grid.
+  // not the grid. A grid up to block_directions is one block, exactly as one plan
+  // over the whole grid. Each block is finished (floor, U, D, polarization: all per
+  // direction, so the same bits whatever the blocks) and handed to the sink.
   const std::size_t n = grid.size();
   const std::size_t np = grid.phi_deg.size();
   const std::size_t rows_per_block = std::max<std::size_t>(1, options.block_directions / np);
-  r.field.e_theta.resize(static_cast<Eigen::Index>(n));
-  r.field.e_phi.resize(static_cast<Eigen::Index>(n));
   s.field_method_given = options.field.method;
+  r.field_floor_v = FieldFloor_v(array, currents);
   std::size_t blocks = 0, fast_blocks = 0;
+  PeakTracker peak;
   FarField part;
+  PatternResult b;  // the block being finished
+  b.radiated_power_w = r.radiated_power_w;
+  b.field_floor_v = r.field_floor_v;
+  b.grid.phi_deg = grid.phi_deg;
   for (std::size_t row = 0; row < grid.theta_deg.size(); row += rows_per_block) {
     auto tb = Clock::now();
     const std::size_t rows = std::min(rows_per_block, grid.theta_deg.size() - row);
-    AngularGrid block;
-    block.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
-                           grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
-    block.phi_deg = grid.phi_deg;
-    const FieldPlan plan(array, Directions::FromGrid(block), options.field);
+    b.grid.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
+                            grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
+    // Held only while the block's field is computed: gone before the block is
+    // finished and handed over, so plan and finished rows never coexist.
+    std::optional<FieldPlan> plan;
+    plan.emplace(array, Directions::FromGrid(b.grid), options.field);
     s.seconds_plan += SecondsSince(tb);
     tb = Clock::now();
-    s.num_sources = plan.num_sources();
-    const bool fast = plan.method_used() == FieldMethod::kFast;
+    s.num_sources = plan->num_sources();
+    const bool fast = plan->method_used() == FieldMethod::kFast;
     ++blocks;
     if (fast) ++fast_blocks;
     std::vector<FastTransform>& used = s.fast_transforms_used;
-    const FastTransform transform = plan.fast_transform();
+    const FastTransform transform = plan->fast_transform();
     if (transform != FastTransform::kNone &&
         std::find(used.begin(), used.end(), transform) == used.end()) {
       used.push_back(transform);
     }
     // Sub-chunks only so progress can be reported; the fast path transforms the
     // whole block at once, so it runs as one.
-    const std::size_t nb = plan.num_directions();
+    const std::size_t nb = plan->num_directions();
     const std::size_t chunk =
         fast ? nb
-             : std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan.num_sources()));
+             : std::max<std::size_t>(1, (1u << 22) / std::max<std::size_t>(1, plan->num_sources()));
+    if (chunk < nb) {
+      b.field.e_theta.resize(static_cast<Eigen::Index>(nb));
+      b.field.e_phi.resize(static_cast<Eigen::Index>(nb));
+    }
     const std::size_t offset = row * np;
     for (std::size_t first = 0; first < nb; first += chunk) {
       const std::size_t count = std::min(chunk, nb - first);
-      plan.ExecuteRange(currents, first, count, part);
+      plan->ExecuteRange(currents, first, count, part);
       s.field_error_bound_relative =
           std::max(s.field_error_bound_relative, part.error_bound_relative);
-      const auto at = static_cast<Eigen::Index>(offset + first);
-      const auto len = static_cast<Eigen::Index>(count);
-      r.field.e_theta.segment(at, len) = part.e_theta;
-      r.field.e_phi.segment(at, len) = part.e_phi;
+      if (count == nb) {  // the block in one chunk: taken over, not copied
+        b.field.e_theta.swap(part.e_theta);
+        b.field.e_phi.swap(part.e_phi);
+        part = FarField();
+      } else {
+        const auto at = static_cast<Eigen::Index>(first);
+        const auto len = static_cast<Eigen::Index>(count);
+        b.field.e_theta.segment(at, len) = part.e_theta;
+        b.field.e_phi.segment(at, len) = part.e_phi;
+      }
       if (options.progress) {
         options.progress(power_share + (1.0 - power_share) *
                                            static_cast<double>(offset + first + count) /
                                            static_cast<double>(n));
       }
     }
+    plan.reset();
     s.seconds_field += SecondsSince(tb);
+    tb = Clock::now();
+    if (finish_blocks) {
+      DeriveFromField(b, options.field.num_threads);
+      peak.Add(offset, b.directivity);
+    }
+    s.seconds_polarization += SecondsSince(tb);
+    sink(row, b);
+    // One field buffer per block at a time: a block taken over whole is released
+    // before the next is computed.
+    if (chunk >= nb) b.field = FarField();
   }
   s.field_method_used = fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
   s.message = RouteMessage(s, fast_blocks, blocks, options, power.why);
   s.num_directions = n;
   s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
 
-  t0 = Clock::now();
-  r.field_floor_v = FieldFloor_v(array, currents);
+  if (finish_blocks) SetPeak(s, grid, peak.index(), peak.value());
+  return r;
+}
+
+}  // namespace
+
+PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& currents,
+                                   const AngularGrid& grid, const PatternOptions& options,
+                                   const PatternBlockSink& sink) {
+  return RunBlocks(array, currents, grid, options, sink, true);
+}
+
+PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
+                             const AngularGrid& grid, const PatternOptions& options) {
+  // The same blocks, gathered; finished (floor, U, D, polarization: per direction,
+  // so the same bits as the streamed blocks') once the plans are gone, so the
+  // grid's derived quantities never sit beside a block's plan: the peak stays the
+  // in-memory result plus one plan. The peak by PeakIndex on the whole grid
+  // (PeakTracker gives the same index, tests/pattern_stream_test.cpp).
+  FarField all;
+  const auto n = static_cast<Eigen::Index>(grid.size());
+  const PatternBlockSink gather = [&](std::size_t first_row, const PatternResult& b) {
+    if (all.e_theta.size() == 0) all.e_theta.resize(n), all.e_phi.resize(n);
+    const auto at = static_cast<Eigen::Index>(first_row * grid.phi_deg.size());
+    all.e_theta.segment(at, b.field.e_theta.size()) = b.field.e_theta;
+    all.e_phi.segment(at, b.field.e_phi.size()) = b.field.e_phi;
+  };
+  PatternResult r = RunBlocks(array, currents, grid, options, gather, false);
+  const auto t0 = Clock::now();
+  r.field = std::move(all);
   DeriveFromField(r, options.field.num_threads);
   const Eigen::Index peak = PeakIndex(r.directivity);
-  s.peak_directivity = r.directivity[peak];
-  s.peak_theta_deg = grid.theta_deg[static_cast<std::size_t>(peak) / np];
-  s.peak_phi_deg = grid.phi_deg[static_cast<std::size_t>(peak) % np];
-  if (s.peak_theta_deg == 0.0 || s.peak_theta_deg == 180.0)
-    s.peak_phi_deg = std::numeric_limits<double>::quiet_NaN();  // on the z axis
-  s.seconds_polarization = SecondsSince(t0);
+  SetPeak(r.summary, grid, static_cast<std::size_t>(peak), r.directivity[peak]);
+  r.summary.seconds_polarization += SecondsSince(t0);
   return r;
 }
 

@@ -5,6 +5,7 @@
 #include <cstddef>
 #include <cstdint>
 #include <functional>
+#include <limits>
 #include <optional>
 #include <string>
 #include <string_view>
@@ -147,7 +148,53 @@ Eigen::Index PeakIndex(const Eigen::VectorXd& directivity);
 // currents_a: the terminal currents (A peak), one per dipole (ValidateCurrents).
 // Throws InvalidArgument for an invalid array, currents or grid, or when the
 // currents radiate no power (directivity undefined).
+// The blocks of ComputePatternBlocks gathered into one result and finished once
+// the plans are gone (so the grid's derived quantities never sit beside a plan):
+// the same blocks and the same per-direction DeriveFromField as the streamed job,
+// so their values agree bit for bit (tests/pattern_stream_test.cpp).
 PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents_a,
                              const AngularGrid& grid, const PatternOptions& options = {});
+
+// --- Streaming (grids whose result does not fit in memory) ---
+// PeakIndex fed in order, block by block, holding O(1): the same index as PeakIndex
+// on the whole vector. The first index within 1e-9 of the final maximum is always a
+// prefix maximum (every value before it is below the threshold, so below it), so
+// only the prefix maxima within 1e-9 of the running maximum are kept (a few).
+class PeakTracker {
+ public:
+  void Add(std::size_t first_index, const Eigen::VectorXd& values);
+  // PeakIndex of everything added; 0 before anything was added.
+  std::size_t index() const;
+  double value() const;  // the value at index()
+  // Every index that may still become the peak (for keeping their rows).
+  std::vector<std::size_t> candidate_indices() const;
+
+ private:
+  struct Candidate {
+    std::size_t index;
+    double value;
+  };
+  const Candidate* Peak() const;
+  std::vector<Candidate> candidates_;  // prefix maxima, ascending in index and value
+  double max_ = -std::numeric_limits<double>::infinity();
+};
+
+// Called once per finished block, in theta order: `rows` holds the block's theta
+// rows (rows.grid: those rows, every phi), with the field floored and intensity,
+// directivity and polarization derived exactly as ComputePattern stores them;
+// radiated_power_w and field_floor_v are set, the resistances and summary are not.
+// `rows` is only valid during the call.
+using PatternBlockSink = std::function<void(std::size_t first_row, const PatternResult& rows)>;
+
+// The job in blocks of whole theta rows (PatternOptions::block_directions): the
+// power first (it does not need the grid: closed form or quadrature), then each
+// block's field, finished per direction (DeriveFromField) and handed to `sink`, then
+// dropped. Memory O(block + N) besides what the sink keeps. Returns the result
+// without per-direction quantities (empty field and vectors): grid, power,
+// resistances, floor and the whole summary (peak by PeakTracker). Throws as
+// ComputePattern, and whatever the sink throws.
+PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& currents_a,
+                                   const AngularGrid& grid, const PatternOptions& options,
+                                   const PatternBlockSink& sink);
 
 }  // namespace lobecast

@@ -1,8 +1,11 @@
 #include "engine/run_estimate.h"
 
+#include <unistd.h>
+
 #include <algorithm>
 #include <cstdio>
 
+#include "engine/pattern_stream.h"
 #include "engine/threads.h"
 
 namespace lobecast {
@@ -27,6 +30,8 @@ constexpr double kBytesPerDirection = 67.0;
 constexpr double kPlanBlockDirections = 1 << 20;
 constexpr double kBytesPerPlanDirection = 100.0;
 constexpr double kBytesPerDipole = 400.0;
+constexpr double kBytesPerStreamedBlock = 100.0;
+constexpr double kViewDirections = kStreamViewDirections;
 
 std::string Duration(double s) {
   char buf[48];
@@ -57,6 +62,12 @@ std::string RunEstimate::Describe() const {
   return std::string(buf) + ": about " + Duration(seconds()) + " and " + mem + " of memory";
 }
 
+double PhysicalMemoryBytes() {
+  const long pages = ::sysconf(_SC_PHYS_PAGES);
+  const long page = ::sysconf(_SC_PAGESIZE);
+  return pages > 0 && page > 0 ? static_cast<double>(pages) * static_cast<double>(page) : 0;
+}
+
 RunEstimate EstimateRun(const RunSize& size) {
   const double n = static_cast<double>(size.dipoles);
   const double sources = size.ground == Ground::kNone ? n : 2 * n;  // PEC: one image each
@@ -71,8 +82,12 @@ RunEstimate EstimateRun(const RunSize& size) {
     const double fast = (sources + m) * kSecondsPerFastPoint / threads;
     e.field_seconds = size.method == FieldMethod::kDirect ? direct : std::min(direct, fast);
   }
-  e.memory_bytes = m * kBytesPerDirection +
-                   std::min(m, kPlanBlockDirections) * kBytesPerPlanDirection +
+  // Streamed: one block finished beside its plan (result rows and the field
+  // chunk, ~100 bytes a direction), and the analysis' view instead of the grid.
+  const double held = size.streamed ? std::min(m, kPlanBlockDirections) * kBytesPerStreamedBlock +
+                                          std::min(m, kViewDirections) * kBytesPerDirection
+                                    : m * kBytesPerDirection;
+  e.memory_bytes = held + std::min(m, kPlanBlockDirections) * kBytesPerPlanDirection +
                    n * kBytesPerDipole + (size.resistance_matrix ? 8 * n * n : 0.0);
   return e;
 }

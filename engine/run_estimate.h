@@ -20,6 +20,9 @@ struct RunSize {
   FieldMethod method = FieldMethod::kAuto;
   bool resistance_matrix = false;  // the N x N matrix stored (--resistance-matrix, or N <= 4096)
   int threads = 0;                 // 0: all cores (ResolveThreads)
+  // Streamed (ComputePatternBlocks into the file, engine/pattern_stream.h): the
+  // result is never whole in memory, only a block and the analysis' view.
+  bool streamed = false;
 };
 
 struct RunEstimate {
@@ -38,5 +41,9 @@ struct RunEstimate {
 // added (the O(N + L^2 log L) one), its cost goes here, chosen as ComputePattern
 // chooses it, and every limit follows.
 RunEstimate EstimateRun(const RunSize& size);
+
+// The machine's physical memory, bytes (0 when unknown): the default memory limit of
+// a run (cli/run_limits.h) and of reading a whole result (io/hdf5/result_reader.h).
+double PhysicalMemoryBytes();
 
 }  // namespace lobecast

@@ -3,10 +3,12 @@
 #include <fcntl.h>
 #include <signal.h>
 #include <sys/stat.h>
+#include <sys/statvfs.h>
 #include <unistd.h>
 
 #include <atomic>
 #include <cerrno>
+#include <cstdio>
 #include <cstdlib>
 #include <cstring>
 #include <filesystem>
@@ -71,6 +73,33 @@ std::string ProbeFolder(const std::string& folder) {
 }
 
 }  // namespace
+
+std::uint64_t AvailableBytesFor(const std::string& path) {
+  const char* v = std::getenv("LOBECAST_TEST_FREE_BYTES");
+  if (v != nullptr && *v != '\0') {
+    char* end = nullptr;
+    const unsigned long long n = std::strtoull(v, &end, 10);
+    if (end != nullptr && *end == '\0') return n;
+  }
+  const std::string folder = FolderOf(ResolveOutputTarget(path));
+  struct statvfs fs_info {};
+  if (::statvfs(folder.c_str(), &fs_info) != 0) {
+    throw IoError(path, "cannot read the free space of " + folder + ": " + std::strerror(errno));
+  }
+  return static_cast<std::uint64_t>(fs_info.f_bavail) *
+         static_cast<std::uint64_t>(fs_info.f_frsize);
+}
+
+void CheckOutputFits(const std::string& path, double bytes, const std::string& what) {
+  const std::uint64_t free = AvailableBytesFor(path);
+  if (bytes <= static_cast<double>(free)) return;
+  char text[160];
+  std::snprintf(text, sizeof text,
+                "%s would need up to %.3g GB, but the file system holding it "
+                "has %.3g GB free",
+                what.c_str(), bytes / 1e9, static_cast<double>(free) / 1e9);
+  throw IoError(path, std::string(text) + " (free space, or use a coarser grid)");
+}
 
 void StopForTestAt(const std::string& stage) {
   const char* v = std::getenv("LOBECAST_TEST_STOP_AT");

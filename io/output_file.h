@@ -29,6 +29,7 @@
 #pragma once
 
 #include <cstddef>
+#include <cstdint>
 #include <memory>
 #include <ostream>
 #include <string>
@@ -52,6 +53,16 @@ std::string ResolveOutputTarget(const std::string& path);
 void CheckOutputWritable(const std::string& path);
 // The same for a folder that will receive several outputs (--plots).
 void CheckFolderWritable(const std::string& folder);
+
+// Streaming (large results): the bytes an unprivileged writer may still use on the
+// file system that will hold the output at `path` (statvfs of the target's folder,
+// f_bavail x f_frsize). Test hook LOBECAST_TEST_FREE_BYTES=B: B instead, so the
+// refusal is testable without a small file system. IoError when statvfs fails.
+std::uint64_t AvailableBytesFor(const std::string& path);
+// Before the work: throws IoError (exit 1) naming `path` when an output estimated
+// at `bytes` (an upper bound) would not fit in AvailableBytesFor(path); the message
+// names both sizes.
+void CheckOutputFits(const std::string& path, double bytes, const std::string& what);
 
 // The LOBECAST_TEST_STOP_AT hook: stops the process when `stage` is the one named.
 void StopForTestAt(const std::string& stage);

@@ -7,10 +7,12 @@
 #include <type_traits>
 
 #include "engine/rounding_floor.h"
+#include "engine/run_estimate.h"
 #include "io/echo_text.h"
 #include "io/hdf5/hdf5_file.h"
 #include "io/hdf5/schema.h"
 #include "io/hdf5/untrusted_file.h"
+#include "io/input_error.h"
 
 namespace lobecast {
 namespace {
@@ -215,7 +217,22 @@ struct SummaryReader {
   }
 };
 
-StoredResult ReadOpen(const std::string& path, hid_t file) {
+// Streaming: a grid too large to hold is refused before its datasets are read.
+void CheckGridFitsInMemory(const std::string& path, const AngularGrid& grid,
+                           double max_memory_bytes) {
+  const double limit = max_memory_bytes > 0 ? max_memory_bytes : PhysicalMemoryBytes();
+  const double need = kReadBytesPerDirection * static_cast<double>(grid.size());
+  if (limit <= 0 || need <= limit) return;
+  char text[320];
+  std::snprintf(text, sizeof text,
+                "the result's grid of %zu directions needs about %.3g GB of memory to read "
+                "whole, above the %.3g GB available; this command reads the whole grid (read "
+                "such a file in parts, e.g. with h5py or the HDF5 tools)",
+                grid.size(), need / 1e9, limit / 1e9);
+  throw InputError(SourceLocation{path}, text);
+}
+
+StoredResult ReadOpen(const std::string& path, hid_t file, double max_memory_bytes) {
   StoredResult out;
   Handle root = hdf5::OpenGroup(file, "/");
   const std::string format = OptionalString(root, S(schema::kFormatAttribute));
@@ -312,6 +329,7 @@ StoredResult ReadOpen(const std::string& path, hid_t file) {
   r.grid.phi_deg = hdf5::ReadDoubles(file, S(schema::kPhi.path), &dims);
   ExpectShape(path, S(schema::kPhi.path), dims, {r.grid.phi_deg.size()});
   ValidateGrid(path, r.grid);
+  CheckGridFitsInMemory(path, r.grid, max_memory_bytes);
   const std::vector<hsize_t> grid_shape = {r.grid.theta_deg.size(), r.grid.phi_deg.size()};
 
   auto complex2d = [&](const schema::Dataset& d) {
@@ -420,11 +438,11 @@ std::string TypeName(hid_t type) {
 
 }  // namespace
 
-StoredResult ReadResult(const std::string& path) {
+StoredResult ReadResult(const std::string& path, double max_memory_bytes) {
   hdf5::ErrorSilencer silencer;
   Handle file = hdf5::OpenFileReadOnly(path);
   try {
-    return ReadOpen(path, file);
+    return ReadOpen(path, file, max_memory_bytes);
   } catch (const NotAResultError& e) {
     if (e.path() == path) throw;
     throw NotAResultError(path, e.detail());

@@ -30,7 +30,17 @@ struct StoredResult {
 // Throws IoError naming the path: not an HDF5 file, "not a lobecast result file",
 // "format_version 2 is newer than this lobecast (reads 1)", a missing dataset or
 // one of the wrong shape.
-StoredResult ReadResult(const std::string& path);
+//
+// Streaming: the whole grid is read into memory (~80 bytes a direction while
+// reading), so a result whose grid needs more than `max_memory_bytes` (0: the
+// machine's physical memory) is refused before its (Nt, Np) datasets are read,
+// with InputError (exit 2) naming both sizes, rather than exhausting the memory: a
+// streamed result of 1e8 directions is read in parts (h5py, the HDF5 tools).
+StoredResult ReadResult(const std::string& path, double max_memory_bytes = 0);
+
+// Bytes ReadResult holds per grid direction at its peak: the stored quantities
+// (65) and one complex dataset's read buffer (16).
+inline constexpr double kReadBytesPerDirection = 81.0;
 
 // One dataset of a file, as stored (for inspection and tests).
 struct StoredDatasetInfo {

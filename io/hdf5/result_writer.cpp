@@ -485,6 +485,12 @@ void WriteResult(const std::string& path, const Array& array, const Eigen::Vecto
   for (std::size_t first = 0; first < nt; first += block) {
     writer.WriteRows(first, RowsOf(result, first, std::min(block, nt - first)));
   }
+  WriteResultTail(writer, result);
+  if (options.before_finish) options.before_finish(writer);
+  writer.Finish();
+}
+
+void WriteResultTail(PatternFileWriter& writer, const PatternResult& result) {
   writer.WritePower(result.radiated_power_w, result.resistance_ohm, result.active_resistance_ohm,
                     result.summary.power_route == PowerRoute::kQuadrature
                         ? "the power came from the band-limited quadrature, which gives no "
@@ -492,8 +498,22 @@ void WriteResult(const std::string& path, const Array& array, const Eigen::Vecto
                           "lobecast compute --power-method closed computes them"
                         : "");
   writer.WriteSummary(result.summary);
-  if (options.before_finish) options.before_finish(writer);
-  writer.Finish();
+}
+
+double EstimatedResultBytes(std::size_t num_dipoles, std::size_t num_directions,
+                            bool resistance_matrix) {
+  // Per direction: rE_theta and rE_phi (16 bytes each), intensity, directivity,
+  // axial ratio and tilt (8 each), sense (1); deflate's worst case adds 5 bytes per
+  // 16 KiB block plus a few per chunk (zlib's deflateBound), and the chunk B-tree
+  // under 100 bytes a chunk of >= 8 KiB: 1 % covers both.
+  constexpr double kBytesPerDirection = 65.0 * 1.01;
+  // Position, orientation (48), lengths (16), current (16), active resistance (8),
+  // the distribution string and per-dipole overheads: 256 is above all of it.
+  constexpr double kBytesPerDipole = 256.0;
+  constexpr double kFixedBytes = 4e6;  // header, attributes, summary, analysis tables
+  const auto n = static_cast<double>(num_dipoles);
+  return kBytesPerDirection * static_cast<double>(num_directions) + kBytesPerDipole * n +
+         (resistance_matrix ? 8.0 * n * n : 0.0) + kFixedBytes;
 }
 
 }  // namespace lobecast

@@ -157,6 +157,20 @@ void WriteResult(const std::string& path, const Array& array, const Eigen::Vecto
                  const PatternResult& result, const ResultMetadata& meta,
                  const ResultWriteOptions& options = {});
 
+// Streaming (compute --stream, cli/compute_command.cpp): the rest of a result
+// after its rows, from ComputePatternBlocks' result (no per-direction data needed):
+// /power (with the note on omitted active resistances) and /summary. WriteResult
+// ends the same way.
+void WriteResultTail(PatternFileWriter& writer, const PatternResult& result);
+
+// An upper bound of a result file's size before it is written, bytes: the (Nt, Np)
+// datasets uncompressed (65 bytes a direction; deflate never grows a chunk by more
+// than a fraction of a percent, counted) with their chunk index, the per-dipole
+// datasets, the matrix when stored, and a fixed allowance for the header, summary
+// and analysis.
+double EstimatedResultBytes(std::size_t num_dipoles, std::size_t num_directions,
+                            bool resistance_matrix);
+
 // Current UTC time as ISO 8601, e.g. "2026-12-02T01:23:45Z".
 std::string Iso8601UtcNow();
 

@@ -205,6 +205,12 @@ inline constexpr std::string_view kPhiKey = "phi_deg";
 // ---- /summary: ComputeSummary -----------------------------------------------------
 
 inline constexpr std::string_view kSummaryGroup = "/summary";
+// Streaming (compute --stream): a streamed result's /summary says why it was
+// streamed ("--stream", or the in-memory estimate above the memory limit) and
+// its /summary/analysis what the analysis saw (a 1-in-m sub-grid, refined
+// exactly). Absent from in-memory results.
+inline constexpr std::string_view kStreamedAttribute = "streamed";
+inline constexpr std::string_view kAnalysisGridAttribute = "analysis_grid";
 
 // The timings come last but one group of seconds_* (they differ run to run).
 template <typename Summary, typename V>  // Summary: ComputeSummary, const or not

@@ -103,7 +103,9 @@ std::string DescribeArray(const ArrayDescription& desc) {
 }
 
 std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
-                           const std::string& output_path, double wall_seconds) {
+                           const std::string& output_path, double wall_seconds,
+                           const AngularGrid* computed_grid) {
+  const AngularGrid& grid = computed_grid ? *computed_grid : r.grid;
   const Array& a = desc.array;
   const ComputeSummary& sm = r.summary;
   std::ostringstream s;
@@ -112,7 +114,7 @@ std::string DescribeResult(const ArrayDescription& desc, const PatternResult& r,
     << "\n";
   s << "frequency    " << FormatFrequency(a.frequency_hz)
     << Printf("   wavelength %.6g m\n", a.wavelength_m()) << SweepLine(desc);
-  s << "grid         " << r.grid.theta_deg.size() << " theta x " << r.grid.phi_deg.size()
+  s << "grid         " << grid.theta_deg.size() << " theta x " << grid.phi_deg.size()
     << " phi = " << sm.num_directions << " directions\n";
 
   // Peak on the grid, and the polarization there.

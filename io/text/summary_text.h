@@ -20,9 +20,12 @@ std::string FormatDb(double linear);
 // What `check` prints: name, frequency, wavelength, ground, grid, dipoles.
 std::string DescribeArray(const ArrayDescription& desc);
 
-// What `compute` prints after a run.
+// What `compute` prints after a run. A streamed run passes the analysis' view as
+// `result` (it holds the peak, engine/pattern_stream.h) and the grid computed as
+// `computed_grid`.
 std::string DescribeResult(const ArrayDescription& desc, const PatternResult& result,
-                           const std::string& output_path, double wall_seconds);
+                           const std::string& output_path, double wall_seconds,
+                           const AngularGrid* computed_grid = nullptr);
 
 // The safety note printed with every result (CONVENTIONS §5).
 std::string SafetyNote();
