@@ -13,6 +13,7 @@
 #include "cli/option_checks.h"
 #include "cli/progress_bar.h"
 #include "cli/run_limits.h"
+#include "cli/scale_out.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
@@ -135,12 +136,16 @@ void RunCompute(const ComputeArgs& args) {
   RefuseInapplicable(args);
   RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
                       args.input);
+  // Under MPI (cli/scale_out.h) the other ranks compute their theta rows, silently;
+  // rank 0 alone writes (the output folder need exist on its host only).
+  const bool lead = IsLeadProcess();
+  const bool quiet = args.quiet || !lead;
   // An unwritable folder is found before the work, not after it.
-  CheckOutputWritable(args.output.empty() ? DefaultOutput(args.input) : args.output);
-  if (!args.plots_dir.empty()) CheckFolderWritable(args.plots_dir);
+  if (lead) CheckOutputWritable(args.output.empty() ? DefaultOutput(args.input) : args.output);
+  if (lead && !args.plots_dir.empty()) CheckFolderWritable(args.plots_dir);
   const auto t0 = std::chrono::steady_clock::now();
   ArrayDescription desc = ReadArrayDescription(args.input);
-  PrintWarnings(desc.warnings);
+  if (lead) PrintWarnings(desc.warnings);
   RunSize size;
   size.dipoles = desc.array.size();
   size.ground = desc.array.ground;
@@ -149,11 +154,11 @@ void RunCompute(const ComputeArgs& args) {
   size.resistance_matrix =
       args.resistance_matrix || size.dipoles <= PatternOptions{}.resistance_matrix_max_dipoles;
   size.threads = args.threads;
-  CheckRunLimits(EstimateRun(size), args.limits, args.input, args.quiet);
+  CheckRunLimits(EstimateRun(size), args.limits, args.input, quiet);
   const std::optional<CouplingResult> coupling = SolveArrayCircuit(desc, args.threads);
 
-  StopForTestAt("compute");  // test hook (io/output_file.h)
-  ProgressBar bar(!args.quiet);
+  if (lead) StopForTestAt("compute");  // test hook (io/output_file.h)
+  ProgressBar bar(!quiet);
   PatternOptions options;
   options.field.num_threads = args.threads;
   options.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
@@ -162,8 +167,9 @@ void RunCompute(const ComputeArgs& args) {
   options.power_method = *PowerMethodFromString(args.power_method);  // validated by CLI11
   options.power_quadrature.target_relative = args.power_tolerance;
   options.progress = [&bar](double f) { bar.Update(f); };
-  const PatternResult result = ComputePattern(desc.array, desc.currents, desc.grid, options);
+  const PatternResult result = ComputePatternSplit(desc.array, desc.currents, desc.grid, options);
   bar.Finish();
+  if (!lead) return;  // the analysis, a sweep's other frequencies and the file: rank 0
 
   // The pattern analysis goes into the file (/summary/analysis), so `report` needs
   // no recomputation. A failed analysis costs the analysis, not the result.

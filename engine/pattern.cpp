@@ -11,6 +11,7 @@
 
 #include <omp.h>
 
+#include "engine/check.h"
 #include "engine/decibels.h"
 #include "engine/error.h"
 #include "engine/intensity.h"
@@ -186,14 +187,18 @@ Eigen::Index PeakIndex(const Eigen::VectorXd& directivity) {
   return i;
 }
 
-PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
-                             const AngularGrid& grid, const PatternOptions& options) {
+PatternInProgress ComputePatternRows(const Array& array, const Eigen::VectorXcd& currents,
+                                     const AngularGrid& grid, const PatternOptions& options,
+                                     std::size_t first_row, std::size_t last_row) {
   Validate(array);
   ValidateCurrents(array, currents);
   std::string why;
   if (!options.field.IsValid(&why)) throw InvalidArgument(why);
   if (grid.size() == 0) throw InvalidArgument("grid: found no directions, expected at least one");
-  PatternResult r;
+  LOBECAST_CHECK_LE(first_row, last_row);
+  LOBECAST_CHECK_LE(last_row, grid.theta_deg.size());
+  PatternInProgress progress;
+  PatternResult& r = progress.result;
   r.grid = grid;
   ComputeSummary& s = r.summary;
   s.threads_used = ResolveThreads(options.field.num_threads);
@@ -250,12 +255,18 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   const std::size_t rows_per_block = std::max<std::size_t>(1, options.block_directions / np);
   r.field.e_theta.resize(static_cast<Eigen::Index>(n));
   r.field.e_phi.resize(static_cast<Eigen::Index>(n));
+  if (first_row > 0 || last_row < grid.theta_deg.size()) {  // a share: the rest stays zero
+    r.field.e_theta.setZero();
+    r.field.e_phi.setZero();
+  }
   s.field_method_given = options.field.method;
-  std::size_t blocks = 0, fast_blocks = 0;
+  std::size_t& blocks = progress.blocks;
+  std::size_t& fast_blocks = progress.fast_blocks;
+  progress.power_why = power.why;
   FarField part;
-  for (std::size_t row = 0; row < grid.theta_deg.size(); row += rows_per_block) {
+  for (std::size_t row = first_row; row < last_row; row += rows_per_block) {
     auto tb = Clock::now();
-    const std::size_t rows = std::min(rows_per_block, grid.theta_deg.size() - row);
+    const std::size_t rows = std::min(rows_per_block, last_row - row);
     AngularGrid block;
     block.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
                            grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
@@ -295,12 +306,22 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
     }
     s.seconds_field += SecondsSince(tb);
   }
-  s.field_method_used = fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
-  s.message = RouteMessage(s, fast_blocks, blocks, options, power.why);
+  return progress;
+}
+
+PatternResult FinishPattern(PatternInProgress&& progress, const Array& array,
+                            const Eigen::VectorXcd& currents, const PatternOptions& options) {
+  PatternResult r = std::move(progress.result);
+  ComputeSummary& s = r.summary;
+  const AngularGrid& grid = r.grid;
+  const std::size_t n = grid.size();
+  const std::size_t np = grid.phi_deg.size();
+  s.field_method_used = progress.fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
+  s.message = RouteMessage(s, progress.fast_blocks, progress.blocks, options, progress.power_why);
   s.num_directions = n;
   s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
 
-  t0 = Clock::now();
+  const auto t0 = Clock::now();
   r.field_floor_v = FieldFloor_v(array, currents);
   DeriveFromField(r, options.field.num_threads);
   const Eigen::Index peak = PeakIndex(r.directivity);
@@ -311,6 +332,12 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
     s.peak_phi_deg = std::numeric_limits<double>::quiet_NaN();  // on the z axis
   s.seconds_polarization = SecondsSince(t0);
   return r;
+}
+
+PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
+                             const AngularGrid& grid, const PatternOptions& options) {
+  return FinishPattern(ComputePatternRows(array, currents, grid, options, 0, grid.theta_deg.size()),
+                       array, currents, options);
 }
 
 }  // namespace lobecast
