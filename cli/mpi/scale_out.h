@@ -19,7 +19,7 @@
 //    order: the single-process bits. Every rank computes the error-free pattern (one
 //    pattern of the K + 1, duplicated so that each has the main beam and the beam
 //    direction without a broadcast).
-//  - compute: by blocks of theta rows (PatternOptions::theta_rows). The ranks send
+//  - compute: by blocks of theta rows (ComputePatternRows, FinishPattern). The ranks send
 //    their rows' field (32 bytes per direction) to rank 0, which applies the floor,
 //    derives U, D and the polarization and runs the analysis. When the grid has at
 //    least as many of compute's blocks as there are ranks, each rank takes whole
@@ -28,7 +28,9 @@
 //    (each direction's sum is its own), the fast path meets its tolerance on each
 //    rank's rows instead of the whole block's. The power (closed form or quadrature)
 //    is computed on every rank (duplicated: it is the same bits everywhere and costs
-//    one O(N^2) or O(L^2 log L) pass; split it when it dominates).
+//    one O(N^2) or O(L^2 log L) pass; split it when it dominates). A sweep's other
+//    frequencies run on rank 0 (not split yet: per frequency the directivity grid, 8
+//    bytes a direction, would go to rank 0).
 //
 // Failure. Every stage of a split runs under an agreement: a rank that throws
 // reports it, and then every rank throws RankFailure (cli/exit_code.h) with the
