@@ -121,8 +121,8 @@ FrequencySweep RunSweep(const ArrayDescription& desc, const PatternResult& resul
   sweep_options.progress = [&bar](std::size_t, double f) { bar.Update(f); };
   try {
     FrequencySweep sweep =
-        RunFrequencySweep(desc.array, desc.frequencies_hz, excitation, desc.grid, sweep_options,
-                          DesignPoint{&result, analysis, coupling});
+        RunFrequencySweepSplit(desc.array, desc.frequencies_hz, excitation, desc.grid,
+                               sweep_options, DesignPoint{&result, analysis, coupling});
     bar.Finish();
     return sweep;
   } catch (const InvalidArgument& e) {
@@ -169,25 +169,29 @@ void RunCompute(const ComputeArgs& args) {
   options.progress = [&bar](double f) { bar.Update(f); };
   const PatternResult result = ComputePatternSplit(desc.array, desc.currents, desc.grid, options);
   bar.Finish();
-  if (!lead) return;  // the analysis, a sweep's other frequencies and the file: rank 0
 
   // The pattern analysis goes into the file (/summary/analysis), so `report` needs
   // no recomputation. A failed analysis costs the analysis, not the result.
+  // Under MPI only rank 0 holds the whole result: it analyses (the sweep's split
+  // takes its polarization reference) and writes.
   std::optional<PatternAnalysis> analysis;
   AnalysisOptions analysis_options;
   if (!args.no_analysis) {
     const auto ref = ParseReference(args.reference);
-    analysis_options.reference = ref ? *ref : AutoReference(result);
+    analysis_options.reference = ref    ? *ref
+                                 : lead ? AutoReference(result)
+                                        : PolarizationReference{};
     analysis_options.max_nulls = args.max_nulls;
-    analysis = AnalyzeOrWarn(desc, result, analysis_options);
+    if (lead) analysis = AnalyzeOrWarn(desc, result, analysis_options);
   }
 
   // A frequency sweep (`frequencies`): the design frequency above, then the others.
   std::optional<FrequencySweep> sweep;
   if (!desc.frequencies_hz.empty()) {
     sweep = RunSweep(desc, result, analysis ? &*analysis : nullptr, coupling ? &*coupling : nullptr,
-                     options, analysis_options, args.quiet);
+                     options, analysis_options, quiet);
   }
+  if (!lead) return;  // the file and the text: rank 0
 
   const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
   const ResultMetadata meta = MetadataOf(desc);

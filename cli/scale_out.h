@@ -3,10 +3,13 @@
 // functions and this process is rank 0 of 1, so nothing about MPI is compiled.
 #pragma once
 
+#include <vector>
+
 #include <Eigen/Core>
 
 #include "engine/grid.h"
 #include "engine/pattern.h"
+#include "engine/sweep/frequency_sweep.h"
 #include "engine/tolerance/tolerance.h"
 #include "engine/types.h"
 #ifdef LOBECAST_WITH_MPI
@@ -42,6 +45,19 @@ inline PatternResult ComputePatternSplit(const Array& array, const Eigen::Vector
   return mpi::ComputePattern(array, currents_a, grid, options);
 #else
   return ComputePattern(array, currents_a, grid, options);
+#endif
+}
+
+// RunFrequencySweep, split by frequency under MPI (the whole sweep on rank 0 only).
+inline FrequencySweep RunFrequencySweepSplit(const Array& array,
+                                             const std::vector<double>& frequencies_hz,
+                                             const SweepExcitation& excitation,
+                                             const AngularGrid& grid, const SweepOptions& options,
+                                             const DesignPoint& design) {
+#ifdef LOBECAST_WITH_MPI
+  return mpi::RunFrequencySweep(array, frequencies_hz, excitation, grid, options, design);
+#else
+  return RunFrequencySweep(array, frequencies_hz, excitation, grid, options, design);
 #endif
 }
 

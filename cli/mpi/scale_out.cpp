@@ -351,4 +351,88 @@ PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& current
   return result;
 }
 
+FrequencySweep RunFrequencySweep(const Array& array, const std::vector<double>& frequencies_hz,
+                                 const SweepExcitation& excitation, const AngularGrid& grid,
+                                 const SweepOptions& options, const DesignPoint& design) {
+  const int size = Size();
+  if (size == 1)
+    return lobecast::RunFrequencySweep(array, frequencies_hz, excitation, grid, options, design);
+  g_work_started = true;
+  const int rank = Rank();
+  SweepOptions o = options;
+  if (rank != 0) o.progress = {};
+  int reference = static_cast<int>(o.analysis.reference);
+  MPI_Bcast(&reference, 1, MPI_INT, 0, MPI_COMM_WORLD);
+  o.analysis.reference = static_cast<PolarizationReference>(reference);
+  // The frequencies still to compute, [first, F), shared in contiguous ranges.
+  const std::size_t first = design.result ? 1 : 0;
+  const std::size_t todo = frequencies_hz.size() - std::min(first, frequencies_hz.size());
+  const auto [j0, j1] = Share(todo, rank, size);
+  const std::size_t ng = grid.size();
+  constexpr std::size_t kPointValues = 15;
+  const std::size_t per = kPointValues + ng;
+  std::vector<double> packed;
+  Agree([&] {
+    if (frequencies_hz.empty() || frequencies_hz.front() != array.frequency_hz)
+      throw InvalidArgument("a sweep's first frequency must be the array's design frequency");
+    ToInt(todo * per, "a sweep's grids");
+    for (std::size_t j = j0; j < j1; ++j) {
+      const SweepFrequency one =
+          ComputeSweepFrequency(array, frequencies_hz, first + j, excitation, grid, o);
+      const FrequencyPoint& p = one.point;
+      packed.insert(
+          packed.end(),
+          {p.frequency_hz, p.peak_directivity_dbi, p.peak_theta_deg, p.peak_phi_deg, p.radiated_w,
+           static_cast<double>(p.first_plane), static_cast<double>(p.second_plane),
+           p.half_power_first_deg, p.half_power_second_deg, p.sidelobe_db, p.analysed ? 1.0 : 0.0,
+           p.gain_is_realized ? 1.0 : 0.0, p.gain_dbi, p.worst_reflection, p.worst_vswr});
+      packed.insert(packed.end(), one.directivity.data(),
+                    one.directivity.data() + one.directivity.size());
+    }
+    InjectedFailure("its frequencies");
+  });
+  std::vector<int> counts(static_cast<std::size_t>(size)), offsets(static_cast<std::size_t>(size));
+  for (int q = 0; q < size; ++q) {
+    const auto [q0, q1] = Share(todo, q, size);
+    counts[static_cast<std::size_t>(q)] = static_cast<int>((q1 - q0) * per);
+    offsets[static_cast<std::size_t>(q)] = static_cast<int>(q0 * per);
+  }
+  std::vector<double> all(rank == 0 ? todo * per : 0);
+  MPI_Gatherv(packed.data(), static_cast<int>(packed.size()), MPI_DOUBLE, all.data(), counts.data(),
+              offsets.data(), MPI_DOUBLE, 0, MPI_COMM_WORLD);
+  FrequencySweep out;
+  if (rank != 0) return out;
+  out.num_directions = ng;
+  out.directivity.reserve(frequencies_hz.size() * ng);
+  if (design.result) {
+    out.points.push_back(SummarizeFrequency(frequencies_hz.front(), *design.result, design.analysis,
+                                            design.coupling));
+    const Eigen::VectorXd& d = design.result->directivity;
+    out.directivity.insert(out.directivity.end(), d.data(), d.data() + d.size());
+  }
+  for (std::size_t j = 0; j < todo; ++j) {
+    const double* v = all.data() + j * per;
+    FrequencyPoint p;
+    p.frequency_hz = v[0];
+    p.peak_directivity_dbi = v[1];
+    p.peak_theta_deg = v[2];
+    p.peak_phi_deg = v[3];
+    p.radiated_w = v[4];
+    p.first_plane = static_cast<CutPlane>(static_cast<int>(v[5]));
+    p.second_plane = static_cast<CutPlane>(static_cast<int>(v[6]));
+    p.half_power_first_deg = v[7];
+    p.half_power_second_deg = v[8];
+    p.sidelobe_db = v[9];
+    p.analysed = v[10] != 0.0;
+    p.gain_is_realized = v[11] != 0.0;
+    p.gain_dbi = v[12];
+    p.worst_reflection = v[13];
+    p.worst_vswr = v[14];
+    out.points.push_back(p);
+    out.directivity.insert(out.directivity.end(), v + kPointValues, v + per);
+  }
+  if (options.progress) options.progress(frequencies_hz.size() - 1, 1.0);
+  return out;
+}
+
 }  // namespace lobecast::mpi

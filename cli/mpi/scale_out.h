@@ -28,9 +28,13 @@
 //    (each direction's sum is its own), the fast path meets its tolerance on each
 //    rank's rows instead of the whole block's. The power (closed form or quadrature)
 //    is computed on every rank (duplicated: it is the same bits everywhere and costs
-//    one O(N^2) or O(L^2 log L) pass; split it when it dominates). A sweep's other
-//    frequencies run on rank 0 (not split yet: per frequency the directivity grid, 8
-//    bytes a direction, would go to rank 0).
+//    one O(N^2) or O(L^2 log L) pass; split it when it dominates).
+//  - a frequency sweep (compute with `frequencies`): by frequency, the design one
+//    (already computed, split by rows) on rank 0, the others shared in contiguous
+//    ranges (ComputeSweepFrequency); each sends its figures and directivity grid (8
+//    bytes a direction) to rank 0. Each frequency is the single process's
+//    computation, so the same bits. The analysis' polarization reference is rank 0's
+//    (the auto choice needs the design result, which only rank 0 holds).
 //
 // Failure. Every stage of a split runs under an agreement: a rank that throws
 // reports it, and then every rank throws RankFailure (cli/exit_code.h) with the
@@ -52,6 +56,7 @@
 #include "cli/exit_code.h"
 #include "engine/grid.h"
 #include "engine/pattern.h"
+#include "engine/sweep/frequency_sweep.h"
 #include "engine/tolerance/tolerance.h"
 #include "engine/types.h"
 
@@ -93,5 +98,12 @@ ToleranceResult RunTolerance(const Array& array, const Eigen::VectorXcd& current
 // others: a result whose field is their own rows only).
 PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents_a,
                              const AngularGrid& grid, const PatternOptions& options);
+
+// The engine's RunFrequencySweep split by frequency; rank 0 gets the whole sweep (the
+// others: an empty one). design: rank 0's (the others' is not read, but its result
+// must be set on every rank or on none).
+FrequencySweep RunFrequencySweep(const Array& array, const std::vector<double>& frequencies_hz,
+                                 const SweepExcitation& excitation, const AngularGrid& grid,
+                                 const SweepOptions& options, const DesignPoint& design);
 
 }  // namespace lobecast::mpi

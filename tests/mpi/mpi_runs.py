@@ -7,7 +7,7 @@
   one with the fast field method;
 - compute (split by theta rows): the direct sums byte for byte; the fast path within
   the sum of the two runs' reported error bounds (relative to the peak |rE|, the
-  bound each run states); a sweep result (the other frequencies on rank 0);
+  bound each run states); sweeps (split by frequency) byte for byte;
 - failure: a rank that fails (LOBECAST_TEST_FAIL_RANK, an exception; or its process
   exiting) makes the run exit non-zero, with "lobecast: rank R failed: ..." for the
   exception, and leaves an existing output untouched and no temporary behind.
@@ -144,14 +144,18 @@ for method in ("direct", "fast"):
             check(np.array_equal(f["/power/radiated_w"][()], g["/power/radiated_w"][()]),
                   f"compute fast on {ranks} ranks: the power is the same bits")
 
-sweep = os.path.join(a.samples, "design-line-sweep-phase.toml")
-ref = fresh("sweep-single.h5")
-out = fresh("sweep-2.h5")
-r1 = run(0, "compute", sweep, "--method", "direct", "-q", "-o", ref)
-r2 = run(2, "compute", sweep, "--method", "direct", "-q", "-o", out)
-check(r1.returncode == 0 and r2.returncode == 0, f"sweep: both exit 0 ({r2.stderr.strip()})")
-if r1.returncode == 0 and r2.returncode == 0:
-    same_bits(ref, out, "a direct sweep on 2 ranks")
+# Sweeps (split by frequency): each frequency is one rank's whole computation.
+for name in ("design-line-sweep-phase", "design-line-sweep-delay"):
+    sweep = os.path.join(a.samples, name + ".toml")
+    ref = fresh(f"{name}-single.h5")
+    r = run(0, "compute", sweep, "--method", "direct", "-q", "-o", ref)
+    check(r.returncode == 0, f"{name} alone exits 0 ({r.stderr.strip()})")
+    for ranks in (2, 3):
+        out = fresh(f"{name}-{ranks}.h5")
+        r = run(ranks, "compute", sweep, "--method", "direct", "-q", "-o", out)
+        check(r.returncode == 0, f"{name} on {ranks} ranks exits 0 ({r.stderr.strip()})")
+        if r.returncode == 0:
+            same_bits(ref, out, f"{name} (direct) on {ranks} ranks")
 
 # Failure: a failing rank fails the run; the old output stays, no temporary is left.
 for command, args in (("tolerance", [sample, *study]), ("compute", [panel, "-q"])):
