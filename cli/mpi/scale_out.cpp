@@ -109,6 +109,23 @@ TrialFigures Unpack(const double* v, std::size_t protect) {
   return f;
 }
 
+// Every rank's `packed` values (per values for each of its Share of `items`) to rank
+// 0, in item order; empty on the other ranks.
+std::vector<double> GatherShares(const std::vector<double>& packed, std::size_t items,
+                                 std::size_t per) {
+  const int size = Size();
+  std::vector<int> counts(static_cast<std::size_t>(size)), offsets(static_cast<std::size_t>(size));
+  for (int q = 0; q < size; ++q) {
+    const auto [q0, q1] = Share(items, q, size);
+    counts[static_cast<std::size_t>(q)] = ToInt((q1 - q0) * per, "a share");
+    offsets[static_cast<std::size_t>(q)] = ToInt(q0 * per, "a share's offset");
+  }
+  std::vector<double> all(Rank() == 0 ? items * per : 0);
+  MPI_Gatherv(packed.data(), static_cast<int>(packed.size()), MPI_DOUBLE, all.data(), counts.data(),
+              offsets.data(), MPI_DOUBLE, 0, MPI_COMM_WORLD);
+  return all;
+}
+
 }  // namespace
 
 Session::Session(int* argc, char*** argv) {
@@ -253,15 +270,7 @@ ToleranceResult RunTolerance(const Array& array, const Eigen::VectorXcd& current
   const std::size_t per = kScalarFigures + 2 * protect;
   std::vector<double> packed;
   for (std::size_t k = k0; k < k1; ++k) Pack(r.trials[k], packed);
-  std::vector<int> counts(static_cast<std::size_t>(size)), offsets(static_cast<std::size_t>(size));
-  for (int q = 0; q < size; ++q) {
-    const auto [q0, q1] = Share(k_trials, q, size);
-    counts[static_cast<std::size_t>(q)] = static_cast<int>((q1 - q0) * per);
-    offsets[static_cast<std::size_t>(q)] = static_cast<int>(q0 * per);
-  }
-  std::vector<double> all(rank == 0 ? k_trials * per : 0);
-  MPI_Gatherv(packed.data(), static_cast<int>(packed.size()), MPI_DOUBLE, all.data(), counts.data(),
-              offsets.data(), MPI_DOUBLE, 0, MPI_COMM_WORLD);
+  const std::vector<double> all = GatherShares(packed, k_trials, per);
   if (rank == 0) {
     for (std::size_t k = 0; k < k_trials; ++k) r.trials[k] = Unpack(all.data() + k * per, protect);
   }
@@ -391,15 +400,7 @@ FrequencySweep RunFrequencySweep(const Array& array, const std::vector<double>& 
     }
     InjectedFailure("its frequencies");
   });
-  std::vector<int> counts(static_cast<std::size_t>(size)), offsets(static_cast<std::size_t>(size));
-  for (int q = 0; q < size; ++q) {
-    const auto [q0, q1] = Share(todo, q, size);
-    counts[static_cast<std::size_t>(q)] = static_cast<int>((q1 - q0) * per);
-    offsets[static_cast<std::size_t>(q)] = static_cast<int>(q0 * per);
-  }
-  std::vector<double> all(rank == 0 ? todo * per : 0);
-  MPI_Gatherv(packed.data(), static_cast<int>(packed.size()), MPI_DOUBLE, all.data(), counts.data(),
-              offsets.data(), MPI_DOUBLE, 0, MPI_COMM_WORLD);
+  const std::vector<double> all = GatherShares(packed, todo, per);
   FrequencySweep out;
   if (rank != 0) return out;
   out.num_directions = ng;
