@@ -14,6 +14,12 @@ packages=(
   # for clang (libomp-dev) and llvm-symbolizer for readable sanitizer stacks (llvm).
   clang libclang-rt-dev libomp-dev llvm
 )
+# Scale-out with MPI (-DLOBECAST_MPI=ON, .ci/run's MPI stage), only when asked:
+# LOBECAST_WITH_MPI=1 bash .ci/install-deps.sh (or the argument --mpi). OpenMPI from
+# Debian; the HDF5 stays the serial libhdf5-dev (rank 0 writes, cli/mpi/scale_out.h).
+if [ "${LOBECAST_WITH_MPI:-0}" = 1 ] || [ "${1:-}" = "--mpi" ]; then
+  packages+=(libopenmpi-dev openmpi-bin)
+fi
 
 missing=()
 for p in "${packages[@]}"; do

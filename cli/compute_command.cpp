@@ -13,6 +13,7 @@
 #include "cli/option_checks.h"
 #include "cli/progress_bar.h"
 #include "cli/run_limits.h"
+#include "cli/scale_out.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
@@ -125,8 +126,8 @@ FrequencySweep RunSweep(const ArrayDescription& desc, const PatternResult& resul
   sweep_options.progress = [&bar](std::size_t, double f) { bar.Update(f); };
   try {
     FrequencySweep sweep =
-        RunFrequencySweep(desc.array, desc.frequencies_hz, excitation, desc.grid, sweep_options,
-                          DesignPoint{&result, analysis, coupling});
+        RunFrequencySweepSplit(desc.array, desc.frequencies_hz, excitation, desc.grid,
+                               sweep_options, DesignPoint{&result, analysis, coupling});
     bar.Finish();
     return sweep;
   } catch (const InvalidArgument& e) {
@@ -162,6 +163,10 @@ std::string WhyStream(const ComputeArgs& args, const ArrayDescription& desc,
   if (!desc.frequencies_hz.empty()) {
     return cannot("a frequency sweep",
                   "a frequency sweep ('frequencies': every frequency in memory)");
+  }
+  if (ProcessCount() > 1) {
+    return cannot("mpirun", "more than one MPI process (a streamed result is written by one "
+                            "process as its blocks are finished)");
   }
   if (NeedsCoupling(desc.ports, desc.wires)) {
     return cannot("a port circuit",
@@ -235,12 +240,16 @@ void RunCompute(const ComputeArgs& args) {
   RefuseInapplicable(args);
   RefuseInputAsOutput("--output", args.output.empty() ? DefaultOutput(args.input) : args.output,
                       args.input);
+  // Under MPI (cli/scale_out.h) the other ranks compute their theta rows, silently;
+  // rank 0 alone writes (the output folder need exist on its host only).
+  const bool lead = IsLeadProcess();
+  const bool quiet = args.quiet || !lead;
   // An unwritable folder is found before the work, not after it.
-  CheckOutputWritable(args.output.empty() ? DefaultOutput(args.input) : args.output);
-  if (!args.plots_dir.empty()) CheckFolderWritable(args.plots_dir);
+  if (lead) CheckOutputWritable(args.output.empty() ? DefaultOutput(args.input) : args.output);
+  if (lead && !args.plots_dir.empty()) CheckFolderWritable(args.plots_dir);
   const auto t0 = std::chrono::steady_clock::now();
   ArrayDescription desc = ReadArrayDescription(args.input);
-  PrintWarnings(desc.warnings);
+  if (lead) PrintWarnings(desc.warnings);
   RunSize size;
   size.dipoles = desc.array.size();
   size.ground = desc.array.ground;
@@ -251,9 +260,9 @@ void RunCompute(const ComputeArgs& args) {
   size.threads = args.threads;
   const std::string stream_why = WhyStream(args, desc, EstimateRun(size));
   size.streamed = !stream_why.empty();
-  CheckRunLimits(EstimateRun(size), args.limits, args.input, args.quiet);
+  CheckRunLimits(EstimateRun(size), args.limits, args.input, quiet);
   const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
-  if (size.streamed) {
+  if (lead && size.streamed) {
     CheckOutputFits(output,
                     EstimatedResultBytes(size.dipoles, size.directions, size.resistance_matrix),
                     "the streamed result");
@@ -261,7 +270,7 @@ void RunCompute(const ComputeArgs& args) {
   const std::optional<CouplingResult> coupling =
       SolveArrayCircuit(desc, args.threads, args.resistance_matrix);
 
-  StopForTestAt("compute");  // test hook (io/output_file.h)
+  if (lead) StopForTestAt("compute");  // test hook (io/output_file.h)
   PatternOptions options;
   options.field.num_threads = args.threads;
   options.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
@@ -270,28 +279,33 @@ void RunCompute(const ComputeArgs& args) {
   options.power_method = *PowerMethodFromString(args.power_method);  // validated by CLI11
   options.power_quadrature.target_relative = args.power_tolerance;
   if (size.streamed) return RunStreamed(args, desc, options, stream_why, output, t0);
-  ProgressBar bar(!args.quiet);
+  ProgressBar bar(!quiet);
   options.progress = [&bar](double f) { bar.Update(f); };
-  const PatternResult result = ComputePattern(desc.array, desc.currents, desc.grid, options);
+  const PatternResult result = ComputePatternSplit(desc.array, desc.currents, desc.grid, options);
   bar.Finish();
 
   // The pattern analysis goes into the file (/summary/analysis), so `report` needs
   // no recomputation. A failed analysis costs the analysis, not the result.
+  // Under MPI only rank 0 holds the whole result: it analyses (the sweep's split
+  // takes its polarization reference) and writes.
   std::optional<PatternAnalysis> analysis;
   AnalysisOptions analysis_options;
   if (!args.no_analysis) {
     const auto ref = ParseReference(args.reference);
-    analysis_options.reference = ref ? *ref : AutoReference(result);
+    analysis_options.reference = ref    ? *ref
+                                 : lead ? AutoReference(result)
+                                        : PolarizationReference{};
     analysis_options.max_nulls = args.max_nulls;
-    analysis = AnalyzeOrWarn(desc, result, analysis_options);
+    if (lead) analysis = AnalyzeOrWarn(desc, result, analysis_options);
   }
 
   // A frequency sweep (`frequencies`): the design frequency above, then the others.
   std::optional<FrequencySweep> sweep;
   if (!desc.frequencies_hz.empty()) {
     sweep = RunSweep(desc, result, analysis ? &*analysis : nullptr, coupling ? &*coupling : nullptr,
-                     options, analysis_options, args.quiet);
+                     options, analysis_options, quiet);
   }
+  if (!lead) return;  // the file and the text: rank 0
 
   const ResultMetadata meta = MetadataOf(desc);
   ResultWriteOptions write_options;

@@ -9,6 +9,7 @@
 
 #include <exception>
 #include <new>
+#include <stdexcept>
 #include <string>
 
 #include "engine/check.h"
@@ -27,10 +28,20 @@ struct ExitReport {
   std::string message;  // one line for stderr, without the newline
 };
 
+// A failure of one process of an MPI run, agreed by every process (cli/mpi): the
+// failing process's exit code and its line, "lobecast: rank R failed: ...".
+class RankFailure : public std::runtime_error {
+ public:
+  RankFailure(int exit_code, const std::string& line) : std::runtime_error(line), code(exit_code) {}
+  int code;
+};
+
 // `error` must hold an exception (from std::current_exception()).
 inline ExitReport ReportFor(const std::exception_ptr& error) {
   try {
     std::rethrow_exception(error);
+  } catch (const RankFailure& e) {
+    return {e.code, e.what()};
   } catch (const InternalError& e) {
     // what() already starts with "internal error: ".
     return {kExitFailure, std::string("lobecast: ") + e.what() +

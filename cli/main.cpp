@@ -11,8 +11,16 @@
 #include "cli/exit_code.h"
 #include "cli/option_checks.h"
 #include "io/version.h"
+#ifdef LOBECAST_WITH_MPI
+#include "cli/mpi/scale_out.h"  // -DLOBECAST_MPI=ON: an MPI run (rank 0 reports)
+#endif
 
 int main(int argc, char** argv) {
+#ifdef LOBECAST_WITH_MPI
+  // MPI only under a launcher (mpirun); commands that are not split run on rank 0 alone.
+  const lobecast::mpi::Session mpi_session(&argc, &argv);
+  if (lobecast::mpi::Rank() > 0 && !lobecast::mpi::SplitsCommand(argc, argv)) return 0;
+#endif
   CLI::App app{
       "lobecast " + std::string(lobecast::SoftwareVersion()) +
           ": exact far field, directivity, polarization and radiation resistance of arrays "
@@ -39,9 +47,16 @@ int main(int argc, char** argv) {
   try {
     app.parse(argc, argv);
   } catch (const CLI::ParseError& e) {
+#ifdef LOBECAST_WITH_MPI
+    if (lobecast::mpi::Rank() > 0)  // every rank parses the same line: rank 0 says it
+      return e.get_exit_code() == 0 ? lobecast::cli::kExitOk : lobecast::cli::kExitBadInput;
+#endif
     const int code = app.exit(e);  // help, version, or the usage error via FailureMessage
     return code == 0 ? lobecast::cli::kExitOk : lobecast::cli::kExitBadInput;
   } catch (...) {
+#ifdef LOBECAST_WITH_MPI
+    return lobecast::mpi::ExitAfterError(std::current_exception());
+#endif
     const lobecast::cli::ExitReport r = lobecast::cli::ReportFor(std::current_exception());
     std::fprintf(stderr, "%s\n", r.message.c_str());
     return r.code;

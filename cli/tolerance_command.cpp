@@ -14,6 +14,7 @@
 #include "cli/enum_names.h"
 #include "cli/option_checks.h"
 #include "cli/progress_bar.h"
+#include "cli/scale_out.h"
 #include "engine/analysis/pattern_analysis.h"
 #include "engine/constants.h"
 #include "engine/decibels.h"
@@ -77,7 +78,10 @@ void RunTolerance(const ToleranceArgs& args) {
   RefuseInputAsOutput("--output", output, args.input);
   const auto t0 = std::chrono::steady_clock::now();
   ArrayDescription desc = ReadArrayDescription(args.input);
-  PrintWarnings(desc.warnings);
+  // Under MPI (cli/scale_out.h) the other ranks compute their trials, silently.
+  const bool lead = IsLeadProcess();
+  const bool quiet = args.quiet || !lead;
+  if (lead) PrintWarnings(desc.warnings);
   const double sigma_m =
       args.position.empty() ? 0.0 : PositionSigma_m(args.position, desc.array.wavelength_m());
   if (desc.ports.size() == desc.array.size()) {
@@ -104,7 +108,7 @@ void RunTolerance(const ToleranceArgs& args) {
   o.errors.failure_count = args.failed_count;
   o.pattern.field.num_threads = args.threads;
   o.pattern.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
-  ProgressBar bar(!args.quiet);
+  ProgressBar bar(!quiet);
   o.progress = [&bar](double f) { bar.Update(f); };
 
   ToleranceTargets targets;
@@ -114,9 +118,9 @@ void RunTolerance(const ToleranceArgs& args) {
       targets.protected_directions.push_back(
           UnitVectorAt(n.theta_deg * kDegree, n.phi_deg * kDegree));
   }
-  const ToleranceResult study =
-      lobecast::RunTolerance(desc.array, desc.currents, desc.grid, targets, o);
+  const ToleranceResult study = RunToleranceSplit(desc.array, desc.currents, desc.grid, targets, o);
   bar.Finish();
+  if (!lead) return;
 
   // The error-free result is a full result file (report, plot and export read it),
   // with its analysis, and the study under /tolerance.

@@ -12,6 +12,7 @@
 
 #include <omp.h>
 
+#include "engine/check.h"
 #include "engine/decibels.h"
 #include "engine/error.h"
 #include "engine/intensity.h"
@@ -240,17 +241,24 @@ void SetPeak(ComputeSummary& s, const AngularGrid& grid, std::size_t at, double 
     s.peak_phi_deg = std::numeric_limits<double>::quiet_NaN();  // on the z axis
 }
 
-// ComputePatternBlocks; with finish_blocks false the blocks carry only their
-// unfloored field and the summary no peak (ComputePattern finishes the whole grid).
-PatternResult RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
-                        const AngularGrid& grid, const PatternOptions& options,
-                        const PatternBlockSink& sink, bool finish_blocks) {
+// The power, then theta rows [first_row, last_row) in blocks, each handed to
+// `sink`. With finish_blocks the blocks are finished (floor, U, D, polarization) and
+// the summary gets their peak; without, they carry only their unfloored field
+// (ComputePatternRows gathers it; FinishPattern finishes the whole grid). The
+// summary's route message is left to CloseSummary.
+PatternInProgress RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
+                            const AngularGrid& grid, const PatternOptions& options,
+                            const PatternBlockSink& sink, bool finish_blocks,
+                            std::size_t first_row, std::size_t last_row) {
   Validate(array);
   ValidateCurrents(array, currents);
   std::string why;
   if (!options.field.IsValid(&why)) throw InvalidArgument(why);
   if (grid.size() == 0) throw InvalidArgument("grid: found no directions, expected at least one");
-  PatternResult r;
+  LOBECAST_CHECK_LE(first_row, last_row);
+  LOBECAST_CHECK_LE(last_row, grid.theta_deg.size());
+  PatternInProgress progress;
+  PatternResult& r = progress.result;
   r.grid = grid;
   ComputeSummary& s = r.summary;
   s.threads_used = ResolveThreads(options.field.num_threads);
@@ -324,16 +332,18 @@ PatternResult RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
   const std::size_t rows_per_block = std::max<std::size_t>(1, options.block_directions / np);
   s.field_method_given = options.field.method;
   r.field_floor_v = FieldFloor_v(array, currents);
-  std::size_t blocks = 0, fast_blocks = 0;
+  std::size_t& blocks = progress.blocks;
+  std::size_t& fast_blocks = progress.fast_blocks;
+  progress.power_why = power.why;
   PeakTracker peak;
   FarField part;
   PatternResult b;  // the block being finished
   b.radiated_power_w = r.radiated_power_w;
   b.field_floor_v = r.field_floor_v;
   b.grid.phi_deg = grid.phi_deg;
-  for (std::size_t row = 0; row < grid.theta_deg.size(); row += rows_per_block) {
+  for (std::size_t row = first_row; row < last_row; row += rows_per_block) {
     auto tb = Clock::now();
-    const std::size_t rows = std::min(rows_per_block, grid.theta_deg.size() - row);
+    const std::size_t rows = std::min(rows_per_block, last_row - row);
     b.grid.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
                             grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
     // Held only while the block's field is computed: gone before the block is
@@ -397,13 +407,18 @@ PatternResult RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
     // before the next is computed.
     if (chunk >= nb) b.field = FarField();
   }
-  s.field_method_used = fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
-  s.message = RouteMessage(s, fast_blocks, blocks, options, power.why);
-  s.num_directions = n;
-  s.pairs = static_cast<double>(n) * static_cast<double>(s.num_sources);
-
   if (finish_blocks) SetPeak(s, grid, peak.index(), peak.value());
-  return r;
+  return progress;
+}
+
+// The summary's entries that need every block (the driver of a split grid merges
+// blocks and fast_blocks first).
+void CloseSummary(PatternInProgress& progress, const PatternOptions& options) {
+  ComputeSummary& s = progress.result.summary;
+  s.field_method_used = progress.fast_blocks > 0 ? FieldMethod::kFast : FieldMethod::kDirect;
+  s.message = RouteMessage(s, progress.fast_blocks, progress.blocks, options, progress.power_why);
+  s.num_directions = progress.result.grid.size();
+  s.pairs = static_cast<double>(s.num_directions) * static_cast<double>(s.num_sources);
 }
 
 }  // namespace
@@ -411,32 +426,58 @@ PatternResult RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
 PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& currents,
                                    const AngularGrid& grid, const PatternOptions& options,
                                    const PatternBlockSink& sink) {
-  return RunBlocks(array, currents, grid, options, sink, true);
+  PatternInProgress progress =
+      RunBlocks(array, currents, grid, options, sink, true, 0, grid.theta_deg.size());
+  CloseSummary(progress, options);
+  return std::move(progress.result);
+}
+
+PatternInProgress ComputePatternRows(const Array& array, const Eigen::VectorXcd& currents,
+                                     const AngularGrid& grid, const PatternOptions& options,
+                                     std::size_t first_row, std::size_t last_row) {
+  // The blocks gathered into the whole grid's field (the rows outside the share stay
+  // zero), allocated once the first block's plan is gone, so the field never sits
+  // beside a block's plan: the peak stays the in-memory result plus one plan.
+  FarField all;
+  const auto n = static_cast<Eigen::Index>(grid.size());
+  const bool share = first_row > 0 || last_row < grid.theta_deg.size();
+  const auto allocate = [&] {
+    if (all.e_theta.size() != 0) return;
+    all.e_theta.resize(n);
+    all.e_phi.resize(n);
+    if (share) all.e_theta.setZero(), all.e_phi.setZero();
+  };
+  const PatternBlockSink gather = [&](std::size_t row, const PatternResult& b) {
+    allocate();
+    const auto at = static_cast<Eigen::Index>(row * grid.phi_deg.size());
+    all.e_theta.segment(at, b.field.e_theta.size()) = b.field.e_theta;
+    all.e_phi.segment(at, b.field.e_phi.size()) = b.field.e_phi;
+  };
+  PatternInProgress progress =
+      RunBlocks(array, currents, grid, options, gather, false, first_row, last_row);
+  allocate();  // an empty share
+  progress.result.field = std::move(all);
+  return progress;
+}
+
+PatternResult FinishPattern(PatternInProgress&& progress, const PatternOptions& options) {
+  // Finished (floor, U, D, polarization: per direction, so the same bits as the
+  // streamed blocks'); the peak by PeakIndex on the whole grid (PeakTracker gives the
+  // same index, tests/pattern_stream_test.cpp).
+  CloseSummary(progress, options);
+  PatternResult r = std::move(progress.result);
+  const auto t0 = Clock::now();
+  DeriveFromField(r, options.field.num_threads);
+  const Eigen::Index peak = PeakIndex(r.directivity);
+  SetPeak(r.summary, r.grid, static_cast<std::size_t>(peak), r.directivity[peak]);
+  r.summary.seconds_polarization += SecondsSince(t0);
+  return r;
 }
 
 PatternResult ComputePattern(const Array& array, const Eigen::VectorXcd& currents,
                              const AngularGrid& grid, const PatternOptions& options) {
-  // The same blocks, gathered; finished (floor, U, D, polarization: per direction,
-  // so the same bits as the streamed blocks') once the plans are gone, so the
-  // grid's derived quantities never sit beside a block's plan: the peak stays the
-  // in-memory result plus one plan. The peak by PeakIndex on the whole grid
-  // (PeakTracker gives the same index, tests/pattern_stream_test.cpp).
-  FarField all;
-  const auto n = static_cast<Eigen::Index>(grid.size());
-  const PatternBlockSink gather = [&](std::size_t first_row, const PatternResult& b) {
-    if (all.e_theta.size() == 0) all.e_theta.resize(n), all.e_phi.resize(n);
-    const auto at = static_cast<Eigen::Index>(first_row * grid.phi_deg.size());
-    all.e_theta.segment(at, b.field.e_theta.size()) = b.field.e_theta;
-    all.e_phi.segment(at, b.field.e_phi.size()) = b.field.e_phi;
-  };
-  PatternResult r = RunBlocks(array, currents, grid, options, gather, false);
-  const auto t0 = Clock::now();
-  r.field = std::move(all);
-  DeriveFromField(r, options.field.num_threads);
-  const Eigen::Index peak = PeakIndex(r.directivity);
-  SetPeak(r.summary, grid, static_cast<std::size_t>(peak), r.directivity[peak]);
-  r.summary.seconds_polarization += SecondsSince(t0);
-  return r;
+  return FinishPattern(ComputePatternRows(array, currents, grid, options, 0, grid.theta_deg.size()),
+                       options);
 }
 
 }  // namespace lobecast

@@ -196,5 +196,25 @@ using PatternBlockSink = std::function<void(std::size_t first_row, const Pattern
 PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& currents_a,
                                    const AngularGrid& grid, const PatternOptions& options,
                                    const PatternBlockSink& sink);
+// ComputePattern in two steps, for a driver that splits the grid among processes
+// (cli/mpi; the engine stays MPI-free). ComputePatternRows validates, computes the
+// power and the field of theta rows [first_row, last_row) only, in blocks of
+// options.block_directions from first_row (the other rows' field is zero; the
+// blocks of ComputePatternBlocks, gathered); the driver then fills in every row's
+// field and merges the summary's per-block entries (fast_transforms_used,
+// field_error_bound_relative, blocks, fast_blocks), and FinishPattern applies the
+// floor, derives U, D and the polarization and finds the peak. ComputePattern is the two over every row. Rows split at block boundaries
+// run the very plans of the whole grid (the same bits whatever the method); other
+// splits give the direct sums' bits and the fast path's tolerance.
+struct PatternInProgress {
+  PatternResult result;  // grid, power, field of the rows, summary so far
+  std::size_t blocks = 0;
+  std::size_t fast_blocks = 0;
+  std::string power_why;  // PowerChoice::why, for the summary's message
+};
+PatternInProgress ComputePatternRows(const Array& array, const Eigen::VectorXcd& currents_a,
+                                     const AngularGrid& grid, const PatternOptions& options,
+                                     std::size_t first_row, std::size_t last_row);
+PatternResult FinishPattern(PatternInProgress&& in_progress, const PatternOptions& options);
 
 }  // namespace lobecast

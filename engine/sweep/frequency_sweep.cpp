@@ -84,6 +84,39 @@ FrequencyPoint SummarizeFrequency(double frequency_hz, const PatternResult& resu
   return p;
 }
 
+SweepFrequency ComputeSweepFrequency(const Array& array, const std::vector<double>& frequencies_hz,
+                                     std::size_t i, const SweepExcitation& excitation,
+                                     const AngularGrid& grid, const SweepOptions& options) {
+  LOBECAST_CHECK_LT(i, frequencies_hz.size());
+  const double f = frequencies_hz[i];
+  const double total = static_cast<double>(frequencies_hz.size());
+  Array at = array;
+  at.frequency_hz = f;
+  Eigen::VectorXcd currents = SweepCurrentsAt(array, excitation, f);
+  std::optional<CouplingResult> coupling;
+  if (excitation.coupled) {
+    std::vector<Port> ports = excitation.ports;
+    for (std::size_t m = 0; m < ports.size(); ++m)
+      if (ports[m].kind == PortKind::kCurrent)
+        ports[m].current_a = currents[static_cast<Eigen::Index>(m)];
+    coupling = SolveCoupling(at, ports, excitation.wires, excitation.coupling);
+    currents = coupling->circuit.current_a;
+  }
+  PatternOptions po = options.pattern;
+  po.progress = [&](double frac) {
+    if (options.progress) options.progress(i, (static_cast<double>(i) + frac) / total);
+  };
+  const PatternResult r = ComputePattern(at, currents, grid, po);
+  std::optional<PatternAnalysis> a;
+  try {
+    a = AnalyzePattern(at, currents, r, options.analysis);
+  } catch (const InvalidArgument&) {
+    // The figures stay NaN (FrequencyPoint::analysed false); the pattern is kept.
+  }
+  return {SummarizeFrequency(f, r, a ? &*a : nullptr, coupling ? &*coupling : nullptr),
+          r.directivity};
+}
+
 FrequencySweep RunFrequencySweep(const Array& array, const std::vector<double>& frequencies_hz,
                                  const SweepExcitation& excitation, const AngularGrid& grid,
                                  const SweepOptions& options, const DesignPoint& design) {
@@ -94,42 +127,18 @@ FrequencySweep RunFrequencySweep(const Array& array, const std::vector<double>& 
   out.directivity.reserve(frequencies_hz.size() * out.num_directions);
   const double total = static_cast<double>(frequencies_hz.size());
   for (std::size_t i = 0; i < frequencies_hz.size(); ++i) {
-    const double f = frequencies_hz[i];
-    auto add = [&](const PatternResult& r, const PatternAnalysis* a, const CouplingResult* c) {
-      LOBECAST_CHECK_EQ(static_cast<std::size_t>(r.directivity.size()), out.num_directions);
-      out.directivity.insert(out.directivity.end(), r.directivity.data(),
-                             r.directivity.data() + r.directivity.size());
-      out.points.push_back(SummarizeFrequency(f, r, a, c));
-    };
+    SweepFrequency one;
     if (i == 0 && design.result) {
-      add(*design.result, design.analysis, design.coupling);
-      if (options.progress) options.progress(i, 1.0 / total);
-      continue;
+      one.point =
+          SummarizeFrequency(frequencies_hz[i], *design.result, design.analysis, design.coupling);
+      one.directivity = design.result->directivity;
+    } else {
+      one = ComputeSweepFrequency(array, frequencies_hz, i, excitation, grid, options);
     }
-    Array at = array;
-    at.frequency_hz = f;
-    Eigen::VectorXcd currents = SweepCurrentsAt(array, excitation, f);
-    std::optional<CouplingResult> coupling;
-    if (excitation.coupled) {
-      std::vector<Port> ports = excitation.ports;
-      for (std::size_t m = 0; m < ports.size(); ++m)
-        if (ports[m].kind == PortKind::kCurrent)
-          ports[m].current_a = currents[static_cast<Eigen::Index>(m)];
-      coupling = SolveCoupling(at, ports, excitation.wires, excitation.coupling);
-      currents = coupling->circuit.current_a;
-    }
-    PatternOptions po = options.pattern;
-    po.progress = [&](double frac) {
-      if (options.progress) options.progress(i, (static_cast<double>(i) + frac) / total);
-    };
-    const PatternResult r = ComputePattern(at, currents, grid, po);
-    std::optional<PatternAnalysis> a;
-    try {
-      a = AnalyzePattern(at, currents, r, options.analysis);
-    } catch (const InvalidArgument&) {
-      // The figures stay NaN (FrequencyPoint::analysed false); the pattern is kept.
-    }
-    add(r, a ? &*a : nullptr, coupling ? &*coupling : nullptr);
+    LOBECAST_CHECK_EQ(static_cast<std::size_t>(one.directivity.size()), out.num_directions);
+    out.directivity.insert(out.directivity.end(), one.directivity.data(),
+                           one.directivity.data() + one.directivity.size());
+    out.points.push_back(one.point);
     if (options.progress) options.progress(i, (static_cast<double>(i) + 1.0) / total);
   }
   return out;

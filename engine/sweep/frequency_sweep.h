@@ -114,6 +114,18 @@ struct DesignPoint {
   const CouplingResult* coupling = nullptr;
 };
 
+// Frequency i of `frequencies_hz` computed and analysed on its own (its currents,
+// circuit, pattern, analysis): its figures and directivity grid. RunFrequencySweep is
+// this for every frequency in order (the first taken from DesignPoint when given); a
+// driver that splits the frequencies among processes (cli/mpi) calls it per index.
+struct SweepFrequency {
+  FrequencyPoint point;
+  Eigen::VectorXd directivity;  // linear, the grid's (Nt * Np), theta-major
+};
+SweepFrequency ComputeSweepFrequency(const Array& array, const std::vector<double>& frequencies_hz,
+                                     std::size_t index, const SweepExcitation& excitation,
+                                     const AngularGrid& grid, const SweepOptions& options);
+
 // Computes and analyses every frequency of `frequencies_hz` (the first is the
 // array's design frequency, array.frequency_hz). With design.result set, the first
 // point is taken from it instead of being computed again (so the sweep's first row

@@ -32,25 +32,6 @@ double SecondsSince(Clock::time_point t0) {
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 
-// The grid quantities a trial's figures need, gathered over the blocks: the largest
-// directivity, the largest outside the main beam, and where inside the main beam the
-// largest one is (the first such index).
-struct GridTracker {
-  double max_all = 0.0;
-  double max_outside = -1.0;  // stays < 0 when every direction is in the main beam
-  double max_inside = -1.0;
-  std::size_t argmax_inside = 0;
-
-  void Add(std::size_t index, double d, bool in_main_beam) {
-    max_all = std::max(max_all, d);
-    if (in_main_beam) {
-      if (d > max_inside) max_inside = d, argmax_inside = index;
-    } else {
-      max_outside = std::max(max_outside, d);
-    }
-  }
-};
-
 // Power as ComputePattern takes it (the matrix route up to the limit, else streamed),
 // so an error-free trial's P is the baseline's to the bit.
 double PowerOf(const Array& array, const Eigen::VectorXcd& currents,
@@ -74,7 +55,7 @@ double GridSpacingRad(const AngularGrid& grid) {
 
 // The figures that need off-grid evaluations (beam, protected directions, the
 // refined peak) and the grid trackers' ratios.
-void FinishFigures(const TrialArray& t, double power_w, const GridTracker& g,
+void FinishFigures(const TrialArray& t, double power_w, const TrialGridMaxima& g,
                    const AngularGrid& grid, const Vec3& beam, const std::vector<Vec3>& protect,
                    const Vec3* reference_peak, TrialFigures& f) {
   const PatternProbe probe(t.array, t.currents_a, power_w);
@@ -115,6 +96,15 @@ std::string Number(double v) {
 }
 
 }  // namespace
+
+void TrialGridMaxima::Add(std::size_t index, double d, bool in_main_beam) {
+  max_all = std::max(max_all, d);
+  if (in_main_beam) {
+    if (d > max_inside) max_inside = d, argmax_inside = index;
+  } else {
+    max_outside = std::max(max_outside, d);
+  }
+}
 
 bool ErrorModel::AnyError() const {
   return amplitude_sigma_db > 0 || phase_sigma_deg > 0 || position_sigma_m > 0 ||
@@ -314,9 +304,10 @@ std::vector<bool> MainBeamMask(const AngularGrid& grid, const Eigen::VectorXd& d
   return in;
 }
 
-ToleranceResult RunTolerance(const Array& array, const Eigen::VectorXcd& currents,
-                             const AngularGrid& grid, const ToleranceTargets& targets,
-                             const ToleranceOptions& options) {
+ToleranceStudy::ToleranceStudy(const Array& array, const Eigen::VectorXcd& currents,
+                               const AngularGrid& grid, const ToleranceTargets& targets,
+                               const ToleranceOptions& options)
+    : array_(array), currents_(currents), grid_(grid), options_(options) {
   std::string why;
   if (!options.IsValid(&why)) throw InvalidArgument(why);
   Validate(array);
@@ -332,138 +323,186 @@ ToleranceResult RunTolerance(const Array& array, const Eigen::VectorXcd& current
   const std::size_t nt = grid.theta_deg.size(), np = grid.phi_deg.size();
   const std::size_t rows_by_memory =
       std::max<std::size_t>(1, options.max_block_bytes / (sizeof(double) * k_trials * np));
-  const std::size_t rows_per_block =
+  rows_per_block_ =
       std::max<std::size_t>(1, std::min(options.pattern.block_directions / np, rows_by_memory));
 
-  ToleranceResult r;
+  ToleranceResult& r = result_;
   r.percentiles = options.percentiles;
-  auto t0 = Clock::now();
+  const auto t0 = Clock::now();
   PatternOptions po = options.pattern;
-  po.block_directions = rows_per_block * np;
+  po.block_directions = rows_per_block_ * np;
   po.progress = {};
   r.baseline = ComputePattern(array, currents, grid, po);
   r.main_beam = MainBeamMask(grid, r.baseline.directivity);
 
   // The error-free figures, through the same functions as every trial's.
-  const bool moves = e.position_sigma_m > 0;
-  std::optional<Eigen::MatrixXd> shared_r;
-  if (!moves && r.baseline.resistance_ohm.size() != 0) shared_r = r.baseline.resistance_ohm;
-  GridTracker base_grid;
+  moves_ = e.position_sigma_m > 0;
+  if (!moves_ && r.baseline.resistance_ohm.size() != 0) shared_r_ = r.baseline.resistance_ohm;
+  TrialGridMaxima base_grid;
   for (std::size_t i = 0; i < grid.size(); ++i)
     base_grid.Add(i, r.baseline.directivity[static_cast<Eigen::Index>(i)], r.main_beam[i]);
   const TrialArray base{array, currents, 0};
   // The beam: the design's, or the error-free refined peak (found first).
   FinishFigures(base, r.baseline.radiated_power_w, base_grid, grid, Vec3::UnitZ(), {}, nullptr,
                 r.baseline_figures);
-  const Vec3 peak0 = r.baseline_figures.peak_r_hat;
+  peak0_ = r.baseline_figures.peak_r_hat;
   r.beam_from_design = targets.beam.has_value();
-  r.beam_r_hat = targets.beam ? targets.beam->normalized() : peak0;
+  r.beam_r_hat = targets.beam ? targets.beam->normalized() : peak0_;
   for (const Vec3& p : targets.protected_directions)
     r.protected_directions.push_back(p.normalized());
   FinishFigures(base, r.baseline.radiated_power_w, base_grid, grid, r.beam_r_hat,
-                r.protected_directions, &peak0, r.baseline_figures);
+                r.protected_directions, &peak0_, r.baseline_figures);
   r.baseline_figures.directivity_loss_db = 0.0;
   r.seconds_baseline = SecondsSince(t0);
-  t0 = Clock::now();
 
-  // Stage 1: every trial's radiated power (needed for its directivity on the grid).
-  std::vector<double> power(k_trials);
-  for (std::size_t k = 0; k < k_trials; ++k) {
-    const TrialArray t = ApplyTrialErrors(array, currents, e, options.seed, k);
-    power[k] = PowerOf(t.array, t.currents_a, shared_r, options.pattern);
-    if (!(power[k] > 0.0)) {
+  const Eigen::Index ng = static_cast<Eigen::Index>(grid.size());
+  r.directivity_mean.resize(ng);
+  r.intensity_mean_w_sr.resize(ng);
+  r.directivity_percentiles.resize(static_cast<Eigen::Index>(options.percentiles.size()), ng);
+  r.blocks = (nt + rows_per_block_ - 1) / rows_per_block_;
+  r.trials.resize(k_trials);
+  power_.assign(k_trials, 0.0);
+  trackers_.assign(k_trials, TrialGridMaxima{});
+}
+
+std::size_t ToleranceStudy::FirstRow(std::size_t block) const { return block * rows_per_block_; }
+
+std::size_t ToleranceStudy::BlockDirections(std::size_t block) const {
+  LOBECAST_CHECK_LT(block, result_.blocks);
+  const std::size_t nt = grid_.theta_deg.size();
+  return std::min(rows_per_block_, nt - FirstRow(block)) * grid_.phi_deg.size();
+}
+
+void ToleranceStudy::ComputePowers(std::size_t k0, std::size_t k1) {
+  LOBECAST_CHECK_LE(k1, options_.trials);
+  for (std::size_t k = k0; k < k1; ++k) {
+    const TrialArray t = ApplyTrialErrors(array_, currents_, options_.errors, options_.seed, k);
+    power_[k] = PowerOf(t.array, t.currents_a, shared_r_, options_.pattern);
+    if (!(power_[k] > 0.0)) {
       throw InvalidArgument("trial " + std::to_string(k) + ": " + std::to_string(t.failed) +
-                            " of " + std::to_string(array.size()) +
+                            " of " + std::to_string(array_.size()) +
                             " elements failed and the rest radiate no power: expected a "
                             "failure rate that leaves elements radiating");
     }
   }
+}
 
-  // Stage 2: the grid, block by block, every trial per block.
-  const Eigen::Index ng = static_cast<Eigen::Index>(grid.size());
-  const std::size_t np_pct = options.percentiles.size();
-  r.directivity_mean.resize(ng);
-  r.intensity_mean_w_sr.resize(ng);
-  r.directivity_percentiles.resize(static_cast<Eigen::Index>(np_pct), ng);
-  std::vector<GridTracker> trackers(k_trials);
-  const std::size_t blocks = (nt + rows_per_block - 1) / rows_per_block;
-  r.blocks = blocks;
-  const int threads = ResolveThreads(options.pattern.field.num_threads);
-  std::vector<double> values;
-  for (std::size_t b = 0; b < blocks; ++b) {
-    const std::size_t row = b * rows_per_block;
-    const std::size_t rows = std::min(rows_per_block, nt - row);
-    AngularGrid block;
-    block.theta_deg.assign(grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
-                           grid.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
-    block.phi_deg = grid.phi_deg;
-    const Directions dirs = Directions::FromGrid(block);
-    const std::size_t nb = rows * np, offset = row * np;
-    std::optional<FieldPlan> plan;
-    if (!moves) plan.emplace(array, dirs, options.pattern.field);
-    values.assign(nb * k_trials, 0.0);
-    std::vector<double> u_sum(nb, 0.0);
-    for (std::size_t k = 0; k < k_trials; ++k) {
-      const TrialArray t = ApplyTrialErrors(array, currents, e, options.seed, k);
-      const FarField f = moves
-                             ? FieldPlan(t.array, dirs, options.pattern.field).Execute(t.currents_a)
-                             : plan->Execute(t.currents_a);
-      const double floor_v = FieldFloor_v(t.array, t.currents_a);
-      const double to_d = DirectivityPerIntensity(power[k]);
-      GridTracker& g = trackers[k];
-      for (std::size_t i = 0; i < nb; ++i) {
-        const auto ii = static_cast<Eigen::Index>(i);
-        // As DeriveFromField (engine/pattern.h): floored field, U, D = 4 pi U / P.
-        const double u =
-            RadiationIntensity(Floored(f.e_theta[ii], floor_v), Floored(f.e_phi[ii], floor_v));
-        const double d = to_d * u;
-        values[i * k_trials + k] = d;
-        u_sum[i] += u;
-        g.Add(offset + i, d, r.main_beam[offset + i]);
+void ToleranceStudy::TrialsOnBlock(std::size_t b, std::size_t k0, std::size_t k1, double* d,
+                                   double* u, bool u_summed) {
+  LOBECAST_CHECK_LE(k1, options_.trials);
+  const std::size_t np = grid_.phi_deg.size();
+  const std::size_t row = FirstRow(b);
+  const std::size_t nb = BlockDirections(b), rows = nb / np, offset = row * np;
+  const std::size_t stride = k1 - k0;
+  AngularGrid block;
+  block.theta_deg.assign(grid_.theta_deg.begin() + static_cast<std::ptrdiff_t>(row),
+                         grid_.theta_deg.begin() + static_cast<std::ptrdiff_t>(row + rows));
+  block.phi_deg = grid_.phi_deg;
+  const Directions dirs = Directions::FromGrid(block);
+  std::optional<FieldPlan> plan;
+  if (!moves_) plan.emplace(array_, dirs, options_.pattern.field);
+  for (std::size_t k = k0; k < k1; ++k) {
+    const TrialArray t = ApplyTrialErrors(array_, currents_, options_.errors, options_.seed, k);
+    const FarField f = moves_
+                           ? FieldPlan(t.array, dirs, options_.pattern.field).Execute(t.currents_a)
+                           : plan->Execute(t.currents_a);
+    const double floor_v = FieldFloor_v(t.array, t.currents_a);
+    const double to_d = DirectivityPerIntensity(power_[k]);
+    TrialGridMaxima& g = trackers_[k];
+    for (std::size_t i = 0; i < nb; ++i) {
+      const auto ii = static_cast<Eigen::Index>(i);
+      // As DeriveFromField (engine/pattern.h): floored field, U, D = 4 pi U / P.
+      const double ui =
+          RadiationIntensity(Floored(f.e_theta[ii], floor_v), Floored(f.e_phi[ii], floor_v));
+      const double di = to_d * ui;
+      d[i * stride + (k - k0)] = di;
+      if (u_summed) {
+        u[i] += ui;
+      } else {
+        u[i * stride + (k - k0)] = ui;
       }
-      if (options.progress) {
-        options.progress(0.95 * static_cast<double>(b * k_trials + k + 1) /
-                         static_cast<double>(blocks * k_trials));
-      }
+      g.Add(offset + i, di, result_.main_beam[offset + i]);
     }
-    // Each direction's statistics over the trials, in trial order (thread-independent).
-#pragma omp parallel num_threads(threads)
-    {
-      std::vector<double> sorted(k_trials);
+    if (options_.progress) {
+      options_.progress(0.95 * static_cast<double>(b * stride + (k - k0) + 1) /
+                        static_cast<double>(result_.blocks * stride));
+    }
+  }
+}
+
+void ToleranceStudy::BlockStatistics(std::size_t b, const double* values, const double* u,
+                                     bool u_summed) {
+  const std::size_t k_trials = options_.trials;
+  const std::size_t nb = BlockDirections(b), offset = FirstRow(b) * grid_.phi_deg.size();
+  const std::size_t np_pct = options_.percentiles.size();
+  ToleranceResult& r = result_;
+  // Each direction's statistics over the trials, in trial order (thread-independent).
+#pragma omp parallel num_threads(ResolveThreads(options_.pattern.field.num_threads))
+  {
+    std::vector<double> sorted(k_trials);
 #pragma omp for schedule(static)
-      for (std::size_t i = 0; i < nb; ++i) {
-        const double* column = values.data() + i * k_trials;
-        double sum = 0.0;
-        for (std::size_t k = 0; k < k_trials; ++k) sum += column[k];
-        const auto gi = static_cast<Eigen::Index>(offset + i);
-        r.directivity_mean[gi] = sum / static_cast<double>(k_trials);
-        r.intensity_mean_w_sr[gi] = u_sum[i] / static_cast<double>(k_trials);
-        std::copy(column, column + k_trials, sorted.begin());
-        std::sort(sorted.begin(), sorted.end());
-        for (std::size_t p = 0; p < np_pct; ++p) {
-          r.directivity_percentiles(static_cast<Eigen::Index>(p), gi) =
-              PercentileOfSorted(sorted.data(), k_trials, options.percentiles[p]);
-        }
+    for (std::size_t i = 0; i < nb; ++i) {
+      const double* column = values + i * k_trials;
+      double sum = 0.0;
+      for (std::size_t k = 0; k < k_trials; ++k) sum += column[k];
+      const auto gi = static_cast<Eigen::Index>(offset + i);
+      r.directivity_mean[gi] = sum / static_cast<double>(k_trials);
+      double u_sum = 0.0;
+      if (u_summed) {
+        u_sum = u[i];
+      } else {  // the same additions, in the same order, as the running sum
+        for (std::size_t k = 0; k < k_trials; ++k) u_sum += u[i * k_trials + k];
+      }
+      r.intensity_mean_w_sr[gi] = u_sum / static_cast<double>(k_trials);
+      std::copy(column, column + k_trials, sorted.begin());
+      std::sort(sorted.begin(), sorted.end());
+      for (std::size_t p = 0; p < np_pct; ++p) {
+        r.directivity_percentiles(static_cast<Eigen::Index>(p), gi) =
+            PercentileOfSorted(sorted.data(), k_trials, options_.percentiles[p]);
       }
     }
   }
-  values.clear();
-  values.shrink_to_fit();
+}
 
-  // Stage 3: the off-grid figures of every trial.
-  r.trials.resize(k_trials);
-  for (std::size_t k = 0; k < k_trials; ++k) {
-    const TrialArray t = ApplyTrialErrors(array, currents, e, options.seed, k);
-    FinishFigures(t, power[k], trackers[k], grid, r.beam_r_hat, r.protected_directions, &peak0,
+void ToleranceStudy::FinishTrials(std::size_t k0, std::size_t k1) {
+  LOBECAST_CHECK_LE(k1, options_.trials);
+  ToleranceResult& r = result_;
+  for (std::size_t k = k0; k < k1; ++k) {
+    const TrialArray t = ApplyTrialErrors(array_, currents_, options_.errors, options_.seed, k);
+    FinishFigures(t, power_[k], trackers_[k], grid_, r.beam_r_hat, r.protected_directions, &peak0_,
                   r.trials[k]);
     r.trials[k].directivity_loss_db =
         PowerRatioDb(r.baseline_figures.beam_directivity, r.trials[k].beam_directivity);
-    if (options.progress) {
-      options.progress(0.95 + 0.05 * static_cast<double>(k + 1) / static_cast<double>(k_trials));
+    if (options_.progress) {
+      options_.progress(0.95 +
+                        0.05 * static_cast<double>(k - k0 + 1) / static_cast<double>(k1 - k0));
     }
   }
-  r.seconds_trials = SecondsSince(t0);
-  return r;
+}
+
+ToleranceResult RunTolerance(const Array& array, const Eigen::VectorXcd& currents,
+                             const AngularGrid& grid, const ToleranceTargets& targets,
+                             const ToleranceOptions& options) {
+  ToleranceStudy study(array, currents, grid, targets, options);
+  const auto t0 = Clock::now();
+  const std::size_t k_trials = options.trials;
+  // Stage 1: every trial's radiated power (needed for its directivity on the grid).
+  study.ComputePowers(0, k_trials);
+  // Stage 2: the grid, block by block, every trial per block.
+  std::vector<double> values;
+  for (std::size_t b = 0; b < study.result().blocks; ++b) {
+    const std::size_t nb = study.BlockDirections(b);
+    values.assign(nb * k_trials, 0.0);
+    std::vector<double> u_sum(nb, 0.0);
+    study.TrialsOnBlock(b, 0, k_trials, values.data(), u_sum.data(), true);
+    study.BlockStatistics(b, values.data(), u_sum.data(), true);
+  }
+  values.clear();
+  values.shrink_to_fit();
+  // Stage 3: the off-grid figures of every trial.
+  study.FinishTrials(0, k_trials);
+  study.result().seconds_trials = SecondsSince(t0);
+  return std::move(study.result());
 }
 
 }  // namespace lobecast

@@ -43,14 +43,15 @@
 // per-direction statistics are taken per direction over trials in index order. So
 // the same seed gives the same bits with any thread count.
 //
-// Scale-out (MPI, to come in a room of its own; the engine stays MPI-free): trial k
-// depends only on (seed, k), so ranks split the trials into contiguous ranges
-// [k0, k1) and run the block loop of RunTolerance for their range (ApplyTrialErrors
-// gives any trial's array and currents on its own); per block they send their (k1 - k0) x (block
-// directions) values to the rank that takes the statistics (a gather, or an all-to-all by direction
-// ranges to spread the sorting), and the per-trial figures (TrialFigures) gather by trial index.
-// Statistics taken over trials in index order from the gathered columns are the single-process
-// bits.
+// Scale-out (cli/mpi: the MPI driver; the engine stays MPI-free). Trial k depends only
+// on (seed, k), so a driver splits the trials into contiguous ranges [k0, k1) and runs
+// the stages of ToleranceStudy (below) for its range: the powers, each block's values,
+// the per-trial figures. Per block the driver gathers every range's (k1 - k0) x (block
+// directions) values of D and U to one process, which takes the statistics over trials
+// in index order from the full columns (BlockStatistics): the single-process bits. The
+// blocks are the single process's (they depend on K and the grid only), so each trial's
+// plan, and so its field, is the same whatever the method. RunTolerance is the stages
+// over [0, K) in one process.
 #pragma once
 
 #include <cstddef>
@@ -178,6 +179,67 @@ struct ToleranceResult {
 ToleranceResult RunTolerance(const Array& array, const Eigen::VectorXcd& currents_a,
                              const AngularGrid& grid, const ToleranceTargets& targets,
                              const ToleranceOptions& options);
+
+// The grid quantities one trial's figures need, gathered over the blocks: the
+// largest directivity, the largest outside the main beam, and where inside the main
+// beam the largest one is (the first such index).
+struct TrialGridMaxima {
+  double max_all = 0.0;
+  double max_outside = -1.0;  // stays < 0 when every direction is in the main beam
+  double max_inside = -1.0;
+  std::size_t argmax_inside = 0;
+  void Add(std::size_t index, double d, bool in_main_beam);
+};
+
+// The stages of RunTolerance, for a driver that splits the trials among processes
+// (cli/mpi). Run over every trial in this order (powers, then per block the trials and
+// the statistics, then the figures), they are RunTolerance, bit for bit; a process may
+// run any range of trials of each stage, provided it runs the same range in all three
+// (a trial's grid maxima and power stay where they were computed).
+class ToleranceStudy {
+ public:
+  // Validates (the exceptions of RunTolerance), computes the error-free pattern, main
+  // beam and figures: result() holds them, sized for every trial and direction.
+  ToleranceStudy(const Array& array, const Eigen::VectorXcd& currents_a, const AngularGrid& grid,
+                 const ToleranceTargets& targets, const ToleranceOptions& options);
+
+  std::size_t blocks() const { return result_.blocks; }
+  // Directions of block b (whole theta rows, theta-major), and its first grid index.
+  std::size_t BlockDirections(std::size_t block) const;
+  std::size_t BlockOffset(std::size_t block) const {
+    return FirstRow(block) * grid_.phi_deg.size();
+  }
+  // Stage 1: the radiated power of trials [k0, k1); throws naming a trial that
+  // radiates nothing.
+  void ComputePowers(std::size_t k0, std::size_t k1);
+  // Stage 2: trials [k0, k1) on block b (their powers computed). D of direction i and
+  // trial k goes to d[i * (k1 - k0) + k - k0]; U likewise to u, or, when u_summed,
+  // is added to u[i] in trial order. Reports progress as a fraction of the range.
+  void TrialsOnBlock(std::size_t block, std::size_t k0, std::size_t k1, double* d, double* u,
+                     bool u_summed);
+  // The statistics of block b from every trial's D (d as TrialsOnBlock over [0, K))
+  // and U (the same layout, or its running sums when u_summed).
+  void BlockStatistics(std::size_t block, const double* d, const double* u, bool u_summed);
+  // Stage 3: the figures of trials [k0, k1) (their blocks all done) into result().trials.
+  void FinishTrials(std::size_t k0, std::size_t k1);
+
+  ToleranceResult& result() { return result_; }
+
+ private:
+  std::size_t FirstRow(std::size_t block) const;
+
+  const Array& array_;
+  const Eigen::VectorXcd& currents_;
+  const AngularGrid& grid_;
+  ToleranceOptions options_;
+  std::size_t rows_per_block_ = 1;
+  bool moves_ = false;
+  std::optional<Eigen::MatrixXd> shared_r_;
+  Vec3 peak0_ = Vec3::UnitZ();
+  std::vector<double> power_;
+  std::vector<TrialGridMaxima> trackers_;
+  ToleranceResult result_;
+};
 
 // The error set of trial k applied to an array and its currents (exposed for tests
 // and for a driver that splits trials).
