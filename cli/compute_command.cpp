@@ -165,8 +165,9 @@ std::string WhyStream(const ComputeArgs& args, const ArrayDescription& desc,
                   "a frequency sweep ('frequencies': every frequency in memory)");
   }
   if (ProcessCount() > 1) {
-    return cannot("mpirun", "more than one MPI process (a streamed result is written by one "
-                            "process as its blocks are finished)");
+    return cannot("mpirun",
+                  "more than one MPI process (a streamed result is written by one "
+                  "process as its blocks are finished)");
   }
   if (NeedsCoupling(desc.ports, desc.wires)) {
     return cannot("a port circuit",

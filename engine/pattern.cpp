@@ -248,8 +248,8 @@ void SetPeak(ComputeSummary& s, const AngularGrid& grid, std::size_t at, double 
 // summary's route message is left to CloseSummary.
 PatternInProgress RunBlocks(const Array& array, const Eigen::VectorXcd& currents,
                             const AngularGrid& grid, const PatternOptions& options,
-                            const PatternBlockSink& sink, bool finish_blocks,
-                            std::size_t first_row, std::size_t last_row) {
+                            const PatternBlockSink& sink, bool finish_blocks, std::size_t first_row,
+                            std::size_t last_row) {
   Validate(array);
   ValidateCurrents(array, currents);
   std::string why;

@@ -203,9 +203,9 @@ PatternResult ComputePatternBlocks(const Array& array, const Eigen::VectorXcd& c
 // blocks of ComputePatternBlocks, gathered); the driver then fills in every row's
 // field and merges the summary's per-block entries (fast_transforms_used,
 // field_error_bound_relative, blocks, fast_blocks), and FinishPattern applies the
-// floor, derives U, D and the polarization and finds the peak. ComputePattern is the two over every row. Rows split at block boundaries
-// run the very plans of the whole grid (the same bits whatever the method); other
-// splits give the direct sums' bits and the fast path's tolerance.
+// floor, derives U, D and the polarization and finds the peak. ComputePattern is the two over every
+// row. Rows split at block boundaries run the very plans of the whole grid (the same bits whatever
+// the method); other splits give the direct sums' bits and the fast path's tolerance.
 struct PatternInProgress {
   PatternResult result;  // grid, power, field of the rows, summary so far
   std::size_t blocks = 0;
