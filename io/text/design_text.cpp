@@ -75,9 +75,19 @@ std::string LatticeLine(const DesignInfo& d, double lambda) {
                     l.ring_radii_m[r], l.ring_radii_m[r] / lambda);
       break;
   }
-  s += Printf("; %zu generated", d.generated);
-  if (d.generated != d.lattice_size) s += Printf(" (%zu removed)", d.lattice_size - d.generated);
-  return s + "\n";
+  if (!d.crossed) {
+    s += Printf("; %zu generated", d.generated);
+    if (d.generated != d.lattice_size) s += Printf(" (%zu removed)", d.lattice_size - d.generated);
+    return s + "\n";
+  }
+  s += Printf("; %zu sites", d.sites());
+  if (d.sites() != d.lattice_size) s += Printf(" (%zu removed)", d.lattice_size - d.sites());
+  s += Printf(", %zu dipoles generated\n", d.generated);
+  return s + Printf(
+                 "element      crossed pairs, %s toward the beam: each site's second dipole "
+                 "(n x the first) %s the first by 90 deg\n",
+                 std::string(ToString(*d.crossed)).c_str(),
+                 d.crossed_phase_deg < 0 ? "lags" : "leads");
 }
 
 // "-inf (below rounding)" for an exact zero, else the level to 0.01 dB.
