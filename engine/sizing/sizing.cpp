@@ -260,8 +260,15 @@ Sized SizeOnce(const SizingRequirements& req, LatticeKind kind, TaperKind taper_
   c.grating_margin = GratingLobeMargin(kind, dx, dy, region);
   if (req.circular) {
     c.dipoles_per_site = 2;
-    c.axial_ratio_scan_xz_db = CrossedPairAxialRatioDb(req.scan_xz_deg);
-    c.axial_ratio_scan_yz_db = CrossedPairAxialRatioDb(req.scan_yz_deg);
+    // At the predicted peak of the scanned cut (the element and ground factors pull
+    // it toward broadside).
+    const auto ar = [&](ScanPlane p, double scan_deg, int n, double d) {
+      return scan_deg > 0 ? CrossedPairAxialRatioDb(
+                                PredictCut(panel.model, p, scan_deg, CutStep(n, d)).peak_deg)
+                          : 0.0;
+    };
+    c.axial_ratio_scan_xz_db = ar(ScanPlane::kXZ, req.scan_xz_deg, nx, dx);
+    c.axial_ratio_scan_yz_db = ar(ScanPlane::kYZ, req.scan_yz_deg, ny, dy);
   }
 
   const Constraint count_cap = s.elements_capped                 ? Constraint::kMaxElements

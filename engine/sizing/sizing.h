@@ -28,7 +28,8 @@
 // every site (engine/synthesis/crossed_pair.h): the cuts take the pair's power pattern
 // 1 + cos^2 t instead of one dipole's; the directivity estimate (3.) is that of the
 // aperture and does not change; the axial ratio is predicted as the pair's own toward
-// the scan edges, 1 / cos(scan), which no lattice or taper can improve (kElement).
+// the predicted peak of each scan edge's beam, 1 / cos(theta_peak), which no lattice or
+// taper can improve (kElement).
 // Counts (max_elements, the ranking) are of sites, two dipoles each.
 // Candidates that meet everything computed rank first, by fewest elements, then by
 // the larger grating-lobe margin. Constraints (max_elements, max_aperture) cap the
@@ -120,8 +121,9 @@ struct SizingCandidate {
   // plane steered to its scan edge (-inf where that plane is not scanned).
   double sidelobe_broadside_db = 0, sidelobe_scan_xz_db = 0, sidelobe_scan_yz_db = 0;
   double grating_margin = 0;  // sine space (GratingLobeMargin)
-  // Crossed pairs: the pair's axial ratio toward each scan edge (0 broadside),
-  // CrossedPairAxialRatioDb; 0 where a plane is not scanned or for linear elements.
+  // Crossed pairs: the pair's axial ratio (CrossedPairAxialRatioDb) toward the
+  // predicted peak of the beam steered to each scan edge; 0 where a plane is not
+  // scanned or for linear elements.
   double axial_ratio_scan_xz_db = 0, axial_ratio_scan_yz_db = 0;
   std::vector<Shortfall> predicted_shortfalls;
 

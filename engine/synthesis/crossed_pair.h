@@ -35,15 +35,15 @@
 namespace lobecast {
 
 enum class CircularSense { kRight, kLeft };
-std::string_view ToString(CircularSense s);                          // "rhcp", "lhcp"
+std::string_view ToString(CircularSense s);                                // "rhcp", "lhcp"
 std::optional<CircularSense> CircularSenseFromString(std::string_view s);  // case-insensitive
 
 // RightCircular or LeftCircular (field_map.h).
 PolarizationVector CircularPolarizationOf(CircularSense s);
 
 struct CrossedPair {
-  Vec3 first = Vec3::UnitX();   // the template's orientation (unit)
-  Vec3 second = Vec3::UnitY();  // n x first
+  Vec3 first = Vec3::UnitX();     // the template's orientation (unit)
+  Vec3 second = Vec3::UnitY();    // n x first
   double second_phase_deg = -90;  // I2 = I1 exp(j phase): -90 (behind) or +90 (ahead)
 };
 
