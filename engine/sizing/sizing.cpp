@@ -328,33 +328,25 @@ CandidateArray BuildCandidateArray(const SizingRequirements& req, const SizingCa
   CandidateArray out;
   out.array.frequency_hz = req.frequency_hz;
   out.array.ground = req.ground;
+  // One dipole per site, or a crossed pair as the design reader generates it: the
+  // second dipole's phase wrapped in degrees, then turned back to radians (the
+  // written file's bits).
+  std::vector<std::pair<Vec3, double>> per_site{{req.polarization, 0.0}};
   if (req.circular) {
-    // As the design reader generates them: the second dipole's phase wrapped in
-    // degrees, then turned back to radians (the written file's bits).
     const CrossedPair pair = CrossedPairFor(spec, req.polarization, Vec3::UnitZ(), *req.circular);
-    const double phase_deg = WrappedDegrees(pair.second_phase_deg * kDegree);
-    out.currents.resize(static_cast<Eigen::Index>(2 * sites.size()));
-    for (std::size_t n = 0; n < sites.size(); ++n) {
+    per_site.emplace_back(pair.second, WrappedDegrees(pair.second_phase_deg * kDegree));
+  }
+  out.currents.resize(static_cast<Eigen::Index>(per_site.size() * sites.size()));
+  Eigen::Index i = 0;
+  for (std::size_t n = 0; n < sites.size(); ++n) {
+    for (const auto& [orientation, phase_deg] : per_site) {
       Dipole d;
       d.position_m = sites[n].position_m;
+      d.orientation = orientation;
       d.length_m = req.element_length_m;
-      d.orientation = pair.first;
       out.array.dipoles.push_back(d);
-      d.orientation = pair.second;
-      out.array.dipoles.push_back(d);
-      out.currents[static_cast<Eigen::Index>(2 * n)] = std::polar(a[n], 0.0);
-      out.currents[static_cast<Eigen::Index>(2 * n + 1)] = std::polar(a[n], phase_deg * kDegree);
+      out.currents[i++] = std::polar(a[n], phase_deg * kDegree);
     }
-    return out;
-  }
-  out.currents.resize(static_cast<Eigen::Index>(sites.size()));
-  for (std::size_t n = 0; n < sites.size(); ++n) {
-    Dipole d;
-    d.position_m = sites[n].position_m;
-    d.orientation = req.polarization;
-    d.length_m = req.element_length_m;
-    out.array.dipoles.push_back(d);
-    out.currents[static_cast<Eigen::Index>(n)] = Complex(a[n], 0.0);
   }
   return out;
 }

@@ -65,9 +65,9 @@ std::string LatticeLine(const DesignInfo& d, double lambda) {
       break;
     case LatticeKind::kRectangular:
     case LatticeKind::kTriangular:
-      s += Printf("%d x %d elements, spacing %.6g x %.6g m (%.4g x %.4g wavelength)", l.count_x,
-                  l.count_y, l.spacing_x_m, l.spacing_y_m, l.spacing_x_m / lambda,
-                  l.spacing_y_m / lambda);
+      s += Printf("%d x %d %s, spacing %.6g x %.6g m (%.4g x %.4g wavelength)", l.count_x,
+                  l.count_y, d.crossed ? "sites" : "elements", l.spacing_x_m, l.spacing_y_m,
+                  l.spacing_x_m / lambda, l.spacing_y_m / lambda);
       break;
     case LatticeKind::kRing:
       for (std::size_t r = 0; r < l.ring_counts.size(); ++r)

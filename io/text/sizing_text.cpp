@@ -216,9 +216,10 @@ std::string SizingTable(const RequirementsFile& rf, const SizingResult& res,
   for (LatticeKind k : {LatticeKind::kRectangular, LatticeKind::kTriangular}) {
     const LatticeSpacing sp = LargestSpacing(
         k, {std::sin(r.scan_xz_deg * kDegree), std::sin(r.scan_yz_deg * kDegree)}, 0);
-    s += Printf("  %-11s  %.4f x %.4f wavelength (%s x %s), %.4g elements per square wavelength\n",
+    s += Printf("  %-11s  %.4f x %.4f wavelength (%s x %s), %.4g %s per square wavelength\n",
                 std::string(ToString(k)).c_str(), sp.dx, sp.dy, Length(sp.dx * lambda).c_str(),
-                Length(sp.dy * lambda).c_str(), 1 / (sp.dx * sp.dy));
+                Length(sp.dy * lambda).c_str(), 1 / (sp.dx * sp.dy),
+                r.circular ? "sites" : "elements");
   }
   s += std::string("\nrank  lattice      ") + (r.circular ? "sites   " : "elements") +
        "        spacing (wavelength)  taper (design level)           "
