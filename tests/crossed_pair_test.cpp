@@ -303,6 +303,13 @@ TEST(CrossedSizing, CandidatesAreCrossedPairsWithinTheAxialRatioLimit) {
                           : b.plane == ScanPlane::kXZ ? c.axial_ratio_scan_xz_db
                                                       : c.axial_ratio_scan_yz_db;
       EXPECT_NEAR(b.axial_ratio_db, pred, 0.05) << b.steer_theta_deg;
+      if (b.steer_theta_deg == 0) {
+        // The cuts predicted with the pair's power pattern (1 + cos^2) are the
+        // computed ones: beamwidths to 0.1 deg, side lobes to 0.2 dB.
+        EXPECT_NEAR(b.beamwidth_xz_deg, c.beamwidth_xz_deg, 0.1);
+        EXPECT_NEAR(b.beamwidth_yz_deg, c.beamwidth_yz_deg, 0.1);
+        EXPECT_NEAR(b.sidelobe_db, c.sidelobe_broadside_db, 0.2);
+      }
     }
     any |= c.meets;
     const CandidateArray ca = BuildCandidateArray(rf.requirements, c);
