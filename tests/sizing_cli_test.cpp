@@ -79,9 +79,13 @@ TEST(SizeCli, BrokenRequirementsAreLocatedAndWriteNothing) {
        "key 'scan_deg': found 95"},
       {"frequency = \"10 GHz\"\ndirectivity_dbi = 25\nsidelobe_db = -25\nground_height = 0.01\n",
        "key 'ground_height': found a ground height without a ground plane"},
+      // Circular polarization is sized (crossed pairs); its axial-ratio limit is
+      // checked, and refused with linear elements.
       {"frequency = \"10 GHz\"\ndirectivity_dbi = 25\nsidelobe_db = -25\npolarization = "
-       "\"rhcp\"\n",
-       "circular polarization from crossed pairs is not sized yet"},
+       "\"rhcp\"\naxial_ratio_db = 25\n",
+       ":5:18: key 'axial_ratio_db': found 25, expected a limit in (0, 20] dB"},
+      {"frequency = \"10 GHz\"\ndirectivity_dbi = 25\nsidelobe_db = -25\naxial_ratio_db = 3\n",
+       "key 'axial_ratio_db': found an axial-ratio limit with linear polarization"},
       {"frequency = \"10 GHz\"\ndirectivity_dbi = 25\nsidelobe_db = -25\nmax_aperture = 0.001\n",
        "room for two elements"},
       {"frequency = \"10 GHz\"\ndirectivity_dbi = 25\nsidelobe_dB = -25\n", "key 'sidelobe_dB'"},

@@ -8,6 +8,7 @@
 #include "engine/analysis/local_search.h"
 #include "engine/constants.h"
 #include "engine/error.h"
+#include "engine/synthesis/crossed_pair.h"
 
 namespace lobecast {
 namespace {
@@ -43,7 +44,9 @@ class Cut {
     const double s = std::sin(t), c = std::cos(t);
     const Vec3 r = plane_ == ScanPlane::kXZ ? Vec3(s, 0, c) : Vec3(0, s, c);
     const double ro = r.dot(p_.orientation);
-    double ef = std::sqrt(std::max(0.0, 1.0 - ro * ro));
+    // A crossed pair's power pattern is 1 + cos^2 t (crossed_pair.h) for both cuts.
+    double ef = p_.crossed ? std::sqrt(2.0 * CrossedPairPowerPattern(Vec3::UnitZ(), r))
+                           : std::sqrt(std::max(0.0, 1.0 - ro * ro));
     if (p_.pec) ef *= 2.0 * std::abs(std::sin(kTwoPi * p_.height * c));
     const double af = LineFactor(plane_ == ScanPlane::kXZ ? p_.x : p_.y, s - s0_);
     return af * af * ef * ef;

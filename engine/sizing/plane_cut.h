@@ -1,9 +1,9 @@
 // Predicted principal-plane cuts of a planar panel (array-factor theory): the array
-// factor times the element factor of a short dipole (|u_perp| = sqrt(1 - (r . o)^2))
-// and, over a PEC ground, the image factor 2 |sin(k h cos theta)| of a horizontal
-// dipole at height h. Mutual coupling is not modelled (the engine's currents are
-// forced too); the planes off the principal ones are left to the engine's check
-// (sizing.h).
+// factor times the element factor of a short dipole (|u_perp| = sqrt(1 - (r . o)^2)),
+// or of a crossed pair (power 1 + (r . z)^2, engine/synthesis/crossed_pair.h), and, over a PEC
+// ground, the image factor 2 |sin(k h cos theta)| of a horizontal dipole at height h. Mutual
+// coupling is not modelled (the engine's currents are forced too); the planes off the principal
+// ones are left to the engine's check (sizing.h).
 //
 // The xz-plane cut runs over r = (sin t, 0, cos t), the yz-plane cut over
 // r = (0, sin t, cos t), t in [-90, 90] deg, with the beam steered to t0 in that plane
@@ -29,6 +29,7 @@ struct LineProjection {
 struct PanelModel {
   LineProjection x, y;
   Vec3 orientation = Vec3::UnitX();
+  bool crossed = false;  // a crossed pair per site (orientation and z x it)
   bool pec = false;
   double height = 0.25;  // wavelengths, over PEC
 };

@@ -45,6 +45,8 @@ void Validate(const SizingRequirements& r) {
   if (!(std::abs(r.polarization.norm() - 1) < 1e-12 &&
         (std::abs(r.polarization.x()) == 1 || std::abs(r.polarization.y()) == 1)))
     fail("the polarization must be x or y");
+  if (r.circular && !(r.max_axial_ratio_db > 0 && r.max_axial_ratio_db <= 20))
+    fail("the axial-ratio limit must be in (0, 20] dB");
   if (!(r.element_length_m > 0 && r.element_length_m <= 0.5 * lambda))
     fail("the element length must be in (0, lambda/2]");
   if (r.max_elements && !(*r.max_elements >= 4 && *r.max_elements <= 100000))

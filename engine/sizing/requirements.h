@@ -7,6 +7,7 @@
 #include <optional>
 #include <string_view>
 
+#include "engine/synthesis/crossed_pair.h"
 #include "engine/types.h"
 
 namespace lobecast {
@@ -34,8 +35,14 @@ struct SizingRequirements {
   double scan_yz_deg = 0;
   Ground ground = Ground::kNone;
   double ground_height_m = 0;  // pec: the elements' height above the plane
-  // The element: a short dipole along x or y (linear polarization).
+  // The element: a short dipole along x or y (linear polarization); with `circular`,
+  // a crossed pair per site (crossed_pair.h): this dipole and the one along
+  // z x polarization, a quarter period apart for that sense toward +z.
   Vec3 polarization = Vec3::UnitX();
+  std::optional<CircularSense> circular;
+  // Circular only: the highest axial ratio at the beam peak, at broadside and at the
+  // scan edges (dB; 3 dB is common practice), (0, 20].
+  double max_axial_ratio_db = 3.0;
   double element_length_m = 0;  // physical length of each dipole
   LatticeChoice lattice = LatticeChoice::kEither;
   std::optional<long> max_elements;

@@ -13,6 +13,7 @@
 #include "engine/error.h"
 #include "engine/pattern.h"
 #include "engine/sizing/grating_free.h"
+#include "engine/synthesis/crossed_pair.h"
 #include "engine/synthesis/steering.h"
 #include "engine/text_case.h"
 
@@ -29,9 +30,11 @@ std::string_view ToString(Requirement r) {
     case Requirement::kSidelobes:
       return "sidelobes";
     case Requirement::kGratingLobes:
+      return "grating_lobes";
+    case Requirement::kAxialRatio:
       break;
   }
-  return "grating_lobes";
+  return "axial_ratio";
 }
 
 std::string_view ToString(Constraint c) {
@@ -45,9 +48,11 @@ std::string_view ToString(Constraint c) {
     case Constraint::kMaxApertureY:
       return "max_aperture_y";
     case Constraint::kTaper:
+      return "taper";
+    case Constraint::kElement:
       break;
   }
-  return "taper";
+  return "element";
 }
 
 namespace {
@@ -114,6 +119,7 @@ Panel MakePanel(const SizingRequirements& req, LatticeKind kind, const TaperSpec
   Panel p;
   p.model = ProjectPanel(sites, a, lambda);
   p.model.orientation = req.polarization;
+  p.model.crossed = req.circular.has_value();
   p.model.pec = req.ground == Ground::kPec;
   p.model.height = req.ground_height_m / lambda;
   p.efficiency = TaperEfficiency(a);
@@ -252,6 +258,18 @@ Sized SizeOnce(const SizingRequirements& req, LatticeKind kind, TaperKind taper_
   c.beamwidth_yz_deg =
       PredictCut(panel.model, ScanPlane::kYZ, 0, CutStep(ny, dy)).half_power_width_deg;
   c.grating_margin = GratingLobeMargin(kind, dx, dy, region);
+  if (req.circular) {
+    c.dipoles_per_site = 2;
+    // At the predicted peak of the scanned cut (the element and ground factors pull
+    // it toward broadside).
+    const auto ar = [&](ScanPlane p, double scan_deg, int n, double d) {
+      return scan_deg > 0 ? CrossedPairAxialRatioDb(
+                                PredictCut(panel.model, p, scan_deg, CutStep(n, d)).peak_deg)
+                          : 0.0;
+    };
+    c.axial_ratio_scan_xz_db = ar(ScanPlane::kXZ, req.scan_xz_deg, nx, dx);
+    c.axial_ratio_scan_yz_db = ar(ScanPlane::kYZ, req.scan_yz_deg, ny, dy);
+  }
 
   const Constraint count_cap = s.elements_capped                 ? Constraint::kMaxElements
                                : s.capped_x != Constraint::kNone ? s.capped_x
@@ -274,6 +292,15 @@ Sized SizeOnce(const SizingRequirements& req, LatticeKind kind, TaperKind taper_
     if (c.sidelobe_scan_yz_db == c.sidelobe_db)
       f.scan_theta_deg = req.scan_yz_deg, f.scan_plane = ScanPlane::kYZ;
     miss.push_back(f);
+  }
+  if (req.circular) {
+    for (ScanPlane p : {ScanPlane::kXZ, ScanPlane::kYZ}) {
+      const bool xz = p == ScanPlane::kXZ;
+      const double ar = xz ? c.axial_ratio_scan_xz_db : c.axial_ratio_scan_yz_db;
+      if (ar > req.max_axial_ratio_db)
+        miss.push_back({Requirement::kAxialRatio, req.max_axial_ratio_db, ar,
+                        xz ? req.scan_xz_deg : req.scan_yz_deg, p, Constraint::kElement});
+    }
   }
   return s;
 }
@@ -301,14 +328,25 @@ CandidateArray BuildCandidateArray(const SizingRequirements& req, const SizingCa
   CandidateArray out;
   out.array.frequency_hz = req.frequency_hz;
   out.array.ground = req.ground;
-  out.currents.resize(static_cast<Eigen::Index>(sites.size()));
+  // One dipole per site, or a crossed pair as the design reader generates it: the
+  // second dipole's phase wrapped in degrees, then turned back to radians (the
+  // written file's bits).
+  std::vector<std::pair<Vec3, double>> per_site{{req.polarization, 0.0}};
+  if (req.circular) {
+    const CrossedPair pair = CrossedPairFor(spec, req.polarization, Vec3::UnitZ(), *req.circular);
+    per_site.emplace_back(pair.second, WrappedDegrees(pair.second_phase_deg * kDegree));
+  }
+  out.currents.resize(static_cast<Eigen::Index>(per_site.size() * sites.size()));
+  Eigen::Index i = 0;
   for (std::size_t n = 0; n < sites.size(); ++n) {
-    Dipole d;
-    d.position_m = sites[n].position_m;
-    d.orientation = req.polarization;
-    d.length_m = req.element_length_m;
-    out.array.dipoles.push_back(d);
-    out.currents[static_cast<Eigen::Index>(n)] = Complex(a[n], 0.0);
+    for (const auto& [orientation, phase_deg] : per_site) {
+      Dipole d;
+      d.position_m = sites[n].position_m;
+      d.orientation = orientation;
+      d.length_m = req.element_length_m;
+      out.array.dipoles.push_back(d);
+      out.currents[i++] = std::polar(a[n], phase_deg * kDegree);
+    }
   }
   return out;
 }
@@ -386,6 +424,8 @@ void CheckCandidate(const SizingRequirements& req, SizingCandidate& c, int threa
     };
     for (const Lobe& l : a.major_lobes) b.grating_lobes += is_mirror(l) ? 0 : 1;
     for (const Lobe& l : a.side_lobes) b.grating_lobes += is_mirror(l) ? 0 : 1;
+    b.axial_ratio_db = a.polarization.axial_ratio_at_peak_db;
+    b.sense = a.polarization.sense_at_peak;
     c.computed.push_back(b);
 
     const auto bound = [&](Requirement what) {
@@ -412,6 +452,15 @@ void CheckCandidate(const SizingRequirements& req, SizingCandidate& c, int threa
     if (b.grating_lobes > 0)
       c.shortfalls.push_back({Requirement::kGratingLobes, 0, double(b.grating_lobes), st.theta,
                               st.plane, Constraint::kNone});
+    if (req.circular) {
+      // A field of the other hand (or linear) misses however small its axial ratio.
+      const int asked = *req.circular == CircularSense::kRight ? 1 : -1;
+      const double ar =
+          b.sense == asked ? b.axial_ratio_db : std::numeric_limits<double>::infinity();
+      if (!(ar <= req.max_axial_ratio_db))
+        c.shortfalls.push_back({Requirement::kAxialRatio, req.max_axial_ratio_db, ar, st.theta,
+                                st.plane, Constraint::kElement});
+    }
   }
   c.checked = true;
   c.meets = c.shortfalls.empty();
@@ -445,6 +494,10 @@ SizingResult SizeArray(const SizingRequirements& req, const SizingOptions& optio
         if (!options.check) break;
         CheckCandidate(req, c, options.threads);
         if (c.meets) break;
+        // The element sets the axial ratio: sizing again cannot help it.
+        bool resizable = false;
+        for (const Shortfall& f : c.shortfalls) resizable |= f.what != Requirement::kAxialRatio;
+        if (!resizable) break;
         bool capped = false;
         for (const Shortfall& f : c.predicted_shortfalls) capped |= f.bound_by != Constraint::kNone;
         if (capped) break;
@@ -471,6 +524,8 @@ SizingResult SizeArray(const SizingRequirements& req, const SizingOptions& optio
               break;
             case Requirement::kGratingLobes:
               adj.extra_guard += 0.05;
+              break;
+            case Requirement::kAxialRatio:
               break;
           }
         }

@@ -19,10 +19,18 @@
 //     memory; common practice), square unless max_aperture bounds a side; and the
 //     counts whose predicted half-power beamwidths meet the beamwidth requirements;
 //  4. check: the pattern computed by the engine (ComputePattern, AnalyzePattern) at
-//     broadside and steered to the scan edge in each principal plane; where the
+//     broadside and steered to the scan edge in each principal plane (for circular
+//     polarization also the axial ratio and sense at each beam peak); where the
 //     computed directivity, beamwidth or side lobes miss, the counts or the taper are
 //     raised by the shortfall and the candidate is sized again (at most
 //     SizingOptions::max_rounds times).
+// Circular polarization (requirements polarization "rhcp"/"lhcp") puts a crossed pair at
+// every site (engine/synthesis/crossed_pair.h): the cuts take the pair's power pattern
+// 1 + cos^2 t instead of one dipole's; the directivity estimate (3.) is that of the
+// aperture and does not change; the axial ratio is predicted as the pair's own toward
+// the predicted peak of each scan edge's beam, 1 / cos(theta_peak), which no lattice or
+// taper can improve (kElement).
+// Counts (max_elements, the ranking) are of sites, two dipoles each.
 // Candidates that meet everything computed rank first, by fewest elements, then by
 // the larger grating-lobe margin. Constraints (max_elements, max_aperture) cap the
 // counts; what they cost is a Shortfall naming the requirement and the constraint.
@@ -42,12 +50,21 @@
 
 namespace lobecast {
 
-enum class Requirement { kDirectivity, kBeamwidthXZ, kBeamwidthYZ, kSidelobes, kGratingLobes };
+// kAxialRatio: circular polarization only (the axial ratio at the beam peak).
+enum class Requirement {
+  kDirectivity,
+  kBeamwidthXZ,
+  kBeamwidthYZ,
+  kSidelobes,
+  kGratingLobes,
+  kAxialRatio
+};
 std::string_view ToString(Requirement r);  // "directivity", "beamwidth_xz", ...
 
 // kTaper: the taper's design level reached its floor (-80 dB) and the predicted side
-// lobes still miss (the outline, not the taper, sets them).
-enum class Constraint { kNone, kMaxElements, kMaxApertureX, kMaxApertureY, kTaper };
+// lobes still miss (the outline, not the taper, sets them). kElement: the element sets
+// it (a crossed pair's axial ratio off its normal, crossed_pair.h), not the lattice.
+enum class Constraint { kNone, kMaxElements, kMaxApertureX, kMaxApertureY, kTaper, kElement };
 std::string_view ToString(Constraint c);  // "none", "max_elements", "max_aperture_x", ...
 
 // A requirement missed: what was asked and what was reached (dBi, deg or dB; grating
@@ -73,6 +90,10 @@ struct ComputedBeam {
   double sidelobe_db = 0;                             // highest side lobe re the peak (-inf: none)
   int grating_lobes = 0;  // other major lobes (not the free-space mirror beam)
   double grid_step_deg = 0;
+  // At the refined peak (IEEE Std 145-2013): dB (0 circular, +inf linear) and sense
+  // (+1 right, -1 left, 0 linear). Reported for circular requirements.
+  double axial_ratio_db = 0;
+  int sense = 0;
 };
 
 struct SizingCandidate {
@@ -82,9 +103,12 @@ struct SizingCandidate {
   double largest_spacing_x_m = 0, largest_spacing_y_m = 0;  // the lattice condition, no guard
   TaperSpec taper;                                          // separable: the same on x and y
   double taper_efficiency = 1;
+  int dipoles_per_site = 1;  // 2: crossed pairs (circular polarization)
+  // Lattice sites; each holds dipoles_per_site dipoles.
   std::size_t elements() const {
     return static_cast<std::size_t>(count_x) * static_cast<std::size_t>(count_y);
   }
+  std::size_t dipoles() const { return elements() * static_cast<std::size_t>(dipoles_per_site); }
   double aperture_x_m() const { return (count_x - 1) * spacing_x_m; }
   double aperture_y_m() const { return (count_y - 1) * spacing_y_m; }
 
@@ -97,6 +121,10 @@ struct SizingCandidate {
   // plane steered to its scan edge (-inf where that plane is not scanned).
   double sidelobe_broadside_db = 0, sidelobe_scan_xz_db = 0, sidelobe_scan_yz_db = 0;
   double grating_margin = 0;  // sine space (GratingLobeMargin)
+  // Crossed pairs: the pair's axial ratio (CrossedPairAxialRatioDb) toward the
+  // predicted peak of the beam steered to each scan edge; 0 where a plane is not
+  // scanned or for linear elements.
+  double axial_ratio_scan_xz_db = 0, axial_ratio_scan_yz_db = 0;
   std::vector<Shortfall> predicted_shortfalls;
 
   // Computed by the engine (empty when the check was not run).
@@ -128,7 +156,8 @@ inline constexpr std::size_t kMaxSizingCandidates = 4;
 SizingResult SizeArray(const SizingRequirements& req, const SizingOptions& options = {});
 
 // The geometry and broadside currents (the taper, 1 A peak) of a candidate: what its
-// design file generates (lattice centred on the z axis, at the ground height over PEC).
+// design file generates (lattice centred on the z axis, at the ground height over PEC;
+// crossed pairs site by site, the second dipole's current turned by the pair's 90 deg).
 struct CandidateArray {
   Array array;
   Eigen::VectorXcd currents;

@@ -11,6 +11,7 @@
 #include <utility>
 #include <vector>
 
+#include "engine/synthesis/crossed_pair.h"
 #include "engine/synthesis/envelope.h"
 #include "engine/synthesis/grating_lobes.h"
 #include "engine/synthesis/lattice_generator.h"
@@ -67,9 +68,16 @@ struct DesignInfo {
   double steer_theta_deg = 0, steer_phi_deg = 0;  // as written ([steer])
 
   std::size_t first_generated = 0;       // index of the first generated dipole
-  std::size_t generated = 0;             // present (after removal)
-  std::size_t lattice_size = 0;          // before removal
-  std::vector<double> taper_amplitudes;  // per present element, peak 1
+  std::size_t generated = 0;             // dipoles present (after removal)
+  std::size_t lattice_size = 0;          // sites before removal
+  std::vector<double> taper_amplitudes;  // per generated dipole, peak 1
+  // [element] crossed_pair: two dipoles per site (crossed_pair.h), site n's at
+  // generated indices 2n (the template's orientation) and 2n + 1 (n x it, its current
+  // exp(j crossed_phase_deg) times the first's). Unset: one dipole per site.
+  std::optional<CircularSense> crossed;
+  double crossed_phase_deg = 0;
+  std::size_t dipoles_per_site = 1;
+  std::size_t sites() const { return generated / dipoles_per_site; }
   double taper_efficiency = 1.0;
   // The currents of the generated elements as magnitude (A peak) and phase (deg),
   // exactly the values whose std::polar the description holds, so a written array

@@ -8,6 +8,7 @@
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/grid.h"
+#include "engine/synthesis/crossed_pair.h"
 #include "engine/text_case.h"
 #include "io/input/toml_values.h"
 #include "io/input/units.h"
@@ -48,6 +49,7 @@ class DesignReader : private TomlValues {
     }
     info.element_where = At(Table("element"));
     Dipole templ = ReadElement(Table("element"), out);
+    info.crossed = crossed_;
 
     if (const toml::node* t = root_.get("taper")) {
       info.taper_given = true;
@@ -100,20 +102,46 @@ class DesignReader : private TomlValues {
     // Orientation: the template turned with the lattice, normalized until the
     // reader's own normalization leaves it unchanged (a written file reads back
     // to the same bits).
-    Vec3 o = info.lattice.rotation * templ.orientation;
-    for (int i = 0; i < 4; ++i) o = o / o.stableNorm();
+    const auto unit = [](Vec3 v) {
+      for (int i = 0; i < 4; ++i) v = v / v.stableNorm();
+      return v;
+    };
+    const Vec3 o = unit(info.lattice.rotation * templ.orientation);
+    // A crossed pair per site (crossed_pair.h): the second dipole a quarter period
+    // behind or ahead of the first, by the sense asked toward the beam.
+    std::vector<std::pair<Vec3, double>> per_site{{o, 0.0}};
+    if (info.crossed) {
+      try {
+        const CrossedPair pair = CrossedPairFor(info.lattice, o, beam, *info.crossed);
+        per_site.emplace_back(unit(pair.second), pair.second_phase_deg);
+        info.crossed_phase_deg = pair.second_phase_deg;
+      } catch (const InvalidArgument& e) {
+        throw InputError(crossed_where_, "element.crossed_pair",
+                         std::string(ToString(*info.crossed)) + " on this lattice", e.what());
+      }
+    }
+    info.dipoles_per_site = per_site.size();
     Eigen::VectorXcd phasors = Eigen::VectorXcd::Ones(static_cast<Eigen::Index>(sites.size()));
     if (info.steering) phasors = SteeringPhasorsAt(positions, *info.steering, array_.frequency_hz);
+    std::vector<double> amplitudes;
     for (std::size_t n = 0; n < sites.size(); ++n) {
-      Dipole d = templ;
-      d.position_m = positions[n];
-      d.orientation = o;
-      out.dipoles.push_back(d);
       const double magnitude = info.peak_current_a * info.taper_amplitudes[n];
-      const double phase_deg = WrappedDegrees(std::arg(phasors[static_cast<Eigen::Index>(n)]));
-      info.polar_currents.emplace_back(magnitude, phase_deg);
-      out.currents.push_back(std::polar(magnitude, phase_deg * kDegree));
+      const double site_rad = std::arg(phasors[static_cast<Eigen::Index>(n)]);
+      for (const auto& [orientation, offset_deg] : per_site) {
+        Dipole d = templ;
+        d.position_m = positions[n];
+        d.orientation = orientation;
+        out.dipoles.push_back(d);
+        const double phase_deg = WrappedDegrees(site_rad + offset_deg * kDegree);
+        info.polar_currents.emplace_back(magnitude, phase_deg);
+        out.currents.push_back(std::polar(magnitude, phase_deg * kDegree));
+        amplitudes.push_back(info.taper_amplitudes[n]);
+      }
     }
+    // Per dipole from here on (a pair's two share their site's amplitude; the
+    // efficiency is unchanged by the repetition).
+    info.taper_amplitudes = std::move(amplitudes);
+    info.generated = out.dipoles.size();
     return out;
   }
 
@@ -313,10 +341,19 @@ class DesignReader : private TomlValues {
   }
 
   Dipole ReadElement(const toml::table& t, GeneratedDipoles& out) {
-    CheckKeys(
-        t, "element",
-        {"orientation", "length", "distribution", "radius", "self_reactance", "conductivity"});
+    CheckKeys(t, "element",
+              {"orientation", "length", "distribution", "radius", "self_reactance", "conductivity",
+               "crossed_pair"});
     Dipole d;
+    if (const toml::node* v = t.get("crossed_pair")) {
+      const std::string s = String(*v, "element.crossed_pair");
+      const auto sense = CircularSenseFromString(s);
+      if (!sense)
+        throw InputError(At(*v), "element.crossed_pair", Quoted(s),
+                         "\"rhcp\" or \"lhcp\": the sense toward the beam");
+      crossed_ = sense;
+      crossed_where_ = At(*v);
+    }
     const toml::node& ori = Require(t, "element", "orientation", "[ux, uy, uz]");
     const Vec3 u = Vector3(ori, "element.orientation", "[ux, uy, uz]");
     if (!(u.stableNorm() > 0.0))
@@ -521,6 +558,8 @@ class DesignReader : private TomlValues {
   std::string_view unit_;
   const Array& array_;
   SourceLocation position_;
+  std::optional<CircularSense> crossed_;  // [element] crossed_pair
+  SourceLocation crossed_where_;
 };
 
 }  // namespace

@@ -12,6 +12,16 @@
 //   length           REQUIRED, > 0
 //   distribution     "uniform" (default) or "triangular"
 //   radius, self_reactance, conductivity   the wire keys of a [[dipole]] table
+//   crossed_pair     "rhcp" or "lhcp": a crossed pair at every site instead of one
+//                    dipole (engine/synthesis/crossed_pair.h): the template along
+//                    `orientation` (which must lie in the lattice plane) and a second
+//                    one along n x orientation (n the plane's normal), its current a
+//                    quarter period behind or ahead of the first's so that the field
+//                    toward the beam ([steer], or the broadside on +n) has that sense
+//                    (IEEE Std 145-2013, exp(+jwt)). Both get the site's taper and
+//                    steering; [[null]] and [objective] act on every dipole, the
+//                    objective in that circular polarization. Panels and rings only.
+//                    The site's dipoles are consecutive (first, second).
 //
 //   [lattice]        its presence makes the file a design
 //   kind             REQUIRED "line", "rectangular", "triangular" or "ring"
@@ -26,9 +36,11 @@
 //   rotation         { axis = [x, y, z], angle = <deg> }: the whole lattice (and its
 //                    elements' orientation) turned about `center`, right-handed
 //   remove           [i, j, ...]: generation indices (0-based, order in
-//                    engine/synthesis/lattice_generator.h) left out
+//                    engine/synthesis/lattice_generator.h) left out (sites: a
+//                    crossed pair goes as a whole)
 //
 //   [taper]          optional (default uniform); amplitudes, largest = peak_current
+//                    (per dipole: each dipole of a crossed pair carries it)
 //   kind             "uniform", "binomial", "chebyshev", "taylor", "cosine",
 //                    "circular-taylor" (panels and rings; the others are separable
 //                    x times y on panels)

@@ -9,6 +9,7 @@
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/synthesis/beam_setup.h"
+#include "engine/synthesis/crossed_pair.h"
 #include "engine/synthesis/envelope.h"
 #include "engine/synthesis/grating_lobes.h"
 #include "engine/synthesis/max_directivity.h"
@@ -97,8 +98,10 @@ void ApplyExcitationSynthesis(ArrayDescription& desc) {
 
   Eigen::VectorXcd currents = desc.currents;
   try {
+    // Crossed pairs: the objective's polarization is their circular one (crossed_pair.h).
     const PolarizationVector pol =
-        ElementPolarization(desc.array.dipoles.front().orientation, beam);
+        d.crossed ? CircularPolarizationOf(*d.crossed)
+                  : ElementPolarization(desc.array.dipoles.front().orientation, beam);
     if (d.objective && d.objective->kind == ObjectiveKind::kMaxDirectivity) {
       currents = MaximumDirectivity(desc, *d.objective, beam, pol, d) * d.peak_current_a;
       if (!d.nulls.empty()) currents = Nulls(desc, currents, nulls, beam, d);

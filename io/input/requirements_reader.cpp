@@ -33,7 +33,7 @@ class RequirementsReader : private TomlValues {
     CheckKeys(root, "",
               {"name", "description", "frequency", "directivity_dbi", "beamwidth_deg",
                "sidelobe_db", "scan_deg", "ground", "ground_height", "polarization", "lattice",
-               "max_elements", "max_aperture", "element_length", "length_unit"});
+               "max_elements", "max_aperture", "element_length", "length_unit", "axial_ratio_db"});
     RequirementsFile out;
     out.source_path = path_;
     SizingRequirements& r = out.requirements;
@@ -97,13 +97,22 @@ class RequirementsReader : private TomlValues {
         r.polarization = Vec3::UnitX();
       } else if (s == "y") {
         r.polarization = Vec3::UnitY();
-      } else if (s == "rhcp" || s == "lhcp") {
-        throw InputError(At(*n), "polarization", Quoted(s),
-                         "\"x\" or \"y\": circular polarization from crossed pairs is not sized "
-                         "yet (a design file generates one element per lattice site)");
+      } else if (const auto sense = CircularSenseFromString(s)) {
+        r.circular = sense;  // crossed pairs: x and y (crossed_pair.h)
+        r.polarization = Vec3::UnitX();
       } else {
-        throw InputError(At(*n), "polarization", Quoted(s), "\"x\" or \"y\"");
+        throw InputError(At(*n), "polarization", Quoted(s),
+                         "\"x\", \"y\" (short dipoles) or \"rhcp\", \"lhcp\" (crossed pairs)");
       }
+    }
+    if (const toml::node* n = root.get("axial_ratio_db")) {
+      if (!r.circular)
+        throw InputError(At(*n), "axial_ratio_db", "an axial-ratio limit with linear polarization",
+                         "polarization = \"rhcp\" or \"lhcp\" with it");
+      const double v = Number(*n, "axial_ratio_db", "a limit in dB");
+      if (!(v > 0 && v <= 20))
+        throw InputError(At(*n), "axial_ratio_db", FormatNumber(v), "a limit in (0, 20] dB");
+      r.max_axial_ratio_db = v;
     }
     if (const toml::node* n = root.get("lattice")) {
       const std::string s = String(*n, "lattice");

@@ -15,11 +15,17 @@
 //   ground              "none" (default) or "pec" (the plane z = 0)
 //   ground_height       pec only: the elements' height (default a quarter wavelength,
 //                       common practice), (0, 2] wavelengths
-//   polarization        "x" (default) or "y": the short dipoles' direction; "rhcp" and
-//                       "lhcp" (crossed pairs) are refused: a design file generates one
-//                       element per lattice site
+//   polarization        "x" (default) or "y": the short dipoles' direction; "rhcp" or
+//                       "lhcp": a crossed pair of x and y dipoles at every site, y a
+//                       quarter period behind (rhcp) or ahead (lhcp) of x, circular
+//                       toward +z (engine/synthesis/crossed_pair.h)
+//   axial_ratio_db      rhcp, lhcp only: the highest axial ratio at the beam peak, at
+//                       broadside and at the scan edges, (0, 20] dB (default 3, common
+//                       practice); a crossed pair's is 1 / cos(scan) in the principal
+//                       planes (3.01 dB at 45 deg)
 //   lattice             "rectangular", "triangular" or "either" (default)
-//   max_elements        optional integer, [4, 100000]
+//   max_elements        optional integer, [4, 100000]: lattice sites (a crossed pair
+//                       is one element of two dipoles)
 //   max_aperture        optional: one length for both sides, or [x, y]: the largest
 //                       extent of the element centres along x and y (room for two
 //                       elements at half a wavelength at least)

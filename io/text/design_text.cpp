@@ -65,9 +65,9 @@ std::string LatticeLine(const DesignInfo& d, double lambda) {
       break;
     case LatticeKind::kRectangular:
     case LatticeKind::kTriangular:
-      s += Printf("%d x %d elements, spacing %.6g x %.6g m (%.4g x %.4g wavelength)", l.count_x,
-                  l.count_y, l.spacing_x_m, l.spacing_y_m, l.spacing_x_m / lambda,
-                  l.spacing_y_m / lambda);
+      s += Printf("%d x %d %s, spacing %.6g x %.6g m (%.4g x %.4g wavelength)", l.count_x,
+                  l.count_y, d.crossed ? "sites" : "elements", l.spacing_x_m, l.spacing_y_m,
+                  l.spacing_x_m / lambda, l.spacing_y_m / lambda);
       break;
     case LatticeKind::kRing:
       for (std::size_t r = 0; r < l.ring_counts.size(); ++r)
@@ -75,9 +75,19 @@ std::string LatticeLine(const DesignInfo& d, double lambda) {
                     l.ring_radii_m[r], l.ring_radii_m[r] / lambda);
       break;
   }
-  s += Printf("; %zu generated", d.generated);
-  if (d.generated != d.lattice_size) s += Printf(" (%zu removed)", d.lattice_size - d.generated);
-  return s + "\n";
+  if (!d.crossed) {
+    s += Printf("; %zu generated", d.generated);
+    if (d.generated != d.lattice_size) s += Printf(" (%zu removed)", d.lattice_size - d.generated);
+    return s + "\n";
+  }
+  s += Printf("; %zu sites", d.sites());
+  if (d.sites() != d.lattice_size) s += Printf(" (%zu removed)", d.lattice_size - d.sites());
+  s += Printf(", %zu dipoles generated\n", d.generated);
+  return s + Printf(
+                 "element      crossed pairs, %s toward the beam: each site's second dipole "
+                 "(n x the first) %s the first by 90 deg\n",
+                 std::string(ToString(*d.crossed)).c_str(),
+                 d.crossed_phase_deg < 0 ? "lags" : "leads");
 }
 
 // "-inf (below rounding)" for an exact zero, else the level to 0.01 dB.

@@ -28,6 +28,11 @@ std::string Length(double m) { return m < 1 ? Printf("%.5g mm", m * 1e3) : Print
 
 std::string Axis(const Vec3& o) { return o.x() != 0 ? "x" : "y"; }
 
+// "x", "y", "rhcp" or "lhcp": the requirements' polarization as written.
+std::string PolarizationName(const SizingRequirements& r) {
+  return r.circular ? std::string(ToString(*r.circular)) : Axis(r.polarization);
+}
+
 std::string TaperText(const TaperSpec& t) {
   if (t.kind == TaperKind::kTaylor) return Printf("Taylor %.2f dB nbar %d", t.sidelobe_db, t.nbar);
   if (t.kind == TaperKind::kCircularTaylor)
@@ -65,10 +70,23 @@ std::string RequirementLines(const RequirementsFile& rf, const std::string& lead
                    ? Printf("ground pec, elements %s (%.4g wavelength) above it\n",
                             Length(r.ground_height_m).c_str(), r.ground_height_m / lambda)
                    : std::string("ground none (free space)\n"));
-  s += lead + Printf("elements short dipoles along %s, %s long; lattice %s\n",
-                     Axis(r.polarization).c_str(), Length(r.element_length_m).c_str(),
-                     std::string(ToString(r.lattice)).c_str());
-  if (r.max_elements) s += lead + Printf("max_elements %ld\n", *r.max_elements);
+  if (r.circular) {
+    s += lead + Printf(
+                    "elements crossed pairs of short dipoles along x and y (y %s x by 90 deg: "
+                    "%s toward +z), %s long; lattice %s\n",
+                    *r.circular == CircularSense::kRight ? "lagging" : "leading",
+                    std::string(ToString(*r.circular)).c_str(), Length(r.element_length_m).c_str(),
+                    std::string(ToString(r.lattice)).c_str());
+    s += lead + Printf("axial ratio <= %g dB at the beam peak, at broadside and the scan edges\n",
+                       r.max_axial_ratio_db);
+  } else {
+    s += lead + Printf("elements short dipoles along %s, %s long; lattice %s\n",
+                       Axis(r.polarization).c_str(), Length(r.element_length_m).c_str(),
+                       std::string(ToString(r.lattice)).c_str());
+  }
+  if (r.max_elements)
+    s += lead +
+         Printf(r.circular ? "max_elements %ld (sites)\n" : "max_elements %ld\n", *r.max_elements);
   if (r.max_aperture_x_m)
     s += lead + "max aperture " + Length(*r.max_aperture_x_m) + " x " +
          Length(*r.max_aperture_y_m) + " (element centres)\n";
@@ -97,12 +115,28 @@ std::string ShortfallText(const Shortfall& f) {
       s = Printf("%d lobe(s) within 3 dB of the peak (grating lobes) at %s",
                  static_cast<int>(f.reached), beam.c_str());
       break;
+    case Requirement::kAxialRatio:
+      s = std::isinf(f.reached)
+              ? Printf("the field at the peak at %s is not of the asked hand", beam.c_str())
+              : Printf("axial ratio %.2f dB at the peak at %s, asked <= %g dB (%.2f dB too high)",
+                       f.reached, beam.c_str(), f.asked, f.reached - f.asked);
+      break;
   }
-  if (f.bound_by == Constraint::kTaper)
+  if (f.bound_by == Constraint::kElement)
+    s += "; set by the element: a crossed pair's axial ratio is 1 / cos(theta) off its normal";
+  else if (f.bound_by == Constraint::kTaper)
     s += "; the taper's design level is at its floor (-80 dB): the outline sets these lobes";
   else if (f.bound_by != Constraint::kNone)
     s += "; bound by " + std::string(ToString(f.bound_by));
   return s;
+}
+
+// ", axial ratio 0.12 dB rhcp" at a computed beam's peak.
+std::string AxialRatioText(const ComputedBeam& b) {
+  return Printf(", axial ratio %s dB %s", Db(b.axial_ratio_db).c_str(),
+                b.sense > 0   ? "rhcp"
+                : b.sense < 0 ? "lhcp"
+                              : "linear");
 }
 
 std::string Status(const SizingCandidate& c) {
@@ -130,8 +164,9 @@ std::string CandidateDesign(const RequirementsFile& rf, const SizingCandidate& c
   t += Printf("#   taper efficiency %.4f, grating-lobe margin %.4f (sine space).\n",
               c.taper_efficiency, c.grating_margin);
   for (const ComputedBeam& b : c.computed)
-    t += Printf("# Computed at %s: %.2f dBi, side lobes %s dB%s\n",
+    t += Printf("# Computed at %s: %.2f dBi, side lobes %s dB%s%s\n",
                 BeamName(b.steer_theta_deg, b.plane).c_str(), b.peak_dbi, Db(b.sidelobe_db).c_str(),
+                r.circular ? AxialRatioText(b).c_str() : "",
                 b.grating_lobes ? ", GRATING LOBES" : "");
   for (const Shortfall& f : c.shortfalls) t += "# MISSES: " + ShortfallText(f) + "\n";
   t += "# Steer it with a [steer] table (theta, phi); lengths below are metres.\n\n";
@@ -150,12 +185,16 @@ std::string CandidateDesign(const RequirementsFile& rf, const SizingCandidate& c
   t += "phi = { start = 0, stop = 360, step = " + ShortestNumber(step) + " }\n";
   t += "\n[element]\norientation = [" +
        std::string(r.polarization.x() != 0 ? "1, 0, 0" : "0, 1, 0") + "]\n";
+  if (r.circular)
+    t += "crossed_pair = \"" + std::string(ToString(*r.circular)) +
+         "\"   # and a y dipole at every site, a quarter period apart\n";
   t += "length = " + ShortestNumber(r.element_length_m) +
        Printf("   # %.4g wavelength\n", r.element_length_m / lambda);
   t += "distribution = \"uniform\"\n";
   t += "\n[lattice]\nkind = \"" + std::string(ToString(c.lattice)) + "\"\n";
   t += "count = [" + std::to_string(c.count_x) + ", " + std::to_string(c.count_y) + "]   # " +
-       std::to_string(c.elements()) + " elements\n";
+       std::to_string(c.elements()) +
+       (r.circular ? " sites, " + std::to_string(c.dipoles()) + " dipoles\n" : " elements\n");
   t += "spacing = [" + ShortestNumber(c.spacing_x_m) + ", " + ShortestNumber(c.spacing_y_m) +
        Printf("]   # %.4f x %.4f wavelength\n", c.spacing_x_m / lambda, c.spacing_y_m / lambda);
   if (r.ground == Ground::kPec) t += "center = [0, 0, " + ShortestNumber(r.ground_height_m) + "]\n";
@@ -177,11 +216,13 @@ std::string SizingTable(const RequirementsFile& rf, const SizingResult& res,
   for (LatticeKind k : {LatticeKind::kRectangular, LatticeKind::kTriangular}) {
     const LatticeSpacing sp = LargestSpacing(
         k, {std::sin(r.scan_xz_deg * kDegree), std::sin(r.scan_yz_deg * kDegree)}, 0);
-    s += Printf("  %-11s  %.4f x %.4f wavelength (%s x %s), %.4g elements per square wavelength\n",
+    s += Printf("  %-11s  %.4f x %.4f wavelength (%s x %s), %.4g %s per square wavelength\n",
                 std::string(ToString(k)).c_str(), sp.dx, sp.dy, Length(sp.dx * lambda).c_str(),
-                Length(sp.dy * lambda).c_str(), 1 / (sp.dx * sp.dy));
+                Length(sp.dy * lambda).c_str(), 1 / (sp.dx * sp.dy),
+                r.circular ? "sites" : "elements");
   }
-  s += "\nrank  lattice      elements        spacing (wavelength)  taper (design level)           "
+  s += std::string("\nrank  lattice      ") + (r.circular ? "sites   " : "elements") +
+       "        spacing (wavelength)  taper (design level)           "
        "eff     margin  D broadside (dBi)  worst SLL (dB)  status\n";
   s +=
       "                                                                                            "
@@ -202,14 +243,17 @@ std::string SizingTable(const RequirementsFile& rf, const SizingResult& res,
         c.checked ? Db(comp_d).c_str() : "-", Db(c.sidelobe_db).c_str(),
         c.checked ? Db(comp_sll).c_str() : "-", Status(c).c_str());
   }
+  if (r.circular)
+    s += "(sites: lattice sites, each a crossed pair of two dipoles: dipoles = 2 x sites)\n";
   for (std::size_t i = 0; i < res.candidates.size(); ++i) {
     const SizingCandidate& c = res.candidates[i];
     s += Printf("\ncandidate %zu: %s", i + 1, Status(c).c_str());
     if (!folder.empty())
       s += "  -> " + (std::filesystem::path(folder) / CandidateFileName(i + 1)).string();
     s += "\n";
-    s += Printf("  lattice      %s, %d x %d = %zu elements, spacing %s x %s, ",
+    s += Printf("  lattice      %s, %d x %d = %zu %s, spacing %s x %s, ",
                 std::string(ToString(c.lattice)).c_str(), c.count_x, c.count_y, c.elements(),
+                r.circular ? Printf("sites (%zu dipoles)", c.dipoles()).c_str() : "elements",
                 Length(c.spacing_x_m).c_str(), Length(c.spacing_y_m).c_str()) +
          "aperture " + Length(c.aperture_x_m()) + " x " + Length(c.aperture_y_m()) +
          " (element centres)\n";
@@ -243,6 +287,28 @@ std::string SizingTable(const RequirementsFile& rf, const SizingResult& res,
           "dBi", b ? b->peak_dbi : 0, b);
       row("SLL " + name, p == ScanPlane::kXZ ? c.sidelobe_scan_xz_db : c.sidelobe_scan_yz_db, "dB",
           b ? b->sidelobe_db : 0, b);
+    }
+    if (r.circular) {
+      // The pair's own axial ratio (crossed_pair.h) beside the one at each computed peak.
+      for (const ComputedBeam& b : c.computed) {
+        const double pred = b.steer_theta_deg == 0      ? 0.0
+                            : b.plane == ScanPlane::kXZ ? c.axial_ratio_scan_xz_db
+                                                        : c.axial_ratio_scan_yz_db;
+        row("AR " + BeamName(b.steer_theta_deg, b.plane), pred,
+            b.sense > 0   ? "dB rhcp"
+            : b.sense < 0 ? "dB lhcp"
+                          : "dB linear",
+            b.axial_ratio_db, true);
+      }
+      if (!c.checked) {
+        row("AR broadside", 0.0, "dB", 0, false);
+        if (r.scan_xz_deg > 0)
+          row("AR " + BeamName(r.scan_xz_deg, ScanPlane::kXZ), c.axial_ratio_scan_xz_db, "dB", 0,
+              false);
+        if (r.scan_yz_deg > 0)
+          row("AR " + BeamName(r.scan_yz_deg, ScanPlane::kYZ), c.axial_ratio_scan_yz_db, "dB", 0,
+              false);
+      }
     }
     int lobes = 0;
     for (const ComputedBeam& b : c.computed) lobes += b.grating_lobes;
@@ -287,7 +353,8 @@ std::string SizingJson(const RequirementsFile& rf, const SizingResult& res,
   pair("scan_deg", r.scan_xz_deg, r.scan_yz_deg);
   j.Member("ground", ToString(r.ground));
   j.Member("ground_height_m", r.ground_height_m);
-  j.Member("polarization", Axis(r.polarization));
+  j.Member("polarization", PolarizationName(r));
+  if (r.circular) j.Member("max_axial_ratio_db", r.max_axial_ratio_db);
   j.Member("lattice", ToString(r.lattice));
   j.Key("max_elements");
   r.max_elements ? j.Int(*r.max_elements) : j.Null();
@@ -322,6 +389,10 @@ std::string SizingJson(const RequirementsFile& rf, const SizingResult& res,
     j.Int(c.count_y);
     j.EndArray();
     j.MemberInt("elements", static_cast<long long>(c.elements()));
+    if (r.circular) {  // "elements" are sites
+      j.MemberInt("dipoles_per_site", c.dipoles_per_site);
+      j.MemberInt("dipoles", static_cast<long long>(c.dipoles()));
+    }
     pair("spacing_m", c.spacing_x_m, c.spacing_y_m);
     pair("largest_spacing_m", c.largest_spacing_x_m, c.largest_spacing_y_m);
     j.Key("taper");
@@ -344,6 +415,10 @@ std::string SizingJson(const RequirementsFile& rf, const SizingResult& res,
     j.Member("sidelobe_broadside_db", c.sidelobe_broadside_db);
     j.Member("sidelobe_scan_xz_db", c.sidelobe_scan_xz_db);
     j.Member("sidelobe_scan_yz_db", c.sidelobe_scan_yz_db);
+    if (r.circular) {
+      j.Member("axial_ratio_scan_xz_db", c.axial_ratio_scan_xz_db);
+      j.Member("axial_ratio_scan_yz_db", c.axial_ratio_scan_yz_db);
+    }
     j.EndObject();
     j.Key("computed");
     j.BeginArray();
@@ -361,6 +436,10 @@ std::string SizingJson(const RequirementsFile& rf, const SizingResult& res,
       j.Member("sidelobe_db", b.sidelobe_db);
       j.MemberInt("grating_lobes", b.grating_lobes);
       j.Member("grid_step_deg", b.grid_step_deg);
+      if (r.circular) {
+        j.Member("axial_ratio_db", b.axial_ratio_db);
+        j.MemberInt("sense", b.sense);
+      }
       j.EndObject();
     }
     j.EndArray();
