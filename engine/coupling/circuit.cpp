@@ -84,7 +84,10 @@ CircuitSolution SolveCircuit(const Eigen::MatrixXcd& z, const std::vector<Port>&
     }
     for (Eigen::Index i = 0; i < nu; ++i) out.current_a[unknown[i]] = x[i];
   }
-  return CircuitFromVoltages(ports, std::move(out.current_a), z * out.current_a);
+  // The voltages before the currents are moved: the order in which arguments are
+  // evaluated is unspecified (clang moved them first: z times an empty vector).
+  Eigen::VectorXcd voltage_v = z * out.current_a;
+  return CircuitFromVoltages(ports, std::move(out.current_a), std::move(voltage_v));
 }
 
 CircuitSolution CircuitFromVoltages(const std::vector<Port>& ports, Eigen::VectorXcd current_a,
