@@ -71,32 +71,77 @@ double FindRoot(const std::function<double(double)>& f, double lo, double hi, do
 
 LineMinimum MinimizeOnInterval(const std::function<double(double)>& f, double lo, double hi,
                                double tolerance) {
+  const BatchFunction one = [&](const std::vector<BatchPoint>& points) {
+    std::vector<double> v;
+    for (const BatchPoint& p : points) v.push_back(f(p.x));
+    return v;
+  };
+  return MinimizeOnIntervals(one, {{lo, hi}}, tolerance)[0];
+}
+
+std::vector<LineMinimum> MinimizeOnIntervals(const BatchFunction& f,
+                                             const std::vector<std::pair<double, double>>& brackets,
+                                             double tolerance) {
   const double inv_phi = 0.5 * (std::sqrt(5.0) - 1.0);  // 1/golden ratio
-  double a = lo, b = hi;
-  double x1 = b - inv_phi * (b - a), x2 = a + inv_phi * (b - a);
-  double f1 = f(x1), f2 = f(x2);
-  for (int iter = 0; iter < 200 && b - a > tolerance; ++iter) {
-    if (f1 <= f2) {
-      b = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = b - inv_phi * (b - a);
-      f1 = f(x1);
-    } else {
-      a = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = a + inv_phi * (b - a);
-      f2 = f(x2);
+  struct Search {
+    double a, b, x1, x2, f1 = 0, f2 = 0;
+  };
+  const std::size_t n = brackets.size();
+  std::vector<Search> s;
+  std::vector<BatchPoint> points;
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto [a, b] = brackets[i];
+    s.push_back({a, b, b - inv_phi * (b - a), a + inv_phi * (b - a)});
+    points.push_back({i, s.back().x1});
+    points.push_back({i, s.back().x2});
+  }
+  std::vector<double> v = f(points);
+  for (std::size_t i = 0; i < n; ++i) {
+    s[i].f1 = v[2 * i];
+    s[i].f2 = v[2 * i + 1];
+  }
+  // Every search narrows its bracket by the same factor per round, but their widths
+  // may differ: each stops on its own test.
+  for (int iter = 0; iter < 200; ++iter) {
+    points.clear();
+    std::vector<bool> lower;  // the new point replaces x1 (the bracket kept its lower part)
+    for (std::size_t i = 0; i < n; ++i) {
+      Search& q = s[i];
+      if (!(q.b - q.a > tolerance)) continue;
+      if (q.f1 <= q.f2) {
+        q.b = q.x2;
+        q.x2 = q.x1;
+        q.f2 = q.f1;
+        q.x1 = q.b - inv_phi * (q.b - q.a);
+        points.push_back({i, q.x1});
+        lower.push_back(true);
+      } else {
+        q.a = q.x1;
+        q.x1 = q.x2;
+        q.f1 = q.f2;
+        q.x2 = q.a + inv_phi * (q.b - q.a);
+        points.push_back({i, q.x2});
+        lower.push_back(false);
+      }
     }
+    if (points.empty()) break;
+    v = f(points);
+    for (std::size_t k = 0; k < points.size(); ++k)
+      (lower[k] ? s[points[k].search].f1 : s[points[k].search].f2) = v[k];
   }
-  LineMinimum m = f1 <= f2 ? LineMinimum{x1, f1} : LineMinimum{x2, f2};
-  // The end points are candidates too (a minimum at the edge of the interval).
-  for (double x : {lo, hi}) {
-    const double v = f(x);
-    if (v < m.value) m = {x, v};
+  std::vector<LineMinimum> out;
+  points.clear();
+  for (std::size_t i = 0; i < n; ++i) {
+    const Search& q = s[i];
+    out.push_back(q.f1 <= q.f2 ? LineMinimum{q.x1, q.f1} : LineMinimum{q.x2, q.f2});
+    // The end points are candidates too (a minimum at the edge of the interval).
+    points.push_back({i, brackets[i].first});
+    points.push_back({i, brackets[i].second});
   }
-  return m;
+  v = f(points);
+  for (std::size_t k = 0; k < points.size(); ++k)
+    if (v[k] < out[points[k].search].value) out[points[k].search] = {points[k].x, v[k]};
+  return out;
 }
 
 PlaneMinimum MinimizeOnPlane(const std::function<double(double, double)>& f, double a0, double b0,
