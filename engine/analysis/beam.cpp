@@ -93,6 +93,47 @@ void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
   }
 }
 
+// RefineMaximum's end: the Newton polish and BalancePeak from the simplex's best vertex.
+RefinedMaximum PolishMaximum(const PatternProbe& probe, RefinedMaximum r) {
+  // Newton polish on the 3x3 stencil, only along directions of clearly negative
+  // curvature (a ring of maxima has a flat direction that must be left alone).
+  const double h = kNewtonStep_rad;
+  for (int iter = 0; iter < 4; ++iter) {
+    const LocalChart c(r.r_hat);
+    std::vector<Vec3> pts;
+    for (int ia = -1; ia <= 1; ++ia)
+      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
+    const std::vector<ProbeSample> s = probe.At(pts);
+    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
+    auto F = [&](int ia, int ib) {
+      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
+    };
+    const Eigen::Vector2d g((F(1, 0) - F(-1, 0)) / (2 * h), (F(0, 1) - F(0, -1)) / (2 * h));
+    Eigen::Matrix2d hess;
+    hess(0, 0) = (F(1, 0) - 2 * F(0, 0) + F(-1, 0)) / (h * h);
+    hess(1, 1) = (F(0, 1) - 2 * F(0, 0) + F(0, -1)) / (h * h);
+    hess(0, 1) = hess(1, 0) = (F(1, 1) - F(1, -1) - F(-1, 1) + F(-1, -1)) / (4 * h * h);
+    const Eigen::SelfAdjointEigenSolver<Eigen::Matrix2d> es(hess);
+    const double scale = es.eigenvalues().cwiseAbs().maxCoeff();
+    Eigen::Vector2d step = Eigen::Vector2d::Zero();
+    for (int k = 0; k < 2; ++k) {
+      const double lam = es.eigenvalues()[k];
+      if (lam < -1e-5 * scale)
+        step -= (es.eigenvectors().col(k).dot(g) / lam) * es.eigenvectors().col(k);
+    }
+    const double len = step.norm();
+    if (!(len > 0.0) || len > 100 * h) break;  // nothing to do, or not in the quadratic zone
+    const Vec3 cand = c.At(step[0], step[1]);
+    const double dc = probe.DirectivityAt(cand);
+    if (!(dc >= r.directivity)) break;
+    r.r_hat = cand;
+    r.directivity = dc;
+    if (len < 1e-12) break;
+  }
+  BalancePeak(probe, r);
+  return r;
+}
+
 }  // namespace
 
 DirectionDeg AnglesDeg(const Vec3& v) {
@@ -131,49 +172,29 @@ DirectionDeg ReportedDirection(const Vec3& r_hat, const DirectionDeg& start_deg,
 
 RefinedMaximum RefineMaximum(const PatternProbe& probe, const Vec3& start, double initial_step_rad,
                              double tolerance_rad, int max_evaluations) {
-  const LocalChart chart(start);
-  auto f = [&](double a, double b) { return -probe.DirectivityAt(chart.At(a, b)); };
-  const PlaneMinimum m =
-      MinimizeOnPlane(f, 0.0, 0.0, {initial_step_rad, tolerance_rad, max_evaluations});
-  RefinedMaximum r{chart.At(m.a, m.b), -m.value, m.converged};
+  return RefineMaxima(probe, {start}, initial_step_rad, tolerance_rad, max_evaluations)[0];
+}
 
-  // Newton polish on the 3x3 stencil, only along directions of clearly negative
-  // curvature (a ring of maxima has a flat direction that must be left alone).
-  const double h = kNewtonStep_rad;
-  for (int iter = 0; iter < 4; ++iter) {
-    const LocalChart c(r.r_hat);
-    std::vector<Vec3> pts;
-    for (int ia = -1; ia <= 1; ++ia)
-      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
-    const std::vector<ProbeSample> s = probe.At(pts);
-    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
-    auto F = [&](int ia, int ib) {
-      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
-    };
-    const Eigen::Vector2d g((F(1, 0) - F(-1, 0)) / (2 * h), (F(0, 1) - F(0, -1)) / (2 * h));
-    Eigen::Matrix2d hess;
-    hess(0, 0) = (F(1, 0) - 2 * F(0, 0) + F(-1, 0)) / (h * h);
-    hess(1, 1) = (F(0, 1) - 2 * F(0, 0) + F(0, -1)) / (h * h);
-    hess(0, 1) = hess(1, 0) = (F(1, 1) - F(1, -1) - F(-1, 1) + F(-1, -1)) / (4 * h * h);
-    const Eigen::SelfAdjointEigenSolver<Eigen::Matrix2d> es(hess);
-    const double scale = es.eigenvalues().cwiseAbs().maxCoeff();
-    Eigen::Vector2d step = Eigen::Vector2d::Zero();
-    for (int k = 0; k < 2; ++k) {
-      const double lam = es.eigenvalues()[k];
-      if (lam < -1e-5 * scale)
-        step -= (es.eigenvectors().col(k).dot(g) / lam) * es.eigenvectors().col(k);
-    }
-    const double len = step.norm();
-    if (!(len > 0.0) || len > 100 * h) break;  // nothing to do, or not in the quadratic zone
-    const Vec3 cand = c.At(step[0], step[1]);
-    const double dc = probe.DirectivityAt(cand);
-    if (!(dc >= r.directivity)) break;
-    r.r_hat = cand;
-    r.directivity = dc;
-    if (len < 1e-12) break;
-  }
-  BalancePeak(probe, r);
-  return r;
+std::vector<RefinedMaximum> RefineMaxima(const PatternProbe& probe, const std::vector<Vec3>& starts,
+                                         double initial_step_rad, double tolerance_rad,
+                                         int max_evaluations) {
+  std::vector<LocalChart> charts;
+  for (const Vec3& s : starts) charts.emplace_back(s);
+  const std::vector<PlaneMinimum> minima = MinimizeOnPlanes(
+      [&](const std::vector<PlaneBatchPoint>& points) {
+        std::vector<Vec3> r;
+        for (const PlaneBatchPoint& p : points) r.push_back(charts[p.search].At(p.a, p.b));
+        std::vector<double> v;
+        for (const ProbeSample& s : probe.AtExact(r)) v.push_back(-s.directivity);
+        return v;
+      },
+      std::vector<std::pair<double, double>>(starts.size(), {0.0, 0.0}),
+      {initial_step_rad, tolerance_rad, max_evaluations});
+  std::vector<RefinedMaximum> out;
+  for (std::size_t i = 0; i < starts.size(); ++i)
+    out.push_back(PolishMaximum(
+        probe, {charts[i].At(minima[i].a, minima[i].b), -minima[i].value, minima[i].converged}));
+  return out;
 }
 
 MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,

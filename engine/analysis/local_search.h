@@ -79,4 +79,20 @@ struct PlaneMinimum {
 PlaneMinimum MinimizeOnPlane(const std::function<double(double, double)>& f, double a0, double b0,
                              const PlaneSearchOptions& options);
 
+// A point of a plane search's batch: which search and where.
+struct PlaneBatchPoint {
+  std::size_t search = 0;
+  double a = 0.0;
+  double b = 0.0;
+};
+using PlaneBatchFunction = std::function<std::vector<double>(const std::vector<PlaneBatchPoint>&)>;
+
+// MinimizeOnPlane from each start in lockstep (f(search, a, b) the search's function):
+// each round evaluates the next point or points of every search still running as one
+// batch. Each search evaluates the same points and returns the same minimum as
+// MinimizeOnPlane alone.
+std::vector<PlaneMinimum> MinimizeOnPlanes(const PlaneBatchFunction& f,
+                                           const std::vector<std::pair<double, double>>& starts,
+                                           const PlaneSearchOptions& options);
+
 }  // namespace lobecast

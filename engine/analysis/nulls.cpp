@@ -404,6 +404,19 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     std::sort(c.begin(), c.end());
     const auto uv = PerpendicularPair(a);
     const std::size_t first_of_axis = cones.size();
+    // A cone about a (cosine cos_half) already kept, about this axis or its opposite.
+    auto known = [&](const Vec3& axis, double cos_half) {
+      return std::any_of(cones.begin(), cones.end(), [&](const Cone& k) {
+        return std::abs(std::abs(k.axis.dot(axis)) - 1.0) < 1e-12 &&
+               std::abs(k.cos_half - k.axis.dot(axis) * cos_half) < kSameConeCos;
+      });
+    };
+    struct Candidate {
+      double cos_half;
+      Vec3 point;
+      std::vector<Vec3> first_checks, other_checks;
+    };
+    std::vector<Candidate> candidates;
     for (std::size_t b = 0; b < c.size();) {
       std::size_t e = b + 1;
       while (e < c.size() && c[e].first - c[e - 1].first < kSameConeCos) ++e;
@@ -418,11 +431,6 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
       if (count < 2 || spread < 0.5 * spacing || alpha < kPointCone_rad ||
           alpha > kPi - kPointCone_rad)
         continue;
-      const bool known = std::any_of(cones.begin(), cones.end(), [&](const Cone& k) {
-        return std::abs(std::abs(k.axis.dot(a)) - 1.0) < 1e-12 &&
-               std::abs(k.cos_half - k.axis.dot(a) * cos_half) < kSameConeCos;
-      });
-      if (known) continue;
       std::vector<Vec3> checks;
       for (int k = 0; k < kConeChecks; ++k) {
         const Vec3 r = OnCone(a, uv, alpha, 2 * kPi * (k + 0.5) / kConeChecks);
@@ -432,17 +440,36 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
       // Every check must be a zero: a few spread round the circle first, the rest only
       // when those are (most candidates, zeros that merely share a cosine about an axis
       // by symmetry, fail at once).
-      std::vector<Vec3> first_checks, other_checks;
+      Candidate cand{cos_half, first, {}, {}};
       for (std::size_t k = 0; k < checks.size(); ++k)
-        (k % kConeFirstCheckStride == 0 ? first_checks : other_checks).push_back(checks[k]);
-      double worst = 0.0;
-      for (const std::vector<Vec3>* batch : {&first_checks, &other_checks}) {
-        for (const ProbeSample& s : probe.At(*batch))
-          worst = std::max(worst, NullFieldDirectivity(probe, s, options) / peak_directivity);
-        if (!IsZero(worst)) break;
-      }
-      if (IsZero(worst)) cones.push_back({a, cos_half, first});
+        (k % kConeFirstCheckStride == 0 ? cand.first_checks : cand.other_checks)
+            .push_back(checks[k]);
+      if (!known(a, cos_half)) candidates.push_back(std::move(cand));
     }
+    // The candidates' checks, the first of every candidate in one batch, then the rest
+    // of those still zero in another; then accepted in order, each unless a cone kept
+    // before it is the same (as when they were checked one by one: the same cones, at
+    // most a few more checks).
+    std::vector<double> worst(candidates.size(), 0.0);
+    for (const bool first_round : {true, false}) {
+      std::vector<Vec3> batch;
+      std::vector<std::size_t> owner;
+      for (std::size_t i = 0; i < candidates.size(); ++i) {
+        if (!IsZero(worst[i])) continue;
+        const Candidate& k = candidates[i];
+        for (const Vec3& r : first_round ? k.first_checks : k.other_checks) {
+          batch.push_back(r);
+          owner.push_back(i);
+        }
+      }
+      const std::vector<ProbeSample> s = probe.AtExact(batch);
+      for (std::size_t j = 0; j < s.size(); ++j)
+        worst[owner[j]] = std::max(worst[owner[j]],
+                                   NullFieldDirectivity(probe, s[j], options) / peak_directivity);
+    }
+    for (std::size_t i = 0; i < candidates.size(); ++i)
+      if (IsZero(worst[i]) && !known(a, candidates[i].cos_half))
+        cones.push_back({a, candidates[i].cos_half, candidates[i].point});
     // About each axis, the narrowest cone first.
     std::sort(cones.begin() + static_cast<std::ptrdiff_t>(first_of_axis), cones.end(),
               [](const Cone& x, const Cone& y) { return x.cos_half > y.cos_half; });
