@@ -25,6 +25,21 @@ constexpr double kNewtonStep_rad = 1e-5;
 // The first batch of samples a walk along a great circle evaluates (WalkBeamRay).
 constexpr std::size_t kFirstWalkBatch = 64;
 
+// D on the 3 x 3 stencil of step h about r (in LocalChart(r), index (ia + 1) * 3 + ib + 1
+// for the offsets ia h, ib h); empty when a point of it has no field.
+std::vector<double> StencilDirectivity(const PatternProbe& probe, const Vec3& r, double h) {
+  const LocalChart c(r);
+  std::vector<Vec3> pts;
+  for (int ia = -1; ia <= 1; ++ia)
+    for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
+  std::vector<double> d;
+  for (const ProbeSample& p : probe.At(pts)) {
+    if (p.no_field) return {};
+    d.push_back(p.directivity);
+  }
+  return d;
+}
+
 // Along each principal direction v of the peak, moves to where D(s + h) = D(s - h),
 // with h wide enough that D falls by ~1e-6 relative over it. Near a quadratic peak this
 // is a Newton step free of rounding; near a flat (quartic) one, where function values
@@ -34,15 +49,9 @@ constexpr std::size_t kFirstWalkBatch = 64;
 void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
   const double h = kNewtonStep_rad;
   for (int pass = 0; pass < 2; ++pass) {
-    const LocalChart c(r.r_hat);
-    std::vector<Vec3> pts;
-    for (int ia = -1; ia <= 1; ++ia)
-      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
-    const std::vector<ProbeSample> s = probe.At(pts);
-    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) return;
-    auto F = [&](int ia, int ib) {
-      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
-    };
+    const std::vector<double> d = StencilDirectivity(probe, r.r_hat, h);
+    if (d.empty()) return;
+    auto F = [&](int ia, int ib) { return d[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)]; };
     Eigen::Matrix2d hess;
     hess(0, 0) = F(1, 0) - 2 * F(0, 0) + F(-1, 0);
     hess(1, 1) = F(0, 1) - 2 * F(0, 0) + F(0, -1);
@@ -100,14 +109,9 @@ RefinedMaximum PolishMaximum(const PatternProbe& probe, RefinedMaximum r) {
   const double h = kNewtonStep_rad;
   for (int iter = 0; iter < 4; ++iter) {
     const LocalChart c(r.r_hat);
-    std::vector<Vec3> pts;
-    for (int ia = -1; ia <= 1; ++ia)
-      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
-    const std::vector<ProbeSample> s = probe.At(pts);
-    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
-    auto F = [&](int ia, int ib) {
-      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
-    };
+    const std::vector<double> d = StencilDirectivity(probe, r.r_hat, h);
+    if (d.empty()) break;
+    auto F = [&](int ia, int ib) { return d[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)]; };
     const Eigen::Vector2d g((F(1, 0) - F(-1, 0)) / (2 * h), (F(0, 1) - F(0, -1)) / (2 * h));
     Eigen::Matrix2d hess;
     hess(0, 0) = (F(1, 0) - 2 * F(0, 0) + F(-1, 0)) / (h * h);
@@ -190,10 +194,16 @@ std::vector<RefinedMaximum> RefineMaxima(const PatternProbe& probe, const std::v
       },
       std::vector<std::pair<double, double>>(starts.size(), {0.0, 0.0}),
       {initial_step_rad, tolerance_rad, max_evaluations});
-  std::vector<RefinedMaximum> out;
-  for (std::size_t i = 0; i < starts.size(); ++i)
-    out.push_back(PolishMaximum(
-        probe, {charts[i].At(minima[i].a, minima[i].b), -minima[i].value, minima[i].converged}));
+  // The polish of each maximum evaluates a few directions at a time (one thread each):
+  // the maxima are spread over the threads instead, each polished as it would be alone.
+  std::vector<RefinedMaximum> out(starts.size());
+  const auto n = static_cast<std::ptrdiff_t>(starts.size());
+#pragma omp parallel for schedule(dynamic, 1) if (n > 1)
+  for (std::ptrdiff_t i = 0; i < n; ++i) {
+    const PlaneMinimum& m = minima[static_cast<std::size_t>(i)];
+    out[static_cast<std::size_t>(i)] = PolishMaximum(
+        probe, {charts[static_cast<std::size_t>(i)].At(m.a, m.b), -m.value, m.converged});
+  }
   return out;
 }
 

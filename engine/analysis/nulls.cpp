@@ -76,6 +76,30 @@ Eigen::VectorXd Residual(const ProbeSample& s, const AnalysisOptions& options, d
   return r;
 }
 
+// The `count` samples of one search in a lockstep round: its centre when kept from the
+// round before, then its share of the round's batch from `first`; empty when any of
+// them has no field (the ground's region), where the searches stop.
+std::vector<ProbeSample> RoundSamples(const std::optional<ProbeSample>& kept,
+                                      const std::vector<ProbeSample>& batch, std::size_t first,
+                                      std::size_t count) {
+  std::vector<ProbeSample> s;
+  if (kept) s.push_back(*kept);
+  const std::size_t end = first + count - s.size();
+  s.insert(s.end(), batch.begin() + static_cast<std::ptrdiff_t>(first),
+           batch.begin() + static_cast<std::ptrdiff_t>(end));
+  if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) s.clear();
+  return s;
+}
+
+// The searches of a lockstep polish that start: those not at a zero already.
+template <class Task>
+std::vector<std::size_t> Running(const std::vector<Task>& tasks) {
+  std::vector<std::size_t> live;
+  for (std::size_t i = 0; i < tasks.size(); ++i)
+    if (tasks[i].v > 0.0) live.push_back(i);
+  return live;
+}
+
 // What the searches share: the probe, the options, the level of a direction.
 struct NullProblem {
   const PatternProbe& probe;
@@ -120,9 +144,7 @@ struct NullProblem {
   // threaded and without the per-call overheads of a few directions.
   void PolishAll(std::vector<PolishTask>* tasks) const {
     const double h = kJacobianStep_rad;
-    std::vector<std::size_t> live;
-    for (std::size_t i = 0; i < tasks->size(); ++i)
-      if ((*tasks)[i].v > 0.0) live.push_back(i);
+    std::vector<std::size_t> live = Running(*tasks);
     for (int iter = 0; iter < 8 && !live.empty(); ++iter) {
       std::vector<LocalChart> charts;
       std::vector<Vec3> dirs;
@@ -142,13 +164,8 @@ struct NullProblem {
       std::vector<double> norms;
       for (std::size_t k = 0; k < live.size(); ++k) {
         PolishTask& t = (*tasks)[live[k]];
-        std::vector<ProbeSample> s;
-        if (t.at_r) s.push_back(*t.at_r);
-        const std::size_t end = first[k] + (t.at_r ? 4 : 5);
-        s.insert(s.end(), all.begin() + static_cast<std::ptrdiff_t>(first[k]),
-                 all.begin() + static_cast<std::ptrdiff_t>(end));
-        if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; }))
-          continue;
+        const std::vector<ProbeSample> s = RoundSamples(t.at_r, all, first[k], 5);
+        if (s.empty()) continue;
         const Eigen::VectorXd r0 = Residual(s[0], options, scale);
         Eigen::MatrixXd jac(r0.size(), 2);
         jac.col(0) = (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
@@ -198,9 +215,7 @@ struct NullProblem {
   // in lockstep as PolishAll: exact sums, each task ending where it would alone.
   void PolishAlongAll(const Vec3& from, const Vec3& tangent, std::vector<AlongTask>* tasks) const {
     const double h = kJacobianStep_rad;
-    std::vector<std::size_t> live;
-    for (std::size_t i = 0; i < tasks->size(); ++i)
-      if ((*tasks)[i].v > 0.0) live.push_back(i);
+    std::vector<std::size_t> live = Running(*tasks);
     for (int iter = 0; iter < 8 && !live.empty(); ++iter) {
       std::vector<Vec3> dirs;
       std::vector<std::size_t> first;
@@ -217,13 +232,8 @@ struct NullProblem {
       std::vector<Vec3> cands;
       for (std::size_t k = 0; k < live.size(); ++k) {
         const AlongTask& t = (*tasks)[live[k]];
-        std::vector<ProbeSample> s;
-        if (t.at_s) s.push_back(*t.at_s);
-        const std::size_t end = first[k] + (t.at_s ? 2 : 3);
-        s.insert(s.end(), all.begin() + static_cast<std::ptrdiff_t>(first[k]),
-                 all.begin() + static_cast<std::ptrdiff_t>(end));
-        if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; }))
-          continue;
+        const std::vector<ProbeSample> s = RoundSamples(t.at_s, all, first[k], 3);
+        if (s.empty()) continue;
         const Eigen::VectorXd r0 = Residual(s[0], options, scale);
         const Eigen::VectorXd j =
             (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);

@@ -120,6 +120,8 @@ std::vector<ProbeSample> PatternProbe::Evaluate(const std::vector<Vec3>& r_hat,
                    : FieldMethod::kDirect;
     f = FieldPlan(array_, Directions::FromAngles(theta, phi), o).Execute(currents_);
   }
+  // Callers may evaluate from several threads at once (RefineMaxima's polish).
+#pragma omp atomic
   evaluations_ += r_hat.size();
   for (std::size_t i = 0; i < r_hat.size(); ++i) {
     ProbeSample& s = out[i];

@@ -86,7 +86,8 @@ class PatternProbe {
   double floor_v() const { return floor_v_; }
   bool NoFieldAt(const Vec3& r_hat) const;
   const Array& array() const { return array_; }
-  // Directions evaluated so far (all calls).
+  // Directions evaluated so far (all calls). At and AtExact may be called from several
+  // threads at once; read this outside them.
   std::size_t evaluations() const { return evaluations_; }
 
  private:
