@@ -1,10 +1,12 @@
 // The generic searches of engine/analysis/local_search.h: Brent's root finder,
 // golden-section line minimum and the Nelder-Mead plane minimum, on functions whose
-// answers are known in closed form.
+// answers are known in closed form; their lockstep forms against one search at a time.
 #include "engine/analysis/local_search.h"
 
 #include <cmath>
 #include <limits>
+#include <utility>
+#include <vector>
 
 #include <gtest/gtest.h>
 
@@ -124,6 +126,87 @@ TEST(MinimizeOnPlane, StopsAtAnExactZeroWhenAsked) {
   EXPECT_LT(std::abs(stopped.b - 2.0 * stopped.a), 1e-3);
   EXPECT_LT(stopped.evaluations, plain.evaluations);
   EXPECT_LT(stopped.evaluations, 100);
+}
+
+// The lockstep forms run many searches as one batch a round: each search must end where
+// it ends alone, with the same evaluations, whatever the others do (they stop at other
+// rounds and wait for other kinds of step).
+TEST(MinimizeOnPlanes, EachSearchEndsWhereItEndsAlone) {
+  // Search i minimizes a shifted, scaled Rosenbrock function (different valleys, so the
+  // simplexes reflect, expand, contract and shrink at different rounds).
+  auto f = [](std::size_t i, double a, double b) {
+    const double s = 1.0 + 0.5 * static_cast<double>(i), c = 0.3 * static_cast<double>(i);
+    const double u = a - c, v = b + c;
+    return s * 100.0 * (v - u * u) * (v - u * u) + (1.0 - u) * (1.0 - u);
+  };
+  const std::vector<std::pair<double, double>> starts = {
+      {-1.2, 1.0}, {0.5, 0.5}, {2.0, -1.0}, {0.0, 0.0}, {-0.4, 3.0}};
+  PlaneSearchOptions o;
+  o.initial_step = 0.1;
+  o.tolerance = 1e-10;
+  o.max_evaluations = 300;  // some searches stop at the limit, others converge
+  std::vector<int> asked(starts.size(), 0);
+  const std::vector<PlaneMinimum> all = MinimizeOnPlanes(
+      [&](const std::vector<PlaneBatchPoint>& points) {
+        std::vector<double> v;
+        for (const PlaneBatchPoint& p : points) {
+          ++asked[p.search];
+          v.push_back(f(p.search, p.a, p.b));
+        }
+        return v;
+      },
+      starts, o);
+  ASSERT_EQ(all.size(), starts.size());
+  bool converged = false, limited = false;
+  for (std::size_t i = 0; i < starts.size(); ++i) {
+    const PlaneMinimum one = MinimizeOnPlane([&](double a, double b) { return f(i, a, b); },
+                                             starts[i].first, starts[i].second, o);
+    EXPECT_EQ(all[i].a, one.a) << i;
+    EXPECT_EQ(all[i].b, one.b) << i;
+    EXPECT_EQ(all[i].value, one.value) << i;
+    EXPECT_EQ(all[i].evaluations, one.evaluations) << i;
+    EXPECT_EQ(all[i].converged, one.converged) << i;
+    EXPECT_EQ(asked[i], one.evaluations) << i;
+    (one.converged ? converged : limited) = true;
+  }
+  EXPECT_TRUE(converged);
+  EXPECT_TRUE(limited);
+}
+
+TEST(MinimizeOnIntervals, EachSearchEndsWhereItEndsAlone) {
+  // Brackets of different widths stop at different rounds; one holds its minimum at an
+  // end point.
+  auto f = [](std::size_t i, double x) {
+    return i == 2 ? x : std::abs(std::sin(x + 0.1 * static_cast<double>(i)));
+  };
+  const std::vector<std::pair<double, double>> brackets = {
+      {2.5, 3.5}, {2.0, 4.0}, {2.0, 3.0}, {3.0, 3.2}};
+  std::vector<int> asked(brackets.size(), 0);
+  const std::vector<LineMinimum> all = MinimizeOnIntervals(
+      [&](const std::vector<BatchPoint>& points) {
+        std::vector<double> v;
+        for (const BatchPoint& p : points) {
+          ++asked[p.search];
+          v.push_back(f(p.search, p.x));
+        }
+        return v;
+      },
+      brackets, 1e-12);
+  ASSERT_EQ(all.size(), brackets.size());
+  for (std::size_t i = 0; i < brackets.size(); ++i) {
+    int calls = 0;
+    const LineMinimum one = MinimizeOnInterval(
+        [&](double x) {
+          ++calls;
+          return f(i, x);
+        },
+        brackets[i].first, brackets[i].second, 1e-12);
+    EXPECT_EQ(all[i].x, one.x) << i;
+    EXPECT_EQ(all[i].value, one.value) << i;
+    EXPECT_EQ(asked[i], calls) << i;
+  }
+  EXPECT_EQ(all[2].x, 2.0);       // the end point
+  EXPECT_NE(asked[0], asked[3]);  // different widths, different numbers of rounds
 }
 
 }  // namespace

@@ -25,6 +25,21 @@ constexpr double kNewtonStep_rad = 1e-5;
 // The first batch of samples a walk along a great circle evaluates (WalkBeamRay).
 constexpr std::size_t kFirstWalkBatch = 64;
 
+// D on the 3 x 3 stencil of step h about r (in LocalChart(r), index (ia + 1) * 3 + ib + 1
+// for the offsets ia h, ib h); empty when a point of it has no field.
+std::vector<double> StencilDirectivity(const PatternProbe& probe, const Vec3& r, double h) {
+  const LocalChart c(r);
+  std::vector<Vec3> pts;
+  for (int ia = -1; ia <= 1; ++ia)
+    for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
+  std::vector<double> d;
+  for (const ProbeSample& p : probe.At(pts)) {
+    if (p.no_field) return {};
+    d.push_back(p.directivity);
+  }
+  return d;
+}
+
 // Along each principal direction v of the peak, moves to where D(s + h) = D(s - h),
 // with h wide enough that D falls by ~1e-6 relative over it. Near a quadratic peak this
 // is a Newton step free of rounding; near a flat (quartic) one, where function values
@@ -34,15 +49,9 @@ constexpr std::size_t kFirstWalkBatch = 64;
 void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
   const double h = kNewtonStep_rad;
   for (int pass = 0; pass < 2; ++pass) {
-    const LocalChart c(r.r_hat);
-    std::vector<Vec3> pts;
-    for (int ia = -1; ia <= 1; ++ia)
-      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
-    const std::vector<ProbeSample> s = probe.At(pts);
-    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) return;
-    auto F = [&](int ia, int ib) {
-      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
-    };
+    const std::vector<double> d = StencilDirectivity(probe, r.r_hat, h);
+    if (d.empty()) return;
+    auto F = [&](int ia, int ib) { return d[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)]; };
     Eigen::Matrix2d hess;
     hess(0, 0) = F(1, 0) - 2 * F(0, 0) + F(-1, 0);
     hess(1, 1) = F(0, 1) - 2 * F(0, 0) + F(0, -1);
@@ -93,6 +102,42 @@ void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
   }
 }
 
+// RefineMaximum's end: the Newton polish and BalancePeak from the simplex's best vertex.
+RefinedMaximum PolishMaximum(const PatternProbe& probe, RefinedMaximum r) {
+  // Newton polish on the 3x3 stencil, only along directions of clearly negative
+  // curvature (a ring of maxima has a flat direction that must be left alone).
+  const double h = kNewtonStep_rad;
+  for (int iter = 0; iter < 4; ++iter) {
+    const LocalChart c(r.r_hat);
+    const std::vector<double> d = StencilDirectivity(probe, r.r_hat, h);
+    if (d.empty()) break;
+    auto F = [&](int ia, int ib) { return d[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)]; };
+    const Eigen::Vector2d g((F(1, 0) - F(-1, 0)) / (2 * h), (F(0, 1) - F(0, -1)) / (2 * h));
+    Eigen::Matrix2d hess;
+    hess(0, 0) = (F(1, 0) - 2 * F(0, 0) + F(-1, 0)) / (h * h);
+    hess(1, 1) = (F(0, 1) - 2 * F(0, 0) + F(0, -1)) / (h * h);
+    hess(0, 1) = hess(1, 0) = (F(1, 1) - F(1, -1) - F(-1, 1) + F(-1, -1)) / (4 * h * h);
+    const Eigen::SelfAdjointEigenSolver<Eigen::Matrix2d> es(hess);
+    const double scale = es.eigenvalues().cwiseAbs().maxCoeff();
+    Eigen::Vector2d step = Eigen::Vector2d::Zero();
+    for (int k = 0; k < 2; ++k) {
+      const double lam = es.eigenvalues()[k];
+      if (lam < -1e-5 * scale)
+        step -= (es.eigenvectors().col(k).dot(g) / lam) * es.eigenvectors().col(k);
+    }
+    const double len = step.norm();
+    if (!(len > 0.0) || len > 100 * h) break;  // nothing to do, or not in the quadratic zone
+    const Vec3 cand = c.At(step[0], step[1]);
+    const double dc = probe.DirectivityAt(cand);
+    if (!(dc >= r.directivity)) break;
+    r.r_hat = cand;
+    r.directivity = dc;
+    if (len < 1e-12) break;
+  }
+  BalancePeak(probe, r);
+  return r;
+}
+
 }  // namespace
 
 DirectionDeg AnglesDeg(const Vec3& v) {
@@ -131,49 +176,35 @@ DirectionDeg ReportedDirection(const Vec3& r_hat, const DirectionDeg& start_deg,
 
 RefinedMaximum RefineMaximum(const PatternProbe& probe, const Vec3& start, double initial_step_rad,
                              double tolerance_rad, int max_evaluations) {
-  const LocalChart chart(start);
-  auto f = [&](double a, double b) { return -probe.DirectivityAt(chart.At(a, b)); };
-  const PlaneMinimum m =
-      MinimizeOnPlane(f, 0.0, 0.0, {initial_step_rad, tolerance_rad, max_evaluations});
-  RefinedMaximum r{chart.At(m.a, m.b), -m.value, m.converged};
+  return RefineMaxima(probe, {start}, initial_step_rad, tolerance_rad, max_evaluations)[0];
+}
 
-  // Newton polish on the 3x3 stencil, only along directions of clearly negative
-  // curvature (a ring of maxima has a flat direction that must be left alone).
-  const double h = kNewtonStep_rad;
-  for (int iter = 0; iter < 4; ++iter) {
-    const LocalChart c(r.r_hat);
-    std::vector<Vec3> pts;
-    for (int ia = -1; ia <= 1; ++ia)
-      for (int ib = -1; ib <= 1; ++ib) pts.push_back(c.At(ia * h, ib * h));
-    const std::vector<ProbeSample> s = probe.At(pts);
-    if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
-    auto F = [&](int ia, int ib) {
-      return s[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)].directivity;
-    };
-    const Eigen::Vector2d g((F(1, 0) - F(-1, 0)) / (2 * h), (F(0, 1) - F(0, -1)) / (2 * h));
-    Eigen::Matrix2d hess;
-    hess(0, 0) = (F(1, 0) - 2 * F(0, 0) + F(-1, 0)) / (h * h);
-    hess(1, 1) = (F(0, 1) - 2 * F(0, 0) + F(0, -1)) / (h * h);
-    hess(0, 1) = hess(1, 0) = (F(1, 1) - F(1, -1) - F(-1, 1) + F(-1, -1)) / (4 * h * h);
-    const Eigen::SelfAdjointEigenSolver<Eigen::Matrix2d> es(hess);
-    const double scale = es.eigenvalues().cwiseAbs().maxCoeff();
-    Eigen::Vector2d step = Eigen::Vector2d::Zero();
-    for (int k = 0; k < 2; ++k) {
-      const double lam = es.eigenvalues()[k];
-      if (lam < -1e-5 * scale)
-        step -= (es.eigenvectors().col(k).dot(g) / lam) * es.eigenvectors().col(k);
-    }
-    const double len = step.norm();
-    if (!(len > 0.0) || len > 100 * h) break;  // nothing to do, or not in the quadratic zone
-    const Vec3 cand = c.At(step[0], step[1]);
-    const double dc = probe.DirectivityAt(cand);
-    if (!(dc >= r.directivity)) break;
-    r.r_hat = cand;
-    r.directivity = dc;
-    if (len < 1e-12) break;
+std::vector<RefinedMaximum> RefineMaxima(const PatternProbe& probe, const std::vector<Vec3>& starts,
+                                         double initial_step_rad, double tolerance_rad,
+                                         int max_evaluations) {
+  std::vector<LocalChart> charts;
+  for (const Vec3& s : starts) charts.emplace_back(s);
+  const std::vector<PlaneMinimum> minima = MinimizeOnPlanes(
+      [&](const std::vector<PlaneBatchPoint>& points) {
+        std::vector<Vec3> r;
+        for (const PlaneBatchPoint& p : points) r.push_back(charts[p.search].At(p.a, p.b));
+        std::vector<double> v;
+        for (const ProbeSample& s : probe.AtExact(r)) v.push_back(-s.directivity);
+        return v;
+      },
+      std::vector<std::pair<double, double>>(starts.size(), {0.0, 0.0}),
+      {initial_step_rad, tolerance_rad, max_evaluations});
+  // The polish of each maximum evaluates a few directions at a time (one thread each):
+  // the maxima are spread over the threads instead, each polished as it would be alone.
+  std::vector<RefinedMaximum> out(starts.size());
+  const auto n = static_cast<std::ptrdiff_t>(starts.size());
+#pragma omp parallel for schedule(dynamic, 1) if (n > 1)
+  for (std::ptrdiff_t i = 0; i < n; ++i) {
+    const PlaneMinimum& m = minima[static_cast<std::size_t>(i)];
+    out[static_cast<std::size_t>(i)] = PolishMaximum(
+        probe, {charts[static_cast<std::size_t>(i)].At(m.a, m.b), -m.value, m.converged});
   }
-  BalancePeak(probe, r);
-  return r;
+  return out;
 }
 
 MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,

@@ -23,6 +23,12 @@ struct RefinedMaximum {
 // starting value.
 RefinedMaximum RefineMaximum(const PatternProbe& probe, const Vec3& start, double initial_step_rad,
                              double tolerance_rad, int max_evaluations);
+// RefineMaximum from each start, the simplex searches in lockstep (MinimizeOnPlanes: each
+// round of all of them one batch of exact sums), the polish one by one: the same result
+// for each start as RefineMaximum alone.
+std::vector<RefinedMaximum> RefineMaxima(const PatternProbe& probe, const std::vector<Vec3>& starts,
+                                         double initial_step_rad, double tolerance_rad,
+                                         int max_evaluations);
 
 // The peak, refined from the grid maximum of grid_directivity.
 MainBeamPeak RefinePeak(const PatternProbe& probe, const AngularGrid& grid,

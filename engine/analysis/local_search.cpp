@@ -71,82 +71,195 @@ double FindRoot(const std::function<double(double)>& f, double lo, double hi, do
 
 LineMinimum MinimizeOnInterval(const std::function<double(double)>& f, double lo, double hi,
                                double tolerance) {
+  const BatchFunction one = [&](const std::vector<BatchPoint>& points) {
+    std::vector<double> v;
+    for (const BatchPoint& p : points) v.push_back(f(p.x));
+    return v;
+  };
+  return MinimizeOnIntervals(one, {{lo, hi}}, tolerance)[0];
+}
+
+std::vector<LineMinimum> MinimizeOnIntervals(const BatchFunction& f,
+                                             const std::vector<std::pair<double, double>>& brackets,
+                                             double tolerance) {
   const double inv_phi = 0.5 * (std::sqrt(5.0) - 1.0);  // 1/golden ratio
-  double a = lo, b = hi;
-  double x1 = b - inv_phi * (b - a), x2 = a + inv_phi * (b - a);
-  double f1 = f(x1), f2 = f(x2);
-  for (int iter = 0; iter < 200 && b - a > tolerance; ++iter) {
-    if (f1 <= f2) {
-      b = x2;
-      x2 = x1;
-      f2 = f1;
-      x1 = b - inv_phi * (b - a);
-      f1 = f(x1);
-    } else {
-      a = x1;
-      x1 = x2;
-      f1 = f2;
-      x2 = a + inv_phi * (b - a);
-      f2 = f(x2);
+  struct Search {
+    double a, b, x1, x2, f1 = 0, f2 = 0;
+  };
+  const std::size_t n = brackets.size();
+  std::vector<Search> s;
+  std::vector<BatchPoint> points;
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto [a, b] = brackets[i];
+    s.push_back({a, b, b - inv_phi * (b - a), a + inv_phi * (b - a)});
+    points.push_back({i, s.back().x1});
+    points.push_back({i, s.back().x2});
+  }
+  std::vector<double> v = f(points);
+  for (std::size_t i = 0; i < n; ++i) {
+    s[i].f1 = v[2 * i];
+    s[i].f2 = v[2 * i + 1];
+  }
+  // Every search narrows its bracket by the same factor per round, but their widths
+  // may differ: each stops on its own test.
+  for (int iter = 0; iter < 200; ++iter) {
+    points.clear();
+    std::vector<bool> lower;  // the new point replaces x1 (the bracket kept its lower part)
+    for (std::size_t i = 0; i < n; ++i) {
+      Search& q = s[i];
+      if (!(q.b - q.a > tolerance)) continue;
+      if (q.f1 <= q.f2) {
+        q.b = q.x2;
+        q.x2 = q.x1;
+        q.f2 = q.f1;
+        q.x1 = q.b - inv_phi * (q.b - q.a);
+        points.push_back({i, q.x1});
+        lower.push_back(true);
+      } else {
+        q.a = q.x1;
+        q.x1 = q.x2;
+        q.f1 = q.f2;
+        q.x2 = q.a + inv_phi * (q.b - q.a);
+        points.push_back({i, q.x2});
+        lower.push_back(false);
+      }
     }
+    if (points.empty()) break;
+    v = f(points);
+    for (std::size_t k = 0; k < points.size(); ++k)
+      (lower[k] ? s[points[k].search].f1 : s[points[k].search].f2) = v[k];
   }
-  LineMinimum m = f1 <= f2 ? LineMinimum{x1, f1} : LineMinimum{x2, f2};
-  // The end points are candidates too (a minimum at the edge of the interval).
-  for (double x : {lo, hi}) {
-    const double v = f(x);
-    if (v < m.value) m = {x, v};
+  std::vector<LineMinimum> out;
+  points.clear();
+  for (std::size_t i = 0; i < n; ++i) {
+    const Search& q = s[i];
+    out.push_back(q.f1 <= q.f2 ? LineMinimum{q.x1, q.f1} : LineMinimum{q.x2, q.f2});
+    // The end points are candidates too (a minimum at the edge of the interval).
+    points.push_back({i, brackets[i].first});
+    points.push_back({i, brackets[i].second});
   }
-  return m;
+  v = f(points);
+  for (std::size_t k = 0; k < points.size(); ++k)
+    if (v[k] < out[points[k].search].value) out[points[k].search] = {points[k].x, v[k]};
+  return out;
 }
 
 PlaneMinimum MinimizeOnPlane(const std::function<double(double, double)>& f, double a0, double b0,
                              const PlaneSearchOptions& options) {
+  const PlaneBatchFunction one = [&](const std::vector<PlaneBatchPoint>& points) {
+    std::vector<double> v;
+    for (const PlaneBatchPoint& p : points) v.push_back(f(p.a, p.b));
+    return v;
+  };
+  return MinimizeOnPlanes(one, {{a0, b0}}, options)[0];
+}
+
+std::vector<PlaneMinimum> MinimizeOnPlanes(const PlaneBatchFunction& f,
+                                           const std::vector<std::pair<double, double>>& starts,
+                                           const PlaneSearchOptions& options) {
   struct Vertex {
     double a, b, v;
   };
-  int evaluations = 0;
-  auto eval = [&](double a, double b) {
-    ++evaluations;
-    return Vertex{a, b, f(a, b)};
+  // Where a search stands between batches: the simplex, and the points it waits for.
+  enum class Wait { kStart, kReflected, kExpanded, kContracted, kShrunk, kDone };
+  struct Search {
+    std::array<Vertex, 3> s{};
+    int evaluations = 0;
+    bool converged = false;
+    Wait wait = Wait::kStart;
+    double ca = 0, cb = 0;  // centroid of the best two
+    Vertex r{}, far{};      // the reflected point; the vertex a contraction moves toward
+    std::vector<Vertex> asked;
   };
-  const double h = options.initial_step;
-  std::array<Vertex, 3> s = {eval(a0, b0), eval(a0 + h, b0), eval(a0, b0 + h)};
   auto by_value = [](const Vertex& x, const Vertex& y) { return x.v < y.v; };
-  bool converged = false;
-  while (evaluations < options.max_evaluations) {
-    std::sort(s.begin(), s.end(), by_value);
-    const double size = std::max(std::hypot(s[1].a - s[0].a, s[1].b - s[0].b),
-                                 std::hypot(s[2].a - s[0].a, s[2].b - s[0].b));
-    if (size < options.tolerance) {
-      converged = true;
-      break;
+  const double h = options.initial_step;
+  std::vector<Search> q(starts.size());
+  for (std::size_t i = 0; i < q.size(); ++i) {
+    const auto [a0, b0] = starts[i];
+    q[i].asked = {{a0, b0, 0}, {a0 + h, b0, 0}, {a0, b0 + h, 0}};
+  }
+  // The top of MinimizeOnPlane's loop: the next reflection, or the end.
+  auto next = [&](Search& x) {
+    if (x.evaluations >= options.max_evaluations) {
+      x.wait = Wait::kDone;
+      return;
     }
-    // f >= 0 (a level) reached 0: nothing lies deeper, the search is over.
-    if (options.stop_at_zero && s[0].v == 0.0) {
-      converged = true;
-      break;
+    std::sort(x.s.begin(), x.s.end(), by_value);
+    const double size = std::max(std::hypot(x.s[1].a - x.s[0].a, x.s[1].b - x.s[0].b),
+                                 std::hypot(x.s[2].a - x.s[0].a, x.s[2].b - x.s[0].b));
+    // Converged, or f >= 0 (a level) reached 0: nothing lies deeper, the search is over.
+    if (size < options.tolerance || (options.stop_at_zero && x.s[0].v == 0.0)) {
+      x.converged = true;
+      x.wait = Wait::kDone;
+      return;
     }
-    const double ca = 0.5 * (s[0].a + s[1].a), cb = 0.5 * (s[0].b + s[1].b);  // centroid
-    const Vertex r = eval(2.0 * ca - s[2].a, 2.0 * cb - s[2].b);
-    if (r.v < s[0].v) {
-      const Vertex e = eval(3.0 * ca - 2.0 * s[2].a, 3.0 * cb - 2.0 * s[2].b);
-      s[2] = e.v < r.v ? e : r;
-    } else if (r.v < s[1].v) {
-      s[2] = r;
-    } else {
-      // Contract toward the better of the reflected and the worst vertex.
-      const Vertex& far = r.v < s[2].v ? r : s[2];
-      const Vertex c = eval(0.5 * (ca + far.a), 0.5 * (cb + far.b));
-      if (c.v < far.v) {
-        s[2] = c;
-      } else {
-        s[1] = eval(0.5 * (s[0].a + s[1].a), 0.5 * (s[0].b + s[1].b));
-        s[2] = eval(0.5 * (s[0].a + s[2].a), 0.5 * (s[0].b + s[2].b));
+    x.ca = 0.5 * (x.s[0].a + x.s[1].a);
+    x.cb = 0.5 * (x.s[0].b + x.s[1].b);
+    x.asked = {{2.0 * x.ca - x.s[2].a, 2.0 * x.cb - x.s[2].b, 0}};
+    x.wait = Wait::kReflected;
+  };
+  while (true) {
+    std::vector<PlaneBatchPoint> points;
+    for (std::size_t i = 0; i < q.size(); ++i)
+      for (const Vertex& p : q[i].asked) points.push_back({i, p.a, p.b});
+    if (points.empty()) break;
+    const std::vector<double> v = f(points);
+    std::size_t k = 0;
+    for (Search& x : q) {
+      for (Vertex& p : x.asked) p.v = v[k++];
+      x.evaluations += static_cast<int>(x.asked.size());
+      const std::vector<Vertex> got = std::move(x.asked);
+      x.asked.clear();
+      switch (x.wait) {
+        case Wait::kStart:
+          x.s = {got[0], got[1], got[2]};
+          next(x);
+          break;
+        case Wait::kReflected:
+          x.r = got[0];
+          if (x.r.v < x.s[0].v) {
+            x.asked = {{3.0 * x.ca - 2.0 * x.s[2].a, 3.0 * x.cb - 2.0 * x.s[2].b, 0}};
+            x.wait = Wait::kExpanded;
+          } else if (x.r.v < x.s[1].v) {
+            x.s[2] = x.r;
+            next(x);
+          } else {
+            // Contract toward the better of the reflected and the worst vertex.
+            x.far = x.r.v < x.s[2].v ? x.r : x.s[2];
+            x.asked = {{0.5 * (x.ca + x.far.a), 0.5 * (x.cb + x.far.b), 0}};
+            x.wait = Wait::kContracted;
+          }
+          break;
+        case Wait::kExpanded:
+          x.s[2] = got[0].v < x.r.v ? got[0] : x.r;
+          next(x);
+          break;
+        case Wait::kContracted:
+          if (got[0].v < x.far.v) {
+            x.s[2] = got[0];
+            next(x);
+          } else {
+            x.asked = {{0.5 * (x.s[0].a + x.s[1].a), 0.5 * (x.s[0].b + x.s[1].b), 0},
+                       {0.5 * (x.s[0].a + x.s[2].a), 0.5 * (x.s[0].b + x.s[2].b), 0}};
+            x.wait = Wait::kShrunk;
+          }
+          break;
+        case Wait::kShrunk:
+          x.s[1] = got[0];
+          x.s[2] = got[1];
+          next(x);
+          break;
+        case Wait::kDone:
+          break;
       }
     }
   }
-  std::sort(s.begin(), s.end(), by_value);
-  return {s[0].a, s[0].b, s[0].v, evaluations, converged};
+  std::vector<PlaneMinimum> out;
+  for (Search& x : q) {
+    std::sort(x.s.begin(), x.s.end(), by_value);
+    out.push_back({x.s[0].a, x.s[0].b, x.s[0].v, x.evaluations, x.converged});
+  }
+  return out;
 }
 
 }  // namespace lobecast

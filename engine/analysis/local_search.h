@@ -4,7 +4,10 @@
 // pattern-specific objectives live in beam.cpp, side_lobes.cpp and nulls.cpp.
 #pragma once
 
+#include <cstddef>
 #include <functional>
+#include <utility>
+#include <vector>
 
 namespace lobecast {
 
@@ -30,6 +33,22 @@ struct LineMinimum {
 // is located to far below tolerance when the values around it are well above rounding.
 LineMinimum MinimizeOnInterval(const std::function<double(double)>& f, double lo, double hi,
                                double tolerance);
+
+// A point of a batch: which interval (or search) and where.
+struct BatchPoint {
+  std::size_t search = 0;
+  double x = 0.0;
+};
+// f's values at a batch of points, one per point, in order.
+using BatchFunction = std::function<std::vector<double>(const std::vector<BatchPoint>&)>;
+
+// MinimizeOnInterval on many intervals in lockstep (f(search, x) the search's function):
+// each round evaluates the next point of every search still running as one batch, so a
+// costly f (exact field sums) runs over many directions at once. Each search evaluates
+// the same points and returns the same minimum as MinimizeOnInterval alone.
+std::vector<LineMinimum> MinimizeOnIntervals(const BatchFunction& f,
+                                             const std::vector<std::pair<double, double>>& brackets,
+                                             double tolerance);
 
 struct PlaneSearchOptions {
   // Size of the starting simplex; about the spacing of the grid the start came from,
@@ -59,5 +78,21 @@ struct PlaneMinimum {
 // Journal 7, 1965). f may return +inf for points that are not allowed.
 PlaneMinimum MinimizeOnPlane(const std::function<double(double, double)>& f, double a0, double b0,
                              const PlaneSearchOptions& options);
+
+// A point of a plane search's batch: which search and where.
+struct PlaneBatchPoint {
+  std::size_t search = 0;
+  double a = 0.0;
+  double b = 0.0;
+};
+using PlaneBatchFunction = std::function<std::vector<double>(const std::vector<PlaneBatchPoint>&)>;
+
+// MinimizeOnPlane from each start in lockstep (f(search, a, b) the search's function):
+// each round evaluates the next point or points of every search still running as one
+// batch. Each search evaluates the same points and returns the same minimum as
+// MinimizeOnPlane alone.
+std::vector<PlaneMinimum> MinimizeOnPlanes(const PlaneBatchFunction& f,
+                                           const std::vector<std::pair<double, double>>& starts,
+                                           const PlaneSearchOptions& options);
 
 }  // namespace lobecast

@@ -76,6 +76,30 @@ Eigen::VectorXd Residual(const ProbeSample& s, const AnalysisOptions& options, d
   return r;
 }
 
+// The `count` samples of one search in a lockstep round: its centre when kept from the
+// round before, then its share of the round's batch from `first`; empty when any of
+// them has no field (the ground's region), where the searches stop.
+std::vector<ProbeSample> RoundSamples(const std::optional<ProbeSample>& kept,
+                                      const std::vector<ProbeSample>& batch, std::size_t first,
+                                      std::size_t count) {
+  std::vector<ProbeSample> s;
+  if (kept) s.push_back(*kept);
+  const std::size_t end = first + count - s.size();
+  s.insert(s.end(), batch.begin() + static_cast<std::ptrdiff_t>(first),
+           batch.begin() + static_cast<std::ptrdiff_t>(end));
+  if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) s.clear();
+  return s;
+}
+
+// The searches of a lockstep polish that start: those not at a zero already.
+template <class Task>
+std::vector<std::size_t> Running(const std::vector<Task>& tasks) {
+  std::vector<std::size_t> live;
+  for (std::size_t i = 0; i < tasks.size(); ++i)
+    if (tasks[i].v > 0.0) live.push_back(i);
+  return live;
+}
+
 // What the searches share: the probe, the options, the level of a direction.
 struct NullProblem {
   const PatternProbe& probe;
@@ -88,6 +112,16 @@ struct NullProblem {
   }
   double Level(const Vec3& r) const { return LevelOf(probe.At(r)); }
 
+  // One search of PolishAll: where it starts (r, its level v and, when evaluated
+  // already, its sample at_r), the bound on a step, and what Polish returns.
+  struct PolishTask {
+    Vec3 r;
+    double v = kInf;
+    double max_step = 0.0;
+    std::optional<ProbeSample> at_r;
+    double refused = 0.0;  // the longest step refused for max_step, 0 when none
+  };
+
   // Gauss-Newton on the field from r (level v): the least-squares (minimum-norm) step
   // toward a zero, which for a null curve lands on the curve. max_step bounds a step.
   // Returns the length of the longest step it refused for that bound, 0 when none: the
@@ -96,58 +130,131 @@ struct NullProblem {
   // sample is the next iteration's centre, so no direction is evaluated twice.
   double Polish(Vec3* r, double* v, double max_step,
                 std::optional<ProbeSample> at_r = std::nullopt) const {
-    for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
-      const LocalChart lc(*r);
-      const double h = kJacobianStep_rad;
-      std::vector<Vec3> dirs = {lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)};
-      if (!at_r) dirs.insert(dirs.begin(), *r);
-      std::vector<ProbeSample> s = probe.At(dirs);
-      if (at_r) s.insert(s.begin(), *at_r);
-      if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
-      const Eigen::VectorXd r0 = Residual(s[0], options, scale);
-      Eigen::MatrixXd jac(r0.size(), 2);
-      jac.col(0) = (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
-      jac.col(1) = (Residual(s[3], options, scale) - Residual(s[4], options, scale)) / (2 * h);
-      Eigen::JacobiSVD<Eigen::MatrixXd> svd(jac, Eigen::ComputeThinU | Eigen::ComputeThinV);
-      svd.setThreshold(1e-8);
-      const Eigen::Vector2d step = -svd.solve(r0);
-      if (step.norm() > max_step) return step.norm();
-      if (!(step.norm() > 0.0)) break;
-      const Vec3 cand = lc.At(step[0], step[1]);
-      const ProbeSample at_cand = probe.At(cand);
-      const double vc = LevelOf(at_cand);
-      if (!(vc < *v)) break;
-      *r = cand;
-      *v = vc;
-      at_r = at_cand;
-      if (step.norm() < 1e-15) break;
-    }
-    return 0.0;
+    std::vector<PolishTask> task = {{*r, *v, max_step, std::move(at_r)}};
+    PolishAll(&task);
+    *r = task[0].r;
+    *v = task[0].v;
+    return task[0].refused;
   }
 
-  // The same along a great circle (a 1-D Gauss-Newton on the offset s).
-  void PolishAlong(const Vec3& from, const Vec3& tangent, double* s_rad, double* v) const {
+  // Polish for every task, in lockstep: each round's Jacobian samples of all the
+  // searches still running go to the probe as one batch, then their candidate steps as
+  // another. The sums are exact (PatternProbe::AtExact), so each search ends bit for
+  // bit where it would alone, with the same evaluations; a batch of many searches runs
+  // threaded and without the per-call overheads of a few directions.
+  void PolishAll(std::vector<PolishTask>* tasks) const {
+    const double h = kJacobianStep_rad;
+    std::vector<std::size_t> live = Running(*tasks);
+    for (int iter = 0; iter < 8 && !live.empty(); ++iter) {
+      std::vector<LocalChart> charts;
+      std::vector<Vec3> dirs;
+      std::vector<std::size_t> first;
+      for (const std::size_t i : live) {
+        const PolishTask& t = (*tasks)[i];
+        charts.emplace_back(t.r);
+        const LocalChart& lc = charts.back();
+        first.push_back(dirs.size());
+        if (!t.at_r) dirs.push_back(t.r);
+        for (const Vec3& d : {lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)})
+          dirs.push_back(d);
+      }
+      const std::vector<ProbeSample> all = probe.AtExact(dirs);
+      std::vector<std::size_t> moving;
+      std::vector<Vec3> cands;
+      std::vector<double> norms;
+      for (std::size_t k = 0; k < live.size(); ++k) {
+        PolishTask& t = (*tasks)[live[k]];
+        const std::vector<ProbeSample> s = RoundSamples(t.at_r, all, first[k], 5);
+        if (s.empty()) continue;
+        const Eigen::VectorXd r0 = Residual(s[0], options, scale);
+        Eigen::MatrixXd jac(r0.size(), 2);
+        jac.col(0) = (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
+        jac.col(1) = (Residual(s[3], options, scale) - Residual(s[4], options, scale)) / (2 * h);
+        Eigen::JacobiSVD<Eigen::MatrixXd> svd(jac, Eigen::ComputeThinU | Eigen::ComputeThinV);
+        svd.setThreshold(1e-8);
+        const Eigen::Vector2d step = -svd.solve(r0);
+        if (step.norm() > t.max_step) {
+          t.refused = step.norm();
+          continue;
+        }
+        if (!(step.norm() > 0.0)) continue;
+        moving.push_back(live[k]);
+        cands.push_back(charts[k].At(step[0], step[1]));
+        norms.push_back(step.norm());
+      }
+      const std::vector<ProbeSample> at_cands = probe.AtExact(cands);
+      live.clear();
+      for (std::size_t m = 0; m < moving.size(); ++m) {
+        PolishTask& t = (*tasks)[moving[m]];
+        const double vc = LevelOf(at_cands[m]);
+        if (!(vc < t.v)) continue;
+        t.r = cands[m];
+        t.v = vc;
+        t.at_r = at_cands[m];
+        if (norms[m] < 1e-15 || !(t.v > 0.0)) continue;
+        live.push_back(moving[m]);
+      }
+    }
+  }
+
+  // Levels of many directions, exact, in one batch.
+  std::vector<double> Levels(const std::vector<Vec3>& r) const {
+    std::vector<double> v;
+    for (const ProbeSample& s : probe.AtExact(r)) v.push_back(LevelOf(s));
+    return v;
+  }
+
+  // One search of PolishAlongAll: the offset s_rad along the circle and its level v.
+  struct AlongTask {
+    double s_rad = 0.0;
+    double v = kInf;
     std::optional<ProbeSample> at_s;
-    for (int iter = 0; iter < 8 && *v > 0.0; ++iter) {
-      const double h = kJacobianStep_rad;
-      std::vector<Vec3> dirs = {AlongGreatCircle(from, tangent, *s_rad + h),
-                                AlongGreatCircle(from, tangent, *s_rad - h)};
-      if (!at_s) dirs.insert(dirs.begin(), AlongGreatCircle(from, tangent, *s_rad));
-      std::vector<ProbeSample> s = probe.At(dirs);
-      if (at_s) s.insert(s.begin(), *at_s);
-      if (std::any_of(s.begin(), s.end(), [](const ProbeSample& p) { return p.no_field; })) break;
-      const Eigen::VectorXd r0 = Residual(s[0], options, scale);
-      const Eigen::VectorXd j =
-          (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
-      if (!(j.squaredNorm() > 0.0)) break;
-      const double step = -j.dot(r0) / j.squaredNorm();
-      if (!(std::abs(step) > 0.0) || std::abs(step) > 1e-3) break;
-      const ProbeSample at_step = probe.At(AlongGreatCircle(from, tangent, *s_rad + step));
-      const double vc = LevelOf(at_step);
-      if (!(vc < *v)) break;
-      *s_rad += step;
-      *v = vc;
-      at_s = at_step;
+  };
+
+  // The same along a great circle (a 1-D Gauss-Newton on the offset s), for every task
+  // in lockstep as PolishAll: exact sums, each task ending where it would alone.
+  void PolishAlongAll(const Vec3& from, const Vec3& tangent, std::vector<AlongTask>* tasks) const {
+    const double h = kJacobianStep_rad;
+    std::vector<std::size_t> live = Running(*tasks);
+    for (int iter = 0; iter < 8 && !live.empty(); ++iter) {
+      std::vector<Vec3> dirs;
+      std::vector<std::size_t> first;
+      for (const std::size_t i : live) {
+        const AlongTask& t = (*tasks)[i];
+        first.push_back(dirs.size());
+        if (!t.at_s) dirs.push_back(AlongGreatCircle(from, tangent, t.s_rad));
+        dirs.push_back(AlongGreatCircle(from, tangent, t.s_rad + h));
+        dirs.push_back(AlongGreatCircle(from, tangent, t.s_rad - h));
+      }
+      const std::vector<ProbeSample> all = probe.AtExact(dirs);
+      std::vector<std::size_t> moving;
+      std::vector<double> steps;
+      std::vector<Vec3> cands;
+      for (std::size_t k = 0; k < live.size(); ++k) {
+        const AlongTask& t = (*tasks)[live[k]];
+        const std::vector<ProbeSample> s = RoundSamples(t.at_s, all, first[k], 3);
+        if (s.empty()) continue;
+        const Eigen::VectorXd r0 = Residual(s[0], options, scale);
+        const Eigen::VectorXd j =
+            (Residual(s[1], options, scale) - Residual(s[2], options, scale)) / (2 * h);
+        if (!(j.squaredNorm() > 0.0)) continue;
+        const double step = -j.dot(r0) / j.squaredNorm();
+        if (!(std::abs(step) > 0.0) || std::abs(step) > 1e-3) continue;
+        moving.push_back(live[k]);
+        steps.push_back(step);
+        cands.push_back(AlongGreatCircle(from, tangent, t.s_rad + step));
+      }
+      const std::vector<ProbeSample> at_cands = probe.AtExact(cands);
+      live.clear();
+      for (std::size_t m = 0; m < moving.size(); ++m) {
+        AlongTask& t = (*tasks)[moving[m]];
+        const double vc = LevelOf(at_cands[m]);
+        if (!(vc < t.v)) continue;
+        t.s_rad += steps[m];
+        t.v = vc;
+        t.at_s = at_cands[m];
+        if (t.v > 0.0) live.push_back(moving[m]);
+      }
     }
   }
 
@@ -158,6 +265,22 @@ struct NullProblem {
     *level_db = *exact ? -kInf : ToDb(v);
   }
 };
+
+// Polish from grid nodes (NullProblem::PolishAll): their samples in one batch, then
+// the searches in lockstep.
+std::vector<NullProblem::PolishTask> PolishFromNodes(const NullProblem& problem,
+                                                     const GridNeighbours& neighbours,
+                                                     const std::vector<std::size_t>& nodes,
+                                                     double max_step) {
+  std::vector<Vec3> dirs;
+  for (const std::size_t n : nodes) dirs.push_back(neighbours.direction(n));
+  const std::vector<ProbeSample> at = problem.probe.AtExact(dirs);
+  std::vector<NullProblem::PolishTask> tasks;
+  for (std::size_t j = 0; j < nodes.size(); ++j)
+    tasks.push_back({dirs[j], problem.LevelOf(at[j]), max_step, at[j]});
+  problem.PolishAll(&tasks);
+  return tasks;
+}
 
 struct RefinedZero {
   Vec3 r;
@@ -262,15 +385,19 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
   };
   std::unordered_map<std::size_t, Polished> polished;  // by node, searches bound by nothing
   std::vector<RefinedZero> zeros;
-  for (const auto& [lvl, i] : order) {
-    const std::vector<std::size_t>& set = sets[i];
-    const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
-    for (std::size_t k = 0; k < set.size(); k += stride) {
-      Vec3 r = neighbours.direction(set[k]);
-      const ProbeSample at_r = probe.At(r);
-      double v = problem.LevelOf(at_r);
-      if (problem.Polish(&r, &v, 2.0 * spacing, at_r) == 0.0) polished[set[k]] = {r, v};
-      if (IsZero(v)) zeros.push_back({r, v});
+  {
+    // Every set's seeds, polished together (one batch per round of all the searches).
+    std::vector<std::size_t> seed_nodes;
+    for (const auto& [lvl, i] : order) {
+      const std::vector<std::size_t>& set = sets[i];
+      const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
+      for (std::size_t k = 0; k < set.size(); k += stride) seed_nodes.push_back(set[k]);
+    }
+    const std::vector<NullProblem::PolishTask> seeds =
+        PolishFromNodes(problem, neighbours, seed_nodes, 2.0 * spacing);
+    for (std::size_t j = 0; j < seeds.size(); ++j) {
+      if (seeds[j].refused == 0.0) polished[seed_nodes[j]] = {seeds[j].r, seeds[j].v};
+      if (IsZero(seeds[j].v)) zeros.push_back({seeds[j].r, seeds[j].v});
     }
   }
 
@@ -287,6 +414,19 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     std::sort(c.begin(), c.end());
     const auto uv = PerpendicularPair(a);
     const std::size_t first_of_axis = cones.size();
+    // A cone about a (cosine cos_half) already kept, about this axis or its opposite.
+    auto known = [&](const Vec3& axis, double cos_half) {
+      return std::any_of(cones.begin(), cones.end(), [&](const Cone& k) {
+        return std::abs(std::abs(k.axis.dot(axis)) - 1.0) < 1e-12 &&
+               std::abs(k.cos_half - k.axis.dot(axis) * cos_half) < kSameConeCos;
+      });
+    };
+    struct Candidate {
+      double cos_half;
+      Vec3 point;
+      std::vector<Vec3> first_checks, other_checks;
+    };
+    std::vector<Candidate> candidates;
     for (std::size_t b = 0; b < c.size();) {
       std::size_t e = b + 1;
       while (e < c.size() && c[e].first - c[e - 1].first < kSameConeCos) ++e;
@@ -301,11 +441,6 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
       if (count < 2 || spread < 0.5 * spacing || alpha < kPointCone_rad ||
           alpha > kPi - kPointCone_rad)
         continue;
-      const bool known = std::any_of(cones.begin(), cones.end(), [&](const Cone& k) {
-        return std::abs(std::abs(k.axis.dot(a)) - 1.0) < 1e-12 &&
-               std::abs(k.cos_half - k.axis.dot(a) * cos_half) < kSameConeCos;
-      });
-      if (known) continue;
       std::vector<Vec3> checks;
       for (int k = 0; k < kConeChecks; ++k) {
         const Vec3 r = OnCone(a, uv, alpha, 2 * kPi * (k + 0.5) / kConeChecks);
@@ -315,17 +450,36 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
       // Every check must be a zero: a few spread round the circle first, the rest only
       // when those are (most candidates, zeros that merely share a cosine about an axis
       // by symmetry, fail at once).
-      std::vector<Vec3> first_checks, other_checks;
+      Candidate cand{cos_half, first, {}, {}};
       for (std::size_t k = 0; k < checks.size(); ++k)
-        (k % kConeFirstCheckStride == 0 ? first_checks : other_checks).push_back(checks[k]);
-      double worst = 0.0;
-      for (const std::vector<Vec3>* batch : {&first_checks, &other_checks}) {
-        for (const ProbeSample& s : probe.At(*batch))
-          worst = std::max(worst, NullFieldDirectivity(probe, s, options) / peak_directivity);
-        if (!IsZero(worst)) break;
-      }
-      if (IsZero(worst)) cones.push_back({a, cos_half, first});
+        (k % kConeFirstCheckStride == 0 ? cand.first_checks : cand.other_checks)
+            .push_back(checks[k]);
+      if (!known(a, cos_half)) candidates.push_back(std::move(cand));
     }
+    // The candidates' checks, the first of every candidate in one batch, then the rest
+    // of those still zero in another; then accepted in order, each unless a cone kept
+    // before it is the same (as when they were checked one by one: the same cones, at
+    // most a few more checks).
+    std::vector<double> worst(candidates.size(), 0.0);
+    for (const bool first_round : {true, false}) {
+      std::vector<Vec3> batch;
+      std::vector<std::size_t> owner;
+      for (std::size_t i = 0; i < candidates.size(); ++i) {
+        if (!IsZero(worst[i])) continue;
+        const Candidate& k = candidates[i];
+        for (const Vec3& r : first_round ? k.first_checks : k.other_checks) {
+          batch.push_back(r);
+          owner.push_back(i);
+        }
+      }
+      const std::vector<ProbeSample> s = probe.AtExact(batch);
+      for (std::size_t j = 0; j < s.size(); ++j)
+        worst[owner[j]] = std::max(worst[owner[j]],
+                                   NullFieldDirectivity(probe, s[j], options) / peak_directivity);
+    }
+    for (std::size_t i = 0; i < candidates.size(); ++i)
+      if (IsZero(worst[i]) && !known(a, candidates[i].cos_half))
+        cones.push_back({a, candidates[i].cos_half, candidates[i].point});
     // About each axis, the narrowest cone first.
     std::sort(cones.begin() + static_cast<std::ptrdiff_t>(first_of_axis), cones.end(),
               [](const Cone& x, const Cone& y) { return x.cos_half > y.cos_half; });
@@ -418,17 +572,21 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
     };
     std::vector<Member> below = {{r, v, true}};
     const std::size_t stride = std::max<std::size_t>(1, set.size() / kSeedsPerSet);
-    for (std::size_t k = 0; k < set.size(); k += stride) {
+    std::vector<std::size_t> again;  // seeds whose first search refused a step
+    for (std::size_t k = 0; k < set.size(); k += stride)
+      if (!polished.count(set[k])) again.push_back(set[k]);
+    const std::vector<NullProblem::PolishTask> repolished =
+        PolishFromNodes(problem, neighbours, again, 10.0 * spacing);
+    for (std::size_t k = 0, j = 0; k < set.size(); k += stride) {
       Vec3 q;
       double vq;
       if (const auto it = polished.find(set[k]); it != polished.end()) {
         q = it->second.r;
         vq = it->second.v;
       } else {
-        q = neighbours.direction(set[k]);
-        const ProbeSample at_q = probe.At(q);
-        vq = problem.LevelOf(at_q);
-        problem.Polish(&q, &vq, 10.0 * spacing, at_q);
+        q = repolished[j].r;
+        vq = repolished[j].v;
+        ++j;
       }
       const bool on_cone = std::any_of(cones.begin(), cones.end(), [&](const Cone& c) {
         return cone_distance(c, q) < kOnCone_rad;
@@ -541,17 +699,30 @@ std::vector<NullCrossing> FindNullCrossings(const PatternProbe& probe, const Nul
       level[i] =
           s[i].no_field ? kInf : NullFieldDirectivity(probe, s[i], options) / peak_directivity;
   }
-  std::vector<NullCrossing> out;
+  // Every minimum of the circle refined together: the golden-section searches, then the
+  // Gauss-Newton polish, each round of all of them one batch.
+  std::vector<std::pair<double, double>> brackets;
   const std::size_t m = level.size();
   for (std::size_t i = 0; i < m; ++i) {
     const double l = level[i], prev = level[(i + m - 1) % m], next = level[(i + 1) % m];
     if (!(l < screen && l < prev && l <= next)) continue;
     const double s0 = -kPi + h * static_cast<double>(i);
-    const LineMinimum lm = MinimizeOnInterval(
-        [&](double s) { return problem.Level(AlongGreatCircle(peak, tangent, s)); }, s0 - h, s0 + h,
-        options.refine_tolerance_deg * kDegree);
-    double s = lm.x, v = lm.value;
-    problem.PolishAlong(peak, tangent, &s, &v);
+    brackets.emplace_back(s0 - h, s0 + h);
+  }
+  const std::vector<LineMinimum> minima = MinimizeOnIntervals(
+      [&](const std::vector<BatchPoint>& points) {
+        std::vector<Vec3> r;
+        for (const BatchPoint& p : points) r.push_back(AlongGreatCircle(peak, tangent, p.x));
+        return problem.Levels(r);
+      },
+      brackets, options.refine_tolerance_deg * kDegree);
+  std::vector<NullProblem::AlongTask> tasks;
+  for (const LineMinimum& lm : minima) tasks.push_back({lm.x, lm.value, std::nullopt});
+  problem.PolishAlongAll(peak, tangent, &tasks);
+  std::vector<NullCrossing> out;
+  for (const NullProblem::AlongTask& t : tasks) {
+    double s = t.s_rad;
+    const double v = t.v;
     if (!(v < threshold)) continue;
     NullCrossing c;
     c.orthogonal_plane = orthogonal_plane;

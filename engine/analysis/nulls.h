@@ -9,7 +9,10 @@
 // point or a curve with its extent. The ground's no-field region takes no part: its
 // zeros are not nulls. Cost: a candidate cone is checked at 3 of its points before the
 // rest; the sets no cone explains stop being refined once the list (--max-nulls) is
-// full of exact zeros, which nothing found later can displace.
+// full of exact zeros, which nothing found later can displace. The seeds' Gauss-Newton
+// searches run in lockstep, every round of all of them one batch of exact sums
+// (PatternProbe::AtExact: the same values as one by one, threaded, without the
+// per-call overheads), and so do the crossings' golden-section and Gauss-Newton searches.
 //
 // FindNullCrossings then walks a principal plane's whole great circle and refines each
 // minimum of the null field on it: where the loci cross the plane (what a cut plot marks).

@@ -86,6 +86,15 @@ bool PatternProbe::NoFieldAt(const Vec3& r) const {
 }
 
 std::vector<ProbeSample> PatternProbe::At(const std::vector<Vec3>& r_hat) const {
+  return Evaluate(r_hat, true);
+}
+
+std::vector<ProbeSample> PatternProbe::AtExact(const std::vector<Vec3>& r_hat) const {
+  return Evaluate(r_hat, false);
+}
+
+std::vector<ProbeSample> PatternProbe::Evaluate(const std::vector<Vec3>& r_hat,
+                                                bool allow_fast) const {
   std::vector<ProbeSample> out(r_hat.size());
   if (r_hat.empty()) return out;
   std::vector<double> theta(r_hat.size()), phi(r_hat.size());
@@ -105,11 +114,14 @@ std::vector<ProbeSample> PatternProbe::At(const std::vector<Vec3>& r_hat) const 
     f = plan_->ExecuteAt(currents_, Directions::FromAngles(theta, phi));
   } else {
     FieldOptions o;
-    o.method = r_hat.size() >= kFastBatchDirections && plan_->num_sources() >= kFastBatchSources
+    o.method = allow_fast && r_hat.size() >= kFastBatchDirections &&
+                       plan_->num_sources() >= kFastBatchSources
                    ? FieldMethod::kAuto
                    : FieldMethod::kDirect;
     f = FieldPlan(array_, Directions::FromAngles(theta, phi), o).Execute(currents_);
   }
+  // Callers may evaluate from several threads at once (RefineMaxima's polish).
+#pragma omp atomic
   evaluations_ += r_hat.size();
   for (std::size_t i = 0; i < r_hat.size(); ++i) {
     ProbeSample& s = out[i];

@@ -73,6 +73,11 @@ class PatternProbe {
 
   std::vector<ProbeSample> At(const std::vector<Vec3>& r_hat) const;
   ProbeSample At(const Vec3& r_hat) const;
+  // The exact (direct) sums whatever the batch's size (At may take the fast path for a
+  // large batch of a large array), threaded from kParallelBatchDirections on: for
+  // refinements run in lockstep, whose batches gather the rounds of many searches and
+  // must give each direction the value it would get alone.
+  std::vector<ProbeSample> AtExact(const std::vector<Vec3>& r_hat) const;
   double DirectivityAt(const Vec3& r_hat) const { return At(r_hat).directivity; }
 
   // Directivity of a field component c (V): 4 pi |c|^2 / (2 eta0 P).
@@ -81,10 +86,13 @@ class PatternProbe {
   double floor_v() const { return floor_v_; }
   bool NoFieldAt(const Vec3& r_hat) const;
   const Array& array() const { return array_; }
-  // Directions evaluated so far (all calls).
+  // Directions evaluated so far (all calls). At and AtExact may be called from several
+  // threads at once; read this outside them.
   std::size_t evaluations() const { return evaluations_; }
 
  private:
+  std::vector<ProbeSample> Evaluate(const std::vector<Vec3>& r_hat, bool allow_fast) const;
+
   Array array_;
   Eigen::VectorXcd currents_;
   std::shared_ptr<const FieldPlan> plan_;  // the sources, built once

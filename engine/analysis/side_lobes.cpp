@@ -24,6 +24,12 @@ constexpr double kCandidateMargin_db = 10.0;
 // full side-lobe list allows for (FindLobes).
 constexpr double kRiseFloor_db = 3.0;
 
+// Arrays of at least this many sources (images counted) refine their side-lobe
+// candidates kLockstepLobes at a time: an exact evaluation costs O(sources), so one
+// batch of many directions beats as many calls of one (threads, no per-call setup).
+constexpr std::size_t kLockstepSources = 8192;
+constexpr std::size_t kLockstepLobes = 32;
+
 }  // namespace
 
 LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours,
@@ -71,6 +77,14 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
   double rise = 1.0;
   // The max_side_lobes + 1 highest side-lobe levels found, lowest on top.
   std::priority_queue<double, std::vector<double>, std::greater<>> listed;
+  // Refinements of cands[0 .. refinements.size()), made ahead in groups of `lockstep`
+  // (one for arrays small enough that a direction's exact sum costs little: the
+  // candidates one by one, as many evaluations as needed and no more).
+  std::vector<RefinedMaximum> refinements;
+  const std::size_t lockstep =
+      probe.array().size() * (probe.array().ground == Ground::kNone ? 1 : 2) >= kLockstepSources
+          ? kLockstepLobes
+          : 1;
   for (const Candidate& c : cands) {
     if (c.value < worth && out.highest_side_lobe) break;
     // Once the list is full (and so truncated), a candidate whose grid value, raised by
@@ -90,10 +104,20 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
       out.truncated = true;
       break;
     }
+    // The candidates are refined in groups, their simplex searches in lockstep; a group
+    // may refine a few candidates the early stops above then leave unused.
+    if (refined == refinements.size()) {
+      std::vector<Vec3> starts;
+      const std::size_t group = std::min(lockstep, max_refined - refined);
+      for (std::size_t k = refined; k < std::min(cands.size(), refined + group); ++k)
+        starts.push_back(neighbours.direction(cands[k].node));
+      const std::vector<RefinedMaximum> more =
+          RefineMaxima(probe, starts, 0.5 * neighbours.spacing_rad(),
+                       options.refine_tolerance_deg * kDegree, options.max_evaluations_per_search);
+      refinements.insert(refinements.end(), more.begin(), more.end());
+    }
+    const RefinedMaximum m = refinements[refined];
     ++refined;
-    const RefinedMaximum m =
-        RefineMaximum(probe, neighbours.direction(c.node), 0.5 * neighbours.spacing_rad(),
-                      options.refine_tolerance_deg * kDegree, options.max_evaluations_per_search);
     if (c.value > 0.0) rise = std::max(rise, m.directivity / c.value);
     if (AngleBetween(m.r_hat, peak) < kSameLobe_rad) continue;
     if (std::any_of(accepted.begin(), accepted.end(),
