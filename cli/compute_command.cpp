@@ -1,5 +1,7 @@
 // `lobecast compute ARRAY.toml [-o RESULT.h5]`: the main job.
+#include <algorithm>
 #include <chrono>
+#include <cmath>
 #include <cstdio>
 #include <filesystem>
 #include <memory>
@@ -268,8 +270,16 @@ void RunCompute(const ComputeArgs& args) {
                     EstimatedResultBytes(size.dipoles, size.directions, size.resistance_matrix),
                     "the streamed result");
   }
-  const std::optional<CouplingResult> coupling =
-      SolveArrayCircuit(desc, args.threads, args.resistance_matrix);
+  // A large array's circuit is solved iteratively: the bar follows the residual's
+  // digits toward the target (engine/coupling/iterative_circuit.h).
+  ProgressBar solve_bar(!quiet);
+  const double solve_digits = -std::log10(IterativeCircuitOptions{}.target_relative_residual);
+  const std::optional<CouplingResult> coupling = SolveArrayCircuit(
+      desc, args.threads, args.resistance_matrix, [&, done = 0.0](int, double residual) mutable {
+        done = std::max(done, std::clamp(-std::log10(residual) / solve_digits, 0.0, 1.0));
+        solve_bar.Update(done);
+      });
+  solve_bar.Finish();
 
   if (lead) StopForTestAt("compute");  // test hook (io/output_file.h)
   PatternOptions options;

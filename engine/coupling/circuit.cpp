@@ -30,20 +30,24 @@ std::string_view ToString(PortKind k) {
   return "current";
 }
 
+void CheckPortValues(const std::vector<Port>& ports) {
+  for (std::size_t m = 0; m < ports.size(); ++m) {
+    const Port& p = ports[m];
+    if (Finite(p.current_a) && Finite(p.voltage_v) && Finite(p.impedance_ohm)) continue;
+    std::ostringstream s;
+    s << "dipole " << m << ": " << ToString(p.kind) << " values are not finite";
+    throw InvalidArgument(s.str());
+  }
+}
+
 CircuitSolution SolveCircuit(const Eigen::MatrixXcd& z, const std::vector<Port>& ports) {
   const auto n = static_cast<Eigen::Index>(ports.size());
   LOBECAST_CHECK_EQ(z.rows(), n);
   LOBECAST_CHECK_EQ(z.cols(), n);
+  CheckPortValues(ports);
   std::vector<Eigen::Index> unknown, forced;
-  for (Eigen::Index m = 0; m < n; ++m) {
-    const Port& p = ports[static_cast<std::size_t>(m)];
-    if (!Finite(p.current_a) || !Finite(p.voltage_v) || !Finite(p.impedance_ohm)) {
-      std::ostringstream s;
-      s << "dipole " << m << ": " << ToString(p.kind) << " values are not finite";
-      throw InvalidArgument(s.str());
-    }
-    (p.kind == PortKind::kCurrent ? forced : unknown).push_back(m);
-  }
+  for (Eigen::Index m = 0; m < n; ++m)
+    (ports[static_cast<std::size_t>(m)].kind == PortKind::kCurrent ? forced : unknown).push_back(m);
   // Only the rows of the unknown currents enter the solve: a NaN elsewhere (the
   // self reactance of a current-forced element, coupling.h) touches only that
   // element's own terminal voltage.

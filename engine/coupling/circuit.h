@@ -42,6 +42,9 @@ struct CircuitSolution {
   Eigen::VectorXd port_loss_w;           // in source and load impedances: 1/2 |I|^2 Re Z_p
 };
 
+// Throws InvalidArgument (naming the dipole) when a port value is not finite.
+void CheckPortValues(const std::vector<Port>& ports);
+
 // Sizes must agree (a failed LOBECAST_CHECK otherwise). Throws InvalidArgument when a
 // port value is not finite, or the
 // circuit is singular (no unique currents: e.g. lossless resonant loads).

@@ -106,23 +106,11 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
   const std::size_t n = array.size();
   LOBECAST_CHECK_EQ(ports.size(), n);
   LOBECAST_CHECK_EQ(wires.size(), n);
-  // Above the limit a current-forced array streams V = Z I row by row (O(N) memory);
-  // driven and loaded ports need the matrix for their solve.
+  // Above the limit V = Z I is streamed row by row (O(N) memory); driven and loaded
+  // ports get their currents from GMRES on such products (iterative_circuit.h).
   const bool streamed = n > options.max_dipoles && !options.force_matrix;
-  if (streamed) {
-    for (std::size_t m = 0; m < n; ++m) {
-      if (ports[m].kind == PortKind::kCurrent) continue;
-      std::ostringstream s;
-      s << "coupling: " << n << " dipoles, dipole " << m << " is "
-        << (ports[m].kind == PortKind::kDrive ? "driven" : "loaded")
-        << ": driven and loaded ports are solved with the whole impedance matrix ("
-        << 16.0 * static_cast<double>(n) * static_cast<double>(n) / 1e9 << " GB), built up to "
-        << options.max_dipoles
-        << " dipoles unless asked for (compute --resistance-matrix builds it for any size); "
-           "current-forced arrays of any size need no matrix";
-      throw InvalidArgument(s.str());
-    }
-  }
+  const bool solved = std::any_of(ports.begin(), ports.end(),
+                                  [](const Port& p) { return p.kind != PortKind::kCurrent; });
   const double z0 = options.reference_impedance_ohm;
   if (!std::isfinite(z0) || z0 <= 0) {
     std::ostringstream s;
@@ -170,7 +158,15 @@ CouplingResult SolveCoupling(const Array& array, const std::vector<Port>& ports,
     if (std::isnan(xs[e])) xs[e] = 0;
   CheckCoincident(array, ports);
   Eigen::MatrixXcd z;
-  if (streamed) {
+  if (streamed && solved) {
+    IterativeCircuitOptions iterative = options.iterative;
+    iterative.num_threads = options.num_threads;
+    IterativeCircuit solution =
+        SolveCircuitIterative(array, xs, r.loss_resistance_ohm, ports, iterative);
+    r.circuit = std::move(solution.circuit);
+    r.radiated_w = solution.radiated_w;
+    r.route = solution.route;
+  } else if (streamed) {
     // Every current is given: V = (R + j X') I + j X_mm I_m + R_loss I_m, the rows
     // summed as the active resistances are (engine/power/power_large.h).
     Eigen::VectorXcd i(static_cast<Eigen::Index>(n));

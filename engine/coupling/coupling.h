@@ -23,6 +23,7 @@
 #include <Eigen/Core>
 
 #include "engine/coupling/circuit.h"
+#include "engine/coupling/iterative_circuit.h"
 #include "engine/types.h"
 
 namespace lobecast {
@@ -41,13 +42,14 @@ struct CouplingOptions {
   int num_threads = 0;
   // Up to this many dipoles the impedance matrix is built whole (16 N^2 bytes) and
   // the driven and loaded ports are solved by LU (O(N^3)). Beyond it, unless
-  // force_matrix: a current-forced array (wires only) gets V = Z I, the active and
-  // input impedances and the power budget from rows summed one at a time (O(N^2)
-  // time, O(N) memory; CouplingResult::impedance_ohm is then empty), and an array
-  // with driven or loaded ports is refused (an iterative solve on streamed products
-  // is not implemented: near-resonant loads make Z_UU + Z_L ill-conditioned).
+  // force_matrix: V = Z I, the active and input impedances and the power budget come
+  // from rows summed one at a time (O(N^2) time, O(N) memory;
+  // CouplingResult::impedance_ohm is then empty), and the currents of driven and
+  // loaded ports from GMRES on such products (iterative_circuit.h; O(N^2) per
+  // iteration), refused when it does not converge.
   std::size_t max_dipoles = 4096;
-  bool force_matrix = false;  // build the matrix whatever the size (asked for)
+  bool force_matrix = false;            // build the matrix whatever the size (asked for)
+  IterativeCircuitOptions iterative{};  // num_threads is taken from above
 };
 
 // Pairs of dipoles closer than their longer length: the point-dipole mutual
@@ -72,6 +74,7 @@ struct CouplingResult {
   // is underestimated (self_impedance.h).
   std::size_t thin_for_skin_effect = 0;
   CircuitSolution circuit;  // currents, voltages, input impedances V/I (loss included)
+  CircuitRoute route;       // direct (LU, or no unknown currents) or iterative
   Eigen::VectorXcd active_impedance_ohm;  // sum_n Z_mn I_n / I_m (CONVENTIONS §1, no loss)
   Eigen::VectorXcd reflection;            // Gamma against Z0 (NaN where I = 0)
   Eigen::VectorXd vswr;

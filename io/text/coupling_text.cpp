@@ -48,6 +48,17 @@ std::string DescribeCoupling(const CouplingResult& c, const std::vector<Port>& p
       "impedance %g ohm\n",
       count[0], count[1], count[2], ports.size() == 1 ? "" : "s",
       count[1] + count[2] > 0 ? " (currents solved)" : "", c.reference_impedance_ohm);
+  // The direct route (LU of the whole matrix) is the usual one and says nothing; the
+  // iterative one (above the matrix limit) says how far it went.
+  if (c.route.iterative) {
+    const double n = static_cast<double>(ports.size());
+    s << Printf(
+        "solve        iterative (restarted GMRES on streamed products, %zu unknowns, %zu "
+        "preconditioner blocks): %d iterations, relative residual %.2g (target %.2g), %.3g s; "
+        "no %.3g GB impedance matrix\n",
+        c.route.unknowns, c.route.blocks, c.route.iterations, c.route.relative_residual,
+        c.route.target_residual, c.route.seconds, 16 * n * n / 1e9);
+  }
   if (ports.size() <= kFullTableUpTo) {
     s << "     #  port                    |I| (A)  phase (deg)  X_self (ohm)  Z_in (ohm)         "
          "  VSWR\n";
