@@ -3,6 +3,9 @@
 // forward sum (over directions) and the adjoint (over sources).
 #include <algorithm>
 #include <array>
+#include <cstring>
+#include <memory>
+#include <mutex>
 #include <vector>
 
 #include <omp.h>
@@ -230,14 +233,14 @@ void TiledSums(const Stream& stream, std::size_t stream_size, std::size_t target
   // No more threads than chunks: a probe of a few directions runs on one.
   threads = static_cast<int>(
       std::clamp<std::ptrdiff_t>(threads, 1, std::max<std::ptrdiff_t>(1, num_chunks)));
-#pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
-  for (std::ptrdiff_t c = 0; c < num_chunks; ++c) {
+  const auto chunk = [&](std::ptrdiff_t c) {
     const std::size_t d0 = static_cast<std::size_t>(c) * kChunkDirections;
     const std::size_t nd = std::min(kChunkDirections, targets - d0);
     // Whole tiles, then the rest one by one.
     const std::size_t tiled = nd - nd % static_cast<std::size_t>(tile);
     std::array<double, 3 * kChunkDirections> q;
-    std::array<double, 6 * kChunkDirections> acc{};
+    std::array<double, 6 * kChunkDirections> acc;
+    std::fill_n(acc.begin(), static_cast<std::size_t>(per) * nd, 0.0);
     for (std::size_t t = 0; t < nd; ++t) load(d0 + t, &q[3 * t]);
     for (std::size_t b = 0; b < stream_size; b += kBlockSources) {
       const std::size_t e = std::min(stream_size, b + kBlockSources);
@@ -249,10 +252,60 @@ void TiledSums(const Stream& stream, std::size_t stream_size, std::size_t target
       }
     }
     for (std::size_t t = 0; t < nd; ++t) store(d0 + t, &acc[static_cast<std::size_t>(per) * t]);
+  };
+  // One thread: no parallel region to start (a probe's call is a few microseconds).
+  if (threads == 1) {
+    for (std::ptrdiff_t c = 0; c < num_chunks; ++c) chunk(c);
+    return;
   }
+#pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
+  for (std::ptrdiff_t c = 0; c < num_chunks; ++c) chunk(c);
 }
 
 }  // namespace
+
+struct FieldPlan::SourceWeights {
+  Eigen::VectorXcd currents;  // the key
+  std::vector<double> wr, wi;
+};
+
+struct FieldPlan::WeightCache {
+  std::mutex mutex;
+  std::shared_ptr<const SourceWeights> last;
+};
+
+std::shared_ptr<FieldPlan::WeightCache> FieldPlan::MakeWeightCache() {
+  return std::make_shared<WeightCache>();
+}
+
+std::shared_ptr<const FieldPlan::SourceWeights> FieldPlan::WeightsFor(
+    const Eigen::VectorXcd& currents_a) const {
+  const auto bytes = static_cast<std::size_t>(currents_a.size()) * sizeof(Complex);
+  std::shared_ptr<const SourceWeights> last;
+  {
+    const std::lock_guard<std::mutex> lock(weights_->mutex);
+    last = weights_->last;
+  }
+  // The same bits, the same weights.
+  if (last && last->currents.size() == currents_a.size() &&
+      (bytes == 0 || std::memcmp(last->currents.data(), currents_a.data(), bytes) == 0)) {
+    return last;
+  }
+  auto w = std::make_shared<SourceWeights>();
+  w->currents = currents_a;
+  const std::size_t ns = num_sources();
+  w->wr.resize(ns);
+  w->wi.resize(ns);
+  for (std::size_t s = 0; s < ns; ++s) {
+    const Complex c = currents_a[source_dipole_[s]];
+    const double m = collinear_ ? signed_moment_m_[s] : 1.0;
+    w->wr[s] = c.real() * m;
+    w->wi[s] = c.imag() * m;
+  }
+  const std::lock_guard<std::mutex> lock(weights_->mutex);
+  weights_->last = w;
+  return w;
+}
 
 void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first,
                               std::size_t count, FarField& out) const {
@@ -262,15 +315,9 @@ void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t fi
 void FieldPlan::SumDirect(const Eigen::VectorXcd& currents_a, const DirectionData& dirs,
                           std::size_t first, std::size_t count, FarField& out) const {
   const std::size_t ns = num_sources();
-  std::vector<double> wr(ns), wi(ns);
-  for (std::size_t s = 0; s < ns; ++s) {
-    const Complex c = currents_a[source_dipole_[s]];
-    const double m = collinear_ ? signed_moment_m_[s] : 1.0;
-    wr[s] = c.real() * m;
-    wi[s] = c.imag() * m;
-  }
-  const SourceArrays src{soa_[0].data(), soa_[1].data(), soa_[2].data(), wr.data(),
-                         wi.data(),      soa_[3].data(), soa_[4].data(), soa_[5].data()};
+  const std::shared_ptr<const SourceWeights> w = WeightsFor(currents_a);
+  const SourceArrays src{soa_[0].data(), soa_[1].data(), soa_[2].data(), w->wr.data(),
+                         w->wi.data(),   soa_[3].data(), soa_[4].data(), soa_[5].data()};
 
   // Directions the ground does not force to zero; the others are set here.
   std::vector<std::size_t> live;
@@ -308,9 +355,11 @@ void FieldPlan::SumDirect(const Eigen::VectorXcd& currents_a, const DirectionDat
   };
   const int threads = ResolveThreads(num_threads_);
   if (collinear_) {
-    TiledSums<SumCollinearTile, SumCollinearOne>(src, ns, live.size(), kTileCollinear, 2, threads, load, store);
+    TiledSums<SumCollinearTile, SumCollinearOne>(src, ns, live.size(), kTileCollinear, 2, threads,
+                                                 load, store);
   } else {
-    TiledSums<SumGeneralTile, SumGeneralOne>(src, ns, live.size(), kTileGeneral, 6, threads, load, store);
+    TiledSums<SumGeneralTile, SumGeneralOne>(src, ns, live.size(), kTileGeneral, 6, threads, load,
+                                             store);
   }
 }
 
@@ -350,7 +399,8 @@ Eigen::VectorXcd FieldPlan::AdjointDirect(const Eigen::Matrix3Xcd& v) const {
   if (collinear_) {
     const SourceArrays stream{soa[0].data(), soa[1].data(), soa[2].data(), soa[3].data(),
                               soa[4].data(), nullptr,       nullptr,       nullptr};
-    TiledSums<SumCollinearTile, SumCollinearOne>(stream, nl, ns, kTileCollinear, 2, threads, load, store);
+    TiledSums<SumCollinearTile, SumCollinearOne>(stream, nl, ns, kTileCollinear, 2, threads, load,
+                                                 store);
   } else {
     const VectorStream stream{soa[0].data(),
                               soa[1].data(),
