@@ -35,10 +35,13 @@ constexpr double kBytesPerDipole = 400.0;
 constexpr double kBytesPerStreamedBlock = 100.0;
 constexpr double kViewDirections = kStreamViewDirections;
 // Per direction after the field, CPU seconds: the floor, U, D and polarization
-// (DeriveFromField) on the threads, and the file's shuffle and deflate on one
-// (random-1024, 65 160 directions, by callgrind; see tests/bench/RESULTS.md).
-constexpr double kSecondsPerDerivedDirection = 1.0e-7;
-constexpr double kSecondsPerStoredDirection = 4.0e-7;
+// (DeriveFromField, about 800 instructions a direction by callgrind) on the
+// threads, and the file's shuffle and deflate on one (level 1: 45 ms for the
+// 65 160 directions of random-1024, whose noisy low bytes are deflate's worst
+// case; smooth patterns compress faster). tests/bench/RESULTS.md, "The whole
+// job's parts".
+constexpr double kSecondsPerDerivedDirection = 2.5e-7;
+constexpr double kSecondsPerStoredDirection = 6.0e-7;
 // Building one block's field plan, per source (positions, moments, the lattice
 // search): as engine/power/power_cost.cpp prices its plans.
 constexpr double kSecondsPerPlanSource = 1.5e-7;
