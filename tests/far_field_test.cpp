@@ -219,7 +219,9 @@ TEST(FarField, ExecuteRangeMatchesExecute) {
 // without images, source counts with and without a remainder of the vector width.
 TEST(FarField, BatchingDoesNotChangeABit) {
   TestRng rng(15);
-  const auto same = [](Complex a, Complex b) { return a.real() == b.real() && a.imag() == b.imag(); };
+  const auto same = [](Complex a, Complex b) {
+    return a.real() == b.real() && a.imag() == b.imag();
+  };
   for (int n : {1, 3, 13, 1025}) {
     for (Ground g : {Ground::kNone, Ground::kPec}) {
       for (bool collinear : {true, false}) {
@@ -228,14 +230,17 @@ TEST(FarField, BatchingDoesNotChangeABit) {
           for (Dipole& d : a.dipoles) d.orientation = Vec3::UnitX();
         }
         std::vector<double> theta, phi;
-        for (int i = 0; i < 11; ++i) theta.push_back(rng.Uniform(0.0, kPi)), phi.push_back(rng.Uniform(0.0, 2 * kPi));
+        for (int i = 0; i < 11; ++i)
+          theta.push_back(rng.Uniform(0.0, kPi)), phi.push_back(rng.Uniform(0.0, 2 * kPi));
         const Directions dirs = Directions::FromAngles(theta, phi);
         const FieldPlan plan(a, dirs, DirectMethod(1));
         const FarField all = plan.Execute(a.currents);
         for (std::size_t i = 0; i < theta.size(); ++i) {
           // Alone, and last of a batch of five (a tile of four and it).
-          const FarField one = plan.ExecuteAt(a.currents, Directions::FromAngles({theta[i]}, {phi[i]}));
-          std::vector<double> t5(4, theta[(i + 1) % theta.size()]), p5(4, phi[(i + 1) % phi.size()]);
+          const FarField one =
+              plan.ExecuteAt(a.currents, Directions::FromAngles({theta[i]}, {phi[i]}));
+          std::vector<double> t5(4, theta[(i + 1) % theta.size()]),
+              p5(4, phi[(i + 1) % phi.size()]);
           t5.push_back(theta[i]), p5.push_back(phi[i]);
           const FarField five = plan.ExecuteAt(a.currents, Directions::FromAngles(t5, p5));
           for (const FarField* f : {&one, &five}) {
