@@ -44,7 +44,9 @@ void AddCheckCommand(CLI::App& app) {
     RunSize size;  // the power alone: no pattern, the matrix streamed
     size.dipoles = desc.array.size();
     size.ground = desc.array.ground;
-    const RunEstimate estimate = EstimateRun(size);
+    PatternOptions power_only;  // auto, as below: the route check takes, priced
+    power_only.resistance_matrix_max_dipoles = 0;
+    const RunEstimate estimate = EstimateRun(size, PriceRoutes(desc.array, {}, power_only));
     CheckRunLimits(estimate, *limits, *input, *quiet);
     // Driven and loaded dipoles: the table shows the currents the circuit gives.
     const auto coupling = SolveArrayCircuit(desc, 0);
@@ -55,8 +57,7 @@ void AddCheckCommand(CLI::App& app) {
     // --power-method auto.
     double power_w = 0, digits = 0;
     std::string how = "closed form";
-    if (ChoosePowerRoute(desc.array, PowerMethod::kAuto, false, false).route ==
-        PowerRoute::kQuadrature) {
+    if (estimate.power_route == PowerRoute::kQuadrature) {
       const QuadraturePower q = RadiatedPowerByQuadrature(desc.array, desc.currents);
       power_w = q.radiated_power_w;
       digits = -std::log10(q.error_bound_relative);

@@ -261,9 +261,18 @@ void RunCompute(const ComputeArgs& args) {
   size.resistance_matrix =
       args.resistance_matrix || size.dipoles <= PatternOptions{}.resistance_matrix_max_dipoles;
   size.threads = args.threads;
-  const std::string stream_why = WhyStream(args, desc, EstimateRun(size));
+  PatternOptions options;
+  options.field.num_threads = args.threads;
+  options.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
+  options.field.tolerance_relative = args.tolerance;
+  options.store_resistance_matrix = args.resistance_matrix;
+  options.power_method = *PowerMethodFromString(args.power_method);  // validated by CLI11
+  options.power_quadrature.target_relative = args.power_tolerance;
+  // Priced at the routes the job will take (the quadrature, the fast path), once.
+  const RoutePrices prices = PriceRoutes(desc.array, desc.grid, options);
+  const std::string stream_why = WhyStream(args, desc, EstimateRun(size, prices));
   size.streamed = !stream_why.empty();
-  CheckRunLimits(EstimateRun(size), args.limits, args.input, quiet);
+  CheckRunLimits(EstimateRun(size, prices), args.limits, args.input, quiet);
   const std::string output = args.output.empty() ? DefaultOutput(args.input) : args.output;
   if (lead && size.streamed) {
     CheckOutputFits(output,
@@ -282,13 +291,6 @@ void RunCompute(const ComputeArgs& args) {
   solve_bar.Finish();
 
   if (lead) StopForTestAt("compute");  // test hook (io/output_file.h)
-  PatternOptions options;
-  options.field.num_threads = args.threads;
-  options.field.method = *FieldMethodFromString(args.method);  // validated by CLI11
-  options.field.tolerance_relative = args.tolerance;
-  options.store_resistance_matrix = args.resistance_matrix;
-  options.power_method = *PowerMethodFromString(args.power_method);  // validated by CLI11
-  options.power_quadrature.target_relative = args.power_tolerance;
   if (size.streamed) return RunStreamed(args, desc, options, stream_why, output, t0);
   ProgressBar bar(!quiet);
   options.progress = [&bar](double f) { bar.Update(f); };

@@ -264,19 +264,6 @@ PatternInProgress RunBlocks(const Array& array, const Eigen::VectorXcd& currents
   s.threads_used = ResolveThreads(options.field.num_threads);
   s.num_dipoles = array.size();
 
-  // One progress bar over the power and the field, each its share of the run's
-  // estimated time (the O(N^2) power of a large array stalled the bar at 0).
-  double power_share = 0.0;
-  if (options.progress) {
-    const RunEstimate estimate =
-        EstimateRun(RunSize{array.size(), array.ground, grid.size(), options.field.method, false,
-                            options.field.num_threads});
-    if (estimate.seconds() > 0.0) power_share = estimate.power_seconds / estimate.seconds();
-  }
-  const std::function<void(double)> power_progress = [&](double x) {
-    if (options.progress) options.progress(power_share * x);
-  };
-
   auto t0 = Clock::now();
   PowerQuadratureOptions quadrature = options.power_quadrature;
   quadrature.num_threads = options.field.num_threads;
@@ -284,6 +271,21 @@ PatternInProgress RunBlocks(const Array& array, const Eigen::VectorXcd& currents
       array, options.power_method,
       array.size() <= options.resistance_matrix_max_dipoles || options.store_resistance_matrix,
       options.store_resistance_matrix, quadrature);
+  // One progress bar over the power and the field, each its share of the run's
+  // estimated time (the O(N^2) power of a large array stalled the bar at 0): the
+  // power's route as chosen, the field by the sizes.
+  double power_share = 0.0;
+  if (options.progress) {
+    const RunEstimate estimate =
+        EstimateRun(RunSize{array.size(), array.ground, grid.size(), options.field.method, false,
+                            options.field.num_threads});
+    const double rest = estimate.field_seconds + estimate.finish_seconds;
+    if (power.cost.seconds + rest > 0.0)
+      power_share = power.cost.seconds / (power.cost.seconds + rest);
+  }
+  const std::function<void(double)> power_progress = [&](double x) {
+    if (options.progress) options.progress(power_share * x);
+  };
   if (power.route == PowerRoute::kQuadrature) {
     const QuadraturePower q = RadiatedPowerByQuadrature(array, currents, quadrature);
     r.radiated_power_w = q.radiated_power_w;

@@ -212,6 +212,61 @@ TEST(FarField, ExecuteRangeMatchesExecute) {
   }
 }
 
+// The direct sums take whole tiles of directions (or, for the adjoint, sources) and
+// the rest one at a time: a direction's field must not depend on how many were
+// asked with it, nor on its place, to the last bit (the analysis compares probes of
+// one direction with the grid's values). Collinear and general moments, with and
+// without images, source counts with and without a remainder of the vector width.
+TEST(FarField, BatchingDoesNotChangeABit) {
+  TestRng rng(15);
+  const auto same = [](Complex a, Complex b) {
+    return a.real() == b.real() && a.imag() == b.imag();
+  };
+  for (int n : {1, 3, 13, 1025}) {
+    for (Ground g : {Ground::kNone, Ground::kPec}) {
+      for (bool collinear : {true, false}) {
+        testing::TestArray a = testing::RandomArray(rng, n, g, 3.0);
+        if (collinear) {
+          for (Dipole& d : a.dipoles) d.orientation = Vec3::UnitX();
+        }
+        std::vector<double> theta, phi;
+        for (int i = 0; i < 11; ++i)
+          theta.push_back(rng.Uniform(0.0, kPi)), phi.push_back(rng.Uniform(0.0, 2 * kPi));
+        const Directions dirs = Directions::FromAngles(theta, phi);
+        const FieldPlan plan(a, dirs, DirectMethod(1));
+        const FarField all = plan.Execute(a.currents);
+        for (std::size_t i = 0; i < theta.size(); ++i) {
+          // Alone, and last of a batch of five (a tile of four and it).
+          const FarField one =
+              plan.ExecuteAt(a.currents, Directions::FromAngles({theta[i]}, {phi[i]}));
+          std::vector<double> t5(4, theta[(i + 1) % theta.size()]),
+              p5(4, phi[(i + 1) % phi.size()]);
+          t5.push_back(theta[i]), p5.push_back(phi[i]);
+          const FarField five = plan.ExecuteAt(a.currents, Directions::FromAngles(t5, p5));
+          for (const FarField* f : {&one, &five}) {
+            const auto k = static_cast<Eigen::Index>(f->size() - 1);
+            EXPECT_TRUE(same(f->e_theta[k], all.e_theta[static_cast<Eigen::Index>(i)]) &&
+                        same(f->e_phi[k], all.e_phi[static_cast<Eigen::Index>(i)]))
+                << "n " << n << ", ground " << ToString(g) << ", direction " << i << " of "
+                << f->size();
+          }
+        }
+        // The adjoint's targets are the sources: the last dipole is taken alone among
+        // 4 k + 1 sources and within a tile once it comes first.
+        const Eigen::VectorXd w = Eigen::VectorXd::Constant(dirs.size(), 0.5);
+        const DipoleSums y = plan.ExecuteAdjoint(all, w);
+        testing::TestArray turned;
+        turned.frequency_hz = a.frequency_hz;
+        turned.ground = a.ground;
+        turned.Add(a.dipoles.back(), a.currents[n - 1]);
+        for (int k = 0; k + 1 < n; ++k) turned.Add(a.dipoles[k], a.currents[k]);
+        const DipoleSums yt = FieldPlan(turned, dirs, DirectMethod(1)).ExecuteAdjoint(all, w);
+        EXPECT_TRUE(same(yt.values[0], y.values[n - 1])) << "n " << n << ", ground " << ToString(g);
+      }
+    }
+  }
+}
+
 TEST(FarField, ThreadCountDoesNotChangeTheResult) {
   // far_field.h: each direction's sum runs in a fixed order, so 1 and 2 threads agree.
   TestRng rng(9);

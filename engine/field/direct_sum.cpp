@@ -3,6 +3,9 @@
 // forward sum (over directions) and the adjoint (over sources).
 #include <algorithm>
 #include <array>
+#include <cstring>
+#include <memory>
+#include <mutex>
 #include <vector>
 
 #include <omp.h>
@@ -68,6 +71,31 @@ void SumCollinearTile(const SourceArrays& src, std::size_t begin, std::size_t en
   acc[4] += r2, acc[5] += i2, acc[6] += r3, acc[7] += i3;
 }
 
+// SumCollinearTile for one direction: the tiles' remainder (a probe of one
+// direction used to pay for a whole tile of copies). Each direction's arithmetic
+// is the tile's, term for term, so a direction's sum does not depend on the
+// kernel that took it (tests/far_field_test.cpp, "BatchingDoesNotChangeABit").
+LOBECAST_KERNEL_CLONES
+void SumCollinearOne(const SourceArrays& src, std::size_t begin, std::size_t end, const double* k,
+                     double* acc) {
+  const double k0x = k[0], k0y = k[1], k0z = k[2];
+  const double* x = src.x;
+  const double* y = src.y;
+  const double* z = src.z;
+  const double* wr = src.wr;
+  const double* wi = src.wi;
+  double r0 = 0, i0 = 0;
+#pragma omp simd reduction(+ : r0, i0)
+  for (std::size_t s = begin; s < end; ++s) {
+    const double xs = x[s], ys = y[s], zs = z[s], a = wr[s], b = wi[s];
+    double sn, cs;
+    SinCos(k0x * xs + k0y * ys + k0z * zs, sn, cs);
+    r0 += a * cs - b * sn;
+    i0 += a * sn + b * cs;
+  }
+  acc[0] += r0, acc[1] += i0;
+}
+
 // acc[6t + 2a], acc[6t + 2a + 1] += sum_s m_s[a] I_s exp(j k_t . r_s), a = x, y, z,
 // for 2 directions.
 LOBECAST_KERNEL_CLONES
@@ -98,6 +126,32 @@ void SumGeneralTile(const SourceArrays& src, std::size_t begin, std::size_t end,
   }
   acc[0] += xr0, acc[1] += xi0, acc[2] += yr0, acc[3] += yi0, acc[4] += zr0, acc[5] += zi0;
   acc[6] += xr1, acc[7] += xi1, acc[8] += yr1, acc[9] += yi1, acc[10] += zr1, acc[11] += zi1;
+}
+
+// SumGeneralTile for one direction (as SumCollinearOne).
+LOBECAST_KERNEL_CLONES
+void SumGeneralOne(const SourceArrays& src, std::size_t begin, std::size_t end, const double* k,
+                   double* acc) {
+  const double k0x = k[0], k0y = k[1], k0z = k[2];
+  const double* x = src.x;
+  const double* y = src.y;
+  const double* z = src.z;
+  const double* wr = src.wr;
+  const double* wi = src.wi;
+  const double* mx = src.mx;
+  const double* my = src.my;
+  const double* mz = src.mz;
+  double xr0 = 0, xi0 = 0, yr0 = 0, yi0 = 0, zr0 = 0, zi0 = 0;
+#pragma omp simd reduction(+ : xr0, xi0, yr0, yi0, zr0, zi0)
+  for (std::size_t s = begin; s < end; ++s) {
+    const double xs = x[s], ys = y[s], zs = z[s], a = wr[s], b = wi[s];
+    const double ux = mx[s], uy = my[s], uz = mz[s];
+    double sn, cs;
+    SinCos(k0x * xs + k0y * ys + k0z * zs, sn, cs);
+    const double pr = a * cs - b * sn, pi = a * sn + b * cs;
+    xr0 += ux * pr, xi0 += ux * pi, yr0 += uy * pr, yi0 += uy * pi, zr0 += uz * pr, zi0 += uz * pi;
+  }
+  acc[0] += xr0, acc[1] += xi0, acc[2] += yr0, acc[3] += yi0, acc[4] += zr0, acc[5] += zi0;
 }
 
 // The general adjoint's stream: per direction its k vector and a complex
@@ -140,13 +194,38 @@ void SumVectorTile(const VectorStream& src, std::size_t begin, std::size_t end, 
   acc[6] += xr1, acc[7] += xi1, acc[8] += yr1, acc[9] += yi1, acc[10] += zr1, acc[11] += zi1;
 }
 
+// SumVectorTile for one target (as SumCollinearOne).
+LOBECAST_KERNEL_CLONES
+void SumVectorOne(const VectorStream& src, std::size_t begin, std::size_t end, const double* q,
+                  double* acc) {
+  const double q0x = q[0], q0y = q[1], q0z = q[2];
+  const double* x = src.x;
+  const double* y = src.y;
+  const double* z = src.z;
+  const double *vxr = src.vr[0], *vyr = src.vr[1], *vzr = src.vr[2];
+  const double *vxi = src.vi[0], *vyi = src.vi[1], *vzi = src.vi[2];
+  double xr0 = 0, xi0 = 0, yr0 = 0, yi0 = 0, zr0 = 0, zi0 = 0;
+#pragma omp simd reduction(+ : xr0, xi0, yr0, yi0, zr0, zi0)
+  for (std::size_t s = begin; s < end; ++s) {
+    const double xs = x[s], ys = y[s], zs = z[s];
+    const double ax = vxr[s], bx = vxi[s], ay = vyr[s], by = vyi[s], az = vzr[s], bz = vzi[s];
+    double sn, cs;
+    SinCos(q0x * xs + q0y * ys + q0z * zs, sn, cs);
+    xr0 += ax * cs - bx * sn, xi0 += ax * sn + bx * cs;
+    yr0 += ay * cs - by * sn, yi0 += ay * sn + by * cs;
+    zr0 += az * cs - bz * sn, zi0 += az * sn + bz * cs;
+  }
+  acc[0] += xr0, acc[1] += xi0, acc[2] += yr0, acc[3] += yi0, acc[4] += zr0, acc[5] += zi0;
+}
+
 // The direct sums' loop: for each of `targets` targets (load(t, q) writes its 3
 // coordinates), sums over the whole stream by a tile kernel (tile targets at a
-// time, per accumulators each) and hands the accumulators to store(t, acc).
+// time, per accumulators each; the remainder of a chunk by `single`, one target at
+// a time) and hands the accumulators to store(t, acc).
 // Threads take chunks of kChunkDirections targets; each target's sum runs over
 // the stream in blocks of kBlockSources in a fixed order, so the result does not
 // depend on the thread count.
-template <auto kernel, class Stream, class Load, class Store>
+template <auto kernel, auto single, class Stream, class Load, class Store>
 void TiledSums(const Stream& stream, std::size_t stream_size, std::size_t targets, int tile,
                int per, int threads, Load load, Store store) {
   const auto num_chunks =
@@ -154,30 +233,79 @@ void TiledSums(const Stream& stream, std::size_t stream_size, std::size_t target
   // No more threads than chunks: a probe of a few directions runs on one.
   threads = static_cast<int>(
       std::clamp<std::ptrdiff_t>(threads, 1, std::max<std::ptrdiff_t>(1, num_chunks)));
-#pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
-  for (std::ptrdiff_t c = 0; c < num_chunks; ++c) {
+  const auto chunk = [&](std::ptrdiff_t c) {
     const std::size_t d0 = static_cast<std::size_t>(c) * kChunkDirections;
     const std::size_t nd = std::min(kChunkDirections, targets - d0);
-    const std::size_t ntiles =
-        (nd + static_cast<std::size_t>(tile) - 1) / static_cast<std::size_t>(tile);
-    // Coordinates of the chunk, padded to whole tiles by repeating the last one.
-    std::array<double, 3 * (kChunkDirections + kTileCollinear)> q{};
-    std::array<double, 6 * (kChunkDirections + kTileCollinear)> acc{};
-    for (std::size_t t = 0; t < ntiles * static_cast<std::size_t>(tile); ++t) {
-      load(d0 + std::min(t, nd - 1), &q[3 * t]);
-    }
+    // Whole tiles, then the rest one by one.
+    const std::size_t tiled = nd - nd % static_cast<std::size_t>(tile);
+    std::array<double, 3 * kChunkDirections> q;
+    std::array<double, 6 * kChunkDirections> acc;
+    std::fill_n(acc.begin(), static_cast<std::size_t>(per) * nd, 0.0);
+    for (std::size_t t = 0; t < nd; ++t) load(d0 + t, &q[3 * t]);
     for (std::size_t b = 0; b < stream_size; b += kBlockSources) {
       const std::size_t e = std::min(stream_size, b + kBlockSources);
-      for (std::size_t t = 0; t < ntiles; ++t) {
-        const std::size_t o = t * static_cast<std::size_t>(tile);
+      for (std::size_t o = 0; o < tiled; o += static_cast<std::size_t>(tile)) {
         kernel(stream, b, e, &q[3 * o], &acc[static_cast<std::size_t>(per) * o]);
+      }
+      for (std::size_t o = tiled; o < nd; ++o) {
+        single(stream, b, e, &q[3 * o], &acc[static_cast<std::size_t>(per) * o]);
       }
     }
     for (std::size_t t = 0; t < nd; ++t) store(d0 + t, &acc[static_cast<std::size_t>(per) * t]);
+  };
+  // One thread: no parallel region to start (a probe's call is a few microseconds).
+  if (threads == 1) {
+    for (std::ptrdiff_t c = 0; c < num_chunks; ++c) chunk(c);
+    return;
   }
+#pragma omp parallel for num_threads(threads) schedule(dynamic, 1)
+  for (std::ptrdiff_t c = 0; c < num_chunks; ++c) chunk(c);
 }
 
 }  // namespace
+
+struct FieldPlan::SourceWeights {
+  Eigen::VectorXcd currents;  // the key
+  std::vector<double> wr, wi;
+};
+
+struct FieldPlan::WeightCache {
+  std::mutex mutex;
+  std::shared_ptr<const SourceWeights> last;
+};
+
+std::shared_ptr<FieldPlan::WeightCache> FieldPlan::MakeWeightCache() {
+  return std::make_shared<WeightCache>();
+}
+
+std::shared_ptr<const FieldPlan::SourceWeights> FieldPlan::WeightsFor(
+    const Eigen::VectorXcd& currents_a) const {
+  const auto bytes = static_cast<std::size_t>(currents_a.size()) * sizeof(Complex);
+  std::shared_ptr<const SourceWeights> last;
+  {
+    const std::lock_guard<std::mutex> lock(weights_->mutex);
+    last = weights_->last;
+  }
+  // The same bits, the same weights.
+  if (last && last->currents.size() == currents_a.size() &&
+      (bytes == 0 || std::memcmp(last->currents.data(), currents_a.data(), bytes) == 0)) {
+    return last;
+  }
+  auto w = std::make_shared<SourceWeights>();
+  w->currents = currents_a;
+  const std::size_t ns = num_sources();
+  w->wr.resize(ns);
+  w->wi.resize(ns);
+  for (std::size_t s = 0; s < ns; ++s) {
+    const Complex c = currents_a[source_dipole_[s]];
+    const double m = collinear_ ? signed_moment_m_[s] : 1.0;
+    w->wr[s] = c.real() * m;
+    w->wi[s] = c.imag() * m;
+  }
+  const std::lock_guard<std::mutex> lock(weights_->mutex);
+  weights_->last = w;
+  return w;
+}
 
 void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first,
                               std::size_t count, FarField& out) const {
@@ -187,15 +315,9 @@ void FieldPlan::ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t fi
 void FieldPlan::SumDirect(const Eigen::VectorXcd& currents_a, const DirectionData& dirs,
                           std::size_t first, std::size_t count, FarField& out) const {
   const std::size_t ns = num_sources();
-  std::vector<double> wr(ns), wi(ns);
-  for (std::size_t s = 0; s < ns; ++s) {
-    const Complex c = currents_a[source_dipole_[s]];
-    const double m = collinear_ ? signed_moment_m_[s] : 1.0;
-    wr[s] = c.real() * m;
-    wi[s] = c.imag() * m;
-  }
-  const SourceArrays src{soa_[0].data(), soa_[1].data(), soa_[2].data(), wr.data(),
-                         wi.data(),      soa_[3].data(), soa_[4].data(), soa_[5].data()};
+  const std::shared_ptr<const SourceWeights> w = WeightsFor(currents_a);
+  const SourceArrays src{soa_[0].data(), soa_[1].data(), soa_[2].data(), w->wr.data(),
+                         w->wi.data(),   soa_[3].data(), soa_[4].data(), soa_[5].data()};
 
   // Directions the ground does not force to zero; the others are set here.
   std::vector<std::size_t> live;
@@ -233,9 +355,11 @@ void FieldPlan::SumDirect(const Eigen::VectorXcd& currents_a, const DirectionDat
   };
   const int threads = ResolveThreads(num_threads_);
   if (collinear_) {
-    TiledSums<SumCollinearTile>(src, ns, live.size(), kTileCollinear, 2, threads, load, store);
+    TiledSums<SumCollinearTile, SumCollinearOne>(src, ns, live.size(), kTileCollinear, 2, threads,
+                                                 load, store);
   } else {
-    TiledSums<SumGeneralTile>(src, ns, live.size(), kTileGeneral, 6, threads, load, store);
+    TiledSums<SumGeneralTile, SumGeneralOne>(src, ns, live.size(), kTileGeneral, 6, threads, load,
+                                             store);
   }
 }
 
@@ -275,14 +399,15 @@ Eigen::VectorXcd FieldPlan::AdjointDirect(const Eigen::Matrix3Xcd& v) const {
   if (collinear_) {
     const SourceArrays stream{soa[0].data(), soa[1].data(), soa[2].data(), soa[3].data(),
                               soa[4].data(), nullptr,       nullptr,       nullptr};
-    TiledSums<SumCollinearTile>(stream, nl, ns, kTileCollinear, 2, threads, load, store);
+    TiledSums<SumCollinearTile, SumCollinearOne>(stream, nl, ns, kTileCollinear, 2, threads, load,
+                                                 store);
   } else {
     const VectorStream stream{soa[0].data(),
                               soa[1].data(),
                               soa[2].data(),
                               {soa[3].data(), soa[5].data(), soa[7].data()},
                               {soa[4].data(), soa[6].data(), soa[8].data()}};
-    TiledSums<SumVectorTile>(stream, nl, ns, kTileGeneral, 6, threads, load, store);
+    TiledSums<SumVectorTile, SumVectorOne>(stream, nl, ns, kTileGeneral, 6, threads, load, store);
   }
   // Images fold onto their dipoles, in source order.
   Eigen::VectorXcd y = Eigen::VectorXcd::Zero(static_cast<Eigen::Index>(num_dipoles_));

@@ -171,6 +171,15 @@ class FieldPlan {
   };
   DirectionData MakeDirectionData(const Directions& directions) const;
 
+  // The direct sums' source weights for one current vector (real and imaginary
+  // parts of I times the signed moment, or of I), kept for the next call with the
+  // same currents (a probe of a few directions at a time would rebuild them, O(N),
+  // as often as it sums; direct_sum.cpp).
+  struct SourceWeights;
+  struct WeightCache;
+  static std::shared_ptr<WeightCache> MakeWeightCache();
+  std::shared_ptr<const SourceWeights> WeightsFor(const Eigen::VectorXcd& currents_a) const;
+
   // The exact sums (direct_sum.cpp).
   void ExecuteDirect(const Eigen::VectorXcd& currents_a, std::size_t first, std::size_t count,
                      FarField& out) const;
@@ -216,7 +225,8 @@ class FieldPlan {
   // k max|x - site| is added to the fast path's error bound.
   std::shared_ptr<const AxisLattice> lattice_;
   double lattice_phase_error_ = 0;
-  std::shared_ptr<FastCache> fast_;  // shared by copies; keyed on currents
+  std::shared_ptr<FastCache> fast_;       // shared by copies; keyed on currents
+  std::shared_ptr<WeightCache> weights_;  // shared by copies; keyed on currents
   double wavenumber_rad_m_ = 0;
   int num_threads_ = 0;
   DirectionData dirs_;  // the plan's directions

@@ -119,6 +119,7 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
     if (fast_transform_ != FastTransform::kLattice) lattice_.reset(), lattice_phase_error_ = 0;
   }
   if (method_used_ == FieldMethod::kFast) fast_ = std::make_shared<FastCache>();
+  weights_ = MakeWeightCache();
 }
 
 FieldPlan::DirectionData FieldPlan::MakeDirectionData(const Directions& directions) const {
@@ -132,9 +133,7 @@ FieldPlan::DirectionData FieldPlan::MakeDirectionData(const Directions& directio
   // The unit vectors of grid.h's Directions, from one sin/cos pair per angle
   // (the same values as Directions::r_hat etc.: std::sin and std::cos of the
   // same arguments), in parallel: on dense grids this loop is the plan's cost.
-  const int threads = nd < 4096 ? 1 : ResolveThreads(num_threads_);
-#pragma omp parallel for num_threads(threads) schedule(static)
-  for (Eigen::Index i = 0; i < nd; ++i) {
+  const auto at = [&](Eigen::Index i) {
     const auto u = static_cast<std::size_t>(i);
     const double t = directions.theta_rad(u), p = directions.phi_rad(u);
     const double st = std::sin(t), ct = std::cos(t), sp = std::sin(p), cp = std::cos(p);
@@ -142,7 +141,15 @@ FieldPlan::DirectionData FieldPlan::MakeDirectionData(const Directions& directio
     d.theta_hat.col(i) << ct * cp, ct * sp, -st;
     d.phi_hat.col(i) << -sp, cp, 0.0;
     d.zeroed[u] = BelowGround(ground_, t) ? 1 : 0;
+  };
+  // A few directions (a probe's): no parallel region to start.
+  if (nd < 4096) {
+    for (Eigen::Index i = 0; i < nd; ++i) at(i);
+    return d;
   }
+  const int threads = ResolveThreads(num_threads_);
+#pragma omp parallel for num_threads(threads) schedule(static)
+  for (Eigen::Index i = 0; i < nd; ++i) at(i);
   return d;
 }
 

@@ -56,8 +56,11 @@ struct ResultMetadata {
 class PatternFileWriter;
 
 struct ResultWriteOptions {
-  // gzip level 0..9 for the (Nt, Np) datasets; -1 stores them uncompressed.
-  int deflate_level = 4;
+  // gzip level 0..9 for the (Nt, Np) datasets; -1 stores them uncompressed. Level 1:
+  // on a random 1024-dipole array's pattern (shuffled doubles, mostly noise in the
+  // low bytes) level 4 made the grid's datasets 1.3 % smaller for 20 % more CPU
+  // (tests/bench/RESULTS.md, "The whole job's parts").
+  int deflate_level = 1;
   // Theta rows per chunk of the (Nt, Np) datasets. 0 picks about 64 KiB of doubles
   // per chunk (at least one row): big enough to compress well, small enough that
   // reading one cut does not decompress the whole pattern.
