@@ -138,9 +138,15 @@ std::uint64_t Datatype(Cursor& c, int depth = 0) {
       c.Skip(members * base);
       return size;
     }
-    case 9:  // variable-length: the base type; (length u32, heap address, index u32)
-      Datatype(c, depth + 1);
+    case 9: {  // variable-length: the base type; (length u32, heap address, index u32)
+      // HDF5 allocates length x the base type's size to read a value: a damaged base
+      // size (1 -> 0xC1000001, found by the fuzzer) asked for 16 GB. lobecast writes
+      // variable-length strings only (base size 1); no base type of a sequence HDF5
+      // reads here is wider than 16 bytes.
+      const std::uint64_t base = Datatype(c, depth + 1);
+      if (base == 0 || base > 16) c.bad = true;
       return 16;
+    }
     case 10: {  // array: rank, dimensions (u32), permutation before version 3, base
       const std::uint64_t rank = c.Take(1);
       if (rank == 0 || rank > 32) c.bad = true;
