@@ -29,6 +29,7 @@
 #include <algorithm>
 #include <cstdint>
 #include <fstream>
+#include <optional>
 #include <set>
 #include <string>
 #include <vector>
@@ -240,9 +241,19 @@ class HeaderWalker {
     Chunks(at, at + p, chunk, true);
   }
 
+  // What a dataset's header says of its data, from messages in any order: HDF5
+  // copies elements x element size bytes out of a compact layout's buffer without
+  // comparing them with the buffer's size (a fuzzed file read past it).
+  struct DataFacts {
+    std::optional<std::uint64_t> elements;      // the dataspace message
+    std::optional<std::uint64_t> element_size;  // the datatype message
+    std::optional<std::uint64_t> compact_size;  // a compact layout message
+  };
+
   // Walks the chunk [start, start + size) and every continuation it names.
   void Chunks(std::uint64_t header, std::uint64_t start, std::uint64_t size, bool v2) {
     std::vector<std::pair<std::uint64_t, std::uint64_t>> chunks{{start, size}};
+    DataFacts facts;
     for (std::size_t k = 0; k < chunks.size(); ++k) {
       if (chunks.size() > 4096) Bad(header, "has more than 4096 continuation chunks");
       auto [begin, length] = chunks[k];
@@ -270,15 +281,23 @@ class HeaderWalker {
           Bad(header, "has a message of " + std::to_string(data_size) + " bytes at byte " +
                           std::to_string(begin + p) + ", past the end of its chunk");
         }
-        Message(header, begin + p, type, flags, bytes.data() + p, data_size, chunks);
+        Message(header, begin + p, type, flags, bytes.data() + p, data_size, chunks, facts);
         p += data_size;
+      }
+    }
+    if (facts.compact_size && facts.elements && facts.element_size) {
+      const std::uint64_t n = *facts.elements, e = *facts.element_size;
+      if ((e != 0 && n > *facts.compact_size / e) || n * e != *facts.compact_size) {
+        Bad(header, "has a compact dataset of " + std::to_string(*facts.compact_size) +
+                        " bytes for " + std::to_string(n) + " elements of " + std::to_string(e) +
+                        " bytes");
       }
     }
   }
 
   void Message(std::uint64_t header, std::uint64_t at, std::uint64_t type, unsigned flags,
                const unsigned char* data, std::uint64_t size,
-               std::vector<std::pair<std::uint64_t, std::uint64_t>>& chunks) {
+               std::vector<std::pair<std::uint64_t, std::uint64_t>>& chunks, DataFacts& facts) {
     const bool shared = (flags & 0x02) != 0;  // the message is elsewhere: a reference
     auto bad = [&](const std::string& what) {
       Bad(header, "has a damaged " + what + " message at byte " + std::to_string(at));
@@ -288,12 +307,18 @@ class HeaderWalker {
       chunks.emplace_back(base_ + LittleEndianAt(data, 8), LittleEndianAt(data + 8, 8));
     } else if (type == 0x0001 && !shared) {
       Cursor c{data, size};
-      Dataspace(c);
+      facts.elements = Dataspace(c);
       if (c.bad) bad("dataspace");
     } else if (type == 0x0003 && !shared) {
       Cursor c{data, size};
-      Datatype(c);
+      facts.element_size = Datatype(c);
       if (c.bad) bad("datatype");
+    } else if (type == 0x0008 && !shared) {  // data layout (spec IV.A.2.i)
+      // Version 3, class 0 (compact): the size (u16) and that many bytes of data.
+      if (size >= 2 && data[0] == 3 && data[1] == 0) {
+        if (size < 4 || LittleEndianAt(data + 2, 2) > size - 4) bad("data layout");
+        facts.compact_size = LittleEndianAt(data + 2, 2);
+      }
     } else if (type == 0x000C) {
       if (shared) bad("attribute (shared, which lobecast never writes)");
       if (!Attribute(data, size)) bad("attribute");
