@@ -64,6 +64,7 @@ std::vector<T> ReadAll(hid_t loc, const std::string& name, hid_t mem_type, Store
   ExpectType(loc, type, kind, Describe("dataset", name));
   Handle space(Check(H5Dget_space(ds), loc, Describe("reading the shape of dataset", name)));
   const std::size_t n = BoundedCount(loc, space, sizeof(T), Describe("dataset", name));
+  ExpectChunksWithin(loc, ds, space, Describe("dataset", name));
   std::vector<T> values(n);
   if (n > 0) {
     Check(H5Dread(ds, mem_type, H5S_ALL, H5S_ALL, H5P_DEFAULT, values.data()), loc,

@@ -316,4 +316,20 @@ std::size_t BoundedCount(hid_t loc, hid_t space, std::size_t bytes_each, const s
   return static_cast<std::size_t>(n);
 }
 
+void ExpectChunksWithin(hid_t loc, hid_t dataset, hid_t space, const std::string& what) {
+  const hid_t plist = H5Dget_create_plist(dataset);
+  if (plist < 0) Fail(FileNameOf(loc), "reading the layout of " + what);
+  bool within = true;
+  if (H5Pget_layout(plist) == H5D_CHUNKED) {
+    hsize_t chunk[H5S_MAX_RANK] = {}, dims[H5S_MAX_RANK] = {};
+    const int rank = H5Sget_simple_extent_ndims(space);
+    const int chunk_rank = H5Pget_chunk(plist, H5S_MAX_RANK, chunk);
+    within =
+        rank >= 0 && rank == chunk_rank && H5Sget_simple_extent_dims(space, dims, nullptr) == rank;
+    for (int k = 0; within && k < rank; ++k) within = chunk[k] <= std::max<hsize_t>(dims[k], 1);
+  }
+  H5Pclose(plist);
+  if (!within) Invalid(FileNameOf(loc), what + " has chunks larger than the dataset");
+}
+
 }  // namespace lobecast::hdf5
