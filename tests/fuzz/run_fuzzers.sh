@@ -49,8 +49,11 @@ for target in "${targets[@]}"; do
   mkdir -p "$corpus"
   log="$build/fuzz-findings/$target.log"
   echo "== $target: ${seconds} s"
-  # -timeout: one input taking 10 s is a finding (a hang); -rss_limit_mb: 2 GB.
-  if ! "$exe" -max_total_time="$seconds" -timeout=10 -rss_limit_mb=2048 -max_len=65536 \
+  # -timeout: one input taking 60 s is a finding (a hang). A valid design can take
+  # seconds: a side-lobe envelope over 50 dipoles solves a linear program of 10^4
+  # rows (4 s in a release build, several times that under the sanitizers; a 10 s
+  # limit reported it as a hang). -rss_limit_mb: 2 GB.
+  if ! "$exe" -max_total_time="$seconds" -timeout=60 -rss_limit_mb=2048 -max_len=65536 \
       -print_final_stats=1 -artifact_prefix="$build/fuzz-findings/$target-" \
       "$corpus" "$seed_dir" > "$log" 2>&1; then
     echo "run_fuzzers: $target found a problem (see $log and $build/fuzz-findings/)" >&2
