@@ -191,6 +191,27 @@ d[format_ref + 12:format_ref + 16] = struct.pack("<I", 60000)
 expect_refused(damaged("string-missing-object", d), "a string naming a missing object",
                "does not hold")
 
+# What the search for references once let through (issue 12): an index past 16
+# bits (0x02000009 from the result fuzzer: HDF5 1.10.8 read outside the collection,
+# a segmentation fault), an index and a length both damaged, and an address that
+# names no collection. Each reference is now read where its attribute or dataset
+# keeps it.
+d = bytearray(original)
+d[format_ref + 12:format_ref + 16] = struct.pack("<I", 0x02000009)
+expect_refused(damaged("string-index-past-16-bits", d), "a string index past 16 bits",
+               "does not hold")
+
+d = bytearray(original)
+d[format_ref:format_ref + 4] = struct.pack("<I", 12345)
+d[format_ref + 12:format_ref + 16] = struct.pack("<I", 777)
+expect_refused(damaged("string-index-and-length", d), "a string's index and length damaged",
+               "does not hold")
+
+d = bytearray(original)
+d[format_ref + 4:format_ref + 12] = struct.pack("<Q", heap + 8)
+expect_refused(damaged("string-address-no-heap", d), "a string naming no collection",
+               "where the file has none")
+
 d = bytearray(original)
 for m in re.finditer(re.escape(b"r" + bytes(11)), original):
     d[m.start() + 11] = 0xFF  # the member's byte offset, most significant byte

@@ -269,7 +269,7 @@ Handle OpenFileReadOnly(const std::string& path) {
     H5Eclear2(H5E_DEFAULT);
     throw NotAResultError(path, "not an HDF5 file, so not a lobecast result file");
   }
-  if (is_hdf5 > 0) CheckGlobalHeaps(path);
+  const GlobalHeaps heaps = is_hdf5 > 0 ? CheckGlobalHeaps(path) : GlobalHeaps{};
   Handle fapl(H5Pcreate(H5P_FILE_ACCESS));
   if (!fapl.valid() || H5Pset_fclose_degree(fapl, H5F_CLOSE_STRONG) < 0) {
     Fail(path, "cannot set up file access properties");
@@ -281,7 +281,7 @@ Handle OpenFileReadOnly(const std::string& path) {
                                     (cause.empty() ? std::string("damaged") : cause) +
                                     "; an interrupted copy or a file still being written?)");
   }
-  CheckObjectHeaders(file, path);
+  CheckObjectHeaders(file, path, heaps);
   return file;
 }
 

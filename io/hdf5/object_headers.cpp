@@ -19,10 +19,15 @@
 //     variable-length type, an opaque tag), inside the message;
 //   - an attribute message (0x000C): the name (NUL-terminated), the datatype and the
 //     dataspace each inside their stated sizes, those inside the message, and the
-//     value (elements x element size, as HDF5 computes it) inside what is left.
+//     value (elements x element size, as HDF5 computes it) inside what is left;
+//   - every variable-length value (lobecast's strings), of an attribute or of a
+//     dataset (compact or contiguous), refers to a global-heap object that exists
+//     and holds it (ExpectHeapObject, untrusted_file.cpp).
 // Refused outright, because they cannot be checked from the header alone and
-// lobecast never writes them: attributes with a shared datatype or dataspace, and
-// attributes in dense storage (an attribute-info message naming a fractal heap).
+// lobecast never writes them: attributes with a shared datatype or dataspace,
+// attributes in dense storage (an attribute-info message naming a fractal heap),
+// variable-length types inside other types, and variable-length datasets stored
+// in chunks.
 // What this does not check: the messages HDF5 decodes with bounds of its own or
 // which lobecast's reads never reach (links, layouts, fill values, filters, B-trees
 // and heaps other than the global heap, which CheckGlobalHeaps walks).
@@ -54,6 +59,8 @@ struct Cursor {
   std::uint64_t size;
   std::uint64_t at = 0;
   bool bad = false;
+  int variable_length = 0;         // variable-length types met by Datatype, nested ones too
+  std::uint64_t vlen_element = 0;  // the base type's size of the last one
 
   bool Has(std::uint64_t n) {
     if (bad || n > size - at) bad = true;
@@ -146,6 +153,8 @@ std::uint64_t Datatype(Cursor& c, int depth = 0) {
       // reads here is wider than 16 bytes.
       const std::uint64_t base = Datatype(c, depth + 1);
       if (base == 0 || base > 16) c.bad = true;
+      ++c.variable_length;
+      c.vlen_element = base;
       return 16;
     }
     case 10: {  // array: rank, dimensions (u32), permutation before version 3, base
@@ -193,8 +202,8 @@ std::uint64_t Dataspace(Cursor& c) {
 
 class HeaderWalker {
  public:
-  HeaderWalker(const std::string& path, std::uint64_t base)
-      : path_(path), base_(base), in_(path, std::ios::binary) {
+  HeaderWalker(const std::string& path, std::uint64_t base, const GlobalHeaps& heaps)
+      : path_(path), base_(base), heaps_(heaps), in_(path, std::ios::binary) {
     in_.seekg(0, std::ios::end);
     file_size_ = in_ ? static_cast<std::uint64_t>(in_.tellg()) : 0;
   }
@@ -249,6 +258,11 @@ class HeaderWalker {
     std::optional<std::uint64_t> elements;      // the dataspace message
     std::optional<std::uint64_t> element_size;  // the datatype message
     std::optional<std::uint64_t> compact_size;  // a compact layout message
+    std::uint64_t compact_at = 0;               //   and the file position of its data
+    bool variable_length = false;               // the datatype is variable-length
+    std::uint64_t vlen_element = 0;             //   of elements of this size
+    std::optional<std::uint64_t> contiguous_address, contiguous_size;  // a contiguous layout
+    bool other_layout = false;  // a layout message of another kind
   };
 
   // Walks the chunk [start, start + size) and every continuation it names.
@@ -286,6 +300,7 @@ class HeaderWalker {
         p += data_size;
       }
     }
+    if (facts.variable_length) DatasetReferences(header, facts);
     if (facts.compact_size && facts.elements && facts.element_size) {
       const std::uint64_t n = *facts.elements, e = *facts.element_size;
       if ((e != 0 && n > *facts.compact_size / e) || n * e != *facts.compact_size) {
@@ -314,15 +329,27 @@ class HeaderWalker {
       Cursor c{data, size};
       facts.element_size = Datatype(c);
       if (c.bad) bad("datatype");
+      if (!TopLevelVariableLength(c, data)) bad("datatype (variable-length inside another type)");
+      facts.variable_length = c.variable_length == 1;
+      facts.vlen_element = c.vlen_element;
     } else if (type == 0x0008 && !shared) {  // data layout (spec IV.A.2.i)
-      // Version 3, class 0 (compact): the size (u16) and that many bytes of data.
-      if (size >= 2 && data[0] == 3 && data[1] == 0) {
+      // Versions 3 and 4, class 0 (compact): the size (u16) and that many bytes of
+      // data; class 1 (contiguous): the address and the size (8 bytes each).
+      const bool v3 = size >= 2 && (data[0] == 3 || data[0] == 4);
+      if (v3 && data[1] == 0) {
         if (size < 4 || LittleEndianAt(data + 2, 2) > size - 4) bad("data layout");
         facts.compact_size = LittleEndianAt(data + 2, 2);
+        facts.compact_at = at + 4;
+      } else if (v3 && data[1] == 1) {
+        if (size < 18) bad("data layout");
+        facts.contiguous_address = LittleEndianAt(data + 2, 8);
+        facts.contiguous_size = LittleEndianAt(data + 10, 8);
+      } else {
+        facts.other_layout = true;
       }
     } else if (type == 0x000C) {
       if (shared) bad("attribute (shared, which lobecast never writes)");
-      if (!Attribute(data, size)) bad("attribute");
+      if (!Attribute(at, data, size)) bad("attribute");
     } else if (type == 0x0015 && size >= 2 + 8) {  // attribute info: dense storage?
       const unsigned info_flags = data[1];
       const std::uint64_t heap = LittleEndianAt(data + 2 + ((info_flags & 1) ? 2 : 0), 8);
@@ -334,7 +361,7 @@ class HeaderWalker {
   // Spec IV.A.2.m: version 1 pads name, datatype and dataspace to 8 bytes; version
   // 3 adds the name's character set. HDF5 copies elements x element size bytes of
   // value from after the dataspace.
-  bool Attribute(const unsigned char* data, std::uint64_t size) {
+  bool Attribute(std::uint64_t at, const unsigned char* data, std::uint64_t size) {
     Cursor c{data, size};
     const std::uint64_t version = c.Take(1);
     const std::uint64_t flags = c.Take(1);
@@ -352,7 +379,7 @@ class HeaderWalker {
     if (!c.Has(padded(type_size))) return false;
     Cursor type{data + c.at, type_size};
     const std::uint64_t element = Datatype(type);
-    if (type.bad) return false;
+    if (type.bad || !TopLevelVariableLength(type, data + c.at)) return false;
     c.at += padded(type_size);
     if (!c.Has(padded(space_size))) return false;
     Cursor space{data + c.at, space_size};
@@ -360,11 +387,59 @@ class HeaderWalker {
     if (space.bad) return false;
     c.at += padded(space_size);
     const std::uint64_t left = size - c.at;
-    return element == 0 || count <= left / element;
+    if (element != 0 && count > left / element) return false;
+    if (type.variable_length == 1) {  // count references of 16 bytes, checked in place
+      for (std::uint64_t k = 0; k < count; ++k)
+        Reference(at + c.at + 16 * k, data + c.at + 16 * k, type.vlen_element);
+    }
+    return true;
+  }
+
+  // False when a datatype holds a variable-length type other than at its top (a
+  // compound or array of them, a sequence of sequences): lobecast writes
+  // variable-length strings only, and their references could not be found here.
+  static bool TopLevelVariableLength(const Cursor& type, const unsigned char* encoded) {
+    return type.variable_length == 0 || (type.variable_length == 1 && (encoded[0] & 0x0f) == 9);
+  }
+
+  // One reference (length u32, collection address u64, index u32) at file byte `at`.
+  // Its address is relative to the base address; 0 is a null value.
+  void Reference(std::uint64_t at, const unsigned char* bytes, std::uint64_t element) {
+    const std::uint64_t address = LittleEndianAt(bytes + 4, 8);
+    ExpectHeapObject(path_, heaps_, at, LittleEndianAt(bytes, 4), element,
+                     address == 0 ? 0 : base_ + address, LittleEndianAt(bytes + 12, 4));
+  }
+
+  // The references of a variable-length dataset, read where its layout keeps them:
+  // inside the header (compact) or at one address (contiguous, unless not yet
+  // allocated); lobecast writes no other layout of them.
+  void DatasetReferences(std::uint64_t header, const DataFacts& facts) {
+    const std::uint64_t n = facts.elements.value_or(0);
+    std::uint64_t at = 0;
+    if (facts.compact_size) {
+      at = facts.compact_at;
+      if (n > *facts.compact_size / 16)
+        Bad(header, "has a compact dataset too small for its strings");
+    } else if (facts.contiguous_address && !facts.other_layout) {
+      if (*facts.contiguous_address == UINT64_MAX) return;  // not allocated: no values
+      at = base_ + *facts.contiguous_address;
+      if (n > facts.contiguous_size.value_or(0) / 16)
+        Bad(header, "has a dataset of strings larger than its storage");
+    } else {
+      Bad(header, "has variable-length data in a layout lobecast never writes");
+    }
+    if (n == 0) return;
+    if (at > file_size_ || n > (file_size_ - at) / 16)
+      Bad(header, "has a dataset of strings past the end of the file");
+    std::vector<unsigned char> bytes(16 * n);
+    if (!Read(at, bytes.data(), bytes.size())) Bad(header, "has strings that cannot be read");
+    for (std::uint64_t k = 0; k < n; ++k)
+      Reference(at + 16 * k, bytes.data() + 16 * k, facts.vlen_element);
   }
 
   const std::string& path_;
   std::uint64_t base_;
+  const GlobalHeaps& heaps_;
   std::ifstream in_;
   std::uint64_t file_size_ = 0;
   std::set<std::uint64_t> seen_;
@@ -388,13 +463,13 @@ std::uint64_t BaseAddress(const std::string& path) {
 
 }  // namespace
 
-void CheckObjectHeaders(hid_t file, const std::string& path) {
+void CheckObjectHeaders(hid_t file, const std::string& path, const GlobalHeaps& heaps) {
   std::vector<std::uint64_t> addresses;
   // H5O_INFO_BASIC: address and type only; HDF5 decodes no attribute for them.
   if (H5Ovisit2(file, H5_INDEX_NAME, H5_ITER_NATIVE, VisitObject, &addresses, H5O_INFO_BASIC) < 0) {
     Invalid(path, "HDF5 cannot walk its groups (a damaged group or link)");
   }
-  HeaderWalker walker(path, BaseAddress(path));
+  HeaderWalker walker(path, BaseAddress(path), heaps);
   for (const std::uint64_t address : addresses) walker.Header(address);
 }
 

@@ -75,67 +75,69 @@ static bool ReadAt(std::ifstream& in, std::uint64_t offset, unsigned char* out, 
   return static_cast<std::size_t>(in.gcount()) == n;
 }
 
-static void WalkGlobalHeaps(const std::string& path);
+static GlobalHeaps WalkGlobalHeaps(const std::string& path);
 
 // The global heap holds every variable-length string. HDF5 1.10 (H5HGcache.c)
 // walks a collection ("GCOL", version 1, reserved, collection size, then objects
 // of index u16, references u16, reserved u32, size u64, data padded to 8 bytes;
 // index 0 is the free space, whose size counts its header) by the stored sizes: a
 // free-space object of size 0 never advances (the read spins forever) and an
-// object past the collection's end is copied from beyond it. A string refers to
-// its object by (length u32, collection address u64, index u32), and a length
-// beyond the object sends the read running. So before HDF5 reads a string,
-// every collection is walked the same way here, and every reference to one must
-// name an object that exists and holds its length. Addresses and lengths are
-// 8 bytes in every file lobecast writes (the superblock says so; checked).
-//
-// The collections are walked exactly. The references are found by a heuristic:
-// the file is not parsed down to every variable-length value, but searched for
-// each collection's 8-byte address, and the 4 bytes before and after each match
-// are taken for a reference's length and index. So, precisely:
-//  - caught: a reference whose address is intact and whose length is larger than
-//    the object its index names (the run-away read); a reference whose address and
-//    length are intact and whose index names no object of the collection (the
-//    segfault), when the length equals the size of some object of that collection
-//    (an undamaged length always does);
-//  - not caught, and harmless to HDF5: a damaged address (HDF5 finds no "GCOL"
-//    signature there and fails cleanly); an index damaged to another object that
-//    holds at least the length (a wrong string, read within bounds);
-//  - not caught, possibly harmful: a reference whose index and length are both
-//    damaged so that the length matches no object of the collection (the index
-//    check is skipped); and matches of an index past 16 bits, 0, or a length of 0,
-//    which are never taken for references;
-//  - false alarms: the address's 8 bytes inside other data (a chunk of doubles),
-//    followed by bytes that read as an index <= 0xFFFF with a length too large, or
-//    naming a missing object with a length some object has, refuse a valid file.
-//    Matches inside a collection's own bytes are skipped (its object headers once
-//    spelled an address in a 4000-dipole coupled result); no other false alarm has
-//    been seen in lobecast's results (the tests compute every sample).
-// An exact check would read each variable-length value where its attribute
-// (object_headers.cpp walks them) or dataset storage holds it.
-void CheckGlobalHeaps(const std::string& path) {
+// object past the collection's end is copied from beyond it. So before HDF5 reads
+// anything, every collection is walked the same way here. A value refers to its
+// object by (length u32, collection address u64, index u32); HDF5 1.10.8 trusts
+// the index (an index past the collection's objects, 0x02000009 in a fuzzed file,
+// read outside them: a segmentation fault) and the length (one beyond the object
+// sends the read running). So every reference is checked too, exactly: the object
+// headers' walk (object_headers.cpp) reads each variable-length value where its
+// attribute or dataset holds it and calls ExpectHeapObject. Addresses and lengths
+// are 8 bytes in every file lobecast writes (the superblock says so; checked).
+GlobalHeaps CheckGlobalHeaps(const std::string& path) {
   // report, export and plot open one file up to three times: the last file walked
-  // is remembered (path, size, modification time) and not walked again.
+  // is remembered (path, size, modification time) with its collections.
   struct Stamp {
     std::string path;
     std::uintmax_t size = 0;
     std::filesystem::file_time_type time;
     bool operator==(const Stamp&) const = default;
   };
-  static std::optional<Stamp> last;
+  static std::optional<std::pair<Stamp, GlobalHeaps>> last;
   std::error_code size_error, time_error;
   Stamp stamp{path, std::filesystem::file_size(path, size_error), {}};
   stamp.time = std::filesystem::last_write_time(path, time_error);
   const bool stamped = !size_error && !time_error;
-  if (stamped && last && *last == stamp) return;
+  if (stamped && last && last->first == stamp) return last->second;
   last.reset();
-  WalkGlobalHeaps(path);
-  if (stamped) last = stamp;
+  GlobalHeaps heaps = WalkGlobalHeaps(path);
+  if (stamped) last.emplace(stamp, heaps);
+  return heaps;
 }
 
-static void WalkGlobalHeaps(const std::string& path) {
+void ExpectHeapObject(const std::string& path, const GlobalHeaps& heaps, std::uint64_t at,
+                      std::uint64_t length, std::uint64_t element_size, std::uint64_t address,
+                      std::uint64_t index) {
+  if (address == 0 || length == 0) return;  // null or empty: HDF5 reads no object
+  const std::string where = "the variable-length value at byte " + std::to_string(at);
+  const auto heap = heaps.find(address);
+  if (heap == heaps.end()) {
+    Invalid(path, where + " refers to a global heap at byte " + std::to_string(address) +
+                      ", where the file has none");
+  }
+  const auto object = heap->second.find(index);
+  if (index == 0 || object == heap->second.end()) {
+    Invalid(path, where + " refers to global heap object " + std::to_string(index) +
+                      ", which its collection does not hold");
+  }
+  if (length > object->second / std::max<std::uint64_t>(element_size, 1)) {
+    Invalid(path, where + " claims " + std::to_string(length) + " x " +
+                      std::to_string(element_size) + " bytes, its global heap object holds " +
+                      std::to_string(object->second));
+  }
+}
+
+static GlobalHeaps WalkGlobalHeaps(const std::string& path) {
+  GlobalHeaps heaps;
   std::ifstream in(path, std::ios::binary);
-  if (!in) return;  // OpenFileReadOnly reports an unreadable file itself
+  if (!in) return heaps;  // OpenFileReadOnly reports an unreadable file itself
   in.seekg(0, std::ios::end);
   const auto file_size = static_cast<std::uint64_t>(in.tellg());
   unsigned char super[16] = {};
@@ -151,15 +153,11 @@ static void WalkGlobalHeaps(const std::string& path) {
 
   constexpr std::string_view kSignature("GCOL\x01", 5);
   constexpr std::uint64_t kHeader = 16;  // collection header, and object header
-  // Collection address -> (object index -> object size).
-  std::map<std::uint64_t, std::map<std::uint64_t, std::uint64_t>> heaps;
-  std::map<std::uint64_t, std::uint64_t> collection_ends;  // start -> end
   ForEachOccurrence(path, kSignature, [&](std::uint64_t at) {
     unsigned char head[kHeader];
     if (!ReadAt(in, at, head, kHeader)) return;
     const std::uint64_t size = LittleEndian(head + 8, 8);
     if (size > file_size - at) return;  // HDF5 refuses a collection past the file's end
-    collection_ends[at] = at + size;
     auto& objects = heaps[at];
     std::uint64_t p = kHeader;
     while (p < size) {
@@ -184,47 +182,7 @@ static void WalkGlobalHeaps(const std::string& path) {
       p += need;
     }
   });
-  // A collection's own bytes hold no string references, but its object headers
-  // (index u16, references u16, 4 zero bytes) can spell a collection's address
-  // (index 0x0A00 beside a collection at 0x10A00): matches inside one are skipped.
-  auto inside_a_collection = [&](std::uint64_t at) {
-    auto next = collection_ends.upper_bound(at);
-    return next != collection_ends.begin() && at < std::prev(next)->second;
-  };
-  for (const auto& heap : heaps) {
-    // Not a structured binding: clang 14 cannot capture one in the lambda below.
-    const std::uint64_t address = heap.first;
-    const auto& objects = heap.second;
-    char needle[8];
-    for (int k = 0; k < 8; ++k) needle[k] = static_cast<char>((address >> (8 * k)) & 0xff);
-    ForEachOccurrence(path, std::string_view(needle, 8), [&](std::uint64_t at) {
-      unsigned char ref[16];
-      if (at < 4 || inside_a_collection(at - 4) || !ReadAt(in, at - 4, ref, sizeof ref)) return;
-      const std::uint64_t length = LittleEndian(ref, 4);
-      const std::uint64_t index = LittleEndian(ref + 12, 4);
-      // The address's 8 bytes also turn up in other structures (a collection at
-      // 4096 is 00 10 00 00 00 00 00 00), followed by bytes that are no
-      // reference. So index 0 (the free space; HDF5 reads it harmlessly), an empty
-      // string and an index past 16 bits (heap indices are u16) are not taken for
-      // one, and an index the collection lacks counts as damage only beside a
-      // length that one of its objects has (a damaged index keeps its length).
-      if (index == 0 || length == 0 || index > 0xFFFF) return;
-      const auto object = objects.find(index);
-      if (object == objects.end()) {
-        const bool a_length_of_this_heap = std::any_of(
-            objects.begin(), objects.end(), [&](const auto& o) { return o.second == length; });
-        if (!a_length_of_this_heap) return;
-        Invalid(path, "a string at byte " + std::to_string(at - 4) +
-                          " refers to global heap object " + std::to_string(index) +
-                          ", which its collection does not hold");
-      }
-      if (length > object->second) {
-        Invalid(path, "a string at byte " + std::to_string(at - 4) + " claims " +
-                          std::to_string(length) + " bytes, its global heap object holds " +
-                          std::to_string(object->second));
-      }
-    });
-  }
+  return heaps;
 }
 
 static bool IsOneOf(hid_t type, std::initializer_list<hid_t> standard) {

@@ -6,6 +6,7 @@
 
 #include <cstddef>
 #include <cstdint>
+#include <map>
 #include <string>
 
 #include <hdf5.h>
@@ -17,15 +18,29 @@ namespace lobecast::hdf5 {
 // Throws NotAResultError(path, "not a valid lobecast result: " + what).
 [[noreturn]] void Invalid(const std::string& path, const std::string& what);
 
-// Walks every global-heap collection of the file the way HDF5 1.10 does and checks
-// every variable-length string's reference into them (see the .cpp); Invalid when
-// one would make the library spin or read past an object.
-void CheckGlobalHeaps(const std::string& path);
+// The file's global-heap collections: collection address -> (object index ->
+// object size in bytes).
+using GlobalHeaps = std::map<std::uint64_t, std::map<std::uint64_t, std::uint64_t>>;
+
+// Walks every global-heap collection of the file the way HDF5 1.10 does (see the
+// .cpp); Invalid when one would make the library spin or read past an object.
+// Returns the collections, for the check of the references into them.
+GlobalHeaps CheckGlobalHeaps(const std::string& path);
+
+// Invalid unless the variable-length value at byte `at` of the file, (`length`
+// elements of `element_size` bytes, collection `address`, `index`), names an
+// object of `heaps` that holds it. A null value (address 0) or an empty one holds
+// no reference.
+void ExpectHeapObject(const std::string& path, const GlobalHeaps& heaps, std::uint64_t at,
+                      std::uint64_t length, std::uint64_t element_size, std::uint64_t address,
+                      std::uint64_t index);
 
 // Walks the object header of every object `file` links to (object_headers.cpp) and
 // checks that its dataspace, datatype and attribute messages fit where they claim
-// to be; Invalid when one would make HDF5 read past a message.
-void CheckObjectHeaders(hid_t file, const std::string& path);
+// to be, and that every variable-length value of a dataset or attribute refers to
+// an object of `heaps` that holds it; Invalid when one would make HDF5 read past a
+// message or an object.
+void CheckObjectHeaders(hid_t file, const std::string& path, const GlobalHeaps& heaps);
 
 // The largest count or index a result file may store (max_nulls, list lengths,
 // numbers of dipoles and directions): far above any run lobecast can make, far
