@@ -253,7 +253,7 @@ class HeaderWalker {
   // What a dataset's header says of its data, from messages in any order: a compact
   // layout's buffer must hold exactly elements x element size bytes, or HDF5 may read
   // past it (unverified: written while chasing a fuzzed file that turned out to be a
-  // chunked read, tests/fuzz/open/; lobecast writes no compact data).
+  // chunked read, ExpectChunksWithin; lobecast writes no compact data).
   struct DataFacts {
     std::optional<std::uint64_t> elements;      // the dataspace message
     std::optional<std::uint64_t> element_size;  // the datatype message
