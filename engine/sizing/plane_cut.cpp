@@ -1,4 +1,5 @@
 #include "engine/sizing/plane_cut.h"
+#include "engine/decibels.h"
 
 #include <algorithm>
 #include <cmath>
@@ -145,7 +146,7 @@ CutFigures PredictCut(const PanelModel& panel, ScanPlane plane, double t0_deg, d
   if (best <= null_index[0]) hi = std::min(hi, null[0]);
   if (best >= null_index[1]) lo = std::max(lo, null[1]);
   const double ts = ArgMin([&](double t) { return -f(t); }, lo, hi);
-  out.sidelobe_db = 10 * std::log10(std::max(f(ts), at(best)) / peak);
+  out.sidelobe_db = ToDb(std::max(f(ts), at(best)) / peak);
   return out;
 }
 

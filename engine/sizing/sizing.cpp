@@ -1,4 +1,5 @@
 #include "engine/sizing/sizing.h"
+#include "engine/decibels.h"
 
 #include <algorithm>
 #include <chrono>
@@ -59,8 +60,6 @@ namespace {
 
 constexpr double kSidelobeGuardDb = 0.3;  // design below the requirement by this much
 constexpr double kLowestTaperDb = -80;
-
-double Db(double x) { return 10 * std::log10(x); }
 
 // x rounded down to `digits` significant digits, as the double a reader of that
 // decimal text gets (the design file writes it so).
@@ -250,9 +249,9 @@ Sized SizeOnce(const SizingRequirements& req, LatticeKind kind, TaperKind taper_
   c.taper = t;
   c.taper_efficiency = eta;
   const double d_lin = k_ground * nx * ny * dx * dy * eta;
-  c.directivity_dbi = Db(d_lin);
-  c.scan_directivity_xz_dbi = Db(d_lin * std::cos(req.scan_xz_deg * kDegree));
-  c.scan_directivity_yz_dbi = Db(d_lin * std::cos(req.scan_yz_deg * kDegree));
+  c.directivity_dbi = ToDb(d_lin);
+  c.scan_directivity_xz_dbi = ToDb(d_lin * std::cos(req.scan_xz_deg * kDegree));
+  c.scan_directivity_yz_dbi = ToDb(d_lin * std::cos(req.scan_yz_deg * kDegree));
   c.beamwidth_xz_deg =
       PredictCut(panel.model, ScanPlane::kXZ, 0, CutStep(nx, dx)).half_power_width_deg;
   c.beamwidth_yz_deg =

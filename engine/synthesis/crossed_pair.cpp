@@ -1,4 +1,5 @@
 #include "engine/synthesis/crossed_pair.h"
+#include "engine/decibels.h"
 
 #include <cmath>
 #include <limits>
@@ -61,7 +62,7 @@ double CrossedPairPowerPattern(const Vec3& normal, const Vec3& r) {
 double CrossedPairAxialRatioDb(double theta_deg) {
   const double c = std::abs(std::cos(theta_deg * kDegree));
   if (!(c > 1e-15)) return std::numeric_limits<double>::infinity();
-  return -20.0 * std::log10(c);
+  return -AmplitudeToDb(c);
 }
 
 }  // namespace lobecast

@@ -7,7 +7,7 @@
 namespace lobecast {
 namespace {
 
-std::string S(std::string_view v) { return std::string(v); }
+using schema::S;
 
 template <typename T>
 Eigen::Matrix<T, Eigen::Dynamic, 1> Column(const std::vector<T>& v, std::size_t n,

@@ -48,7 +48,7 @@ std::string OptionalString(hid_t obj, const std::string& name) {
   return hdf5::HasAttribute(obj, name) ? hdf5::ReadStringAttribute(obj, name) : std::string();
 }
 
-std::string S(std::string_view s) { return std::string(s); }
+using schema::S;
 
 // --- what a result can hold (CONVENTIONS §3) ------------------------------------
 //

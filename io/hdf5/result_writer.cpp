@@ -37,7 +37,7 @@ std::vector<double> RowMajor(const Eigen::MatrixXd& m) {
   return out;
 }
 
-std::string S(std::string_view s) { return std::string(s); }
+using schema::S;
 
 // A dataset of the schema, written into its group `g`.
 template <typename T>

@@ -4,6 +4,7 @@
 
 #include "io/hdf5/hdf5_file.h"
 #include "io/hdf5/result_writer.h"
+#include "io/hdf5/schema.h"
 #include "io/output_file.h"
 #include "io/version.h"
 
@@ -46,12 +47,15 @@ void WriteScanFile(const std::string& path, const ScanImpedanceTable& t, const S
       hdf5::WriteDataset(g, "reflection", {s, n}, RowMajor(t.reflection).data(), "1");
       hdf5::WriteDataset(g, "accepted_w", {s}, t.accepted_w.data(), "W");
       // The format attributes last: a stray temporary is never taken for a result.
-      hdf5::WriteStringAttribute(file, "software_version", SoftwareVersion());
-      hdf5::WriteStringAttribute(file, "time_convention", "exp(+jwt)");
-      hdf5::WriteStringAttribute(file, "created", Iso8601UtcNow());
-      hdf5::WriteStringAttribute(file, "input", info.input_text);
-      hdf5::WriteStringAttribute(file, "format", kScanFormat);
-      hdf5::WriteIntAttribute(file, "format_version", 1);
+      // The root attributes of the result file's schema, with the scan's format.
+      using schema::S;
+      hdf5::WriteStringAttribute(file, S(schema::kSoftwareVersionAttribute), SoftwareVersion());
+      hdf5::WriteStringAttribute(file, S(schema::kTimeConventionAttribute),
+                                 schema::kTimeConvention);
+      hdf5::WriteStringAttribute(file, S(schema::kCreatedAttribute), Iso8601UtcNow());
+      hdf5::WriteStringAttribute(file, S(schema::kInputAttribute), info.input_text);
+      hdf5::WriteStringAttribute(file, S(schema::kFormatAttribute), kScanFormat);
+      hdf5::WriteIntAttribute(file, S(schema::kFormatVersionAttribute), 1);
       g.Reset();
       // Closing flushes: a full disk shows here, and the file is closed either way.
       if (file.Close() < 0) hdf5::Fail(path, "closing the scan file");

@@ -41,6 +41,9 @@ namespace lobecast::schema {
 inline constexpr std::string_view kFormat = "lobecast.pattern";
 inline constexpr int kFormatVersion = 1;
 
+// A schema name as the std::string the HDF5 layer takes.
+inline std::string S(std::string_view name) { return std::string(name); }
+
 // Root attributes.
 inline constexpr std::string_view kFormatAttribute = "format";
 inline constexpr std::string_view kFormatVersionAttribute = "format_version";
