@@ -11,8 +11,10 @@
 
 #include "engine/constants.h"
 #include "engine/error.h"
+#include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
 #include "engine/synthesis/steering.h"
+#include "engine/synthesis/synthesis_common.h"
 #include "synthesis_util.h"
 #include "test_util.h"
 
@@ -178,6 +180,38 @@ TEST(NullPlacement, PhaseOnlyKeepsMagnitudesAndReachesTheDepth) {
     EXPECT_LE(r.depth_db[k], -120.0);
   }
   EXPECT_GT(r.directivity_lost_db, 0.0);
+}
+
+}  // namespace
+}  // namespace lobecast
+
+namespace lobecast {
+namespace {
+
+// Above kDensePowerLimit the synthesis power (PowerOf) takes auto's route: on a
+// 128 x 128 lattice at half a wavelength the band-limited quadrature. Its R x and P
+// against the closed form streamed (power_large.h, the O(N^2) pair sums), within the
+// quadrature's aimed 1e-10 relative (with margin: 1e-9).
+TEST(PowerOf, LargeLatticeTakesTheQuadratureAndAgreesWithTheClosedForm) {
+  Array a;
+  a.frequency_hz = testing::kTestFrequency_hz;
+  const double l = a.wavelength_m();
+  for (int i = 0; i < 128 * 128; ++i) {
+    Dipole d;
+    d.position_m = Vec3(0.5 * l * (i % 128), 0.5 * l * (i / 128), 0.0);
+    d.orientation = Vec3(1.0, 0.3, 0.2).normalized();
+    d.length_m = 0.02 * l;
+    a.dipoles.push_back(d);
+  }
+  Eigen::VectorXcd x(static_cast<Eigen::Index>(a.size()));
+  for (Eigen::Index m = 0; m < x.size(); ++m)
+    x[m] = std::polar(1.0 + 0.5 * std::sin(0.37 * m), 0.91 * m);
+  const synthesis_detail::PowerOf power(a, 0);
+  EXPECT_EQ(power.route(), PowerRoute::kQuadrature);
+  const Eigen::VectorXcd closed = ResistanceProductStreamed(a, x, 0);
+  EXPECT_LE((power.Product(x) - closed).cwiseAbs().maxCoeff(), 1e-9 * closed.cwiseAbs().maxCoeff());
+  const double p_closed = 0.5 * x.dot(closed).real();
+  EXPECT_NEAR(power(x), p_closed, 1e-9 * p_closed);
 }
 
 }  // namespace

@@ -10,7 +10,6 @@
 #include "engine/error.h"
 #include "engine/ground.h"
 #include "engine/intensity.h"
-#include "engine/power/power_large.h"
 #include "engine/power/radiated_power.h"
 #include "engine/synthesis/synthesis_common.h"
 
@@ -78,12 +77,14 @@ Solved SolveDense(const Array& array, const Eigen::VectorXcd& b, double shift, i
 }
 
 // Conjugate gradients on (R + shift Id) x = b (Hestenes and Stiefel, J. Res. NBS 49,
-// 1952), R x streamed; R is real symmetric positive semidefinite, so with shift > 0 the
-// system is Hermitian positive definite for complex x too.
+// 1952), R x without the matrix (PowerOf: by quadrature where cheaper, else
+// streamed); R is real symmetric positive semidefinite, so with shift > 0 the system
+// is Hermitian positive definite for complex x too.
 Solved SolveIterative(const Array& array, const Eigen::VectorXcd& b, double shift,
                       const MaxDirectivityOptions& o, MaxDirectivityResult& out) {
+  const PowerOf power(array, o.num_threads);
   const auto apply = [&](const Eigen::VectorXcd& v) -> Eigen::VectorXcd {
-    return ResistanceProductStreamed(array, v, o.num_threads) + shift * v;
+    return power.Product(v) + shift * v;
   };
   Eigen::VectorXcd x = Eigen::VectorXcd::Zero(b.size());
   Eigen::VectorXcd r = b, p = b;
@@ -112,7 +113,7 @@ Solved SolveIterative(const Array& array, const Eigen::VectorXcd& b, double shif
   out.cg_residual_relative = std::sqrt(rr / b.squaredNorm());
   Solved s;
   s.x = x;
-  s.power_w = 0.5 * x.dot(ResistanceProductStreamed(array, x, o.num_threads)).real();
+  s.power_w = power(x);
   // |R_mn| <= sqrt(R_mm R_nn) (R positive semidefinite): S <= 1/2 (sum |x_m| sqrt(R_mm))^2.
   const double bound = x.cwiseAbs().dot(SelfResistances(array).cwiseSqrt());
   s.terms_w = 0.5 * bound * bound;

@@ -8,6 +8,7 @@
 #include "engine/decibels.h"
 #include "engine/field/far_field.h"
 #include "engine/power/power_large.h"
+#include "engine/power/power_quadrature.h"
 #include "engine/power/radiated_power.h"
 
 namespace lobecast::synthesis_detail {
@@ -22,12 +23,31 @@ double DepthDb(double field, double reference, double floor) {
 }
 
 PowerOf::PowerOf(const Array& array, int num_threads) : array_(array), num_threads_(num_threads) {
-  if (array.size() <= kDensePowerLimit) r_ = ResistanceMatrix(array, num_threads);
+  quadrature_.num_threads = num_threads;
+  if (array.size() <= kDensePowerLimit) {
+    r_ = ResistanceMatrix(array, num_threads);
+    return;
+  }
+  route_ = ChoosePowerRoute(array, PowerMethod::kAuto, false, false, quadrature_).route;
 }
 
 double PowerOf::operator()(const Eigen::VectorXcd& currents_a) const {
   if (r_) return RadiatedPower(*r_, currents_a);
-  return 0.5 * currents_a.dot(ResistanceProductStreamed(array_, currents_a, num_threads_)).real();
+  if (route_ == PowerRoute::kQuadrature)
+    return RadiatedPowerByQuadrature(array_, currents_a, quadrature_).radiated_power_w;
+  return 0.5 * currents_a.dot(Product(currents_a)).real();
+}
+
+Eigen::VectorXcd PowerOf::Product(const Eigen::VectorXcd& x) const {
+  if (r_) {
+    Eigen::VectorXcd out(x.size());
+    out.real() = *r_ * x.real();
+    out.imag() = *r_ * x.imag();
+    return out;
+  }
+  if (route_ == PowerRoute::kQuadrature)
+    return ResistanceProductByQuadrature(array_, x, quadrature_).values;
+  return ResistanceProductStreamed(array_, x, num_threads_);
 }
 
 double FieldSquared(const Eigen::MatrixXcd& map, Eigen::Index i, const Eigen::VectorXcd& currents) {
