@@ -262,7 +262,8 @@ class HeaderWalker {
     bool variable_length = false;               // the datatype is variable-length
     std::uint64_t vlen_element = 0;             //   of elements of this size
     std::optional<std::uint64_t> contiguous_address, contiguous_size;  // a contiguous layout
-    bool other_layout = false;  // a layout message of another kind
+    std::optional<std::uint64_t> chunk_element_size;  // a chunked layout's last dimension
+    bool other_layout = false;                        // a layout message of another kind
   };
 
   // Walks the chunk [start, start + size) and every continuation it names.
@@ -301,6 +302,15 @@ class HeaderWalker {
       }
     }
     if (facts.variable_length) DatasetReferences(header, facts);
+    // HDF5 1.10.8 sizes a chunk's buffer by the layout's element size and copies out
+    // of it by the datatype's: a datatype of 50 bytes over chunks of 16-byte elements
+    // (a fuzzed file) read past the buffer.
+    if (facts.chunk_element_size && facts.element_size &&
+        *facts.chunk_element_size != *facts.element_size) {
+      Bad(header, "has chunks of " + std::to_string(*facts.chunk_element_size) +
+                      "-byte elements for a datatype of " + std::to_string(*facts.element_size) +
+                      " bytes");
+    }
     if (facts.compact_size && facts.elements && facts.element_size) {
       const std::uint64_t n = *facts.elements, e = *facts.element_size;
       if ((e != 0 && n > *facts.compact_size / e) || n * e != *facts.compact_size) {
@@ -344,6 +354,13 @@ class HeaderWalker {
         if (size < 18) bad("data layout");
         facts.contiguous_address = LittleEndianAt(data + 2, 8);
         facts.contiguous_size = LittleEndianAt(data + 10, 8);
+      } else if (data[0] == 3 && size >= 3 && data[1] == 2) {
+        // Version 3, chunked: dimensionality (the rank + 1), the B-tree's address,
+        // then that many u32 sizes, the last the size of one element.
+        const std::uint64_t dims = data[2];
+        if (dims < 2 || size < 3 + 8 + 4 * dims) bad("data layout");
+        facts.chunk_element_size = LittleEndianAt(data + 3 + 8 + 4 * (dims - 1), 4);
+        facts.other_layout = true;
       } else {
         facts.other_layout = true;
       }
