@@ -20,6 +20,7 @@
 //   - an attribute message (0x000C): the name (NUL-terminated), the datatype and the
 //     dataspace each inside their stated sizes, those inside the message, and the
 //     value (elements x element size, as HDF5 computes it) inside what is left;
+//   - a chunked layout (version 3): its element size is the datatype's size;
 //   - every variable-length value (lobecast's strings), of an attribute or of a
 //     dataset (compact or contiguous), refers to a global-heap object that exists
 //     and holds it (ExpectHeapObject, untrusted_file.cpp).
