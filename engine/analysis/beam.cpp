@@ -22,8 +22,13 @@ constexpr double kInf = std::numeric_limits<double>::infinity();
 // 0.1 deg) and the Hessian's rounding error ~eps D / h^2 ~ 2e-6 D.
 constexpr double kNewtonStep_rad = 1e-5;
 
-// The first batch of samples a walk along a great circle evaluates (WalkBeamRay).
-constexpr std::size_t kFirstWalkBatch = 64;
+// The first batch of samples a walk along a great circle evaluates (WalkBeamRay); each
+// later batch doubles the samples. A beam edge is a few samples out (CutStepRad: a
+// tenth of the half-power half-width or less, four tenths on the polarization rays), so
+// a first batch of 64 evaluated mostly unread samples:
+// the polarization purity's 72 rays of a 400 x 400 lattice, 3249 exact evaluations
+// against 7281. The batches from 64 samples on are the same as from 64.
+constexpr std::size_t kFirstWalkBatch = 8;
 
 // D on the 3 x 3 stencil of step h about r (in LocalChart(r), index (ia + 1) * 3 + ib + 1
 // for the offsets ia h, ib h); empty when a point of it has no field.
