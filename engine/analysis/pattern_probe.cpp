@@ -89,8 +89,11 @@ PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_
       plan_(std::make_shared<const FieldPlan>(array, Directions::FromAngles({}, {}),
                                               FieldOptions{1, FieldMethod::kDirect})),
       per_v2_(DirectivityPerSquaredField(radiated_power_w)),
-      floor_v_(FieldFloor_v(array, currents_a)) {
-  if (plan_->num_sources() >= kSearchFastSources) {
+      floor_v_(FieldFloor_v(array, currents_a)) {}
+
+const PatternProbe::SearchPlan& PatternProbe::Search() const {
+  std::call_once(search_->once, [&] {
+    if (plan_->num_sources() < kSearchFastSources) return;
     FieldOptions o;
     o.method = FieldMethod::kFast;
     o.fixed_pass_tolerance = kSearchTolerance;
@@ -103,13 +106,13 @@ PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_
         theta.push_back(i * kPi / 6);
         phi.push_back(j * kPi / 6);
       }
-    auto p = std::make_shared<const FieldPlan>(array, Directions::FromAngles(theta, phi), o);
-    if (p->probes_fast()) {
-      // The currents' grid, made here once, and the bound of its values.
-      p->ExecuteAtFast(currents_, Directions::FromAngles({}, {}), &search_error_v_);
-      search_plan_ = std::move(p);
-    }
-  }
+    auto p = std::make_shared<const FieldPlan>(array_, Directions::FromAngles(theta, phi), o);
+    if (!p->probes_fast()) return;
+    // The currents' grid, made here once, and the bound of its values.
+    p->ExecuteAtFast(currents_, Directions::FromAngles({}, {}), &search_->error_v);
+    search_->plan = std::move(p);
+  });
+  return *search_;
 }
 
 bool PatternProbe::NoFieldAt(const Vec3& r) const {
@@ -169,7 +172,8 @@ std::vector<ProbeSample> PatternProbe::Evaluate(const std::vector<Vec3>& r_hat,
 }
 
 std::vector<ProbeSample> PatternProbe::AtSearch(const std::vector<Vec3>& r_hat) const {
-  if (!search_plan_) return AtExact(r_hat);
+  const std::shared_ptr<const FieldPlan>& plan = Search().plan;
+  if (!plan) return AtExact(r_hat);
   std::vector<ProbeSample> out(r_hat.size());
   if (r_hat.empty()) return out;
   std::vector<double> theta(r_hat.size()), phi(r_hat.size());
@@ -178,8 +182,7 @@ std::vector<ProbeSample> PatternProbe::AtSearch(const std::vector<Vec3>& r_hat) 
     theta[i] = s.theta_rad;
     phi[i] = s.phi_rad;
   }
-  const FarField f =
-      search_plan_->ExecuteAtFast(currents_, Directions::FromAngles(theta, phi), nullptr);
+  const FarField f = plan->ExecuteAtFast(currents_, Directions::FromAngles(theta, phi), nullptr);
 #pragma omp atomic
   search_evaluations_ += r_hat.size();
   for (std::size_t i = 0; i < r_hat.size(); ++i) {

@@ -10,6 +10,7 @@
 
 #include <cstddef>
 #include <memory>
+#include <mutex>
 #include <vector>
 
 #include "engine/field/far_field.h"
@@ -89,9 +90,9 @@ class PatternProbe {
   // exact evaluations (search_evaluations).
   std::vector<ProbeSample> AtSearch(const std::vector<Vec3>& r_hat) const;
   // AtSearch gives the exact sums (no lattice transform here).
-  bool search_is_exact() const { return !search_plan_; }
+  bool search_is_exact() const { return !Search().plan; }
   // A bound on |rE - exact rE| (V) of every AtSearch value; 0 when they are exact.
-  double search_error_v() const { return search_error_v_; }
+  double search_error_v() const { return Search().error_v; }
 
   // Directivity of a field component c (V): 4 pi |c|^2 / (2 eta0 P).
   double DirectivityOf(Complex component_v) const { return per_v2_ * std::norm(component_v); }
@@ -111,9 +112,15 @@ class PatternProbe {
   Array array_;
   Eigen::VectorXcd currents_;
   std::shared_ptr<const FieldPlan> plan_;  // the sources, built once
-  // The lattice transform's plan for AtSearch (null: AtSearch is AtExact).
-  std::shared_ptr<const FieldPlan> search_plan_;
-  double search_error_v_ = 0.0;
+  // AtSearch's lattice transform, made on first use (probes that never search, as the
+  // tolerance trials' and the plots', pay nothing for it); copies share it.
+  struct SearchPlan {
+    std::once_flag once;
+    std::shared_ptr<const FieldPlan> plan;  // null: AtSearch is AtExact
+    double error_v = 0.0;
+  };
+  const SearchPlan& Search() const;
+  std::shared_ptr<SearchPlan> search_ = std::make_shared<SearchPlan>();
   mutable std::size_t search_evaluations_ = 0;
   double per_v2_ = 0.0;  // 4 pi / (2 eta0 P), 1/V^2
   double floor_v_ = 0.0;
