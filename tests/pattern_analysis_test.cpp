@@ -2,6 +2,7 @@
 // purity of arrays whose answers are known in closed form, on coarse grids, so that
 // the off-grid refinement is what is being checked.
 #include "engine/analysis/pattern_analysis.h"
+#include "engine/analysis/pattern_probe.h"
 
 #include <algorithm>
 #include <cmath>
@@ -340,6 +341,80 @@ TEST(PatternAnalysis, PlanarArrayNullsAreBothFamilies) {
     }
   }
   EXPECT_GT(on_cones, 4);
+}
+
+// nx x ny z dipoles in the xy plane at half a wavelength, equal currents.
+testing::TestArray ZPlanarLattice(int nx, int ny) {
+  testing::TestArray a;
+  a.frequency_hz = kTestFrequency_hz;
+  for (int i = 0; i < nx; ++i)
+    for (int j = 0; j < ny; ++j)
+      a.Add(Vec3(i * 0.5 * Lambda(), j * 0.5 * Lambda(), 0), Vec3::UnitZ(), Lambda() / 100, 1.0);
+  return a;
+}
+
+TEST(PatternProbe, SearchValuesOfALargeLatticeAreWithinTheirBoundInAnyBatch) {
+  // 92 x 90 sources (above the 8192 from which the searches read the lattice
+  // transform): AtSearch within search_error_v of the exact sums, the bound itself
+  // far below the peak, and a direction's value the same bits alone as in a batch.
+  const testing::TestArray a = ZPlanarLattice(92, 90);
+  const PatternProbe probe(a, a.currents, 1.0);
+  ASSERT_FALSE(probe.search_is_exact());
+  std::vector<Vec3> r;
+  testing::TestRng rng(41);
+  for (int i = 0; i < 300; ++i) {
+    const double z = rng.Uniform(-1, 1), p = rng.Uniform(0, 2 * kPi), q = std::sqrt(1 - z * z);
+    r.emplace_back(q * std::cos(p), q * std::sin(p), z);
+  }
+  const std::vector<ProbeSample> fast = probe.AtSearch(r), exact = probe.AtExact(r);
+  // |rE| <= (w mu0 / 4 pi) sum |I Le| everywhere (mu0 / 4 pi = 1e-7 H/m to 1e-9).
+  const double most = 2 * kPi * kTestFrequency_hz * 1e-7 * 92 * 90 * Lambda() / 100;
+  EXPECT_LT(probe.search_error_v(), 1e-12 * most);
+  double worst = 0.0;
+  for (std::size_t i = 0; i < r.size(); ++i)
+    worst = std::max(worst, (fast[i].FieldVector_v() - exact[i].FieldVector_v()).norm());
+  EXPECT_LE(worst, probe.search_error_v());
+  EXPECT_GT(worst, 0.0);
+  for (const std::size_t i : {std::size_t{0}, std::size_t{123}, std::size_t{299}}) {
+    const ProbeSample one = probe.AtSearch(std::vector<Vec3>{r[i]})[0];
+    EXPECT_EQ(one.e_theta, fast[i].e_theta);
+    EXPECT_EQ(one.e_phi, fast[i].e_phi);
+  }
+  EXPECT_EQ(probe.search_evaluations(), r.size() + 3);
+  // Small arrays search on the exact sums.
+  const testing::TestArray small = ZPlanarLattice(4, 3);
+  EXPECT_TRUE(PatternProbe(small, small.currents, 1.0).search_is_exact());
+}
+
+TEST(PatternAnalysis, LargeLatticeNullsAreItsConesAndExact) {
+  // The searches of a 92 x 90 lattice run on the lattice transform, what they report
+  // on exact sums: every cone is one of the array factor's, cos = 2 m / 92 about x or
+  // 2 m / 90 about y (uniform lines at half a wavelength), and the crossings on them
+  // are exact zeros.
+  const testing::TestArray a = ZPlanarLattice(92, 90);
+  const PatternAnalysis r = AnalyzePattern(a, a.currents, ComputePattern(a, a.currents, Grid(2.0)));
+  int cones = 0;
+  for (const NullLocus& nl : r.null_loci) {
+    if (!nl.cone) continue;
+    ++cones;
+    const double c = std::cos(nl.half_angle_deg * kDegree);
+    double n = 0;
+    if (Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 0) < 1e-9)
+      n = 92;
+    else if (Separation_deg(nl.axis.theta_deg, nl.axis.phi_deg, 90, 90) < 1e-9)
+      n = 90;
+    else
+      ADD_FAILURE() << "cone about " << nl.axis.theta_deg << ", " << nl.axis.phi_deg;
+    EXPECT_NEAR(c * n / 2, std::round(c * n / 2), 1e-7) << nl.half_angle_deg;
+  }
+  EXPECT_GT(cones, 10);
+  int on_cones = 0;
+  for (const NullCrossing& c : r.null_crossings) {
+    if (c.locus < 0 || !r.null_loci[static_cast<std::size_t>(c.locus)].cone) continue;
+    ++on_cones;
+    EXPECT_TRUE(c.exact);
+  }
+  EXPECT_GT(on_cones, 10);
 }
 
 TEST(PatternAnalysis, MaxNullsCapsTheLoci) {

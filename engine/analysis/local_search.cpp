@@ -82,65 +82,135 @@ LineMinimum MinimizeOnInterval(const std::function<double(double)>& f, double lo
 std::vector<LineMinimum> MinimizeOnIntervals(const BatchFunction& f,
                                              const std::vector<std::pair<double, double>>& brackets,
                                              double tolerance) {
+  // Exact values: lo = value = hi, so no comparison ever asks for more.
+  const BoundedBatchFunction exactly = [&](const std::vector<BatchPoint>& points) {
+    std::vector<BoundedValue> b;
+    for (const double v : f(points)) b.push_back({v, v, v});
+    return b;
+  };
+  return MinimizeOnIntervals(exactly, f, brackets, tolerance);
+}
+
+std::vector<LineMinimum> MinimizeOnIntervals(const BoundedBatchFunction& f,
+                                             const BatchFunction& exact,
+                                             const std::vector<std::pair<double, double>>& brackets,
+                                             double tolerance) {
   const double inv_phi = 0.5 * (std::sqrt(5.0) - 1.0);  // 1/golden ratio
+  // A point's value: bounded, made exact (lo = value = hi) once asked for.
+  struct Point {
+    double x = 0.0;
+    BoundedValue v;
+  };
   struct Search {
-    double a, b, x1, x2, f1 = 0, f2 = 0;
+    double a, b;
+    Point p1, p2;
+  };
+  // Which of two values is lower or equal (a <= b), for many pairs at once: the bounds
+  // where they settle it, the exact values of both points otherwise (one batch).
+  auto at_most = [&](const std::vector<std::size_t>& search, std::vector<Point*> a,
+                     std::vector<Point*> b) {
+    std::vector<BatchPoint> ask;
+    std::vector<Point*> asked;
+    for (std::size_t k = 0; k < a.size(); ++k) {
+      if (a[k]->v.hi <= b[k]->v.lo || a[k]->v.lo > b[k]->v.hi) continue;
+      for (Point* p : {a[k], b[k]}) {
+        if (p->v.lo == p->v.hi) continue;  // exact already
+        ask.push_back({search[k], p->x});
+        asked.push_back(p);
+      }
+    }
+    if (!ask.empty()) {
+      const std::vector<double> e = exact(ask);
+      for (std::size_t k = 0; k < asked.size(); ++k) asked[k]->v = {e[k], e[k], e[k]};
+    }
+    std::vector<bool> out;
+    for (std::size_t k = 0; k < a.size(); ++k) {
+      const BoundedValue &va = a[k]->v, &vb = b[k]->v;
+      out.push_back(va.hi <= vb.lo ? true : va.lo > vb.hi ? false : va.value <= vb.value);
+    }
+    return out;
   };
   const std::size_t n = brackets.size();
   std::vector<Search> s;
   std::vector<BatchPoint> points;
   for (std::size_t i = 0; i < n; ++i) {
     const auto [a, b] = brackets[i];
-    s.push_back({a, b, b - inv_phi * (b - a), a + inv_phi * (b - a)});
-    points.push_back({i, s.back().x1});
-    points.push_back({i, s.back().x2});
+    s.push_back({a, b, {b - inv_phi * (b - a), {}}, {a + inv_phi * (b - a), {}}});
+    points.push_back({i, s.back().p1.x});
+    points.push_back({i, s.back().p2.x});
   }
-  std::vector<double> v = f(points);
+  std::vector<BoundedValue> v = f(points);
   for (std::size_t i = 0; i < n; ++i) {
-    s[i].f1 = v[2 * i];
-    s[i].f2 = v[2 * i + 1];
+    s[i].p1.v = v[2 * i];
+    s[i].p2.v = v[2 * i + 1];
   }
   // Every search narrows its bracket by the same factor per round, but their widths
   // may differ: each stops on its own test.
   for (int iter = 0; iter < 200; ++iter) {
-    points.clear();
-    std::vector<bool> lower;  // the new point replaces x1 (the bracket kept its lower part)
+    std::vector<std::size_t> running;
+    std::vector<Point*> p1, p2;
     for (std::size_t i = 0; i < n; ++i) {
-      Search& q = s[i];
-      if (!(q.b - q.a > tolerance)) continue;
-      if (q.f1 <= q.f2) {
-        q.b = q.x2;
-        q.x2 = q.x1;
-        q.f2 = q.f1;
-        q.x1 = q.b - inv_phi * (q.b - q.a);
-        points.push_back({i, q.x1});
-        lower.push_back(true);
+      if (!(s[i].b - s[i].a > tolerance)) continue;
+      running.push_back(i);
+      p1.push_back(&s[i].p1);
+      p2.push_back(&s[i].p2);
+    }
+    if (running.empty()) break;
+    const std::vector<bool> lower = at_most(running, p1, p2);  // the bracket keeps its lower part
+    points.clear();
+    for (std::size_t k = 0; k < running.size(); ++k) {
+      Search& q = s[running[k]];
+      if (lower[k]) {
+        q.b = q.p2.x;
+        q.p2 = q.p1;
+        q.p1 = {q.b - inv_phi * (q.b - q.a), {}};
+        points.push_back({running[k], q.p1.x});
       } else {
-        q.a = q.x1;
-        q.x1 = q.x2;
-        q.f1 = q.f2;
-        q.x2 = q.a + inv_phi * (q.b - q.a);
-        points.push_back({i, q.x2});
-        lower.push_back(false);
+        q.a = q.p1.x;
+        q.p1 = q.p2;
+        q.p2 = {q.a + inv_phi * (q.b - q.a), {}};
+        points.push_back({running[k], q.p2.x});
       }
     }
-    if (points.empty()) break;
     v = f(points);
     for (std::size_t k = 0; k < points.size(); ++k)
-      (lower[k] ? s[points[k].search].f1 : s[points[k].search].f2) = v[k];
+      (lower[k] ? s[points[k].search].p1 : s[points[k].search].p2).v = v[k];
   }
-  std::vector<LineMinimum> out;
+  std::vector<Point> best(n), ends;
+  {
+    std::vector<std::size_t> all(n);
+    std::vector<Point*> p1, p2;
+    for (std::size_t i = 0; i < n; ++i) {
+      all[i] = i;
+      p1.push_back(&s[i].p1);
+      p2.push_back(&s[i].p2);
+    }
+    const std::vector<bool> first = at_most(all, p1, p2);
+    for (std::size_t i = 0; i < n; ++i) best[i] = first[i] ? s[i].p1 : s[i].p2;
+  }
+  // The end points are candidates too (a minimum at the edge of the interval).
   points.clear();
   for (std::size_t i = 0; i < n; ++i) {
-    const Search& q = s[i];
-    out.push_back(q.f1 <= q.f2 ? LineMinimum{q.x1, q.f1} : LineMinimum{q.x2, q.f2});
-    // The end points are candidates too (a minimum at the edge of the interval).
     points.push_back({i, brackets[i].first});
     points.push_back({i, brackets[i].second});
   }
   v = f(points);
-  for (std::size_t k = 0; k < points.size(); ++k)
-    if (v[k] < out[points[k].search].value) out[points[k].search] = {points[k].x, v[k]};
+  for (std::size_t k = 0; k < points.size(); ++k) ends.push_back({points[k].x, v[k]});
+  for (const std::size_t end : {0, 1}) {
+    std::vector<std::size_t> all(n);
+    std::vector<Point*> e, b;
+    for (std::size_t i = 0; i < n; ++i) {
+      all[i] = i;
+      e.push_back(&ends[2 * i + end]);
+      b.push_back(&best[i]);
+    }
+    // The end replaces the best when it is strictly lower: not (best <= end).
+    const std::vector<bool> keep = at_most(all, b, e);
+    for (std::size_t i = 0; i < n; ++i)
+      if (!keep[i]) best[i] = ends[2 * i + end];
+  }
+  std::vector<LineMinimum> out;
+  for (const Point& p : best) out.push_back({p.x, p.v.value});
   return out;
 }
 

@@ -50,6 +50,24 @@ std::vector<LineMinimum> MinimizeOnIntervals(const BatchFunction& f,
                                              const std::vector<std::pair<double, double>>& brackets,
                                              double tolerance);
 
+// A value known within bounds: lo <= the exact value <= hi.
+struct BoundedValue {
+  double lo = 0.0, value = 0.0, hi = 0.0;
+};
+using BoundedBatchFunction =
+    std::function<std::vector<BoundedValue>(const std::vector<BatchPoint>&)>;
+
+// MinimizeOnIntervals on values known within bounds (f; cheaper than the exact ones),
+// with the exact values (exact) asked for only where two points' bounds overlap, so
+// that the bounds do not settle which is lower: every comparison goes as it would on
+// the exact values, and each search evaluates the same points and ends where
+// MinimizeOnIntervals(exact) does. The minimum's value is exact where it was asked
+// for, f's value otherwise.
+std::vector<LineMinimum> MinimizeOnIntervals(const BoundedBatchFunction& f,
+                                             const BatchFunction& exact,
+                                             const std::vector<std::pair<double, double>>& brackets,
+                                             double tolerance);
+
 struct PlaneSearchOptions {
   // Size of the starting simplex; about the spacing of the grid the start came from,
   // so the first moves explore the cell around it.

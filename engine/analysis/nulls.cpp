@@ -3,6 +3,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <functional>
 #include <limits>
 #include <optional>
 #include <unordered_map>
@@ -141,8 +142,13 @@ struct NullProblem {
   // searches still running go to the probe as one batch, then their candidate steps as
   // another. The sums are exact (PatternProbe::AtExact), so each search ends bit for
   // bit where it would alone, with the same evaluations; a batch of many searches runs
-  // threaded and without the per-call overheads of a few directions.
-  void PolishAll(std::vector<PolishTask>* tasks) const {
+  // threaded and without the per-call overheads of a few directions. With `search`,
+  // the rounds read PatternProbe::AtSearch (a direction's value is the same in any batch
+  // there too) and each task's end point is evaluated exactly last (Exact).
+  void PolishAll(std::vector<PolishTask>* tasks, bool search = false) const {
+    const auto eval = [&](const std::vector<Vec3>& r) {
+      return search ? probe.AtSearch(r) : probe.AtExact(r);
+    };
     const double h = kJacobianStep_rad;
     std::vector<std::size_t> live = Running(*tasks);
     for (int iter = 0; iter < 8 && !live.empty(); ++iter) {
@@ -158,7 +164,7 @@ struct NullProblem {
         for (const Vec3& d : {lc.At(h, 0), lc.At(-h, 0), lc.At(0, h), lc.At(0, -h)})
           dirs.push_back(d);
       }
-      const std::vector<ProbeSample> all = probe.AtExact(dirs);
+      const std::vector<ProbeSample> all = eval(dirs);
       std::vector<std::size_t> moving;
       std::vector<Vec3> cands;
       std::vector<double> norms;
@@ -182,7 +188,7 @@ struct NullProblem {
         cands.push_back(charts[k].At(step[0], step[1]));
         norms.push_back(step.norm());
       }
-      const std::vector<ProbeSample> at_cands = probe.AtExact(cands);
+      const std::vector<ProbeSample> at_cands = eval(cands);
       live.clear();
       for (std::size_t m = 0; m < moving.size(); ++m) {
         PolishTask& t = (*tasks)[moving[m]];
@@ -195,6 +201,68 @@ struct NullProblem {
         live.push_back(moving[m]);
       }
     }
+    if (search) Exact(tasks);
+  }
+
+  // The tasks' levels and samples at their points by exact sums, where the probe's
+  // search values are not exact (what the searches report is exact).
+  template <class Task>
+  void Exact(std::vector<Task>* tasks, const std::function<Vec3(const Task&)>& where) const {
+    if (probe.search_is_exact()) return;
+    std::vector<Vec3> r;
+    for (const Task& t : *tasks) r.push_back(where(t));
+    const std::vector<ProbeSample> s = probe.AtExact(r);
+    for (std::size_t i = 0; i < s.size(); ++i) {
+      (*tasks)[i].v = LevelOf(s[i]);
+      SetSample((*tasks)[i], s[i]);
+    }
+  }
+  static void SetSample(PolishTask& t, const ProbeSample& s) { t.at_r = s; }
+  void Exact(std::vector<PolishTask>* tasks) const {
+    Exact<PolishTask>(tasks, [](const PolishTask& t) { return t.r; });
+  }
+
+  // Levels of many directions by the search values, with bounds on the exact levels
+  // (the search error and the floors both are cut at; the same value three times when
+  // the search values are exact).
+  std::vector<BoundedValue> BoundedLevels(const std::vector<Vec3>& r) const {
+    std::vector<BoundedValue> v;
+    if (probe.search_is_exact()) {
+      for (const double l : Levels(r)) v.push_back({l, l, l});
+      return v;
+    }
+    const double b = probe.search_error_v() + 4.0 * probe.floor_v();
+    const double per = probe.DirectivityOf(1.0) / peak_directivity;  // level per V^2
+    for (const ProbeSample& s : probe.AtSearch(r)) {
+      const double l = LevelOf(s);
+      if (!std::isfinite(l)) {
+        v.push_back({l, l, l});
+        continue;
+      }
+      const double a = std::sqrt(l / per);
+      v.push_back({per * std::pow(std::max(0.0, a - b), 2), l, per * std::pow(a + b, 2)});
+    }
+    return v;
+  }
+
+  // Levels of many directions whose zero (IsZero) is what counts, decided as exact sums
+  // would decide it: the search values where their error bound settles it (plus the
+  // floors both are cut at), exact sums for the rest.
+  std::vector<double> ZeroScreenedLevels(const std::vector<Vec3>& r) const {
+    if (probe.search_is_exact()) return Levels(r);
+    std::vector<double> v;
+    std::vector<std::size_t> unsure;
+    std::vector<Vec3> again;
+    for (const BoundedValue& l : BoundedLevels(r)) {
+      if (IsZero(l.lo) != IsZero(l.hi)) {
+        unsure.push_back(v.size());
+        again.push_back(r[v.size()]);
+      }
+      v.push_back(l.value);
+    }
+    const std::vector<double> exact = Levels(again);
+    for (std::size_t i = 0; i < unsure.size(); ++i) v[unsure[i]] = exact[i];
+    return v;
   }
 
   // Levels of many directions, exact, in one batch.
@@ -213,7 +281,11 @@ struct NullProblem {
 
   // The same along a great circle (a 1-D Gauss-Newton on the offset s), for every task
   // in lockstep as PolishAll: exact sums, each task ending where it would alone.
-  void PolishAlongAll(const Vec3& from, const Vec3& tangent, std::vector<AlongTask>* tasks) const {
+  void PolishAlongAll(const Vec3& from, const Vec3& tangent, std::vector<AlongTask>* tasks,
+                      bool search = false) const {
+    const auto eval = [&](const std::vector<Vec3>& r) {
+      return search ? probe.AtSearch(r) : probe.AtExact(r);
+    };
     const double h = kJacobianStep_rad;
     std::vector<std::size_t> live = Running(*tasks);
     for (int iter = 0; iter < 8 && !live.empty(); ++iter) {
@@ -226,7 +298,7 @@ struct NullProblem {
         dirs.push_back(AlongGreatCircle(from, tangent, t.s_rad + h));
         dirs.push_back(AlongGreatCircle(from, tangent, t.s_rad - h));
       }
-      const std::vector<ProbeSample> all = probe.AtExact(dirs);
+      const std::vector<ProbeSample> all = eval(dirs);
       std::vector<std::size_t> moving;
       std::vector<double> steps;
       std::vector<Vec3> cands;
@@ -244,7 +316,7 @@ struct NullProblem {
         steps.push_back(step);
         cands.push_back(AlongGreatCircle(from, tangent, t.s_rad + step));
       }
-      const std::vector<ProbeSample> at_cands = probe.AtExact(cands);
+      const std::vector<ProbeSample> at_cands = eval(cands);
       live.clear();
       for (std::size_t m = 0; m < moving.size(); ++m) {
         AlongTask& t = (*tasks)[moving[m]];
@@ -256,7 +328,11 @@ struct NullProblem {
         if (t.v > 0.0) live.push_back(moving[m]);
       }
     }
+    if (search)
+      Exact<AlongTask>(
+          tasks, [&](const AlongTask& t) { return AlongGreatCircle(from, tangent, t.s_rad); });
   }
+  static void SetSample(AlongTask& t, const ProbeSample& s) { t.at_s = s; }
 
   // Depth fields of a null of relative level v: exact zeros carry no depth.
   void SetDepth(double v, double* directivity, double* level_db, bool* exact) const {
@@ -274,11 +350,11 @@ std::vector<NullProblem::PolishTask> PolishFromNodes(const NullProblem& problem,
                                                      double max_step) {
   std::vector<Vec3> dirs;
   for (const std::size_t n : nodes) dirs.push_back(neighbours.direction(n));
-  const std::vector<ProbeSample> at = problem.probe.AtExact(dirs);
+  const std::vector<ProbeSample> at = problem.probe.AtSearch(dirs);
   std::vector<NullProblem::PolishTask> tasks;
   for (std::size_t j = 0; j < nodes.size(); ++j)
     tasks.push_back({dirs[j], problem.LevelOf(at[j]), max_step, at[j]});
-  problem.PolishAll(&tasks);
+  problem.PolishAll(&tasks, true);
   return tasks;
 }
 
@@ -472,10 +548,8 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
           owner.push_back(i);
         }
       }
-      const std::vector<ProbeSample> s = probe.AtExact(batch);
-      for (std::size_t j = 0; j < s.size(); ++j)
-        worst[owner[j]] = std::max(worst[owner[j]],
-                                   NullFieldDirectivity(probe, s[j], options) / peak_directivity);
+      const std::vector<double> s = problem.ZeroScreenedLevels(batch);
+      for (std::size_t j = 0; j < s.size(); ++j) worst[owner[j]] = std::max(worst[owner[j]], s[j]);
     }
     for (std::size_t i = 0; i < candidates.size(); ++i)
       if (IsZero(worst[i]) && !known(a, candidates[i].cos_half))
@@ -626,7 +700,9 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
         if (deepest == below.size() || below[i].v < below[deepest].v) deepest = i;
       }
       Member d = below[deepest];
-      if (!d.refined) problem.Polish(&d.r, &d.v, 10.0 * spacing);
+      // A seed searched on the lattice transform is polished on exact sums from where it
+      // ended: its depth is reported.
+      if (!d.refined || !probe.search_is_exact()) problem.Polish(&d.r, &d.v, 10.0 * spacing);
       if (!(d.v < threshold)) continue;
       if (std::any_of(cones.begin(), cones.end(),
                       [&](const Cone& k) { return cone_distance(k, d.r) < kOnCone_rad; }))
@@ -694,7 +770,8 @@ std::vector<NullCrossing> FindNullCrossings(const PatternProbe& probe, const Nul
     dirs[static_cast<std::size_t>(i)] = AlongGreatCircle(peak, tangent, -kPi + h * i);
   std::vector<double> level(dirs.size());
   {
-    const std::vector<ProbeSample> s = probe.At(dirs);
+    const std::vector<ProbeSample> s =
+        probe.search_is_exact() ? probe.At(dirs) : probe.AtSearch(dirs);
     for (std::size_t i = 0; i < s.size(); ++i)
       level[i] =
           s[i].no_field ? kInf : NullFieldDirectivity(probe, s[i], options) / peak_directivity;
@@ -709,15 +786,29 @@ std::vector<NullCrossing> FindNullCrossings(const PatternProbe& probe, const Nul
     const double s0 = -kPi + h * static_cast<double>(i);
     brackets.emplace_back(s0 - h, s0 + h);
   }
+  // The golden sections on the search values within their bounds, exact sums where the
+  // bounds leave a comparison open (PatternProbe::AtSearch): the same steps as on exact
+  // sums, so a zero in a band of floored exact zeros (a point null) is located where
+  // the exact search's ties take it.
+  auto circle = [&](const std::vector<BatchPoint>& points) {
+    std::vector<Vec3> r;
+    for (const BatchPoint& p : points) r.push_back(AlongGreatCircle(peak, tangent, p.x));
+    return r;
+  };
   const std::vector<LineMinimum> minima = MinimizeOnIntervals(
-      [&](const std::vector<BatchPoint>& points) {
-        std::vector<Vec3> r;
-        for (const BatchPoint& p : points) r.push_back(AlongGreatCircle(peak, tangent, p.x));
-        return problem.Levels(r);
-      },
+      [&](const std::vector<BatchPoint>& points) { return problem.BoundedLevels(circle(points)); },
+      [&](const std::vector<BatchPoint>& points) { return problem.Levels(circle(points)); },
       brackets, options.refine_tolerance_deg * kDegree);
   std::vector<NullProblem::AlongTask> tasks;
   for (const LineMinimum& lm : minima) tasks.push_back({lm.x, lm.value, std::nullopt});
+  if (!probe.search_is_exact()) {
+    // Gauss-Newton from the exact level at each minimum (an exact zero stays where it
+    // is), on the search values, then on exact sums from where those end: a round or two.
+    problem.Exact<NullProblem::AlongTask>(&tasks, [&](const NullProblem::AlongTask& t) {
+      return AlongGreatCircle(peak, tangent, t.s_rad);
+    });
+    problem.PolishAlongAll(peak, tangent, &tasks, true);
+  }
   problem.PolishAlongAll(peak, tangent, &tasks);
   std::vector<NullCrossing> out;
   for (const NullProblem::AlongTask& t : tasks) {

@@ -22,6 +22,16 @@ constexpr std::size_t kFastBatchDirections = 4096;
 // Smaller batches run on one thread (PatternProbe::At).
 constexpr std::size_t kParallelBatchDirections = 1024;
 constexpr std::size_t kFastBatchSources = 8192;
+// Arrays of at least this many sources (images counted) on a lattice run the searches'
+// inner rounds on the lattice transform (AtSearch): its grid, made once, costs about
+// as many FFT points as sources, after which a direction costs the kernel's points
+// (w^2, about 300 at 1e-14) against an exact sum's O(sources); the searches evaluate
+// tens of thousands of directions.
+constexpr std::size_t kSearchFastSources = 8192;
+// AtSearch's transform tolerance, relative to sum |I Le| (the finest the NUFFT takes):
+// its bound (10x, the error model) stays far below the 1e-20 of the peak intensity at
+// which the null search calls a level zero.
+constexpr double kSearchTolerance = 1e-14;
 
 }  // namespace
 
@@ -81,6 +91,30 @@ PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_
       per_v2_(DirectivityPerSquaredField(radiated_power_w)),
       floor_v_(FieldFloor_v(array, currents_a)) {}
 
+const PatternProbe::SearchPlan& PatternProbe::Search() const {
+  std::call_once(search_->once, [&] {
+    if (plan_->num_sources() < kSearchFastSources) return;
+    FieldOptions o;
+    o.method = FieldMethod::kFast;
+    o.fixed_pass_tolerance = kSearchTolerance;
+    // A few directions over the sphere, so that the choice of transform sees the
+    // extent of the directions the searches take (type 3's grid grows with it; with
+    // none it would look free).
+    std::vector<double> theta, phi;
+    for (int i = 0; i <= 6; ++i)
+      for (int j = 0; j < 12; ++j) {
+        theta.push_back(i * kPi / 6);
+        phi.push_back(j * kPi / 6);
+      }
+    auto p = std::make_shared<const FieldPlan>(array_, Directions::FromAngles(theta, phi), o);
+    if (!p->probes_fast()) return;
+    // The currents' grid, made here once, and the bound of its values.
+    p->ExecuteAtFast(currents_, Directions::FromAngles({}, {}), &search_->error_v);
+    search_->plan = std::move(p);
+  });
+  return *search_;
+}
+
 bool PatternProbe::NoFieldAt(const Vec3& r) const {
   return BelowGround(array_.ground, AnglesOf(r).theta_rad);
 }
@@ -128,6 +162,33 @@ std::vector<ProbeSample> PatternProbe::Evaluate(const std::vector<Vec3>& r_hat,
     s.theta_rad = theta[i];
     s.phi_rad = phi[i];
     // Floored as the grid is (PatternResult::field_floor_v): the same exact zeros.
+    s.e_theta = Floored(f.e_theta[static_cast<Eigen::Index>(i)], floor_v_);
+    s.e_phi = Floored(f.e_phi[static_cast<Eigen::Index>(i)], floor_v_);
+    s.floor_v = floor_v_;
+    s.directivity = per_v2_ * (std::norm(s.e_theta) + std::norm(s.e_phi));
+    s.no_field = BelowGround(array_.ground, theta[i]);
+  }
+  return out;
+}
+
+std::vector<ProbeSample> PatternProbe::AtSearch(const std::vector<Vec3>& r_hat) const {
+  const std::shared_ptr<const FieldPlan>& plan = Search().plan;
+  if (!plan) return AtExact(r_hat);
+  std::vector<ProbeSample> out(r_hat.size());
+  if (r_hat.empty()) return out;
+  std::vector<double> theta(r_hat.size()), phi(r_hat.size());
+  for (std::size_t i = 0; i < r_hat.size(); ++i) {
+    const SphericalAngles s = AnglesOf(r_hat[i]);
+    theta[i] = s.theta_rad;
+    phi[i] = s.phi_rad;
+  }
+  const FarField f = plan->ExecuteAtFast(currents_, Directions::FromAngles(theta, phi), nullptr);
+#pragma omp atomic
+  search_evaluations_ += r_hat.size();
+  for (std::size_t i = 0; i < r_hat.size(); ++i) {
+    ProbeSample& s = out[i];
+    s.theta_rad = theta[i];
+    s.phi_rad = phi[i];
     s.e_theta = Floored(f.e_theta[static_cast<Eigen::Index>(i)], floor_v_);
     s.e_phi = Floored(f.e_phi[static_cast<Eigen::Index>(i)], floor_v_);
     s.floor_v = floor_v_;

@@ -4,10 +4,13 @@
 // special cases. Evaluations run the direct (exact) sum on one FieldPlan of the
 // sources, built once (FieldPlan::ExecuteAt); large batches of large arrays get a plan
 // of their own with the auto method (the fast path where cheaper, pattern_probe.cpp).
+// The searches' inner rounds of large arrays on a lattice read the lattice transform
+// instead (AtSearch), and evaluate exactly only what they report.
 #pragma once
 
 #include <cstddef>
 #include <memory>
+#include <mutex>
 #include <vector>
 
 #include "engine/field/far_field.h"
@@ -79,6 +82,17 @@ class PatternProbe {
   // must give each direction the value it would get alone.
   std::vector<ProbeSample> AtExact(const std::vector<Vec3>& r_hat) const;
   double DirectivityAt(const Vec3& r_hat) const { return At(r_hat).directivity; }
+  // Values for the inner rounds of the searches, never reported: on arrays of at
+  // least kSearchFastSources sources (images counted) on a lattice, the lattice
+  // transform's at 1e-14 of sum |I Le| (FieldPlan::ExecuteAtFast: the currents' grid
+  // made once, then O(kernel points) a direction instead of O(sources)); otherwise
+  // AtExact's. A direction gets the same value in any batch. Counted apart from the
+  // exact evaluations (search_evaluations).
+  std::vector<ProbeSample> AtSearch(const std::vector<Vec3>& r_hat) const;
+  // AtSearch gives the exact sums (no lattice transform here).
+  bool search_is_exact() const { return !Search().plan; }
+  // A bound on |rE - exact rE| (V) of every AtSearch value; 0 when they are exact.
+  double search_error_v() const { return Search().error_v; }
 
   // Directivity of a field component c (V): 4 pi |c|^2 / (2 eta0 P).
   double DirectivityOf(Complex component_v) const { return per_v2_ * std::norm(component_v); }
@@ -89,6 +103,8 @@ class PatternProbe {
   // Directions evaluated so far (all calls). At and AtExact may be called from several
   // threads at once; read this outside them.
   std::size_t evaluations() const { return evaluations_; }
+  // Directions AtSearch evaluated by the lattice transform (not counted above).
+  std::size_t search_evaluations() const { return search_evaluations_; }
 
  private:
   std::vector<ProbeSample> Evaluate(const std::vector<Vec3>& r_hat, bool allow_fast) const;
@@ -96,7 +112,17 @@ class PatternProbe {
   Array array_;
   Eigen::VectorXcd currents_;
   std::shared_ptr<const FieldPlan> plan_;  // the sources, built once
-  double per_v2_ = 0.0;                    // 4 pi / (2 eta0 P), 1/V^2
+  // AtSearch's lattice transform, made on first use (probes that never search, as the
+  // tolerance trials' and the plots', pay nothing for it); copies share it.
+  struct SearchPlan {
+    std::once_flag once;
+    std::shared_ptr<const FieldPlan> plan;  // null: AtSearch is AtExact
+    double error_v = 0.0;
+  };
+  const SearchPlan& Search() const;
+  std::shared_ptr<SearchPlan> search_ = std::make_shared<SearchPlan>();
+  mutable std::size_t search_evaluations_ = 0;
+  double per_v2_ = 0.0;  // 4 pi / (2 eta0 P), 1/V^2
   double floor_v_ = 0.0;
   mutable std::size_t evaluations_ = 0;
 };

@@ -121,6 +121,19 @@ class FieldPlan {
   // plan per call would cost O(N) setup each time. Any plan can serve, one built
   // on no directions too. Thread-safe.
   FarField ExecuteAt(const Eigen::VectorXcd& currents_a, const Directions& directions) const;
+  // The fast path at directions of the caller's, for many small evaluations at one
+  // current vector (off-grid searches of large arrays on a lattice): the lattice
+  // transform's grid is made once per current vector (kept for the next call with
+  // the same currents), then a direction costs O(kernel points), not O(sources).
+  // One pass at the plan's fixed_pass_tolerance (tolerance_relative when it is 0),
+  // rounded down to a power of ten; *error_bound_v gets the bound on |rE - exact rE|
+  // (V) of every direction, the fast path's error model on sum |I Le| plus the
+  // lattice placement. A direction's value does not depend on the others of the
+  // call. Only where probes_fast(); throws InternalError elsewhere. Thread-safe.
+  FarField ExecuteAtFast(const Eigen::VectorXcd& currents_a, const Directions& directions,
+                         double* error_bound_v) const;
+  // The plan took the fast path with the lattice transform (ExecuteAtFast).
+  bool probes_fast() const { return fast_transform_ == FastTransform::kLattice; }
 
   // The adjoint of Execute. A is the linear map currents -> (rE_theta, rE_phi) at
   // the plan's directions that Execute applies (images fold back onto their

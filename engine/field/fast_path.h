@@ -10,6 +10,7 @@
 #include <Eigen/Core>
 
 #include "engine/field/far_field.h"
+#include "engine/field/lattice.h"
 #include "engine/field/nufft.h"
 
 namespace lobecast {
@@ -33,6 +34,12 @@ struct FieldPlan::FastCache {
   // NUFFT plans by tolerance exponent (the kernel width depends only on it), kept
   // for the next current vector: O(directions) memory each, at most two in use.
   std::map<int, std::shared_ptr<const PointSum>> plans;
+  // ExecuteAtFast's: a lattice sum of no targets, the grid of the currents kept, and
+  // the bound of its values (V).
+  std::shared_ptr<const LatticeSum> probe_sum;
+  std::shared_ptr<const LatticeSum::Prepared> probe_grid;
+  Eigen::VectorXcd probe_currents;
+  double probe_bound_v = 0;
 };
 
 }  // namespace lobecast

@@ -220,6 +220,9 @@ LatticeSum::LatticeSum(const AxisLattice& lattice, const Eigen::Matrix3Xd& targe
     target_factor_[k] = Complex(std::cos(phase), std::sin(phase));
   }
   representation_error_ = s_max * lattice.max_offset;
+  modes_ = modes;
+  origin_ = lattice.origin;
+  pitch_ = lattice.pitch;
   layer_sum_ = std::make_unique<const Nufft2>(modes, std::move(t), options);
 }
 
@@ -277,6 +280,68 @@ Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
     }
   }
   for (Eigen::Index a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(target_factor_);
+  return out;
+}
+
+struct LatticeSum::Prepared {
+  std::vector<std::shared_ptr<const Nufft2::Prepared>> layers;
+  Eigen::Index components = 0;
+};
+
+std::shared_ptr<const LatticeSum::Prepared> LatticeSum::Prepare(
+    const Eigen::MatrixXcd& strengths) const {
+  CheckRows(strengths, num_points_, "strengths");
+  const Eigen::Index nc = strengths.cols();
+  const auto rows = static_cast<Eigen::Index>(layer_sum_->num_modes());
+  // As Execute: strengths summed per site, layer by layer, in point order.
+  std::vector<Eigen::MatrixXcd> coefficients(static_cast<std::size_t>(shape_.layers),
+                                             Eigen::MatrixXcd::Zero(rows, nc));
+  for (std::size_t j = 0; j < num_points_; ++j) {
+    coefficients[static_cast<std::size_t>(point_layer_[j])].row(point_row_[j]) +=
+        strengths.row(static_cast<Eigen::Index>(j));
+  }
+  auto p = std::make_shared<Prepared>();
+  p->components = nc;
+  for (const Eigen::MatrixXcd& c : coefficients) p->layers.push_back(layer_sum_->Prepare(c));
+  return p;
+}
+
+Eigen::MatrixXcd LatticeSum::ExecuteAt(const Prepared& prepared,
+                                       const Eigen::Matrix3Xd& targets) const {
+  // The constructor's target data and Execute's steps, for these targets.
+  const Eigen::Index nk = targets.cols(), nc = prepared.components;
+  Eigen::Matrix3Xd t = Eigen::Matrix3Xd::Zero(3, nk);
+  Eigen::VectorXcd factor(nk);
+  for (Eigen::Index k = 0; k < nk; ++k) {
+    double phase = targets.col(k).dot(origin_);
+    for (std::size_t i = 0; i < 3; ++i) {
+      const int d = order_[i];
+      if (modes_[i] == 1) continue;
+      t(static_cast<Eigen::Index>(i), k) = targets(d, k) * pitch_[d];
+      phase += t(static_cast<Eigen::Index>(i), k) * (modes_[i] / 2);
+    }
+    factor[k] = Complex(std::cos(phase), std::sin(phase));
+  }
+  Eigen::MatrixXcd out = Eigen::MatrixXcd::Zero(nk, nc);
+  for (int layer = 0; layer < shape_.layers; ++layer) {
+    const Eigen::MatrixXcd f =
+        layer_sum_->InterpolateAt(*prepared.layers[static_cast<std::size_t>(layer)], t);
+    // The layer's site along each layered dimension (LayerPhases).
+    std::vector<double> n(layered_.size());
+    for (Eigen::Index l = static_cast<Eigen::Index>(layered_.size()) - 1, r = layer; l >= 0; --l) {
+      const int m = layered_sites_[static_cast<std::size_t>(l)];
+      n[static_cast<std::size_t>(l)] = static_cast<double>(r % m);
+      r /= m;
+    }
+    for (Eigen::Index k = 0; k < nk; ++k) {
+      double phase = 0;
+      for (std::size_t l = 0; l < layered_.size(); ++l)
+        phase += targets(layered_[l], k) * pitch_[layered_[l]] * n[l];
+      const Complex ph(std::cos(phase), std::sin(phase));
+      for (Eigen::Index a = 0; a < nc; ++a) out(k, a) += ph * f(k, a);
+    }
+  }
+  for (Eigen::Index a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(factor);
   return out;
 }
 

@@ -66,6 +66,14 @@ class LatticeSum : public PointSum {
   // max_k |s_k| * max_offset: the phase error of placing points on their sites.
   double representation_error() const override { return representation_error_; }
 
+  // Execute in two halves (Nufft2::Prepare): the layers' transformed grids for one
+  // set of strengths, then the sums at any targets (3 x K, as the constructor's),
+  // O(w^d) a target. The error is Execute's; placing the points on their sites
+  // adds max_k |s_k| * max_offset of phase for these targets.
+  struct Prepared;  // lattice.cpp
+  std::shared_ptr<const Prepared> Prepare(const Eigen::MatrixXcd& strengths) const;
+  Eigen::MatrixXcd ExecuteAt(const Prepared& prepared, const Eigen::Matrix3Xd& targets) const;
+
   const LatticeShape& shape() const { return shape_; }
 
  private:
@@ -76,7 +84,10 @@ class LatticeSum : public PointSum {
 
   LatticeShape shape_;
   std::size_t num_points_ = 0;
-  std::array<int, 3> order_{0, 1, 2};    // dimension d of the lattice in mode slot i
+  std::array<int, 3> order_{0, 1, 2};  // dimension d of the lattice in mode slot i
+  std::array<int, 3> modes_{1, 1, 1};  // the layer transform's modes, per slot
+  Eigen::Vector3d origin_ = Eigen::Vector3d::Zero();
+  Eigen::Vector3d pitch_ = Eigen::Vector3d::Zero();
   std::vector<int> layered_;             // lattice dimensions summed layer by layer
   std::vector<int> layered_sites_;       // their site counts
   std::vector<int> point_layer_;         // per point

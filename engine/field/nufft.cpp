@@ -125,8 +125,12 @@ Nufft2::Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
       dc[static_cast<std::size_t>(i)] = h2 / (alpha2 * phi_hat(alpha2 * l));
     }
   }
-  // Targets in grid units (in place), reduced to one period first so large t
-  // keep their digits.
+  ToGridUnits(targets);
+  targets_ = std::move(targets);
+}
+
+void Nufft2::ToGridUnits(Eigen::Matrix3Xd& targets) const {
+  // Reduced to one period first so large t keep their digits.
   for (Eigen::Index k = 0; k < targets.cols(); ++k) {
     for (int d = 0; d < 3; ++d) {
       const int n2 = geometry_.fft_size[static_cast<std::size_t>(d)];
@@ -135,7 +139,6 @@ Nufft2::Nufft2(const std::array<int, 3>& modes, Eigen::Matrix3Xd targets,
           n2 == 1 ? 0.0 : (t - 2.0 * kPi * std::nearbyint(t / (2.0 * kPi))) * n2 / (2.0 * kPi);
     }
   }
-  targets_ = std::move(targets);
 }
 
 namespace {
@@ -180,6 +183,36 @@ Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
   fftw_execute_dft(g.plan, AsFftw(grid), AsFftw(grid));
   // 3. Interpolate at each target with the kernel, in blocks of targets.
   return Interpolate(g.view, targets_, ResolveThreads(num_threads_));
+}
+
+struct Nufft2::Prepared {
+  FftwBuffer buffer;
+  GridView view;
+};
+
+std::shared_ptr<const Nufft2::Prepared> Nufft2::Prepare(
+    const Eigen::MatrixXcd& coefficients) const {
+  CheckStrengths(coefficients, static_cast<Eigen::Index>(num_modes()), "coefficients");
+  const auto nc = static_cast<int>(coefficients.cols());
+  PaddedGrid g = plans_->NewGrid(geometry_, beta_, nc, FFTW_BACKWARD);
+  Complex* const grid = g.buffer.get();
+  ForEachMode(modes_, g.view.n2, g.view.plane, deconvolution_,
+              [&](Eigen::Index row, std::size_t cell, double f) {
+                for (int a = 0; a < nc; ++a)
+                  grid[static_cast<std::size_t>(a) * g.view.cells + cell] =
+                      f * coefficients(row, a);
+              });
+  fftw_execute_dft(g.plan, AsFftw(grid), AsFftw(grid));
+  auto p = std::make_shared<Prepared>();
+  p->buffer = std::move(g.buffer);
+  p->view = g.view;
+  return p;
+}
+
+Eigen::MatrixXcd Nufft2::InterpolateAt(const Prepared& prepared, Eigen::Matrix3Xd targets) const {
+  ToGridUnits(targets);
+  const int threads = targets.cols() < 1024 ? 1 : ResolveThreads(num_threads_);
+  return Interpolate(prepared.view, targets, threads);
 }
 
 Eigen::MatrixXcd Nufft2::Adjoint(const Eigen::MatrixXcd& values) const {

@@ -101,11 +101,22 @@ class Nufft2 {
   // K x C, returns (M_0 M_1 M_2) x C in Execute's row order. Thread-safe.
   Eigen::MatrixXcd Adjoint(const Eigen::MatrixXcd& values) const;
 
+  // Execute in two halves, for many small sets of targets at one coefficient set
+  // (off-grid searches): Prepare makes the deconvolved, transformed grid (steps 1
+  // and 2, O(grid log grid)); InterpolateAt reads it at any targets (3 x K, as
+  // the constructor's; step 3, O(w^d) a target). A target's value does not depend
+  // on the others of its call or on threads (one thread below 1024 targets).
+  struct Prepared;  // nufft.cpp
+  std::shared_ptr<const Prepared> Prepare(const Eigen::MatrixXcd& coefficients) const;
+  Eigen::MatrixXcd InterpolateAt(const Prepared& prepared, Eigen::Matrix3Xd targets) const;
+
   const NufftGeometry& geometry() const { return geometry_; }
   std::size_t num_modes() const;
 
  private:
   struct Plans;  // FFTW plans, made once per component count (nufft.cpp)
+  // Targets in grid units (in place), reduced to one period first.
+  void ToGridUnits(Eigen::Matrix3Xd& targets) const;
 
   NufftGeometry geometry_;
   std::array<int, 3> modes_{1, 1, 1};
