@@ -61,7 +61,10 @@ std::size_t BoundedCount(hid_t loc, hid_t space, std::size_t bytes_each, const s
 // Invalid when a chunked dataset's chunks are larger than the dataset in some
 // dimension (lobecast's never are): HDF5 1.10.8 then copies a whole chunk out of
 // the smaller inflated buffer (a fuzzed file whose chunk of 5 x 9 read as 5 x 777
-// made `report` segfault).
+// made `report` segfault); and when a stored chunk, read raw and inflated, does not
+// come to exactly one chunk's bytes or the pipeline holds a filter other than
+// shuffle and deflate (HDF5 copies a whole chunk out of whatever its filters gave).
+// Reads every chunk once more than HDF5 does.
 void ExpectChunksWithin(hid_t loc, hid_t dataset, hid_t space, const std::string& what);
 
 }  // namespace lobecast::hdf5
