@@ -6,6 +6,9 @@
 // deterministic, and they fail when a per-direction copy (8 bytes a direction for a
 // double) comes back where the design keeps at most a bit.
 #include "engine/analysis/grid_neighbours.h"
+#include "engine/analysis/null_geometry.h"
+#include "engine/analysis/pattern_probe.h"
+#include "engine/grid.h"
 
 #include <algorithm>
 #include <atomic>
@@ -323,6 +326,53 @@ TEST(GridNeighbours, AnalysisGrowsByLessThanTwoBytesPerDirection) {
   const double per_direction = (fine - coarse) / static_cast<double>(fine_n - coarse_n);
   EXPECT_LT(per_direction, 2.0) << "analysis peak " << coarse << " B on " << coarse_n
                                 << " directions, " << fine << " B on " << fine_n;
+}
+
+// GroupByProximity (null_geometry.h) against the pairwise flood fill it replaced: the
+// same groups, numbered alike, on clustered and on spread directions, including pairs
+// just inside and just outside the link.
+TEST(GroupByProximity, MatchesPairwiseFloodFill) {
+  testing::TestRng rng(11);
+  for (const double link : {1e-3, 0.02, 0.3}) {
+    std::vector<Vec3> dirs;
+    for (int c = 0; c < 40; ++c) {
+      const Vec3 centre = rng.UnitVector();
+      for (int k = 0; k < 12; ++k) {
+        const Vec3 off(rng.Uniform(-0.5, 0.5), rng.Uniform(-0.5, 0.5), rng.Uniform(-0.5, 0.5));
+        dirs.push_back((centre + 3.0 * link * off).normalized());
+      }
+    }
+    // A chain of steps 0.999 link (one group) and a pair 1.001 link apart (two).
+    for (int k = 0; k < 5; ++k) dirs.push_back(UnitVectorAt(0.5 + 0.999 * link * k, 1.0));
+    dirs.push_back(UnitVectorAt(2.0, 4.0));
+    dirs.push_back(UnitVectorAt(2.0 + 1.001 * link, 4.0));
+    std::vector<int> expected(dirs.size(), -1);
+    int expected_groups = 0;
+    for (std::size_t i = 0; i < dirs.size(); ++i) {
+      if (expected[i] >= 0) continue;
+      std::vector<std::size_t> stack = {i};
+      expected[i] = expected_groups;
+      while (!stack.empty()) {
+        const std::size_t a = stack.back();
+        stack.pop_back();
+        for (std::size_t b = 0; b < dirs.size(); ++b)
+          if (expected[b] < 0 && AngleBetween(dirs[a], dirs[b]) < link) {
+            expected[b] = expected_groups;
+            stack.push_back(b);
+          }
+      }
+      ++expected_groups;
+    }
+    int groups = 0;
+    EXPECT_EQ(GroupByProximity(dirs, link, &groups), expected) << "link " << link;
+    EXPECT_EQ(groups, expected_groups);
+    // The test's own cases (at the widest link the clusters may join anything).
+    const std::size_t n = dirs.size();
+    EXPECT_EQ(expected[n - 7], expected[n - 3]);  // the chain
+    if (link < 0.1) {
+      EXPECT_NE(expected[n - 2], expected[n - 1]);  // the pair just apart
+    }
+  }
 }
 
 }  // namespace

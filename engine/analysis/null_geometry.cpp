@@ -2,8 +2,12 @@
 #include "engine/analysis/null_geometry.h"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
+#include <cstdint>
 #include <limits>
+#include <numeric>
+#include <unordered_map>
 
 #include <Eigen/Eigenvalues>
 
@@ -94,6 +98,54 @@ void SetExtent(const std::vector<Vec3>& dirs, NullLocus* l) {
   }
   l->phi_min_deg = phis[(gap_after + 1) % phis.size()];
   l->phi_max_deg = phis[gap_after];
+}
+
+std::vector<int> GroupByProximity(const std::vector<Vec3>& dirs, double link_rad, int* groups) {
+  const std::size_t n = dirs.size();
+  // Union-find over the linked pairs; a pair at an angle below link_rad has a chord
+  // below 2 sin(link_rad / 2), so its cubes of that edge differ by at most one in each
+  // coordinate.
+  std::vector<std::size_t> parent(n);
+  std::iota(parent.begin(), parent.end(), std::size_t{0});
+  auto root = [&](std::size_t i) {
+    while (parent[i] != i) i = parent[i] = parent[parent[i]];
+    return i;
+  };
+  const double edge = 2.0 * std::sin(0.5 * std::min(link_rad, kPi));
+  using Key = std::array<std::int64_t, 3>;
+  auto cube = [&](const Vec3& r) {
+    return Key{static_cast<std::int64_t>(std::floor(r.x() / edge)),
+               static_cast<std::int64_t>(std::floor(r.y() / edge)),
+               static_cast<std::int64_t>(std::floor(r.z() / edge))};
+  };
+  struct KeyHash {
+    std::size_t operator()(const Key& k) const {
+      return static_cast<std::size_t>((k[0] * 73856093) ^ (k[1] * 19349663) ^ (k[2] * 83492791));
+    }
+  };
+  std::unordered_map<Key, std::vector<std::size_t>, KeyHash> cubes;
+  for (std::size_t i = 0; i < n; ++i) cubes[cube(dirs[i])].push_back(i);
+  for (std::size_t i = 0; i < n; ++i) {
+    const Key c = cube(dirs[i]);
+    for (std::int64_t dx = -1; dx <= 1; ++dx)
+      for (std::int64_t dy = -1; dy <= 1; ++dy)
+        for (std::int64_t dz = -1; dz <= 1; ++dz) {
+          const auto it = cubes.find(Key{c[0] + dx, c[1] + dy, c[2] + dz});
+          if (it == cubes.end()) continue;
+          for (const std::size_t j : it->second) {
+            if (j <= i || root(i) == root(j)) continue;
+            if (AngleBetween(dirs[i], dirs[j]) < link_rad) parent[root(j)] = root(i);
+          }
+        }
+  }
+  std::vector<int> group(n, -1);
+  std::unordered_map<std::size_t, int> number;  // root -> group, by first member
+  for (std::size_t i = 0; i < n; ++i) {
+    const auto [it, added] = number.emplace(root(i), static_cast<int>(number.size()));
+    group[i] = it->second;
+  }
+  if (groups) *groups = static_cast<int>(number.size());
+  return group;
 }
 
 }  // namespace lobecast

@@ -26,4 +26,11 @@ Vec3 OnCone(const Vec3& a, const std::pair<Vec3, Vec3>& uv, double alpha, double
 // the phis (directions on a pole have no phi; phi_min > phi_max when the arc wraps).
 void SetExtent(const std::vector<Vec3>& dirs, NullLocus* l);
 
+// The groups of directions linked by chains of steps shorter than link_rad (< pi): the
+// connected components of "AngleBetween(a, b) < link_rad". Returns each direction's
+// group, numbered in the order of their first members (the numbering a pairwise scan
+// from the first direction gives). O(n) for directions spread over the sphere: they
+// are binned into cubes of the link's chord, and only neighbouring cubes compared.
+std::vector<int> GroupByProximity(const std::vector<Vec3>& dirs, double link_rad, int* groups);
+
 }  // namespace lobecast

@@ -336,30 +336,18 @@ NullSearch FindNulls(const PatternProbe& probe, const GridNeighbours& neighbours
       const double l = node_level(n);
       if (l < threshold) below.push_back({neighbours.direction(n), l, false});
     }
-    std::vector<int> group(below.size(), -1);
+    std::vector<Vec3> below_r;
+    for (const Member& m : below) below_r.push_back(m.r);
     int groups = 0;
-    for (std::size_t i = 0; i < below.size(); ++i) {
-      if (group[i] >= 0) continue;
-      std::vector<std::size_t> stack = {i};
-      group[i] = groups;
-      while (!stack.empty()) {
-        const std::size_t a = stack.back();
-        stack.pop_back();
-        for (std::size_t b = 0; b < below.size(); ++b) {
-          if (group[b] < 0 && AngleBetween(below[a].r, below[b].r) < kLinkSpacings * spacing) {
-            group[b] = groups;
-            stack.push_back(b);
-          }
-        }
-      }
-      ++groups;
-    }
+    const std::vector<int> group = GroupByProximity(below_r, kLinkSpacings * spacing, &groups);
+    std::vector<std::vector<std::size_t>> group_members(static_cast<std::size_t>(groups));
+    for (std::size_t i = 0; i < below.size(); ++i)
+      group_members[static_cast<std::size_t>(group[i])].push_back(i);
     for (int g = 0; g < groups; ++g) {
       std::size_t deepest = below.size();
       std::vector<Vec3> members;
       std::vector<Member> refined;
-      for (std::size_t i = 0; i < below.size(); ++i) {
-        if (group[i] != g) continue;
+      for (const std::size_t i : group_members[static_cast<std::size_t>(g)]) {
         members.push_back(below[i].r);
         if (below[i].refined) refined.push_back(below[i]);
         if (deepest == below.size() || below[i].v < below[deepest].v) deepest = i;

@@ -122,9 +122,11 @@ class FieldPlan {
   // on no directions too. Thread-safe.
   FarField ExecuteAt(const Eigen::VectorXcd& currents_a, const Directions& directions) const;
   // The fast path at directions of the caller's, for many small evaluations at one
-  // current vector (off-grid searches of large arrays on a lattice): the lattice
-  // transform's grid is made once per current vector (kept for the next call with
-  // the same currents), then a direction costs O(kernel points), not O(sources).
+  // current vector (off-grid searches of large arrays): the transform's grid (lattice
+  // or type 3) is made once per current vector (kept for the next call with the same
+  // currents), then a direction costs O(kernel points), not O(sources). Type 3 takes
+  // directions within the box of the plan's own (a plan on directions spanning the
+  // sphere's box takes any).
   // One pass at the plan's fixed_pass_tolerance (tolerance_relative when it is 0),
   // rounded down to a power of ten; *error_bound_v gets the bound on |rE - exact rE|
   // (V) of every direction, the fast path's error model on sum |I Le| plus the
@@ -132,8 +134,8 @@ class FieldPlan {
   // call. Only where probes_fast(); throws InternalError elsewhere. Thread-safe.
   FarField ExecuteAtFast(const Eigen::VectorXcd& currents_a, const Directions& directions,
                          double* error_bound_v) const;
-  // The plan took the fast path with the lattice transform (ExecuteAtFast).
-  bool probes_fast() const { return fast_transform_ == FastTransform::kLattice; }
+  // The plan took the fast path (ExecuteAtFast).
+  bool probes_fast() const { return fast_transform_ != FastTransform::kNone; }
 
   // The adjoint of Execute. A is the linear map currents -> (rE_theta, rE_phi) at
   // the plan's directions that Execute applies (images fold back onto their

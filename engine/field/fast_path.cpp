@@ -146,8 +146,8 @@ FarField FieldPlan::ExecuteAtFast(const Eigen::VectorXcd& currents_a, const Dire
   LOBECAST_CHECK(probes_fast());
   LOBECAST_CHECK_EQ(static_cast<std::size_t>(currents_a.size()), num_dipoles_);
   const int comps = collinear_ ? 1 : 3;
-  std::shared_ptr<const LatticeSum> sum;
-  std::shared_ptr<const LatticeSum::Prepared> grid;
+  std::shared_ptr<const PointSum> sum;
+  std::shared_ptr<const PointSum::Prepared> grid;
   double bound = 0;
   {
     const std::lock_guard<std::mutex> lock(fast_->mutex);
@@ -157,8 +157,14 @@ FarField FieldPlan::ExecuteAtFast(const Eigen::VectorXcd& currents_a, const Dire
       const double asked = fixed_pass_tolerance_ > 0 ? fixed_pass_tolerance_ : tolerance_relative_;
       const double eps = std::max(1e-14, std::pow(10.0, std::floor(std::log10(asked))));
       if (!cache.probe_sum) {
-        cache.probe_sum = std::make_shared<const LatticeSum>(*lattice_, Eigen::Matrix3Xd(3, 0),
-                                                             NufftOptions{eps, num_threads_});
+        const NufftOptions o{eps, num_threads_};
+        // The lattice transform takes any targets; type 3 those in the box of the
+        // plan's directions.
+        if (fast_transform_ == FastTransform::kLattice)
+          cache.probe_sum =
+              std::make_shared<const LatticeSum>(*lattice_, Eigen::Matrix3Xd(3, 0), o);
+        else
+          cache.probe_sum = std::make_shared<const Nufft3>(source_pos_, dirs_.k_r_hat, o);
       }
       const Eigen::Index ns = source_pos_.cols();
       Eigen::MatrixXcd strengths(ns, comps);

@@ -34,10 +34,10 @@ struct FieldPlan::FastCache {
   // NUFFT plans by tolerance exponent (the kernel width depends only on it), kept
   // for the next current vector: O(directions) memory each, at most two in use.
   std::map<int, std::shared_ptr<const PointSum>> plans;
-  // ExecuteAtFast's: a lattice sum of no targets, the grid of the currents kept, and
-  // the bound of its values (V).
-  std::shared_ptr<const LatticeSum> probe_sum;
-  std::shared_ptr<const LatticeSum::Prepared> probe_grid;
+  // ExecuteAtFast's: the transform (for targets anywhere in the plan directions' box),
+  // the grid of the currents kept, and the bound of its values (V).
+  std::shared_ptr<const PointSum> probe_sum;
+  std::shared_ptr<const PointSum::Prepared> probe_grid;
   Eigen::VectorXcd probe_currents;
   double probe_bound_v = 0;
 };

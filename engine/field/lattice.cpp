@@ -10,6 +10,7 @@
 
 #include <omp.h>
 
+#include "engine/check.h"
 #include "engine/error.h"
 #include "engine/field/sincos.h"
 
@@ -258,17 +259,23 @@ Eigen::VectorXcd LatticeSum::LayerPhases(int layer) const {
   return phases;
 }
 
-Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
+std::vector<Eigen::MatrixXcd> LatticeSum::LayerCoefficients(
+    const Eigen::MatrixXcd& strengths) const {
   CheckRows(strengths, num_points_, "strengths");
-  const Eigen::Index nc = strengths.cols();
   const auto rows = static_cast<Eigen::Index>(layer_sum_->num_modes());
   // Strengths summed per site, layer by layer (in point order: deterministic).
   std::vector<Eigen::MatrixXcd> coefficients(static_cast<std::size_t>(shape_.layers),
-                                             Eigen::MatrixXcd::Zero(rows, nc));
+                                             Eigen::MatrixXcd::Zero(rows, strengths.cols()));
   for (std::size_t j = 0; j < num_points_; ++j) {
     coefficients[static_cast<std::size_t>(point_layer_[j])].row(point_row_[j]) +=
         strengths.row(static_cast<Eigen::Index>(j));
   }
+  return coefficients;
+}
+
+Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
+  const std::vector<Eigen::MatrixXcd> coefficients = LayerCoefficients(strengths);
+  const Eigen::Index nc = strengths.cols();
   const Eigen::Index nk = target_factor_.size();
   Eigen::MatrixXcd out = Eigen::MatrixXcd::Zero(nk, nc);
   for (int layer = 0; layer < shape_.layers; ++layer) {
@@ -283,31 +290,27 @@ Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
   return out;
 }
 
-struct LatticeSum::Prepared {
+namespace {
+struct LatticePrepared : PointSum::Prepared {
   std::vector<std::shared_ptr<const Nufft2::Prepared>> layers;
   Eigen::Index components = 0;
 };
+}  // namespace
 
-std::shared_ptr<const LatticeSum::Prepared> LatticeSum::Prepare(
+std::shared_ptr<const PointSum::Prepared> LatticeSum::Prepare(
     const Eigen::MatrixXcd& strengths) const {
-  CheckRows(strengths, num_points_, "strengths");
-  const Eigen::Index nc = strengths.cols();
-  const auto rows = static_cast<Eigen::Index>(layer_sum_->num_modes());
-  // As Execute: strengths summed per site, layer by layer, in point order.
-  std::vector<Eigen::MatrixXcd> coefficients(static_cast<std::size_t>(shape_.layers),
-                                             Eigen::MatrixXcd::Zero(rows, nc));
-  for (std::size_t j = 0; j < num_points_; ++j) {
-    coefficients[static_cast<std::size_t>(point_layer_[j])].row(point_row_[j]) +=
-        strengths.row(static_cast<Eigen::Index>(j));
-  }
-  auto p = std::make_shared<Prepared>();
-  p->components = nc;
-  for (const Eigen::MatrixXcd& c : coefficients) p->layers.push_back(layer_sum_->Prepare(c));
+  auto p = std::make_shared<LatticePrepared>();
+  p->components = strengths.cols();
+  for (const Eigen::MatrixXcd& c : LayerCoefficients(strengths))
+    p->layers.push_back(layer_sum_->Prepare(c));
   return p;
 }
 
-Eigen::MatrixXcd LatticeSum::ExecuteAt(const Prepared& prepared,
+Eigen::MatrixXcd LatticeSum::ExecuteAt(const Prepared& base,
                                        const Eigen::Matrix3Xd& targets) const {
+  const auto* p = dynamic_cast<const LatticePrepared*>(&base);
+  if (!p) throw InternalError("LatticeSum::ExecuteAt: found another transform's prepared grid");
+  const LatticePrepared& prepared = *p;
   // The constructor's target data and Execute's steps, for these targets.
   const Eigen::Index nk = targets.cols(), nc = prepared.components;
   Eigen::Matrix3Xd t = Eigen::Matrix3Xd::Zero(3, nk);

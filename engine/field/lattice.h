@@ -66,19 +66,19 @@ class LatticeSum : public PointSum {
   // max_k |s_k| * max_offset: the phase error of placing points on their sites.
   double representation_error() const override { return representation_error_; }
 
-  // Execute in two halves (Nufft2::Prepare): the layers' transformed grids for one
-  // set of strengths, then the sums at any targets (3 x K, as the constructor's),
-  // O(w^d) a target. The error is Execute's; placing the points on their sites
-  // adds max_k |s_k| * max_offset of phase for these targets.
-  struct Prepared;  // lattice.cpp
-  std::shared_ptr<const Prepared> Prepare(const Eigen::MatrixXcd& strengths) const;
-  Eigen::MatrixXcd ExecuteAt(const Prepared& prepared, const Eigen::Matrix3Xd& targets) const;
+  // PointSum::Prepare and ExecuteAt (Nufft2::Prepare per layer); placing the points on
+  // their sites adds max_k |s_k| * max_offset of phase for these targets.
+  std::shared_ptr<const Prepared> Prepare(const Eigen::MatrixXcd& strengths) const override;
+  Eigen::MatrixXcd ExecuteAt(const Prepared& prepared,
+                             const Eigen::Matrix3Xd& targets) const override;
 
   const LatticeShape& shape() const { return shape_; }
 
  private:
   // Throws unless m is rows x 1 to 3.
   void CheckRows(const Eigen::MatrixXcd& m, std::size_t rows, const char* what) const;
+  // The strengths summed per site, one mode matrix per layer (in point order).
+  std::vector<Eigen::MatrixXcd> LayerCoefficients(const Eigen::MatrixXcd& strengths) const;
   // exp(i sum over layered dimensions of t_d n_d) per target, n the layer's site.
   Eigen::VectorXcd LayerPhases(int layer) const;
 

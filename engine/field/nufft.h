@@ -26,6 +26,7 @@
 #pragma once
 
 #include <array>
+#include <complex>
 #include <cstddef>
 #include <memory>
 #include <vector>
@@ -33,6 +34,10 @@
 #include <Eigen/Core>
 
 namespace lobecast {
+
+namespace nufft_grid {
+class KernelTransform;  // nufft_grid.h
+}  // namespace nufft_grid
 
 struct NufftOptions {
   // Requested accuracy, relative to sum_j |c_j|; 1e-14 to 1e-1.
@@ -60,6 +65,19 @@ class PointSum {
   virtual Eigen::MatrixXcd Adjoint(const Eigen::MatrixXcd& values) const = 0;
   // An error beyond the kernel's, relative to sum_j |c_j| (0: none).
   virtual double representation_error() const { return 0.0; }
+
+  // Execute in two halves, for many small sets of targets at one set of strengths
+  // (off-grid searches): Prepare makes the strengths' transformed grid once
+  // (O(grid log grid)); ExecuteAt sums it at any targets (3 x K) within the box of
+  // the constructor's targets, O(w^d) a target, with Execute's error. A target's
+  // value does not depend on the others of its call or on threads.
+  struct Prepared {
+    virtual ~Prepared() = default;
+  };
+  virtual std::shared_ptr<const Prepared> Prepare(const Eigen::MatrixXcd& strengths) const = 0;
+  // prepared: from this object's Prepare.
+  virtual Eigen::MatrixXcd ExecuteAt(const Prepared& prepared,
+                                     const Eigen::Matrix3Xd& targets) const = 0;
 };
 
 // The sizes a transform will use, computable without building it (cost models).
@@ -139,6 +157,10 @@ class Nufft3 : public PointSum {
   Eigen::MatrixXcd Execute(const Eigen::MatrixXcd& strengths) const override;
   // values: M x C; returns N x C (PointSum::Adjoint).
   Eigen::MatrixXcd Adjoint(const Eigen::MatrixXcd& values) const override;
+  // PointSum::Prepare and ExecuteAt: targets within the box of the constructor's.
+  std::shared_ptr<const Prepared> Prepare(const Eigen::MatrixXcd& strengths) const override;
+  Eigen::MatrixXcd ExecuteAt(const Prepared& prepared,
+                             const Eigen::Matrix3Xd& targets) const override;
 
   const NufftGeometry& geometry() const { return geometry_; }
 
@@ -150,10 +172,18 @@ class Nufft3 : public PointSum {
     int n = 1;     // spread grid size
   };
   Eigen::Matrix3Xd GridCoordinates() const;  // the points on the spread grid, cell units
+  // The spread grid of c_j exp(i D . x'_j) (cells x C): Execute's first stage.
+  Eigen::MatrixXcd SpreadGrid(const Eigen::MatrixXcd& strengths) const;
+  // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d) (s in the caller's axes).
+  std::complex<double> TargetFactor(const Eigen::Vector3d& s) const;
+  // The type-2 stage's targets: s' h per internal dimension (s in the caller's axes).
+  Eigen::Matrix3Xd StageTwoTargets(const Eigen::Matrix3Xd& targets) const;
 
   NufftGeometry geometry_;
-  std::array<Dim, 3> dims_;
+  std::array<Dim, 3> dims_;           // internal order: the trivial dimensions first
+  std::array<int, 3> axis_{0, 1, 2};  // axis_[i]: the caller's dimension in internal slot i
   double beta_ = 0;
+  std::shared_ptr<const nufft_grid::KernelTransform> phi_hat_;  // the kernel's transform
   int num_threads_ = 0;
   Eigen::Matrix3Xd points_;                 // centred
   Eigen::VectorXcd point_phase_;            // exp(i D . x'), D the targets' centre

@@ -11,6 +11,7 @@
 
 #include <fftw3.h>
 
+#include "engine/check.h"
 #include "engine/constants.h"
 #include "engine/error.h"
 #include "engine/field/nufft_grid.h"
@@ -47,11 +48,12 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
       num_threads_(options.num_threads) {
   const int w = geometry_.kernel_width;
   beta_ = 2.30 * w;  // as in Nufft2
-  const KernelTransform phi_hat(beta_, w);
+  phi_hat_ = std::make_shared<const KernelTransform>(beta_, w);
 
+  std::array<Dim, 3> dims;  // in the caller's order
   Eigen::Vector3d cx = Eigen::Vector3d::Zero(), cs = Eigen::Vector3d::Zero();
   for (int d = 0; d < 3; ++d) {
-    Dim& dim = dims_[static_cast<std::size_t>(d)];
+    Dim& dim = dims[static_cast<std::size_t>(d)];
     const Range x = RangeOf(points, d), s = RangeOf(targets, d);
     dim.centre_x = cx[d] = x.centre;
     dim.centre_s = cs[d] = s.centre;
@@ -59,59 +61,63 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
     dim.active = dim.n > 1;
     if (dim.active) dim.h = kPi / (kUpsampling * s.half_width);
   }
-  points_ = points.colwise() - cx;
-  // Centred targets; after the target factors they become the type-2 stage's.
-  Eigen::Matrix3Xd centred = targets.colwise() - cs;
+  const Eigen::Matrix3Xd centred = points.colwise() - cx;
 
   // exp(i s . x) = exp(i s . C) exp(i D . x') exp(i s' . x').
-  point_phase_.resize(points_.cols());
-  for (Eigen::Index j = 0; j < points_.cols(); ++j) {
-    const double p = cs.dot(points_.col(j));
+  point_phase_.resize(centred.cols());
+  for (Eigen::Index j = 0; j < centred.cols(); ++j) {
+    const double p = cs.dot(centred.col(j));
     point_phase_[j] = Complex(std::cos(p), std::sin(p));
-  }
-  // Per target: exp(i s . C) prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi).
-  target_factor_.resize(centred.cols());
-  const auto m = static_cast<std::ptrdiff_t>(centred.cols());
-#pragma omp parallel for num_threads(ResolveThreads(num_threads_)) schedule(static)
-  for (std::ptrdiff_t k = 0; k < m; ++k) {
-    double scale = 1.0;
-    for (int d = 0; d < 3; ++d) {
-      const Dim& dim = dims_[static_cast<std::size_t>(d)];
-      if (!dim.active) continue;
-      const double alpha = 0.5 * w * dim.h;
-      scale *= dim.h / (alpha * phi_hat(alpha * centred(d, k)));
-    }
-    const double p = targets.col(k).dot(cx);
-    target_factor_[k] = scale * Complex(std::cos(p), std::sin(p));
   }
   // Internally the trivial dimensions come first, so the innermost (contiguous)
   // grid loop always runs over an active dimension: planar arrays run as (x, y).
-  std::array<int, 3> order{0, 1, 2};
-  std::stable_partition(order.begin(), order.end(),
-                        [&](int d) { return !dims_[static_cast<std::size_t>(d)].active; });
-  // Stage 3: the spread grid (cell i <-> l = i - n/2) summed at s' h (radians
-  // per cell) by a type-2 transform; its targets are built in the centred
-  // matrix, so a dense grid holds one copy of them (rows permuted in place).
-  const std::array<Dim, 3> dims = dims_;
-  const Eigen::Matrix3Xd p = points_;
-  for (int d = 0; d < 3; ++d) centred.row(d) *= dims[static_cast<std::size_t>(d)].h;
+  std::stable_partition(axis_.begin(), axis_.end(),
+                        [&](int d) { return !dims[static_cast<std::size_t>(d)].active; });
+  points_.resize(3, centred.cols());
   std::array<int, 3> modes{};
-  std::array<int, 3> at{0, 1, 2};  // at[d]: the row now holding dimension d
-  for (int i = 0; i < 3; ++i) {
-    const auto o = static_cast<std::size_t>(order[static_cast<std::size_t>(i)]);
-    dims_[static_cast<std::size_t>(i)] = dims[o];
-    modes[static_cast<std::size_t>(i)] = dims[o].n;
-    points_.row(i) = p.row(static_cast<Eigen::Index>(o));
-    const int from = at[o];
-    if (from != i) {
-      centred.row(i).swap(centred.row(from));
-      for (int& r : at) {
-        if (r == i) r = from;
-      }
-      at[o] = i;
-    }
+  for (std::size_t i = 0; i < 3; ++i) {
+    const auto d = static_cast<std::size_t>(axis_[i]);
+    dims_[i] = dims[d];
+    modes[i] = dims[d].n;
+    points_.row(static_cast<Eigen::Index>(i)) = centred.row(static_cast<Eigen::Index>(d));
   }
-  grid_sum_ = std::make_unique<const Nufft2>(modes, std::move(centred), options);
+  target_factor_.resize(targets.cols());
+  const auto m = static_cast<std::ptrdiff_t>(targets.cols());
+#pragma omp parallel for num_threads(ResolveThreads(num_threads_)) schedule(static)
+  for (std::ptrdiff_t k = 0; k < m; ++k) target_factor_[k] = TargetFactor(targets.col(k));
+  // Stage 3: the spread grid (cell i <-> l = i - n/2) summed at s' h (radians per
+  // cell) by a type-2 transform.
+  grid_sum_ = std::make_unique<const Nufft2>(modes, StageTwoTargets(targets), options);
+}
+
+Complex Nufft3::TargetFactor(const Eigen::Vector3d& s) const {
+  // prod_d h_d / psi_hat_d(s'_d), psi_hat = alpha phi_hat(alpha xi), in the caller's
+  // order of dimensions.
+  const int w = geometry_.kernel_width;
+  const KernelTransform& phi_hat = *phi_hat_;
+  std::array<const Dim*, 3> dim{};
+  for (std::size_t i = 0; i < 3; ++i) dim[static_cast<std::size_t>(axis_[i])] = &dims_[i];
+  double scale = 1.0;
+  Eigen::Vector3d cx;
+  for (std::size_t d = 0; d < 3; ++d) {
+    cx[static_cast<Eigen::Index>(d)] = dim[d]->centre_x;
+    if (!dim[d]->active) continue;
+    const double alpha = 0.5 * w * dim[d]->h;
+    scale *=
+        dim[d]->h / (alpha * phi_hat(alpha * (s[static_cast<Eigen::Index>(d)] - dim[d]->centre_s)));
+  }
+  const double p = s.dot(cx);
+  return scale * Complex(std::cos(p), std::sin(p));
+}
+
+Eigen::Matrix3Xd Nufft3::StageTwoTargets(const Eigen::Matrix3Xd& targets) const {
+  Eigen::Matrix3Xd t(3, targets.cols());
+  for (std::size_t i = 0; i < 3; ++i) {
+    const Dim& dim = dims_[i];
+    const auto r = static_cast<Eigen::Index>(i);
+    t.row(r) = (targets.row(axis_[i]).array() - dim.centre_s) * dim.h;
+  }
+  return t;
 }
 
 Eigen::Matrix3Xd Nufft3::GridCoordinates() const {
@@ -125,7 +131,7 @@ Eigen::Matrix3Xd Nufft3::GridCoordinates() const {
   return u;
 }
 
-Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
+Eigen::MatrixXcd Nufft3::SpreadGrid(const Eigen::MatrixXcd& strengths) const {
   CheckStrengths(strengths, points_.cols(), "strengths (one row per point)");
   const auto nc = static_cast<int>(strengths.cols());
   GridView view = GridView::Of(nullptr, {dims_[0].n, dims_[1].n, dims_[2].n}, nc, beta_,
@@ -136,8 +142,34 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
   Eigen::MatrixXcd phased(points_.cols(), nc);
   for (int c = 0; c < nc; ++c) phased.col(c) = strengths.col(c).cwiseProduct(point_phase_);
   SpreadPoints(grid.data(), view, GridCoordinates(), phased, ResolveThreads(num_threads_));
-  Eigen::MatrixXcd out = grid_sum_->Execute(grid);
-  for (int a = 0; a < nc; ++a) out.col(a) = out.col(a).cwiseProduct(target_factor_);
+  return grid;
+}
+
+Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
+  Eigen::MatrixXcd out = grid_sum_->Execute(SpreadGrid(strengths));
+  for (Eigen::Index a = 0; a < out.cols(); ++a)
+    out.col(a) = out.col(a).cwiseProduct(target_factor_);
+  return out;
+}
+
+namespace {
+struct Type3Prepared : PointSum::Prepared {
+  std::shared_ptr<const Nufft2::Prepared> grid;
+};
+}  // namespace
+
+std::shared_ptr<const PointSum::Prepared> Nufft3::Prepare(const Eigen::MatrixXcd& strengths) const {
+  auto p = std::make_shared<Type3Prepared>();
+  p->grid = grid_sum_->Prepare(SpreadGrid(strengths));
+  return p;
+}
+
+Eigen::MatrixXcd Nufft3::ExecuteAt(const Prepared& prepared,
+                                   const Eigen::Matrix3Xd& targets) const {
+  const auto* p = dynamic_cast<const Type3Prepared*>(&prepared);
+  if (!p) throw InternalError("Nufft3::ExecuteAt: found another transform's prepared grid");
+  Eigen::MatrixXcd out = grid_sum_->InterpolateAt(*p->grid, StageTwoTargets(targets));
+  for (Eigen::Index k = 0; k < targets.cols(); ++k) out.row(k) *= TargetFactor(targets.col(k));
   return out;
 }
 
