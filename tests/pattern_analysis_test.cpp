@@ -353,37 +353,55 @@ testing::TestArray ZPlanarLattice(int nx, int ny) {
   return a;
 }
 
-TEST(PatternProbe, SearchValuesOfALargeLatticeAreWithinTheirBoundInAnyBatch) {
-  // 92 x 90 sources (above the 8192 from which the searches read the lattice
-  // transform): AtSearch within search_error_v of the exact sums, the bound itself
-  // far below the peak, and a direction's value the same bits alone as in a batch.
-  const testing::TestArray a = ZPlanarLattice(92, 90);
+// AtSearch within search_error_v of the exact sums, the bound itself far below the
+// largest possible |rE|, and a direction's value the same bits alone as in a batch.
+void ExpectSearchValuesWithinTheirBound(const testing::TestArray& a) {
   const PatternProbe probe(a, a.currents, 1.0);
   ASSERT_FALSE(probe.search_is_exact());
   std::vector<Vec3> r;
   testing::TestRng rng(41);
-  for (int i = 0; i < 300; ++i) {
-    const double z = rng.Uniform(-1, 1), p = rng.Uniform(0, 2 * kPi), q = std::sqrt(1 - z * z);
-    r.emplace_back(q * std::cos(p), q * std::sin(p), z);
-  }
+  for (int i = 0; i < 300; ++i) r.push_back(rng.UnitVector());
+  r.push_back(Vec3::UnitX());  // the box's faces
+  r.push_back(-Vec3::UnitZ());
   const std::vector<ProbeSample> fast = probe.AtSearch(r), exact = probe.AtExact(r);
   // |rE| <= (w mu0 / 4 pi) sum |I Le| everywhere (mu0 / 4 pi = 1e-7 H/m to 1e-9).
-  const double most = 2 * kPi * kTestFrequency_hz * 1e-7 * 92 * 90 * Lambda() / 100;
+  double l1 = 0;
+  for (std::size_t n = 0; n < a.dipoles.size(); ++n)
+    l1 += std::abs(a.currents[static_cast<Eigen::Index>(n)]) * a.dipoles[n].effective_length_m();
+  const double most = 2 * kPi * kTestFrequency_hz * 1e-7 * l1;
   EXPECT_LT(probe.search_error_v(), 1e-12 * most);
   double worst = 0.0;
   for (std::size_t i = 0; i < r.size(); ++i)
     worst = std::max(worst, (fast[i].FieldVector_v() - exact[i].FieldVector_v()).norm());
   EXPECT_LE(worst, probe.search_error_v());
   EXPECT_GT(worst, 0.0);
-  for (const std::size_t i : {std::size_t{0}, std::size_t{123}, std::size_t{299}}) {
+  for (const std::size_t i : {std::size_t{0}, std::size_t{123}, std::size_t{301}}) {
     const ProbeSample one = probe.AtSearch(std::vector<Vec3>{r[i]})[0];
     EXPECT_EQ(one.e_theta, fast[i].e_theta);
     EXPECT_EQ(one.e_phi, fast[i].e_phi);
   }
   EXPECT_EQ(probe.search_evaluations(), r.size() + 3);
+}
+
+TEST(PatternProbe, SearchValuesOfALargeLatticeAreWithinTheirBoundInAnyBatch) {
+  // 92 x 90 sources, above the 8192 from which the searches read a transform (here
+  // the lattice's).
+  ExpectSearchValuesWithinTheirBound(ZPlanarLattice(92, 90));
   // Small arrays search on the exact sums.
   const testing::TestArray small = ZPlanarLattice(4, 3);
   EXPECT_TRUE(PatternProbe(small, small.currents, 1.0).search_is_exact());
+}
+
+TEST(PatternProbe, SearchValuesOfALargeRandomArrayAreWithinTheirBound) {
+  // 8300 dipoles at random positions in a 3-wavelength box, random orientations and
+  // currents (testing::RandomArray: the type-3 transform, all three moment
+  // components), in free space and over a PEC ground (images counted as sources).
+  testing::TestRng rng(43);
+  for (const Ground g : {Ground::kNone, Ground::kPec}) {
+    const testing::TestArray a = testing::RandomArray(rng, 8300, g, 3.0);
+    SCOPED_TRACE(g == Ground::kNone ? "free space" : "PEC ground");
+    ExpectSearchValuesWithinTheirBound(a);
+  }
 }
 
 TEST(PatternAnalysis, LargeLatticeNullsAreItsConesAndExact) {
