@@ -129,14 +129,9 @@ std::vector<ProbeSample> PatternProbe::AtExact(const std::vector<Vec3>& r_hat) c
 
 std::vector<ProbeSample> PatternProbe::Evaluate(const std::vector<Vec3>& r_hat,
                                                 bool allow_fast) const {
-  std::vector<ProbeSample> out(r_hat.size());
-  if (r_hat.empty()) return out;
-  std::vector<double> theta(r_hat.size()), phi(r_hat.size());
-  for (std::size_t i = 0; i < r_hat.size(); ++i) {
-    const SphericalAngles s = AnglesOf(r_hat[i]);
-    theta[i] = s.theta_rad;
-    phi[i] = s.phi_rad;
-  }
+  if (r_hat.empty()) return {};
+  std::vector<double> theta, phi;
+  AnglesOfAll(r_hat, &theta, &phi);
   // Exact sums (null depths reach rounding) on the plan built once for the sources; a
   // large batch of a large array (a cut's samples, the axial-ratio sampling) gets a plan
   // of its own, whose auto choice takes the fast path where it is cheaper.
@@ -157,7 +152,24 @@ std::vector<ProbeSample> PatternProbe::Evaluate(const std::vector<Vec3>& r_hat,
   // Callers may evaluate from several threads at once (RefineMaxima's polish).
 #pragma omp atomic
   evaluations_ += r_hat.size();
+  return Samples(f, theta, phi);
+}
+
+void PatternProbe::AnglesOfAll(const std::vector<Vec3>& r_hat, std::vector<double>* theta,
+                               std::vector<double>* phi) {
+  theta->resize(r_hat.size());
+  phi->resize(r_hat.size());
   for (std::size_t i = 0; i < r_hat.size(); ++i) {
+    const SphericalAngles s = AnglesOf(r_hat[i]);
+    (*theta)[i] = s.theta_rad;
+    (*phi)[i] = s.phi_rad;
+  }
+}
+
+std::vector<ProbeSample> PatternProbe::Samples(const FarField& f, const std::vector<double>& theta,
+                                               const std::vector<double>& phi) const {
+  std::vector<ProbeSample> out(theta.size());
+  for (std::size_t i = 0; i < theta.size(); ++i) {
     ProbeSample& s = out[i];
     s.theta_rad = theta[i];
     s.phi_rad = phi[i];
@@ -174,28 +186,13 @@ std::vector<ProbeSample> PatternProbe::Evaluate(const std::vector<Vec3>& r_hat,
 std::vector<ProbeSample> PatternProbe::AtSearch(const std::vector<Vec3>& r_hat) const {
   const std::shared_ptr<const FieldPlan>& plan = Search().plan;
   if (!plan) return AtExact(r_hat);
-  std::vector<ProbeSample> out(r_hat.size());
-  if (r_hat.empty()) return out;
-  std::vector<double> theta(r_hat.size()), phi(r_hat.size());
-  for (std::size_t i = 0; i < r_hat.size(); ++i) {
-    const SphericalAngles s = AnglesOf(r_hat[i]);
-    theta[i] = s.theta_rad;
-    phi[i] = s.phi_rad;
-  }
+  if (r_hat.empty()) return {};
+  std::vector<double> theta, phi;
+  AnglesOfAll(r_hat, &theta, &phi);
   const FarField f = plan->ExecuteAtFast(currents_, Directions::FromAngles(theta, phi), nullptr);
 #pragma omp atomic
   search_evaluations_ += r_hat.size();
-  for (std::size_t i = 0; i < r_hat.size(); ++i) {
-    ProbeSample& s = out[i];
-    s.theta_rad = theta[i];
-    s.phi_rad = phi[i];
-    s.e_theta = Floored(f.e_theta[static_cast<Eigen::Index>(i)], floor_v_);
-    s.e_phi = Floored(f.e_phi[static_cast<Eigen::Index>(i)], floor_v_);
-    s.floor_v = floor_v_;
-    s.directivity = per_v2_ * (std::norm(s.e_theta) + std::norm(s.e_phi));
-    s.no_field = BelowGround(array_.ground, theta[i]);
-  }
-  return out;
+  return Samples(f, theta, phi);
 }
 
 ProbeSample PatternProbe::At(const Vec3& r_hat) const { return At(std::vector<Vec3>{r_hat})[0]; }

@@ -108,6 +108,11 @@ class PatternProbe {
 
  private:
   std::vector<ProbeSample> Evaluate(const std::vector<Vec3>& r_hat, bool allow_fast) const;
+  static void AnglesOfAll(const std::vector<Vec3>& r_hat, std::vector<double>* theta,
+                          std::vector<double>* phi);
+  // The samples of a field at these angles, floored as the grid is.
+  std::vector<ProbeSample> Samples(const FarField& f, const std::vector<double>& theta,
+                                   const std::vector<double>& phi) const;
 
   Array array_;
   Eigen::VectorXcd currents_;

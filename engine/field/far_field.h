@@ -211,6 +211,10 @@ class FieldPlan {
   // The fast path's transform at tolerance eps (cached by its exponent); the
   // caller holds cache.mutex.
   std::shared_ptr<const PointSum> FastPlanLocked(FastCache& cache, double eps) const;
+  // The fast transforms' strengths of these currents (sources x 1 collinear, else
+  // x 3: I Le u per source); *l1 gets sum_s |I_s| |Le_s u_s|, which bounds every
+  // component's sum.
+  Eigen::MatrixXcd FastStrengths(const Eigen::VectorXcd& currents_a, double* l1) const;
   DipoleSums AdjointFast(const Eigen::Matrix3Xcd& v) const;
 
   // The cost model behind kAuto and the transform choice (method_cost.cpp).

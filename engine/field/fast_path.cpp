@@ -74,25 +74,32 @@ std::shared_ptr<const PointSum> FieldPlan::FastPlanLocked(FastCache& cache, doub
   return it->second;
 }
 
+Eigen::MatrixXcd FieldPlan::FastStrengths(const Eigen::VectorXcd& currents_a, double* l1) const {
+  const Eigen::Index ns = source_pos_.cols();
+  Eigen::MatrixXcd strengths(ns, collinear_ ? 1 : 3);
+  *l1 = 0;
+  for (Eigen::Index s = 0; s < ns; ++s) {
+    const Complex c = currents_a[source_dipole_[static_cast<std::size_t>(s)]];
+    if (collinear_) {
+      strengths(s, 0) = c * signed_moment_m_[static_cast<std::size_t>(s)];
+    } else {
+      for (int a = 0; a < 3; ++a) strengths(s, a) = c * source_moment_(a, s);
+    }
+    *l1 += std::abs(c) * source_moment_.col(s).norm();
+  }
+  return strengths;
+}
+
 void FieldPlan::ExecuteFast(const Eigen::VectorXcd& currents_a, std::size_t first,
                             std::size_t count, FarField& out) const {
   const std::lock_guard<std::mutex> lock(fast_->mutex);
   FastCache& cache = *fast_;
   if (!cache.valid || cache.currents.size() != currents_a.size() || cache.currents != currents_a) {
     cache.valid = false;
-    const Eigen::Index ns = source_pos_.cols(), nd = dirs_.k_r_hat.cols();
+    const Eigen::Index nd = dirs_.k_r_hat.cols();
     const int comps = collinear_ ? 1 : 3;
-    Eigen::MatrixXcd strengths(ns, comps);
-    double l1 = 0;  // sum_s |I_s| |Le_s u_s|, bounds every component's sum
-    for (Eigen::Index s = 0; s < ns; ++s) {
-      const Complex c = currents_a[source_dipole_[static_cast<std::size_t>(s)]];
-      if (collinear_) {
-        strengths(s, 0) = c * signed_moment_m_[static_cast<std::size_t>(s)];
-      } else {
-        for (int a = 0; a < 3; ++a) strengths(s, a) = c * source_moment_(a, s);
-      }
-      l1 += std::abs(c) * source_moment_.col(s).norm();
-    }
+    double l1 = 0;
+    const Eigen::MatrixXcd strengths = FastStrengths(currents_a, &l1);
     const Complex minus_j_pref(0.0, -prefactor_);
     cache.field.e_theta.resize(nd);
     cache.field.e_phi.resize(nd);
@@ -166,19 +173,8 @@ FarField FieldPlan::ExecuteAtFast(const Eigen::VectorXcd& currents_a, const Dire
         else
           cache.probe_sum = std::make_shared<const Nufft3>(source_pos_, dirs_.k_r_hat, o);
       }
-      const Eigen::Index ns = source_pos_.cols();
-      Eigen::MatrixXcd strengths(ns, comps);
-      double l1 = 0;  // sum_s |I_s| |Le_s u_s|, as ExecuteFast
-      for (Eigen::Index s = 0; s < ns; ++s) {
-        const Complex c = currents_a[source_dipole_[static_cast<std::size_t>(s)]];
-        if (collinear_) {
-          strengths(s, 0) = c * signed_moment_m_[static_cast<std::size_t>(s)];
-        } else {
-          for (int a = 0; a < 3; ++a) strengths(s, a) = c * source_moment_(a, s);
-        }
-        l1 += std::abs(c) * source_moment_.col(s).norm();
-      }
-      cache.probe_grid = cache.probe_sum->Prepare(strengths);
+      double l1 = 0;
+      cache.probe_grid = cache.probe_sum->Prepare(FastStrengths(currents_a, &l1));
       cache.probe_currents = currents_a;
       cache.probe_bound_v =
           prefactor_ * std::sqrt(comps) * l1 * (kErrorModel * eps + lattice_phase_error_);

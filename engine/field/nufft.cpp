@@ -167,10 +167,22 @@ void ForEachMode(const std::array<int, 3>& modes, const std::array<int, 3>& n2, 
 
 }  // namespace
 
+struct Nufft2::Prepared {
+  FftwBuffer buffer;
+  GridView view;
+};
+
 Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
+  // Steps 1 and 2 (Prepare), then 3: interpolate at each target with the kernel, in
+  // blocks of targets.
+  return Interpolate(Prepare(coefficients)->view, targets_, ResolveThreads(num_threads_));
+}
+
+std::shared_ptr<const Nufft2::Prepared> Nufft2::Prepare(
+    const Eigen::MatrixXcd& coefficients) const {
   CheckStrengths(coefficients, static_cast<Eigen::Index>(num_modes()), "coefficients");
   const auto nc = static_cast<int>(coefficients.cols());
-  const PaddedGrid g = plans_->NewGrid(geometry_, beta_, nc, FFTW_BACKWARD);
+  PaddedGrid g = plans_->NewGrid(geometry_, beta_, nc, FFTW_BACKWARD);
   Complex* const grid = g.buffer.get();
   // 1. Deconvolved modes into the zero-padded grid (mode l at cell l mod n2).
   ForEachMode(modes_, g.view.n2, g.view.plane, deconvolution_,
@@ -180,28 +192,6 @@ Eigen::MatrixXcd Nufft2::Execute(const Eigen::MatrixXcd& coefficients) const {
                       f * coefficients(row, a);
               });
   // 2. g_m = sum_l b_l exp(+i 2 pi l m / n2): FFTW's backward transform.
-  fftw_execute_dft(g.plan, AsFftw(grid), AsFftw(grid));
-  // 3. Interpolate at each target with the kernel, in blocks of targets.
-  return Interpolate(g.view, targets_, ResolveThreads(num_threads_));
-}
-
-struct Nufft2::Prepared {
-  FftwBuffer buffer;
-  GridView view;
-};
-
-std::shared_ptr<const Nufft2::Prepared> Nufft2::Prepare(
-    const Eigen::MatrixXcd& coefficients) const {
-  CheckStrengths(coefficients, static_cast<Eigen::Index>(num_modes()), "coefficients");
-  const auto nc = static_cast<int>(coefficients.cols());
-  PaddedGrid g = plans_->NewGrid(geometry_, beta_, nc, FFTW_BACKWARD);
-  Complex* const grid = g.buffer.get();
-  ForEachMode(modes_, g.view.n2, g.view.plane, deconvolution_,
-              [&](Eigen::Index row, std::size_t cell, double f) {
-                for (int a = 0; a < nc; ++a)
-                  grid[static_cast<std::size_t>(a) * g.view.cells + cell] =
-                      f * coefficients(row, a);
-              });
   fftw_execute_dft(g.plan, AsFftw(grid), AsFftw(grid));
   auto p = std::make_shared<Prepared>();
   p->buffer = std::move(g.buffer);
