@@ -1,5 +1,6 @@
 // Round-trip number text (io/text/number_text.h).
 #include "io/text/number_text.h"
+#include "io/text/text_format.h"
 
 #include <clocale>
 #include <cmath>
@@ -90,6 +91,17 @@ TEST(ParseFiniteNumber, ReadsBackWhatAppendShortestWrites) {
   for (double v : {0.1, -7.25e-12, 6.02214076e23, 1.0 / 3.0}) {
     EXPECT_EQ(ParseFiniteNumber(Shortest(v)), v) << v;
   }
+}
+
+TEST(Fixed2, NoSignOnAValueThatRoundsToZero) {
+  // A mirror lobe a hair below the peak by rounding prints as its twin a hair above.
+  EXPECT_EQ(text::Fixed2(-1e-15), "0.00");
+  EXPECT_EQ(text::Fixed2(1e-15), "0.00");
+  EXPECT_EQ(text::Fixed2(-0.0), "0.00");
+  EXPECT_EQ(text::Fixed2(-0.004999), "0.00");
+  EXPECT_EQ(text::Fixed2(-0.005001), "-0.01");
+  EXPECT_EQ(text::Fixed2(-12.345), "-12.35");  // %.2f's rounding otherwise
+  EXPECT_EQ(text::Fixed2(3.0), "3.00");
 }
 
 }  // namespace

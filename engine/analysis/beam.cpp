@@ -22,6 +22,16 @@ constexpr double kInf = std::numeric_limits<double>::infinity();
 // 0.1 deg) and the Hessian's rounding error ~eps D / h^2 ~ 2e-6 D.
 constexpr double kNewtonStep_rad = 1e-5;
 
+// The simplex hands its best vertex to the Newton polish once it has shrunk to this
+// (rad): well inside the polish's quadratic zone (100 kNewtonStep_rad), where a Newton
+// step lands within ~1e-10 rad, while the simplex, converging linearly, would spend
+// half its evaluations on the way down to the refinement tolerance (1e-6 deg).
+constexpr double kSimplexHandOff_rad = 1e-5;
+
+// A balance pass that moves the peak less than this fraction of the refinement
+// tolerance leaves it where a second pass would (BalancePeak).
+constexpr double kBalancedMove = 1e-3;
+
 // The first batch of samples a walk along a great circle evaluates (WalkBeamRay); each
 // later batch doubles the samples. A beam edge is a few samples out (CutStepRad: a
 // tenth of the half-power half-width or less, four tenths on the polarization rays), so
@@ -51,11 +61,12 @@ std::vector<double> StencilDirectivity(const PatternProbe& probe, const Vec3& r,
 // cannot resolve the top to better than ~1e-4 rad, the balance point is still exact for
 // a symmetric beam. Directions in which D does not fall by 1e-6 within 0.1 rad (a ring
 // of maxima) are left alone, and no move that lowers D beyond rounding is taken.
-void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
+void BalancePeak(const PatternProbe& probe, RefinedMaximum& r, double tolerance_rad) {
   const double h = kNewtonStep_rad;
   for (int pass = 0; pass < 2; ++pass) {
     const std::vector<double> d = StencilDirectivity(probe, r.r_hat, h);
     if (d.empty()) return;
+    const Vec3 before = r.r_hat;
     auto F = [&](int ia, int ib) { return d[static_cast<std::size_t>((ia + 1) * 3 + ib + 1)]; };
     Eigen::Matrix2d hess;
     hess(0, 0) = F(1, 0) - 2 * F(0, 0) + F(-1, 0);
@@ -104,11 +115,14 @@ void BalancePeak(const PatternProbe& probe, RefinedMaximum& r) {
         r.directivity = pc.directivity;
       }
     }
+    // A pass that left the point where it was (a peak the Newton polish had already
+    // balanced) would be repeated from the same stencil to the same end.
+    if (AngleBetween(before, r.r_hat) < kBalancedMove * tolerance_rad) break;
   }
 }
 
 // RefineMaximum's end: the Newton polish and BalancePeak from the simplex's best vertex.
-RefinedMaximum PolishMaximum(const PatternProbe& probe, RefinedMaximum r) {
+RefinedMaximum PolishMaximum(const PatternProbe& probe, RefinedMaximum r, double tolerance_rad) {
   // Newton polish on the 3x3 stencil, only along directions of clearly negative
   // curvature (a ring of maxima has a flat direction that must be left alone).
   const double h = kNewtonStep_rad;
@@ -139,7 +153,7 @@ RefinedMaximum PolishMaximum(const PatternProbe& probe, RefinedMaximum r) {
     r.directivity = dc;
     if (len < 1e-12) break;
   }
-  BalancePeak(probe, r);
+  BalancePeak(probe, r, tolerance_rad);
   return r;
 }
 
@@ -198,7 +212,7 @@ std::vector<RefinedMaximum> RefineMaxima(const PatternProbe& probe, const std::v
         return v;
       },
       std::vector<std::pair<double, double>>(starts.size(), {0.0, 0.0}),
-      {initial_step_rad, tolerance_rad, max_evaluations});
+      {initial_step_rad, std::max(tolerance_rad, kSimplexHandOff_rad), max_evaluations});
   // The simplex's best vertices, exact (AtSearch's values are not: the polish below
   // compares exact values with them).
   std::vector<Vec3> best;
@@ -218,7 +232,7 @@ std::vector<RefinedMaximum> RefineMaxima(const PatternProbe& probe, const std::v
 #pragma omp parallel for schedule(dynamic, 1) if (n > 1)
   for (std::ptrdiff_t i = 0; i < n; ++i) {
     const auto u = static_cast<std::size_t>(i);
-    out[u] = PolishMaximum(probe, {best[u], best_d[u], minima[u].converged});
+    out[u] = PolishMaximum(probe, {best[u], best_d[u], minima[u].converged}, tolerance_rad);
   }
   return out;
 }

@@ -2,8 +2,10 @@
 #include "engine/analysis/side_lobes.h"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <functional>
+#include <limits>
 #include <queue>
 
 #include "engine/analysis/beam.h"
@@ -29,6 +31,24 @@ constexpr double kRiseFloor_db = 3.0;
 // batch of many directions beats as many calls of one (threads, no per-call setup).
 constexpr std::size_t kLockstepSources = 8192;
 constexpr std::size_t kLockstepLobes = 32;
+
+// Lobes in order of level, highest first; levels within kTieLevel_db of each other (the
+// mirror images of a symmetric array, equal but for rounding) in order of theta, then
+// phi (undefined on the z axis: first), each to kTieAngle_deg, so that rounding does
+// not pick which is first.
+constexpr double kTieLevel_db = 1e-6;
+constexpr double kTieAngle_deg = 1e-6;
+bool HigherLobe(const Lobe& a, const Lobe& b) {
+  const auto key = [](const Lobe& l) {
+    const auto q = [](double v, double step) { return std::llround(v / step); };
+    constexpr long long kLeast = std::numeric_limits<long long>::min();
+    return std::array<long long, 3>{
+        l.directivity > 0 ? -q(ToDb(l.directivity), kTieLevel_db) : -kLeast - 1,
+        q(l.direction.theta_deg, kTieAngle_deg),
+        std::isnan(l.direction.phi_deg) ? -1 : q(l.direction.phi_deg, kTieAngle_deg)};
+  };
+  return key(a) < key(b);
+}
 
 }  // namespace
 
@@ -134,7 +154,7 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
       out.major_lobes.push_back(lobe);
       continue;
     }
-    if (!out.highest_side_lobe || lobe.directivity > out.highest_side_lobe->directivity)
+    if (!out.highest_side_lobe || HigherLobe(lobe, *out.highest_side_lobe))
       out.highest_side_lobe = lobe;
     if (m.directivity >= listing) {
       sides.push_back(lobe);
@@ -142,9 +162,8 @@ LobeSearch FindLobes(const PatternProbe& probe, const GridNeighbours& neighbours
       if (listed.size() > options.max_side_lobes + 1) listed.pop();
     }
   }
-  auto by_level = [](const Lobe& a, const Lobe& b) { return a.directivity > b.directivity; };
-  std::sort(sides.begin(), sides.end(), by_level);
-  std::sort(out.major_lobes.begin(), out.major_lobes.end(), by_level);
+  std::sort(sides.begin(), sides.end(), HigherLobe);
+  std::sort(out.major_lobes.begin(), out.major_lobes.end(), HigherLobe);
   if (sides.size() > options.max_side_lobes) {
     sides.resize(options.max_side_lobes);
     out.truncated = true;

@@ -15,9 +15,7 @@ namespace lobecast::text {
 namespace {
 
 std::string Db(double db) {
-  return std::isinf(db)   ? (db < 0 ? "-inf" : "inf")
-         : std::isnan(db) ? "undefined"
-                          : Printf("%.2f", db);
+  return std::isinf(db) ? (db < 0 ? "-inf" : "inf") : std::isnan(db) ? "undefined" : Fixed2(db);
 }
 
 std::string EndName(const LinkEnd& e) {

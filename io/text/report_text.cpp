@@ -25,7 +25,7 @@ namespace {
 std::string Db(double db) {
   if (std::isnan(db)) return "n/a";
   if (std::isinf(db)) return db > 0 ? "inf" : "-inf";
-  return Printf("%.2f", db);
+  return Fixed2(db);
 }
 
 // NaN is an undefined angle (a phi on the z axis, the tilt of a circular field).

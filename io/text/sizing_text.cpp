@@ -49,7 +49,7 @@ std::string BeamName(double theta_deg, ScanPlane plane) {
                         : Printf("scan %s %g deg", PlaneName(plane).c_str(), theta_deg);
 }
 
-std::string Db(double v) { return std::isinf(v) ? (v < 0 ? "none" : "+inf") : Printf("%.2f", v); }
+std::string Db(double v) { return std::isinf(v) ? (v < 0 ? "none" : "+inf") : Fixed2(v); }
 
 // The requirement lines, as written.
 std::string RequirementLines(const RequirementsFile& rf, const std::string& lead) {

@@ -52,7 +52,7 @@ std::string FormatFrequency(double hz) {
 
 std::string FormatDb(double linear) {
   const double db = ToDb(linear);
-  return std::isinf(db) && db < 0 ? "-inf" : Printf("%.2f", db);
+  return std::isinf(db) && db < 0 ? "-inf" : Fixed2(db);
 }
 
 namespace {

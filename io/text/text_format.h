@@ -23,6 +23,15 @@ inline std::string Printf(const char* fmt, auto... args) {
   return out;
 }
 
+// A finite value with two decimals, and no sign on a value that rounds to zero: a level
+// a hair below 0 dB by rounding (a mirror lobe as high as the peak) prints "0.00", as its
+// twin a hair above does, not "-0.00".
+inline std::string Fixed2(double v) {
+  std::string s = Printf("%.2f", v);
+  if (s == "-0.00") s.erase(0, 1);
+  return s;
+}
+
 // "x (Ludwig-3)", "y (Ludwig-3)", "RHCP", "LHCP", "theta_hat", "phi_hat".
 inline std::string ReferenceName(PolarizationReference r) {
   switch (r) {
