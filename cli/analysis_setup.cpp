@@ -1,5 +1,7 @@
 #include "cli/analysis_setup.h"
 
+#include <malloc.h>
+
 #include <cmath>
 #include <complex>
 #include <string>
@@ -53,12 +55,17 @@ std::pair<double, double> ParseAnglePair(std::string_view text, std::string_view
 std::optional<PatternAnalysis> AnalyzeOrWarn(const ArrayDescription& desc,
                                              const PatternResult& result,
                                              const AnalysisOptions& options) {
+  std::optional<PatternAnalysis> analysis;
   try {
-    return AnalyzePattern(desc.array, desc.currents, result, options);
+    analysis = AnalyzePattern(desc.array, desc.currents, result, options);
   } catch (const InvalidArgument& e) {
     PrintWarnings({std::string("pattern analysis skipped: ") + e.what()});
-    return std::nullopt;
   }
+  // The analysis' working memory (on a large array the searches' transform grid, some
+  // hundred MB) is free again: hand it back to the system before the result file is
+  // written beside the grid (a 10^6-dipole random array: peak 1399 -> 1139 MiB).
+  ::malloc_trim(0);
+  return analysis;
 }
 
 ResultMetadata MetadataOf(const ArrayDescription& desc) {

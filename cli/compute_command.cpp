@@ -17,6 +17,7 @@
 #include "cli/run_limits.h"
 #include "cli/scale_out.h"
 #include "engine/analysis/pattern_analysis.h"
+#include "engine/analysis/pattern_probe.h"
 #include "engine/error.h"
 #include "engine/pattern.h"
 #include "engine/pattern_stream.h"
@@ -269,7 +270,8 @@ void RunCompute(const ComputeArgs& args) {
   options.power_method = *PowerMethodFromString(args.power_method);  // validated by CLI11
   options.power_quadrature.target_relative = args.power_tolerance;
   // Priced at the routes the job will take (the quadrature, the fast path), once.
-  const RoutePrices prices = PriceRoutes(desc.array, desc.grid, options);
+  RoutePrices prices = PriceRoutes(desc.array, desc.grid, options);
+  if (!args.no_analysis) prices.analysis_bytes = PatternProbe::SearchBytes(desc.array);
   const std::string stream_why = WhyStream(args, desc, EstimateRun(size, prices));
   size.streamed = !stream_why.empty();
   CheckRunLimits(EstimateRun(size, prices), args.limits, args.input, quiet);

@@ -206,7 +206,8 @@ RunEstimate EstimateRun(const RunSize& size, const RoutePrices& prices) {
   // quadrature's plans; the closed form's rows are O(N)) and the field's.
   const double power_stage =
       prices.power.route == PowerRoute::kQuadrature ? prices.power.cost.bytes : 0.0;
-  e.memory_bytes = DipoleBytes(size) + std::max(HeldBytes(size) + prices.field_bytes, power_stage);
+  e.memory_bytes = DipoleBytes(size) + std::max({HeldBytes(size) + prices.field_bytes, power_stage,
+                                                 HeldBytes(size) + prices.analysis_bytes});
   return e;
 }
 

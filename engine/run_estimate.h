@@ -5,7 +5,7 @@
 // that grow fastest are counted. With the array (PriceRoutes) the routes are
 // those the job will take (the power quadrature, the fast field path); with the
 // sizes alone, the closed form and the direct sum or a generic fast path. The
-// pattern analysis is not priced.
+// pattern analysis is priced by its memory only (RoutePrices::analysis_bytes).
 #pragma once
 
 #include <cstddef>
@@ -71,6 +71,9 @@ struct RoutePrices {
   FastTransform field_transform = FastTransform::kNone;
   double field_seconds = 0;  // every block: its plan and its field (wall, threads counted)
   double field_bytes = 0;    // the largest block's plan (kFast: the transform's grid too)
+  // The pattern analysis' memory beside the result, when it runs: the grid its searches
+  // keep on large arrays (PatternProbe::SearchBytes; set by the caller, 0 otherwise).
+  double analysis_bytes = 0;
 };
 
 // The job's routes for `array` on `grid` (empty: no pattern, as `check`) under
@@ -83,8 +86,9 @@ struct RoutePrices {
 RoutePrices PriceRoutes(const Array& array, const AngularGrid& grid, const PatternOptions& options);
 
 // The sizes' estimate with the job's routes: their seconds instead of the
-// closed form and the direct sum, and the memory with the power stage (it runs
-// before the result exists: the larger of the two) and the fast plan's bytes.
+// closed form and the direct sum, and the memory of the largest stage: the power (it
+// runs before the result exists), the field (the result and the fast plan's bytes)
+// or the analysis (the result and its search grid).
 RunEstimate EstimateRun(const RunSize& size, const RoutePrices& prices);
 
 // The machine's physical memory, bytes (0 when unknown): the default memory limit of

@@ -4,6 +4,8 @@
 
 #include <gtest/gtest.h>
 
+#include "engine/analysis/pattern_probe.h"
+#include "engine/field/nufft.h"
 #include "engine/pattern.h"
 #include "test_util.h"
 
@@ -116,6 +118,48 @@ TEST(RunEstimate, AMillionDipoleLatticeIsPricedAtTheRoutesItTakes) {
                               "by the lattice transform"),
             std::string::npos)
       << e.Describe();
+}
+
+// The analysis' memory: the grid its searches keep on a large array (its transform's
+// FFT grid at 1e-14 over the sphere's box of directions, and the spread grid while it
+// is made), which enters the estimate when it is the largest stage.
+TEST(RunEstimate, TheAnalysisSearchGridIsPriced) {
+  testing::TestRng rng(16);
+  Array a;
+  a.frequency_hz = 1e9;
+  const double lambda = a.wavelength_m();
+  for (int n = 0; n < 20000; ++n)
+    a.dipoles.push_back(
+        testing::MakeDipole(Vec3(rng.Uniform(-50, 50) * lambda, rng.Uniform(-50, 50) * lambda, 0.0),
+                            Vec3::UnitX(), 0.01 * lambda, Distribution::kUniform));
+  const double k = a.wavenumber_rad_m();
+  Eigen::Matrix3Xd x(3, a.dipoles.size()), box(3, 2);
+  for (std::size_t n = 0; n < a.dipoles.size(); ++n) x.col(n) = a.dipoles[n].position_m;
+  box.col(0) = Vec3(-k, -k, -k);
+  box.col(1) = Vec3(k, k, k);
+  const NufftGeometry g = Nufft3::GeometryFor(x, box, 1e-14);
+  EXPECT_EQ(g.active_dims, 2);  // a planar array: x and y
+  const double grid = 16.0 * g.fft_points();
+  const double bytes = PatternProbe::SearchBytes(a);
+  EXPECT_GT(bytes, grid);
+  EXPECT_LT(bytes, 1.5 * grid + 200.0 * a.dipoles.size());
+  // Small arrays search on exact sums: nothing kept.
+  Array small = a;
+  small.dipoles.resize(100);
+  EXPECT_EQ(PatternProbe::SearchBytes(small), 0.0);
+
+  const AngularGrid directions = Grid(10, 350, 10);
+  RunSize size = SizeOf(a, directions, 2);
+  RoutePrices prices = PriceRoutes(a, directions, PatternOptions{});
+  const double without = EstimateRun(size, prices).memory_bytes;
+  // Beside the field's and the power's stages this grid is small; a larger one (as on
+  // a 10^6-dipole array) sets the peak.
+  prices.analysis_bytes = bytes;
+  EXPECT_EQ(EstimateRun(size, prices).memory_bytes, without);
+  prices.analysis_bytes = 10 * without;
+  const double with = EstimateRun(size, prices).memory_bytes;
+  EXPECT_GT(with, 10 * without);
+  EXPECT_LT(with, 11 * without);
 }
 
 // The routes priced are the ones the job takes: random positions (type 3 or the

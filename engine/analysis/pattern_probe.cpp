@@ -91,23 +91,35 @@ PatternProbe::PatternProbe(const Array& array, const Eigen::VectorXcd& currents_
       per_v2_(DirectivityPerSquaredField(radiated_power_w)),
       floor_v_(FieldFloor_v(array, currents_a)) {}
 
+std::shared_ptr<const FieldPlan> PatternProbe::SearchPlanFor(const Array& array) {
+  const std::size_t sources = array.size() * (array.ground == Ground::kNone ? 1 : 2);
+  if (sources < kSearchFastSources) return nullptr;
+  FieldOptions o;
+  o.method = FieldMethod::kFast;
+  o.fixed_pass_tolerance = kSearchTolerance;
+  // A few directions over the sphere, so that the choice of transform sees the
+  // extent of the directions the searches take (type 3's grid grows with it; with
+  // none it would look free), and type 3 takes any direction (the box of these).
+  std::vector<double> theta, phi;
+  for (int i = 0; i <= 6; ++i)
+    for (int j = 0; j < 12; ++j) {
+      theta.push_back(i * kPi / 6);
+      phi.push_back(j * kPi / 6);
+    }
+  auto p = std::make_shared<const FieldPlan>(array, Directions::FromAngles(theta, phi), o);
+  if (!p->probes_fast()) return nullptr;
+  return p;
+}
+
+double PatternProbe::SearchBytes(const Array& array) {
+  const std::shared_ptr<const FieldPlan> p = SearchPlanFor(array);
+  return p ? p->KeptProbeBytes() : 0.0;
+}
+
 const PatternProbe::SearchPlan& PatternProbe::Search() const {
   std::call_once(search_->once, [&] {
-    if (plan_->num_sources() < kSearchFastSources) return;
-    FieldOptions o;
-    o.method = FieldMethod::kFast;
-    o.fixed_pass_tolerance = kSearchTolerance;
-    // A few directions over the sphere, so that the choice of transform sees the
-    // extent of the directions the searches take (type 3's grid grows with it; with
-    // none it would look free).
-    std::vector<double> theta, phi;
-    for (int i = 0; i <= 6; ++i)
-      for (int j = 0; j < 12; ++j) {
-        theta.push_back(i * kPi / 6);
-        phi.push_back(j * kPi / 6);
-      }
-    auto p = std::make_shared<const FieldPlan>(array_, Directions::FromAngles(theta, phi), o);
-    if (!p->probes_fast()) return;
+    std::shared_ptr<const FieldPlan> p = SearchPlanFor(array_);
+    if (!p) return;
     // The currents' grid, made here once, and the bound of its values.
     p->ExecuteAtFast(currents_, Directions::FromAngles({}, {}), &search_->error_v);
     search_->plan = std::move(p);

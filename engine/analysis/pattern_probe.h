@@ -89,6 +89,9 @@ class PatternProbe {
   // AtExact's. A direction gets the same value in any batch. Counted apart from the
   // exact evaluations (search_evaluations).
   std::vector<ProbeSample> AtSearch(const std::vector<Vec3>& r_hat) const;
+  // The memory AtSearch's transform keeps for `array` (bytes; 0 where the searches run
+  // on exact sums): the run estimate's analysis term. O(sources), nothing summed.
+  static double SearchBytes(const Array& array);
   // AtSearch gives the exact sums (no lattice transform here).
   bool search_is_exact() const { return !Search().plan; }
   // A bound on |rE - exact rE| (V) of every AtSearch value; 0 when they are exact.
@@ -125,6 +128,8 @@ class PatternProbe {
     double error_v = 0.0;
   };
   const SearchPlan& Search() const;
+  // The plan AtSearch reads for `array` (null: the exact sums).
+  static std::shared_ptr<const FieldPlan> SearchPlanFor(const Array& array);
   std::shared_ptr<SearchPlan> search_ = std::make_shared<SearchPlan>();
   mutable std::size_t search_evaluations_ = 0;
   double per_v2_ = 0.0;  // 4 pi / (2 eta0 P), 1/V^2

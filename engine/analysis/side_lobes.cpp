@@ -41,9 +41,10 @@ constexpr double kTieAngle_deg = 1e-6;
 bool HigherLobe(const Lobe& a, const Lobe& b) {
   const auto key = [](const Lobe& l) {
     const auto q = [](double v, double step) { return std::llround(v / step); };
-    constexpr long long kLeast = std::numeric_limits<long long>::min();
+    // Higher levels first (smaller keys); no field at all last.
     return std::array<long long, 3>{
-        l.directivity > 0 ? -q(ToDb(l.directivity), kTieLevel_db) : -kLeast - 1,
+        l.directivity > 0 ? -q(ToDb(l.directivity), kTieLevel_db)
+                          : std::numeric_limits<long long>::max(),
         q(l.direction.theta_deg, kTieAngle_deg),
         std::isnan(l.direction.phi_deg) ? -1 : q(l.direction.phi_deg, kTieAngle_deg)};
   };

@@ -172,6 +172,9 @@ class FieldPlan {
   // built with kDirect, or that chose it, costs its fast path by type 3.
   double EstimatedSeconds(double num_directions, FieldMethod method = FieldMethod::kAuto) const;
   double EstimatedBytes(double num_directions, FieldMethod method = FieldMethod::kAuto) const;
+  // The grid ExecuteAtFast keeps (bytes): the transform's FFT grid of the currents at
+  // the plan's pass tolerance, every layer of a layered lattice; 0 where !probes_fast().
+  double KeptProbeBytes() const;
   // The fast path's transform (kNone for the direct path): the lattice one when
   // the sources sit on a lattice and it is estimated cheaper than type 3.
   FastTransform fast_transform() const { return fast_transform_; }

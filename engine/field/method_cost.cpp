@@ -114,4 +114,21 @@ double FieldPlan::EstimatedBytes(double num_directions, FieldMethod method) cons
   return 237.0 * num_directions + 16.0 * comps * grid;
 }
 
+double FieldPlan::KeptProbeBytes() const {
+  if (!probes_fast()) return 0.0;
+  const double comps = collinear_ ? 1.0 : 3.0;
+  const double eps = PassTolerances(tolerance_relative_, fixed_pass_tolerance_).back();
+  // The plan's and the transform's per-source data (positions, moments, phases, the
+  // strengths handed in: about 120 bytes a source), then the grids.
+  const double sources = 120.0 * static_cast<double>(num_sources());
+  if (fast_transform_ == FastTransform::kLattice) {
+    const LatticeShape shape = LatticeSum::ShapeFor(*lattice_, eps);
+    return sources + 16.0 * comps * shape.layers * shape.per_layer.fft_points();
+  }
+  // Type 3: the kept FFT grid and, while it is made, the spread grid beside it.
+  const NufftGeometry g = Nufft3::GeometryFor(source_pos_, dirs_.k_r_hat, eps);
+  const double spread = static_cast<double>(g.spread_size[0]) * g.spread_size[1] * g.spread_size[2];
+  return sources + 16.0 * comps * (g.fft_points() + spread);
+}
+
 }  // namespace lobecast
