@@ -1,6 +1,8 @@
 #include "cli/analysis_setup.h"
 
+#ifdef __GLIBC__
 #include <malloc.h>
+#endif
 
 #include <cmath>
 #include <complex>
@@ -64,7 +66,9 @@ std::optional<PatternAnalysis> AnalyzeOrWarn(const ArrayDescription& desc,
   // The analysis' working memory (on a large array the searches' transform grid, some
   // hundred MB) is free again: hand it back to the system before the result file is
   // written beside the grid (a 10^6-dipole random array: peak 1399 -> 1139 MiB).
+#ifdef __GLIBC__
   ::malloc_trim(0);
+#endif
   return analysis;
 }
 

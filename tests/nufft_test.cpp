@@ -13,6 +13,8 @@
 
 #include <gtest/gtest.h>
 
+#include "engine/check.h"
+
 #include "engine/error.h"
 #include "tests/exponential_sum.h"
 #include "tests/test_util.h"
@@ -106,6 +108,21 @@ TEST(Nufft3, PreparedGridGivesExecutesValuesAtTargetsInTheBox) {
       for (int a = 0; a < 2; ++a) EXPECT_EQ(one(0, a), g(i, a)) << c.name << " " << i;
     }
   }
+}
+
+TEST(Nufft3, ExecuteAtRefusesTargetsOutsideItsBoxAndOthersGrids) {
+  // Outside the box the deconvolution grows and the grid aliases: a programming error,
+  // never a silent loss of accuracy; a grid another transform prepared likewise.
+  TestRng rng(13);
+  const Eigen::Matrix3Xd x = RandomCloud(rng, 50, {3.0, 2.0, 1.5}, Eigen::Vector3d::Zero());
+  Eigen::Matrix3Xd box(3, 2);
+  box.col(0) = Eigen::Vector3d(-5, -5, -5);
+  box.col(1) = Eigen::Vector3d(5, 5, 5);
+  const Nufft3 a(x, box, NufftOptions{1e-9, 0}), b(x, box, NufftOptions{1e-9, 0});
+  const auto grid = a.Prepare(RandomStrengths(rng, 50, 1));
+  EXPECT_NO_THROW(a.ExecuteAt(*grid, box));
+  EXPECT_THROW(a.ExecuteAt(*grid, Eigen::Vector3d(0, 5.001, 0)), InternalError);
+  EXPECT_THROW(b.ExecuteAt(*grid, box), InternalError);
 }
 
 TEST(Nufft, DegenerateDimensionsCostNothing) {

@@ -403,15 +403,30 @@ TEST(PatternProbe, SearchValuesOfALargeLatticeAreWithinTheirBoundInAnyBatch) {
 }
 
 TEST(PatternProbe, SearchValuesOfALargeRandomArrayAreWithinTheirBound) {
-  // 8300 dipoles at random positions in a 3-wavelength box, random orientations and
-  // currents (testing::RandomArray: the type-3 transform, all three moment
-  // components), in free space and over a PEC ground (images counted as sources).
+  // 8300 dipoles at random positions on a 20-wavelength square with random currents
+  // (the type-3 transform, which the cost model takes for a planar array: w^2 kernel
+  // points a direction against 8300 sources), x-directed (one moment axis) and with
+  // random orientations (three), in free space.
   testing::TestRng rng(43);
-  for (const Ground g : {Ground::kNone, Ground::kPec}) {
-    const testing::TestArray a = testing::RandomArray(rng, 8300, g, 3.0);
-    SCOPED_TRACE(g == Ground::kNone ? "free space" : "PEC ground");
+  for (const bool tilted : {false, true}) {
+    testing::TestArray a;
+    a.frequency_hz = kTestFrequency_hz;
+    for (int n = 0; n < 8300; ++n)
+      a.Add(Vec3(rng.Uniform(-10, 10), rng.Uniform(-10, 10), 0.0) * Lambda(),
+            tilted ? rng.UnitVector() : Vec3::UnitX(), Lambda() / 100, rng.Phasor(0.1, 2.0));
+    SCOPED_TRACE(tilted ? "random orientations" : "x-directed");
     ExpectSearchValuesWithinTheirBound(a);
   }
+}
+
+TEST(PatternProbe, SearchesOfASparseDeepArrayStayOnExactSums) {
+  // 8300 dipoles spread through a 60-wavelength cube: type 3's grid over the sphere's
+  // box (about 10^7 points at 1e-14) would cost more than the searches' exact sums, so
+  // the cost model keeps them exact and keeps no grid.
+  testing::TestRng rng(44);
+  const testing::TestArray a = testing::RandomArray(rng, 8300, Ground::kNone, 60.0);
+  EXPECT_TRUE(PatternProbe(a, a.currents, 1.0).search_is_exact());
+  EXPECT_EQ(PatternProbe::SearchBytes(a), 0.0);
 }
 
 TEST(PatternAnalysis, LargeLatticeNullsAreItsConesAndExact) {

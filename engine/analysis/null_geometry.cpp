@@ -111,7 +111,15 @@ std::vector<int> GroupByProximity(const std::vector<Vec3>& dirs, double link_rad
     while (parent[i] != i) i = parent[i] = parent[parent[i]];
     return i;
   };
-  const double edge = 2.0 * std::sin(0.5 * std::min(link_rad, kPi));
+  if (!(link_rad > 0)) {  // nothing links: each direction its own group
+    std::vector<int> group(n);
+    std::iota(group.begin(), group.end(), 0);
+    if (groups) *groups = static_cast<int>(n);
+    return group;
+  }
+  // The chord's cube edge, a hair wide so that a pair whose angle rounds just below the
+  // link is never two cubes apart.
+  const double edge = 2.0 * std::sin(0.5 * std::min(link_rad, kPi)) * (1.0 + 1e-12);
   using Key = std::array<std::int64_t, 3>;
   auto cube = [&](const Vec3& r) {
     return Key{static_cast<std::int64_t>(std::floor(r.x() / edge)),

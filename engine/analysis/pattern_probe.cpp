@@ -28,6 +28,9 @@ constexpr std::size_t kFastBatchSources = 8192;
 // (w^2, about 300 at 1e-14) against an exact sum's O(sources); the searches evaluate
 // tens of thousands of directions.
 constexpr std::size_t kSearchFastSources = 8192;
+// The directions an analysis evaluates in its searches, about (10^5: 155 000 on 10^6
+// random dipoles, 55 000 on 1024): what type 3's grid is priced against.
+constexpr double kSearchDirections = 1e5;
 // AtSearch's transform tolerance, relative to sum |I Le| (the finest the NUFFT takes):
 // its bound (10x, the error model) stays far below the 1e-20 of the peak intensity at
 // which the null search calls a level zero.
@@ -108,6 +111,14 @@ std::shared_ptr<const FieldPlan> PatternProbe::SearchPlanFor(const Array& array)
     }
   auto p = std::make_shared<const FieldPlan>(array, Directions::FromAngles(theta, phi), o);
   if (!p->probes_fast()) return nullptr;
+  // Type 3's grid grows with the aperture, not with the sources: on a sparse or deep
+  // array it can cost more time (or memory) than the exact sums it would spare. It is
+  // taken where the cost model prices the directions an analysis searches well below
+  // their exact sums (a lattice's grid holds about a point per source: always).
+  if (p->fast_transform() == FastTransform::kType3 &&
+      !(p->EstimatedSeconds(kSearchDirections, FieldMethod::kFast) <
+        0.5 * p->EstimatedSeconds(kSearchDirections, FieldMethod::kDirect)))
+    return nullptr;
   return p;
 }
 

@@ -4,7 +4,7 @@
 // special cases. Evaluations run the direct (exact) sum on one FieldPlan of the
 // sources, built once (FieldPlan::ExecuteAt); large batches of large arrays get a plan
 // of their own with the auto method (the fast path where cheaper, pattern_probe.cpp).
-// The searches' inner rounds of large arrays on a lattice read the lattice transform
+// The searches' inner rounds of large arrays read a fast transform of the currents
 // instead (AtSearch), and evaluate exactly only what they report.
 #pragma once
 
@@ -83,16 +83,17 @@ class PatternProbe {
   std::vector<ProbeSample> AtExact(const std::vector<Vec3>& r_hat) const;
   double DirectivityAt(const Vec3& r_hat) const { return At(r_hat).directivity; }
   // Values for the inner rounds of the searches, never reported: on arrays of at
-  // least kSearchFastSources sources (images counted) on a lattice, the lattice
-  // transform's at 1e-14 of sum |I Le| (FieldPlan::ExecuteAtFast: the currents' grid
-  // made once, then O(kernel points) a direction instead of O(sources)); otherwise
-  // AtExact's. A direction gets the same value in any batch. Counted apart from the
+  // least kSearchFastSources sources (images counted), the fast transform's at 1e-14 of
+  // sum |I Le| (FieldPlan::ExecuteAtFast: the currents' grid made once, then O(kernel
+  // points) a direction instead of O(sources)): the lattice transform on a lattice,
+  // type 3 elsewhere where the cost model prices it well below the exact sums;
+  // otherwise AtExact's. A direction gets the same value in any batch. Counted apart from the
   // exact evaluations (search_evaluations).
   std::vector<ProbeSample> AtSearch(const std::vector<Vec3>& r_hat) const;
   // The memory AtSearch's transform keeps for `array` (bytes; 0 where the searches run
   // on exact sums): the run estimate's analysis term. O(sources), nothing summed.
   static double SearchBytes(const Array& array);
-  // AtSearch gives the exact sums (no lattice transform here).
+  // AtSearch gives the exact sums (no transform here).
   bool search_is_exact() const { return !Search().plan; }
   // A bound on |rE - exact rE| (V) of every AtSearch value; 0 when they are exact.
   double search_error_v() const { return Search().error_v; }

@@ -32,10 +32,10 @@ constexpr double kRiseFloor_db = 3.0;
 constexpr std::size_t kLockstepSources = 8192;
 constexpr std::size_t kLockstepLobes = 32;
 
-// Lobes in order of level, highest first; levels within kTieLevel_db of each other (the
-// mirror images of a symmetric array, equal but for rounding) in order of theta, then
-// phi (undefined on the z axis: first), each to kTieAngle_deg, so that rounding does
-// not pick which is first.
+// Lobes in order of level, highest first; levels that round to the same multiple of
+// kTieLevel_db (the mirror images of a symmetric array, equal but for rounding) in
+// order of theta, then phi (undefined on the z axis: first), each to kTieAngle_deg, so
+// that rounding does not pick which is first (but for twins astride a multiple's edge).
 constexpr double kTieLevel_db = 1e-6;
 constexpr double kTieAngle_deg = 1e-6;
 bool HigherLobe(const Lobe& a, const Lobe& b) {
@@ -43,8 +43,8 @@ bool HigherLobe(const Lobe& a, const Lobe& b) {
     const auto q = [](double v, double step) { return std::llround(v / step); };
     // Higher levels first (smaller keys); no field at all last.
     return std::array<long long, 3>{
-        l.directivity > 0 ? -q(ToDb(l.directivity), kTieLevel_db)
-                          : std::numeric_limits<long long>::max(),
+        l.directivity > 0 && std::isfinite(l.directivity) ? -q(ToDb(l.directivity), kTieLevel_db)
+                                                          : std::numeric_limits<long long>::max(),
         q(l.direction.theta_deg, kTieAngle_deg),
         std::isnan(l.direction.phi_deg) ? -1 : q(l.direction.phi_deg, kTieAngle_deg)};
   };

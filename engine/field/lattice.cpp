@@ -292,6 +292,7 @@ Eigen::MatrixXcd LatticeSum::Execute(const Eigen::MatrixXcd& strengths) const {
 
 namespace {
 struct LatticePrepared : PointSum::Prepared {
+  const LatticeSum* owner = nullptr;
   std::vector<std::shared_ptr<const Nufft2::Prepared>> layers;
   Eigen::Index components = 0;
 };
@@ -300,6 +301,7 @@ struct LatticePrepared : PointSum::Prepared {
 std::shared_ptr<const PointSum::Prepared> LatticeSum::Prepare(
     const Eigen::MatrixXcd& strengths) const {
   auto p = std::make_shared<LatticePrepared>();
+  p->owner = this;
   p->components = strengths.cols();
   for (const Eigen::MatrixXcd& c : LayerCoefficients(strengths))
     p->layers.push_back(layer_sum_->Prepare(c));
@@ -309,7 +311,8 @@ std::shared_ptr<const PointSum::Prepared> LatticeSum::Prepare(
 Eigen::MatrixXcd LatticeSum::ExecuteAt(const Prepared& base,
                                        const Eigen::Matrix3Xd& targets) const {
   const auto* p = dynamic_cast<const LatticePrepared*>(&base);
-  if (!p) throw InternalError("LatticeSum::ExecuteAt: found another transform's prepared grid");
+  if (!p || p->owner != this)
+    throw InternalError("LatticeSum::ExecuteAt: found another transform's prepared grid");
   const LatticePrepared& prepared = *p;
   // The constructor's target data and Execute's steps, for these targets.
   const Eigen::Index nk = targets.cols(), nc = prepared.components;

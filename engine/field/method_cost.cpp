@@ -119,8 +119,9 @@ double FieldPlan::KeptProbeBytes() const {
   const double comps = collinear_ ? 1.0 : 3.0;
   const double eps = PassTolerances(tolerance_relative_, fixed_pass_tolerance_).back();
   // The plan's and the transform's per-source data (positions, moments, phases, the
-  // strengths handed in: about 120 bytes a source), then the grids.
-  const double sources = 120.0 * static_cast<double>(num_sources());
+  // strengths handed in and their phased copy, the grid coordinates while the grid is
+  // made: about 250 bytes a source), then the grids.
+  const double sources = 250.0 * static_cast<double>(num_sources());
   if (fast_transform_ == FastTransform::kLattice) {
     const LatticeShape shape = LatticeSum::ShapeFor(*lattice_, eps);
     return sources + 16.0 * comps * shape.layers * shape.per_layer.fft_points();

@@ -168,8 +168,9 @@ class Nufft3 : public PointSum {
   struct Dim {
     bool active = false;
     double centre_x = 0, centre_s = 0;
-    double h = 1;  // spread grid spacing (units of x)
-    int n = 1;     // spread grid size
+    double half_s = 0;  // the constructor's targets span centre_s +- half_s
+    double h = 1;       // spread grid spacing (units of x)
+    int n = 1;          // spread grid size
   };
   Eigen::Matrix3Xd GridCoordinates() const;  // the points on the spread grid, cell units
   // The spread grid of c_j exp(i D . x'_j) (cells x C): Execute's first stage.

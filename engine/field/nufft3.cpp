@@ -57,6 +57,7 @@ Nufft3::Nufft3(const Eigen::Matrix3Xd& points, const Eigen::Matrix3Xd& targets,
     const Range x = RangeOf(points, d), s = RangeOf(targets, d);
     dim.centre_x = cx[d] = x.centre;
     dim.centre_s = cs[d] = s.centre;
+    dim.half_s = s.half_width;
     dim.n = geometry_.spread_size[static_cast<std::size_t>(d)];
     dim.active = dim.n > 1;
     if (dim.active) dim.h = kPi / (kUpsampling * s.half_width);
@@ -154,12 +155,14 @@ Eigen::MatrixXcd Nufft3::Execute(const Eigen::MatrixXcd& strengths) const {
 
 namespace {
 struct Type3Prepared : PointSum::Prepared {
+  const Nufft3* owner = nullptr;
   std::shared_ptr<const Nufft2::Prepared> grid;
 };
 }  // namespace
 
 std::shared_ptr<const PointSum::Prepared> Nufft3::Prepare(const Eigen::MatrixXcd& strengths) const {
   auto p = std::make_shared<Type3Prepared>();
+  p->owner = this;
   p->grid = grid_sum_->Prepare(SpreadGrid(strengths));
   return p;
 }
@@ -167,7 +170,18 @@ std::shared_ptr<const PointSum::Prepared> Nufft3::Prepare(const Eigen::MatrixXcd
 Eigen::MatrixXcd Nufft3::ExecuteAt(const Prepared& prepared,
                                    const Eigen::Matrix3Xd& targets) const {
   const auto* p = dynamic_cast<const Type3Prepared*>(&prepared);
-  if (!p) throw InternalError("Nufft3::ExecuteAt: found another transform's prepared grid");
+  if (!p || p->owner != this)
+    throw InternalError("Nufft3::ExecuteAt: found another transform's prepared grid");
+  // Outside the box of the constructor's targets the deconvolution grows and the grid
+  // aliases: the error would exceed the bound unseen.
+  for (Eigen::Index k = 0; k < targets.cols(); ++k) {
+    for (std::size_t i = 0; i < 3; ++i) {
+      const Dim& dim = dims_[i];
+      const double off = std::abs(targets(axis_[i], k) - dim.centre_s);
+      if (!(off <= dim.half_s * (1 + 1e-9) + 1e-12 * (std::abs(dim.centre_s) + dim.half_s)))
+        throw InternalError("Nufft3::ExecuteAt: found a target outside the transform's box");
+    }
+  }
   Eigen::MatrixXcd out = grid_sum_->InterpolateAt(*p->grid, StageTwoTargets(targets));
   for (Eigen::Index k = 0; k < targets.cols(); ++k) out.row(k) *= TargetFactor(targets.col(k));
   return out;
