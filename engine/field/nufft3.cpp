@@ -113,6 +113,7 @@ Complex Nufft3::TargetFactor(const Eigen::Vector3d& s) const {
 
 Eigen::Matrix3Xd Nufft3::StageTwoTargets(const Eigen::Matrix3Xd& targets) const {
   Eigen::Matrix3Xd t(3, targets.cols());
+  if (targets.cols() == 0) return t;  // no data: a row of it would offset a null pointer
   for (std::size_t i = 0; i < 3; ++i) {
     const Dim& dim = dims_[i];
     const auto r = static_cast<Eigen::Index>(i);
