@@ -67,13 +67,22 @@ std::string_view ToString(FieldMethod m);    // "direct", "fast", "auto"
 // Case-insensitive; std::nullopt for an unknown name.
 std::optional<FieldMethod> FieldMethodFromString(std::string_view s);
 
+// kAuto's margin: the fast path is taken when the cost model (method_cost.cpp)
+// prices it below this share of the direct sum. The model is within about 25 % of
+// measured times on the machines it was fitted on (tests/bench/RESULTS.md), so a
+// route it finds a third dearer is slower, and the exact sum is kept where the two
+// are near.
+inline constexpr double kAutoFastShare = 0.75;
+bool FastPays(double fast_seconds, double direct_seconds);
+
 struct FieldOptions {
   // OpenMP threads across directions; 0 uses the OpenMP default. The result does
   // not depend on it: each direction's sum runs over the sources in a fixed order
   // (direct), and the fast path's grid sums run in a fixed order too.
   int num_threads = 0;
-  // kAuto takes the fast path only when its estimated cost is below half the
-  // direct one, so small arrays and coarse grids always get the exact sum.
+  // kAuto takes the fast path only when its estimated cost is below
+  // kAutoFastShare of the direct one (FastPays), so small arrays and coarse grids
+  // always get the exact sum.
   FieldMethod method = FieldMethod::kAuto;
   // Fast path only: the largest error in |rE| over all plan directions, relative
   // to the largest |rE| over the plan's directions. 1e-9 keeps patterns exact

@@ -110,7 +110,7 @@ FieldPlan::FieldPlan(const Array& array, const Directions& directions, const Fie
     }
     const double type3 = EstimatedType3Seconds(), on_lattice = EstimatedLatticeSeconds();
     const double fast = std::min(type3, on_lattice);
-    if (options.method == FieldMethod::kFast || fast < 0.5 * EstimatedDirectSeconds()) {
+    if (options.method == FieldMethod::kFast || FastPays(fast, EstimatedDirectSeconds())) {
       method_used_ = FieldMethod::kFast;
       fast_transform_ = on_lattice < type3 ? FastTransform::kLattice : FastTransform::kType3;
     } else {

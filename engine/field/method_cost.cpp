@@ -15,25 +15,61 @@
 namespace lobecast {
 namespace {
 
-// Cost model for kAuto: CPU seconds per unit on one core of the development
-// machine (AMD EPYC at 2.1 GHz, AVX-512 clone), from tests/bench/field_bench.cpp
-// process CPU times. Only their ratios matter; the 0.5 margin in the choice
-// absorbs the model's roughness.
-constexpr double kSecondsPerPairCollinear = 1.0 / 6.5e8;
-constexpr double kSecondsPerPairGeneral = 1.0 / 4.5e8;
-constexpr double kSecondsPerKernelPoint = 2.0e-9;    // spread or interpolate, per component
+// Cost model for kAuto: CPU seconds per unit on one core. The direct sum's pair
+// rates depend on which kernel clone runs (kernel_clones.h): measured on 2.1 GHz
+// AMD EPYC cores, AVX-512 clone with tests/bench/field_bench.cpp, AVX2 clone with
+// `lobecast compute --threads 1` on random 1024- to 16384-dipole arrays (field
+// seconds, least of three; tests/bench/RESULTS.md, "On a machine without
+// AVX-512"). The baseline clone was not measured: half the AVX2 rates, a guess.
+// The fast transforms' constants were fitted on the AVX2 machine to planar and
+// cube arrays and lattices (type 3 takes ~1.3 us a direction on a planar array and
+// 1.5 us (planar) to 8 us (3-D) a source to spread; the lattice transform ~1.25 us a direction, no
+// spreading); on the AVX-512 one they price type 3 at most a little high.
+struct PairRates {
+  double collinear, general;  // source-direction pairs a second
+};
+constexpr PairRates kPairsAvx512{6.5e8, 4.5e8};
+constexpr PairRates kPairsAvx2{4.0e8, 3.4e8};
+constexpr PairRates kPairsBaseline{2.0e8, 1.7e8};
+constexpr double kSecondsPerKernelPoint = 1.6e-9;    // interpolate, per component
+constexpr double kSecondsPerSpreadSource = 4.6e-7;   // type 3's spread (one thread): per source
+constexpr double kSecondsPerSpreadPoint = 3.0e-9;    // and per kernel point and component
 constexpr double kSecondsPerFftPointLog = 1.0e-9;    // per grid point and log2(size), per component
-constexpr double kSecondsPerTargetPass = 1.0e-6;     // kernel transforms, phases, copies
-constexpr double kSecondsPerLatticeTarget = 6.0e-7;  // lattice: phases, projection, copies
+constexpr double kSecondsPerTargetPass = 5.0e-7;     // kernel transforms, phases, copies
+constexpr double kSecondsPerLatticeTarget = 4.0e-7;  // lattice: phases, projection, copies
 constexpr double kSecondsPerLayerTarget = 8.0e-8;    // lattice: one layer's phase and sum
 constexpr double kMaxFastGridBytes = 4.0 * (1ull << 30);
 
+// The clone the loader picks on this CPU, near enough for pricing: x86-64-v4 is
+// AVX-512 F/BW/CD/DQ/VL, v3 AVX2 with FMA (feature names both GCC and Clang know).
+const PairRates& RunningPairRates() {
+#if defined(__x86_64__) && (defined(__GNUC__) || defined(__clang__))
+  static const PairRates& rates = []() -> const PairRates& {
+    __builtin_cpu_init();
+    if (__builtin_cpu_supports("avx512f") && __builtin_cpu_supports("avx512bw") &&
+        __builtin_cpu_supports("avx512cd") && __builtin_cpu_supports("avx512dq") &&
+        __builtin_cpu_supports("avx512vl"))
+      return kPairsAvx512;
+    if (__builtin_cpu_supports("avx2") && __builtin_cpu_supports("fma")) return kPairsAvx2;
+    return kPairsBaseline;
+  }();
+  return rates;
+#else
+  return kPairsAvx2;  // other targets: not measured; the AVX2 figures as a guess
+#endif
+}
+
 }  // namespace
+
+bool FastPays(double fast_seconds, double direct_seconds) {
+  return fast_seconds < kAutoFastShare * direct_seconds;
+}
 
 double FieldPlan::EstimatedDirectSeconds(double direction_scale) const {
   std::size_t live = 0;
   for (unsigned char z : dirs_.zeroed) live += z ? 0 : 1;
-  const double per = collinear_ ? kSecondsPerPairCollinear : kSecondsPerPairGeneral;
+  const PairRates& rates = RunningPairRates();
+  const double per = 1.0 / (collinear_ ? rates.collinear : rates.general);
   const int threads = ResolveThreads(num_threads_);
   return direction_scale * static_cast<double>(live) * static_cast<double>(num_sources()) * per /
          threads;
@@ -59,8 +95,9 @@ double FieldPlan::EstimatedType3Seconds(double direction_scale) const {
     const double spread = static_cast<double>(num_sources()) * g.kernel_points() * comps;
     const double interp = nd * g.kernel_points() * comps / threads;
     const double fft = g.fft_points() * std::log2(std::max(2.0, g.fft_points())) * comps;
-    total += (spread + interp) * kSecondsPerKernelPoint + fft * kSecondsPerFftPointLog +
-             nd * kSecondsPerTargetPass / threads;
+    total += static_cast<double>(num_sources()) * kSecondsPerSpreadSource +
+             spread * kSecondsPerSpreadPoint + interp * kSecondsPerKernelPoint +
+             fft * kSecondsPerFftPointLog + nd * kSecondsPerTargetPass / threads;
   }
   return total;
 }
@@ -91,7 +128,7 @@ double FieldPlan::EstimatedSeconds(double num_directions, FieldMethod method) co
   const double fast = fast_transform_ == FastTransform::kLattice ? EstimatedLatticeSeconds(scale)
                                                                  : EstimatedType3Seconds(scale);
   if (method == FieldMethod::kFast) return fast;
-  return fast < 0.5 * direct ? fast : direct;
+  return FastPays(fast, direct) ? fast : direct;
 }
 
 double FieldPlan::EstimatedBytes(double num_directions, FieldMethod method) const {
@@ -104,7 +141,7 @@ double FieldPlan::EstimatedBytes(double num_directions, FieldMethod method) cons
     const double scale = this->num_directions() ? num_directions / this->num_directions() : 0.0;
     const double fast = fast_transform_ == FastTransform::kLattice ? EstimatedLatticeSeconds(scale)
                                                                    : EstimatedType3Seconds(scale);
-    if (!(fast < 0.5 * EstimatedDirectSeconds(scale))) return direct;
+    if (!FastPays(fast, EstimatedDirectSeconds(scale))) return direct;
   }
   const double comps = collinear_ ? 1.0 : 3.0;
   const double eps = PassTolerances(tolerance_relative_, fixed_pass_tolerance_).back();
