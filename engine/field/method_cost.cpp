@@ -22,9 +22,10 @@ namespace {
 // seconds, least of three; tests/bench/RESULTS.md, "On a machine without
 // AVX-512"). The baseline clone was not measured: half the AVX2 rates, a guess.
 // The fast transforms' constants were fitted on the AVX2 machine to planar and
-// cube arrays and lattices (type 3 takes ~1.3 us a direction on a planar array and
-// 1.5 us (planar) to 8 us (3-D) a source to spread; the lattice transform ~1.25 us a direction, no
-// spreading); on the AVX-512 one they price type 3 at most a little high.
+// cube arrays and lattices (type 3 takes ~1.3 us a direction on a planar array,
+// and 1.5 us (planar) to 8 us (3-D) a source to spread; the lattice transform
+// ~1.25 us a direction and no spreading); on the AVX-512 machine they price type 3
+// at most a little high.
 struct PairRates {
   double collinear, general;  // source-direction pairs a second
 };
